@@ -1,0 +1,305 @@
+import { sql } from "drizzle-orm";
+import {
+  boolean,
+  customType,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  text,
+  timestamp,
+  uniqueIndex,
+} from "drizzle-orm/pg-core";
+
+const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({
+  dataType: () => "bytea",
+  fromDriver: (value) => (value instanceof Uint8Array ? value : new Uint8Array(value as ArrayBufferLike)),
+});
+
+const id = () =>
+  text("id")
+    .primaryKey()
+    .$defaultFn(() => crypto.randomUUID());
+const createdAt = () => timestamp("created_at", { withTimezone: true }).notNull().defaultNow();
+
+export const studyRole = pgEnum("study_role", ["owner", "interpreter", "reviewer", "viewer"]);
+export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);
+export const pinState = pgEnum("pin_state", ["open", "resolved"]);
+export const notifyMode = pgEnum("notify_mode", ["immediate", "digest", "off"]);
+
+export const users = pgTable("users", {
+  id: id(),
+  email: text("email").notNull().unique(),
+  name: text("name").notNull(),
+  passwordHash: text("password_hash").notNull(),
+  notifyMode: notifyMode("notify_mode").notNull().default("immediate"),
+  lastDigestAt: timestamp("last_digest_at", { withTimezone: true }),
+  createdAt: createdAt(),
+});
+
+export const studies = pgTable("studies", {
+  id: id(),
+  name: text("name").notNull(),
+  description: text("description").notNull().default(""),
+  createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+  createdAt: createdAt(),
+});
+
+export const memberships = pgTable(
+  "memberships",
+  {
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    role: studyRole("role").notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [primaryKey({ columns: [table.studyId, table.userId] }), index("memberships_user_idx").on(table.userId)],
+);
+
+export const faults = pgTable(
+  "faults",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    description: text("description").notNull().default(""),
+    sense: text("sense", { enum: ["normal", "reverse"] })
+      .notNull()
+      .default("normal"),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("faults_study_name_idx").on(table.studyId, table.name)],
+);
+
+export const segments = pgTable(
+  "segments",
+  {
+    id: id(),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    createdAt: createdAt(),
+  },
+  (table) => [uniqueIndex("segments_fault_name_idx").on(table.faultId, table.name)],
+);
+
+/** One uploaded CSV of picks: immutable once saved; versions count up per fault. */
+export const pickSets = pgTable(
+  "pick_sets",
+  {
+    id: id(),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    fileName: text("file_name").notNull(),
+    checksum: text("checksum").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    rowCount: integer("row_count").notNull(),
+    droppedRows: integer("dropped_rows").notNull().default(0),
+    units: text("units", { enum: ["m", "ft"] }).notNull(),
+    segmentNames: jsonb("segment_names").$type<string[]>().notNull(),
+    horizonNames: jsonb("horizon_names").$type<string[]>().notNull(),
+    /** picks in compact column-major binary (see lib/picks/codec.ts), metres */
+    picks: bytea("picks").notNull(),
+    uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [
+    uniqueIndex("pick_sets_fault_version_idx").on(table.faultId, table.version),
+    index("pick_sets_checksum_idx").on(table.faultId, table.checksum),
+  ],
+);
+
+export const analyses = pgTable(
+  "analyses",
+  {
+    id: id(),
+    pickSetId: text("pick_set_id")
+      .notNull()
+      .references(() => pickSets.id, { onDelete: "cascade" }),
+    status: analysisStatus("status").notNull().default("queued"),
+    stage: text("stage").notNull().default("queued"),
+    progress: real("progress").notNull().default(0),
+    parameters: jsonb("parameters").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    /** the engine's JSON report */
+    result: jsonb("result"),
+    /** decimated display grids for the 3D view (see lib/analysis/display.ts) */
+    display: bytea("display"),
+    engineVersion: text("engine_version"),
+    errorMessage: text("error_message"),
+    startedAt: timestamp("started_at", { withTimezone: true }),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [index("analyses_pick_set_idx").on(table.pickSetId)],
+);
+
+export const pins = pgTable(
+  "pins",
+  {
+    id: id(),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    pickSetId: text("pick_set_id").references(() => pickSets.id, { onDelete: "set null" }),
+    pickSetVersion: integer("pick_set_version"),
+    segmentName: text("segment_name"),
+    authorId: text("author_id").references(() => users.id, { onDelete: "set null" }),
+    x: doublePrecision("x").notNull(),
+    y: doublePrecision("y").notNull(),
+    z: doublePrecision("z").notNull(),
+    s: doublePrecision("s").notNull(),
+    t: doublePrecision("t").notNull(),
+    body: text("body").notNull(),
+    state: pinState("state").notNull().default("open"),
+    resolvedBy: text("resolved_by").references(() => users.id, { onDelete: "set null" }),
+    resolvedAt: timestamp("resolved_at", { withTimezone: true }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+    deletedAt: timestamp("deleted_at", { withTimezone: true }),
+  },
+  (table) => [index("pins_fault_idx").on(table.faultId)],
+);
+
+export const pinReplies = pgTable(
+  "pin_replies",
+  {
+    id: id(),
+    pinId: text("pin_id")
+      .notNull()
+      .references(() => pins.id, { onDelete: "cascade" }),
+    authorId: text("author_id").references(() => users.id, { onDelete: "set null" }),
+    body: text("body").notNull(),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+    deletedAt: timestamp("deleted_at", { withTimezone: true }),
+  },
+  (table) => [index("pin_replies_pin_idx").on(table.pinId)],
+);
+
+/** When each user last looked at each fault's pins: drives unread markers. */
+export const pinVisits = pgTable(
+  "pin_visits",
+  {
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    visitedAt: timestamp("visited_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [primaryKey({ columns: [table.userId, table.faultId] })],
+);
+
+export interface CameraState {
+  position: [number, number, number];
+  target: [number, number, number];
+  up: [number, number, number];
+  fov: number;
+}
+
+export interface ViewSettings {
+  layers: Record<string, boolean>;
+  colourMode: string;
+  exaggeration: number;
+}
+
+export const viewpoints = pgTable(
+  "viewpoints",
+  {
+    id: id(),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+    title: text("title").notNull(),
+    note: text("note").notNull().default(""),
+    camera: jsonb("camera").$type<CameraState>().notNull(),
+    settings: jsonb("settings").$type<ViewSettings>().notNull(),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [index("viewpoints_fault_idx").on(table.faultId)],
+);
+
+export const viewpointLinks = pgTable("viewpoint_links", {
+  id: id(),
+  viewpointId: text("viewpoint_id")
+    .notNull()
+    .references(() => viewpoints.id, { onDelete: "cascade" }),
+  token: text("token").notNull().unique(),
+  includePins: boolean("include_pins").notNull().default(false),
+  expiresAt: timestamp("expires_at", { withTimezone: true }),
+  revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
+  createdAt: createdAt(),
+});
+
+export const invitations = pgTable("invitations", {
+  id: id(),
+  studyId: text("study_id")
+    .notNull()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  email: text("email").notNull(),
+  role: studyRole("role").notNull(),
+  tokenHash: text("token_hash").notNull().unique(),
+  invitedBy: text("invited_by").references(() => users.id, { onDelete: "set null" }),
+  expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+  createdAt: createdAt(),
+});
+
+export const outbox = pgTable("outbox", {
+  id: id(),
+  to: text("to_address").notNull(),
+  subject: text("subject").notNull(),
+  text: text("text_body").notNull(),
+  html: text("html_body"),
+  kind: text("kind").notNull(),
+  studyId: text("study_id"),
+  createdAt: createdAt(),
+});
+
+export const auditLog = pgTable(
+  "audit_log",
+  {
+    id: id(),
+    studyId: text("study_id"),
+    userId: text("user_id"),
+    action: text("action").notNull(),
+    target: text("target").notNull().default(""),
+    details: jsonb("details").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    createdAt: createdAt(),
+  },
+  (table) => [index("audit_log_study_idx").on(table.studyId, table.createdAt)],
+);
+
+export type User = typeof users.$inferSelect;
+export type Study = typeof studies.$inferSelect;
+export type Membership = typeof memberships.$inferSelect;
+export type StudyRole = (typeof studyRole.enumValues)[number];
+export type Fault = typeof faults.$inferSelect;
+export type Segment = typeof segments.$inferSelect;
+export type PickSet = typeof pickSets.$inferSelect;
+export type Analysis = typeof analyses.$inferSelect;
+export type Pin = typeof pins.$inferSelect;
+export type PinReply = typeof pinReplies.$inferSelect;
+export type Viewpoint = typeof viewpoints.$inferSelect;
+export type ViewpointLink = typeof viewpointLinks.$inferSelect;
+export type Invitation = typeof invitations.$inferSelect;
+export type OutboxMessage = typeof outbox.$inferSelect;
+export type AuditEntry = typeof auditLog.$inferSelect;

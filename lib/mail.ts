@@ -1,0 +1,40 @@
+import "server-only";
+import nodemailer from "nodemailer";
+import { getDb } from "@/db/client";
+import { outbox } from "@/db/schema";
+
+export interface MailMessage {
+  to: string;
+  subject: string;
+  text: string;
+  html?: string;
+  kind: "invitation" | "pin-reply" | "mention" | "pin-resolved" | "digest" | string;
+  studyId?: string | null;
+}
+
+const FROM = process.env.MAIL_FROM ?? "Slipfield <no-reply@slipfield.local>";
+
+/** SMTP when SMTP_URL is set; otherwise nodemailer's JSON transport, which sends nothing (the local fake). */
+function transport() {
+  const globalForMail = globalThis as unknown as { slipfieldMail?: nodemailer.Transporter };
+  globalForMail.slipfieldMail ??= process.env.SMTP_URL
+    ? nodemailer.createTransport(process.env.SMTP_URL)
+    : nodemailer.createTransport({ jsonTransport: true });
+  return globalForMail.slipfieldMail;
+}
+
+/** Every message is kept in the outbox table (the development mailbox), then handed to the transport. */
+export async function sendMail(message: MailMessage) {
+  const db = await getDb();
+  const [stored] = await db
+    .insert(outbox)
+    .values({ to: message.to, subject: message.subject, text: message.text, html: message.html ?? null, kind: message.kind, studyId: message.studyId ?? null })
+    .returning();
+  await transport().sendMail({ from: FROM, to: message.to, subject: message.subject, text: message.text, html: message.html });
+  return stored;
+}
+
+export function appUrl(path: string) {
+  const base = process.env.SLIPFIELD_URL ?? `http://localhost:${process.env.PORT ?? 3000}`;
+  return new URL(path, base).toString();
+}

@@ -1,0 +1,64 @@
+// One command from a fresh clone: build if the sources changed, then serve. The database is opened,
+// migrated and seeded by instrumentation.ts when the server starts.
+import { spawn, spawnSync } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
+import path from "node:path";
+
+const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
+const dataDir = path.resolve(process.env.SLIPFIELD_DATA_DIR ?? path.join(root, "data"));
+const port = process.env.PORT ?? "3000";
+
+function fail(message) {
+  console.error(`slipfield: ${message}`);
+  process.exit(1);
+}
+
+try {
+  mkdirSync(dataDir, { recursive: true });
+} catch (error) {
+  fail(`cannot create the data folder ${dataDir} (${error.code ?? error.message}). Set SLIPFIELD_DATA_DIR to a writable folder.`);
+}
+
+function authSecret() {
+  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  const file = path.join(dataDir, "auth-secret");
+  if (existsSync(file)) return readFileSync(file, "utf8").trim();
+  const secret = randomBytes(32).toString("base64url");
+  try {
+    writeFileSync(file, secret, { mode: 0o600 });
+  } catch (error) {
+    fail(`cannot write ${file} (${error.code ?? error.message}): the data folder must be writable.`);
+  }
+  console.log(`slipfield: generated a new auth secret in ${file}`);
+  return secret;
+}
+
+function newestSourceTime() {
+  let newest = 0;
+  const visit = (entry) => {
+    const stats = statSync(entry);
+    if (stats.isDirectory()) {
+      for (const child of readdirSync(entry)) visit(path.join(entry, child));
+    } else newest = Math.max(newest, stats.mtimeMs);
+  };
+  for (const entry of ["app", "components", "scene", "lib", "db", "public", "package-lock.json", "next.config.ts", "tailwind.config.ts", "instrumentation.ts"]) {
+    const full = path.join(root, entry);
+    if (existsSync(full)) visit(full);
+  }
+  return newest;
+}
+
+const buildId = path.join(root, ".next", "BUILD_ID");
+const needsBuild = process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || statSync(buildId).mtimeMs < newestSourceTime());
+if (needsBuild) {
+  console.log("slipfield: building the app (first start or sources changed)…");
+  const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  if (build.status !== 0) fail("the build failed (see above).");
+}
+
+const env = { ...process.env, AUTH_SECRET: authSecret(), SLIPFIELD_DATA_DIR: dataDir, PORT: port, NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" };
+console.log(`slipfield: serving on http://localhost:${port} (data in ${dataDir})`);
+const server = spawn(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "start", "-p", port], { cwd: root, stdio: "inherit", env });
+for (const signal of ["SIGINT", "SIGTERM"]) process.on(signal, () => server.kill(signal));
+server.on("exit", (code, signal) => process.exit(code ?? (signal ? 1 : 0)));

@@ -14,6 +14,9 @@ export async function prepareServer() {
       await seedDemo();
       console.log(`slipfield: seeded the Quillon Graben demo study`);
     }
+    const { resumeUnfinishedAnalyses } = await import("./analysis/runner");
+    const resumed = await resumeUnfinishedAnalyses();
+    if (resumed > 0) console.log(`slipfield: resumed ${resumed} unfinished analyses`);
     console.log(`slipfield: database ready (${kind}) in ${Date.now() - started} ms`);
   } catch (error) {
     const reason = error instanceof Error ? error.message : String(error);

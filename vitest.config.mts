@@ -1,8 +1,11 @@
 import { defineConfig } from "vitest/config";
 import path from "node:path";
+import { fileURLToPath } from "node:url";
+
+const root = path.dirname(fileURLToPath(import.meta.url));
 
 export default defineConfig({
-  resolve: { alias: { "@": path.resolve(__dirname) } },
+  resolve: { alias: { "@": root } },
   test: {
     environment: "node",
     include: ["tests/**/*.test.ts", "tests/**/*.test.tsx"],
@@ -10,6 +13,6 @@ export default defineConfig({
     testTimeout: 30_000,
     hookTimeout: 60_000,
     server: { deps: { inline: ["server-only"] } },
-    alias: { "server-only": path.resolve(__dirname, "tests/support/server-only-stub.ts") },
+    alias: { "server-only": path.resolve(root, "tests/support/server-only-stub.ts") },
   },
 });

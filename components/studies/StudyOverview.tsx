@@ -1,0 +1,179 @@
+"use client";
+import Link from "next/link";
+import { useState } from "react";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { apiFetch, ApiRequestError } from "@/lib/api/client";
+import { FieldError } from "@/components/ui/FieldError";
+import { RoleBadge } from "./RoleBadge";
+
+type Role = "owner" | "interpreter" | "reviewer" | "viewer";
+interface Overview {
+  study: { id: string; name: string; description: string; createdAt: string };
+  role: Role;
+  faults: {
+    id: string;
+    name: string;
+    description: string;
+    sense: string;
+    latestVersion: number | null;
+    pickSetCount: number;
+    analysis: { status: string; dMaxM: number | null; lengthM: number | null; segmentCount: number | null } | null;
+  }[];
+  people: { userId: string; name: string; email: string; role: Role }[];
+  activity: { id: string; action: string; target: string; createdAt: string; userName: string | null }[];
+}
+
+const ROLES: Role[] = ["owner", "interpreter", "reviewer", "viewer"];
+const formatM = (value: number | null | undefined) => (value === null || value === undefined ? "—" : `${value >= 100 ? value.toFixed(0) : value.toFixed(1)} m`);
+
+export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
+  const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<Overview>(`/api/studies/${studyId}`) });
+  if (overview.isPending) return <p className="text-sm text-slate-500">Loading study…</p>;
+  if (overview.isError) return <p className="text-sm text-red-600">Could not load the study: {overview.error.message}</p>;
+  const { study, faults, people, activity, role } = overview.data;
+  return (
+    <div className="space-y-8">
+      <div>
+        <Link href="/studies" className="text-sm text-slip-700 hover:underline dark:text-slip-300">← Studies</Link>
+        <div className="mt-2 flex flex-wrap items-center gap-3">
+          <h1 className="text-2xl font-semibold" data-testid="study-title">{study.name}</h1>
+          <RoleBadge role={role} />
+        </div>
+        {study.description && <p className="mt-2 max-w-3xl text-slate-600 dark:text-slate-300">{study.description}</p>}
+      </div>
+      <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
+        <section className="card overflow-hidden">
+          <div className="flex items-center justify-between border-b border-slate-200 px-5 py-3 dark:border-slate-800">
+            <h2 className="font-semibold">Faults</h2>
+            {canEdit && <NewFault studyId={studyId} />}
+          </div>
+          {faults.length === 0 ? (
+            <p className="px-5 py-10 text-center text-sm text-slate-500">No faults yet.{canEdit ? " Add one, then upload its pick set." : ""}</p>
+          ) : (
+            <table className="w-full text-sm" data-testid="fault-table">
+              <thead className="bg-slate-50 text-left text-xs uppercase tracking-wide text-slate-500 dark:bg-slate-950">
+                <tr>
+                  <th className="px-5 py-2 font-medium">Fault</th>
+                  <th className="px-3 py-2 font-medium">Segments</th>
+                  <th className="px-3 py-2 text-right font-medium">Dmax</th>
+                  <th className="px-3 py-2 text-right font-medium">Length</th>
+                  <th className="px-5 py-2 text-right font-medium">Pick set</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-slate-100 dark:divide-slate-800">
+                {faults.map((fault) => (
+                  <tr key={fault.id} className="hover:bg-slate-50 dark:hover:bg-slate-800/50">
+                    <td className="px-5 py-3">
+                      <Link href={`/studies/${studyId}/faults/${fault.id}`} className="font-medium text-slip-700 hover:underline dark:text-slip-300">{fault.name}</Link>
+                      <div className="text-xs text-slate-500">{fault.sense} fault{fault.description ? ` · ${fault.description}` : ""}</div>
+                    </td>
+                    <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
+                    <td className="num px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
+                    <td className="num px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
+                    <td className="px-5 py-3 text-right text-xs text-slate-500">
+                      {fault.latestVersion ? <>v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}</> : "none yet"}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+        </section>
+        <section className="card">
+          <div className="border-b border-slate-200 px-5 py-3 dark:border-slate-800">
+            <h2 className="font-semibold">People</h2>
+          </div>
+          <ul className="divide-y divide-slate-100 dark:divide-slate-800" data-testid="people">
+            {people.map((person) => (
+              <li key={person.userId} className="flex items-center justify-between gap-2 px-5 py-2.5 text-sm">
+                <div className="min-w-0">
+                  <div className="truncate font-medium">{person.name}{person.userId === currentUserId && <span className="text-slate-400"> (you)</span>}</div>
+                  <div className="truncate text-xs text-slate-500">{person.email}</div>
+                </div>
+                {canAdmin ? <RoleSelect studyId={studyId} userId={person.userId} role={person.role} /> : <RoleBadge role={person.role} />}
+              </li>
+            ))}
+          </ul>
+          {canAdmin && <InviteForm studyId={studyId} />}
+        </section>
+      </div>
+      <section className="card">
+        <div className="border-b border-slate-200 px-5 py-3 dark:border-slate-800">
+          <h2 className="font-semibold">Recent activity</h2>
+        </div>
+        {activity.length === 0 ? (
+          <p className="px-5 py-6 text-sm text-slate-500">Nothing yet.</p>
+        ) : (
+          <ul className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
+            {activity.map((entry) => (
+              <li key={entry.id} className="flex justify-between gap-4 px-5 py-2">
+                <span><span className="font-medium">{entry.userName ?? "Someone"}</span> · {entry.action.replace(".", " ")} {entry.target && <span className="text-slate-500">{entry.target}</span>}</span>
+                <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>{new Date(entry.createdAt).toLocaleString()}</time>
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+    </div>
+  );
+}
+
+function useStudyMutation<T>(studyId: string, mutationFn: (input: T) => Promise<unknown>) {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn, onSuccess: () => queryClient.invalidateQueries({ queryKey: ["study", studyId] }) });
+}
+
+function NewFault({ studyId }: { studyId: string }) {
+  const [open, setOpen] = useState(false);
+  const [name, setName] = useState("");
+  const create = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/faults`, { method: "POST", json: { name } }));
+  const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
+  if (!open) return <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">Add fault</button>;
+  return (
+    <form className="flex items-start gap-2" onSubmit={(event) => { event.preventDefault(); create.mutate(undefined, { onSuccess: () => { setName(""); setOpen(false); } }); }}>
+      <div>
+        <input className="field py-1.5" aria-label="Fault name" placeholder="Fault name" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
+        <FieldError errors={fieldErrors?.name ?? (create.error && !fieldErrors ? [create.error.message] : undefined)} />
+      </div>
+      <button className="btn-primary py-1.5" disabled={create.isPending}>Add</button>
+    </form>
+  );
+}
+
+function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string; role: Role }) {
+  const change = useStudyMutation(studyId, (next: Role) => apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "PATCH", json: { role: next } }));
+  return (
+    <div className="text-right">
+      <select className="field w-auto py-1 text-xs" aria-label="Role" value={role} onChange={(event) => change.mutate(event.target.value as Role)}>
+        {ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+      </select>
+      {change.error && <p className="field-error text-xs">{change.error.message}</p>}
+    </div>
+  );
+}
+
+function InviteForm({ studyId }: { studyId: string }) {
+  const [email, setEmail] = useState("");
+  const [role, setRole] = useState<Role>("reviewer");
+  const invite = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/members`, { method: "POST", json: { email, role } }));
+  const fieldErrors = invite.error instanceof ApiRequestError ? invite.error.details?.fieldErrors : undefined;
+  return (
+    <form
+      className="space-y-2 border-t border-slate-200 px-5 py-4 dark:border-slate-800"
+      data-testid="invite-form"
+      onSubmit={(event) => { event.preventDefault(); invite.mutate(undefined, { onSuccess: () => setEmail("") }); }}
+      noValidate
+    >
+      <h3 className="text-sm font-semibold">Invite someone</h3>
+      <div className="flex gap-2">
+        <input className="field" type="email" placeholder="name@company.com" aria-label="E-mail to invite" value={email} onChange={(event) => setEmail(event.target.value)} />
+        <select className="field w-auto" aria-label="Role for the invitation" value={role} onChange={(event) => setRole(event.target.value as Role)}>
+          {ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+        </select>
+      </div>
+      <FieldError errors={fieldErrors?.email ?? (invite.error && !fieldErrors ? [invite.error.message] : undefined)} />
+      {invite.isSuccess && <p className="text-sm text-slip-700 dark:text-slip-300">Invitation sent.</p>}
+      <button className="btn-primary" disabled={invite.isPending}>Send invitation</button>
+    </form>
+  );
+}

@@ -1,0 +1,98 @@
+"use client";
+import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
+import { CautionNote } from "./CautionNote";
+import { degrees, metres, MODEL_NAMES, plain, ratio } from "./format";
+
+function Row({ label, value, testId }: { label: string; value: string; testId?: string }) {
+  return (
+    <div className="flex items-baseline justify-between gap-3 py-1">
+      <dt className="text-slate-500 dark:text-slate-400">{label}</dt>
+      <dd className="num text-right" data-testid={testId}>{value}</dd>
+    </div>
+  );
+}
+
+function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boolean }) {
+  const tip = segment.tipLine;
+  return (
+    <section className="space-y-3" data-testid={`sheet-${segment.id}`}>
+      <h3 className="flex items-center justify-between text-sm font-semibold">
+        <span>Segment {segment.id}</span>
+        <span className="text-xs font-normal text-slate-500">{segment.pickCount.toLocaleString("en")} picks</span>
+      </h3>
+      <dl className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
+        <Row label="Dmax (displacement)" value={metres(segment.max.displacementM)} testId={first ? "sheet-dmax" : undefined} />
+        <Row label="Max throw" value={metres(segment.max.throwM)} />
+        <Row label="Length L (tip line)" value={metres(tip.lengthM)} testId={first ? "sheet-length" : undefined} />
+        <Row label="Height H (tip line)" value={metres(tip.heightM)} />
+        <Row label="Aspect ratio L/H" value={plain(tip.aspectRatio)} />
+        <Row label="Area" value={`${(tip.areaM2 / 1e6).toFixed(2)} km²`} />
+        <Row label="Dmax/L" value={ratio(segment.scaling.dOverL)} />
+        <Row label="Mapped length / height" value={`${metres(segment.mappedLimit.lengthM, 0)} / ${metres(segment.mappedLimit.heightM, 0)}`} />
+        <Row label="Strike / dip" value={`${degrees(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
+        <Row label="Plane misfit (RMS)" value={metres(segment.plane.rmsM)} />
+        <Row label="Mean / max gradient" value={`${plain(segment.gradients.meanPerM, 3)} / ${plain(segment.gradients.maxPerM, 3)}`} />
+        <Row label="Tip gradients (strike start / end)" value={`${plain(segment.gradients.tips.strikeStartPerM, 3)} / ${plain(segment.gradients.tips.strikeEndPerM, 3)}`} />
+        <Row label="Tip gradients (up / down dip)" value={`${plain(segment.gradients.tips.upDipPerM, 3)} / ${plain(segment.gradients.tips.downDipPerM, 3)}`} />
+        <Row label="Peak offset from centre (s, t)" value={`${plain(segment.asymmetry.alongStrike)} / ${plain(segment.asymmetry.downDip)}`} />
+      </dl>
+      <div className="rounded-lg bg-slate-50 p-3 text-xs leading-relaxed text-slate-600 dark:bg-slate-950 dark:text-slate-300">
+        <p>
+          <span className="font-medium text-slate-800 dark:text-slate-100">Tip line:</span> {MODEL_NAMES[tip.model] ?? tip.model}, ±{metres(tip.uncertaintyM, 0)}. {tip.method}
+        </p>
+        <p className="mt-1.5">
+          <span className="font-medium text-slate-800 dark:text-slate-100">Scaling:</span> {segment.scaling.note}
+        </p>
+        {segment.plane.planarityWarning && <p className="mt-1.5 text-amber-700 dark:text-amber-300">{segment.plane.planarityWarning}</p>}
+      </div>
+    </section>
+  );
+}
+
+export function FaultSheet({ report }: { report: AnalysisReport }) {
+  return (
+    <div className="space-y-5">
+      {report.segments.map((segment, index) => (
+        <SegmentSheet key={segment.id} segment={segment} first={index === 0} />
+      ))}
+      {report.relays.length > 0 && (
+        <section>
+          <h3 className="mb-2 text-sm font-semibold">Relays</h3>
+          <table className="w-full text-xs" data-testid="relay-table">
+            <thead className="text-left text-slate-500">
+              <tr>
+                <th className="py-1 font-medium">Pair</th>
+                <th className="py-1 text-right font-medium">Overlap</th>
+                <th className="py-1 text-right font-medium">Separation</th>
+                <th className="py-1 text-right font-medium">O/S</th>
+                <th className="py-1 text-right font-medium">Linkage</th>
+              </tr>
+            </thead>
+            <tbody>
+              {report.relays.map((relay) => (
+                <tr key={relay.segments.join("-")} className="border-t border-slate-100 dark:border-slate-800">
+                  <td className="py-1">{relay.segments.join(" – ")}</td>
+                  <td className="num py-1 text-right">{metres(relay.overlapM, 0)}</td>
+                  <td className="num py-1 text-right">{metres(relay.separationM, 0)}</td>
+                  <td className="num py-1 text-right">{plain(relay.overlapToSeparation, 1)}</td>
+                  <td className="py-1 text-right">{relay.linkage}-linked</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          {report.relays.map((relay) => (
+            <p key={relay.segments.join("-")} className="mt-2 text-xs leading-relaxed text-slate-600 dark:text-slate-300">
+              {relay.evidence} {relay.comparison}
+            </p>
+          ))}
+        </section>
+      )}
+      {report.warnings.length > 0 && (
+        <ul className="list-disc space-y-1 pl-4 text-xs text-amber-700 dark:text-amber-300">
+          {report.warnings.map((warning) => <li key={warning}>{warning}</li>)}
+        </ul>
+      )}
+      <CautionNote compact />
+    </div>
+  );
+}

@@ -1,0 +1,140 @@
+"use client";
+import Link from "next/link";
+import { useState } from "react";
+import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { apiFetch } from "@/lib/api/client";
+import { decodeFaultDisplay } from "@/lib/analysis/display";
+import type { AnalysisReport } from "@/lib/engine/types";
+import { FaultSheet } from "./FaultSheet";
+import { FaultViewer } from "./FaultViewer";
+import { UploadPanel } from "./UploadPanel";
+
+interface AnalysisState {
+  id: string;
+  status: "queued" | "running" | "done" | "failed";
+  stage: string;
+  progress: number;
+  result: AnalysisReport | null;
+  errorMessage: string | null;
+  engineVersion: string | null;
+  pickSetId: string;
+  version: number;
+  fileName: string;
+  checksum: string;
+  uploadedAt: string;
+}
+
+interface PickSetRow { id: string; version: number; fileName: string; rowCount: number; droppedRows: number; uploadedAt: string; units: string }
+
+const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
+
+export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean }) {
+  const { faultId, canEdit } = props;
+  const queryClient = useQueryClient();
+  const [pickSetId, setPickSetId] = useState<string | undefined>(undefined);
+  const [showUpload, setShowUpload] = useState(false);
+
+  const analysis = useQuery({
+    queryKey: ["analysis", faultId, pickSetId ?? "latest"],
+    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis${pickSetId ? `?pickSet=${pickSetId}` : ""}`),
+    refetchInterval: (query) => {
+      const status = query.state.data?.analysis?.status;
+      return status === "queued" || status === "running" ? 700 : false;
+    },
+  });
+  const pickSets = useQuery({ queryKey: ["pick-sets", faultId], queryFn: () => apiFetch<{ pickSets: PickSetRow[] }>(`/api/faults/${faultId}/pick-sets`) });
+  const current = analysis.data?.analysis ?? null;
+  const display = useQuery({
+    queryKey: ["display", faultId, current?.id],
+    enabled: current?.status === "done",
+    staleTime: Infinity,
+    queryFn: async () => {
+      const response = await fetch(`/api/faults/${faultId}/analysis/display?analysis=${current!.id}`);
+      if (!response.ok) throw new Error("Could not load the display surface.");
+      return decodeFaultDisplay(new Uint8Array(await response.arrayBuffer()));
+    },
+  });
+
+  function onSaved() {
+    setShowUpload(false);
+    setPickSetId(undefined);
+    void queryClient.invalidateQueries({ queryKey: ["analysis", faultId] });
+    void queryClient.invalidateQueries({ queryKey: ["pick-sets", faultId] });
+  }
+
+  const report = current?.status === "done" ? current.result : null;
+  return (
+    <div className="mx-auto max-w-[1600px] px-4 py-5">
+      <div className="mb-4 flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <nav className="text-sm text-slate-500">
+            <Link href="/studies" className="hover:underline">Studies</Link> / <Link href={`/studies/${props.studyId}`} className="hover:underline">{props.studyName}</Link>
+          </nav>
+          <h1 className="text-2xl font-semibold" data-testid="fault-title">{props.faultName}</h1>
+          {current && (
+            <p className="text-xs text-slate-500">
+              Pick set v{current.version} · {current.fileName} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
+            </p>
+          )}
+        </div>
+        <div className="flex items-center gap-2">
+          {pickSets.data && pickSets.data.pickSets.length > 1 && (
+            <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => setPickSetId(event.target.value || undefined)} data-testid="pick-set-select">
+              <option value="">Latest version</option>
+              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks)</option>)}
+            </select>
+          )}
+          {canEdit && (
+            <button className="btn-primary" onClick={() => setShowUpload((open) => !open)} data-testid="open-upload">
+              {showUpload ? "Close upload" : "Upload pick set"}
+            </button>
+          )}
+        </div>
+      </div>
+
+      {canEdit && showUpload && (
+        <div className="card mb-4 p-4">
+          <UploadPanel faultId={faultId} onSaved={onSaved} />
+        </div>
+      )}
+
+      {current && (current.status === "queued" || current.status === "running") && (
+        <div className="card mb-4 p-4" data-testid="analysis-progress">
+          <div className="mb-2 flex justify-between text-sm">
+            <span>Analysing pick set v{current.version}: <span className="font-medium">{current.stage}</span></span>
+            <span className="num text-slate-500">{Math.round(current.progress * 100)}%</span>
+          </div>
+          <div className="h-2 overflow-hidden rounded bg-slate-200 dark:bg-slate-800">
+            <div className="h-full bg-slip-500 transition-all" style={{ width: `${Math.max(3, current.progress * 100)}%` }} />
+          </div>
+          <ol className="mt-2 flex flex-wrap gap-2 text-xs text-slate-500">
+            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{stage}</li>)}
+          </ol>
+        </div>
+      )}
+      {current?.status === "failed" && (
+        <div className="card mb-4 border-red-300 p-4 text-sm text-red-800 dark:text-red-200" data-testid="analysis-failed">
+          The analysis failed: {current.errorMessage}
+        </div>
+      )}
+      {analysis.isSuccess && !current && (
+        <div className="card p-10 text-center" data-testid="no-picks">
+          <h2 className="font-semibold">No picks yet</h2>
+          <p className="mt-2 text-sm text-slate-500">{canEdit ? "Upload a pick CSV to build the displacement surface." : "An interpreter has not uploaded picks for this fault yet."}</p>
+        </div>
+      )}
+
+      {report && (
+        <div className="grid gap-4 xl:grid-cols-[1fr_380px]">
+          <div className="card min-h-[560px] overflow-hidden" data-testid="viewer-card">
+            {display.data ? <FaultViewer display={display.data} report={report} /> : <div className="flex h-[560px] items-center justify-center text-sm text-slate-500">{display.isError ? display.error.message : "Loading surface…"}</div>}
+          </div>
+          <aside className="card max-h-[calc(100vh-9rem)] overflow-auto p-4" data-testid="fault-sheet">
+            <h2 className="mb-3 font-semibold">Fault sheet</h2>
+            <FaultSheet report={report} />
+          </aside>
+        </div>
+      )}
+    </div>
+  );
+}

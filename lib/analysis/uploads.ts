@@ -1,0 +1,174 @@
+import "server-only";
+import { createHash } from "node:crypto";
+import { and, desc, eq, max } from "drizzle-orm";
+import { z } from "zod";
+import { getDb } from "@/db/client";
+import { analyses, pickSets, segments } from "@/db/schema";
+import type { StudyAccess } from "@/lib/access";
+import { ApiError } from "@/lib/api/errors";
+import { recordAudit } from "@/lib/audit";
+import { parsePickCsv } from "@/lib/engine/csv";
+import type { ParseResult, RejectedRow } from "@/lib/engine/types";
+import { encodePicks } from "@/lib/picks/codec";
+import { scheduleAnalysis } from "./runner";
+
+export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
+export const MAX_ROWS = 2_000_000;
+const PREVIEW_ROWS = 20;
+export const PROBLEM_PAGE_SIZE = 50;
+
+export const uploadOptionsSchema = z.object({
+  units: z.enum(["m", "ft"]).default("m"),
+  dropBadRows: z
+    .enum(["true", "false"])
+    .default("false")
+    .transform((value) => value === "true"),
+  problemPage: z.coerce.number().int().min(0).max(10_000).default(0),
+});
+export type UploadOptions = z.infer<typeof uploadOptionsSchema>;
+
+export interface UploadedFile {
+  name: string;
+  bytes: Uint8Array;
+}
+
+function checksumOf(bytes: Uint8Array) {
+  return createHash("sha256").update(bytes).digest("hex");
+}
+
+function decodeText(file: UploadedFile): string {
+  try {
+    return new TextDecoder("utf-8", { fatal: true }).decode(file.bytes).replace(/^\uFEFF/, "");
+  } catch {
+    throw new ApiError(400, `${file.name} is not a UTF-8 text file. Save it as CSV (UTF-8) and try again.`);
+  }
+}
+
+function countRows(text: string) {
+  let rows = 0;
+  for (let index = 0; index < text.length; index++) if (text.charCodeAt(index) === 10) rows++;
+  return rows;
+}
+
+function parseUpload(file: UploadedFile, options: UploadOptions): ParseResult {
+  if (file.bytes.byteLength === 0) throw new ApiError(400, `${file.name} is empty.`);
+  if (file.bytes.byteLength > MAX_UPLOAD_BYTES) throw new ApiError(413, `${file.name} is larger than the 100 MB limit.`);
+  const text = decodeText(file);
+  if (countRows(text) > MAX_ROWS + 1) throw new ApiError(413, `${file.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
+  try {
+    return parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows });
+  } catch (error) {
+    const rejected = (error as { rejected?: RejectedRow[] }).rejected;
+    if (Array.isArray(rejected) || error instanceof Error) {
+      throw new ApiError(422, error instanceof Error ? error.message : "The picks cannot be used.", { rejected: rejected ?? [] });
+    }
+    throw error;
+  }
+}
+
+/** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
+export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
+  const parsed = parseUpload(file, options);
+  const checksum = checksumOf(file.bytes);
+  const db = await getDb();
+  const sameFile = await db.query.pickSets.findFirst({
+    where: and(eq(pickSets.faultId, access.faultId), eq(pickSets.checksum, checksum)),
+    columns: { version: true, uploadedAt: true },
+  });
+  const { picks } = parsed;
+  const sampleCount = Math.min(PREVIEW_ROWS, picks.x.length);
+  const sample = Array.from({ length: sampleCount }, (_, index) => ({
+    row: picks.sourceRow[index],
+    x: picks.x[index],
+    y: picks.y[index],
+    z: picks.z[index],
+    throwM: picks.throwM[index],
+    segment: picks.segmentNames[picks.segment[index]],
+    horizon: picks.horizon[index] >= 0 ? picks.horizonNames[picks.horizon[index]] : null,
+  }));
+  const start = options.problemPage * PROBLEM_PAGE_SIZE;
+  return {
+    fileName: file.name,
+    sizeBytes: file.bytes.byteLength,
+    checksum,
+    units: options.units,
+    rows: parsed.rows,
+    accepted: parsed.accepted,
+    segments: picks.segmentNames,
+    horizons: picks.horizonNames,
+    sample,
+    problems: parsed.rejected.slice(start, start + PROBLEM_PAGE_SIZE),
+    problemCount: parsed.rejected.length,
+    problemsTruncated: parsed.rejectedTruncated,
+    problemPage: options.problemPage,
+    problemPageSize: PROBLEM_PAGE_SIZE,
+    warnings: parsed.warnings,
+    duplicateOfVersion: sameFile?.version ?? null,
+  };
+}
+
+/** Saves the pick set, its segments and a queued analysis in one transaction, then starts the analysis. */
+export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
+  const parsed = parseUpload(file, options);
+  if (parsed.rejected.length > 0 && !options.dropBadRows) {
+    throw new ApiError(422, `${parsed.rejected.length}${parsed.rejectedTruncated ? "+" : ""} rows have problems. Fix them, or choose to drop the bad rows.`, {
+      rejected: parsed.rejected.slice(0, PROBLEM_PAGE_SIZE),
+    });
+  }
+  const checksum = checksumOf(file.bytes);
+  const db = await getDb();
+  const { pickSet, analysis } = await db.transaction(async (tx) => {
+    const [{ latest }] = await tx.select({ latest: max(pickSets.version) }).from(pickSets).where(eq(pickSets.faultId, access.faultId));
+    for (const name of parsed.picks.segmentNames) {
+      await tx.insert(segments).values({ faultId: access.faultId, name }).onConflictDoNothing();
+    }
+    const [pickSet] = await tx
+      .insert(pickSets)
+      .values({
+        faultId: access.faultId,
+        version: Number(latest ?? 0) + 1,
+        fileName: file.name.slice(0, 255),
+        checksum,
+        sizeBytes: file.bytes.byteLength,
+        rowCount: parsed.accepted,
+        droppedRows: parsed.rejected.length,
+        units: options.units,
+        segmentNames: parsed.picks.segmentNames,
+        horizonNames: parsed.picks.horizonNames,
+        picks: encodePicks(parsed.picks),
+        uploadedBy: access.user.id,
+      })
+      .returning({ id: pickSets.id, version: pickSets.version });
+    const [analysis] = await tx.insert(analyses).values({ pickSetId: pickSet.id }).returning({ id: analyses.id });
+    return { pickSet, analysis };
+  });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "pickset.upload",
+    target: `${file.name} (v${pickSet.version})`,
+    details: { faultId: access.faultId, rows: parsed.accepted, dropped: parsed.rejected.length, checksum },
+  });
+  scheduleAnalysis(analysis.id);
+  return { pickSetId: pickSet.id, version: pickSet.version, analysisId: analysis.id };
+}
+
+export async function listPickSets(faultId: string) {
+  const db = await getDb();
+  return db
+    .select({
+      id: pickSets.id,
+      version: pickSets.version,
+      fileName: pickSets.fileName,
+      checksum: pickSets.checksum,
+      sizeBytes: pickSets.sizeBytes,
+      rowCount: pickSets.rowCount,
+      droppedRows: pickSets.droppedRows,
+      units: pickSets.units,
+      uploadedAt: pickSets.uploadedAt,
+      uploadedBy: pickSets.uploadedBy,
+    })
+    .from(pickSets)
+    .where(eq(pickSets.faultId, faultId))
+    .orderBy(desc(pickSets.version));
+}

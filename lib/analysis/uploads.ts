@@ -68,7 +68,8 @@ function parseUpload(file: UploadedFile, options: UploadOptions): ParseResult {
 
 /** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
 export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
-  const parsed = parseUpload(file, options);
+  // The preview always lists every problem row next to the usable picks; the choice to drop them is made on confirm.
+  const parsed = parseUpload(file, { ...options, dropBadRows: true });
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const sameFile = await db.query.pickSets.findFirst({

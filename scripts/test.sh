@@ -42,5 +42,5 @@ if [ -n "${TEST_DATABASE_URL:-}" ]; then
 fi
 
 echo "== browser tests (Playwright, Debian chromium)"
-NEXT_TELEMETRY_DISABLED=1 npx next build >/tmp/slipfield-build.log 2>&1 || { tail -50 /tmp/slipfield-build.log; exit 1; }
+NEXT_TELEMETRY_DISABLED=1 npm run build >/tmp/slipfield-build.log 2>&1 || { tail -50 /tmp/slipfield-build.log; exit 1; }
 npx playwright test

@@ -2,27 +2,79 @@ import "server-only";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, pickSets } from "@/db/schema";
-import { analyzePicks, ENGINE_VERSION } from "@/lib/engine/pipeline";
-import { decodePicks } from "@/lib/picks/codec";
-import { buildFaultDisplay, encodeFaultDisplay } from "./display";
+import { existsSync } from "node:fs";
+import path from "node:path";
+import { Worker } from "node:worker_threads";
+import { ENGINE_VERSION } from "@/lib/engine/pipeline";
+import { computeAnalysis, type AnalysisJob, type AnalysisOutput } from "./compute";
 
 const queue: string[] = [];
-let running = false;
+let active = 0;
+const MAX_PARALLEL = Math.max(1, Number(process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1));
+const timeLimitMs = () => Number(process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS ?? 10 * 60_000);
+const WORKER_FILE = path.join(process.cwd(), "dist", "analysis-worker.mjs");
 
-/** Analyses run one at a time, in order, off the request that queued them. */
+/** Analyses run in order, at most MAX_PARALLEL at once, off the request that queued them. */
 export function scheduleAnalysis(analysisId: string) {
   queue.push(analysisId);
-  if (!running) setImmediate(drainQueue);
+  setImmediate(drainQueue);
 }
 
-async function drainQueue() {
-  if (running) return;
-  running = true;
-  try {
-    while (queue.length > 0) await runAnalysis(queue.shift()!);
-  } finally {
-    running = false;
+function drainQueue() {
+  while (active < MAX_PARALLEL && queue.length > 0) {
+    const next = queue.shift()!;
+    active++;
+    runAnalysis(next)
+      .catch((error) => console.error(`[slipfield] analysis ${next} could not be recorded:`, error))
+      .finally(() => {
+        active--;
+        drainQueue();
+      });
   }
+}
+
+class AnalysisTimeout extends Error {}
+
+/**
+ * Compute in a worker thread when the bundled worker exists (production), so the web server's event loop stays free
+ * and a runaway analysis can be stopped; in-process otherwise (tests, development without a worker build).
+ */
+function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) => void): Promise<AnalysisOutput> {
+  if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
+    return new Promise((resolve, reject) => setImmediate(() => {
+      try {
+        resolve(computeAnalysis(job, onStage));
+      } catch (error) {
+        reject(error);
+      }
+    }));
+  }
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(WORKER_FILE, { workerData: job, resourceLimits: { maxOldGenerationSizeMb: 3072 } });
+    const limitMs = timeLimitMs();
+    const timer = setTimeout(() => {
+      void worker.terminate();
+      reject(new AnalysisTimeout(`The analysis ran past the ${Math.round(limitMs / 1000)} s time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`));
+    }, limitMs);
+    worker.on("message", (message: { kind: string; stage?: string; fraction?: number; report?: AnalysisOutput["report"]; display?: Uint8Array; message?: string }) => {
+      if (message.kind === "stage") onStage(message.stage!, message.fraction!);
+      else if (message.kind === "done") {
+        clearTimeout(timer);
+        resolve({ report: message.report!, display: message.display! });
+      } else if (message.kind === "failed") {
+        clearTimeout(timer);
+        reject(new Error(message.message));
+      }
+    });
+    worker.on("error", (error) => {
+      clearTimeout(timer);
+      reject(error);
+    });
+    worker.on("exit", (code) => {
+      clearTimeout(timer);
+      if (code !== 0) reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`));
+    });
+  });
 }
 
 /** Runs one analysis to the end: done with results, or failed with a message the user can read. */
@@ -40,21 +92,15 @@ export async function runAnalysis(analysisId: string) {
   let lastWrite = 0;
   const stageWrites: Promise<unknown>[] = [];
   try {
-    const picks = decodePicks(pickSet.picks);
     const parameters = analysis.parameters as { intervalM?: number; cellM?: number };
-    const { report, grids } = analyzePicks(picks, {
-      units: pickSet.units,
-      intervalM: parameters.intervalM,
-      cellM: parameters.cellM,
-      onStage: (stage: string, fraction: number) => {
-        const now = Date.now();
-        if (now - lastWrite < 150) return;
-        lastWrite = now;
-        stageWrites.push(db.update(analyses).set({ stage, progress: fraction }).where(eq(analyses.id, analysisId)));
-      },
+    const job: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM };
+    const { report, display } = await compute(job, (stage, fraction) => {
+      const now = Date.now();
+      if (now - lastWrite < 150) return;
+      lastWrite = now;
+      stageWrites.push(db.update(analyses).set({ stage, progress: fraction }).where(eq(analyses.id, analysisId)));
     });
     await Promise.allSettled(stageWrites);
-    const display = encodeFaultDisplay(buildFaultDisplay({ report, grids, picks }));
     await db
       .update(analyses)
       .set({ status: "done", stage: "done", progress: 1, result: report, display, engineVersion: ENGINE_VERSION, finishedAt: new Date() })

@@ -1,0 +1,24 @@
+import { analyzePicks } from "@/lib/engine/pipeline";
+import type { AnalysisReport } from "@/lib/engine/types";
+import { decodePicks } from "@/lib/picks/codec";
+import { buildFaultDisplay, encodeFaultDisplay } from "./display";
+
+export interface AnalysisJob {
+  picks: Uint8Array;
+  units: "m" | "ft";
+  intervalM?: number;
+  cellM?: number;
+}
+
+export interface AnalysisOutput {
+  report: AnalysisReport;
+  display: Uint8Array;
+}
+
+/** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
+export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}): AnalysisOutput {
+  const picks = decodePicks(job.picks);
+  const { report, grids } = analyzePicks(picks, { units: job.units, intervalM: job.intervalM, cellM: job.cellM, onStage });
+  onStage("display", 0.98);
+  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
+}

@@ -1,0 +1,48 @@
+import { execFileSync } from "node:child_process";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+
+vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
+
+import { eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { analyses } from "@/db/schema";
+import { confirmUpload } from "@/lib/analysis/uploads";
+import { runAnalysis } from "@/lib/analysis/runner";
+import { demoCsv } from "@/lib/demo";
+import { useFreshDatabase } from "../support/database";
+import { studyWithEveryRole } from "../support/fixtures";
+
+describe("analyses in the worker thread", () => {
+  let access: Parameters<typeof confirmUpload>[0];
+  beforeAll(async () => {
+    execFileSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "ignore" });
+    process.env.SLIPFIELD_INLINE_ANALYSIS = "0";
+    await useFreshDatabase();
+    const fixture = await studyWithEveryRole();
+    access = { user: fixture.people.interpreter, studyId: fixture.study.id, role: "interpreter", faultId: fixture.fault.id };
+  });
+  afterAll(() => {
+    process.env.SLIPFIELD_INLINE_ANALYSIS = "1";
+    delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
+  });
+
+  const upload = () => confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
+
+  it("computes the same report off the main thread", async () => {
+    const { analysisId } = await upload();
+    await runAnalysis(analysisId);
+    const stored = await (await getDb()).query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
+    expect(stored?.status).toBe("done");
+    expect((stored?.result as { segments: unknown[] }).segments).toHaveLength(1);
+    expect(stored?.display?.byteLength).toBeGreaterThan(1000);
+  });
+
+  it("stops an analysis that runs past the time limit and marks it failed with a message", async () => {
+    process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS = "1";
+    const { analysisId } = await upload();
+    await runAnalysis(analysisId);
+    const stored = await (await getDb()).query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
+    expect(stored?.status).toBe("failed");
+    expect(stored?.errorMessage).toMatch(/time limit/);
+  });
+});

@@ -132,6 +132,8 @@ export interface RelayResult {
   linkage: "soft" | "breached" | "hard";
   evidence: string;
   comparison: string;
+  /** sum of both segments' displacement along mean strike at their mean centroid elevation */
+  summedProfile: { alongStrikeM: number[]; displacementM: number[] };
 }
 
 export interface AnalysisReport {

@@ -1,0 +1,119 @@
+import type { RegularGrid } from "./types";
+
+export interface GridSpec {
+  s0: number;
+  t0: number;
+  cellM: number;
+  columns: number;
+  rows: number;
+}
+
+export const DEFAULT_GRID_CELLS = 512;
+
+/** Grid covering the points; cell from point spacing (half the median Delaunay edge) unless given, capped to gridCells per side. */
+export function gridSpecFor(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  spacingM: number,
+  options: { cellM?: number; gridCells?: number } = {},
+): GridSpec {
+  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+  for (let i = 0; i < s.length; i++) {
+    if (s[i] < minS) minS = s[i];
+    if (s[i] > maxS) maxS = s[i];
+    if (t[i] < minT) minT = t[i];
+    if (t[i] > maxT) maxT = t[i];
+  }
+  const cap = Math.max(2, options.gridCells ?? DEFAULT_GRID_CELLS);
+  const extent = Math.max(maxS - minS, maxT - minT);
+  let cellM = options.cellM && options.cellM > 0 ? options.cellM : roundSignificant(spacingM / 2, 3);
+  if (!(cellM > 0)) cellM = extent / (cap - 1) || 1;
+  if (extent / cellM > cap - 1) cellM = extent / (cap - 1);
+  return {
+    s0: minS,
+    t0: minT,
+    cellM,
+    columns: Math.floor((maxS - minS) / cellM + 1e-9) + 1,
+    rows: Math.floor((maxT - minT) / cellM + 1e-9) + 1,
+  };
+}
+
+function roundSignificant(v: number, digits: number): number {
+  if (!(v > 0)) return v;
+  const p = 10 ** (Math.floor(Math.log10(v)) - digits + 1);
+  return Math.round(v / p) * p;
+}
+
+/**
+ * Linear interpolation on triangles onto a regular grid, rasterised triangle by triangle: each triangle visits
+ * only the grid nodes inside its bounding box, so the cost is O(triangles + nodes). NaN outside the triangles.
+ */
+export function rasterizeTriangles(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  values: ArrayLike<number>[],
+  triangles: Uint32Array,
+  spec: GridSpec,
+): Float64Array[] {
+  const { s0, t0, cellM, columns, rows } = spec;
+  const outs = values.map(() => new Float64Array(columns * rows).fill(NaN));
+  const eps = 1e-10;
+  for (let k = 0; k < triangles.length; k += 3) {
+    const a = triangles[k], b = triangles[k + 1], c = triangles[k + 2];
+    const ax = (s[a] - s0) / cellM, ay = (t[a] - t0) / cellM;
+    const bx = (s[b] - s0) / cellM, by = (t[b] - t0) / cellM;
+    const cx = (s[c] - s0) / cellM, cy = (t[c] - t0) / cellM;
+    const det = (by - cy) * (ax - cx) + (cx - bx) * (ay - cy);
+    if (det === 0) continue;
+    const i0 = Math.max(0, Math.ceil(Math.min(ax, bx, cx) - eps));
+    const i1 = Math.min(columns - 1, Math.floor(Math.max(ax, bx, cx) + eps));
+    const j0 = Math.max(0, Math.ceil(Math.min(ay, by, cy) - eps));
+    const j1 = Math.min(rows - 1, Math.floor(Math.max(ay, by, cy) + eps));
+    if (i0 > i1 || j0 > j1) continue;
+    const inv = 1 / det;
+    for (let j = j0; j <= j1; j++) {
+      for (let i = i0; i <= i1; i++) {
+        const l0 = ((by - cy) * (i - cx) + (cx - bx) * (j - cy)) * inv;
+        const l1 = ((cy - ay) * (i - cx) + (ax - cx) * (j - cy)) * inv;
+        const l2 = 1 - l0 - l1;
+        if (l0 < -eps || l1 < -eps || l2 < -eps) continue;
+        const node = j * columns + i;
+        for (let v = 0; v < values.length; v++) {
+          const val = values[v];
+          outs[v][node] = l0 * val[a] + l1 * val[b] + l2 * val[c];
+        }
+      }
+    }
+  }
+  return outs;
+}
+
+export function buildGrid(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  displacementM: ArrayLike<number>,
+  throwM: ArrayLike<number>,
+  triangles: Uint32Array,
+  spec: GridSpec,
+): RegularGrid {
+  const [d, th] = rasterizeTriangles(s, t, [displacementM, throwM], triangles, spec);
+  return { ...spec, displacementM: d, throwM: th };
+}
+
+/** Bilinear sample of a grid field at (s, t); NaN outside or next to missing nodes. */
+export function sampleGrid(grid: GridSpec, field: Float64Array, s: number, t: number): number {
+  const gx = (s - grid.s0) / grid.cellM;
+  const gy = (t - grid.t0) / grid.cellM;
+  if (gx < 0 || gy < 0 || gx > grid.columns - 1 || gy > grid.rows - 1) return NaN;
+  const i = Math.min(Math.floor(gx), grid.columns - 2);
+  const j = Math.min(Math.floor(gy), grid.rows - 2);
+  if (i < 0 || j < 0) return field[Math.round(gy) * grid.columns + Math.round(gx)];
+  const fx = gx - i, fy = gy - j;
+  const c = grid.columns;
+  return (
+    field[j * c + i] * (1 - fx) * (1 - fy) +
+    field[j * c + i + 1] * fx * (1 - fy) +
+    field[(j + 1) * c + i] * (1 - fx) * fy +
+    field[(j + 1) * c + i + 1] * fx * fy
+  );
+}

@@ -1,0 +1,131 @@
+import type { AnalysisOptions, AnalysisReport, PickColumns, RegularGrid, SegmentResult } from "./types";
+import { indicesBySegment, parsePickCsv, type ParseOptions } from "./csv";
+import { fitPlane } from "./plane";
+import { planeToWorld, projectToPlane } from "./project";
+import { displacementColumn } from "./displacement";
+import { triangulate } from "./triangulate";
+import { buildGrid, gridSpecFor } from "./grid";
+import { contourGrid, contourLevels, niceInterval } from "./contours";
+import { inferTipLine } from "./tipline";
+import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
+import { analyzeRelays } from "./relays";
+
+export const ENGINE_VERSION = "1.0.0";
+
+export type Stage = "parse" | "plane" | "triangulate" | "grid" | "contours" | "tipline" | "metrics" | "relays" | "done";
+
+export interface PipelineOptions extends AnalysisOptions {
+  onStage?: (stage: Stage, fraction: number) => void;
+}
+
+export interface PipelineResult {
+  report: AnalysisReport;
+  grids: Record<string, RegularGrid>;
+}
+
+/** Analyse parsed picks: every segment, then relays between overlapping segments. */
+export function analyzePicks(
+  picks: PickColumns,
+  options: PipelineOptions & { input?: Partial<AnalysisReport["input"]>; warnings?: string[] } = {},
+): PipelineResult {
+  const stage = (s: Stage, segIndex: number, within: number) => options.onStage?.(s, (segIndex + within) / Math.max(1, picks.segmentNames.length));
+  const warnings = [...(options.warnings ?? [])];
+  const segments: SegmentResult[] = [];
+  const grids: Record<string, RegularGrid> = {};
+  const bySegment = indicesBySegment(picks);
+  bySegment.forEach((ids, k) => {
+    const id = picks.segmentNames[k];
+    if (ids.length < 3) {
+      warnings.push(`segment "${id}" skipped: fewer than 3 picks`);
+      return;
+    }
+    stage("plane", k, 0.05);
+    const plane = fitPlane(picks.x, picks.y, picks.z, ids);
+    if (plane.planarityWarning) warnings.push(`segment "${id}": ${plane.planarityWarning}`);
+    const { s, t } = projectToPlane(picks.x, picks.y, picks.z, plane, ids);
+    const throwM = new Float64Array(ids.length);
+    const heaveM = new Float64Array(ids.length);
+    for (let i = 0; i < ids.length; i++) {
+      throwM[i] = picks.throwM[ids[i]];
+      heaveM[i] = picks.heaveM[ids[i]];
+    }
+    const displacementM = displacementColumn(throwM, heaveM, plane.dipDeg);
+    stage("triangulate", k, 0.15);
+    const tri = triangulate(s, t);
+    stage("grid", k, 0.35);
+    const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
+    const grid = buildGrid(s, t, displacementM, throwM, tri.triangles, spec);
+    grids[id] = grid;
+
+    let maxIndex = 0;
+    for (let i = 1; i < ids.length; i++) if (displacementM[i] > displacementM[maxIndex]) maxIndex = i;
+    const maxWorld = planeToWorld(s[maxIndex], t[maxIndex], plane);
+
+    stage("contours", k, 0.5);
+    const intervalM = options.intervalM && options.intervalM > 0 ? options.intervalM : niceInterval(displacementM[maxIndex]);
+    const contours = contourGrid(spec, grid.displacementM, contourLevels(displacementM[maxIndex], intervalM));
+
+    stage("tipline", k, 0.7);
+    const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
+    if (outline.length) outline.push(outline[0]);
+    let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+    for (let i = 0; i < s.length; i++) {
+      minS = Math.min(minS, s[i]); maxS = Math.max(maxS, s[i]);
+      minT = Math.min(minT, t[i]); maxT = Math.max(maxT, t[i]);
+    }
+    const { gradientTips: tips, fits: _fits, ...tipLine } = inferTipLine(s, t, displacementM, plane, { outline, spacingM: tri.medianEdgeM });
+    void _fits;
+    const aspectWarning = aspectRatioNote(tipLine.aspectRatio);
+    if (aspectWarning) warnings.push(`segment "${id}": ${aspectWarning}`);
+
+    stage("metrics", k, 0.9);
+    const gradients = gridGradients(grid);
+    const half = tipLine.semiAxes;
+    segments.push({
+      id,
+      pickCount: ids.length,
+      plane: {
+        strikeDeg: plane.strikeDeg, dipDeg: plane.dipDeg, dipDirectionDeg: plane.dipDirectionDeg, rmsM: plane.rmsM,
+        planarityWarning: plane.planarityWarning, centroid: plane.centroid, strikeVector: plane.strikeVector,
+        dipVector: plane.dipVector, normal: plane.normal,
+      },
+      max: { displacementM: displacementM[maxIndex], throwM: throwM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2] },
+      mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(ps, pt, plane)) },
+      tipLine,
+      gradients: {
+        meanPerM: gradients.meanPerM,
+        maxPerM: gradients.maxPerM,
+        tips: { strikeStartPerM: tips.strikeStartPerM, strikeEndPerM: tips.strikeEndPerM, upDipPerM: tips.upDipPerM, downDipPerM: tips.downDipPerM },
+      },
+      centroidOfDisplacement: displacementCentroid(grid),
+      asymmetry: { alongStrike: (s[maxIndex] - tipLine.centre.s) / half.sM, downDip: (t[maxIndex] - tipLine.centre.t) / half.tM },
+      scaling: scalingNote(displacementM[maxIndex], tipLine.lengthM),
+      contourIntervalM: intervalM,
+      contours: contours.map((c) => ({ levelM: c.levelM, rings: c.rings })),
+    });
+  });
+  options.onStage?.("relays", 0.98);
+  const relays = analyzeRelays(segments, grids);
+  options.onStage?.("done", 1);
+  return {
+    report: {
+      engineVersion: ENGINE_VERSION,
+      input: { rows: picks.x.length, accepted: picks.x.length, rejected: [], units: options.units ?? "m", ...options.input },
+      segments,
+      relays,
+      warnings,
+    },
+    grids,
+  };
+}
+
+/** Parse a pick CSV and analyse it; throws PickInputError when the input cannot be used. */
+export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult {
+  options.onStage?.("parse", 0);
+  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe });
+  return analyzePicks(parsed.picks, {
+    ...options,
+    input: { rows: parsed.rows, accepted: parsed.accepted, rejected: parsed.rejected, units: options.units ?? "m" },
+    warnings: parsed.warnings,
+  });
+}

@@ -1,0 +1,156 @@
+// Synthetic fault picks from published isolated-fault models: elliptical tip line (Barnett et al. 1987) with a
+// Walsh & Watterson (1989) or elliptical-crack (Pollard & Segall 1987) profile, truncated at a throw cut-off.
+import type { PickColumns, ProfileModel } from "./types";
+import { PROFILE_FUNCTIONS } from "./profiles";
+import { dipVectorOf, strikeVectorOf } from "./plane";
+
+/** mulberry32: small, fast, seedable PRNG returning [0, 1). */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function gaussian(rand: () => number): number {
+  const u = Math.max(rand(), 1e-12);
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
+}
+
+export interface SyntheticFaultOptions {
+  seed?: number;
+  segment?: string;
+  strikeDeg?: number;
+  dipDeg?: number;
+  /** along-strike half-length a of the tip line (m) */
+  halfLengthM?: number;
+  /** L/H = a/b */
+  aspectRatio?: number;
+  /** maximum displacement (m), in the fault plane */
+  dmaxM?: number;
+  profile?: Exclude<ProfileModel, "linear"> | "linear";
+  /** standard deviation of Gaussian throw noise (m) */
+  noiseM?: number;
+  /** picks with throw below this are dropped, as below seismic resolution (m) */
+  throwCutoffM?: number;
+  /** picks inside the tip line before the cut-off */
+  pickCount?: number;
+  /** tip-line centre in world coordinates (x East, y North, z Up) */
+  centre?: [number, number, number];
+}
+
+export interface SyntheticTruth {
+  segment: string;
+  lengthM: number;
+  heightM: number;
+  halfLengthM: number;
+  halfHeightM: number;
+  dmaxM: number;
+  strikeDeg: number;
+  dipDeg: number;
+  profile: ProfileModel;
+  centre: [number, number, number];
+}
+
+interface RawPick { x: number; y: number; z: number; throwM: number; segment: string }
+
+function faultPicks(o: SyntheticFaultOptions, rand: () => number): { picks: RawPick[]; truth: SyntheticTruth } {
+  const strikeDeg = o.strikeDeg ?? 30;
+  const dipDeg = o.dipDeg ?? 60;
+  const a = o.halfLengthM ?? 1500;
+  const b = a / (o.aspectRatio ?? 2);
+  const dmaxM = o.dmaxM ?? 80;
+  const profile = o.profile ?? "walsh-watterson-1989";
+  const f = PROFILE_FUNCTIONS[profile];
+  const noiseM = o.noiseM ?? 2;
+  const cutoff = o.throwCutoffM ?? 10;
+  const n = o.pickCount ?? 2000;
+  const centre = o.centre ?? [450000, 6700000, -2000];
+  const segment = o.segment ?? "main";
+  const sv = strikeVectorOf(strikeDeg);
+  const dv = dipVectorOf((strikeDeg + 90) % 360, dipDeg);
+  const sinDip = Math.sin((dipDeg * Math.PI) / 180);
+  const h = Math.sqrt((Math.PI * a * b) / n);
+  const picks: RawPick[] = [];
+  for (let j = 0; j * h < 2 * b; j++) {
+    for (let i = 0; i * h < 2 * a; i++) {
+      const s = -a + (i + 0.5 + 0.6 * (rand() - 0.5)) * h;
+      const t = -b + (j + 0.5 + 0.6 * (rand() - 0.5)) * h;
+      const r = Math.hypot(s / a, t / b);
+      if (r >= 1) continue;
+      const throwM = dmaxM * f(r) * sinDip + noiseM * gaussian(rand);
+      if (throwM < cutoff || throwM < 0) continue;
+      picks.push({
+        x: centre[0] + s * sv[0] + t * dv[0],
+        y: centre[1] + s * sv[1] + t * dv[1],
+        z: centre[2] + s * sv[2] + t * dv[2],
+        throwM,
+        segment,
+      });
+    }
+  }
+  return {
+    picks,
+    truth: { segment, lengthM: 2 * a, heightM: 2 * b, halfLengthM: a, halfHeightM: b, dmaxM, strikeDeg, dipDeg, profile, centre },
+  };
+}
+
+/** Picks for one or more synthetic faults (one segment each), deterministic for a given seed. */
+export function generateSyntheticPicks(faults: SyntheticFaultOptions | SyntheticFaultOptions[], seed = 1): { picks: PickColumns; truth: SyntheticTruth[] } {
+  const list = Array.isArray(faults) ? faults : [faults];
+  const rand = mulberry32(list[0]?.seed ?? seed);
+  const all: RawPick[] = [];
+  const truth: SyntheticTruth[] = [];
+  list.forEach((o, k) => {
+    const r = faultPicks({ segment: list.length > 1 ? `F${k + 1}` : "main", ...o }, rand);
+    all.push(...r.picks);
+    truth.push(r.truth);
+  });
+  const names = [...new Set(all.map((p) => p.segment))];
+  const n = all.length;
+  const picks: PickColumns = {
+    x: Float64Array.from(all, (p) => p.x),
+    y: Float64Array.from(all, (p) => p.y),
+    z: Float64Array.from(all, (p) => p.z),
+    throwM: Float64Array.from(all, (p) => p.throwM),
+    heaveM: new Float64Array(n).fill(NaN),
+    quality: new Float64Array(n).fill(NaN),
+    segment: Uint32Array.from(all, (p) => names.indexOf(p.segment)),
+    horizon: new Int32Array(n).fill(-1),
+    segmentNames: names,
+    horizonNames: [],
+    sourceRow: Uint32Array.from(all, (_, i) => i + 2),
+  };
+  return { picks, truth };
+}
+
+/** Two overlapping, sub-parallel segments forming a relay (the second offset along strike and across it). */
+export function syntheticRelayOptions(overrides: Partial<SyntheticFaultOptions> = {}, overlapM = 600, separationM = 150): SyntheticFaultOptions[] {
+  const strikeDeg = overrides.strikeDeg ?? 30;
+  const a = overrides.halfLengthM ?? 1500;
+  const centre = overrides.centre ?? [450000, 6700000, -2000];
+  const sv = strikeVectorOf(strikeDeg);
+  const perp = strikeVectorOf(strikeDeg + 90);
+  const shift = 2 * a - overlapM;
+  const second: [number, number, number] = [
+    centre[0] + shift * sv[0] + separationM * perp[0],
+    centre[1] + shift * sv[1] + separationM * perp[1],
+    centre[2],
+  ];
+  return [
+    { ...overrides, segment: "F1", centre },
+    { ...overrides, segment: "F2", centre: second },
+  ];
+}
+
+export function toCsv(picks: PickColumns): string {
+  const lines = ["x,y,z,throw,segment"];
+  for (let i = 0; i < picks.x.length; i++) {
+    lines.push(`${picks.x[i].toFixed(3)},${picks.y[i].toFixed(3)},${picks.z[i].toFixed(3)},${picks.throwM[i].toFixed(3)},${picks.segmentNames[picks.segment[i]]}`);
+  }
+  return lines.join("\n") + "\n";
+}

@@ -1,0 +1,115 @@
+import Delaunator from "delaunator";
+
+export interface Triangulation {
+  /** vertex indices, three per kept triangle */
+  triangles: Uint32Array;
+  /** median Delaunay edge length before sliver removal (m) */
+  medianEdgeM: number;
+  removedSlivers: number;
+  /** the data outline: vertex indices of the longest boundary loop of the kept triangles */
+  outline: number[];
+}
+
+export interface TriangulateOptions {
+  /** remove sliver triangles along the hull (default true) */
+  removeSlivers?: boolean;
+  /** a boundary triangle is a sliver when its longest edge exceeds this multiple of the median edge (default 3) */
+  sliverEdgeFactor?: number;
+}
+
+/**
+ * Delaunay triangulation in fault-plane coordinates (s, t). Hull slivers — long thin triangles that bridge a
+ * concave outline — are peeled iteratively: a triangle on the current boundary whose longest edge is more than
+ * `sliverEdgeFactor` × the median edge length is removed, which exposes its neighbours to the same test
+ * (an edge-length criterion in the spirit of alpha shapes; common practice, no single source).
+ */
+export function triangulate(s: Float64Array, t: Float64Array, options: TriangulateOptions = {}): Triangulation {
+  const n = s.length;
+  const coords = new Float64Array(2 * n);
+  for (let i = 0; i < n; i++) {
+    coords[2 * i] = s[i];
+    coords[2 * i + 1] = t[i];
+  }
+  const d = new Delaunator(coords);
+  const tri = d.triangles;
+  const half = d.halfedges;
+  const nt = tri.length / 3;
+  const edgeLength = (e: number) => {
+    const a = tri[e];
+    const b = tri[e % 3 === 2 ? e - 2 : e + 1];
+    const ds = s[a] - s[b];
+    const dt = t[a] - t[b];
+    return Math.sqrt(ds * ds + dt * dt);
+  };
+  const stride = Math.max(1, Math.floor(tri.length / 200_000));
+  const sample = new Float64Array(Math.ceil(tri.length / stride));
+  for (let e = 0, k = 0; e < tri.length; e += stride) sample[k++] = edgeLength(e);
+  sample.sort();
+  const medianEdgeM = sample.length ? sample[sample.length >> 1] : 0;
+
+  const removed = new Uint8Array(nt);
+  let removedSlivers = 0;
+  if (options.removeSlivers ?? true) {
+    const limit = (options.sliverEdgeFactor ?? 3) * medianEdgeM;
+    const queue: number[] = [];
+    for (let e = 0; e < half.length; e++) if (half[e] === -1) queue.push(Math.floor(e / 3));
+    while (queue.length) {
+      const k = queue.pop()!;
+      if (removed[k]) continue;
+      const longest = Math.max(edgeLength(3 * k), edgeLength(3 * k + 1), edgeLength(3 * k + 2));
+      if (longest <= limit) continue;
+      removed[k] = 1;
+      removedSlivers++;
+      for (let j = 0; j < 3; j++) {
+        const opp = half[3 * k + j];
+        if (opp !== -1 && !removed[Math.floor(opp / 3)]) queue.push(Math.floor(opp / 3));
+      }
+    }
+  }
+  const kept = new Uint32Array(3 * (nt - removedSlivers));
+  let w = 0;
+  for (let k = 0; k < nt; k++) {
+    if (removed[k]) continue;
+    kept[w++] = tri[3 * k];
+    kept[w++] = tri[3 * k + 1];
+    kept[w++] = tri[3 * k + 2];
+  }
+
+  // boundary edges of the kept triangles, chained into loops
+  const next = new Map<number, number[]>();
+  for (let e = 0; e < tri.length; e++) {
+    const k = Math.floor(e / 3);
+    if (removed[k]) continue;
+    const o = half[e];
+    if (o === -1 || removed[Math.floor(o / 3)]) {
+      const a = tri[e];
+      const b = tri[e % 3 === 2 ? e - 2 : e + 1];
+      const list = next.get(a);
+      if (list) list.push(b);
+      else next.set(a, [b]);
+    }
+  }
+  let outline: number[] = [];
+  let bestPerimeter = -1;
+  for (const start of [...next.keys()]) {
+    while ((next.get(start)?.length ?? 0) > 0) {
+      const loop = [start];
+      let perimeter = 0;
+      let cur = start;
+      for (let guard = 0; guard <= n + 1; guard++) {
+        const list = next.get(cur);
+        if (!list || list.length === 0) break;
+        const nb = list.pop()!;
+        perimeter += Math.hypot(s[nb] - s[cur], t[nb] - t[cur]);
+        cur = nb;
+        if (cur === start) break;
+        loop.push(cur);
+      }
+      if (perimeter > bestPerimeter) {
+        bestPerimeter = perimeter;
+        outline = loop;
+      }
+    }
+  }
+  return { triangles: kept, medianEdgeM, removedSlivers, outline };
+}

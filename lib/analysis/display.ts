@@ -10,6 +10,7 @@ export interface DisplayFrame {
   centroid: Vec3;
   strikeVector: Vec3;
   dipVector: Vec3;
+  /** unit, pointing upward (hanging-wall side of a dipping plane) */
   normal: Vec3;
   strikeDeg: number;
   dipDeg: number;
@@ -116,7 +117,8 @@ function displaySegment(segment: SegmentResult, grid: RegularGrid, origin: Vec3,
       centroid: subtract(plane.centroid, origin),
       strikeVector: [...plane.strikeVector],
       dipVector: [...plane.dipVector],
-      normal: [...plane.normal],
+      // relief is drawn along the normal: point it up (into the hanging wall) so displacement reads as a dome
+      normal: plane.normal[2] < 0 ? [-plane.normal[0], -plane.normal[1], -plane.normal[2]] : [...plane.normal],
       strikeDeg: plane.strikeDeg,
       dipDeg: plane.dipDeg,
     },
@@ -395,7 +397,7 @@ export function decodeFaultDisplay(input: Uint8Array): FaultDisplay {
   const bodiesStart = bytes.byteOffset + align8(8 + headerLength);
   const arrays = header.arrays.map(({ kind, length, offset }) => {
     const Kind = typedArrayKinds[kind];
-    return new Kind(bytes.buffer, bodiesStart + offset, length);
+    return new Kind(bytes.buffer as ArrayBuffer, bodiesStart + offset, length);
   });
   const display = JSON.parse(header.body, (_key, value: unknown) => {
     if (value && typeof value === "object") {

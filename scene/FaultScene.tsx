@@ -1,0 +1,548 @@
+"use client";
+// The fault's 3D view. Renders on demand only (software WebGL is slow): geometry is built once per change
+// from typed arrays, draw calls are few (per fault: one surface per segment, one contour set, one tip-line
+// set, one mapped-limit set, one pick set, one marker set each for peaks and pins), nothing sets React state
+// per frame.
+import { useCallback, useEffect, useMemo, useRef, type DependencyList } from "react";
+import { Canvas, useFrame, useThree, type ThreeEvent } from "@react-three/fiber";
+import { AdaptiveDpr, GizmoHelper, GizmoViewport, Html, Line, OrbitControls } from "@react-three/drei";
+import * as THREE from "three";
+import type { OrbitControls as OrbitControlsImpl } from "three-stdlib";
+import type { DisplaySegment, FaultDisplay, Vec3 } from "@/lib/analysis/display";
+import {
+  buildContourLines,
+  buildMappedLimitLines,
+  buildPeakPoints,
+  buildPickPoints,
+  buildSurfaceMesh,
+  depthLabels,
+  displayBounds,
+  displayExtentM,
+  frameCoordinates,
+  lineLiftM,
+  planePointWorld,
+  residualRangeM,
+  surfaceValueAt,
+  buildTipLines,
+  type ColorMode,
+} from "./geometry";
+import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore, type CameraState } from "./cameraStore";
+import { useLayerVisible, useViewSettings } from "./viewSettingsStore";
+import { useOverlayStore } from "./overlayStore";
+import { metres as formatMetres } from "@/components/workspace/format";
+
+export interface ScenePin {
+  id: string;
+  /** world coordinates, m */
+  x: number;
+  y: number;
+  z: number;
+  resolved?: boolean;
+}
+
+export interface SurfaceHit {
+  /** world coordinates of the point on the fault plane, m */
+  x: number;
+  y: number;
+  z: number;
+  s: number;
+  t: number;
+  segmentId: string;
+}
+
+export interface FaultSceneProps {
+  display: FaultDisplay;
+  pins?: ScenePin[];
+  onSurfaceClick?: (hit: SurfaceHit) => void;
+  /** where the camera starts; the overview preset when absent */
+  initialCamera?: CameraState;
+}
+
+declare global {
+  interface Window {
+    __slipfieldSceneReady?: boolean;
+    __slipfieldFirstFrameMs?: number;
+    __slipfieldFrameCount?: number;
+    __slipfieldCamera?: () => CameraState | null;
+    __slipfieldApplyCamera?: (camera: CameraState) => void;
+  }
+}
+
+const COLORS = {
+  contour: "#0f172a",
+  tipLine: "#f08c00",
+  mappedLimit: "#334155",
+  peak: "#ffffff",
+  pinOpen: "#2f978f",
+  pinResolved: "#94a3b8",
+} as const;
+
+export default function FaultScene({ display, pins, onSurfaceClick, initialCamera }: FaultSceneProps) {
+  const extentM = displayExtentM(display);
+  return (
+    <Canvas
+      frameloop="demand"
+      dpr={[1, 1.5]}
+      flat
+      performance={{ min: 0.5 }}
+      gl={{ antialias: false, preserveDrawingBuffer: true }}
+      camera={{ fov: DEFAULT_FOV_DEG, near: extentM / 1000, far: extentM * 60, up: [0, 0, 1], position: [0, -extentM, extentM] }}
+      data-testid="fault-scene-canvas"
+    >
+      <AdaptiveDpr pixelated />
+      <SceneLights />
+      <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} />
+      <OrbitControlsRig display={display} initialCamera={initialCamera} />
+      <GizmoHelper alignment="bottom-right" margin={[64, 64]}>
+        <GizmoViewport labels={["E", "N", "Up"]} axisColors={["#c2410c", "#0f766e", "#475569"]} labelColor="#ffffff" />
+      </GizmoHelper>
+      <FrameProbe />
+    </Canvas>
+  );
+}
+
+function SceneLights() {
+  return (
+    <>
+      <hemisphereLight args={["#ffffff", "#9aa5b1", 2.2]} />
+      <directionalLight position={[-0.4, -0.6, 1]} intensity={1.1} />
+    </>
+  );
+}
+
+function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "initialCamera">) {
+  const colorMode = useViewSettings((state) => state.colorMode);
+  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const showSurface = useLayerVisible("surface");
+  const showContours = useLayerVisible("contours");
+  const showTipLine = useLayerVisible("tipLine");
+  const showMappedLimit = useLayerVisible("mappedLimit");
+  const showPicks = useLayerVisible("picks");
+  const showPeak = useLayerVisible("maxMarker");
+  const showPins = useLayerVisible("pins");
+  const [low, high] = colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  return (
+    <>
+      {showSurface &&
+        display.segments.map((segment) => (
+          <SegmentSurface
+            key={segment.id}
+            segment={segment}
+            origin={display.origin}
+            colorMode={colorMode}
+            exaggeration={exaggeration}
+            colorLowM={low}
+            colorHighM={high}
+            onSurfaceClick={onSurfaceClick}
+          />
+        ))}
+      {showContours && <ContourLines display={display} exaggeration={exaggeration} />}
+      {showTipLine && <TipLines display={display} />}
+      {showMappedLimit && <MappedLimitLines display={display} exaggeration={exaggeration} />}
+      {showPicks && display.picks.count > 0 && <PickPoints display={display} exaggeration={exaggeration} />}
+      {showPeak && <PeakMarkers display={display} exaggeration={exaggeration} />}
+      {showPins && pins && pins.length > 0 && <PinMarkers display={display} pins={pins} />}
+      <SegmentLabels display={display} />
+      <DepthLabels display={display} />
+    </>
+  );
+}
+
+// ---- geometry lifetime ----------------------------------------------------------------------------------
+
+/** A disposable built in useMemo and disposed when it is rebuilt or the component unmounts. */
+function useDisposable<T extends { dispose(): void }>(factory: () => T, deps: DependencyList): T {
+  // eslint-disable-next-line react-hooks/exhaustive-deps
+  const value = useMemo(factory, deps);
+  useEffect(() => () => value.dispose(), [value]);
+  return value;
+}
+
+function bufferGeometry({ positions, colors, indices }: { positions: Float32Array; colors?: Float32Array; indices?: Uint32Array }) {
+  const geometry = new THREE.BufferGeometry();
+  geometry.setAttribute("position", new THREE.BufferAttribute(positions, 3));
+  if (colors) geometry.setAttribute("color", new THREE.BufferAttribute(colors, 3));
+  if (indices) geometry.setIndex(new THREE.BufferAttribute(indices, 1));
+  geometry.computeBoundingSphere();
+  return geometry;
+}
+
+// ---- surface and hover ----------------------------------------------------------------------------------
+
+// Raycasting a 192² surface costs milliseconds; skip it while the camera is being dragged.
+let cameraDragging = false;
+function raycastUnlessDragging(this: THREE.Mesh, raycaster: THREE.Raycaster, intersects: THREE.Intersection[]) {
+  if (!cameraDragging) THREE.Mesh.prototype.raycast.call(this, raycaster, intersects);
+}
+
+/** Publishes at most one hover readout per animation frame. */
+function useReadoutPublisher() {
+  const pending = useRef<Parameters<ReturnType<typeof useOverlayStore.getState>["setReadout"]>[0] | undefined>(undefined);
+  const scheduled = useRef(false);
+  return useCallback((readout: Parameters<ReturnType<typeof useOverlayStore.getState>["setReadout"]>[0]) => {
+    pending.current = readout;
+    if (scheduled.current) return;
+    scheduled.current = true;
+    requestAnimationFrame(() => {
+      scheduled.current = false;
+      useOverlayStore.getState().setReadout(pending.current ?? null);
+    });
+  }, []);
+}
+
+function SegmentSurface({
+  segment,
+  origin,
+  colorMode,
+  exaggeration,
+  colorLowM,
+  colorHighM,
+  onSurfaceClick,
+}: {
+  segment: DisplaySegment;
+  origin: Vec3;
+  colorMode: ColorMode;
+  exaggeration: number;
+  colorLowM: number;
+  colorHighM: number;
+  onSurfaceClick?: (hit: SurfaceHit) => void;
+}) {
+  const geometry = useDisposable(() => {
+    const built = bufferGeometry(buildSurfaceMesh(segment, { colorMode, exaggeration, colorRangeM: [colorLowM, colorHighM] }));
+    if (exaggeration > 0) built.computeVertexNormals();
+    return built;
+  }, [segment, colorMode, exaggeration, colorLowM, colorHighM]);
+  const publishReadout = useReadoutPublisher();
+
+  const hitAt = (point: THREE.Vector3) => {
+    const [s, t] = frameCoordinates(segment.frame, point.x, point.y, point.z);
+    const [x, y, z] = planePointWorld(segment.frame, origin, s, t);
+    return { s, t, x, y, z };
+  };
+
+  return (
+    <mesh
+      geometry={geometry}
+      raycast={raycastUnlessDragging}
+      onPointerMove={(event: ThreeEvent<PointerEvent>) => {
+        event.stopPropagation();
+        const hit = hitAt(event.point);
+        publishReadout({
+          segmentId: segment.id,
+          ...hit,
+          displacementM: surfaceValueAt(segment.grid, segment.grid.displacementM, hit.s, hit.t),
+          throwM: surfaceValueAt(segment.grid, segment.grid.throwM, hit.s, hit.t),
+        });
+      }}
+      onPointerOut={() => publishReadout(null)}
+      onClick={(event: ThreeEvent<MouseEvent>) => {
+        if (!onSurfaceClick) return;
+        event.stopPropagation();
+        onSurfaceClick({ ...hitAt(event.point), segmentId: segment.id });
+      }}
+    >
+      {exaggeration > 0 ? (
+        <meshLambertMaterial vertexColors side={THREE.DoubleSide} />
+      ) : (
+        // flat on the plane there is no relief to shade: show the legend's colours exactly
+        <meshBasicMaterial vertexColors side={THREE.DoubleSide} />
+      )}
+    </mesh>
+  );
+}
+
+// ---- lines ----------------------------------------------------------------------------------------------
+
+function ContourLines({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
+  const geometry = useDisposable(() => bufferGeometry(buildContourLines(display, exaggeration)), [display, exaggeration]);
+  return (
+    <lineSegments geometry={geometry} renderOrder={1}>
+      <lineBasicMaterial color={COLORS.contour} transparent opacity={0.7} />
+    </lineSegments>
+  );
+}
+
+function TipLines({ display }: { display: FaultDisplay }) {
+  const points = useMemo(() => Array.from(buildTipLines(display).positions), [display]);
+  if (points.length === 0) return null;
+  return <Line segments points={points} color={COLORS.tipLine} lineWidth={4} renderOrder={2} />;
+}
+
+function MappedLimitLines({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
+  const points = useMemo(() => Array.from(buildMappedLimitLines(display, exaggeration).positions), [display, exaggeration]);
+  const dashM = displayExtentM(display) / 80;
+  if (points.length === 0) return null;
+  return (
+    <Line
+      segments
+      dashed
+      dashSize={dashM}
+      gapSize={dashM * 0.7}
+      points={points}
+      color={COLORS.mappedLimit}
+      lineWidth={1.5}
+      renderOrder={2}
+    />
+  );
+}
+
+// ---- points ---------------------------------------------------------------------------------------------
+
+function PickPoints({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
+  const geometry = useDisposable(
+    () => bufferGeometry(buildPickPoints(display, exaggeration, residualRangeM(display.picks.residualM))),
+    [display, exaggeration],
+  );
+  return (
+    <points geometry={geometry} renderOrder={3}>
+      <pointsMaterial vertexColors size={3} sizeAttenuation={false} />
+    </points>
+  );
+}
+
+type MarkerShape = "diamond" | "pin";
+
+/** A small sprite drawn once on a 2D canvas; the marker layers use it as their point shape. */
+function useMarkerTexture(shape: MarkerShape) {
+  return useDisposable(() => {
+    const size = 64;
+    const canvas = document.createElement("canvas");
+    canvas.width = canvas.height = size;
+    const context = canvas.getContext("2d");
+    if (context) {
+      context.lineWidth = 8;
+      context.strokeStyle = "#0f172a";
+      context.fillStyle = "#ffffff";
+      context.beginPath();
+      if (shape === "diamond") {
+        context.moveTo(size / 2, 6);
+        context.lineTo(size - 6, size / 2);
+        context.lineTo(size / 2, size - 6);
+        context.lineTo(6, size / 2);
+        context.closePath();
+      } else {
+        context.arc(size / 2, size / 2, size / 2 - 8, 0, Math.PI * 2);
+      }
+      context.fill();
+      context.stroke();
+    }
+    const texture = new THREE.CanvasTexture(canvas);
+    texture.colorSpace = THREE.SRGBColorSpace;
+    return texture;
+  }, [shape]);
+}
+
+function PeakMarkers({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
+  const geometry = useDisposable(() => bufferGeometry(buildPeakPoints(display, exaggeration)), [display, exaggeration]);
+  const texture = useMarkerTexture("diamond");
+  return (
+    <points geometry={geometry} renderOrder={4}>
+      <pointsMaterial map={texture} color={COLORS.peak} size={18} sizeAttenuation={false} transparent alphaTest={0.5} depthTest={false} />
+    </points>
+  );
+}
+
+function PinMarkers({ display, pins }: { display: FaultDisplay; pins: ScenePin[] }) {
+  const geometry = useDisposable(() => {
+    const positions = new Float32Array(pins.length * 3);
+    const colors = new Float32Array(pins.length * 3);
+    const color = new THREE.Color();
+    pins.forEach((pin, i) => {
+      positions[i * 3] = pin.x - display.origin[0];
+      positions[i * 3 + 1] = pin.y - display.origin[1];
+      positions[i * 3 + 2] = pin.z - display.origin[2];
+      color.set(pin.resolved ? COLORS.pinResolved : COLORS.pinOpen).toArray(colors, i * 3);
+    });
+    return bufferGeometry({ positions, colors });
+  }, [display, pins]);
+  const texture = useMarkerTexture("pin");
+  return (
+    <points geometry={geometry} renderOrder={5}>
+      <pointsMaterial map={texture} vertexColors size={16} sizeAttenuation={false} transparent alphaTest={0.5} depthTest={false} />
+    </points>
+  );
+}
+
+// ---- labels ---------------------------------------------------------------------------------------------
+
+const LABEL_Z_RANGE: [number, number] = [10, 0];
+
+function SegmentLabels({ display }: { display: FaultDisplay }) {
+  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const showPeak = useLayerVisible("maxMarker");
+  const lift = lineLiftM(display);
+  const labels = useMemo(
+    () =>
+      display.segments.map((segment) => {
+        // above the shallowest point of the tip line
+        const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
+        const point = new Float32Array(3);
+        const peak = new Float32Array(3);
+        planePointLocal(segment, top[0], top[1], lift, point);
+        planePointLocal(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, peak);
+        return { segment, title: [point[0], point[1], point[2]] as Vec3, peak: [peak[0], peak[1], peak[2]] as Vec3 };
+      }),
+    [display, exaggeration, lift],
+  );
+  return (
+    <>
+      {labels.map(({ segment, title, peak }) => (
+        <group key={segment.id}>
+          <Html position={title} center zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+            <div className="-translate-y-4 whitespace-nowrap rounded bg-white/85 px-1.5 py-0.5 text-xs font-semibold text-slate-800 shadow-sm ring-1 ring-slate-300 dark:bg-slate-900/85 dark:text-slate-100 dark:ring-slate-600">
+              Segment {segment.id}
+            </div>
+          </Html>
+          {showPeak && (
+            <Html position={peak} zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+              <div className="ml-3 -mt-2.5 whitespace-nowrap rounded bg-slate-900/75 px-1 text-[11px] font-medium text-white">
+                Peak {formatMetres(segment.max.displacementM)}
+              </div>
+            </Html>
+          )}
+        </group>
+      ))}
+    </>
+  );
+}
+
+function planePointLocal(segment: DisplaySegment, s: number, t: number, h: number, out: Float32Array) {
+  const { frame } = segment;
+  for (let axis = 0; axis < 3; axis++) {
+    out[axis] = frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis] + h * frame.normal[axis];
+  }
+}
+
+function DepthLabels({ display }: { display: FaultDisplay }) {
+  const labels = useMemo(() => depthLabels(display, display.origin[2]), [display]);
+  return (
+    <>
+      {labels.map(({ position, depthM }) => (
+        <Html key={depthM} position={position} zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+          <div className="flex -translate-x-full -translate-y-1/2 items-center gap-1 whitespace-nowrap font-mono text-[10px] text-slate-600 dark:text-slate-300">
+            {formatMetres(depthM)} depth
+            <span className="inline-block h-px w-2 bg-slate-500" />
+          </div>
+        </Html>
+      ))}
+    </>
+  );
+}
+
+// ---- camera ---------------------------------------------------------------------------------------------
+
+function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; initialCamera?: CameraState }) {
+  const camera = useThree((state) => state.camera) as THREE.PerspectiveCamera;
+  const controls = useThree((state) => state.controls) as OrbitControlsImpl | null;
+  const invalidate = useThree((state) => state.invalidate);
+  const heightPx = useThree((state) => state.size.height);
+  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const request = useCameraStore((state) => state.request);
+  const handledRequest = useRef<number | null>(null);
+  const initialised = useRef(false);
+  const [ox, oy, oz] = display.origin;
+
+  const publishScale = useCallback(() => {
+    if (!controls || heightPx <= 0) return;
+    const distance = camera.position.distanceTo(controls.target);
+    const visibleHeightM = 2 * distance * Math.tan(THREE.MathUtils.degToRad(camera.fov / 2));
+    useOverlayStore.getState().setMetresPerPixel(visibleHeightM / heightPx);
+  }, [camera, controls, heightPx]);
+
+  const recordCamera = useCallback(() => {
+    if (!controls) return;
+    useCameraStore.getState().setCamera({
+      position: [camera.position.x + ox, camera.position.y + oy, camera.position.z + oz],
+      target: [controls.target.x + ox, controls.target.y + oy, controls.target.z + oz],
+      up: [camera.up.x, camera.up.y, camera.up.z],
+      fov: camera.fov,
+    });
+    publishScale();
+  }, [camera, controls, ox, oy, oz, publishScale]);
+
+  const applyCamera = useCallback(
+    (state: CameraState) => {
+      if (!controls) return;
+      camera.up.set(...state.up);
+      camera.position.set(state.position[0] - ox, state.position[1] - oy, state.position[2] - oz);
+      camera.fov = state.fov;
+      camera.updateProjectionMatrix();
+      controls.target.set(state.target[0] - ox, state.target[1] - oy, state.target[2] - oz);
+      controls.update();
+      // record the requested numbers, not the camera's re-derived ones, so a restore reads back exactly
+      useCameraStore.getState().setCamera(copyCameraState(state));
+      publishScale();
+      invalidate();
+    },
+    [camera, controls, invalidate, ox, oy, oz, publishScale],
+  );
+
+  const presetFor = useCallback(
+    (preset: Parameters<typeof presetCamera>[0]) =>
+      presetCamera(preset, { bounds: displayBounds(display, exaggeration), frame: display.segments[0].frame, origin: display.origin }),
+    [display, exaggeration],
+  );
+
+  useEffect(() => {
+    if (!controls || initialised.current) return;
+    initialised.current = true;
+    handledRequest.current = useCameraStore.getState().request?.id ?? null;
+    applyCamera(initialCamera ?? presetFor("overview"));
+  }, [controls, applyCamera, initialCamera, presetFor]);
+
+  useEffect(() => {
+    if (!controls || !request || request.id === handledRequest.current) return;
+    handledRequest.current = request.id;
+    applyCamera(request.kind === "state" ? request.state : presetFor(request.preset));
+  }, [controls, request, applyCamera, presetFor]);
+
+  useEffect(() => {
+    window.__slipfieldCamera = () => useCameraStore.getState().camera;
+    window.__slipfieldApplyCamera = (state) => useCameraStore.getState().applyCamera(state);
+    return () => {
+      delete window.__slipfieldCamera;
+      delete window.__slipfieldApplyCamera;
+    };
+  }, []);
+
+  useEffect(publishScale, [publishScale]);
+
+  return (
+    <OrbitControls
+      makeDefault
+      enableDamping={false}
+      regress
+      zoomToCursor
+      onStart={() => {
+        cameraDragging = true;
+      }}
+      onEnd={() => {
+        cameraDragging = false;
+        recordCamera();
+      }}
+      onChange={recordCamera}
+    />
+  );
+}
+
+/** Raises the readiness flag browser tests wait on, once the first frame is on screen. */
+function FrameProbe() {
+  const frames = useRef(0);
+  useFrame(() => {
+    frames.current += 1;
+    window.__slipfieldFrameCount = frames.current;
+    if (frames.current === 1) {
+      requestAnimationFrame(() => {
+        window.__slipfieldFirstFrameMs = performance.now();
+        window.__slipfieldSceneReady = true;
+      });
+    }
+  });
+  useEffect(
+    () => () => {
+      window.__slipfieldSceneReady = false;
+    },
+    [],
+  );
+  return null;
+}

@@ -1,0 +1,396 @@
+// Geometry for the 3D view as plain typed arrays (no three.js objects), so it can be built and tested
+// anywhere. All positions are in world-local metres: world position minus FaultDisplay.origin.
+import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
+import { sampleGrid, type DisplayFrame, type DisplayGrid, type DisplaySegment, type FaultDisplay } from "@/lib/analysis/display";
+
+export type ColorMode = "displacement" | "throw";
+
+export interface MeshArrays {
+  positions: Float32Array;
+  colors: Float32Array;
+  indices: Uint32Array;
+}
+
+export interface LineArrays {
+  /** consecutive pairs of points are one line segment (three.js LineSegments layout) */
+  positions: Float32Array;
+}
+
+export interface PointArrays {
+  positions: Float32Array;
+  colors: Float32Array;
+}
+
+// ---- colour ----------------------------------------------------------------------------------------------
+
+export type ColorInterpolator = (t: number) => string;
+
+/** Parses "#rrggbb" or "rgb(r, g, b)" as d3-scale-chromatic returns them; 0–255 per channel. */
+export function parseCssColor(color: string): [number, number, number] {
+  if (color.startsWith("#")) {
+    const hex = Number.parseInt(color.slice(1, 7), 16);
+    return [(hex >> 16) & 255, (hex >> 8) & 255, hex & 255];
+  }
+  const match = /rgba?\(([^)]+)\)/.exec(color);
+  if (!match) throw new Error(`Unrecognised colour "${color}".`);
+  const [r, g, b] = match[1].split(",").map((part) => Number.parseFloat(part));
+  return [r, g, b];
+}
+
+/** three.js treats vertex colours as linear-sRGB; d3 gives sRGB. (IEC 61966-2-1 transfer function.) */
+export function srgbToLinear(channel255: number): number {
+  const c = channel255 / 255;
+  return c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+}
+
+export function linearToSrgb255(linear: number): number {
+  const c = linear <= 0.0031308 ? linear * 12.92 : 1.055 * linear ** (1 / 2.4) - 0.055;
+  return c * 255;
+}
+
+export const COLOR_LUT_SIZE = 256;
+
+/**
+ * A lookup table of linear-RGB triples. Entry i holds the interpolator at the centre of bin i, which for
+ * d3's 256-step viridis is exactly the colour it returns anywhere in that bin.
+ */
+export function colorLut(interpolator: ColorInterpolator, size = COLOR_LUT_SIZE): Float32Array {
+  const lut = new Float32Array(size * 3);
+  for (let i = 0; i < size; i++) {
+    const [r, g, b] = parseCssColor(interpolator((i + 0.5) / size));
+    lut[i * 3] = srgbToLinear(r);
+    lut[i * 3 + 1] = srgbToLinear(g);
+    lut[i * 3 + 2] = srgbToLinear(b);
+  }
+  return lut;
+}
+
+export function lutIndex(fraction: number, size = COLOR_LUT_SIZE): number {
+  return Math.max(0, Math.min(size - 1, Math.floor(fraction * size)));
+}
+
+let viridisLut: Float32Array | null = null;
+let residualLut: Float32Array | null = null;
+export const surfaceInterpolator: ColorInterpolator = interpolateViridis;
+export const surfaceColorLut = () => (viridisLut ??= colorLut(surfaceInterpolator));
+/** diverging, reversed so that picks above the surface are red and below it blue */
+export const residualInterpolator: ColorInterpolator = (t) => interpolateRdBu(1 - t);
+// an odd size puts "on the surface" (residual 0) exactly on the middle entry
+export const RESIDUAL_LUT_SIZE = 255;
+export const residualColorLut = () => (residualLut ??= colorLut(residualInterpolator, RESIDUAL_LUT_SIZE));
+
+// ---- the plane frame -------------------------------------------------------------------------------------
+
+/** centroid + s·strike + t·dip + h·normal, written into out[offset..offset+2] */
+export function planePoint(frame: DisplayFrame, s: number, t: number, h: number, out: Float32Array, offset: number) {
+  for (let axis = 0; axis < 3; axis++) {
+    out[offset + axis] =
+      frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis] + h * frame.normal[axis];
+  }
+}
+
+/** World coordinates (float64) of the plane point (s, t) of a segment whose frame is relative to `origin`. */
+export function planePointWorld(frame: DisplayFrame, origin: readonly number[], s: number, t: number): [number, number, number] {
+  const point: [number, number, number] = [0, 0, 0];
+  for (let axis = 0; axis < 3; axis++) {
+    point[axis] = origin[axis] + frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis];
+  }
+  return point;
+}
+
+/** (s, t, h) of a world-local point in a segment's frame */
+export function frameCoordinates(frame: DisplayFrame, x: number, y: number, z: number): [number, number, number] {
+  const d = [x - frame.centroid[0], y - frame.centroid[1], z - frame.centroid[2]];
+  const dot = (v: readonly number[]) => d[0] * v[0] + d[1] * v[1] + d[2] * v[2];
+  return [dot(frame.strikeVector), dot(frame.dipVector), dot(frame.normal)];
+}
+
+/** lines sit this far off the surface along the normal so they are not hidden in it */
+export function lineLiftM(display: FaultDisplay): number {
+  return Math.max(0.5, displayExtentM(display) * 0.002);
+}
+
+/** the largest side of the segments' grids, m */
+export function displayExtentM(display: FaultDisplay): number {
+  let extent = 0;
+  for (const { grid } of display.segments) {
+    extent = Math.max(extent, (grid.columns - 1) * grid.cellM, (grid.rows - 1) * grid.cellM);
+  }
+  return extent || 1;
+}
+
+// ---- surface ---------------------------------------------------------------------------------------------
+
+export interface SurfaceOptions {
+  colorMode: ColorMode;
+  /** relief off the plane per metre of displacement (0 = flat on the plane) */
+  exaggeration: number;
+  /** value range mapped onto the colour scale */
+  colorRangeM: [number, number];
+}
+
+/**
+ * One vertex per grid node; two triangles per cell whose four corners have data, one triangle over the
+ * three corners that have data in a cell with one empty corner, none otherwise: holes stay open.
+ * Cells split along the (column, row)–(column+1, row+1) diagonal, as `surfaceValueAt` assumes.
+ */
+export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOptions): MeshArrays {
+  const { grid, frame } = segment;
+  const { columns, rows } = grid;
+  const nodeCount = columns * rows;
+  const positions = new Float32Array(nodeCount * 3);
+  const colors = new Float32Array(nodeCount * 3);
+  const colorValues = options.colorMode === "throw" ? grid.throwM : grid.displacementM;
+  const lut = surfaceColorLut();
+  const [low, high] = options.colorRangeM;
+  const span = high - low || 1;
+  for (let row = 0; row < rows; row++) {
+    for (let column = 0; column < columns; column++) {
+      const node = row * columns + column;
+      const displacement = grid.displacementM[node];
+      const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
+      planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
+      const value = colorValues[node];
+      const entry = Number.isNaN(value) ? 0 : lutIndex((value - low) / span) * 3;
+      colors[node * 3] = lut[entry];
+      colors[node * 3 + 1] = lut[entry + 1];
+      colors[node * 3 + 2] = lut[entry + 2];
+    }
+  }
+  const indices: number[] = [];
+  const hasData = (node: number) => !Number.isNaN(grid.displacementM[node]);
+  for (let row = 0; row < rows - 1; row++) {
+    for (let column = 0; column < columns - 1; column++) {
+      const a = row * columns + column;
+      const b = a + 1;
+      const c = a + columns;
+      const d = c + 1;
+      const corners = [a, b, d, c].filter(hasData);
+      if (corners.length === 4) indices.push(a, b, d, a, d, c);
+      else if (corners.length === 3) indices.push(corners[0], corners[1], corners[2]);
+    }
+  }
+  return { positions, colors, indices: Uint32Array.from(indices) };
+}
+
+/**
+ * The value the drawn surface shows at (s, t): linear on the same triangles as `buildSurfaceMesh`;
+ * NaN outside the grid or where a corner has no data.
+ */
+export function surfaceValueAt(grid: DisplayGrid, values: Float32Array, s: number, t: number): number {
+  const u = (s - grid.s0) / grid.cellM;
+  const v = (t - grid.t0) / grid.cellM;
+  const column = Math.min(Math.max(Math.floor(u), 0), grid.columns - 2);
+  const row = Math.min(Math.max(Math.floor(v), 0), grid.rows - 2);
+  const fu = u - column;
+  const fv = v - row;
+  const tolerance = 1e-6;
+  if (fu < -tolerance || fv < -tolerance || fu > 1 + tolerance || fv > 1 + tolerance) return NaN;
+  const at = (dc: number, dr: number) => values[(row + dr) * grid.columns + column + dc];
+  const [a, b, c, d] = [at(0, 0), at(1, 0), at(0, 1), at(1, 1)];
+  // barycentric on triangle (a, b, d) when fu >= fv, else on (a, d, c)
+  if (fu >= fv) return a + fu * (b - a) + fv * (d - b);
+  return a + fv * (c - a) + fu * (d - c);
+}
+
+// ---- lines -----------------------------------------------------------------------------------------------
+
+/**
+ * All contour rings of all segments as one segment list. A contour at level L sits where the surface shows
+ * L, so its height off the plane is L·exaggeration, plus the lift.
+ */
+export function buildContourLines(display: FaultDisplay, exaggeration: number): LineArrays {
+  const lift = lineLiftM(display);
+  let segmentCount = 0;
+  for (const { contours } of display.segments) {
+    for (let ring = 0; ring < contours.ringLevelIndex.length; ring++) {
+      segmentCount += Math.max(0, contours.ringStarts[ring + 1] - contours.ringStarts[ring] - 1);
+    }
+  }
+  const positions = new Float32Array(segmentCount * 6);
+  let offset = 0;
+  for (const { contours, frame } of display.segments) {
+    for (let ring = 0; ring < contours.ringLevelIndex.length; ring++) {
+      const height = contours.levelsM[contours.ringLevelIndex[ring]] * exaggeration + lift;
+      for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1] - 1; point++) {
+        planePoint(frame, contours.points[point * 2], contours.points[point * 2 + 1], height, positions, offset);
+        planePoint(frame, contours.points[point * 2 + 2], contours.points[point * 2 + 3], height, positions, offset + 3);
+        offset += 6;
+      }
+    }
+  }
+  return { positions };
+}
+
+/** Closed (s, t) polygons of every segment as one segment list; `heightAt` gives each vertex's height. */
+function polygonSegments(
+  display: FaultDisplay,
+  polygonOf: (segment: DisplaySegment) => [number, number][],
+  heightAt: (segment: DisplaySegment, s: number, t: number) => number,
+): LineArrays {
+  const pairs: number[] = [];
+  const scratch = new Float32Array(6);
+  for (const segment of display.segments) {
+    const polygon = polygonOf(segment);
+    const last = polygon.length - 1;
+    const closed = last > 0 && polygon[last][0] === polygon[0][0] && polygon[last][1] === polygon[0][1];
+    const edgeCount = closed ? last : polygon.length;
+    for (let i = 0; i < edgeCount; i++) {
+      const [s0, t0] = polygon[i];
+      const [s1, t1] = polygon[(i + 1) % polygon.length];
+      planePoint(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
+      planePoint(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
+      for (const value of scratch) pairs.push(value);
+    }
+  }
+  return { positions: Float32Array.from(pairs) };
+}
+
+/** The inferred tip line is where displacement falls to zero: on the plane, lifted. */
+export function buildTipLines(display: FaultDisplay): LineArrays {
+  const lift = lineLiftM(display);
+  return polygonSegments(display, (segment) => segment.tipLine, () => lift);
+}
+
+/** The mapped limit follows the surface's edge, so it takes the surface height there. */
+export function buildMappedLimitLines(display: FaultDisplay, exaggeration: number): LineArrays {
+  const lift = lineLiftM(display);
+  return polygonSegments(
+    display,
+    (segment) => segment.mappedLimit,
+    (segment, s, t) => {
+      const displacement = sampleGrid(segment.grid, segment.grid.displacementM, s, t);
+      return (Number.isNaN(displacement) ? 0 : displacement * exaggeration) + lift;
+    },
+  );
+}
+
+// ---- points ----------------------------------------------------------------------------------------------
+
+/** Symmetric residual range for the diverging scale: the 95th percentile of |residual|, at least 1 m. */
+export function residualRangeM(residualM: Float32Array): number {
+  const magnitudes = Array.from(residualM, Math.abs).filter((value) => !Number.isNaN(value));
+  if (magnitudes.length === 0) return 1;
+  magnitudes.sort((a, b) => a - b);
+  return Math.max(1, magnitudes[Math.floor(0.95 * (magnitudes.length - 1))]);
+}
+
+/**
+ * Picks at their true position, raised along their segment's normal by displacement·exaggeration like the
+ * surface, coloured by residual on a diverging scale (white = on the surface, grey = no surface there).
+ */
+export function buildPickPoints(display: FaultDisplay, exaggeration: number, rangeM: number): PointArrays {
+  const { picks } = display;
+  const positions = new Float32Array(picks.count * 3);
+  const colors = new Float32Array(picks.count * 3);
+  const lut = residualColorLut();
+  const noSurface = srgbToLinear(150);
+  for (let i = 0; i < picks.count; i++) {
+    const { normal } = (display.segments[picks.segmentIndex[i]] ?? display.segments[0]).frame;
+    const height = (picks.displacementM[i] || 0) * exaggeration;
+    for (let axis = 0; axis < 3; axis++) positions[i * 3 + axis] = picks.position[i * 3 + axis] + normal[axis] * height;
+    const residual = picks.residualM[i];
+    if (Number.isNaN(residual)) {
+      colors.fill(noSurface, i * 3, i * 3 + 3);
+      continue;
+    }
+    const entry = lutIndex((residual / rangeM + 1) / 2, RESIDUAL_LUT_SIZE) * 3;
+    colors[i * 3] = lut[entry];
+    colors[i * 3 + 1] = lut[entry + 1];
+    colors[i * 3 + 2] = lut[entry + 2];
+  }
+  return { positions, colors };
+}
+
+/** Where each segment's peak marker sits: its maximum displacement, on the surface, lifted twice. */
+export function peakPosition(segment: DisplaySegment, exaggeration: number, liftM: number): [number, number, number] {
+  const point = new Float32Array(3);
+  planePoint(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + liftM * 2, point, 0);
+  return [point[0], point[1], point[2]];
+}
+
+export function buildPeakPoints(display: FaultDisplay, exaggeration: number): LineArrays {
+  const lift = lineLiftM(display);
+  return { positions: Float32Array.from(display.segments.flatMap((segment) => peakPosition(segment, exaggeration, lift))) };
+}
+
+// ---- bounds and labels -----------------------------------------------------------------------------------
+
+export interface Bounds {
+  min: [number, number, number];
+  max: [number, number, number];
+}
+
+/** Box around every surface node with data and every tip-line vertex, world-local. */
+export function displayBounds(display: FaultDisplay, exaggeration: number): Bounds {
+  const min: [number, number, number] = [Infinity, Infinity, Infinity];
+  const max: [number, number, number] = [-Infinity, -Infinity, -Infinity];
+  const point = new Float32Array(3);
+  const include = () => {
+    for (let axis = 0; axis < 3; axis++) {
+      min[axis] = Math.min(min[axis], point[axis]);
+      max[axis] = Math.max(max[axis], point[axis]);
+    }
+  };
+  for (const { grid, frame, tipLine } of display.segments) {
+    for (let row = 0; row < grid.rows; row++) {
+      for (let column = 0; column < grid.columns; column++) {
+        const displacement = grid.displacementM[row * grid.columns + column];
+        if (Number.isNaN(displacement)) continue;
+        planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, displacement * exaggeration, point, 0);
+        include();
+      }
+    }
+    for (const [s, t] of tipLine) {
+      planePoint(frame, s, t, 0, point, 0);
+      include();
+    }
+  }
+  if (!Number.isFinite(min[0])) return { min: [0, 0, 0], max: [0, 0, 0] };
+  return { min, max };
+}
+
+/** 1, 2 or 5 × 10^k: the smallest such step not below `rough`. */
+export function niceStep(rough: number): number {
+  if (!(rough > 0) || !Number.isFinite(rough)) return 1;
+  const power = 10 ** Math.floor(Math.log10(rough));
+  const fraction = rough / power;
+  return (fraction <= 1 ? 1 : fraction <= 2 ? 2 : fraction <= 5 ? 5 : 10) * power;
+}
+
+/** Round values (a nice step apart) spanning [low, high], about `count` of them. */
+export function niceTicks(low: number, high: number, count: number): number[] {
+  if (!(high > low)) return [];
+  const step = niceStep((high - low) / Math.max(1, count));
+  // multiply integers by the step and round to its decimals, so 3 × 0.2 reads 0.6, not 0.6000000000000001
+  const decimals = Math.max(0, -Math.floor(Math.log10(step)));
+  const ticks: number[] = [];
+  for (let index = Math.ceil(low / step - 1e-9); index * step <= high + step * 1e-9; index++) {
+    ticks.push(Number((index * step).toFixed(decimals)));
+  }
+  return ticks;
+}
+
+export interface DepthLabel {
+  position: [number, number, number];
+  depthM: number;
+}
+
+/**
+ * Depth marks down the first segment's along-strike start edge, where the plane crosses round depths.
+ * `originZ` is the world elevation of the local origin.
+ */
+export function depthLabels(display: FaultDisplay, originZ: number, count = 5): DepthLabel[] {
+  const { grid, frame } = display.segments[0];
+  const dipZ = frame.dipVector[2];
+  if (Math.abs(dipZ) < 1e-6) return [];
+  const s = grid.s0 - grid.cellM * 2;
+  const elevationAt = (t: number) => originZ + frame.centroid[2] + s * frame.strikeVector[2] + t * dipZ;
+  const depths = [-elevationAt(grid.t0), -elevationAt(grid.t0 + (grid.rows - 1) * grid.cellM)].sort((a, b) => a - b);
+  const point = new Float32Array(3);
+  return niceTicks(depths[0], depths[1], count).map((depthM) => {
+    const t = (-depthM - originZ - frame.centroid[2] - s * frame.strikeVector[2]) / dipZ;
+    planePoint(frame, s, t, 0, point, 0);
+    return { position: [point[0], point[1], point[2]], depthM };
+  });
+}

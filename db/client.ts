@@ -17,7 +17,7 @@ export interface DatabaseHandle {
 const migrationsFolder = path.join(process.cwd(), "drizzle");
 
 export function dataDirectory(): string {
-  return path.resolve(process.env.SLIPFIELD_DATA_DIR ?? path.join(process.cwd(), "data"));
+  return path.resolve(/*turbopackIgnore: true*/ process.env.SLIPFIELD_DATA_DIR ?? path.join(process.cwd(), "data"));
 }
 
 /** Opens and migrates a database: PostgreSQL when `url` is given, else PGlite (on disk, or in memory for `memory`). */

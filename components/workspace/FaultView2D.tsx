@@ -1,0 +1,94 @@
+"use client";
+// The flat contour map in fault-plane coordinates: the fallback when WebGL is missing, and a view of its own.
+import { useMemo } from "react";
+import type { FaultDisplay } from "@/lib/analysis/display";
+import { buildContourMap } from "@/scene/map2d";
+import { niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { metres } from "./format";
+
+const WIDTH = 900;
+const MARGIN = { left: 64, right: 20, top: 24, bottom: 48 };
+
+export function FaultView2D({ display, reason }: { display: FaultDisplay; reason?: string }) {
+  const map = useMemo(() => buildContourMap(display), [display]);
+  const { sMin, sMax, tMin, tMax } = map.bounds;
+  const padS = (sMax - sMin) * 0.04 || 1;
+  const padT = (tMax - tMin) * 0.06 || 1;
+  const spanS = sMax - sMin + 2 * padS;
+  const spanT = tMax - tMin + 2 * padT;
+  const plotWidth = WIDTH - MARGIN.left - MARGIN.right;
+  const scale = plotWidth / spanS;
+  const plotHeight = spanT * scale;
+  const scaleT = scale;
+  const height = plotHeight + MARGIN.top + MARGIN.bottom;
+  const x = (s: number) => MARGIN.left + (s - sMin + padS) * scale;
+  const y = (t: number) => MARGIN.top + (t - tMin + padT) * scaleT;
+  const transform = `translate(${x(0)} ${y(0)}) scale(${scale} ${scaleT})`;
+  const [low, high] = display.displacementRangeM;
+  const colourFor = (level: number) => surfaceInterpolator(high > low ? (level - low) / (high - low) : 0.5);
+  const sTicks = niceTicks(sMin, sMax, 8);
+  const tTicks = niceTicks(tMin, tMax, 5);
+  const levels = [...new Set(map.contours.map((contour) => contour.levelM))].sort((a, b) => a - b);
+
+  return (
+    <figure className="p-3" data-testid="fault-map-2d">
+      {reason && <p className="mb-2 rounded bg-amber-50 px-3 py-2 text-sm text-amber-900 dark:bg-amber-950 dark:text-amber-100" data-testid="fallback-reason">{reason}</p>}
+      <svg viewBox={`0 0 ${WIDTH} ${height}`} className="h-auto w-full text-slate-600 dark:text-slate-300" role="img" aria-label="Contour map of displacement on the fault plane, along strike against down dip">
+        <rect x={MARGIN.left} y={MARGIN.top} width={plotWidth} height={plotHeight} className="fill-slate-50 dark:fill-slate-900" />
+        {sTicks.map((tick) => (
+          <g key={`s${tick}`}>
+            <line x1={x(tick)} x2={x(tick)} y1={MARGIN.top} y2={MARGIN.top + plotHeight} className="stroke-slate-200 dark:stroke-slate-800" />
+            <text x={x(tick)} y={MARGIN.top + plotHeight + 16} textAnchor="middle" fontSize={11} fill="currentColor">{tick}</text>
+          </g>
+        ))}
+        {tTicks.map((tick) => (
+          <g key={`t${tick}`}>
+            <line x1={MARGIN.left} x2={MARGIN.left + plotWidth} y1={y(tick)} y2={y(tick)} className="stroke-slate-200 dark:stroke-slate-800" />
+            <text x={MARGIN.left - 6} y={y(tick) + 4} textAnchor="end" fontSize={11} fill="currentColor">{tick}</text>
+          </g>
+        ))}
+        <text x={MARGIN.left + plotWidth / 2} y={height - 8} textAnchor="middle" fontSize={12} fill="currentColor">along strike s (m)</text>
+        <text transform={`translate(16 ${MARGIN.top + plotHeight / 2}) rotate(-90)`} textAnchor="middle" fontSize={12} fill="currentColor">down dip t (m)</text>
+        <g transform={transform} fill="none" strokeLinejoin="round">
+          {map.mappedLimits.map((path) => (
+            <path key={`limit-${path.segmentId}`} d={path.d} stroke="#334155" strokeWidth={1.5} strokeDasharray="6 4" vectorEffect="non-scaling-stroke" data-testid="map-mapped-limit" />
+          ))}
+          {map.contours.map((contour, index) => (
+            <path key={index} d={contour.d} stroke={colourFor(contour.levelM)} strokeWidth={1.6} vectorEffect="non-scaling-stroke" data-testid="map-contour">
+              <title>{`Segment ${contour.segmentId}: ${metres(contour.levelM)} displacement`}</title>
+            </path>
+          ))}
+          {map.tipLines.map((path) => (
+            <path key={`tip-${path.segmentId}`} d={path.d} stroke="#f08c00" strokeWidth={3.5} vectorEffect="non-scaling-stroke" data-testid="map-tip-line" />
+          ))}
+        </g>
+        {map.peaks.map((peak) => (
+          <g key={`peak-${peak.segmentId}`} transform={`translate(${x(peak.s)} ${y(peak.t)})`}>
+            <path d="M0 -7L7 0L0 7L-7 0Z" fill="#ffffff" stroke="#0f172a" strokeWidth={2} />
+            <text x={10} y={4} fontSize={11} className="fill-slate-900 dark:fill-slate-100">Peak {metres(peak.displacementM)}</text>
+          </g>
+        ))}
+        {map.labels.map((label) => (
+          <text key={`label-${label.segmentId}`} x={x(label.s)} y={y(label.t) - 8} textAnchor="middle" fontSize={12} fontWeight={600} className="fill-slate-800 dark:fill-slate-100">
+            Segment {label.segmentId}
+          </text>
+        ))}
+      </svg>
+      <figcaption className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-slate-600 dark:text-slate-300">
+        <span className="flex items-center gap-1">
+          Contours:
+          {levels.map((level) => (
+            <span key={level} className="num inline-flex items-center gap-0.5">
+              <span className="inline-block h-2 w-3 rounded-sm" style={{ background: colourFor(level) }} />
+              {level}
+            </span>
+          ))}
+          <span>m</span>
+        </span>
+        <span className="flex items-center gap-1"><span className="inline-block h-1 w-5 rounded bg-tip-500" /> inferred tip line</span>
+        <span className="flex items-center gap-1"><span className="inline-block w-5 border-t-2 border-dashed border-slate-700 dark:border-slate-300" /> mapped limit</span>
+        <span>Fault-plane coordinates of segment {display.segments[0].id}; 1:1 in metres.</span>
+      </figcaption>
+    </figure>
+  );
+}

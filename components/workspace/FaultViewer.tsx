@@ -1,0 +1,233 @@
+"use client";
+// The viewer card: the 3D scene (loaded only in the browser) or the 2D contour map, with the view bar, the
+// colour legend, the hover readout and the scale bar as plain HTML around the canvas.
+import dynamic from "next/dynamic";
+import { useEffect, useMemo, useState, type ReactNode } from "react";
+import type { FaultDisplay } from "@/lib/analysis/display";
+import type { AnalysisReport } from "@/lib/engine/types";
+import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
+import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
+import { niceStep, surfaceInterpolator } from "@/scene/geometry";
+import { useOverlayStore } from "@/scene/overlayStore";
+import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
+import { FaultView2D } from "./FaultView2D";
+import { metres } from "./format";
+
+const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
+  ssr: false,
+  loading: () => <div className="flex h-full items-center justify-center text-sm text-slate-500">Preparing the 3D view…</div>,
+});
+
+type ViewMode = "3d" | "map";
+
+const LAYER_LABELS: Record<LayerName, string> = {
+  surface: "Surface",
+  contours: "Contours",
+  tipLine: "Tip line",
+  mappedLimit: "Mapped limit",
+  picks: "Picks",
+  maxMarker: "Peak",
+  pins: "Pins",
+};
+
+const PRESETS: { preset: CameraPreset; label: string; title: string }[] = [
+  { preset: "overview", label: "Overview", title: "Back to the opening view (reset)" },
+  { preset: "map", label: "From above", title: "Map view, north up" },
+  { preset: "faceOn", label: "Face-on", title: "Looking straight at the fault plane" },
+  { preset: "alongStrike", label: "Along strike", title: "Looking along the strike of the fault" },
+];
+
+export function webglAvailable(): boolean {
+  try {
+    const canvas = document.createElement("canvas");
+    return Boolean(canvas.getContext("webgl2") ?? canvas.getContext("webgl"));
+  } catch {
+    return false;
+  }
+}
+
+export interface FaultViewerProps {
+  display: FaultDisplay;
+  report: AnalysisReport;
+  pins?: ScenePin[];
+  onSurfaceClick?: (hit: SurfaceHit) => void;
+  initialCamera?: CameraState;
+  /** extra controls for the view bar (viewpoints, pin placement) */
+  toolbarExtra?: ReactNode;
+  /** a note shown over the canvas, e.g. "click the surface to place a pin" */
+  hint?: string;
+}
+
+export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, toolbarExtra, hint }: FaultViewerProps) {
+  const [webgl, setWebgl] = useState<boolean | null>(null);
+  const [mode, setMode] = useState<ViewMode>("3d");
+  useEffect(() => setWebgl(webglAvailable()), []);
+  const showMap = webgl === false || mode === "map";
+
+  return (
+    <div className="flex h-full flex-col">
+      <ViewBar mode={showMap ? "map" : "3d"} webgl={webgl !== false} onMode={setMode} extra={toolbarExtra} />
+      {webgl === null ? (
+        <div className="flex h-[560px] items-center justify-center text-sm text-slate-500">Checking the graphics…</div>
+      ) : showMap ? (
+        <FaultView2D
+          display={display}
+          reason={webgl === false ? "3D graphics (WebGL) are not available in this browser, so the surface is shown as a contour map on the fault plane." : undefined}
+        />
+      ) : (
+        <div className="relative h-[600px] bg-gradient-to-b from-slate-100 to-slate-200 dark:from-slate-900 dark:to-slate-950" data-testid="fault-scene">
+          <FaultScene display={display} pins={pins} onSurfaceClick={onSurfaceClick} initialCamera={initialCamera} />
+          <DisplacementLegend display={display} />
+          <HoverReadout />
+          <ScaleBar />
+          {hint && <div className="pointer-events-none absolute left-1/2 top-3 -translate-x-1/2 rounded bg-slip-700 px-3 py-1 text-xs font-medium text-white shadow" data-testid="viewer-hint">{hint}</div>}
+        </div>
+      )}
+    </div>
+  );
+}
+
+function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolean; onMode: (mode: ViewMode) => void; extra?: ReactNode }) {
+  const layers = useViewSettings((state) => state.layers);
+  const toggleLayer = useViewSettings((state) => state.toggleLayer);
+  const colorMode = useViewSettings((state) => state.colorMode);
+  const setColorMode = useViewSettings((state) => state.setColorMode);
+  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const setExaggeration = useViewSettings((state) => state.setExaggeration);
+  const applyPreset = useCameraStore((state) => state.applyPreset);
+  return (
+    <div className="flex flex-wrap items-center gap-x-4 gap-y-2 border-b border-slate-200 px-3 py-2 text-xs dark:border-slate-800" data-testid="view-bar">
+      <div className="inline-flex overflow-hidden rounded-md ring-1 ring-slate-300 dark:ring-slate-700" role="group" aria-label="View">
+        {(["3d", "map"] as const).map((option) => (
+          <button
+            key={option}
+            type="button"
+            disabled={option === "3d" && !webgl}
+            aria-pressed={mode === option}
+            onClick={() => onMode(option)}
+            className={`px-2.5 py-1 font-medium ${mode === option ? "bg-slip-700 text-white" : "bg-white text-slate-700 hover:bg-slate-50 dark:bg-slate-900 dark:text-slate-200"} disabled:opacity-40`}
+            data-testid={`view-mode-${option}`}
+          >
+            {option === "3d" ? "3D surface" : "Plane map"}
+          </button>
+        ))}
+      </div>
+      {mode === "3d" && (
+        <>
+          <div className="flex flex-wrap items-center gap-1" role="group" aria-label="Camera">
+            {PRESETS.map(({ preset, label, title }) => (
+              <button key={preset} type="button" className="btn-quiet px-2 py-1 text-xs" title={title} onClick={() => applyPreset(preset)} data-testid={`camera-${preset}`}>
+                {label}
+              </button>
+            ))}
+          </div>
+          <label className="flex items-center gap-1.5">
+            <span className="text-slate-500">Colour by</span>
+            <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value as typeof colorMode)} data-testid="colour-mode">
+              <option value="displacement">displacement</option>
+              <option value="throw">throw</option>
+            </select>
+          </label>
+          <label className="flex items-center gap-1.5" title="Draw displacement as relief off the plane">
+            <span className="text-slate-500">Relief ×{exaggeration.toFixed(1)}</span>
+            <input type="range" min={0} max={MAX_EXAGGERATION} step={0.5} value={exaggeration} onChange={(event) => setExaggeration(Number(event.target.value))} data-testid="relief" />
+          </label>
+          <details className="relative">
+            <summary className="cursor-pointer select-none text-slate-600 dark:text-slate-300">Layers</summary>
+            <div className="absolute z-20 mt-1 w-40 rounded-md bg-white p-2 shadow-lg ring-1 ring-slate-200 dark:bg-slate-900 dark:ring-slate-700">
+              {LAYER_NAMES.map((layer) => (
+                <label key={layer} className="flex items-center gap-2 py-0.5">
+                  <input type="checkbox" checked={layers[layer]} onChange={() => toggleLayer(layer)} data-testid={`layer-${layer}`} />
+                  {LAYER_LABELS[layer]}
+                </label>
+              ))}
+            </div>
+          </details>
+        </>
+      )}
+      {extra && <div className="ml-auto flex items-center gap-2">{extra}</div>}
+    </div>
+  );
+}
+
+function DisplacementLegend({ display }: { display: FaultDisplay }) {
+  const colorMode = useViewSettings((state) => state.colorMode);
+  const [low, high] = colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const gradient = useMemo(() => {
+    const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(i / 10)} ${i * 10}%`);
+    return `linear-gradient(to top, ${stops.join(", ")})`;
+  }, []);
+  // the contour levels are displacement levels; in throw mode show round values instead
+  const levels = useMemo(() => {
+    if (colorMode === "displacement") {
+      const all = new Set<number>();
+      for (const segment of display.segments) for (const level of segment.contours.levelsM) all.add(level);
+      const sorted = [...all].sort((a, b) => a - b);
+      const stride = Math.ceil(sorted.length / 8);
+      return sorted.filter((_, i) => i % stride === 0 || i === sorted.length - 1);
+    }
+    const step = niceStep((high - low) / 6);
+    const values: number[] = [];
+    for (let value = Math.ceil(low / step) * step; value <= high; value += step) values.push(Number(value.toFixed(6)));
+    return values;
+  }, [colorMode, display, high, low]);
+  const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
+  return (
+    <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend">
+      <div className="mb-1 font-semibold">{colorMode === "throw" ? "Throw" : "Displacement"} (m)</div>
+      <div className="flex gap-1.5">
+        <div className="h-40 w-3 rounded-sm" style={{ background: gradient }} />
+        <div className="relative h-40 w-10">
+          {levels.map((level) => (
+            <span key={level} className="num absolute left-0 -translate-y-1/2 whitespace-nowrap" style={{ bottom: `calc(${fraction(level) * 100}% - 0.5em)` }}>
+              — {level.toLocaleString("en", { maximumFractionDigits: 1 })}
+            </span>
+          ))}
+        </div>
+      </div>
+      {colorMode === "displacement" && display.segments[0] && (
+        <div className="mt-1 text-slate-500">contours every {metres(display.segments[0].contours.intervalM, 0)}</div>
+      )}
+      <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
+      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600" /> mapped limit</div>
+    </div>
+  );
+}
+
+function HoverReadout() {
+  const readout = useOverlayStore((state) => state.readout);
+  if (!readout) return null;
+  const rows: [string, string][] = [
+    ["segment", readout.segmentId],
+    ["s", metres(readout.s, 0)],
+    ["t", metres(readout.t, 0)],
+    ["x", metres(readout.x, 0)],
+    ["y", metres(readout.y, 0)],
+    ["z", metres(readout.z, 0)],
+    ["throw", metres(readout.throwM)],
+    ["displacement", metres(readout.displacementM)],
+  ];
+  return (
+    <dl className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="hover-readout">
+      {rows.map(([label, value]) => (
+        <div key={label} className="contents">
+          <dt className="text-slate-500">{label}</dt>
+          <dd className="num text-right">{value}</dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+function ScaleBar() {
+  const metresPerPixel = useOverlayStore((state) => state.metresPerPixel);
+  if (!metresPerPixel) return null;
+  const lengthM = niceStep(metresPerPixel * 120);
+  const widthPx = lengthM / metresPerPixel;
+  return (
+    <div className="pointer-events-none absolute bottom-4 left-4 text-[11px] text-slate-700 dark:text-slate-200" data-testid="scale-bar">
+      <div className="h-1.5 border-x-2 border-b-2 border-slate-700 dark:border-slate-200" style={{ width: widthPx }} />
+      <div className="num mt-0.5">{metres(lengthM, 0)} at the centre of view</div>
+    </div>
+  );
+}

@@ -1,0 +1,102 @@
+// The 2D contour map: every segment's contour rings, tip line, mapped limit and peak drawn in one (s, t)
+// frame (the first segment's), so a multi-segment fault reads as one map. Pure; used by the SVG fallback.
+import type { DisplayFrame, FaultDisplay } from "@/lib/analysis/display";
+
+export interface MapPath {
+  segmentId: string;
+  /** SVG path data in map coordinates (s right, t down) */
+  d: string;
+}
+
+export interface MapContour extends MapPath {
+  levelM: number;
+}
+
+export interface MapPeak {
+  segmentId: string;
+  s: number;
+  t: number;
+  displacementM: number;
+}
+
+export interface ContourMap {
+  bounds: { sMin: number; sMax: number; tMin: number; tMax: number };
+  contours: MapContour[];
+  tipLines: MapPath[];
+  mappedLimits: MapPath[];
+  peaks: MapPeak[];
+  labels: { segmentId: string; s: number; t: number }[];
+}
+
+/** (s, t) of one segment's plane point in the reference frame; both frames relative to the same origin */
+export function toReferenceFrame(from: DisplayFrame, reference: DisplayFrame, s: number, t: number): [number, number] {
+  let sRef = 0;
+  let tRef = 0;
+  for (let axis = 0; axis < 3; axis++) {
+    const offset = from.centroid[axis] + s * from.strikeVector[axis] + t * from.dipVector[axis] - reference.centroid[axis];
+    sRef += offset * reference.strikeVector[axis];
+    tRef += offset * reference.dipVector[axis];
+  }
+  return [sRef, tRef];
+}
+
+const round = (value: number) => Math.round(value * 10) / 10;
+
+export function buildContourMap(display: FaultDisplay): ContourMap {
+  const reference = display.segments[0].frame;
+  let sMin = Infinity;
+  let sMax = -Infinity;
+  let tMin = Infinity;
+  let tMax = -Infinity;
+  const widen = (s: number, t: number) => {
+    if (s < sMin) sMin = s;
+    if (s > sMax) sMax = s;
+    if (t < tMin) tMin = t;
+    if (t > tMax) tMax = t;
+  };
+  const contours: MapContour[] = [];
+  const tipLines: MapPath[] = [];
+  const mappedLimits: MapPath[] = [];
+  const peaks: MapPeak[] = [];
+  const labels: ContourMap["labels"] = [];
+
+  for (const segment of display.segments) {
+    const project = (s: number, t: number) => toReferenceFrame(segment.frame, reference, s, t);
+    const ringPath = (points: ArrayLike<number>, start: number, end: number) => {
+      let d = "";
+      for (let i = start; i < end; i++) {
+        const [s, t] = project(points[2 * i], points[2 * i + 1]);
+        widen(s, t);
+        d += `${i === start ? "M" : "L"}${round(s)} ${round(t)}`;
+      }
+      return `${d}Z`;
+    };
+    const polygonPath = (polygon: [number, number][]) => {
+      const flat = polygon.flat();
+      return polygon.length > 1 ? ringPath(flat, 0, polygon.length) : "";
+    };
+
+    const { contours: rings } = segment;
+    for (let ring = 0; ring + 1 < rings.ringStarts.length; ring++) {
+      contours.push({
+        segmentId: segment.id,
+        levelM: rings.levelsM[rings.ringLevelIndex[ring]],
+        d: ringPath(rings.points, rings.ringStarts[ring], rings.ringStarts[ring + 1]),
+      });
+    }
+    const tip = polygonPath(segment.tipLine);
+    if (tip) tipLines.push({ segmentId: segment.id, d: tip });
+    const limit = polygonPath(segment.mappedLimit);
+    if (limit) mappedLimits.push({ segmentId: segment.id, d: limit });
+    const [peakS, peakT] = project(segment.max.s, segment.max.t);
+    peaks.push({ segmentId: segment.id, s: peakS, t: peakT, displacementM: segment.max.displacementM });
+    const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
+    const [labelS, labelT] = project(top[0], top[1]);
+    labels.push({ segmentId: segment.id, s: labelS, t: labelT });
+  }
+  if (!Number.isFinite(sMin)) {
+    sMin = tMin = -1;
+    sMax = tMax = 1;
+  }
+  return { bounds: { sMin, sMax, tMin, tMax }, contours, tipLines, mappedLimits, peaks, labels };
+}

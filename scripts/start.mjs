@@ -55,10 +55,10 @@ const needsBuild =
   process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !existsSync(workerFile) || statSync(buildId).mtimeMs < newestSourceTime());
 if (needsBuild) {
   console.log("slipfield: building the app (first start or sources changed)…");
-  const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
-  if (build.status !== 0) fail("the build failed (see above).");
   const worker = spawnSync(process.execPath, [path.join(root, "scripts/build-worker.mjs")], { cwd: root, stdio: "inherit" });
   if (worker.status !== 0) fail("building the analysis worker failed (see above).");
+  const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  if (build.status !== 0) fail("the build failed (see above).");
 }
 
 const env = { ...process.env, AUTH_SECRET: authSecret(), SLIPFIELD_DATA_DIR: dataDir, PORT: port, NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" };

@@ -12,7 +12,8 @@ const queue: string[] = [];
 let active = 0;
 const MAX_PARALLEL = Math.max(1, Number(process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1));
 const timeLimitMs = () => Number(process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS ?? 10 * 60_000);
-const WORKER_FILE = path.join(process.cwd(), "dist", "analysis-worker.mjs");
+// built by scripts/build-worker.mjs; kept out of the Next bundle on purpose (it runs in its own thread)
+const WORKER_FILE = path.join(/*turbopackIgnore: true*/ process.cwd(), "dist", "analysis-worker.mjs");
 
 /** Analyses run in order, at most MAX_PARALLEL at once, off the request that queued them. */
 export function scheduleAnalysis(analysisId: string) {
@@ -50,7 +51,7 @@ function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) =>
     }));
   }
   return new Promise((resolve, reject) => {
-    const worker = new Worker(WORKER_FILE, { workerData: job, resourceLimits: { maxOldGenerationSizeMb: 3072 } });
+    const worker = new Worker(/*turbopackIgnore: true*/ WORKER_FILE, { workerData: job, resourceLimits: { maxOldGenerationSizeMb: 3072 } });
     const limitMs = timeLimitMs();
     const timer = setTimeout(() => {
       void worker.terminate();

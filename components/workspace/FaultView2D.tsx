@@ -3,14 +3,20 @@
 import { useMemo } from "react";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import { buildContourMap } from "@/scene/map2d";
-import { niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { frameCoordinates, niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import type { ScenePin } from "@/scene/FaultScene";
 import { metres } from "./format";
 
 const WIDTH = 900;
 const MARGIN = { left: 64, right: 20, top: 24, bottom: 48 };
 
-export function FaultView2D({ display, reason }: { display: FaultDisplay; reason?: string }) {
+export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisplay; reason?: string; pins?: ScenePin[] }) {
   const map = useMemo(() => buildContourMap(display), [display]);
+  const reference = display.segments[0].frame;
+  const pinPoints = pins.map((pin) => {
+    const [s, t] = frameCoordinates(reference, pin.x - display.origin[0], pin.y - display.origin[1], pin.z - display.origin[2]);
+    return { ...pin, s, t };
+  });
   const { sMin, sMax, tMin, tMax } = map.bounds;
   const padS = (sMax - sMin) * 0.04 || 1;
   const padT = (tMax - tMin) * 0.06 || 1;
@@ -66,6 +72,11 @@ export function FaultView2D({ display, reason }: { display: FaultDisplay; reason
           <g key={`peak-${peak.segmentId}`} transform={`translate(${x(peak.s)} ${y(peak.t)})`}>
             <path d="M0 -7L7 0L0 7L-7 0Z" fill="#ffffff" stroke="#0f172a" strokeWidth={2} />
             <text x={10} y={4} fontSize={11} className="fill-slate-900 dark:fill-slate-100">Peak {metres(peak.displacementM)}</text>
+          </g>
+        ))}
+        {pinPoints.map((pin) => (
+          <g key={`pin-${pin.id}`} transform={`translate(${x(pin.s)} ${y(pin.t)})`} data-testid="map-pin">
+            <circle r={6} fill={pin.resolved ? "#94a3b8" : "#2f978f"} stroke="#0f172a" strokeWidth={2} />
           </g>
         ))}
         {map.labels.map((label) => (

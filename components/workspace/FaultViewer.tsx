@@ -72,6 +72,7 @@ export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, tool
       ) : showMap ? (
         <FaultView2D
           display={display}
+          pins={pins}
           reason={webgl === false ? "3D graphics (WebGL) are not available in this browser, so the surface is shown as a contour map on the fault plane." : undefined}
         />
       ) : (
@@ -175,11 +176,11 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
   return (
     <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend">
       <div className="mb-1 font-semibold">{colorMode === "throw" ? "Throw" : "Displacement"} (m)</div>
-      <div className="flex gap-1.5">
+      <div className="mt-2 flex gap-1.5">
         <div className="h-40 w-3 rounded-sm" style={{ background: gradient }} />
         <div className="relative h-40 w-10">
           {levels.map((level) => (
-            <span key={level} className="num absolute left-0 -translate-y-1/2 whitespace-nowrap" style={{ bottom: `calc(${fraction(level) * 100}% - 0.5em)` }}>
+            <span key={level} className="num absolute left-0 whitespace-nowrap" style={{ bottom: `calc(${fraction(level) * 100}% - 0.5em)` }}>
               — {level.toLocaleString("en", { maximumFractionDigits: 1 })}
             </span>
           ))}

@@ -5,6 +5,11 @@ import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { AnalysisReport } from "@/lib/engine/types";
+import type { StudyRole } from "@/db/schema";
+import { useAnnotationStore } from "@/scene/annotationStore";
+import { AnalysisViews } from "@/components/analysis-views/AnalysisViews";
+import { PinsPanel } from "@/components/collab/PinsPanel";
+import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
 import { UploadPanel } from "./UploadPanel";
@@ -28,8 +33,14 @@ interface PickSetRow { id: string; version: number; fileName: string; rowCount: 
 
 const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
 
-export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean }) {
+type SideTab = "sheet" | "pins";
+
+export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean; role: StudyRole }) {
   const { faultId, canEdit } = props;
+  const [sideTab, setSideTab] = useState<SideTab>("sheet");
+  const pins = useAnnotationStore((state) => state.pins);
+  const placing = useAnnotationStore((state) => state.placing);
+  const setPendingHit = useAnnotationStore((state) => state.setPendingHit);
   const queryClient = useQueryClient();
   const [pickSetId, setPickSetId] = useState<string | undefined>(undefined);
   const [showUpload, setShowUpload] = useState(false);
@@ -125,15 +136,43 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       )}
 
       {report && (
-        <div className="grid gap-4 xl:grid-cols-[1fr_380px]">
-          <div className="card min-h-[560px] overflow-hidden" data-testid="viewer-card">
-            {display.data ? <FaultViewer display={display.data} report={report} /> : <div className="flex h-[560px] items-center justify-center text-sm text-slate-500">{display.isError ? display.error.message : "Loading surface…"}</div>}
+        <>
+          <div className="grid items-start gap-4 xl:grid-cols-[1fr_400px]">
+            <div className="card overflow-hidden" data-testid="viewer-card">
+              {display.data ? (
+                <FaultViewer
+                  display={display.data}
+                  report={report}
+                  pins={pins}
+                  onSurfaceClick={placing ? setPendingHit : undefined}
+                  hint={placing ? "Click a place on the surface to pin a comment there" : undefined}
+                  toolbarExtra={<ViewpointsBar faultId={faultId} role={props.role} />}
+                />
+              ) : (
+                <div className="flex h-[600px] items-center justify-center text-sm text-slate-500">{display.isError ? display.error.message : "Loading surface…"}</div>
+              )}
+            </div>
+            <aside className="card max-h-[calc(100vh-7rem)] overflow-auto xl:sticky xl:top-4" data-testid="side-panel">
+              <div className="sticky top-0 z-10 flex border-b border-slate-200 bg-white dark:border-slate-800 dark:bg-slate-900" role="tablist">
+                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"]] as const).map(([tab, label]) => (
+                  <button key={tab} role="tab" aria-selected={sideTab === tab} onClick={() => setSideTab(tab)} data-testid={`side-tab-${tab}`}
+                    className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
+                    {label}
+                  </button>
+                ))}
+              </div>
+              <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
+                <FaultSheet report={report} />
+              </div>
+              <div className="p-4" hidden={sideTab !== "pins"}>
+                <PinsPanel studyId={props.studyId} faultId={faultId} role={props.role} currentPickSetVersion={current?.version ?? null} display={display.data ?? null} />
+              </div>
+            </aside>
           </div>
-          <aside className="card max-h-[calc(100vh-9rem)] overflow-auto p-4" data-testid="fault-sheet">
-            <h2 className="mb-3 font-semibold">Fault sheet</h2>
-            <FaultSheet report={report} />
-          </aside>
-        </div>
+          <section className="mt-4" data-testid="analysis-views">
+            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} />
+          </section>
+        </>
       )}
     </div>
   );

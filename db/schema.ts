@@ -288,6 +288,42 @@ export const auditLog = pgTable(
   (table) => [index("audit_log_study_idx").on(table.studyId, table.createdAt)],
 );
 
+/** The stress state used for reactivation screening: one row per saved version, per study or per fault. */
+export interface StressParameters {
+  regime: "normal" | "strike-slip" | "reverse" | "custom";
+  /** MPa/km */
+  verticalGradient: number;
+  minHorizontalGradient: number;
+  maxHorizontalGradient: number;
+  /** degrees clockwise from north */
+  maxHorizontalAzimuthDeg: number;
+  porePressureGradient: number;
+  frictionLow: number;
+  frictionHigh: number;
+  /** MPa */
+  cohesionMPa: number;
+  /** m below datum, positive down */
+  referenceDepthM: number;
+}
+
+export const stressStates = pgTable(
+  "stress_states",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id, { onDelete: "cascade" }),
+    /** null: applies to every fault of the study without its own */
+    faultId: text("fault_id").references(() => faults.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    parameters: jsonb("parameters").$type<StressParameters>().notNull(),
+    source: text("source").notNull().default(""),
+    setBy: text("set_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (table) => [index("stress_states_scope_idx").on(table.studyId, table.faultId, table.version)],
+);
+
 export type User = typeof users.$inferSelect;
 export type Study = typeof studies.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
@@ -303,3 +339,4 @@ export type ViewpointLink = typeof viewpointLinks.$inferSelect;
 export type Invitation = typeof invitations.$inferSelect;
 export type OutboxMessage = typeof outbox.$inferSelect;
 export type AuditEntry = typeof auditLog.$inferSelect;
+export type StressState = typeof stressStates.$inferSelect;

@@ -120,7 +120,8 @@ function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "i
   const showPicks = useLayerVisible("picks");
   const showPeak = useLayerVisible("maxMarker");
   const showPins = useLayerVisible("pins");
-  const [low, high] = colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === colorMode));
+  const [low, high] = field ? field.range : colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
   return (
     <>
       {showSurface &&
@@ -130,6 +131,8 @@ function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "i
             segment={segment}
             origin={display.origin}
             colorMode={colorMode}
+            fieldValues={field?.bySegment[segment.id]}
+            reversed={field?.reversed}
             exaggeration={exaggeration}
             colorLowM={low}
             colorHighM={high}
@@ -194,6 +197,8 @@ function SegmentSurface({
   segment,
   origin,
   colorMode,
+  fieldValues,
+  reversed,
   exaggeration,
   colorLowM,
   colorHighM,
@@ -202,16 +207,18 @@ function SegmentSurface({
   segment: DisplaySegment;
   origin: Vec3;
   colorMode: ColorMode;
+  fieldValues?: Float32Array;
+  reversed?: boolean;
   exaggeration: number;
   colorLowM: number;
   colorHighM: number;
   onSurfaceClick?: (hit: SurfaceHit) => void;
 }) {
   const geometry = useDisposable(() => {
-    const built = bufferGeometry(buildSurfaceMesh(segment, { colorMode, exaggeration, colorRangeM: [colorLowM, colorHighM] }));
+    const built = bufferGeometry(buildSurfaceMesh(segment, { colorMode, exaggeration, colorRangeM: [colorLowM, colorHighM], fieldValues, reversed }));
     if (exaggeration > 0) built.computeVertexNormals();
     return built;
-  }, [segment, colorMode, exaggeration, colorLowM, colorHighM]);
+  }, [segment, colorMode, exaggeration, colorLowM, colorHighM, fieldValues, reversed]);
   const publishReadout = useReadoutPublisher();
 
   const hitAt = (point: THREE.Vector3) => {
@@ -232,6 +239,7 @@ function SegmentSurface({
           ...hit,
           displacementM: surfaceValueAt(segment.grid, segment.grid.displacementM, hit.s, hit.t),
           throwM: surfaceValueAt(segment.grid, segment.grid.throwM, hit.s, hit.t),
+          fieldValue: fieldValues ? surfaceValueAt(segment.grid, fieldValues, hit.s, hit.t) : undefined,
         });
       }}
       onPointerOut={() => publishReadout(null)}

@@ -3,7 +3,22 @@
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
 import { sampleGrid, type DisplayFrame, type DisplayGrid, type DisplaySegment, type FaultDisplay } from "@/lib/analysis/display";
 
-export type ColorMode = "displacement" | "throw";
+/** "displacement", "throw", or the key of a registered ScalarField */
+export type ColorMode = string;
+
+/**
+ * A value per display-grid node, per segment, for colouring the surface by something other than
+ * displacement (e.g. slip tendency). Arrays match each segment's display grid (columns × rows, row-major).
+ */
+export interface ScalarField {
+  key: string;
+  label: string;
+  unit: string;
+  bySegment: Record<string, Float32Array>;
+  range: [number, number];
+  /** reverse the colour scale so that "worse" reads warm (e.g. low pressure-to-failure) */
+  reversed?: boolean;
+}
 
 export interface MeshArrays {
   positions: Float32Array;
@@ -127,6 +142,9 @@ export interface SurfaceOptions {
   exaggeration: number;
   /** value range mapped onto the colour scale */
   colorRangeM: [number, number];
+  /** values to colour by instead of displacement/throw (a ScalarField's array for this segment) */
+  fieldValues?: Float32Array;
+  reversed?: boolean;
 }
 
 /**
@@ -140,7 +158,7 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
   const nodeCount = columns * rows;
   const positions = new Float32Array(nodeCount * 3);
   const colors = new Float32Array(nodeCount * 3);
-  const colorValues = options.colorMode === "throw" ? grid.throwM : grid.displacementM;
+  const colorValues = options.fieldValues ?? (options.colorMode === "throw" ? grid.throwM : grid.displacementM);
   const lut = surfaceColorLut();
   const [low, high] = options.colorRangeM;
   const span = high - low || 1;
@@ -151,7 +169,8 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
       const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
       planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
       const value = colorValues[node];
-      const entry = Number.isNaN(value) ? 0 : lutIndex((value - low) / span) * 3;
+      const fraction = (value - low) / span;
+      const entry = Number.isNaN(value) ? 0 : lutIndex(options.reversed ? 1 - fraction : fraction) * 3;
       colors[node * 3] = lut[entry];
       colors[node * 3 + 1] = lut[entry + 1];
       colors[node * 3 + 2] = lut[entry + 2];

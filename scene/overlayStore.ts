@@ -12,6 +12,8 @@ export interface SurfaceReadout {
   z: number;
   displacementM: number;
   throwM: number;
+  /** the shown scalar field's value here, when colouring by one */
+  fieldValue?: number;
 }
 
 interface OverlayStore {

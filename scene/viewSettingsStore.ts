@@ -1,5 +1,5 @@
 import { create } from "zustand";
-import type { ColorMode } from "./geometry";
+import type { ColorMode, ScalarField } from "./geometry";
 
 export type LayerName = "surface" | "contours" | "tipLine" | "mappedLimit" | "picks" | "maxMarker" | "pins";
 
@@ -15,6 +15,10 @@ interface ViewSettingsStore {
   setLayer: (layer: LayerName, visible: boolean) => void;
   toggleLayer: (layer: LayerName) => void;
   setColorMode: (mode: ColorMode) => void;
+  /** extra colour modes offered next to displacement and throw */
+  fields: ScalarField[];
+  /** replaces the fields whose keys start with `prefix`; falls back to displacement if the shown one is gone */
+  setFields: (prefix: string, fields: ScalarField[]) => void;
   setExaggeration: (exaggeration: number) => void;
 }
 
@@ -25,6 +29,14 @@ export const useViewSettings = create<ViewSettingsStore>()((set) => ({
   setLayer: (layer, visible) => set((state) => ({ layers: { ...state.layers, [layer]: visible } })),
   toggleLayer: (layer) => set((state) => ({ layers: { ...state.layers, [layer]: !state.layers[layer] } })),
   setColorMode: (colorMode) => set({ colorMode }),
+  fields: [],
+  setFields: (prefix, fields) =>
+    set((state) => {
+      const kept = state.fields.filter((field) => !field.key.startsWith(prefix));
+      const next = [...kept, ...fields];
+      const shown = state.colorMode === "displacement" || state.colorMode === "throw" || next.some((field) => field.key === state.colorMode);
+      return { fields: next, colorMode: shown ? state.colorMode : "displacement" };
+    }),
   setExaggeration: (exaggeration) =>
     set({ exaggeration: Math.min(MAX_EXAGGERATION, Math.max(0, Number.isFinite(exaggeration) ? exaggeration : 0)) }),
 }));

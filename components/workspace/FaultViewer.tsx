@@ -7,7 +7,7 @@ import type { FaultDisplay } from "@/lib/analysis/display";
 import type { AnalysisReport } from "@/lib/engine/types";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
-import { niceStep, surfaceInterpolator } from "@/scene/geometry";
+import { niceStep, niceTicks, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
 import { FaultView2D } from "./FaultView2D";
@@ -93,6 +93,7 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
   const toggleLayer = useViewSettings((state) => state.toggleLayer);
   const colorMode = useViewSettings((state) => state.colorMode);
   const setColorMode = useViewSettings((state) => state.setColorMode);
+  const fields = useViewSettings((state) => state.fields);
   const exaggeration = useViewSettings((state) => state.exaggeration);
   const setExaggeration = useViewSettings((state) => state.setExaggeration);
   const applyPreset = useCameraStore((state) => state.applyPreset);
@@ -124,9 +125,12 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
           </div>
           <label className="flex items-center gap-1.5">
             <span className="text-slate-500">Colour by</span>
-            <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value as typeof colorMode)} data-testid="colour-mode">
+            <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value)} data-testid="colour-mode">
               <option value="displacement">displacement</option>
               <option value="throw">throw</option>
+              {fields.map((field) => (
+                <option key={field.key} value={field.key}>{field.label.toLowerCase()}</option>
+              ))}
             </select>
           </label>
           <label className="flex items-center gap-1.5" title="Draw displacement as relief off the plane">
@@ -153,12 +157,14 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
 
 function DisplacementLegend({ display }: { display: FaultDisplay }) {
   const colorMode = useViewSettings((state) => state.colorMode);
-  const [low, high] = colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode));
+  const [low, high] = field ? field.range : colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const reversed = field?.reversed ?? false;
   const gradient = useMemo(() => {
-    const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(i / 10)} ${i * 10}%`);
+    const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(reversed ? 1 - i / 10 : i / 10)} ${i * 10}%`);
     return `linear-gradient(to top, ${stops.join(", ")})`;
-  }, []);
-  // the contour levels are displacement levels; in throw mode show round values instead
+  }, [reversed]);
+  // displacement shows the contour levels; throw and other fields show round values
   const levels = useMemo(() => {
     if (colorMode === "displacement") {
       const all = new Set<number>();
@@ -167,21 +173,19 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
       const stride = Math.ceil(sorted.length / 8);
       return sorted.filter((_, i) => i % stride === 0 || i === sorted.length - 1);
     }
-    const step = niceStep((high - low) / 6);
-    const values: number[] = [];
-    for (let value = Math.ceil(low / step) * step; value <= high; value += step) values.push(Number(value.toFixed(6)));
-    return values;
+    return niceTicks(low, high, 6);
   }, [colorMode, display, high, low]);
   const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
+  const title = field ? `${field.label} (${field.unit})` : `${colorMode === "throw" ? "Throw" : "Displacement"} (m)`;
   return (
     <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend">
-      <div className="mb-1 font-semibold">{colorMode === "throw" ? "Throw" : "Displacement"} (m)</div>
+      <div className="mb-1 max-w-40 font-semibold" data-testid="legend-title">{title}</div>
       <div className="mt-2 flex gap-1.5">
         <div className="h-40 w-3 rounded-sm" style={{ background: gradient }} />
-        <div className="relative h-40 w-10">
+        <div className="relative h-40 w-12">
           {levels.map((level) => (
             <span key={level} className="num absolute left-0 whitespace-nowrap" style={{ bottom: `calc(${fraction(level) * 100}% - 0.5em)` }}>
-              — {level.toLocaleString("en", { maximumFractionDigits: 1 })}
+              — {level.toLocaleString("en", { maximumFractionDigits: 2 })}
             </span>
           ))}
         </div>
@@ -189,6 +193,7 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
       {colorMode === "displacement" && display.segments[0] && (
         <div className="mt-1 text-slate-500">contours every {metres(display.segments[0].contours.intervalM, 0)}</div>
       )}
+      {field && <div className="mt-1 max-w-40 text-slate-500">contours still show displacement</div>}
       <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
       <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600" /> mapped limit</div>
     </div>
@@ -197,6 +202,7 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
 
 function HoverReadout() {
   const readout = useOverlayStore((state) => state.readout);
+  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode));
   if (!readout) return null;
   const rows: [string, string][] = [
     ["segment", readout.segmentId],
@@ -208,6 +214,9 @@ function HoverReadout() {
     ["throw", metres(readout.throwM)],
     ["displacement", metres(readout.displacementM)],
   ];
+  if (field && readout.fieldValue !== undefined) {
+    rows.push([field.label.toLowerCase(), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
+  }
   return (
     <dl className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="hover-readout">
       {rows.map(([label, value]) => (

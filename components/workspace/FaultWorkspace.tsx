@@ -9,6 +9,7 @@ import type { StudyRole } from "@/db/schema";
 import { useAnnotationStore } from "@/scene/annotationStore";
 import { AnalysisViews } from "@/components/analysis-views/AnalysisViews";
 import { PinsPanel } from "@/components/collab/PinsPanel";
+import { StressPanel } from "@/components/stress/StressPanel";
 import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
@@ -33,7 +34,7 @@ interface PickSetRow { id: string; version: number; fileName: string; rowCount: 
 
 const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
 
-type SideTab = "sheet" | "pins";
+type SideTab = "sheet" | "pins" | "stress";
 
 export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean; role: StudyRole }) {
   const { faultId, canEdit } = props;
@@ -154,7 +155,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             </div>
             <aside className="card max-h-[calc(100vh-7rem)] overflow-auto xl:sticky xl:top-4" data-testid="side-panel">
               <div className="sticky top-0 z-10 flex border-b border-slate-200 bg-white dark:border-slate-800 dark:bg-slate-900" role="tablist">
-                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"]] as const).map(([tab, label]) => (
+                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"], ["stress", "Reactivation screen"]] as const).map(([tab, label]) => (
                   <button key={tab} role="tab" aria-selected={sideTab === tab} onClick={() => setSideTab(tab)} data-testid={`side-tab-${tab}`}
                     className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
                     {label}
@@ -163,6 +164,9 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
               </div>
               <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
                 <FaultSheet report={report} />
+              </div>
+              <div className="p-4" hidden={sideTab !== "stress"}>
+                <StressPanel studyId={props.studyId} faultId={faultId} role={props.role} display={display.data ?? null} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "pins"}>
                 <PinsPanel studyId={props.studyId} faultId={faultId} role={props.role} currentPickSetVersion={current?.version ?? null} display={display.data ?? null} />

@@ -274,6 +274,29 @@ export const outbox = pgTable("outbox", {
   createdAt: createdAt(),
 });
 
+/**
+ * E-mail notifications owed to a person (a reply to their pin, an @mention, their pin resolved). Sent at once
+ * for notify mode "immediate" (sentAt set when sent); queued with sentAt null for "digest" until the digest job
+ * sends one e-mail per person with everything pending.
+ */
+export const notifications = pgTable(
+  "notifications",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    kind: text("kind").notNull(),
+    studyId: text("study_id"),
+    pinId: text("pin_id"),
+    subject: text("subject").notNull(),
+    text: text("text_body").notNull(),
+    sentAt: timestamp("sent_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (table) => [index("notifications_pending_idx").on(table.userId, table.sentAt)],
+);
+
 export const auditLog = pgTable(
   "audit_log",
   {
@@ -339,4 +362,5 @@ export type ViewpointLink = typeof viewpointLinks.$inferSelect;
 export type Invitation = typeof invitations.$inferSelect;
 export type OutboxMessage = typeof outbox.$inferSelect;
 export type AuditEntry = typeof auditLog.$inferSelect;
+export type Notification = typeof notifications.$inferSelect;
 export type StressState = typeof stressStates.$inferSelect;

@@ -63,6 +63,8 @@ declare global {
     __slipfieldSceneReady?: boolean;
     __slipfieldFirstFrameMs?: number;
     __slipfieldFrameCount?: number;
+    /** performance.now() of recent frames (the last 600), for frame-time measurements */
+    __slipfieldFrameTimes?: number[];
     __slipfieldCamera?: () => CameraState | null;
     __slipfieldApplyCamera?: (camera: CameraState) => void;
   }
@@ -539,6 +541,9 @@ function FrameProbe() {
   useFrame(() => {
     frames.current += 1;
     window.__slipfieldFrameCount = frames.current;
+    const times = (window.__slipfieldFrameTimes ??= []);
+    times.push(performance.now());
+    if (times.length > 600) times.splice(0, times.length - 600);
     if (frames.current === 1) {
       requestAnimationFrame(() => {
         window.__slipfieldFirstFrameMs = performance.now();

@@ -8,12 +8,17 @@ interface Props {
   mode: "sign-in" | "sign-up";
   action: (state: AuthFormState, formData: FormData) => Promise<AuthFormState>;
   next?: string;
+  /** pre-filled address, e.g. from an invitation link */
+  email?: string;
 }
 
-export function AuthForm({ mode, action, next }: Props) {
+export function AuthForm({ mode, action, next, email }: Props) {
   const [state, formAction, pending] = useActionState(action, {});
   const errors = state.fieldErrors ?? {};
   const signUp = mode === "sign-up";
+  // keep the way back (e.g. to an invitation) when switching between sign-in and sign-up
+  const carry = new URLSearchParams({ ...(next ? { next } : {}), ...(email ? { email } : {}) }).toString();
+  const suffix = carry ? `?${carry}` : "";
   return (
     <form action={formAction} className="space-y-4" noValidate>
       {next && <input type="hidden" name="next" value={next} />}
@@ -31,7 +36,7 @@ export function AuthForm({ mode, action, next }: Props) {
       )}
       <div>
         <label htmlFor="email" className="label">E-mail</label>
-        <input id="email" name="email" type="email" className="field" autoComplete="email" defaultValue={state.values?.email} aria-invalid={!!errors.email} />
+        <input id="email" name="email" type="email" className="field" autoComplete="email" defaultValue={state.values?.email ?? email} aria-invalid={!!errors.email} />
         <FieldError errors={errors.email} />
       </div>
       <div>
@@ -45,9 +50,9 @@ export function AuthForm({ mode, action, next }: Props) {
       </button>
       <p className="text-center text-sm text-slate-600 dark:text-slate-400">
         {signUp ? (
-          <>Already have an account? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href="/sign-in">Sign in</Link></>
+          <>Already have an account? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-in${suffix}`}>Sign in</Link></>
         ) : (
-          <>New to Slipfield? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href="/sign-up">Create an account</Link></>
+          <>New to Slipfield? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-up${suffix}`}>Create an account</Link></>
         )}
       </p>
     </form>

@@ -1,0 +1,41 @@
+import type { Metadata } from "next";
+import { SharedViewpoint } from "@/components/collab/SharedViewpoint";
+import { ApiError } from "@/lib/api/errors";
+import { lookupLinkToken, publicViewpoint, type PublicViewpoint } from "@/lib/viewpoints";
+
+// the token is a secret: keep it out of search engines and out of Referer headers to other sites
+export const metadata: Metadata = { title: "Shared view", robots: { index: false, follow: false }, referrer: "no-referrer" };
+export const dynamic = "force-dynamic";
+
+const GONE = {
+  "not-found": ["This link does not work", "Check that the whole link was copied. Links are long on purpose."],
+  revoked: ["This link was revoked", "The person who shared this view has turned the link off. Ask them for a new one if you still need it."],
+  expired: ["This link has expired", "Shared views last for the time chosen when the link was made. Ask the person who shared it for a new link."],
+} as const;
+
+function LinkGone({ state }: { state: keyof typeof GONE }) {
+  const [title, text] = GONE[state];
+  return (
+    <main className="mx-auto max-w-xl px-6 py-24 text-center" data-testid={`link-${state}`}>
+      <p className="eyebrow">Shared view</p>
+      <h1 className="mt-2 text-2xl font-semibold">{title}</h1>
+      <p className="mt-3 text-slate-600 dark:text-slate-400">{text}</p>
+    </main>
+  );
+}
+
+export default async function ViewpointLinkPage({ params }: { params: Promise<{ token: string }> }) {
+  const { token } = await params;
+  const found = await lookupLinkToken(token);
+  if (found.state !== "active") return <LinkGone state={found.state} />;
+  let data: PublicViewpoint;
+  try {
+    data = await publicViewpoint(token);
+  } catch (error) {
+    // revoked between the two reads
+    const state = error instanceof ApiError ? (error.details as { state?: keyof typeof GONE } | undefined)?.state : undefined;
+    if (state) return <LinkGone state={state} />;
+    throw error;
+  }
+  return <SharedViewpoint token={token} data={data} />;
+}

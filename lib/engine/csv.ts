@@ -60,7 +60,78 @@ function toNumber(raw: string | undefined): number | undefined {
 export function parsePickCsv(text: string, options: ParseOptions = {}): ParseResult {
   const units = options.units ?? "m";
   const scale = units === "ft" ? FEET_TO_M : 1;
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), { skipEmptyLines: true });
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  const rejected: RejectedRow[] = [];
+  let rejectedCount = 0;
+  const reject = (r: RejectedRow) => {
+    rejectedCount++;
+    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
+  };
+  const warnings: string[] = [];
+  // clean numeric files take a tight loop over the string; anything it cannot vouch for goes through papaparse + zod
+  const table = readRowsFast(body, scale) ?? readRowsGeneral(body, scale, reject);
+  const { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames } = table;
+  const cut = <T extends Float64Array | Uint32Array | Int32Array>(a: T): T => (a.length === count ? a : (a.slice(0, count) as T));
+
+  let picks: PickColumns = {
+    x: cut(xs), y: cut(ys), z: cut(zs), throwM: cut(ts), heaveM: cut(hs), quality: cut(qs), segment: cut(seg), horizon: cut(hor),
+    segmentNames, horizonNames, sourceRow: cut(src),
+  };
+
+  const dedupe = options.dedupe ?? "reject";
+  const dup = handleDuplicates(picks, dedupe, Boolean(options.dropBadRows), reject);
+  picks = dup.picks;
+  if (dup.merged > 0) warnings.push(`${dup.merged} duplicate picks averaged into the pick at the same position`);
+
+  if (rejectedCount > 0 && !options.dropBadRows) {
+    throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  }
+
+  const segmentProblems: RejectedRow[] = [];
+  const perSegment = indicesBySegment(picks);
+  perSegment.forEach((ids, si) => {
+    const name = picks.segmentNames[si];
+    if (ids.length < 3) {
+      segmentProblems.push({ row: ids.length ? picks.sourceRow[ids[0]] : 1, column: "segment", reason: `segment "${name}" has ${ids.length} usable picks; at least 3 are needed` });
+      return;
+    }
+    try {
+      fitPlane(picks.x, picks.y, picks.z, ids);
+    } catch (e) {
+      if (!(e instanceof DegeneratePlaneError)) throw e;
+      segmentProblems.push({ row: picks.sourceRow[ids[0]], column: "x,y,z", reason: `segment "${name}": ${e.message}` });
+    }
+  });
+  if (picks.x.length === 0) segmentProblems.push({ row: 2, column: "x", reason: "no usable picks" });
+  if (segmentProblems.length) {
+    const all = [...rejected, ...segmentProblems].slice(0, MAX_REJECTED_LISTED);
+    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
+  }
+
+  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+}
+
+interface RowTable {
+  /** data rows after the header (empty lines not counted) */
+  rows: number;
+  /** accepted rows: the first `count` entries of each column */
+  count: number;
+  xs: Float64Array;
+  ys: Float64Array;
+  zs: Float64Array;
+  ts: Float64Array;
+  hs: Float64Array;
+  qs: Float64Array;
+  seg: Uint32Array;
+  hor: Int32Array;
+  src: Uint32Array;
+  segmentNames: string[];
+  horizonNames: string[];
+}
+
+/** The general reader: papaparse for the CSV grammar (quotes, delimiters, line endings), zod for each row. */
+function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) => void): RowTable {
+  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: true });
   const table = parsed.data;
   if (table.length === 0) throw new PickInputError("the file is empty; a header row with x, y, z (or depth) and throw is required", []);
   const header = table[0].map((h) => h.trim().toLowerCase());
@@ -73,13 +144,6 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   if (!col.has("z") && !col.has("depth")) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth") is missing from the header' });
   if (missing.length) throw new PickInputError(`header row 1: ${missing.map((m) => m.reason).join("; ")}`, missing);
 
-  const rejected: RejectedRow[] = [];
-  let rejectedCount = 0;
-  const reject = (r: RejectedRow) => {
-    rejectedCount++;
-    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
-  };
-  const warnings: string[] = [];
   const rows = table.length - 1;
   const n = rows;
   const xs = new Float64Array(n), ys = new Float64Array(n), zs = new Float64Array(n), ts = new Float64Array(n);
@@ -153,43 +217,258 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     count++;
   }
 
-  let picks: PickColumns = {
-    x: xs.slice(0, count), y: ys.slice(0, count), z: zs.slice(0, count), throwM: ts.slice(0, count),
-    heaveM: hs.slice(0, count), quality: qs.slice(0, count), segment: seg.slice(0, count), horizon: hor.slice(0, count),
-    segmentNames, horizonNames, sourceRow: src.slice(0, count),
+  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames };
+}
+
+// ---- fast reader for clean numeric files -------------------------------------------------------------------------
+
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+const ROLE_IGNORED = -1;
+const ROLE_SEGMENT = NUMERIC.length;
+const ROLE_HORIZON = NUMERIC.length + 1;
+
+/** where the last cellNumber/skipCell call stopped: the index of the "," or line-end character (or text.length) */
+let cellEnd = 0;
+
+const isCellEnd = (c: number) => c === 44 || c === 10 || c === 13;
+
+/** Skip one cell from `from`; sets cellEnd. */
+function skipCell(text: string, from: number): void {
+  const len = text.length;
+  let p = from;
+  while (p < len && !isCellEnd(text.charCodeAt(p))) p++;
+  cellEnd = p;
+}
+
+/**
+ * Number(cell.trim()) for the cell starting at `from` (up to the next "," or line end, which it stores in
+ * cellEnd), or undefined for a blank cell. Plain decimals of at most 15 significant digits and a power of ten
+ * within ±22 are converted as one exact integer times or divided by an exact power of ten — a single correctly
+ * rounded operation, so the result is bit-for-bit what Number() gives (Clinger 1990, the "fast path" of
+ * decimal-to-binary conversion); every other spelling goes to Number() itself.
+ */
+function cellNumber(text: string, from: number): number | undefined {
+  const len = text.length;
+  let p = from;
+  let c = text.charCodeAt(p);
+  while (c === 32) c = text.charCodeAt(++p);
+  let negative = false;
+  if (c === 45 || c === 43) {
+    negative = c === 45;
+    c = text.charCodeAt(++p);
+  }
+  let mantissa = 0;
+  let digits = 0;
+  let significant = 0;
+  let fraction = 0;
+  let seenDot = false;
+  let exponent = 0;
+  let exact = true;
+  for (;;) {
+    if (c >= 48 && c <= 57) {
+      digits++;
+      if (mantissa !== 0 || c !== 48) significant++;
+      mantissa = mantissa * 10 + (c - 48);
+      if (seenDot) fraction++;
+    } else if (c === 46 && !seenDot) seenDot = true;
+    else break;
+    c = text.charCodeAt(++p);
+  }
+  if (digits > 0 && (c === 101 || c === 69)) {
+    c = text.charCodeAt(++p);
+    let expNegative = false;
+    if (c === 45 || c === 43) {
+      expNegative = c === 45;
+      c = text.charCodeAt(++p);
+    }
+    let expDigits = 0;
+    while (c >= 48 && c <= 57 && exponent < 1000) {
+      exponent = exponent * 10 + (c - 48);
+      expDigits++;
+      c = text.charCodeAt(++p);
+    }
+    if (expDigits === 0) exact = false;
+    if (expNegative) exponent = -exponent;
+  }
+  while (c === 32) c = text.charCodeAt(++p);
+  // c is NaN at the end of the text
+  if (p < len && !isCellEnd(c)) {
+    exact = false;
+    while (p < len && !isCellEnd(text.charCodeAt(p))) p++;
+  }
+  cellEnd = p;
+  const power = exponent - fraction;
+  if (!exact || digits === 0 || significant > 15 || power < -22 || power > 22) {
+    const cell = text.slice(from, p).trim();
+    return cell === "" ? undefined : Number(cell);
+  }
+  const value = power === 0 ? mantissa : power > 0 ? mantissa * POW10[power] : mantissa / POW10[-power];
+  return negative ? -value : value;
+}
+
+/**
+ * A tight loop over the string for the common case: comma-separated, no quotes, no other delimiter candidates,
+ * consistent line endings, and every row valid. Rows are numbered exactly as the general reader numbers them.
+ * Returns null whenever the file falls outside that case (or has any bad row), so the general reader produces
+ * the messages; the accepted numbers are bit-identical to the general reader's.
+ */
+function readRowsFast(text: string, scale: number): RowTable | null {
+  const len = text.length;
+  // characters that make papaparse quote-aware or pick another delimiter
+  if (text.indexOf('"') >= 0 || text.indexOf("\t") >= 0 || text.indexOf("|") >= 0 || text.indexOf(";") >= 0 || text.indexOf("\x1e") >= 0 || text.indexOf("\x1f") >= 0) return null;
+  let newlines = 0;
+  for (let p = text.indexOf("\n"); p >= 0; p = text.indexOf("\n", p + 1)) newlines++;
+  let returns = 0;
+  for (let p = text.indexOf("\r"); p >= 0; p = text.indexOf("\r", p + 1)) returns++;
+  // papaparse splits on "\r\n" when every "\r" is followed by "\n"; mixed endings go to the general reader
+  const crlf = returns > 0;
+  if (crlf && returns !== newlines) return null;
+  /** start of the next line after the line-end character at e, or -1 when the ending is not the file's kind */
+  const nextLine = (e: number): number => {
+    if (e >= len) return len;
+    const c = text.charCodeAt(e);
+    if (c === 13) return text.charCodeAt(e + 1) === 10 ? e + 2 : -1;
+    return crlf ? -1 : e + 1;
   };
 
-  const dedupe = options.dedupe ?? "reject";
-  const dup = handleDuplicates(picks, dedupe, Boolean(options.dropBadRows), reject);
-  picks = dup.picks;
-  if (dup.merged > 0) warnings.push(`${dup.merged} duplicate picks averaged into the pick at the same position`);
-
-  if (rejectedCount > 0 && !options.dropBadRows) {
-    throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  // header: the first non-empty line
+  let pos = 0;
+  let headerEnd = pos;
+  for (;;) {
+    headerEnd = pos;
+    while (headerEnd < len && text.charCodeAt(headerEnd) !== 10 && text.charCodeAt(headerEnd) !== 13) headerEnd++;
+    if (headerEnd > pos || headerEnd >= len) break;
+    pos = nextLine(headerEnd);
+    if (pos < 0) return null;
   }
-
-  const segmentProblems: RejectedRow[] = [];
-  const perSegment = indicesBySegment(picks);
-  perSegment.forEach((ids, si) => {
-    const name = picks.segmentNames[si];
-    if (ids.length < 3) {
-      segmentProblems.push({ row: ids.length ? picks.sourceRow[ids[0]] : 1, column: "segment", reason: `segment "${name}" has ${ids.length} usable picks; at least 3 are needed` });
-      return;
-    }
-    try {
-      fitPlane(picks.x, picks.y, picks.z, ids);
-    } catch (e) {
-      if (!(e instanceof DegeneratePlaneError)) throw e;
-      segmentProblems.push({ row: picks.sourceRow[ids[0]], column: "x,y,z", reason: `segment "${name}": ${e.message}` });
-    }
+  if (headerEnd <= pos) return null;
+  const header = text.slice(pos, headerEnd).split(",").map((h) => h.trim().toLowerCase());
+  const roles = new Int32Array(header.length).fill(ROLE_IGNORED);
+  const seen = new Set<string>();
+  header.forEach((h, i) => {
+    if (!KNOWN.has(h) || seen.has(h)) return;
+    seen.add(h);
+    roles[i] = h === "segment" ? ROLE_SEGMENT : h === "horizon" ? ROLE_HORIZON : (NUMERIC as readonly string[]).indexOf(h);
   });
-  if (picks.x.length === 0) segmentProblems.push({ row: 2, column: "x", reason: "no usable picks" });
-  if (segmentProblems.length) {
-    const all = [...rejected, ...segmentProblems].slice(0, MAX_REJECTED_LISTED);
-    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
-  }
+  if (!seen.has("x") || !seen.has("y") || !seen.has("throw") || (!seen.has("z") && !seen.has("depth"))) return null;
+  const [X, Y, Z, DEPTH, THROW, HEAVE, QUALITY] = [0, 1, 2, 3, 4, 5, 6];
+  const roleCount = roles.length;
 
-  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  const capacity = newlines + 1;
+  const xs = new Float64Array(capacity), ys = new Float64Array(capacity), zs = new Float64Array(capacity), ts = new Float64Array(capacity);
+  const hs = new Float64Array(capacity), qs = new Float64Array(capacity);
+  const seg = new Uint32Array(capacity), hor = new Int32Array(capacity), src = new Uint32Array(capacity);
+  const segmentNames: string[] = [];
+  const segmentIndex = new Map<string, number>();
+  const horizonNames: string[] = [];
+  const horizonIndex = new Map<string, number>();
+  const values = new Float64Array(NUMERIC.length);
+  const present = new Uint8Array(NUMERIC.length);
+  let lastSegmentRaw = "";
+  let lastSegment = -1;
+  let lastHorizonRaw = "";
+  let lastHorizon = -1;
+  let rowCounter = 1; // papaparse rows so far, header included
+  let count = 0;
+  pos = nextLine(headerEnd);
+  if (pos < 0) return null;
+  while (pos < len) {
+    const start = pos;
+    const first = text.charCodeAt(start);
+    if (first === 10 || first === 13) {
+      // an empty line is not a row
+      pos = nextLine(start);
+      if (pos < 0) return null;
+      continue;
+    }
+    rowCounter++;
+    present.fill(0);
+    let segmentFrom = -1, segmentTo = -1, horizonFrom = -1, horizonTo = -1;
+    let p = start;
+    for (let c = 0; ; c++) {
+      const role = c < roleCount ? roles[c] : ROLE_IGNORED;
+      if (role >= 0 && role < ROLE_SEGMENT) {
+        const v = cellNumber(text, p);
+        if (v !== undefined) {
+          values[role] = v;
+          present[role] = 1;
+        }
+      } else {
+        skipCell(text, p);
+        if (role === ROLE_SEGMENT) {
+          segmentFrom = p;
+          segmentTo = cellEnd;
+        } else if (role === ROLE_HORIZON) {
+          horizonFrom = p;
+          horizonTo = cellEnd;
+        }
+      }
+      if (cellEnd < len && text.charCodeAt(cellEnd) === 44) p = cellEnd + 1;
+      else break;
+    }
+    const end = cellEnd;
+    pos = nextLine(end);
+    if (pos < 0) return null;
+    if (!present[X] && !present[Y] && !present[THROW]) {
+      // a row of blank cells is skipped (but still counted); anything else here is a bad row
+      for (let q = start; q < end; q++) {
+        const ch = text.charCodeAt(q);
+        if (ch !== 44 && ch !== 32) return null;
+      }
+      continue;
+    }
+    if (!present[X] || !present[Y] || !present[THROW] || (!present[Z] && !present[DEPTH])) return null;
+    for (let k = 0; k < NUMERIC.length; k++) if (present[k] && !Number.isFinite(values[k])) return null;
+    if (!(values[THROW] >= 0)) return null;
+    if (present[HEAVE] && !(values[HEAVE] >= 0)) return null;
+    if (present[QUALITY] && !(values[QUALITY] >= 0 && values[QUALITY] <= 1)) return null;
+    xs[count] = values[X] * scale;
+    ys[count] = values[Y] * scale;
+    zs[count] = (present[Z] ? values[Z] : -values[DEPTH]) * scale;
+    ts[count] = values[THROW] * scale;
+    hs[count] = present[HEAVE] ? values[HEAVE] * scale : NaN;
+    qs[count] = present[QUALITY] ? values[QUALITY] : NaN;
+    // segment and horizon names: consecutive rows usually repeat the cell verbatim, so compare before slicing
+    let si: number;
+    if (segmentFrom >= 0 && lastSegment >= 0 && segmentTo - segmentFrom === lastSegmentRaw.length && text.startsWith(lastSegmentRaw, segmentFrom)) si = lastSegment;
+    else {
+      const raw = segmentFrom >= 0 ? text.slice(segmentFrom, segmentTo) : "";
+      const name = raw.trim() || "main";
+      let found = segmentIndex.get(name);
+      if (found === undefined) {
+        found = segmentNames.length;
+        segmentNames.push(name);
+        segmentIndex.set(name, found);
+      }
+      si = found;
+      if (segmentFrom >= 0) {
+        lastSegmentRaw = raw;
+        lastSegment = si;
+      }
+    }
+    seg[count] = si;
+    if (horizonFrom < 0) hor[count] = -1;
+    else if (lastHorizon >= 0 && horizonTo - horizonFrom === lastHorizonRaw.length && text.startsWith(lastHorizonRaw, horizonFrom)) hor[count] = lastHorizon;
+    else {
+      const raw = text.slice(horizonFrom, horizonTo);
+      const name = raw.trim();
+      if (!name) hor[count] = -1;
+      else {
+        let hi = horizonIndex.get(name);
+        if (hi === undefined) {
+          hi = horizonNames.length;
+          horizonNames.push(name);
+          horizonIndex.set(name, hi);
+        }
+        hor[count] = hi;
+        lastHorizonRaw = raw;
+        lastHorizon = hi;
+      }
+    }
+    src[count] = rowCounter;
+    count++;
+  }
+  return { rows: rowCounter - 1, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames };
 }
 
 function summarise(list: RejectedRow[], total: number): string {
@@ -217,32 +496,34 @@ function handleDuplicates(
   reject: (r: RejectedRow) => void,
 ): { picks: PickColumns; merged: number } {
   const n = picks.x.length;
-  // positions hashed from their float bits; equal hashes are confirmed by exact comparison
-  const buckets = new Map<number, number[]>();
+  // positions hashed from their float bits into an open-addressing table of first occurrences (index + 1);
+  // equal hashes are confirmed by exact comparison
+  let size = 16;
+  while (size < 2 * n) size *= 2;
+  const mask = size - 1;
+  const table = new Int32Array(size);
   const groupOf = new Int32Array(n).fill(-1);
   const buf = new Float64Array(3);
   const words = new Uint32Array(buf.buffer);
+  const { x, y, z, segment } = picks;
   let duplicates = 0;
   for (let i = 0; i < n; i++) {
-    buf[0] = picks.x[i];
-    buf[1] = picks.y[i];
-    buf[2] = picks.z[i];
-    let h = Math.imul(2166136261 ^ picks.segment[i], 16777619);
+    buf[0] = x[i];
+    buf[1] = y[i];
+    buf[2] = z[i];
+    let h = Math.imul(2166136261 ^ segment[i], 16777619);
     for (let w = 0; w < 6; w++) h = Math.imul(h ^ words[w], 16777619);
-    const list = buckets.get(h);
+    h ^= h >>> 16;
+    let slot = h & mask;
     let first = -1;
-    if (list) {
-      for (const j of list) {
-        if (picks.x[j] === picks.x[i] && picks.y[j] === picks.y[i] && picks.z[j] === picks.z[i] && picks.segment[j] === picks.segment[i]) {
-          first = j;
-          break;
-        }
+    for (let j = table[slot] - 1; j >= 0; slot = (slot + 1) & mask, j = table[slot] - 1) {
+      if (x[j] === x[i] && y[j] === y[i] && z[j] === z[i] && segment[j] === segment[i]) {
+        first = j;
+        break;
       }
     }
-    if (first < 0) {
-      if (list) list.push(i);
-      else buckets.set(h, [i]);
-    } else {
+    if (first < 0) table[slot] = i + 1;
+    else {
       groupOf[i] = first;
       duplicates++;
       if (mode === "reject") reject({ row: picks.sourceRow[i], column: "x,y,z", reason: `duplicate position of row ${picks.sourceRow[first]} in segment "${picks.segmentNames[picks.segment[i]]}"${dropBadRows ? " (dropped)" : '; choose "average" to merge duplicates'}` });

@@ -10,12 +10,16 @@ export interface GridSpec {
 
 export const DEFAULT_GRID_CELLS = 512;
 
-/** Grid covering the points; cell from point spacing (half the median Delaunay edge) unless given, capped to gridCells per side. */
+/**
+ * Grid covering the points; cell from point spacing (half the median Delaunay edge) unless given, capped to
+ * gridCells per side. With `square`, exactly gridCells × gridCells nodes of square cells spanning the longer side
+ * of the data, centred on the shorter one (a fixed-size grid, as for benchmarks).
+ */
 export function gridSpecFor(
   s: ArrayLike<number>,
   t: ArrayLike<number>,
   spacingM: number,
-  options: { cellM?: number; gridCells?: number } = {},
+  options: { cellM?: number; gridCells?: number; square?: boolean } = {},
 ): GridSpec {
   let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
   for (let i = 0; i < s.length; i++) {
@@ -26,6 +30,11 @@ export function gridSpecFor(
   }
   const cap = Math.max(2, options.gridCells ?? DEFAULT_GRID_CELLS);
   const extent = Math.max(maxS - minS, maxT - minT);
+  if (options.square) {
+    const cell = extent / (cap - 1) || 1;
+    const span = (cap - 1) * cell;
+    return { s0: (minS + maxS - span) / 2, t0: (minT + maxT - span) / 2, cellM: cell, columns: cap, rows: cap };
+  }
   let cellM = options.cellM && options.cellM > 0 ? options.cellM : roundSignificant(spacingM / 2, 3);
   if (!(cellM > 0)) cellM = extent / (cap - 1) || 1;
   if (extent / cellM > cap - 1) cellM = extent / (cap - 1);
@@ -58,11 +67,20 @@ export function rasterizeTriangles(
   const { s0, t0, cellM, columns, rows } = spec;
   const outs = values.map(() => new Float64Array(columns * rows).fill(NaN));
   const eps = 1e-10;
+  // per-vertex record [s, t, value…] in one interleaved array, so each triangle corner is one cache line
+  const nv = values.length;
+  const stride = 2 + nv;
+  const vertex = new Float64Array(s.length * stride);
+  for (let i = 0, o = 0; i < s.length; i++, o += stride) {
+    vertex[o] = s[i];
+    vertex[o + 1] = t[i];
+    for (let v = 0; v < nv; v++) vertex[o + 2 + v] = values[v][i];
+  }
   for (let k = 0; k < triangles.length; k += 3) {
-    const a = triangles[k], b = triangles[k + 1], c = triangles[k + 2];
-    const ax = (s[a] - s0) / cellM, ay = (t[a] - t0) / cellM;
-    const bx = (s[b] - s0) / cellM, by = (t[b] - t0) / cellM;
-    const cx = (s[c] - s0) / cellM, cy = (t[c] - t0) / cellM;
+    const a = triangles[k] * stride, b = triangles[k + 1] * stride, c = triangles[k + 2] * stride;
+    const ax = (vertex[a] - s0) / cellM, ay = (vertex[a + 1] - t0) / cellM;
+    const bx = (vertex[b] - s0) / cellM, by = (vertex[b + 1] - t0) / cellM;
+    const cx = (vertex[c] - s0) / cellM, cy = (vertex[c + 1] - t0) / cellM;
     const det = (by - cy) * (ax - cx) + (cx - bx) * (ay - cy);
     if (det === 0) continue;
     const i0 = Math.max(0, Math.ceil(Math.min(ax, bx, cx) - eps));
@@ -78,10 +96,7 @@ export function rasterizeTriangles(
         const l2 = 1 - l0 - l1;
         if (l0 < -eps || l1 < -eps || l2 < -eps) continue;
         const node = j * columns + i;
-        for (let v = 0; v < values.length; v++) {
-          const val = values[v];
-          outs[v][node] = l0 * val[a] + l1 * val[b] + l2 * val[c];
-        }
+        for (let v = 0; v < nv; v++) outs[v][node] = l0 * vertex[a + 2 + v] + l1 * vertex[b + 2 + v] + l2 * vertex[c + 2 + v];
       }
     }
   }

@@ -56,9 +56,10 @@ export interface SyntheticTruth {
   centre: [number, number, number];
 }
 
-interface RawPick { x: number; y: number; z: number; throwM: number; segment: string }
+/** growing plain columns shared by all faults (no per-pick objects, so a million picks stay cheap) */
+interface RawColumns { x: number[]; y: number[]; z: number[]; throwM: number[] }
 
-function faultPicks(o: SyntheticFaultOptions, rand: () => number): { picks: RawPick[]; truth: SyntheticTruth } {
+function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumns): { count: number; truth: SyntheticTruth } {
   const strikeDeg = o.strikeDeg ?? 30;
   const dipDeg = o.dipDeg ?? 60;
   const a = o.halfLengthM ?? 1500;
@@ -75,7 +76,7 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number): { picks: RawP
   const dv = dipVectorOf((strikeDeg + 90) % 360, dipDeg);
   const sinDip = Math.sin((dipDeg * Math.PI) / 180);
   const h = Math.sqrt((Math.PI * a * b) / n);
-  const picks: RawPick[] = [];
+  let count = 0;
   for (let j = 0; j * h < 2 * b; j++) {
     for (let i = 0; i * h < 2 * a; i++) {
       const s = -a + (i + 0.5 + 0.6 * (rand() - 0.5)) * h;
@@ -84,17 +85,15 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number): { picks: RawP
       if (r >= 1) continue;
       const throwM = dmaxM * f(r) * sinDip + noiseM * gaussian(rand);
       if (throwM < cutoff || throwM < 0) continue;
-      picks.push({
-        x: centre[0] + s * sv[0] + t * dv[0],
-        y: centre[1] + s * sv[1] + t * dv[1],
-        z: centre[2] + s * sv[2] + t * dv[2],
-        throwM,
-        segment,
-      });
+      out.x.push(centre[0] + s * sv[0] + t * dv[0]);
+      out.y.push(centre[1] + s * sv[1] + t * dv[1]);
+      out.z.push(centre[2] + s * sv[2] + t * dv[2]);
+      out.throwM.push(throwM);
+      count++;
     }
   }
   return {
-    picks,
+    count,
     truth: { segment, lengthM: 2 * a, heightM: 2 * b, halfLengthM: a, halfHeightM: b, dmaxM, strikeDeg, dipDeg, profile, centre },
   };
 }
@@ -103,27 +102,31 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number): { picks: RawP
 export function generateSyntheticPicks(faults: SyntheticFaultOptions | SyntheticFaultOptions[], seed = 1): { picks: PickColumns; truth: SyntheticTruth[] } {
   const list = Array.isArray(faults) ? faults : [faults];
   const rand = mulberry32(list[0]?.seed ?? seed);
-  const all: RawPick[] = [];
+  const raw: RawColumns = { x: [], y: [], z: [], throwM: [] };
+  const names: string[] = [];
+  const segmentOf: number[] = [];
   const truth: SyntheticTruth[] = [];
   list.forEach((o, k) => {
-    const r = faultPicks({ segment: list.length > 1 ? `F${k + 1}` : "main", ...o }, rand);
-    all.push(...r.picks);
+    const r = faultPicks({ segment: list.length > 1 ? `F${k + 1}` : "main", ...o }, rand, raw);
     truth.push(r.truth);
+    if (r.count === 0) return;
+    let si = names.indexOf(r.truth.segment);
+    if (si < 0) si = names.push(r.truth.segment) - 1;
+    for (let i = 0; i < r.count; i++) segmentOf.push(si);
   });
-  const names = [...new Set(all.map((p) => p.segment))];
-  const n = all.length;
+  const n = raw.x.length;
   const picks: PickColumns = {
-    x: Float64Array.from(all, (p) => p.x),
-    y: Float64Array.from(all, (p) => p.y),
-    z: Float64Array.from(all, (p) => p.z),
-    throwM: Float64Array.from(all, (p) => p.throwM),
+    x: Float64Array.from(raw.x),
+    y: Float64Array.from(raw.y),
+    z: Float64Array.from(raw.z),
+    throwM: Float64Array.from(raw.throwM),
     heaveM: new Float64Array(n).fill(NaN),
     quality: new Float64Array(n).fill(NaN),
-    segment: Uint32Array.from(all, (p) => names.indexOf(p.segment)),
+    segment: Uint32Array.from(segmentOf),
     horizon: new Int32Array(n).fill(-1),
     segmentNames: names,
     horizonNames: [],
-    sourceRow: Uint32Array.from(all, (_, i) => i + 2),
+    sourceRow: Uint32Array.from({ length: n }, (_, i) => i + 2),
   };
   return { picks, truth };
 }

@@ -52,6 +52,8 @@ export function nelderMead(f: (p: number[]) => number, start: number[], steps: n
 
 /** log of the standard normal CDF, accurate in the far lower tail. */
 export function logNormalCdf(x: number): number {
+  // from x ≈ 8.29 up, 0.5·erfc(−x/√2) rounds to exactly 1 in double precision, so the log is exactly 0: skip the work
+  if (x >= 8.5) return 0;
   if (x < -6) {
     const x2 = x * x;
     return -x2 / 2 - Math.log(-x) - 0.5 * Math.log(2 * Math.PI) + Math.log(1 - 1 / x2 + 3 / (x2 * x2));
@@ -101,18 +103,21 @@ function subsample(s: ArrayLike<number>, t: ArrayLike<number>): Uint32Array {
   const keep = MAX_FIT_POINTS / n;
   const buf = new Float64Array(2);
   const words = new Uint32Array(buf.buffer);
-  const out: number[] = [];
+  const out = new Uint32Array(n);
+  let count = 0;
   for (let i = 0; i < n; i++) {
     buf[0] = s[i];
     buf[1] = t[i];
-    let h = 2166136261;
-    for (let w = 0; w < 4; w++) h = Math.imul(h ^ words[w], 16777619);
+    let h = Math.imul(2166136261 ^ words[0], 16777619);
+    h = Math.imul(h ^ words[1], 16777619);
+    h = Math.imul(h ^ words[2], 16777619);
+    h = Math.imul(h ^ words[3], 16777619);
     h ^= h >>> 15;
     h = Math.imul(h, 2246822507);
     h ^= h >>> 13;
-    if ((h >>> 0) / 4294967296 < keep) out.push(i);
+    if ((h >>> 0) / 4294967296 < keep) out[count++] = i;
   }
-  return Uint32Array.from(out);
+  return out.slice(0, count);
 }
 
 /**
@@ -121,8 +126,24 @@ function subsample(s: ArrayLike<number>, t: ArrayLike<number>): Uint32Array {
  * and semi-axes by Nelder–Mead on log axes.
  */
 export function fitProfileModel(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, model: ProfileModel, censoring?: CensoringInfo, noiseM?: number): ModelFit {
+  return refineProfileFit(leastSquaresFit(s, t, d, model), censoring, noiseM);
+}
+
+/** The least-squares stage of fitProfileModel, kept so a censored refinement can start from it without refitting. */
+interface LeastSquaresFit {
+  fit: ModelFit;
+  model: ProfileModel;
+  ss: Float64Array;
+  tt: Float64Array;
+  dd: Float64Array;
+  point: number[];
+  sse: number;
+  dmax: number;
+  maxD: number;
+}
+
+function leastSquaresFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, model: ProfileModel, ids = subsample(s, t)): LeastSquaresFit {
   const f = PROFILE_FUNCTIONS[model];
-  const ids = subsample(s, t);
   const m = ids.length;
   const ss = new Float64Array(m), tt = new Float64Array(m), dd = new Float64Array(m);
   let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity, maxD = 0;
@@ -168,14 +189,23 @@ export function fitProfileModel(s: ArrayLike<number>, t: ArrayLike<number>, d: A
     best = again;
   }
   const { sse, dmax } = geometry(best.point);
-  if (censoring && m >= 8) return refineCensored(ss, tt, dd, f, model, [...best.point, Math.log(Math.max(dmax, 1e-9))], censoring, Math.max(noiseM ?? Math.sqrt(sse / m), 1e-3 * maxD, 1e-6));
   return {
-    model,
-    centre: { s: best.point[0], t: best.point[1] },
-    semiAxes: { sM: Math.exp(best.point[2]), tM: Math.exp(best.point[3]) },
-    dmaxM: dmax,
-    rmsM: Math.sqrt(sse / m),
+    fit: {
+      model,
+      centre: { s: best.point[0], t: best.point[1] },
+      semiAxes: { sM: Math.exp(best.point[2]), tM: Math.exp(best.point[3]) },
+      dmaxM: dmax,
+      rmsM: Math.sqrt(sse / m),
+    },
+    model, ss, tt, dd, point: best.point, sse, dmax, maxD,
   };
+}
+
+function refineProfileFit(ls: LeastSquaresFit, censoring?: CensoringInfo, noiseM?: number): ModelFit {
+  const { ss, tt, dd, model, point, sse, dmax, maxD } = ls;
+  const m = ss.length;
+  if (censoring && m >= 8) return refineCensored(ss, tt, dd, PROFILE_FUNCTIONS[model], model, [...point, Math.log(Math.max(dmax, 1e-9))], censoring, Math.max(noiseM ?? Math.sqrt(sse / m), 1e-3 * maxD, 1e-6));
+  return ls.fit;
 }
 
 /**
@@ -186,6 +216,9 @@ export function fitProfileModel(s: ArrayLike<number>, t: ArrayLike<number>, d: A
 function refineCensored(ss: Float64Array, tt: Float64Array, dd: Float64Array, f: (r: number) => number, model: ProfileModel, start: number[], c: CensoringInfo, sigma: number): ModelFit {
   const m = ss.length;
   const na = c.absentS.length;
+  // where the model is exactly zero (beyond the tip line) the censored terms are constants: computed once
+  const zeroPick = logNormalCdf((0 - c.cutoffM) / sigma);
+  const zeroPlace = logNormalCdf((c.cutoffM - 0) / sigma);
   const nll = (p: number[]) => {
     const a = Math.exp(p[2]), b = Math.exp(p[3]), dmax = Math.exp(p[4]);
     let total = 0;
@@ -193,12 +226,12 @@ function refineCensored(ss: Float64Array, tt: Float64Array, dd: Float64Array, f:
       const u = (ss[k] - p[0]) / a, w = (tt[k] - p[1]) / b;
       const mu = dmax * f(Math.sqrt(u * u + w * w));
       const z = (dd[k] - mu) / sigma;
-      total += 0.5 * z * z + logNormalCdf((mu - c.cutoffM) / sigma);
+      total += 0.5 * z * z + (mu === 0 ? zeroPick : logNormalCdf((mu - c.cutoffM) / sigma));
     }
     for (let k = 0; k < na; k++) {
       const u = (c.absentS[k] - p[0]) / a, w = (c.absentT[k] - p[1]) / b;
       const mu = dmax * f(Math.sqrt(u * u + w * w));
-      total -= logNormalCdf((c.cutoffM - mu) / sigma);
+      total -= mu === 0 ? zeroPlace : logNormalCdf((c.cutoffM - mu) / sigma);
     }
     return total;
   };
@@ -253,17 +286,27 @@ export interface GradientTips {
  * extended to zero displacement. Falls back to the outermost pick where the gradient does not point to a tip.
  */
 export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, centre: { s: number; t: number }, semiAxes: { sM: number; tM: number }): GradientTips {
-  const side = (along: ArrayLike<number>, across: ArrayLike<number>, c: number, cAcross: number, halfAcross: number, sign: 1 | -1) => {
-    const xs: number[] = [];
-    const ds: number[] = [];
-    let far = 0;
-    for (let i = 0; i < along.length; i++) {
-      const u = (along[i] - c) * sign;
-      if (u <= 0 || Math.abs(across[i] - cAcross) > 0.2 * halfAcross) continue;
-      xs.push(u);
-      ds.push(d[i]);
-      far = Math.max(far, u);
+  // one pass over the picks collects the four bands (in pick order, as four separate passes would)
+  const bandT = 0.2 * semiAxes.tM;
+  const bandS = 0.2 * semiAxes.sM;
+  const sides = [0, 1, 2, 3].map(() => ({ xs: [] as number[], ds: [] as number[], far: 0 }));
+  const [sStart, sEnd, tUp, tDown] = sides;
+  for (let i = 0; i < s.length; i++) {
+    const si = s[i], ti = t[i], di = d[i];
+    if (!(Math.abs(ti - centre.t) > bandT)) {
+      const back = (si - centre.s) * -1;
+      if (!(back <= 0)) { sStart.xs.push(back); sStart.ds.push(di); sStart.far = Math.max(sStart.far, back); }
+      const ahead = (si - centre.s) * 1;
+      if (!(ahead <= 0)) { sEnd.xs.push(ahead); sEnd.ds.push(di); sEnd.far = Math.max(sEnd.far, ahead); }
     }
+    if (!(Math.abs(si - centre.s) > bandS)) {
+      const up = (ti - centre.t) * -1;
+      if (!(up <= 0)) { tUp.xs.push(up); tUp.ds.push(di); tUp.far = Math.max(tUp.far, up); }
+      const down = (ti - centre.t) * 1;
+      if (!(down <= 0)) { tDown.xs.push(down); tDown.ds.push(di); tDown.far = Math.max(tDown.far, down); }
+    }
+  }
+  const side = ({ xs, ds, far }: { xs: number[]; ds: number[]; far: number }, c: number, sign: 1 | -1) => {
     const nx: number[] = [];
     const nd: number[] = [];
     for (let k = 0; k < xs.length; k++) if (xs[k] >= 0.75 * far) { nx.push(xs[k]); nd.push(ds[k]); }
@@ -272,10 +315,10 @@ export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: Arra
     const tip = fit.slopePerM < 0 && fit.tipM > far ? fit.tipM : far;
     return { tip: c + sign * tip, gradient: Math.abs(fit.slopePerM) };
   };
-  const ss = side(s, t, centre.s, centre.t, semiAxes.tM, -1);
-  const se = side(s, t, centre.s, centre.t, semiAxes.tM, 1);
-  const up = side(t, s, centre.t, centre.s, semiAxes.sM, -1);
-  const dn = side(t, s, centre.t, centre.s, semiAxes.sM, 1);
+  const ss = side(sStart, centre.s, -1);
+  const se = side(sEnd, centre.s, 1);
+  const up = side(tUp, centre.t, -1);
+  const dn = side(tDown, centre.t, 1);
   return {
     strikeStartM: ss.tip, strikeEndM: se.tip, upDipM: up.tip, downDipM: dn.tip,
     strikeStartPerM: ss.gradient, strikeEndPerM: se.gradient, upDipPerM: up.gradient, downDipPerM: dn.gradient,
@@ -308,15 +351,17 @@ export interface TipLineOptions {
 
 export function inferTipLine(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, options: TipLineOptions = {}): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
   const models = options.models ?? CANDIDATE_MODELS;
-  const plain = models.map((m) => fitProfileModel(s, t, d, m));
+  const ids = subsample(s, t);
+  const leastSquares = models.map((m) => leastSquaresFit(s, t, d, m, ids));
+  const plain = leastSquares.map((ls) => ls.fit);
   let fits = plain;
   if (options.outline && options.outline.length >= 3 && options.spacingM && options.spacingM > 0 && s.length >= 8) {
     let cutoffM = Infinity;
     for (let i = 0; i < d.length; i++) cutoffM = Math.min(cutoffM, d[i]);
     const noiseM = Math.min(...plain.map((f) => f.rmsM));
-    fits = models.map((m, k) => {
+    fits = models.map((_model, k) => {
       const places = absentPlaces(options.outline!, plain[k].centre, options.spacingM!);
-      return fitProfileModel(s, t, d, m, { cutoffM, absentS: places.s, absentT: places.t }, noiseM);
+      return refineProfileFit(leastSquares[k], { cutoffM, absentS: places.s, absentT: places.t }, noiseM);
     });
   }
   const score = (f: ModelFit) => f.negLogLikelihood ?? f.rmsM;

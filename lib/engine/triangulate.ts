@@ -34,18 +34,18 @@ export function triangulate(s: Float64Array, t: Float64Array, options: Triangula
   const tri = d.triangles;
   const half = d.halfedges;
   const nt = tri.length / 3;
+  // read (s, t) from the interleaved copy: one cache line per vertex instead of two
   const edgeLength = (e: number) => {
-    const a = tri[e];
-    const b = tri[e % 3 === 2 ? e - 2 : e + 1];
-    const ds = s[a] - s[b];
-    const dt = t[a] - t[b];
+    const a = 2 * tri[e];
+    const b = 2 * tri[e % 3 === 2 ? e - 2 : e + 1];
+    const ds = coords[a] - coords[b];
+    const dt = coords[a + 1] - coords[b + 1];
     return Math.sqrt(ds * ds + dt * dt);
   };
   const stride = Math.max(1, Math.floor(tri.length / 200_000));
   const sample = new Float64Array(Math.ceil(tri.length / stride));
   for (let e = 0, k = 0; e < tri.length; e += stride) sample[k++] = edgeLength(e);
-  sample.sort();
-  const medianEdgeM = sample.length ? sample[sample.length >> 1] : 0;
+  const medianEdgeM = sample.length ? select(sample, sample.length >> 1) : 0;
 
   const removed = new Uint8Array(nt);
   let removedSlivers = 0;
@@ -112,4 +112,30 @@ export function triangulate(s: Float64Array, t: Float64Array, options: Triangula
     }
   }
   return { triangles: kept, medianEdgeM, removedSlivers, outline };
+}
+
+/** The k-th smallest value (0-based) by Hoare's quickselect, in place, O(n) on average — sort()[k] without the sort. */
+function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const tmp = a[i];
+        a[i] = a[j];
+        a[j] = tmp;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return a[k];
 }

@@ -42,3 +42,42 @@ describe("contours", () => {
     }
   });
 });
+
+describe("contours traced level by level on windows", () => {
+  // Independent check (common practice, no source): the windowed tracing must give the rings d3-contour gives on
+  // the whole grid, on a bumpy field with holes, several peaks and NaN gaps.
+  it("matches d3-contour run on the whole grid", async () => {
+    const { contours } = await import("d3-contour");
+    const columns = 90, rows = 70;
+    const spec = { s0: 100, t0: -50, cellM: 2.5, columns, rows };
+    const field = new Float64Array(columns * rows);
+    for (let j = 0; j < rows; j++) for (let i = 0; i < columns; i++) {
+      const a = Math.hypot(i - 30, j - 35), b = Math.hypot(i - 65, j - 30);
+      const v = 40 * Math.exp(-((a / 14) ** 2)) + 30 * Math.exp(-((b / 9) ** 2)) - 8 * Math.exp(-((Math.hypot(i - 30, j - 35) / 3) ** 2)) + 3 * Math.sin(i / 3) * Math.cos(j / 4);
+      field[j * columns + i] = (i - 80) ** 2 + (j - 60) ** 2 < 30 || v < 1 ? NaN : v;
+    }
+    const levels = [25, 5, 10, 15, 20, 30, 35, 60];
+    const got = contourGrid(spec, field, levels);
+    const below = Math.min(...levels) - 1;
+    const filled = Float64Array.from(field, (v) => (Number.isNaN(v) ? below : v));
+    const reference = contours().size([columns, rows]).thresholds(levels)(filled as unknown as number[]);
+    expect(got.map((c) => c.levelM)).toEqual(reference.map((r) => r.value));
+    expect(got.at(-1)!.rings).toEqual([]);
+    let rings = 0;
+    got.forEach((c, k) => {
+      const ref = reference[k].coordinates.flat();
+      expect(c.rings).toHaveLength(ref.length);
+      c.rings.forEach((ring, r) => {
+        expect(ring).toHaveLength(ref[r].length);
+        ring.forEach(([s, t], p) => {
+          const gx = Math.min(Math.max(ref[r][p][0], 0.5), columns - 0.5) - 0.5;
+          const gy = Math.min(Math.max(ref[r][p][1], 0.5), rows - 0.5) - 0.5;
+          expect(Math.abs(s - (spec.s0 + gx * spec.cellM))).toBeLessThan(1e-9);
+          expect(Math.abs(t - (spec.t0 + gy * spec.cellM))).toBeLessThan(1e-9);
+        });
+        rings++;
+      });
+    });
+    expect(rings).toBeGreaterThan(8);
+  });
+});

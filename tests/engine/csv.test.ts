@@ -91,3 +91,52 @@ describe("pick CSV parsing", () => {
     expect(e.truncated).toBe(true);
   });
 });
+
+describe("fast reader for clean numeric files", () => {
+  // The fast loop and papaparse + zod must agree exactly (common practice, no source): a quoted cell forces the
+  // general reader on the same content, so both paths are compared bit for bit.
+  const lines = [
+    "x,y,z,throw,heave,quality,segment,horizon",
+    "450000.125,6700000.5,-2000.25,12.5,3,0.5,a,H1",
+    " 450100.1 ,6700010.75,-2010,1e1,,1,a,H1",
+    "450050.333333333333,6700020.0001,-1.5e3,0.000001234,0.5,,b ,H2",
+    "0x10,+6700030,-0.0,7.,2,0.25, b,",
+    "",
+    ",,,,,,,",
+    "450150,6700040,-2030,8,1,0,a,H2",
+    "450160,6700050,-2031,9,1,0,b,H2",
+    "450170,6700065,-2045,9.5,1,0,b,H1",
+    "450180,6700070,-2050,11,1,0,a,H1",
+  ];
+  const quoted = (ls: string[]) => ls.map((l, i) => (i === 1 ? l.replace(",a,", ',"a",') : l));
+  const same = (a: ReturnType<typeof parsePickCsv>, b: ReturnType<typeof parsePickCsv>) => {
+    expect(a.rows).toBe(b.rows);
+    expect(a.accepted).toBe(b.accepted);
+    for (const k of ["x", "y", "z", "throwM", "heaveM", "quality", "segment", "horizon", "sourceRow"] as const) {
+      expect(Array.from(a.picks[k]).map((v) => Object.is(v, -0) ? "-0" : v)).toEqual(Array.from(b.picks[k]).map((v) => Object.is(v, -0) ? "-0" : v));
+    }
+    expect(a.picks.segmentNames).toEqual(b.picks.segmentNames);
+    expect(a.picks.horizonNames).toEqual(b.picks.horizonNames);
+  };
+
+  it("gives the same columns, row numbers and names as the general reader (LF, CRLF, feet)", () => {
+    for (const eol of ["\n", "\r\n"]) {
+      for (const units of ["m", "ft"] as const) {
+        const fast = parsePickCsv(lines.join(eol) + eol, { units });
+        const general = parsePickCsv(quoted(lines).join(eol) + eol, { units });
+        same(fast, general);
+        expect(fast.accepted).toBe(8);
+        expect(fast.picks.sourceRow[7]).toBe(10);
+      }
+    }
+  });
+
+  it("falls back to the general reader for bad rows, so messages are unchanged", () => {
+    const bad = [...lines, "450200,6700080,-2060,-3,1,0,a,H1", "1,2,nope,4,1,0,a,H1"];
+    const a = rejection(bad.join("\n"));
+    const b = rejection(quoted(bad).join("\n"));
+    expect(a.rejected).toEqual(b.rejected);
+    expect(a.message).toBe(b.message);
+    expect(a.rejected.map((r) => `${r.row}:${r.column}`)).toEqual(["11:throw", "12:z"]);
+  });
+});

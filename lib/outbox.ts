@@ -1,0 +1,41 @@
+import "server-only";
+import { timingSafeEqual } from "node:crypto";
+import { and, desc, eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { memberships, outbox } from "@/db/schema";
+import { requireUser } from "@/lib/access";
+import { ApiError } from "@/lib/api/errors";
+import type { SessionUser } from "@/lib/auth/users";
+
+/** The outbox page exists in development, or in a production build when SLIPFIELD_OUTBOX=on (browser tests). */
+export function outboxEnabled(env: NodeJS.ProcessEnv = process.env) {
+  return env.NODE_ENV !== "production" || env.SLIPFIELD_OUTBOX === "on";
+}
+
+export async function ownsAnyStudy(userId: string) {
+  const db = await getDb();
+  return Boolean(await db.query.memberships.findFirst({ where: and(eq(memberships.userId, userId), eq(memberships.role, "owner")), columns: { studyId: true } }));
+}
+
+export async function listOutbox(limit = 200) {
+  const db = await getDb();
+  return db.select().from(outbox).orderBy(desc(outbox.createdAt)).limit(limit);
+}
+
+/**
+ * Who may run the digest from the web: a scheduler holding SLIPFIELD_DIGEST_SECRET (header
+ * `x-slipfield-digest-secret`), or a signed-in owner of any study. Returns the caller for the audit trail.
+ */
+export async function requireDigestCaller(request: Request): Promise<{ kind: "secret" } | { kind: "owner"; user: SessionUser }> {
+  const secret = process.env.SLIPFIELD_DIGEST_SECRET;
+  const offered = request.headers.get("x-slipfield-digest-secret");
+  if (secret && offered !== null) {
+    const a = Buffer.from(offered);
+    const b = Buffer.from(secret);
+    if (a.length === b.length && timingSafeEqual(a, b)) return { kind: "secret" };
+    throw new ApiError(403, "The digest secret is not right.");
+  }
+  const user = await requireUser();
+  if (!(await ownsAnyStudy(user.id))) throw new ApiError(403, "Only a study owner can run the e-mail digest.");
+  return { kind: "owner", user };
+}

@@ -6,7 +6,7 @@ vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOr
 
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { auditLog, pins, viewpointLinks, viewpoints, type StudyRole } from "@/db/schema";
+import { auditLog, pins, viewpointLinks, viewpoints, type CameraState, type StudyRole } from "@/db/schema";
 import * as listRoute from "@/app/api/faults/[faultId]/viewpoints/route";
 import * as viewpointRoute from "@/app/api/viewpoints/[viewpointId]/route";
 import * as linksRoute from "@/app/api/viewpoints/[viewpointId]/links/route";
@@ -28,7 +28,7 @@ import { callRoute } from "../support/requests";
 type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];
 
-const camera = { position: [1000.5, -2000.25, 800.125], target: [10, 20, -1500], up: [0, 0, 1], fov: 40 };
+const camera: CameraState = { position: [1000.5, -2000.25, 800.125], target: [10, 20, -1500], up: [0, 0, 1], fov: 40 };
 const settings = { layers: { surface: true, contours: false, tipLine: true, picks: true }, colourMode: "throw", exaggeration: 1.5 };
 
 /** A study with every role, plus one viewpoint and one active link on each study's fault, both made by the interpreter / the outsider. */

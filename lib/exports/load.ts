@@ -1,0 +1,124 @@
+import "server-only";
+import { and, desc, eq, isNull } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { analyses, faults, pickSets, pins, studies, users } from "@/db/schema";
+import { ApiError } from "@/lib/api/errors";
+import { analyzePicks, type PipelineResult } from "@/lib/engine/pipeline";
+import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
+import { decodePicks } from "@/lib/picks/codec";
+import { faultScalingPoint, type FaultScalingPoint } from "@/lib/views/scaling";
+
+export interface ExportSource {
+  fault: { id: string; name: string; studyId: string; studyName: string };
+  analysis: { id: string; engineVersion: string | null; finishedAt: Date | null; parameters: Record<string, unknown> };
+  pickSet: { id: string; version: number; fileName: string; checksum: string; units: "m" | "ft"; rowCount: number; uploadedAt: Date; uploadedBy: string | null };
+  report: AnalysisReport;
+}
+
+/** The latest finished analysis of a fault (newest pick set first), with its provenance. 404 when none is finished. */
+export async function loadExportSource(faultId: string, analysisId?: string): Promise<ExportSource> {
+  const db = await getDb();
+  const rows = await db
+    .select({
+      faultName: faults.name,
+      studyId: faults.studyId,
+      studyName: studies.name,
+      analysisId: analyses.id,
+      engineVersion: analyses.engineVersion,
+      finishedAt: analyses.finishedAt,
+      parameters: analyses.parameters,
+      result: analyses.result,
+      pickSetId: pickSets.id,
+      version: pickSets.version,
+      fileName: pickSets.fileName,
+      checksum: pickSets.checksum,
+      units: pickSets.units,
+      rowCount: pickSets.rowCount,
+      uploadedAt: pickSets.uploadedAt,
+      uploaderName: users.name,
+      uploaderEmail: users.email,
+    })
+    .from(analyses)
+    .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
+    .innerJoin(faults, eq(faults.id, pickSets.faultId))
+    .innerJoin(studies, eq(studies.id, faults.studyId))
+    .leftJoin(users, eq(users.id, pickSets.uploadedBy))
+    .where(and(eq(pickSets.faultId, faultId), eq(analyses.status, "done"), analysisId ? eq(analyses.id, analysisId) : undefined))
+    .orderBy(desc(pickSets.version), desc(analyses.createdAt))
+    .limit(1);
+  const row = rows[0];
+  if (!row || !row.result) throw new ApiError(404, analysisId ? "That analysis of this fault is not finished or does not exist." : "This fault has no finished analysis to export yet.");
+  return {
+    fault: { id: faultId, name: row.faultName, studyId: row.studyId, studyName: row.studyName },
+    analysis: { id: row.analysisId, engineVersion: row.engineVersion, finishedAt: row.finishedAt, parameters: row.parameters },
+    pickSet: {
+      id: row.pickSetId,
+      version: row.version,
+      fileName: row.fileName,
+      checksum: row.checksum,
+      units: row.units,
+      rowCount: row.rowCount,
+      uploadedAt: row.uploadedAt,
+      uploadedBy: row.uploaderName ? `${row.uploaderName} <${row.uploaderEmail}>` : null,
+    },
+    report: row.result as AnalysisReport,
+  };
+}
+
+// Recomputing full-resolution grids costs seconds on large pick sets; keep the last few per analysis id.
+const recomputed = new Map<string, { picks: PickColumns; result: PipelineResult }>();
+const RECOMPUTED_KEEP = 2;
+
+/** Full-resolution engine grids for an analysis, recomputed from the stored picks with the analysis' own parameters. */
+export async function recomputeFullResolution(source: ExportSource): Promise<{ picks: PickColumns; result: PipelineResult }> {
+  const cached = recomputed.get(source.analysis.id);
+  if (cached) return cached;
+  const db = await getDb();
+  const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, source.pickSet.id), columns: { picks: true } });
+  if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
+  const picks = decodePicks(pickSet.picks);
+  const parameters = source.analysis.parameters as { intervalM?: number; cellM?: number };
+  const result = analyzePicks(picks, { units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
+  recomputed.set(source.analysis.id, { picks, result });
+  while (recomputed.size > RECOMPUTED_KEEP) recomputed.delete(recomputed.keys().next().value!);
+  return { picks, result };
+}
+
+/** One D–L point per fault of the study that has a finished analysis (latest pick set). */
+export async function studyScalingPoints(studyId: string): Promise<FaultScalingPoint[]> {
+  const db = await getDb();
+  const rows = await db
+    .select({ faultId: faults.id, name: faults.name, version: pickSets.version, result: analyses.result, createdAt: analyses.createdAt })
+    .from(analyses)
+    .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
+    .innerJoin(faults, eq(faults.id, pickSets.faultId))
+    .where(and(eq(faults.studyId, studyId), eq(analyses.status, "done")))
+    .orderBy(faults.name, desc(pickSets.version), desc(analyses.createdAt));
+  const seen = new Set<string>();
+  const points: FaultScalingPoint[] = [];
+  for (const row of rows) {
+    if (seen.has(row.faultId) || !row.result) continue;
+    seen.add(row.faultId);
+    const point = faultScalingPoint(row.faultId, row.name, row.result as AnalysisReport);
+    if (point) points.push(point);
+  }
+  return points;
+}
+
+export interface PinSummary {
+  open: number;
+  resolved: number;
+  openPins: { id: string; body: string; author: string | null; segment: string | null; createdAt: Date }[];
+}
+
+export async function pinSummary(faultId: string): Promise<PinSummary> {
+  const db = await getDb();
+  const rows = await db
+    .select({ id: pins.id, body: pins.body, state: pins.state, segment: pins.segmentName, createdAt: pins.createdAt, author: users.name })
+    .from(pins)
+    .leftJoin(users, eq(users.id, pins.authorId))
+    .where(and(eq(pins.faultId, faultId), isNull(pins.deletedAt)))
+    .orderBy(desc(pins.createdAt));
+  const openPins = rows.filter((row) => row.state === "open").map(({ state: _state, ...row }) => row);
+  return { open: openPins.length, resolved: rows.length - openPins.length, openPins };
+}

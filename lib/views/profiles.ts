@@ -1,0 +1,283 @@
+// Strike and down-dip profiles read off a segment's displacement grid, the fitted model profile, and profiles of
+// several segments placed in one common along-strike coordinate and summed (displacement transfer across a relay).
+// Pure: used by the browser views, the export routes and the tests.
+import { sampleGrid } from "@/lib/analysis/display";
+import { PROFILE_FUNCTIONS, PROFILE_LABELS } from "@/lib/engine/profiles";
+import type { SegmentResult } from "@/lib/engine/types";
+
+export interface GridLike {
+  s0: number;
+  t0: number;
+  cellM: number;
+  columns: number;
+  rows: number;
+  displacementM: ArrayLike<number>;
+  throwM: ArrayLike<number>;
+}
+
+/** One profile: positions in the segment's plane (s, t), the distance along the profile, and the values (NaN = no data). */
+export interface Profile {
+  distanceM: number[];
+  s: number[];
+  t: number[];
+  displacementM: number[];
+  throwM: number[];
+}
+
+export type StrikeProfileMode = "centre-line" | "column-max" | "line";
+
+const emptyProfile = (): Profile => ({ distanceM: [], s: [], t: [], displacementM: [], throwM: [] });
+
+/** Values along the straight segment a→b in (s, t), `samples` evenly spaced points (bilinear between grid nodes). */
+export function profileAlongLine(grid: GridLike, a: [number, number], b: [number, number], samples = 200): Profile {
+  const out = emptyProfile();
+  const length = Math.hypot(b[0] - a[0], b[1] - a[1]);
+  const n = Math.max(2, Math.round(samples));
+  for (let k = 0; k < n; k++) {
+    const f = k / (n - 1);
+    const s = a[0] + f * (b[0] - a[0]);
+    const t = a[1] + f * (b[1] - a[1]);
+    out.distanceM.push(f * length);
+    out.s.push(s);
+    out.t.push(t);
+    out.displacementM.push(sampleGrid(grid, grid.displacementM, s, t));
+    out.throwM.push(sampleGrid(grid, grid.throwM, s, t));
+  }
+  return out;
+}
+
+/** The along-strike line through the node nearest to t (the row through Dmax for the centre line), one value per column. */
+export function strikeProfileAtT(grid: GridLike, t: number): Profile {
+  const out = emptyProfile();
+  const row = Math.min(grid.rows - 1, Math.max(0, Math.round((t - grid.t0) / grid.cellM)));
+  const rowT = grid.t0 + row * grid.cellM;
+  for (let column = 0; column < grid.columns; column++) {
+    const s = grid.s0 + column * grid.cellM;
+    out.distanceM.push(s);
+    out.s.push(s);
+    out.t.push(rowT);
+    out.displacementM.push(grid.displacementM[row * grid.columns + column]);
+    out.throwM.push(grid.throwM[row * grid.columns + column]);
+  }
+  return out;
+}
+
+/** Maximum displacement in each grid column (and the throw at that node); NaN for columns without data. */
+export function columnMaxProfile(grid: GridLike): Profile {
+  const out = emptyProfile();
+  for (let column = 0; column < grid.columns; column++) {
+    let best = -1;
+    let bestValue = -Infinity;
+    for (let row = 0; row < grid.rows; row++) {
+      const value = grid.displacementM[row * grid.columns + column];
+      if (value > bestValue) {
+        bestValue = value;
+        best = row;
+      }
+    }
+    const s = grid.s0 + column * grid.cellM;
+    out.distanceM.push(s);
+    out.s.push(s);
+    out.t.push(best < 0 ? NaN : grid.t0 + best * grid.cellM);
+    out.displacementM.push(best < 0 ? NaN : bestValue);
+    out.throwM.push(best < 0 ? NaN : grid.throwM[best * grid.columns + column]);
+  }
+  return out;
+}
+
+/** The down-dip line through the column nearest to s (the column through Dmax), one value per row; distance = t. */
+export function dipProfileAtS(grid: GridLike, s: number): Profile {
+  const out = emptyProfile();
+  const column = Math.min(grid.columns - 1, Math.max(0, Math.round((s - grid.s0) / grid.cellM)));
+  const columnS = grid.s0 + column * grid.cellM;
+  for (let row = 0; row < grid.rows; row++) {
+    const t = grid.t0 + row * grid.cellM;
+    out.distanceM.push(t);
+    out.s.push(columnS);
+    out.t.push(t);
+    out.displacementM.push(grid.displacementM[row * grid.columns + column]);
+    out.throwM.push(grid.throwM[row * grid.columns + column]);
+  }
+  return out;
+}
+
+export interface ModelProfile {
+  name: string;
+  s: number[];
+  displacementM: number[];
+  /** inferred tip positions (s) on this line, where the model reaches zero */
+  tipsS: [number, number] | null;
+  /** model amplitude at the tip-line centre (m) */
+  amplitudeM: number;
+}
+
+/**
+ * The fitted model (elliptical tip line + published profile shape, from the report) along strike at down-dip position t:
+ * D(s, t) = A·f(r), r = sqrt(((s − cs)/a)² + ((t − ct)/b)²). A is set so that the model equals the segment's Dmax at the
+ * Dmax position, the way the report scales it. `columnMax` evaluates the model's own maximum per column (r along the
+ * centre row) instead.
+ */
+export function modelStrikeProfile(segment: SegmentResult, t: number, options: { samples?: number; columnMax?: boolean } = {}): ModelProfile {
+  const { tipLine, max } = segment;
+  const f = PROFILE_FUNCTIONS[tipLine.model];
+  const a = tipLine.semiAxes.sM;
+  const b = tipLine.semiAxes.tM;
+  const cs = tipLine.centre.s;
+  const ct = tipLine.centre.t;
+  const radius = (s: number, tt: number) => Math.hypot((s - cs) / a, (tt - ct) / b);
+  const atMax = f(radius(max.s, max.t));
+  const amplitudeM = atMax > 0.05 ? max.displacementM / atMax : max.displacementM;
+  const rowT = options.columnMax ? ct : t;
+  const vertical = (rowT - ct) / b;
+  const halfWidth = Math.abs(vertical) < 1 ? a * Math.sqrt(1 - vertical * vertical) : 0;
+  const samples = options.samples ?? 161;
+  const s: number[] = [];
+  const displacementM: number[] = [];
+  // sample slightly past the tips so the curve visibly reaches zero
+  const lo = cs - a * 1.05;
+  const hi = cs + a * 1.05;
+  for (let k = 0; k < samples; k++) {
+    const sk = lo + ((hi - lo) * k) / (samples - 1);
+    s.push(sk);
+    displacementM.push(amplitudeM * f(radius(sk, rowT)));
+  }
+  if (halfWidth > 0) {
+    // the tips themselves, so that the drawn curve meets zero exactly there
+    for (const tipS of [cs - halfWidth, cs + halfWidth]) {
+      const at = s.findIndex((value) => value > tipS);
+      s.splice(at, 0, tipS);
+      displacementM.splice(at, 0, 0);
+    }
+  }
+  return {
+    name: PROFILE_LABELS[tipLine.model],
+    s,
+    displacementM,
+    tipsS: halfWidth > 0 ? [cs - halfWidth, cs + halfWidth] : null,
+    amplitudeM,
+  };
+}
+
+// ---- common along-strike coordinate for several segments ---------------------------------------------------
+
+export interface StrikeFrame {
+  /** horizontal unit vector of the mean strike (East, North) */
+  strike: [number, number];
+  /** world (x, y) where the common coordinate is zero */
+  origin: [number, number];
+}
+
+/** Mean strike of the segments (each strike flipped to agree with the first), origin at the first segment's centroid. */
+export function commonStrikeFrame(segments: Pick<SegmentResult, "plane">[]): StrikeFrame {
+  const first = segments[0].plane.strikeVector;
+  let ex = 0;
+  let ny = 0;
+  for (const segment of segments) {
+    let [sx, sy] = segment.plane.strikeVector;
+    if (sx * first[0] + sy * first[1] < 0) {
+      sx = -sx;
+      sy = -sy;
+    }
+    ex += sx;
+    ny += sy;
+  }
+  const length = Math.hypot(ex, ny) || 1;
+  return { strike: [ex / length, ny / length], origin: [segments[0].plane.centroid[0], segments[0].plane.centroid[1]] };
+}
+
+/** World position of plane coordinates (s, t) of a segment. */
+export function planePointToWorld(plane: SegmentResult["plane"], s: number, t: number): [number, number, number] {
+  const [cx, cy, cz] = plane.centroid;
+  const [sx, sy, sz] = plane.strikeVector;
+  const [dx, dy, dz] = plane.dipVector;
+  return [cx + s * sx + t * dx, cy + s * sy + t * dy, cz + s * sz + t * dz];
+}
+
+export function alongStrike(frame: StrikeFrame, x: number, y: number): number {
+  return (x - frame.origin[0]) * frame.strike[0] + (y - frame.origin[1]) * frame.strike[1];
+}
+
+export function acrossStrike(frame: StrikeFrame, x: number, y: number): number {
+  // right of strike = the dip side for right-hand-rule strike
+  return (x - frame.origin[0]) * frame.strike[1] - (y - frame.origin[1]) * frame.strike[0];
+}
+
+/** A profile in the common along-strike coordinate u (m), sorted by u. */
+export interface CommonProfile {
+  id: string;
+  u: number[];
+  displacementM: number[];
+  throwM: number[];
+}
+
+export function toCommonProfile(id: string, plane: SegmentResult["plane"], profile: Profile, frame: StrikeFrame): CommonProfile {
+  const rows = profile.s.map((s, k) => {
+    const [x, y] = planePointToWorld(plane, s, Number.isFinite(profile.t[k]) ? profile.t[k] : 0);
+    return { u: alongStrike(frame, x, y), d: profile.displacementM[k], th: profile.throwM[k] };
+  });
+  rows.sort((p, q) => p.u - q.u);
+  return { id, u: rows.map((r) => r.u), displacementM: rows.map((r) => r.d), throwM: rows.map((r) => r.th) };
+}
+
+/** Linear interpolation of (u, value) at x; 0 outside the profile or where a neighbour has no data (no displacement there). */
+export function interpolateOrZero(u: number[], values: number[], x: number): number {
+  const n = u.length;
+  if (n === 0 || x < u[0] || x > u[n - 1]) return 0;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (u[mid] <= x) lo = mid;
+    else hi = mid;
+  }
+  const v0 = values[lo];
+  const v1 = values[hi];
+  if (u[hi] === u[lo]) return Number.isFinite(v0) ? v0 : 0;
+  const f = (x - u[lo]) / (u[hi] - u[lo]);
+  if (!Number.isFinite(v0) || !Number.isFinite(v1)) {
+    const nearest = f < 0.5 ? v0 : v1;
+    return Number.isFinite(nearest) ? nearest : 0;
+  }
+  return v0 + f * (v1 - v0);
+}
+
+/** Sum of several segments' profiles on a common u axis of `samples` points spanning all of them. */
+export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: number[]; displacementM: number[]; throwM: number[] } {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const p of profiles) {
+    if (p.u.length === 0) continue;
+    lo = Math.min(lo, p.u[0]);
+    hi = Math.max(hi, p.u[p.u.length - 1]);
+  }
+  const u: number[] = [];
+  const displacementM: number[] = [];
+  const throwM: number[] = [];
+  if (!(hi > lo)) return { u, displacementM, throwM };
+  for (let k = 0; k < samples; k++) {
+    const x = lo + ((hi - lo) * k) / (samples - 1);
+    u.push(x);
+    displacementM.push(profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.displacementM, x), 0));
+    throwM.push(profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.throwM, x), 0));
+  }
+  return { u, displacementM, throwM };
+}
+
+/** Along-strike extent [min, max] of a segment's inferred tip line in the common coordinate. */
+export function tipExtent(segment: Pick<SegmentResult, "tipLine">, frame: StrikeFrame): [number, number] {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const [x, y] of segment.tipLine.worldPolygon) {
+    const u = alongStrike(frame, x, y);
+    lo = Math.min(lo, u);
+    hi = Math.max(hi, u);
+  }
+  return [lo, hi];
+}
+
+/** Overlap zone of two extents, or null when they do not overlap. */
+export function overlapZone(a: [number, number], b: [number, number]): [number, number] | null {
+  const lo = Math.max(a[0], b[0]);
+  const hi = Math.min(a[1], b[1]);
+  return hi > lo ? [lo, hi] : null;
+}

@@ -1,0 +1,121 @@
+import { describe, expect, it } from "vitest";
+import {
+  columnMaxProfile,
+  commonStrikeFrame,
+  dipProfileAtS,
+  interpolateOrZero,
+  modelStrikeProfile,
+  overlapZone,
+  profileAlongLine,
+  strikeProfileAtT,
+  sumProfiles,
+  tipExtent,
+  toCommonProfile,
+  type GridLike,
+} from "@/lib/views/profiles";
+import { analyzeCsv } from "@/lib/engine/pipeline";
+import { demoCsv } from "@/lib/demo";
+
+/** A plane field D = 2 + 0.5·s + 0.25·t on a 5×4 grid (s0 = 0, t0 = 100, cell 10 m), one hole (NaN); throw = D·sin 60°. */
+function planeGrid(): GridLike {
+  const columns = 5, rows = 4;
+  const d = new Float64Array(columns * rows);
+  const th = new Float64Array(columns * rows);
+  for (let r = 0; r < rows; r++)
+    for (let c = 0; c < columns; c++) {
+      d[r * columns + c] = 2 + 0.5 * (c * 10) + 0.25 * (100 + r * 10);
+      th[r * columns + c] = d[r * columns + c] * Math.sin(Math.PI / 3);
+    }
+  d[3 * columns + 0] = NaN;
+  th[3 * columns + 0] = NaN;
+  return { s0: 0, t0: 100, cellM: 10, columns, rows, displacementM: d, throwM: th };
+}
+
+describe("profile extraction on a synthetic grid (exact values; common practice, no source)", () => {
+  it("reads a bilinear field exactly along an oblique line", () => {
+    const grid = planeGrid();
+    const p = profileAlongLine(grid, [0, 100], [40, 120], 5);
+    expect(p.distanceM.at(-1)).toBeCloseTo(Math.hypot(40, 20), 12);
+    p.s.forEach((s, k) => {
+      expect(p.displacementM[k]).toBeCloseTo(2 + 0.5 * s + 0.25 * p.t[k], 12);
+      expect(p.throwM[k]).toBeCloseTo((2 + 0.5 * s + 0.25 * p.t[k]) * Math.sin(Math.PI / 3), 12);
+    });
+  });
+
+  it("gives NaN outside the grid", () => {
+    const p = profileAlongLine(planeGrid(), [-20, 100], [-10, 100], 3);
+    expect(p.displacementM.every(Number.isNaN)).toBe(true);
+  });
+
+  it("takes the row nearest t for the centre line and the row maximum per column", () => {
+    const grid = planeGrid();
+    const centre = strikeProfileAtT(grid, 113);
+    expect(centre.t.every((t) => t === 110)).toBe(true);
+    expect(centre.displacementM).toEqual([29.5, 34.5, 39.5, 44.5, 49.5]);
+    const colMax = columnMaxProfile(grid);
+    // the field grows with t, so each column's maximum is the last row, except column 0 whose last node is a hole
+    expect(colMax.displacementM).toEqual([2 + 0.25 * 120, 2 + 5 + 32.5, 2 + 10 + 32.5, 2 + 15 + 32.5, 2 + 20 + 32.5]);
+    expect(colMax.t).toEqual([120, 130, 130, 130, 130]);
+  });
+
+  it("reads the down-dip column through s", () => {
+    const p = dipProfileAtS(planeGrid(), 21);
+    expect(p.s.every((s) => s === 20)).toBe(true);
+    expect(p.displacementM).toEqual([37, 39.5, 42, 44.5]);
+  });
+});
+
+describe("summing segment profiles across a relay (displacement transfer; Dawers & Anders 1995 for the coherent sum)", () => {
+  it("sums two opposing linear tapers to a constant inside the overlap", () => {
+    // segment A tapers from 100 m at u = 0 to 0 at u = 1000; segment B rises from 0 at u = 600 to 100 at u = 1600
+    const a = { id: "a", u: [0, 1000], displacementM: [100, 0], throwM: [80, 0] };
+    const b = { id: "b", u: [600, 1600], displacementM: [0, 100], throwM: [0, 80] };
+    const sum = sumProfiles([a, b], 17);
+    expect(sum.u[0]).toBe(0);
+    expect(sum.u.at(-1)).toBe(1600);
+    sum.u.forEach((u, k) => {
+      const expected = (u <= 1000 ? 100 - u / 10 : 0) + (u >= 600 ? (u - 600) / 10 : 0);
+      expect(sum.displacementM[k]).toBeCloseTo(expected, 9);
+    });
+    const inOverlap = sum.u.map((u, k) => [u, sum.displacementM[k]]).filter(([u]) => u >= 600 && u <= 1000);
+    expect(inOverlap.length).toBeGreaterThan(2);
+    for (const [, d] of inOverlap) expect(d).toBeCloseTo(40, 9);
+    expect(overlapZone([0, 1000], [600, 1600])).toEqual([600, 1000]);
+    expect(overlapZone([0, 500], [600, 1600])).toBeNull();
+  });
+
+  it("counts no data as zero displacement", () => {
+    expect(interpolateOrZero([0, 10], [5, NaN], 2)).toBe(5);
+    expect(interpolateOrZero([0, 10], [5, 7], 20)).toBe(0);
+  });
+
+  it("on the QG-1 demo: segments placed in one along-strike coordinate: overlap equals the engine's relay overlap, sum bounds each profile", () => {
+    const { report, grids } = analyzeCsv(demoCsv("QG-1"));
+    expect(report.segments).toHaveLength(2);
+    const frame = commonStrikeFrame(report.segments);
+    const profiles = report.segments.map((seg) => toCommonProfile(seg.id, seg.plane, columnMaxProfile(grids[seg.id]), frame));
+    const extents = report.segments.map((seg) => tipExtent(seg, frame));
+    const zone = overlapZone(extents[0], extents[1])!;
+    expect(zone[1] - zone[0]).toBeCloseTo(report.relays[0].overlapM, 6);
+    const sum = sumProfiles(profiles, 300);
+    const peak = Math.max(...sum.displacementM);
+    // the sum never falls below either segment's own profile
+    for (const p of profiles) for (let k = 0; k < sum.u.length; k += 10) expect(sum.displacementM[k] + 1e-9).toBeGreaterThanOrEqual(interpolateOrZero(p.u, p.displacementM, sum.u[k]));
+    // drawn with Dmax 78 m and 64 m along strike (lib/demo.ts); the column maximum of their sum peaks near the larger one or above
+    expect(peak).toBeGreaterThan(70);
+    expect(peak).toBeLessThan(78 + 64);
+  });
+
+  it("the fitted model profile reaches zero at the inferred tips and equals Dmax at the Dmax position", () => {
+    const { report } = analyzeCsv(demoCsv("QG-4"));
+    const seg = report.segments[0];
+    const model = modelStrikeProfile(seg, seg.max.t);
+    expect(model.name).toMatch(/profile/);
+    expect(model.tipsS).not.toBeNull();
+    const [lo, hi] = model.tipsS!;
+    const at = (s: number) => interpolateOrZero(model.s, model.displacementM, s);
+    expect(at(lo - 1)).toBe(0);
+    expect(at(hi + 1)).toBe(0);
+    expect(Math.max(...model.displacementM)).toBeGreaterThanOrEqual(seg.max.displacementM * 0.99);
+  });
+});

@@ -4,6 +4,7 @@ import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
+import { metres as formatM } from "@/components/workspace/format";
 import { RoleBadge } from "./RoleBadge";
 
 type Role = "owner" | "interpreter" | "reviewer" | "viewer";
@@ -24,7 +25,26 @@ interface Overview {
 }
 
 const ROLES: Role[] = ["owner", "interpreter", "reviewer", "viewer"];
-const formatM = (value: number | null | undefined) => (value === null || value === undefined ? "—" : `${value >= 100 ? value.toFixed(0) : value.toFixed(1)} m`);
+
+/** audit actions in plain words */
+const ACTIVITY_WORDS: Record<string, string> = {
+  "study.create": "created the study",
+  "study.update": "edited the study",
+  "fault.create": "added fault",
+  "fault.update": "edited fault",
+  "fault.delete": "removed fault",
+  "pickset.upload": "uploaded pick set",
+  "member.invite": "invited",
+  "member.role": "changed the role of",
+  "member.remove": "removed",
+  "pin.create": "pinned a note on",
+  "pin.resolve": "resolved a note on",
+  "pin.reopen": "reopened a note on",
+  "pin.delete": "deleted a note on",
+  "viewpoint.create": "saved viewpoint",
+  "viewpoint.update": "edited viewpoint",
+  "viewpoint.delete": "deleted viewpoint",
+};
 
 export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
   const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<Overview>(`/api/studies/${studyId}`) });
@@ -68,8 +88,8 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                       <div className="text-xs text-slate-500">{fault.sense} fault{fault.description ? ` · ${fault.description}` : ""}</div>
                     </td>
                     <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
-                    <td className="num px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
-                    <td className="num px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
+                    <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
+                    <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
                     <td className="px-5 py-3 text-right text-xs text-slate-500">
                       {fault.latestVersion ? <>v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}</> : "none yet"}
                     </td>
@@ -107,7 +127,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
           <ul className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
             {activity.map((entry) => (
               <li key={entry.id} className="flex justify-between gap-4 px-5 py-2">
-                <span><span className="font-medium">{entry.userName ?? "Someone"}</span> · {entry.action.replace(".", " ")} {entry.target && <span className="text-slate-500">{entry.target}</span>}</span>
+                <span><span className="font-medium">{entry.userName ?? "Someone"}</span> · {ACTIVITY_WORDS[entry.action] ?? entry.action.replace(".", " ")} {entry.target && <span className="text-slate-500">{entry.target}</span>}</span>
                 <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>{new Date(entry.createdAt).toLocaleString()}</time>
               </li>
             ))}

@@ -171,7 +171,11 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
       for (const segment of display.segments) for (const level of segment.contours.levelsM) all.add(level);
       const sorted = [...all].sort((a, b) => a - b);
       const stride = Math.ceil(sorted.length / 8);
-      return sorted.filter((_, i) => i % stride === 0 || i === sorted.length - 1);
+      const picked = sorted.filter((_, i) => i % stride === 0);
+      // the top level too, unless it would print on top of the one below it
+      const top = sorted.at(-1);
+      if (top !== undefined && top !== picked.at(-1) && (top - picked.at(-1)!) / (high - low || 1) > 0.08) picked.push(top);
+      return picked;
     }
     return niceTicks(low, high, 6);
   }, [colorMode, display, high, low]);

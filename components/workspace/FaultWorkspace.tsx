@@ -155,7 +155,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             </div>
             <aside className="card max-h-[calc(100vh-7rem)] overflow-auto xl:sticky xl:top-4" data-testid="side-panel">
               <div className="sticky top-0 z-10 flex border-b border-slate-200 bg-white dark:border-slate-800 dark:bg-slate-900" role="tablist">
-                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"], ["stress", "Reactivation screen"]] as const).map(([tab, label]) => (
+                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"], ["stress", "Stress screen"]] as const).map(([tab, label]) => (
                   <button key={tab} role="tab" aria-selected={sideTab === tab} onClick={() => setSideTab(tab)} data-testid={`side-tab-${tab}`}
                     className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
                     {label}

@@ -47,6 +47,8 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   // restoring in the workspace brings the view back after moving away
   await page.getByTestId("camera-overview").click();
   await expect.poll(async () => (await cameraOf(page))?.position[0]).not.toBe(saved.camera.position[0]);
+  // a click outside closes the viewpoints panel; open it again
+  if (!(await page.getByTestId("viewpoints-panel").isVisible())) await page.getByTestId("viewpoints-toggle").click();
   await item.getByTestId("viewpoint-restore").click();
   await expect.poll(async () => (await cameraOf(page))?.position[0]).toBe(saved.camera.position[0]);
   expectSameCamera(await cameraOf(page), saved.camera);

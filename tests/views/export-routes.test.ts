@@ -1,0 +1,77 @@
+import { beforeAll, describe, expect, it, vi } from "vitest";
+import { signInAs } from "../support/session";
+
+vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../support/session")).getSessionUserMock }));
+vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
+
+import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
+import * as exportRoute from "@/app/api/faults/[faultId]/export/[kind]/route";
+import { runAnalysis } from "@/lib/analysis/runner";
+import { demoCsv } from "@/lib/demo";
+import { readCsv } from "@/lib/views/csv";
+import { parsePickCsv } from "@/lib/engine/csv";
+import { useFreshDatabase } from "../support/database";
+import { studyWithEveryRole } from "../support/fixtures";
+import { callRoute } from "../support/requests";
+
+type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
+const KINDS = ["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json"];
+
+describe("export routes: session, view role, content", () => {
+  let fixture: Fixture;
+  beforeAll(async () => {
+    await useFreshDatabase();
+    fixture = await studyWithEveryRole();
+    signInAs(fixture.people.interpreter);
+    const form = new FormData();
+    form.set("file", new File([demoCsv("QG-4")], "qg-4-throw-picks.csv", { type: "text/csv" }));
+    form.set("units", "m");
+    const saved = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=confirm", params: { faultId: fixture.fault.id }, formData: form });
+    expect(saved.status).toBe(201);
+    await runAnalysis(saved.json.analysisId);
+  });
+
+  it("401 when signed out", async () => {
+    signInAs(null);
+    for (const kind of KINDS) {
+      const response = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind } });
+      expect(response.status, kind).toBe(401);
+    }
+  });
+
+  it("404 for someone outside the study and for an unknown fault (ids of other studies reveal nothing)", async () => {
+    signInAs(fixture.people.outsider);
+    for (const kind of KINDS) {
+      expect((await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind } })).status, kind).toBe(404);
+    }
+    signInAs(fixture.people.viewer);
+    expect((await callRoute(exportRoute.GET, { params: { faultId: "no-such-fault", kind: "grid.csv" } })).status).toBe(404);
+  });
+
+  it("404 when the fault has no finished analysis, 400 for an unknown export kind", async () => {
+    signInAs(fixture.people.owner);
+    expect((await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "secrets.txt" } })).status).toBe(400);
+    signInAs(fixture.people.outsider);
+    const empty = await callRoute(exportRoute.GET, { params: { faultId: fixture.otherFault.id, kind: "grid.csv" } });
+    expect(empty.status).toBe(404);
+    expect(empty.json.error).toMatch(/no finished analysis/);
+  });
+
+  it("every role in the study (all hold view) downloads each export", async () => {
+    for (const role of ["owner", "interpreter", "reviewer", "viewer"] as const) {
+      signInAs(fixture.people[role]);
+      const geo = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "contours.geojson" } });
+      expect(geo.status, role).toBe(200);
+      expect(geo.json.type).toBe("FeatureCollection");
+    }
+    signInAs(fixture.people.viewer);
+    const grid = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "grid.csv" } });
+    expect(grid.status).toBe(200);
+    expect(readCsv(grid.json as unknown as string).header).toEqual(["segment", "s", "t", "x", "y", "z", "displacement", "throw"]);
+    const picks = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "picks.csv" } });
+    expect(readCsv(picks.json as unknown as string).rows.length).toBe(parsePickCsv(demoCsv("QG-4")).accepted);
+    const scaling = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "scaling.json" } });
+    expect(scaling.json.faults).toHaveLength(1);
+    expect(scaling.json.faults[0].lengthM).toBeGreaterThan(2000);
+  });
+});

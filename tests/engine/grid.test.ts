@@ -4,6 +4,7 @@ import path from "node:path";
 import { triangulate } from "@/lib/engine/triangulate";
 import { rasterizeTriangles, gridSpecFor, sampleGrid } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";
+import { requirePython } from "../support/python";
 
 describe("linear interpolation on triangles", () => {
   // tiny exact case, by hand: two triangles over the unit square with v = 2s + 3t + 1 (a plane is reproduced exactly)
@@ -54,7 +55,7 @@ describe("linear interpolation on triangles", () => {
     const [out] = rasterizeTriangles(s, t, [v], tri.triangles, spec);
     const nodes: [number, number][] = [];
     for (let j = 0; j < spec.rows; j++) for (let i = 0; i < spec.columns; i++) nodes.push([spec.s0 + i * spec.cellM, spec.t0 + j * spec.cellM]);
-    const py = spawnSync("python3", [path.join(__dirname, "griddata_oracle.py")], {
+    const py = spawnSync(requirePython("scipy"), [path.join(__dirname, "griddata_oracle.py")], {
       input: JSON.stringify({ points: Array.from(s, (x, i) => [x, t[i]]), values: Array.from(v), nodes }),
       encoding: "utf8",
       maxBuffer: 64 * 1024 * 1024,

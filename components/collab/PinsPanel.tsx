@@ -75,16 +75,26 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
     [setPins, setPlacing],
   );
 
-  // Unread markers stay for this visit; the server counts from now on for the next one.
+  // Unread markers stay for this visit; once the list has been on screen the server counts from then on.
   useEffect(() => {
     if (!pins.data) return;
     const fresh = pins.data.pins.filter((pin) => pin.unread).map((pin) => pin.id);
     if (fresh.length) setUnreadSeen((seen) => (fresh.every((id) => seen.has(id)) ? seen : new Set([...seen, ...fresh])));
-    if (!visited.current) {
+  }, [pins.data]);
+  const root = useRef<HTMLDivElement>(null);
+  const loaded = Boolean(pins.data);
+  useEffect(() => {
+    const element = root.current;
+    if (!element || !loaded || visited.current) return;
+    const observer = new IntersectionObserver((entries) => {
+      if (visited.current || !entries.some((entry) => entry.isIntersecting)) return;
       visited.current = true;
+      observer.disconnect();
       void apiFetch(`/api/faults/${faultId}/pins/visit`, { method: "POST" }).catch(() => undefined);
-    }
-  }, [pins.data, faultId]);
+    });
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, [loaded, faultId]);
 
   // a link from an e-mail (?pin=…) opens that thread
   const openedFromLink = useRef(false);
@@ -104,7 +114,7 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
   const invalidate = () => queryClient.invalidateQueries({ queryKey: key });
 
   return (
-    <div className="space-y-3" data-testid="pins-panel">
+    <div ref={root} className="space-y-3" data-testid="pins-panel">
       <div className="flex items-center justify-between gap-2">
         <h2 className="font-semibold">Pinned notes</h2>
         {canComment &&

@@ -65,6 +65,16 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
   };
 }
 
+/** The stored picks of the analysis' pick set (metres). */
+export async function loadPicks(source: ExportSource): Promise<PickColumns> {
+  const cached = recomputed.get(source.analysis.id);
+  if (cached) return cached.picks;
+  const db = await getDb();
+  const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, source.pickSet.id), columns: { picks: true } });
+  if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
+  return decodePicks(pickSet.picks);
+}
+
 // Recomputing full-resolution grids costs seconds on large pick sets; keep the last few per analysis id.
 const recomputed = new Map<string, { picks: PickColumns; result: PipelineResult }>();
 const RECOMPUTED_KEEP = 2;
@@ -73,10 +83,7 @@ const RECOMPUTED_KEEP = 2;
 export async function recomputeFullResolution(source: ExportSource): Promise<{ picks: PickColumns; result: PipelineResult }> {
   const cached = recomputed.get(source.analysis.id);
   if (cached) return cached;
-  const db = await getDb();
-  const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, source.pickSet.id), columns: { picks: true } });
-  if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
-  const picks = decodePicks(pickSet.picks);
+  const picks = await loadPicks(source);
   const parameters = source.analysis.parameters as { intervalM?: number; cellM?: number };
   const result = analyzePicks(picks, { units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
   recomputed.set(source.analysis.id, { picks, result });

@@ -3,10 +3,11 @@ import { z } from "zod";
 import { parseWith } from "@/lib/api/errors";
 import { fileStem } from "@/lib/views/csv";
 import { faultGeoJson } from "@/lib/views/geojson";
-import { loadExportSource, recomputeFullResolution, studyScalingPoints } from "./load";
+import { horizonThrowBins } from "@/lib/views/growth";
+import { loadExportSource, loadPicks, recomputeFullResolution, studyScalingPoints } from "./load";
 import { gridCsv, picksCsv, profilesCsv } from "./tables";
 
-export const exportKindSchema = z.enum(["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json"]);
+export const exportKindSchema = z.enum(["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json", "horizons.json"]);
 export type ExportKind = z.infer<typeof exportKindSchema>;
 
 const querySchema = z.object({
@@ -37,6 +38,12 @@ export async function exportResponse(faultId: string, kindParam: string, url: UR
       return new Response(JSON.stringify({ studyId: source.fault.studyId, faults: await studyScalingPoints(source.fault.studyId) }), {
         headers: { "content-type": "application/json", "cache-control": "private, no-store" },
       });
+    case "horizons.json": {
+      const picks = await loadPicks(source);
+      return new Response(JSON.stringify({ horizons: picks.horizonNames, bins: horizonThrowBins(picks, source.report) }), {
+        headers: { "content-type": "application/json", "cache-control": "private, no-store" },
+      });
+    }
     case "grid.csv": {
       const { result } = await recomputeFullResolution(source);
       return attachment(gridCsv(result), "text/csv", `${stem}-grid.csv`);

@@ -1,0 +1,89 @@
+"use client";
+import * as Plot from "@observablehq/plot";
+import { useQuery } from "@tanstack/react-query";
+import { useMemo } from "react";
+import { apiFetch } from "@/lib/api/client";
+import { toCsv } from "@/lib/views/csv";
+import { fitPowerLaw, powerLawLine, SCALING_GUIDES, type FaultScalingPoint, type PowerLawFit } from "@/lib/views/scaling";
+import { CHART, PlotChart } from "./PlotChart";
+
+export function useStudyScaling(faultId: string) {
+  return useQuery({
+    queryKey: ["scaling", faultId],
+    queryFn: () => apiFetch<{ studyId: string; faults: FaultScalingPoint[] }>(`/api/faults/${faultId}/export/scaling.json`),
+  });
+}
+
+/** The scaling chart: log–log Dmax against L for every analysed fault of the study, over published envelopes. */
+export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { points: FaultScalingPoint[]; currentFaultId: string; stem: string; height?: number }) {
+  const fit = useMemo(() => fitPowerLaw(points.map((p) => p.lengthM), points.map((p) => p.dMaxM)), [points]);
+  const lo = Math.min(100, ...points.map((p) => (p.lengthM - p.lengthUncertaintyM) / 3).filter((v) => v > 0));
+  const hi = Math.max(20000, ...points.map((p) => p.lengthM * 3));
+  return (
+    <PlotChart
+      testId="scaling-chart"
+      title="Scaling chart — Dmax against L (log–log)"
+      fileStem={`${stem}-scaling-chart`}
+      points={points.length}
+      deps={[points, fit, currentFaultId]}
+      csv={() => toCsv(["fault", "length_m", "length_uncertainty_m", "dmax_m", "d_over_l", "segments"], points.map((p) => [p.name, p.lengthM, p.lengthUncertaintyM, p.dMaxM, p.dMaxM / p.lengthM, p.segmentCount]))}
+      build={(width) => {
+        const guides = SCALING_GUIDES.filter((g) => g.kind !== "box").flatMap((g) => powerLawLine(g.c!, g.n!, lo, hi).map((p) => ({ ...p, guide: `${g.label} (${g.source})` })));
+        const box = SCALING_GUIDES.find((g) => g.kind === "box")!;
+        const fits = fit ? (["ols", "rma"] as const).flatMap((m) => powerLawLine(fit[m].c, fit[m].n, lo, hi).map((p) => ({ ...p, guide: `${m.toUpperCase()} fit: D = ${fit[m].c.toPrecision(3)}·L^${fit[m].n.toFixed(2)} (this study, N = ${fit.count})` }))) : [];
+        const guideNames = [...new Set(guides.map((g) => g.guide))];
+        const fitNames = [...new Set(fits.map((g) => g.guide))];
+        const boxName = `${box.label} (${box.source})`;
+        return Plot.plot({
+          width,
+          height,
+          marginLeft: 56,
+          style: { fontSize: "12px", background: "transparent" },
+          x: { type: "log", label: "Fault length L, inferred tip line (m)", domain: [lo, hi], grid: true },
+          y: { type: "log", label: "Maximum displacement Dmax (m)", domain: [Math.min(0.1, lo * 0.001), Math.max(1000, hi * 0.1)], grid: true },
+          color: {
+            legend: true,
+            domain: [...guideNames, boxName, ...fitNames],
+            range: [CHART.guide, CHART.guide, CHART.guide, "#64748b", CHART.overlap, CHART.model, CHART.slip].slice(0, guideNames.length + 1 + fitNames.length),
+          },
+          marks: [
+            Plot.rect([box.box!], { x1: (b: NonNullable<typeof box.box>) => b.lengthM[0], x2: (b: NonNullable<typeof box.box>) => b.lengthM[1], y1: (b: NonNullable<typeof box.box>) => b.dMaxM[0], y2: (b: NonNullable<typeof box.box>) => b.dMaxM[1], fill: () => boxName, fillOpacity: 0.12 }),
+            Plot.line(guides.filter((g) => g.guide.startsWith("D/L")), { x: "lengthM", y: "dMaxM", z: "guide", stroke: "guide", strokeDasharray: "2 3" }),
+            Plot.line(guides.filter((g) => !g.guide.startsWith("D/L")), { x: "lengthM", y: "dMaxM", z: "guide", stroke: "guide", strokeDasharray: "6 3" }),
+            Plot.line(fits, { x: "lengthM", y: "dMaxM", z: "guide", stroke: "guide", strokeWidth: 1.5 }),
+            Plot.link(points, { x1: (p: FaultScalingPoint) => Math.max(lo, p.lengthM - p.lengthUncertaintyM), x2: (p: FaultScalingPoint) => p.lengthM + p.lengthUncertaintyM, y1: "dMaxM", y2: "dMaxM", stroke: "currentColor", strokeWidth: 1.2 }),
+            Plot.dot(points, { x: "lengthM", y: "dMaxM", r: 5, fill: (p: FaultScalingPoint) => (p.faultId === currentFaultId ? CHART.tip : CHART.slip), stroke: "white", className: "fault-point" }),
+            Plot.text(points, { x: "lengthM", y: "dMaxM", text: "name", dy: -10, fontWeight: 600 }),
+            Plot.tip(points, Plot.pointer({ x: "lengthM", y: "dMaxM", title: (p: FaultScalingPoint) => `${p.name}\nL = ${p.lengthM.toFixed(0)} ± ${p.lengthUncertaintyM.toFixed(0)} m\nDmax = ${p.dMaxM.toFixed(1)} m\nD/L = ${(p.dMaxM / p.lengthM).toPrecision(3)}` })),
+          ],
+        });
+      }}
+      note={<FitSummary fit={fit} count={points.length} />}
+    />
+  );
+}
+
+function FitSummary({ fit, count }: { fit: PowerLawFit | null; count: number }) {
+  if (!fit)
+    return <>A power-law fit D = c·L^n needs at least 3 analysed faults; this study has {count}. Error bars: tip-line length uncertainty. Amber dot: this fault.</>;
+  const row = (label: string, f: PowerLawFit["ols"]) => `${label}: n = ${f.n.toFixed(3)} (95 % CI ${f.nConfidence95[0].toFixed(2)}–${f.nConfidence95[1].toFixed(2)}), c = ${f.c.toPrecision(3)}`;
+  return (
+    <span data-testid="scaling-fit">
+      {row("Least squares in log space", fit.ols)}; {row("reduced major axis", fit.rma)}; r² = {fit.r2.toFixed(3)}, N = {fit.count}. Published exponents lie between 1 and 1.5 (Walsh et al. 2002); Clark &amp; Cox (1996) found a common n = 0.946 ± 0.043. Error bars: tip-line length uncertainty. Amber dot: this fault.
+    </span>
+  );
+}
+
+export function ScalingView({ faultId, stem }: { faultId: string; stem: string }) {
+  const scaling = useStudyScaling(faultId);
+  if (scaling.isPending) return <p className="text-sm text-slate-500">Loading the study&apos;s faults…</p>;
+  if (scaling.isError) return <p className="text-sm text-red-700">{scaling.error.message}</p>;
+  return (
+    <div data-testid="scaling-view">
+      <ScalingChart points={scaling.data.faults} currentFaultId={faultId} stem={stem} />
+      <p className="mt-2 text-xs text-slate-500">
+        One point per fault (several segments count as one fault, L spanning all of them). Published D–L scatter is about half an order of magnitude (Cartwright et al. 1995): a check, not a constraint.
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,77 @@
+// Relay geometry in strike–normal coordinates for the relay view: tip lines and traces of two segments on their mean
+// strike (u along, v across), and the along-strike ramp dip from the throw transferred over the overlap.
+import { sampleGrid } from "@/lib/analysis/display";
+import type { SegmentResult } from "@/lib/engine/types";
+import { acrossStrike, alongStrike, commonStrikeFrame, overlapZone, planePointToWorld, tipExtent, type GridLike, type StrikeFrame } from "./profiles";
+
+export interface RelaySketchSegment {
+  id: string;
+  tipLine: { u: number; v: number }[];
+  /** trace at the reference elevation, inside the inferred tip line, with the gridded throw along it */
+  trace: { u: number; v: number; throwM: number }[];
+  extent: [number, number];
+}
+
+export interface RelaySketch {
+  frame: StrikeFrame;
+  referenceElevationM: number;
+  segments: [RelaySketchSegment, RelaySketchSegment];
+  overlap: [number, number] | null;
+  /** across-strike distance between the traces at the middle of the overlap */
+  separationAtMiddleM: number;
+  /** throw change along each bounding segment across the overlap at the reference elevation (m) */
+  throwTransferM: [number, number];
+}
+
+function traceOf(segment: SegmentResult, grid: GridLike | undefined, frame: StrikeFrame, zRef: number, samples = 120) {
+  const { centroid, strikeVector, dipVector } = segment.plane;
+  const { centre, semiAxes } = segment.tipLine;
+  const out: { u: number; v: number; throwM: number }[] = [];
+  if (Math.abs(dipVector[2]) < 1e-9) return out;
+  for (let k = 0; k < samples; k++) {
+    const s = centre.s - semiAxes.sM + (2 * semiAxes.sM * k) / (samples - 1);
+    const t = (zRef - centroid[2] - s * strikeVector[2]) / dipVector[2];
+    if (Math.hypot((s - centre.s) / semiAxes.sM, (t - centre.t) / semiAxes.tM) > 1) continue;
+    const [x, y] = planePointToWorld(segment.plane, s, t);
+    out.push({ u: alongStrike(frame, x, y), v: acrossStrike(frame, x, y), throwM: grid ? sampleGrid(grid, grid.throwM, s, t) : NaN });
+  }
+  return out.sort((a, b) => a.u - b.u);
+}
+
+function valueAt(trace: { u: number }[], values: number[], u: number): number {
+  let best = NaN;
+  let bestDistance = Infinity;
+  trace.forEach((p, k) => {
+    const distance = Math.abs(p.u - u);
+    if (distance < bestDistance && Number.isFinite(values[k])) {
+      bestDistance = distance;
+      best = values[k];
+    }
+  });
+  return best;
+}
+
+export function relaySketch(a: SegmentResult, b: SegmentResult, gridA?: GridLike, gridB?: GridLike): RelaySketch {
+  const frame = commonStrikeFrame([a, b]);
+  const zRef = (a.plane.centroid[2] + b.plane.centroid[2]) / 2;
+  const make = (segment: SegmentResult, grid?: GridLike): RelaySketchSegment => ({
+    id: segment.id,
+    tipLine: segment.tipLine.worldPolygon.map(([x, y]) => ({ u: alongStrike(frame, x, y), v: acrossStrike(frame, x, y) })),
+    trace: traceOf(segment, grid, frame, zRef),
+    extent: tipExtent(segment, frame),
+  });
+  const sa = make(a, gridA);
+  const sb = make(b, gridB);
+  const overlap = overlapZone(sa.extent, sb.extent);
+  let separationAtMiddleM = NaN;
+  const throwTransferM: [number, number] = [NaN, NaN];
+  if (overlap) {
+    const middle = (overlap[0] + overlap[1]) / 2;
+    separationAtMiddleM = Math.abs(valueAt(sa.trace, sa.trace.map((p) => p.v), middle) - valueAt(sb.trace, sb.trace.map((p) => p.v), middle));
+    [sa, sb].forEach((segment, i) => {
+      const throws = segment.trace.map((p) => p.throwM);
+      throwTransferM[i] = Math.abs(valueAt(segment.trace, throws, overlap[0]) - valueAt(segment.trace, throws, overlap[1]));
+    });
+  }
+  return { frame, referenceElevationM: zRef, segments: [sa, sb], overlap, separationAtMiddleM, throwTransferM };
+}

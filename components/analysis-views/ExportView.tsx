@@ -37,12 +37,12 @@ export function ExportView({ studyId, faultId, stem, analysisId }: { studyId: st
       <ul className="space-y-2 text-sm">
         {EXPORTS.map((item) => (
           <li key={item.kind} className="flex flex-wrap items-baseline gap-2">
-            <a className="btn-secondary px-2 py-1 text-sm" href={withAnalysis(item.kind)} download data-testid={`export-${item.kind.replace(/[?=]/g, "-")}`}>{item.label}</a>
+            <a className="btn-quiet px-2 py-1 text-sm" href={withAnalysis(item.kind)} download data-testid={`export-${item.kind.replace(/[?=]/g, "-")}`}>{item.label}</a>
             <span className="text-xs text-slate-500">{item.detail}</span>
           </li>
         ))}
         <li className="flex flex-wrap items-baseline gap-2">
-          <button type="button" className="btn-secondary px-2 py-1 text-sm" onClick={scenePng} data-testid="export-3d-png">3D view PNG</button>
+          <button type="button" className="btn-quiet px-2 py-1 text-sm" onClick={scenePng} data-testid="export-3d-png">3D view PNG</button>
           <span className="text-xs text-slate-500">the 3D view exactly as it is on screen now</span>
         </li>
         <li className="flex flex-wrap items-baseline gap-2">

@@ -1,0 +1,155 @@
+"use client";
+import * as Plot from "@observablehq/plot";
+import { useQuery } from "@tanstack/react-query";
+import Link from "next/link";
+import { useEffect, useState } from "react";
+import { decodeFaultDisplay } from "@/lib/analysis/display";
+import type { FaultReportData } from "@/lib/exports/report";
+import { fileStem } from "@/lib/views/csv";
+import { CautionNote } from "@/components/workspace/CautionNote";
+import { degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
+import { REPORT_PICTURE_KEY } from "./download";
+import { CHART, PlotChart } from "./PlotChart";
+import { RelayTable } from "./RelayView";
+import { ScalingChart } from "./ScalingView";
+import { StrikeProfileView } from "./StrikeProfileView";
+
+/** The one-page printable fault report. */
+export function FaultReport({ data }: { data: FaultReportData }) {
+  const { fault, report, provenance, pins, scaling } = data;
+  const stem = fileStem(fault.name);
+  const [picture, setPicture] = useState<string | null>(null);
+  useEffect(() => {
+    try {
+      const stored = localStorage.getItem(REPORT_PICTURE_KEY(fault.id));
+      if (stored?.startsWith("data:image/png")) setPicture(stored);
+    } catch {
+      // no storage: the 2D contour map stands in
+    }
+  }, [fault.id]);
+  const display = useQuery({
+    queryKey: ["display", fault.id, data.analysisId],
+    staleTime: Infinity,
+    queryFn: async () => {
+      const response = await fetch(`/api/faults/${fault.id}/analysis/display?analysis=${data.analysisId}`);
+      if (!response.ok) throw new Error("Could not load the displacement grids.");
+      return decodeFaultDisplay(new Uint8Array(await response.arrayBuffer()));
+    },
+  });
+
+  return (
+    <main className="mx-auto max-w-[1000px] space-y-4 p-6 text-sm print:max-w-none print:p-0 print:text-[11px]" data-testid="fault-report">
+      <header className="flex items-start justify-between gap-4">
+        <div>
+          <p className="eyebrow">Slipfield fault report</p>
+          <h1 className="text-2xl font-semibold" data-testid="report-title">{fault.name}</h1>
+          <p className="text-xs text-slate-500">Study {fault.studyName} · printed {new Date().toLocaleString()}</p>
+        </div>
+        <div className="flex gap-2 print:hidden">
+          <Link className="btn-quiet" href={`/studies/${fault.studyId}/faults/${fault.id}`}>Back to the fault</Link>
+          <button type="button" className="btn-primary" onClick={() => window.print()} data-testid="print-report">Print</button>
+        </div>
+      </header>
+
+      <section className="grid gap-4 md:grid-cols-2 print:grid-cols-2">
+        <div>
+          <h2 className="mb-1 font-semibold">Fault sheet</h2>
+          <table className="w-full text-xs" data-testid="report-sheet">
+            <thead className="text-left text-slate-500"><tr><th>Segment</th><th>Dmax</th><th>L (tip line)</th><th>H</th><th>Dmax/L</th><th>Strike / dip</th></tr></thead>
+            <tbody className="num">
+              {report.segments.map((segment) => (
+                <tr key={segment.id} className="border-t border-slate-200 dark:border-slate-800">
+                  <td>{segment.id}</td>
+                  <td>{metres(segment.max.displacementM)}</td>
+                  <td>{metres(segment.tipLine.lengthM, 0)} ± {metres(segment.tipLine.uncertaintyM, 0)}</td>
+                  <td>{metres(segment.tipLine.heightM, 0)}</td>
+                  <td>{ratio(segment.scaling.dOverL)}</td>
+                  <td>{degrees(segment.plane.strikeDeg)} / {degrees(segment.plane.dipDeg)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="mt-1 text-xs text-slate-500">
+            Tip-line model: {[...new Set(report.segments.map((s) => MODEL_NAMES[s.tipLine.model] ?? s.tipLine.model))].join("; ")}. Aspect ratio {report.segments.map((s) => plain(s.tipLine.aspectRatio)).join(", ")}.
+          </p>
+          {report.warnings.length > 0 && <p className="mt-1 text-xs text-amber-700">{report.warnings.join(" · ")}</p>}
+        </div>
+        <div>
+          <h2 className="mb-1 font-semibold">{picture ? "3D view (as last shown)" : "Displacement contours (plane coordinates)"}</h2>
+          {picture ? (
+            // eslint-disable-next-line @next/next/no-img-element
+            <img src={picture} alt={`3D view of ${fault.name}`} className="w-full rounded border border-slate-200" data-testid="report-picture" />
+          ) : (
+            <ContourMap data={data} stem={stem} />
+          )}
+        </div>
+      </section>
+
+      <section className="break-inside-avoid">
+        <h2 className="mb-1 font-semibold">Strike profile</h2>
+        {display.data ? <StrikeProfileView report={report} display={display.data} stem={stem} /> : <p className="text-xs text-slate-500">{display.isError ? display.error.message : "Loading…"}</p>}
+      </section>
+
+      <section className="grid gap-4 md:grid-cols-2 print:grid-cols-2">
+        <div className="break-inside-avoid">
+          <h2 className="mb-1 font-semibold">Scaling</h2>
+          <ScalingChart points={scaling} currentFaultId={fault.id} stem={stem} height={300} />
+        </div>
+        <div className="space-y-3">
+          <div>
+            <h2 className="mb-1 font-semibold">Relays</h2>
+            <RelayTable report={report} />
+            {report.relays.map((relay) => <p key={relay.segments.join("-")} className="mt-1 text-xs text-slate-500">{relay.segments.join(" – ")}: {relay.evidence}. {relay.comparison}</p>)}
+          </div>
+          <div data-testid="report-pins">
+            <h2 className="mb-1 font-semibold">Pins</h2>
+            <p className="text-xs">{pins.open} open, {pins.resolved} resolved.</p>
+            <ul className="mt-1 list-disc pl-4 text-xs">
+              {pins.openPins.slice(0, 8).map((pin) => <li key={pin.id}>{pin.author ?? "someone"}{pin.segment ? ` (segment ${pin.segment})` : ""}: {pin.body.length > 140 ? `${pin.body.slice(0, 140)}…` : pin.body}</li>)}
+              {pins.openPins.length > 8 && <li>and {pins.openPins.length - 8} more</li>}
+            </ul>
+          </div>
+        </div>
+      </section>
+
+      <CautionNote />
+
+      <section className="rounded border border-slate-200 p-3 text-xs dark:border-slate-800" data-testid="report-provenance">
+        <h2 className="mb-1 font-semibold">Data provenance</h2>
+        <dl className="grid grid-cols-[max-content_1fr] gap-x-3 gap-y-0.5">
+          <dt className="text-slate-500">Pick set</dt><dd>{provenance.fileName} (version {provenance.version}, {provenance.rowCount.toLocaleString("en")} rows, units at upload: {provenance.units})</dd>
+          <dt className="text-slate-500">SHA-256</dt><dd className="num break-all">{provenance.checksum}</dd>
+          <dt className="text-slate-500">Uploaded by</dt><dd>{provenance.uploadedBy}</dd>
+          <dt className="text-slate-500">Uploaded at</dt><dd>{new Date(provenance.uploadedAt).toISOString()}</dd>
+          <dt className="text-slate-500">Engine version</dt><dd className="num">{provenance.engineVersion}</dd>
+          <dt className="text-slate-500">Analysed at</dt><dd>{provenance.analysedAt ? new Date(provenance.analysedAt).toISOString() : "—"}</dd>
+        </dl>
+      </section>
+    </main>
+  );
+}
+
+/** Fallback picture: contour rings and tip lines of each segment in its plane coordinates (s, t). */
+function ContourMap({ data, stem }: { data: FaultReportData; stem: string }) {
+  const rings = data.report.segments.flatMap((segment) =>
+    segment.contours.flatMap((level, li) => level.rings.map((ring, ri) => ring.map(([s, t]) => ({ s, t, id: `${segment.id}-${li}-${ri}`, level: level.levelM, segment: segment.id })))).flat(),
+  );
+  const tips = data.report.segments.flatMap((segment) => segment.tipLine.polygon.map(([s, t]) => ({ s, t, segment: segment.id })));
+  return (
+    <PlotChart
+      testId="report-contour-map"
+      title="Contours (m) and inferred tip lines, each segment in its own plane coordinates"
+      fileStem={`${stem}-contour-map`}
+      points={rings.length}
+      deps={[rings, tips]}
+      build={(width) =>
+        Plot.plot({
+          width, height: 260, marginLeft: 56, style: { fontSize: "11px", background: "transparent" },
+          x: { label: "s along strike (m)" }, y: { label: "t down dip (m)", reverse: true },
+          color: { scheme: "viridis", label: "Displacement (m)", legend: true },
+          marks: [Plot.line(rings, { x: "s", y: "t", z: "id", stroke: "level" }), Plot.line(tips, { x: "s", y: "t", z: "segment", stroke: CHART.tip, strokeWidth: 2 })],
+        })
+      }
+    />
+  );
+}

@@ -78,7 +78,7 @@ function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; repo
             y: { label: "Across strike, toward dip (m)", grid: true, reverse: true },
             color: { legend: true, domain: series, range: series.map((name) => (name.includes("tip line") ? CHART.tip : name.startsWith(relay.segments[0]) ? CHART.segments[0] : CHART.segments[1])) },
             marks: [
-              sketch.overlap ? Plot.rectX([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.12 }) : null,
+              sketch.overlap ? Plot.rect([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.12 }) : null,
               Plot.line(lines, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2 }),
               Plot.line(traces, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2.5 }),
               sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], y1: () => vMax, y2: () => vMax, stroke: "currentColor", headLength: 6, bend: false }) : null,

@@ -148,7 +148,7 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
               y: { label: yLabel, grid: true, zero: true },
               color: { legend: true, domain, range },
               marks: [
-                chart.overlap ? Plot.rectX([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
+                chart.overlap ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
                 chart.overlap ? Plot.text([chart.overlap], { x: (d: [number, number]) => (d[0] + d[1]) / 2, frameAnchor: "top", dy: 6, text: () => "overlap (relay)", fill: CHART.tip }) : null,
                 Plot.ruleY([0]),
                 Plot.line(chart.modelRows, { x: "x", y: "value", z: "series", stroke: () => "fitted model", strokeDasharray: "6 4", strokeWidth: 1.5 }),

@@ -316,10 +316,8 @@ function readRowsFast(text: string, scale: number): RowTable | null {
   const len = text.length;
   // characters that make papaparse quote-aware or pick another delimiter
   if (text.indexOf('"') >= 0 || text.indexOf("\t") >= 0 || text.indexOf("|") >= 0 || text.indexOf(";") >= 0 || text.indexOf("\x1e") >= 0 || text.indexOf("\x1f") >= 0) return null;
-  let newlines = 0;
-  for (let p = text.indexOf("\n"); p >= 0; p = text.indexOf("\n", p + 1)) newlines++;
-  let returns = 0;
-  for (let p = text.indexOf("\r"); p >= 0; p = text.indexOf("\r", p + 1)) returns++;
+  const newlines = countOf(text, "\n");
+  const returns = countOf(text, "\r");
   // papaparse splits on "\r\n" when every "\r" is followed by "\n"; mixed endings go to the general reader
   const crlf = returns > 0;
   if (crlf && returns !== newlines) return null;
@@ -358,16 +356,10 @@ function readRowsFast(text: string, scale: number): RowTable | null {
   const xs = new Float64Array(capacity), ys = new Float64Array(capacity), zs = new Float64Array(capacity), ts = new Float64Array(capacity);
   const hs = new Float64Array(capacity), qs = new Float64Array(capacity);
   const seg = new Uint32Array(capacity), hor = new Int32Array(capacity), src = new Uint32Array(capacity);
-  const segmentNames: string[] = [];
-  const segmentIndex = new Map<string, number>();
-  const horizonNames: string[] = [];
-  const horizonIndex = new Map<string, number>();
+  const segments = new NameTable();
+  const horizons = new NameTable();
   const values = new Float64Array(NUMERIC.length);
   const present = new Uint8Array(NUMERIC.length);
-  let lastSegmentRaw = "";
-  let lastSegment = -1;
-  let lastHorizonRaw = "";
-  let lastHorizon = -1;
   let rowCounter = 1; // papaparse rows so far, header included
   let count = 0;
   pos = nextLine(headerEnd);
@@ -411,10 +403,7 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     if (pos < 0) return null;
     if (!present[X] && !present[Y] && !present[THROW]) {
       // a row of blank cells is skipped (but still counted); anything else here is a bad row
-      for (let q = start; q < end; q++) {
-        const ch = text.charCodeAt(q);
-        if (ch !== 44 && ch !== 32) return null;
-      }
+      if (!blankRow(text, start, end)) return null;
       continue;
     }
     if (!present[X] || !present[Y] || !present[THROW] || (!present[Z] && !present[DEPTH])) return null;
@@ -428,47 +417,58 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     ts[count] = values[THROW] * scale;
     hs[count] = present[HEAVE] ? values[HEAVE] * scale : NaN;
     qs[count] = present[QUALITY] ? values[QUALITY] : NaN;
-    // segment and horizon names: consecutive rows usually repeat the cell verbatim, so compare before slicing
-    let si: number;
-    if (segmentFrom >= 0 && lastSegment >= 0 && segmentTo - segmentFrom === lastSegmentRaw.length && text.startsWith(lastSegmentRaw, segmentFrom)) si = lastSegment;
-    else {
-      const raw = segmentFrom >= 0 ? text.slice(segmentFrom, segmentTo) : "";
-      const name = raw.trim() || "main";
-      let found = segmentIndex.get(name);
-      if (found === undefined) {
-        found = segmentNames.length;
-        segmentNames.push(name);
-        segmentIndex.set(name, found);
-      }
-      si = found;
-      if (segmentFrom >= 0) {
-        lastSegmentRaw = raw;
-        lastSegment = si;
-      }
-    }
-    seg[count] = si;
-    if (horizonFrom < 0) hor[count] = -1;
-    else if (lastHorizon >= 0 && horizonTo - horizonFrom === lastHorizonRaw.length && text.startsWith(lastHorizonRaw, horizonFrom)) hor[count] = lastHorizon;
-    else {
-      const raw = text.slice(horizonFrom, horizonTo);
-      const name = raw.trim();
-      if (!name) hor[count] = -1;
-      else {
-        let hi = horizonIndex.get(name);
-        if (hi === undefined) {
-          hi = horizonNames.length;
-          horizonNames.push(name);
-          horizonIndex.set(name, hi);
-        }
-        hor[count] = hi;
-        lastHorizonRaw = raw;
-        lastHorizon = hi;
-      }
-    }
+    seg[count] = segmentFrom < 0 ? segments.named("main") : segments.lookup(text, segmentFrom, segmentTo, "main");
+    hor[count] = horizonFrom < 0 ? -1 : horizons.lookup(text, horizonFrom, horizonTo, null);
     src[count] = rowCounter;
     count++;
   }
-  return { rows: rowCounter - 1, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames };
+  return { rows: rowCounter - 1, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames: segments.names, horizonNames: horizons.names };
+}
+
+/** occurrences of one character (kept out of readRowsFast so its own loop is optimised on its own) */
+function countOf(text: string, ch: string): number {
+  let count = 0;
+  for (let p = text.indexOf(ch); p >= 0; p = text.indexOf(ch, p + 1)) count++;
+  return count;
+}
+
+function blankRow(text: string, start: number, end: number): boolean {
+  for (let q = start; q < end; q++) {
+    const ch = text.charCodeAt(q);
+    if (ch !== 44 && ch !== 32) return false;
+  }
+  return true;
+}
+
+/** Segment or horizon names in order of first use; consecutive rows usually repeat a cell verbatim, so compare before slicing. */
+class NameTable {
+  readonly names: string[] = [];
+  private readonly index = new Map<string, number>();
+  private lastRaw = "";
+  private last = -1;
+  private hasLast = false;
+
+  named(name: string): number {
+    let found = this.index.get(name);
+    if (found === undefined) {
+      found = this.names.length;
+      this.names.push(name);
+      this.index.set(name, found);
+    }
+    return found;
+  }
+
+  /** index of the trimmed cell text[from, to); a blank cell is `blank` (or -1 when that is null) */
+  lookup(text: string, from: number, to: number, blank: string | null): number {
+    if (this.hasLast && to - from === this.lastRaw.length && text.startsWith(this.lastRaw, from)) return this.last;
+    const raw = text.slice(from, to);
+    const name = raw.trim() || blank;
+    const found = name === null ? -1 : this.named(name);
+    this.lastRaw = raw;
+    this.last = found;
+    this.hasLast = true;
+    return found;
+  }
 }
 
 function summarise(list: RejectedRow[], total: number): string {

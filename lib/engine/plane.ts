@@ -63,32 +63,8 @@ export function fitPlane(
 ): PlaneFit {
   const n = indices ? indices.length : x.length;
   if (n < 3) throw new DegeneratePlaneError("at least 3 points are needed to fit a plane");
-  const at = (k: number) => (indices ? indices[k] : k);
-  let cx = 0;
-  let cy = 0;
-  let cz = 0;
-  for (let k = 0; k < n; k++) {
-    const i = at(k);
-    cx += x[i];
-    cy += y[i];
-    cz += z[i];
-  }
-  cx /= n;
-  cy /= n;
-  cz /= n;
-  let xx = 0, xy = 0, xz = 0, yy = 0, yz = 0, zz = 0;
-  for (let k = 0; k < n; k++) {
-    const i = at(k);
-    const dx = x[i] - cx;
-    const dy = y[i] - cy;
-    const dz = z[i] - cz;
-    xx += dx * dx;
-    xy += dx * dy;
-    xz += dx * dz;
-    yy += dy * dy;
-    yz += dy * dz;
-    zz += dz * dz;
-  }
+  const [cx, cy, cz] = centroidOf(x, y, z, n, indices);
+  const [xx, xy, xz, yy, yz, zz] = scatterOf(x, y, z, n, cx, cy, cz, indices);
   const { values, vectors } = symmetricEigen3([
     [xx, xy, xz],
     [xy, yy, yz],
@@ -126,6 +102,37 @@ export function fitPlane(
     singularValues,
     planarityWarning,
   };
+}
+
+// the two passes over the points live in their own small functions, so each is optimised on its own
+function centroidOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, indices?: ArrayLike<number>): [number, number, number] {
+  let cx = 0;
+  let cy = 0;
+  let cz = 0;
+  for (let k = 0; k < n; k++) {
+    const i = indices ? indices[k] : k;
+    cx += x[i];
+    cy += y[i];
+    cz += z[i];
+  }
+  return [cx / n, cy / n, cz / n];
+}
+
+function scatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, cx: number, cy: number, cz: number, indices?: ArrayLike<number>): [number, number, number, number, number, number] {
+  let xx = 0, xy = 0, xz = 0, yy = 0, yz = 0, zz = 0;
+  for (let k = 0; k < n; k++) {
+    const i = indices ? indices[k] : k;
+    const dx = x[i] - cx;
+    const dy = y[i] - cy;
+    const dz = z[i] - cz;
+    xx += dx * dx;
+    xy += dx * dy;
+    xz += dx * dz;
+    yy += dy * dy;
+    yz += dy * dz;
+    zz += dz * dz;
+  }
+  return [xx, xy, xz, yy, yz, zz];
 }
 
 export function normaliseAzimuth(deg: number): number {

@@ -25,57 +25,80 @@ export interface TriangulateOptions {
  */
 export function triangulate(s: Float64Array, t: Float64Array, options: TriangulateOptions = {}): Triangulation {
   const n = s.length;
-  const coords = new Float64Array(2 * n);
-  for (let i = 0; i < n; i++) {
-    coords[2 * i] = s[i];
-    coords[2 * i + 1] = t[i];
-  }
+  const coords = interleave(s, t);
   const d = new Delaunator(coords);
   const tri = d.triangles;
   const half = d.halfedges;
   const nt = tri.length / 3;
-  // read (s, t) from the interleaved copy: one cache line per vertex instead of two
-  const edgeLength = (e: number) => {
-    const a = 2 * tri[e];
-    const b = 2 * tri[e % 3 === 2 ? e - 2 : e + 1];
-    const ds = coords[a] - coords[b];
-    const dt = coords[a + 1] - coords[b + 1];
-    return Math.sqrt(ds * ds + dt * dt);
-  };
+  const medianEdgeM = medianEdge(tri, coords);
+  const removed = new Uint8Array(nt);
+  const removedSlivers = (options.removeSlivers ?? true) ? peelSlivers(tri, half, coords, removed, (options.sliverEdgeFactor ?? 3) * medianEdgeM) : 0;
+  const kept = keptTriangles(tri, removed, nt - removedSlivers);
+  const outline = longestBoundaryLoop(tri, half, removed, s, t, n);
+  return { triangles: kept, medianEdgeM, removedSlivers, outline };
+}
+
+// Each pass below is its own function, so the engine optimises each loop on its own.
+
+function interleave(s: Float64Array, t: Float64Array): Float64Array {
+  const coords = new Float64Array(2 * s.length);
+  for (let i = 0; i < s.length; i++) {
+    coords[2 * i] = s[i];
+    coords[2 * i + 1] = t[i];
+  }
+  return coords;
+}
+
+/** length of half-edge e, read from the interleaved (s, t): one cache line per vertex instead of two */
+function edgeLength(tri: Uint32Array, coords: Float64Array, e: number): number {
+  const a = 2 * tri[e];
+  const b = 2 * tri[e % 3 === 2 ? e - 2 : e + 1];
+  const ds = coords[a] - coords[b];
+  const dt = coords[a + 1] - coords[b + 1];
+  return Math.sqrt(ds * ds + dt * dt);
+}
+
+/** median edge length over (a regular sample of at most ~200,000 of) the half-edges */
+function medianEdge(tri: Uint32Array, coords: Float64Array): number {
   const stride = Math.max(1, Math.floor(tri.length / 200_000));
   const sample = new Float64Array(Math.ceil(tri.length / stride));
-  for (let e = 0, k = 0; e < tri.length; e += stride) sample[k++] = edgeLength(e);
-  const medianEdgeM = sample.length ? select(sample, sample.length >> 1) : 0;
+  for (let e = 0, k = 0; e < tri.length; e += stride) sample[k++] = edgeLength(tri, coords, e);
+  return sample.length ? select(sample, sample.length >> 1) : 0;
+}
 
-  const removed = new Uint8Array(nt);
+function peelSlivers(tri: Uint32Array, half: Int32Array, coords: Float64Array, removed: Uint8Array, limit: number): number {
   let removedSlivers = 0;
-  if (options.removeSlivers ?? true) {
-    const limit = (options.sliverEdgeFactor ?? 3) * medianEdgeM;
-    const queue: number[] = [];
-    for (let e = 0; e < half.length; e++) if (half[e] === -1) queue.push(Math.floor(e / 3));
-    while (queue.length) {
-      const k = queue.pop()!;
-      if (removed[k]) continue;
-      const longest = Math.max(edgeLength(3 * k), edgeLength(3 * k + 1), edgeLength(3 * k + 2));
-      if (longest <= limit) continue;
-      removed[k] = 1;
-      removedSlivers++;
-      for (let j = 0; j < 3; j++) {
-        const opp = half[3 * k + j];
-        if (opp !== -1 && !removed[Math.floor(opp / 3)]) queue.push(Math.floor(opp / 3));
-      }
+  const queue: number[] = [];
+  for (let e = 0; e < half.length; e++) if (half[e] === -1) queue.push(Math.floor(e / 3));
+  while (queue.length) {
+    const k = queue.pop()!;
+    if (removed[k]) continue;
+    const longest = Math.max(edgeLength(tri, coords, 3 * k), edgeLength(tri, coords, 3 * k + 1), edgeLength(tri, coords, 3 * k + 2));
+    if (longest <= limit) continue;
+    removed[k] = 1;
+    removedSlivers++;
+    for (let j = 0; j < 3; j++) {
+      const opp = half[3 * k + j];
+      if (opp !== -1 && !removed[Math.floor(opp / 3)]) queue.push(Math.floor(opp / 3));
     }
   }
-  const kept = new Uint32Array(3 * (nt - removedSlivers));
+  return removedSlivers;
+}
+
+function keptTriangles(tri: Uint32Array, removed: Uint8Array, keptCount: number): Uint32Array {
+  const kept = new Uint32Array(3 * keptCount);
   let w = 0;
-  for (let k = 0; k < nt; k++) {
+  for (let k = 0; k < removed.length; k++) {
     if (removed[k]) continue;
     kept[w++] = tri[3 * k];
     kept[w++] = tri[3 * k + 1];
     kept[w++] = tri[3 * k + 2];
   }
+  return kept;
+}
 
-  // boundary edges of the kept triangles, chained into loops
+/** boundary edges of the kept triangles, chained into loops; the loop with the longest perimeter */
+function longestBoundaryLoop(tri: Uint32Array, half: Int32Array, removed: Uint8Array, s: Float64Array, t: Float64Array, n: number): number[] {
   const next = new Map<number, number[]>();
   for (let e = 0; e < tri.length; e++) {
     const k = Math.floor(e / 3);
@@ -111,7 +134,7 @@ export function triangulate(s: Float64Array, t: Float64Array, options: Triangula
       }
     }
   }
-  return { triangles: kept, medianEdgeM, removedSlivers, outline };
+  return outline;
 }
 
 /** The k-th smallest value (0-based) by Hoare's quickselect, in place, O(n) on average — sort()[k] without the sort. */

@@ -223,9 +223,12 @@ function ResultBody(props: {
         <dt className="text-slate-500">Triangles</dt>
         <dd className="font-mono">{summary.triangleCount.toLocaleString()} screened{props.data.skipped.degenerate + props.data.skipped.aboveDatum > 0 ? `, ${props.data.skipped.degenerate} slivers and ${props.data.skipped.aboveDatum} above the datum left out` : ""}; pick set v{props.data.pickSetVersion}, stress v{state.version}</dd>
       </dl>
-      {summary.failingFraction.low > 0 && (
+      {(summary.failingFraction.low > 0 || summary.slipTendency.max >= 0.6) && (
         <p className="rounded border border-red-300 bg-red-50 px-2 py-1 text-xs text-red-800 dark:border-red-800 dark:bg-red-950/40 dark:text-red-200" data-testid="stress-warning">
-          Under these inputs failure is already predicted on {pct(summary.failingFraction.low)} of the area at μ = {p.frictionLow} ({pct(summary.failingFraction.high)} at μ = {p.frictionHigh}). Check the inputs; a ±0.1 change in μ can flip this verdict.
+          {summary.failingFraction.low > 0
+            ? `Under these inputs failure is already predicted on ${pct(summary.failingFraction.low)} of the area at μ = ${p.frictionLow} (${pct(summary.failingFraction.high)} at μ = ${p.frictionHigh}).`
+            : `Slip tendency reaches ${fmt(summary.slipTendency.max, 2)} (≥ 0.6): parts of the fault are close to frictional sliding for common friction values (Byerlee 1978).`}{" "}
+          Check the inputs; a ±0.1 change in μ can flip this verdict.
         </p>
       )}
       <div className="flex flex-wrap items-end gap-2 text-xs">

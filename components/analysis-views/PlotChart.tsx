@@ -83,7 +83,7 @@ export const CHART = {
   slipLight: "#4bb3aa",
   tip: "#f08c00",
   model: "#7c3aed",
-  sum: "#0f172a",
+  sum: "#64748b",
   guide: "#94a3b8",
   overlap: "#f5a524",
   segments: ["#247a75", "#2563eb", "#be185d", "#65a30d"],

@@ -51,7 +51,7 @@ function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; repo
     ...segment.tipLine.map((p) => ({ ...p, series: `${segment.id} inferred tip line`, kind: "tip", index: i })),
   ]);
   const traces = sketch.segments.flatMap((segment) => segment.trace.map((p) => ({ ...p, series: `${segment.id} trace at ${Math.round(sketch.referenceElevationM)} m` })));
-  const vMax = Math.max(...lines.map((p) => p.v));
+  const vTop = Math.min(...lines.map((p) => p.v)) - 40;
   const middle = sketch.overlap ? (sketch.overlap[0] + sketch.overlap[1]) / 2 : NaN;
   const traceV = (i: number) => {
     const trace = sketch.segments[i].trace;
@@ -81,9 +81,9 @@ function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; repo
               sketch.overlap ? Plot.rect([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.12 }) : null,
               Plot.line(lines, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2 }),
               Plot.line(traces, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2.5 }),
-              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], y1: () => vMax, y2: () => vMax, stroke: "currentColor", headLength: 6, bend: false }) : null,
-              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[1], x2: (d: [number, number]) => d[0], y1: () => vMax, y2: () => vMax, stroke: "currentColor", headLength: 6, bend: false }) : null,
-              sketch.overlap ? Plot.text([sketch.overlap], { x: () => middle, y: () => vMax, dy: 12, text: () => `overlap O = ${relay.overlapM.toFixed(0)} m` }) : null,
+              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], y1: () => vTop, y2: () => vTop, stroke: "currentColor", headLength: 6, bend: false }) : null,
+              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[1], x2: (d: [number, number]) => d[0], y1: () => vTop, y2: () => vTop, stroke: "currentColor", headLength: 6, bend: false }) : null,
+              sketch.overlap ? Plot.text([sketch.overlap], { x: () => middle, y: () => vTop, dy: -9, text: () => `overlap O = ${relay.overlapM.toFixed(0)} m` }) : null,
               sketch.overlap ? Plot.link([0], { x1: () => middle, x2: () => middle, y1: () => traceV(0), y2: () => traceV(1), stroke: "currentColor", markerStart: "tick", markerEnd: "tick" }) : null,
               sketch.overlap ? Plot.text([0], { x: () => middle, y: () => (traceV(0) + traceV(1)) / 2, dx: 8, textAnchor: "start", text: () => `separation S = ${relay.separationM.toFixed(0)} m` }) : null,
               Plot.tip(traces, Plot.pointer({ x: "u", y: "v", title: (p: { series: string; u: number; v: number; throwM: number }) => `${p.series}\nalong ${p.u.toFixed(0)} m, across ${p.v.toFixed(0)} m\nthrow ${Number.isFinite(p.throwM) ? p.throwM.toFixed(1) + " m" : "—"}` })),
@@ -101,7 +101,7 @@ function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; repo
             <>
               <dd className="num" data-testid="relay-ramp">ψ ≈ {ramp.dipDeg.toFixed(1)}° ({ramp.flag})</dd>
               <dd className="text-xs text-slate-500">
-                ψ = atan(ΔT/O) with ΔT = {Math.max(...transfer).toFixed(1)} m, the throw change along the bounding segment across the overlap (geometry after Peacock &amp; Sanderson 1991), read from the gridded throw at {Math.round(sketch.referenceElevationM)} m elevation — not from horizon picks; regional dip is not included. Breaching is common once ramps reach about 10–15° (Fossen &amp; Rotevatn 2016).
+                ψ = atan(ΔT/O) with ΔT = {Math.max(...transfer).toFixed(1)} m, the throw change along the bounding segment across the overlap (geometry after Peacock &amp; Sanderson 1991), zero at the segment&apos;s own inferred tip and read from the gridded throw at {Math.round(sketch.referenceElevationM)} m elevation — not from horizon picks; regional dip is not included. Breaching is common once ramps reach about 10–15° (Fossen &amp; Rotevatn 2016).
               </dd>
             </>
           ) : (

@@ -151,19 +151,19 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
                 chart.overlap ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
                 chart.overlap ? Plot.text([chart.overlap], { x: (d: [number, number]) => (d[0] + d[1]) / 2, frameAnchor: "top", dy: 6, text: () => "overlap (relay)", fill: CHART.tip }) : null,
                 Plot.ruleY([0]),
+                chart.sum.length ? Plot.line(chart.sum, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 }) : null,
                 Plot.line(chart.modelRows, { x: "x", y: "value", z: "series", stroke: () => "fitted model", strokeDasharray: "6 4", strokeWidth: 1.5 }),
                 Plot.line(chart.rows, { x: "x", y: "value", z: "series", stroke: "series", strokeWidth: 1.5 }),
                 Plot.dot(chart.rows, { x: "x", y: "value", fill: "series", r: 1.8, className: "profile-point" }),
-                chart.sum.length ? Plot.line(chart.sum, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 2 }) : null,
                 Plot.dot(chart.tips, { x: "x", y: () => 0, symbol: "diamond", r: 5, fill: CHART.tip, stroke: "white", title: (d: { series: string; x: number }) => `inferred tip of ${d.series} at ${d.x.toFixed(0)} m` }),
-                Plot.tip(chart.rows, Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
+                Plot.tip([...chart.rows, ...chart.sum.filter((r) => Number.isFinite(r.value)).map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN }))], Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
               ],
             });
           }}
           note={
             <>
               Inferred tip positions marked ◆ at zero (amber). Dashed: {modelName}, scaled to the segment&apos;s Dmax.
-              {multi && mode !== "line" && " Black: the sum of the segments along strike (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
+              {multi && mode !== "line" && " Broad grey: the sum of the segments along strike (gaps where no segment has resolvable data) (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
               {" "}Values from the display grid; the Export tab gives the full-resolution profile.
             </>
           }

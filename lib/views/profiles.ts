@@ -241,7 +241,27 @@ export function interpolateOrZero(u: number[], values: number[], x: number): num
   return v0 + f * (v1 - v0);
 }
 
-/** Sum of several segments' profiles on a common u axis of `samples` points spanning all of them. */
+/** Whether the profile has data at x: inside its range, with data at both neighbouring nodes or at the nearer one. */
+export function hasDataAt(u: number[], values: number[], x: number): boolean {
+  const n = u.length;
+  if (n === 0 || x < u[0] || x > u[n - 1]) return false;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (u[mid] <= x) lo = mid;
+    else hi = mid;
+  }
+  if (Number.isFinite(values[lo]) && Number.isFinite(values[hi])) return true;
+  // one neighbour without data: the same nearest-node rule as interpolateOrZero
+  const f = u[hi] === u[lo] ? 0 : (x - u[lo]) / (u[hi] - u[lo]);
+  return Number.isFinite(f < 0.5 ? values[lo] : values[hi]);
+}
+
+/**
+ * Sum of several segments' profiles on a common u axis of `samples` points spanning all of them. Where no segment has
+ * data (below seismic resolution on every one) the sum is NaN, a gap, rather than a false zero.
+ */
 export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: number[]; displacementM: number[]; throwM: number[] } {
   let lo = Infinity;
   let hi = -Infinity;
@@ -257,8 +277,9 @@ export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: numb
   for (let k = 0; k < samples; k++) {
     const x = lo + ((hi - lo) * k) / (samples - 1);
     u.push(x);
-    displacementM.push(profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.displacementM, x), 0));
-    throwM.push(profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.throwM, x), 0));
+    const covered = profiles.some((p) => hasDataAt(p.u, p.displacementM, x));
+    displacementM.push(covered ? profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.displacementM, x), 0) : NaN);
+    throwM.push(covered ? profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.throwM, x), 0) : NaN);
   }
   return { u, displacementM, throwM };
 }

@@ -70,7 +70,9 @@ export function relaySketch(a: SegmentResult, b: SegmentResult, gridA?: GridLike
     separationAtMiddleM = Math.abs(valueAt(sa.trace, sa.trace.map((p) => p.v), middle) - valueAt(sb.trace, sb.trace.map((p) => p.v), middle));
     [sa, sb].forEach((segment, i) => {
       const throws = segment.trace.map((p) => p.throwM);
-      throwTransferM[i] = Math.abs(valueAt(segment.trace, throws, overlap[0]) - valueAt(segment.trace, throws, overlap[1]));
+      // an overlap end that is this segment's own inferred tip has zero throw by definition; elsewhere read the grid
+      const at = (u: number) => (Math.abs(u - segment.extent[0]) < 1 || Math.abs(u - segment.extent[1]) < 1 ? 0 : valueAt(segment.trace, throws, u));
+      throwTransferM[i] = Math.abs(at(overlap[0]) - at(overlap[1]));
     });
   }
   return { frame, referenceElevationM: zRef, segments: [sa, sb], overlap, separationAtMiddleM, throwTransferM };

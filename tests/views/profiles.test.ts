@@ -84,6 +84,18 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     expect(overlapZone([0, 500], [600, 1600])).toBeNull();
   });
 
+  it("leaves a gap (NaN) where no segment has data, instead of a false zero", () => {
+    const a = { id: "a", u: [0, 100, 200], displacementM: [10, 20, NaN], throwM: [8, 16, NaN] };
+    const b = { id: "b", u: [400, 500], displacementM: [30, 30], throwM: [24, 24] };
+    const sum = sumProfiles([a, b], 6); // u = 0, 100, 200, 300, 400, 500
+    expect(sum.displacementM[0]).toBe(10);
+    expect(sum.displacementM[1]).toBe(20);
+    expect(sum.displacementM[2]).toBeNaN(); // the node at 200 has no data
+    expect(sumProfiles([a, b], 11).displacementM[1]).toBe(15); // u = 50 lies between two nodes with data
+    expect(sum.displacementM[3]).toBeNaN();
+    expect(sum.displacementM[4]).toBe(30);
+  });
+
   it("counts no data as zero displacement", () => {
     expect(interpolateOrZero([0, 10], [5, NaN], 2)).toBe(5);
     expect(interpolateOrZero([0, 10], [5, 7], 20)).toBe(0);
@@ -98,9 +110,9 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     const zone = overlapZone(extents[0], extents[1])!;
     expect(zone[1] - zone[0]).toBeCloseTo(report.relays[0].overlapM, 6);
     const sum = sumProfiles(profiles, 300);
-    const peak = Math.max(...sum.displacementM);
+    const peak = Math.max(...sum.displacementM.filter(Number.isFinite));
     // the sum never falls below either segment's own profile
-    for (const p of profiles) for (let k = 0; k < sum.u.length; k += 10) expect(sum.displacementM[k] + 1e-9).toBeGreaterThanOrEqual(interpolateOrZero(p.u, p.displacementM, sum.u[k]));
+    for (const p of profiles) for (let k = 0; k < sum.u.length; k += 10) if (Number.isFinite(sum.displacementM[k])) expect(sum.displacementM[k] + 1e-9).toBeGreaterThanOrEqual(interpolateOrZero(p.u, p.displacementM, sum.u[k]));
     // drawn with Dmax 78 m and 64 m along strike (lib/demo.ts); the column maximum of their sum peaks near the larger one or above
     expect(peak).toBeGreaterThan(70);
     expect(peak).toBeLessThan(78 + 64);
@@ -117,5 +129,25 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     expect(at(lo - 1)).toBe(0);
     expect(at(hi + 1)).toBe(0);
     expect(Math.max(...model.displacementM)).toBeGreaterThanOrEqual(seg.max.displacementM * 0.99);
+  });
+});
+
+describe("relay sketch (strike–normal coordinates)", () => {
+  it("on QG-1: separation of the traces and the ramp dip ψ = atan(ΔT/O) (geometry after Peacock & Sanderson 1991)", async () => {
+    const { relaySketch } = await import("@/lib/views/relay");
+    const { rampDipDeg } = await import("@/lib/engine/relays");
+    const { report, grids } = analyzeCsv(demoCsv("QG-1"));
+    const [a, b] = report.segments;
+    const sketch = relaySketch(a, b, grids[a.id], grids[b.id]);
+    expect(sketch.overlap![1] - sketch.overlap![0]).toBeCloseTo(report.relays[0].overlapM, 6);
+    // lib/demo.ts places the south segment 260 m across strike from the north one
+    expect(sketch.separationAtMiddleM).toBeGreaterThan(200);
+    expect(sketch.separationAtMiddleM).toBeLessThan(320);
+    expect(sketch.separationAtMiddleM).toBeCloseTo(report.relays[0].separationM, -1);
+    const transfer = Math.max(...sketch.throwTransferM);
+    expect(transfer).toBeGreaterThan(5);
+    expect(transfer).toBeLessThan(78);
+    // domain reference check 31: ΔT = 100 m over O = 600 m gives 9.462°
+    expect(rampDipDeg(100, 600).dipDeg).toBeCloseTo(9.462, 3);
   });
 });

@@ -115,8 +115,8 @@ interface Layout {
 
 const layout: fc.Arbitrary<Layout> = fc.record({
   header: fc.oneof(
-    fc.constant(["x", "y", "z", "throw"]),
-    fc.constant(["X", "Y", "Depth", "Throw", "Segment"]),
+    fc.constant<string[]>(["x", "y", "z", "throw"]),
+    fc.constant<string[]>(["X", "Y", "Depth", "Throw", "Segment"]),
     fc.shuffledSubarray(COLUMNS, { minLength: 0, maxLength: COLUMNS.length }),
     fc.array(fc.string({ maxLength: 6 }), { maxLength: 6 }),
   ),

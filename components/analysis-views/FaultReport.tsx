@@ -19,6 +19,9 @@ export function FaultReport({ data }: { data: FaultReportData }) {
   const { fault, report, provenance, pins, scaling } = data;
   const stem = fileStem(fault.name);
   const [picture, setPicture] = useState<string | null>(null);
+  // set after hydration: the server's clock and the reader's time zone differ
+  const [printedAt, setPrintedAt] = useState<string | null>(null);
+  useEffect(() => setPrintedAt(new Date().toLocaleString()), []);
   useEffect(() => {
     try {
       const stored = localStorage.getItem(REPORT_PICTURE_KEY(fault.id));
@@ -38,12 +41,14 @@ export function FaultReport({ data }: { data: FaultReportData }) {
   });
 
   return (
-    <main className="mx-auto max-w-[1000px] space-y-4 p-6 text-sm print:max-w-none print:p-0 print:text-[11px]" data-testid="fault-report">
+    <main className="fault-report mx-auto max-w-[1000px] space-y-4 p-6 text-sm print:max-w-none print:p-0" data-testid="fault-report">
+      {/* one printed page: the site header and view controls stay off paper, the sheet is zoomed to fit A4 */}
+      <style>{"@media print { html, body { min-height: 0 !important; height: auto !important; } body > header, body header.sticky, nextjs-portal { display: none !important; } .fault-report { zoom: 0.6; } .fault-report select, .fault-report label { display: none !important; } @page { size: A4; margin: 10mm; } }"}</style>
       <header className="flex items-start justify-between gap-4">
         <div>
           <p className="eyebrow">Slipfield fault report</p>
           <h1 className="text-2xl font-semibold" data-testid="report-title">{fault.name}</h1>
-          <p className="text-xs text-slate-500">Study {fault.studyName} · printed {new Date().toLocaleString()}</p>
+          <p className="text-xs text-slate-500">Study {fault.studyName} · {printedAt ? `printed ${printedAt}` : ""}</p>
         </div>
         <div className="flex gap-2 print:hidden">
           <Link className="btn-quiet" href={`/studies/${fault.studyId}/faults/${fault.id}`}>Back to the fault</Link>

@@ -77,6 +77,7 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     x: cut(xs), y: cut(ys), z: cut(zs), throwM: cut(ts), heaveM: cut(hs), quality: cut(qs), segment: cut(seg), horizon: cut(hor),
     segmentNames, horizonNames, sourceRow: cut(src),
   };
+  if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
 
   const dedupe = options.dedupe ?? "reject";
   const dup = handleDuplicates(picks, dedupe, Boolean(options.dropBadRows), reject);
@@ -127,6 +128,9 @@ interface RowTable {
   src: Uint32Array;
   segmentNames: string[];
   horizonNames: string[];
+  /** hanging-wall / footwall interval thickness (m), only when the file has those columns */
+  hw?: Float64Array;
+  fw?: Float64Array;
 }
 
 /** The general reader: papaparse for the CSV grammar (quotes, delimiters, line endings), zod for each row. */
@@ -148,6 +152,8 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   const n = rows;
   const xs = new Float64Array(n), ys = new Float64Array(n), zs = new Float64Array(n), ts = new Float64Array(n);
   const hs = new Float64Array(n), qs = new Float64Array(n);
+  const thick = col.has("hw_thickness") || col.has("fw_thickness");
+  const hw = thick ? new Float64Array(n) : undefined, fw = thick ? new Float64Array(n) : undefined;
   const seg = new Uint32Array(n), hor = new Int32Array(n), src = new Uint32Array(n);
   const segmentNames: string[] = [];
   const segmentIndex = new Map<string, number>();
@@ -196,6 +202,10 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     ts[count] = row.throw * scale;
     hs[count] = row.heave !== undefined ? row.heave * scale : NaN;
     qs[count] = row.quality ?? NaN;
+    if (hw && fw) {
+      hw[count] = row.hw_thickness !== undefined ? row.hw_thickness * scale : NaN;
+      fw[count] = row.fw_thickness !== undefined ? row.fw_thickness * scale : NaN;
+    }
     const segName = row.segment ?? "main";
     let si = segmentIndex.get(segName);
     if (si === undefined) {
@@ -217,7 +227,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     count++;
   }
 
-  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames };
+  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw };
 }
 
 // ---- fast reader for clean numeric files -------------------------------------------------------------------------
@@ -349,6 +359,7 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     roles[i] = h === "segment" ? ROLE_SEGMENT : h === "horizon" ? ROLE_HORIZON : (NUMERIC as readonly string[]).indexOf(h);
   });
   if (!seen.has("x") || !seen.has("y") || !seen.has("throw") || (!seen.has("z") && !seen.has("depth"))) return null;
+  if (seen.has("hw_thickness") || seen.has("fw_thickness")) return null; // interval thicknesses: the general reader keeps them
   const [X, Y, Z, DEPTH, THROW, HEAVE, QUALITY] = [0, 1, 2, 3, 4, 5, 6];
   const roleCount = roles.length;
 
@@ -554,6 +565,7 @@ function handleDuplicates(
     return out;
   };
   const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
+  if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
   if (mode === "average") {
     ids.forEach((id, k) => {
       out.throwM[k] = sumT[id] / cnt[id];

@@ -27,6 +27,9 @@ export interface PickColumns {
   horizonNames: string[];
   /** spreadsheet row number per accepted pick, for messages */
   sourceRow: Uint32Array;
+  /** optional hw_thickness / fw_thickness columns: interval thickness below the pick's horizon (m), NaN where blank */
+  hwThicknessM?: Float64Array;
+  fwThicknessM?: Float64Array;
 }
 
 export interface ParseResult {

@@ -52,3 +52,29 @@ describe("growth clues", () => {
     expect(tz[1].z).toBe(-400);
   });
 });
+
+describe("hw_thickness / fw_thickness columns reach the growth view", () => {
+  it("are parsed (feet converted), survive pick storage, and give the expansion index per interval (Thorsen 1963, from memory)", async () => {
+    const { parsePickCsv } = await import("@/lib/engine/csv");
+    const { encodePicks, decodePicks } = await import("@/lib/picks/codec");
+    const lines = ["x,y,z,throw,horizon,hw_thickness,fw_thickness"];
+    // a plane striking north, dipping east at 45°: two horizons, the upper interval thickened in the hanging wall
+    for (let i = 0; i < 6; i++)
+      for (const [h, z, th, hw, fw] of [["H1", -100, 20, 150, 100], ["H2", -300, 60, 80, 80]] as const) {
+        lines.push(`${-z + i * 0.01},${i * 100},${z},${th},${h},${hw},${fw}`);
+      }
+    const parsed = parsePickCsv(lines.join("\n"));
+    expect(parsed.picks.hwThicknessM?.[0]).toBe(150);
+    const stored = decodePicks(encodePicks(parsed.picks));
+    expect(Array.from(stored.fwThicknessM!)).toEqual(Array.from(parsed.picks.fwThicknessM!));
+    const report = { segments: [{ id: "main", plane: { centroid: [0, 0, 0], strikeVector: [0, 1, 0] } }] } as unknown as AnalysisReport;
+    const tz = throwDepthAt(horizonThrowBins(stored, report, 3), "main", 0);
+    expect(tz.map((p) => p.horizon)).toEqual(["H1", "H2"]);
+    expect(expansionIndex(tz[0].hwThicknessM, tz[0].fwThicknessM)).toEqual({ index: 1.5, accruedThrowM: 50 });
+    expect(expansionIndex(tz[1].hwThicknessM, tz[1].fwThicknessM)!.index).toBe(1);
+    const feet = parsePickCsv(lines.join("\n"), { units: "ft" });
+    expect(feet.picks.hwThicknessM![0]).toBeCloseTo(150 * 0.3048, 9);
+    // files without the columns carry no thickness arrays (stored pick sets stay as before)
+    expect(parsePickCsv("x,y,z,throw\n0,0,0,1\n0,100,0,2\n10,0,-10,3\n").picks.hwThicknessM).toBeUndefined();
+  });
+});

@@ -144,3 +144,49 @@ test("QG-4: single-segment views, down-dip profile, no relay tab, and every expo
   await expect(report.getByTestId("scaling-chart").locator("svg").first()).toBeVisible();
   await expect(report.getByTestId("print-report")).toBeVisible();
 });
+
+/** An invented growth fault: plane striking north, dipping 60° E; four horizons whose throw decreases upward (10, 30, 60, 60 m at the centre). */
+function growthCsv() {
+  const lines = ["x,y,z,throw,horizon,hw_thickness,fw_thickness"];
+  const horizons: [string, number, number, number, number][] = [["H1", -1000, 10, 120, 110], ["H2", -1200, 30, 150, 120], ["H3", -1400, 60, 100, 100], ["H4", -1600, 60, 100, 100]];
+  for (let y = 0; y <= 2000; y += 40) {
+    const taper = Math.sin((Math.PI * y) / 2000);
+    for (const [name, z, throwM, hw, fw] of horizons) {
+      const x = -z / Math.tan(Math.PI / 3) + ((y / 40) % 3) * 0.5;
+      lines.push(`${x.toFixed(3)},${y},${z},${(throwM * taper).toFixed(3)},${name},${hw},${fw}`);
+    }
+  }
+  return Buffer.from(lines.join("\n") + "\n");
+}
+
+test("horizon picks: throw per horizon, throw–depth reading with its basis, expansion index per interval", async ({ page }) => {
+  await signIn(page, "interpreter@quillon.test");
+  await openDemoStudy(page);
+  await page.getByTestId("new-fault").click();
+  await page.getByLabel("Fault name").fill("QG-7 growth");
+  await page.getByRole("button", { name: "Add", exact: true }).click();
+  await page.getByRole("link", { name: "QG-7 growth" }).click();
+  await page.getByTestId("open-upload").click();
+  await page.getByTestId("pick-file").setInputFiles({ name: "qg-7-growth.csv", mimeType: "text/csv", buffer: growthCsv() });
+  await expect(page.getByTestId("upload-preview")).toBeVisible();
+  await page.getByTestId("confirm-upload").click();
+  await expect(page.getByTestId("analysis-views-panel")).toBeVisible({ timeout: 90_000 });
+
+  await page.getByTestId("view-tab-dip").click();
+  const horizonChart = page.getByTestId("horizon-throw-chart");
+  await expect(horizonChart.locator("svg").first()).toBeVisible();
+  expect(Number(await horizonChart.getAttribute("data-points"))).toBeGreaterThanOrEqual(4 * 20);
+  expect(await axisLabels(horizonChart)).toMatch(/Along strike, s \(m\)/);
+  const tz = page.getByTestId("throw-depth-chart");
+  await expect(tz).toHaveAttribute("data-points", "4");
+  expect(await axisLabels(tz)).toMatch(/Elevation \(m, up positive\)/);
+  await expect(page.getByTestId("tz-reading")).toContainText("syn-sedimentary growth");
+  await expect(page.getByTestId("tz-reading")).toContainText("Cartwright et al. (1998");
+  const ei = page.getByTestId("expansion-index-chart");
+  await expect(ei).toHaveAttribute("data-points", "4");
+  const eiCsv = await download(page, page.getByTestId("expansion-index-chart-csv"));
+  const rows = eiCsv.bytes.toString("utf8").trim().split("\n");
+  expect(rows[0]).toBe("interval_below_horizon,expansion_index,accrued_throw_m");
+  // H2 interval: 150 m / 120 m
+  expect(rows.find((row) => row.startsWith("H2,"))).toMatch(/^H2,1\.25,30$/);
+});

@@ -30,7 +30,7 @@ export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { p
       build={(width) => {
         const guides = SCALING_GUIDES.filter((g) => g.kind !== "box").flatMap((g) => powerLawLine(g.c!, g.n!, lo, hi).map((p) => ({ ...p, guide: `${g.label} (${g.source})` })));
         const box = SCALING_GUIDES.find((g) => g.kind === "box")!;
-        const fits = fit ? (["ols", "rma"] as const).flatMap((m) => powerLawLine(fit[m].c, fit[m].n, lo, hi).map((p) => ({ ...p, guide: `${m.toUpperCase()} fit: D = ${fit[m].c.toPrecision(3)}·L^${fit[m].n.toFixed(2)} (this study, N = ${fit.count})` }))) : [];
+        const fits = fit ? (["ols", "rma"] as const).flatMap((m) => powerLawLine(fit[m].c, fit[m].n, Math.min(...points.map((p) => p.lengthM)) / 1.5, Math.max(...points.map((p) => p.lengthM)) * 1.5).map((p) => ({ ...p, guide: `${m.toUpperCase()} fit: D = ${fit[m].c.toPrecision(3)}·L^${fit[m].n.toFixed(2)} (this study, N = ${fit.count})` }))) : [];
         const guideNames = [...new Set(guides.map((g) => g.guide))];
         const fitNames = [...new Set(fits.map((g) => g.guide))];
         const boxName = `${box.label} (${box.source})`;

@@ -1,4 +1,6 @@
 import "server-only";
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
 import { count } from "drizzle-orm";
 import { dataDirectory, getDatabaseHandle } from "@/db/client";
 import { users } from "@/db/schema";
@@ -7,6 +9,7 @@ import { users } from "@/db/schema";
 export async function prepareServer() {
   const started = Date.now();
   try {
+    if (!process.env.DATABASE_URL) claimDataFolder(dataDirectory());
     const { db, kind } = await getDatabaseHandle();
     const [{ userCount }] = await db.select({ userCount: count() }).from(users);
     if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
@@ -25,5 +28,31 @@ export async function prepareServer() {
         `Check that the folder exists, is writable and the disk is not full (or that the PostgreSQL server is reachable).`,
     );
     process.exit(1);
+  }
+}
+
+/**
+ * A PGlite data folder may be open in one process only: refuse a second server on the same folder, and record our pid
+ * in <data>/server.pid so `npm run backup` / `npm run restore` can refuse while we run. Writing it also proves the
+ * folder is writable before the database opens.
+ */
+function claimDataFolder(dataDir: string) {
+  mkdirSync(dataDir, { recursive: true });
+  const file = path.join(dataDir, "server.pid");
+  if (existsSync(file)) {
+    const pid = Number(readFileSync(file, "utf8").trim());
+    if (Number.isInteger(pid) && pid > 0 && pid !== process.pid && isAlive(pid)) {
+      throw new Error(`another server (pid ${pid}) is already using this data folder (if no server is running, delete ${file})`);
+    }
+  }
+  writeFileSync(file, String(process.pid));
+}
+
+function isAlive(pid: number) {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === "EPERM";
   }
 }

@@ -39,6 +39,9 @@ interface ResultResponse extends StressFieldPayload {
 // mirrors ROLE_PERMISSIONS.edit in lib/access.ts (a server-only module); the server checks again on save
 const EDIT_ROLES: readonly StudyRole[] = ["owner", "interpreter"];
 
+// above the 3D view's HTML labels, which take z-indices up to 16 777 271 (drei <Html> default range)
+const DIALOG_Z_INDEX = 16_777_300;
+
 const fmt = (value: number | null | undefined, digits = 1) => (value === null || value === undefined || !Number.isFinite(value) ? "—" : value.toFixed(digits));
 const pct = (fraction: number) => (Number.isFinite(fraction) ? `${(fraction * 100).toFixed(1)} %` : "—");
 
@@ -258,7 +261,7 @@ function ResultBody(props: {
       </div>
       {!enlarged && charts}
       {enlarged && (
-        <div className="fixed inset-0 z-50 flex items-center justify-center bg-slate-900/50 p-4" role="dialog" aria-modal="true" aria-label="Reactivation screen charts" onClick={() => setEnlarged(false)}>
+        <div className="fixed inset-0 flex items-center justify-center bg-slate-900/50 p-4" style={{ zIndex: DIALOG_Z_INDEX }} role="dialog" aria-modal="true" aria-label="Reactivation screen charts" onClick={() => setEnlarged(false)}>
           <div className="card max-h-full w-full max-w-4xl space-y-4 overflow-auto p-4" onClick={(e) => e.stopPropagation()}>
             <div className="flex items-center justify-between">
               <h3 className="font-semibold">Reactivation screen — pick set v{props.data.pickSetVersion}, stress v{state.version}</h3>

@@ -1,5 +1,6 @@
 "use client";
 import Link from "next/link";
+import { useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
@@ -38,7 +39,9 @@ type SideTab = "sheet" | "pins" | "stress";
 
 export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean; role: StudyRole }) {
   const { faultId, canEdit } = props;
-  const [sideTab, setSideTab] = useState<SideTab>("sheet");
+  // links from pin e-mails carry ?pin=<id>: open the notes tab on that thread
+  const linkedPin = useSearchParams().get("pin");
+  const [sideTab, setSideTab] = useState<SideTab>(linkedPin ? "pins" : "sheet");
   const pins = useAnnotationStore((state) => state.pins);
   const placing = useAnnotationStore((state) => state.placing);
   const setPendingHit = useAnnotationStore((state) => state.setPendingHit);

@@ -89,7 +89,7 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
 
   return (
     <div className="space-y-4 text-sm" data-testid="stress-panel">
-      <StressCaution />
+      {!current && <StressCaution />}
       <section>
         <div className="mb-2 flex items-center justify-between">
           <h3 className="font-semibold">Stress state</h3>
@@ -111,6 +111,7 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
       {current && (
         <section className="space-y-3" data-testid="stress-results">
           <h3 className="font-semibold">Screening result</h3>
+          <StressCaution />
           {result.isPending && <p className="text-slate-500">Screening the fault surface…</p>}
           {result.isError && <p className="text-red-700 dark:text-red-300" role="alert">{result.error.message}</p>}
           {result.data && (

@@ -4,7 +4,10 @@ import { useMemo } from "react";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import { rampDipDeg } from "@/lib/engine/relays";
 import type { AnalysisReport, RelayResult } from "@/lib/engine/types";
-import { relaySketch } from "@/lib/views/relay";
+import { useQuery } from "@tanstack/react-query";
+import { apiFetch } from "@/lib/api/client";
+import type { HorizonBin } from "@/lib/views/growth";
+import { horizonRampDips, relaySketch } from "@/lib/views/relay";
 import { CHART, PlotChart } from "./PlotChart";
 
 const LINKAGE_WORDS: Record<RelayResult["linkage"], string> = { soft: "soft-linked (intact relay ramp)", breached: "breached relay", hard: "hard-linked" };
@@ -32,20 +35,22 @@ export function RelayTable({ report }: { report: AnalysisReport }) {
   );
 }
 
-export function RelayView({ report, display, stem }: { report: AnalysisReport; display: FaultDisplay; stem: string }) {
+export function RelayView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
+  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<{ horizons: string[]; bins: HorizonBin[] }>(`/api/faults/${faultId}/export/horizons.json`) });
   return (
     <div className="space-y-6" data-testid="relay-view">
       <RelayTable report={report} />
-      {report.relays.map((relay) => <RelayPanel key={relay.segments.join("-")} relay={relay} report={report} display={display} stem={stem} />)}
+      {report.relays.map((relay) => <RelayPanel key={relay.segments.join("-")} relay={relay} report={report} display={display} stem={stem} bins={horizons.data?.bins ?? []} />)}
     </div>
   );
 }
 
-function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; report: AnalysisReport; display: FaultDisplay; stem: string }) {
+function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult; report: AnalysisReport; display: FaultDisplay; stem: string; bins: HorizonBin[] }) {
   const [a, b] = relay.segments.map((id) => report.segments.find((segment) => segment.id === id)!);
   const [ga, gb] = relay.segments.map((id) => display.segments.find((segment) => segment.id === id)?.grid);
   const sketch = useMemo(() => relaySketch(a, b, ga, gb), [a, b, ga, gb]);
   const transfer = sketch.throwTransferM.filter(Number.isFinite);
+  const horizonDips = useMemo(() => horizonRampDips(a, b, bins), [a, b, bins]);
   const ramp = transfer.length && relay.overlapM > 0 ? rampDipDeg(Math.max(...transfer), relay.overlapM) : null;
   const lines = sketch.segments.flatMap((segment, i) => [
     ...segment.tipLine.map((p) => ({ ...p, series: `${segment.id} inferred tip line`, kind: "tip", index: i })),
@@ -106,6 +111,19 @@ function RelayPanel({ relay, report, display, stem }: { relay: RelayResult; repo
             </>
           ) : (
             <dd className="text-xs text-slate-500">Not available: the gridded throw does not cover both ends of the overlap.</dd>
+          )}
+        </div>
+        <div data-testid="relay-ramp-horizons">
+          <dt className="text-xs text-slate-500">Ramp dip per horizon</dt>
+          {horizonDips.length ? (
+            <dd>
+              <ul className="num text-xs">
+                {horizonDips.map((dip) => <li key={dip.horizon}>{dip.horizon}: ψ ≈ {dip.dipDeg.toFixed(1)}° (ΔT {dip.throwTransferM.toFixed(1)} m, {dip.flag})</li>)}
+              </ul>
+              <p className="text-xs text-slate-500">From the horizon picks on both segments; 10–15° is the common onset of breaching (Fossen &amp; Rotevatn 2016).</p>
+            </dd>
+          ) : (
+            <dd className="text-xs text-slate-500">No horizon picked on both segments: the estimate above (gridded throw) is all there is.</dd>
           )}
         </div>
       </dl>

@@ -1,6 +1,7 @@
 // Relay geometry in strike–normal coordinates for the relay view: tip lines and traces of two segments on their mean
 // strike (u along, v across), and the along-strike ramp dip from the throw transferred over the overlap.
 import { sampleGrid } from "@/lib/analysis/display";
+import { rampDipDeg } from "@/lib/engine/relays";
 import type { SegmentResult } from "@/lib/engine/types";
 import { acrossStrike, alongStrike, commonStrikeFrame, overlapZone, planePointToWorld, tipExtent, type GridLike, type StrikeFrame } from "./profiles";
 
@@ -76,4 +77,56 @@ export function relaySketch(a: SegmentResult, b: SegmentResult, gridA?: GridLike
     });
   }
   return { frame, referenceElevationM: zRef, segments: [sa, sb], overlap, separationAtMiddleM, throwTransferM };
+}
+
+export interface HorizonRampDip {
+  horizon: string;
+  /** largest throw change along either bounding segment across the overlap on this horizon (m) */
+  throwTransferM: number;
+  dipDeg: number;
+  flag: "ok" | "approaching breaching" | "breaching likely";
+}
+
+/**
+ * Along-strike ramp dip per horizon, ψ = atan(ΔT/O), from horizon picks binned along strike (lib/views/growth.ts):
+ * ΔT is the throw change of a bounding segment between the two overlap ends on that horizon (zero at the segment's own
+ * inferred tip, otherwise the nearest bin). Geometry after Peacock & Sanderson (1991); ~10–15° breaching onset after
+ * Fossen & Rotevatn (2016).
+ */
+export function horizonRampDips(
+  a: SegmentResult,
+  b: SegmentResult,
+  bins: { segment: string; horizon: string; s: number; z: number; throwM: number }[],
+): HorizonRampDip[] {
+  const frame = commonStrikeFrame([a, b]);
+  const extents = [tipExtent(a, frame), tipExtent(b, frame)];
+  const overlap = overlapZone(extents[0], extents[1]);
+  if (!overlap) return [];
+  const horizons = [...new Set(bins.filter((bin) => bin.segment === a.id).map((bin) => bin.horizon))].filter((h) => bins.some((bin) => bin.segment === b.id && bin.horizon === h));
+  const out: HorizonRampDip[] = [];
+  for (const horizon of horizons) {
+    let transfer = NaN;
+    [a, b].forEach((segment, i) => {
+      const { centroid, strikeVector, dipVector } = segment.plane;
+      const placed = bins
+        .filter((bin) => bin.segment === segment.id && bin.horizon === horizon)
+        .map((bin) => {
+          const t = Math.abs(dipVector[2]) > 1e-9 ? (bin.z - centroid[2] - bin.s * strikeVector[2]) / dipVector[2] : 0;
+          const [x, y] = planePointToWorld(segment.plane, bin.s, t);
+          return { u: alongStrike(frame, x, y), throwM: bin.throwM };
+        });
+      if (placed.length === 0) return;
+      const at = (u: number) => {
+        if (Math.abs(u - extents[i][0]) < 1 || Math.abs(u - extents[i][1]) < 1) return 0;
+        let best = placed[0];
+        for (const p of placed) if (Math.abs(p.u - u) < Math.abs(best.u - u)) best = p;
+        return best.throwM;
+      };
+      const change = Math.abs(at(overlap[0]) - at(overlap[1]));
+      transfer = Number.isNaN(transfer) ? change : Math.max(transfer, change);
+    });
+    if (Number.isNaN(transfer)) continue;
+    out.push({ horizon, throwTransferM: transfer, ...rampDipDeg(transfer, overlap[1] - overlap[0]) });
+  }
+  return out;
 }

@@ -151,3 +151,22 @@ describe("relay sketch (strike–normal coordinates)", () => {
     expect(rampDipDeg(100, 600).dipDeg).toBeCloseTo(9.462, 3);
   });
 });
+
+describe("relay ramp dip per horizon", () => {
+  it("ψ = atan(ΔT/O) from horizon bins: ΔT = throw at the far overlap end minus zero at the segment's own tip (geometry after Peacock & Sanderson 1991)", async () => {
+    const { horizonRampDips } = await import("@/lib/views/relay");
+    const { report } = analyzeCsv(demoCsv("QG-1"));
+    const [a, b] = report.segments;
+    const frame = commonStrikeFrame([a, b]);
+    const zone = overlapZone(tipExtent(a, frame), tipExtent(b, frame))!;
+    // bins of a horizon at the centroid elevation of segment a: throw 40 m everywhere on a, 10 m everywhere on b
+    const binsFor = (segment: typeof a, throwM: number) =>
+      Array.from({ length: 41 }, (_, k) => ({ segment: segment.id, horizon: "top reservoir", s: -2000 + k * 100, z: segment.plane.centroid[2], throwM }));
+    const dips = horizonRampDips(a, b, [...binsFor(a, 40), ...binsFor(b, 10)]);
+    expect(dips).toHaveLength(1);
+    // the segment whose own tip ends the overlap contributes its full throw (40 m on a); b contributes 10 m
+    expect(dips[0].throwTransferM).toBe(40);
+    expect(dips[0].dipDeg).toBeCloseTo((Math.atan(40 / (zone[1] - zone[0])) * 180) / Math.PI, 9);
+    expect(dips[0].flag).toBe("ok");
+  });
+});

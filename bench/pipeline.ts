@@ -15,6 +15,9 @@ import { buildGrid, gridSpecFor } from "../lib/engine/grid";
 import { contourGrid, contourLevels } from "../lib/engine/contours";
 import { inferTipLine } from "../lib/engine/tipline";
 
+/** the python3 on PATH if it has scipy, else Debian's (where apt's python3-scipy lands) */
+const PYTHON = ["python3", "/usr/bin/python3"].find((python) => spawnSync(python, ["-c", "import scipy"], { stdio: "ignore" }).status === 0) ?? "python3";
+
 const SIZES = [1e3, 1e4, 1e5, 1e6];
 const GRID = 512;
 /**
@@ -83,7 +86,7 @@ function main() {
     return child(Number(process.argv[arg + 1]), out > 0 ? process.argv[out + 1] : "");
   }
   console.log(`Machine: ${os.cpus().length} cores (${os.cpus()[0]?.model ?? "unknown CPU"}), Node ${process.version}, ${new Date().toISOString().slice(0, 10)}`);
-  const sp = spawnSync("python3", ["-c", "import sys, scipy; print(scipy.__version__, sys.executable)"], { encoding: "utf8" });
+  const sp = spawnSync(PYTHON, ["-c", "import sys, scipy; print(scipy.__version__, sys.executable)"], { encoding: "utf8" });
   console.log(`Reference: scipy ${sp.status === 0 ? sp.stdout.trim().replace(" ", " via ") : "not available"}`);
   console.log(`Grid: ${GRID} × ${GRID} nodes of square cells; ${GRID} nodes span the longer side of the data, centred on the shorter; scipy gets the identical nodes.`);
   console.log("Each pipeline run is a fresh process (cold start, as each analysis runs in a fresh worker); best total of 3 runs (2 at 10⁶). scipy: best of as many griddata calls in one process.");
@@ -108,7 +111,7 @@ function main() {
       }
       const o = best;
       const spec = o.spec;
-      const py = spawnSync("python3", [path.join(__dirname, "griddata_time.py"), prefix, String(spec.s0), String(spec.t0), String(spec.cellM), String(spec.columns), String(spec.rows), String(repeats)], { encoding: "utf8" });
+      const py = spawnSync(PYTHON, [path.join(__dirname, "griddata_time.py"), prefix, String(spec.s0), String(spec.t0), String(spec.cellM), String(spec.columns), String(spec.rows), String(repeats)], { encoding: "utf8" });
       const scipy = py.status === 0 ? JSON.parse(py.stdout) : null;
       const scipyMs = scipy ? scipy.seconds * 1000 : NaN;
       const f = (v: number) => v.toFixed(0);

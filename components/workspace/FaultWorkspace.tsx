@@ -11,6 +11,7 @@ import { useAnnotationStore } from "@/scene/annotationStore";
 import { AnalysisViews } from "@/components/analysis-views/AnalysisViews";
 import { PinsPanel } from "@/components/collab/PinsPanel";
 import { StressPanel } from "@/components/stress/StressPanel";
+import { StressSheetSummary } from "@/components/stress/StressSheetSummary";
 import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
@@ -167,6 +168,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
               </div>
               <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
                 <FaultSheet report={report} />
+                <StressSheetSummary faultId={faultId} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "stress"}>
                 <StressPanel studyId={props.studyId} faultId={faultId} role={props.role} display={display.data ?? null} analysisId={current!.id} />

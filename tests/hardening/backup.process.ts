@@ -91,6 +91,6 @@ describe("backup and restore", () => {
   it("restore of a file that is not a backup fails with a message", () => {
     const result = runScript("restore.ts", [path.join(ROOT, "package.json")], tempDataDir("backup-bad"));
     expect(result.status).toBe(1);
-    expect(result.stderr).toMatch(/restore: .*not a readable backup|restore: /);
+    expect(result.stderr).toMatch(/restore: .*package\.json is not a readable backup/);
   });
 });

@@ -1,7 +1,7 @@
 // npm run restore FILE [--force] — loads a backup written by `npm run backup` into the data folder
 // (SLIPFIELD_DATA_DIR, default ./data). Refuses to overwrite a database that is already there unless --force is given;
 // with --force the existing database is kept beside it as pglite.before-restore-<UTC time>, never deleted.
-import { existsSync, mkdirSync, readFileSync, readdirSync, renameSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync, readdirSync, renameSync, rmSync } from "node:fs";
 import path from "node:path";
 import { PGlite } from "@electric-sql/pglite";
 import { livingServerPid } from "./hardening/data-lock";
@@ -35,6 +35,7 @@ async function main() {
     client = new PGlite(folder, { loadDataDir: blob });
     await client.waitReady;
   } catch (error) {
+    rmSync(folder, { recursive: true, force: true }); // only what this run created: nothing half-restored stays behind
     fail(`${file} is not a readable backup (${error instanceof Error ? error.message : String(error)}).`);
   }
   const tables = await client.query<{ count: number }>(`select count(*)::int as count from pg_tables where schemaname = 'public'`);

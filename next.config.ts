@@ -17,6 +17,9 @@ const contentSecurityPolicy = [
 ].join("; ");
 
 const nextConfig: NextConfig = {
+  // A separate build folder for the hardening scripts and tests (scripts/hardening/server.ts), so their build and a
+  // concurrent `npm run build` on the same checkout do not overwrite each other. Default: .next
+  ...(process.env.SLIPFIELD_DIST_DIR ? { distDir: process.env.SLIPFIELD_DIST_DIR } : {}),
   serverExternalPackages: ["@electric-sql/pglite", "piscina"],
   poweredByHeader: false,
   async headers() {

@@ -43,4 +43,6 @@ fi
 
 echo "== browser tests (Playwright, Debian chromium)"
 NEXT_TELEMETRY_DISABLED=1 npm run build >/tmp/slipfield-build.log 2>&1 || { tail -50 /tmp/slipfield-build.log; exit 1; }
+echo "== real-process hardening tests (kill, restart, backup, start-up failures, security over HTTP)"
+npm run test:process
 npx playwright test

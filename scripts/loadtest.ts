@@ -1,0 +1,293 @@
+// npm run loadtest — the production build on loopback under a mixed load, with two 10⁵-pick analyses during the window.
+//   LOADTEST_SECONDS (60)      length of the measured window
+//   LOADTEST_CONNECTIONS (50)  concurrent connections (each a loop: send, wait for the answer, send the next)
+//   LOADTEST_SIGNUPS (8)       users created through the sign-up form, beside the four demo accounts
+//   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
+// Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
+// write is stored. Exits 1 when there were errors or a write is missing.
+import { readFileSync } from "node:fs";
+import path from "node:path";
+import {
+  Client,
+  DEMO_ACCOUNTS,
+  DEMO_PASSWORD,
+  ensureBuild,
+  pinBody,
+  ROOT,
+  startServer,
+  syntheticPickCsv,
+  viewpointBody,
+  waitForAnalysis,
+} from "./hardening/server";
+
+const SECONDS = Number(process.env.LOADTEST_SECONDS ?? 60);
+const CONNECTIONS = Number(process.env.LOADTEST_CONNECTIONS ?? 50);
+const SIGNUPS = Number(process.env.LOADTEST_SIGNUPS ?? 8);
+const PIN_BUDGET = 38; // the product allows 40 pins + replies per person per 10 minutes (lib/pins/service.ts)
+
+// Node's fetch keeps connections alive and opens one per request in flight: CONNECTIONS loops = CONNECTIONS connections.
+
+type Kind = "read" | "write";
+interface Sample {
+  kind: Kind;
+  name: string;
+  ms: number;
+  status: number;
+}
+
+interface Actor {
+  client: Client;
+  email: string;
+  canComment: boolean;
+  canShare: boolean;
+  canEdit: boolean;
+  studyId: string;
+  faults: { id: string; analysisId: string; segmentId: string }[];
+  pinBudget: number;
+  ownPins: string[];
+}
+
+const log = (line: string) => console.log(`loadtest: ${line}`);
+
+function percentile(sorted: number[], p: number) {
+  if (sorted.length === 0) return NaN;
+  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+}
+
+async function jsonOf<T>(response: Response): Promise<T> {
+  if (!response.ok) throw new Error(`${response.url} → ${response.status} ${await response.text()}`);
+  return (await response.json()) as T;
+}
+
+async function faultsOf(client: Client, studyId: string) {
+  const { faults } = await jsonOf<{ faults: { id: string; name: string }[] }>(await client.request(`/api/studies/${studyId}/faults`));
+  const out: Actor["faults"] = [];
+  for (const fault of faults) {
+    const analysis = await waitForAnalysis(client, fault.id);
+    if (analysis.status !== "done") continue;
+    const full = await jsonOf<{ analysis: { id: string; result: { segments: { id: string }[] } } }>(await client.request(`/api/faults/${fault.id}/analysis`));
+    out.push({ id: fault.id, analysisId: full.analysis.id, segmentId: full.analysis.result.segments[0].id });
+  }
+  return out;
+}
+
+async function main() {
+  ensureBuild(log);
+  const started = Date.now();
+  // analyses run as in production: one worker thread (SLIPFIELD_ANALYSIS_WORKERS, default 1), further ones queued
+  const server = await startServer();
+  log(`server on ${server.url} (data ${server.dataDir}) ready in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  const shutdown = async () => {
+    await server.stop();
+  };
+  process.on("SIGINT", () => void shutdown().then(() => process.exit(130)));
+
+  try {
+    // ---- users -------------------------------------------------------------------------------------------------
+    const actors: Actor[] = [];
+    let demoStudyId = "";
+    for (const email of DEMO_ACCOUNTS) {
+      const client = new Client(server.url);
+      await client.signIn(email, DEMO_PASSWORD);
+      const { studies } = await jsonOf<{ studies: { id: string }[] }>(await client.request("/api/studies"));
+      demoStudyId = studies[0].id;
+      const role = email.split("@")[0];
+      actors.push({
+        client,
+        email,
+        canComment: role !== "viewer",
+        canShare: role !== "viewer",
+        canEdit: role === "owner" || role === "interpreter",
+        studyId: demoStudyId,
+        faults: [],
+        pinBudget: role === "viewer" ? 0 : PIN_BUDGET,
+        ownPins: [],
+      });
+    }
+    const demoFaults = await faultsOf(actors[0].client, demoStudyId);
+    for (const actor of actors) actor.faults = demoFaults;
+    const smallCsv = readFileSync(path.join(ROOT, "public/demo/qg-4-throw-picks.csv"), "utf8");
+    const runId = Date.now().toString(36);
+    for (let index = 0; index < SIGNUPS; index++) {
+      const client = new Client(server.url);
+      const email = `load-${runId}-${index}@example.test`;
+      await client.signUp(`Load user ${index}`, email, `load-test-pass-${index}A`);
+      const { study } = await jsonOf<{ study: { id: string } }>(await client.json("/api/studies", "POST", { name: `Load study ${index}` }));
+      const { fault } = await jsonOf<{ fault: { id: string } }>(await client.json(`/api/studies/${study.id}/faults`, "POST", { name: `LF-${index}` }));
+      const upload = await client.upload(fault.id, "qg-4-throw-picks.csv", smallCsv);
+      if (upload.status !== 201) throw new Error(`setup upload failed: ${upload.status} ${await upload.text()}`);
+      actors.push({ client, email, canComment: true, canShare: true, canEdit: true, studyId: study.id, faults: [], pinBudget: PIN_BUDGET, ownPins: [] });
+    }
+    for (const actor of actors.slice(DEMO_ACCOUNTS.length)) actor.faults = await faultsOf(actor.client, actor.studyId);
+    log(`${actors.length} users signed in (${DEMO_ACCOUNTS.length} demo accounts, ${SIGNUPS} created through the sign-up form)`);
+
+    // two 10⁵-pick files, uploaded through the real upload API during the window
+    const bigFiles = await Promise.all([syntheticPickCsv(100_000, 101), syntheticPickCsv(100_000, 202)]);
+
+    // ---- the measured window ----------------------------------------------------------------------------------
+    const samples: Sample[] = [];
+    const errors: string[] = [];
+    const acknowledged = { pins: [] as { faultId: string; id: string; reader: Client }[], replies: [] as { faultId: string; pinId: string; id: string; reader: Client }[], viewpoints: [] as { faultId: string; id: string; reader: Client }[], faults: [] as { studyId: string; id: string; reader: Client }[] };
+    let writeCounter = 0;
+    const windowStart = Date.now();
+    const windowEnd = windowStart + SECONDS * 1000;
+
+    const timed = async (kind: Kind, name: string, send: () => Promise<Response>) => {
+      const t0 = performance.now();
+      let response: Response;
+      try {
+        response = await send();
+      } catch (error) {
+        const cause = (error as { cause?: { code?: string; message?: string } }).cause;
+        errors.push(`${name}: ${(error as Error).message}${cause ? ` (${cause.code ?? ""} ${cause.message ?? ""})` : ""}`);
+        return null;
+      }
+      const body = await response.arrayBuffer();
+      const ms = performance.now() - t0;
+      samples.push({ kind, name, ms, status: response.status });
+      if (response.status >= 400) errors.push(`${name}: HTTP ${response.status} ${new TextDecoder().decode(body).slice(0, 200)}`);
+      return { response, body };
+    };
+    const idOf = (body: ArrayBuffer, key: string) => (JSON.parse(new TextDecoder().decode(body)) as Record<string, { id: string }>)[key].id;
+
+    const oneRequest = async (actor: Actor, random: number) => {
+      const fault = actor.faults[Math.floor(Math.random() * actor.faults.length)];
+      if (random < 0.8 || !actor.canComment) {
+        const which = Math.floor(Math.random() * 4);
+        if (which === 0) await timed("read", "GET fault", () => actor.client.request(`/api/faults/${fault.id}`));
+        else if (which === 1) await timed("read", "GET analysis", () => actor.client.request(`/api/faults/${fault.id}/analysis`));
+        else if (which === 2) await timed("read", "GET display grid", () => actor.client.request(`/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
+        else await timed("read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+        return;
+      }
+      const index = writeCounter++;
+      const choice = Math.random();
+      if (actor.pinBudget > 0 && (choice < 0.3 || (choice < 0.45 && actor.ownPins.length === 0))) {
+        actor.pinBudget--;
+        const result = await timed("write", "POST pin", () => actor.client.json(`/api/faults/${fault.id}/pins`, "POST", pinBody(fault.segmentId, index)));
+        if (result?.response.status === 201) {
+          const id = idOf(result.body, "pin");
+          actor.ownPins.push(id);
+          acknowledged.pins.push({ faultId: fault.id, id, reader: actor.client });
+        }
+      } else if (actor.pinBudget > 0 && choice < 0.45) {
+        actor.pinBudget--;
+        const pinId = actor.ownPins[Math.floor(Math.random() * actor.ownPins.length)];
+        const pinFault = acknowledged.pins.find((pin) => pin.id === pinId)!.faultId;
+        const result = await timed("write", "POST reply", () => actor.client.json(`/api/pins/${pinId}/replies`, "POST", { body: `Reply ${index}: agreed, check the next line.` }));
+        if (result?.response.status === 201) acknowledged.replies.push({ faultId: pinFault, pinId, id: idOf(result.body, "reply"), reader: actor.client });
+      } else if (actor.canShare && choice < 0.8) {
+        const result = await timed("write", "POST viewpoint", () => actor.client.json(`/api/faults/${fault.id}/viewpoints`, "POST", viewpointBody(index)));
+        if (result?.response.status === 201) acknowledged.viewpoints.push({ faultId: fault.id, id: idOf(result.body, "viewpoint"), reader: actor.client });
+      } else if (actor.canEdit) {
+        const result = await timed("write", "POST fault", () => actor.client.json(`/api/studies/${actor.studyId}/faults`, "POST", { name: `Load ${runId} ${index}` }));
+        if (result?.response.status === 201) acknowledged.faults.push({ studyId: actor.studyId, id: idOf(result.body, "fault"), reader: actor.client });
+      } else {
+        await timed("read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+      }
+    };
+
+    const connection = async (slot: number) => {
+      const actor = actors[slot % actors.length];
+      while (Date.now() < windowEnd) await oneRequest(actor, Math.random());
+    };
+
+    // the two analyses: uploaded by the interpreter to the two demo faults a few seconds into the window
+    const interpreter = actors[1];
+    const analysisRuns = (async () => {
+      await new Promise((resolve) => setTimeout(resolve, Math.min(5000, (SECONDS * 1000) / 10)));
+      return Promise.all(
+        bigFiles.map(async (file, index) => {
+          const faultId = demoFaults[index % demoFaults.length].id;
+          const t0 = performance.now();
+          const response = await interpreter.client.upload(faultId, `load-${index + 1}.csv`, file.csv);
+          const uploadMs = performance.now() - t0;
+          if (response.status !== 201) throw new Error(`big upload failed: ${response.status} ${await response.text()}`);
+          const { analysisId, pickSetId } = (await response.json()) as { analysisId: string; pickSetId: string };
+          for (;;) {
+            const { analysis } = await jsonOf<{ analysis: { id: string; status: string; finishedAt: string | null; errorMessage: string | null } }>(
+              await interpreter.client.request(`/api/faults/${faultId}/analysis?pickSet=${pickSetId}`),
+            );
+            if (analysis.status === "done" || analysis.status === "failed") {
+              return { rows: file.rows, uploadMs, analysisId, status: analysis.status, error: analysis.errorMessage, doneAt: Date.now() - windowStart };
+            }
+            await new Promise((resolve) => setTimeout(resolve, 500));
+          }
+        }),
+      );
+    })();
+
+    const loadBefore = (await import("node:os")).loadavg()[0];
+    log(`measuring for ${SECONDS} s at ${CONNECTIONS} connections…`);
+    await Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
+    const windowMs = Date.now() - windowStart;
+    const runs = await analysisRuns;
+
+    // ---- every acknowledged write is stored ------------------------------------------------------------------
+    const missing: string[] = [];
+    const pinsByFault = new Map<string, { pins: { id: string; replies: { id: string }[] }[] }>();
+    const viewpointsByFault = new Map<string, Set<string>>();
+    const faultsByStudy = new Map<string, Set<string>>();
+    for (const pin of acknowledged.pins) {
+      if (!pinsByFault.has(pin.faultId)) pinsByFault.set(pin.faultId, await jsonOf(await pin.reader.request(`/api/faults/${pin.faultId}/pins`)));
+      if (!pinsByFault.get(pin.faultId)!.pins.some((stored) => stored.id === pin.id)) missing.push(`pin ${pin.id}`);
+    }
+    for (const reply of acknowledged.replies) {
+      if (!pinsByFault.has(reply.faultId)) pinsByFault.set(reply.faultId, await jsonOf(await reply.reader.request(`/api/faults/${reply.faultId}/pins`)));
+      const pin = pinsByFault.get(reply.faultId)!.pins.find((stored) => stored.id === reply.pinId);
+      if (!pin?.replies.some((stored) => stored.id === reply.id)) missing.push(`reply ${reply.id}`);
+    }
+    for (const viewpoint of acknowledged.viewpoints) {
+      if (!viewpointsByFault.has(viewpoint.faultId)) {
+        const { viewpoints } = await jsonOf<{ viewpoints: { id: string }[] }>(await viewpoint.reader.request(`/api/faults/${viewpoint.faultId}/viewpoints`));
+        viewpointsByFault.set(viewpoint.faultId, new Set(viewpoints.map((stored) => stored.id)));
+      }
+      if (!viewpointsByFault.get(viewpoint.faultId)!.has(viewpoint.id)) missing.push(`viewpoint ${viewpoint.id}`);
+    }
+    for (const fault of acknowledged.faults) {
+      if (!faultsByStudy.has(fault.studyId)) {
+        const { faults } = await jsonOf<{ faults: { id: string }[] }>(await fault.reader.request(`/api/studies/${fault.studyId}/faults`));
+        faultsByStudy.set(fault.studyId, new Set(faults.map((stored) => stored.id)));
+      }
+      if (!faultsByStudy.get(fault.studyId)!.has(fault.id)) missing.push(`fault ${fault.id}`);
+    }
+
+    // ---- report ------------------------------------------------------------------------------------------------
+    const table: string[] = [];
+    const row = (cells: (string | number)[]) => table.push(`| ${cells.join(" | ")} |`);
+    row(["requests", "count", "per s", "p50 ms", "p95 ms", "p99 ms", "max ms", "errors"]);
+    row(["---", "---:", "---:", "---:", "---:", "---:", "---:", "---:"]);
+    const describe = (label: string, list: Sample[]) => {
+      const sorted = list.map((sample) => sample.ms).sort((a, b) => a - b);
+      const failed = list.filter((sample) => sample.status >= 400).length;
+      row([label, list.length, (list.length / (windowMs / 1000)).toFixed(1), percentile(sorted, 50).toFixed(1), percentile(sorted, 95).toFixed(1), percentile(sorted, 99).toFixed(1), (sorted.at(-1) ?? NaN).toFixed(1), failed]);
+    };
+    describe("all", samples);
+    describe("reads", samples.filter((sample) => sample.kind === "read"));
+    describe("writes", samples.filter((sample) => sample.kind === "write"));
+    for (const name of [...new Set(samples.map((sample) => sample.name))].sort()) describe(`· ${name}`, samples.filter((sample) => sample.name === name));
+
+    console.log("");
+    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${actors.length} users, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
+    console.log(table.join("\n"));
+    console.log("");
+    for (const [index, run] of runs.entries()) {
+      console.log(`analysis ${index + 1}: ${run.rows} picks, upload answered in ${(run.uploadMs / 1000).toFixed(1)} s, ${run.status}${run.error ? ` (${run.error})` : ""} at ${(run.doneAt / 1000).toFixed(1)} s into the window`);
+    }
+    const writes = acknowledged.pins.length + acknowledged.replies.length + acknowledged.viewpoints.length + acknowledged.faults.length;
+    console.log(`acknowledged writes: ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
+    console.log(`errors: ${errors.length}`);
+    for (const error of errors.slice(0, 20)) console.log(`  ${error}`);
+    const failedAnalyses = runs.filter((run) => run.status !== "done").length;
+    await shutdown();
+    process.exit(errors.length === 0 && missing.length === 0 && failedAnalyses === 0 ? 0 : 1);
+  } catch (error) {
+    console.error(`loadtest: ${(error as Error).message}`);
+    console.error(server.output().slice(-3000));
+    await shutdown();
+    process.exit(1);
+  }
+}
+
+void main();

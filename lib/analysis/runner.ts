@@ -55,7 +55,7 @@ function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) =>
     const limitMs = timeLimitMs();
     const timer = setTimeout(() => {
       void worker.terminate();
-      reject(new AnalysisTimeout(`The analysis ran past the ${Math.round(limitMs / 1000)} s time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`));
+      reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`));
     }, limitMs);
     worker.on("message", (message: { kind: string; stage?: string; fraction?: number; report?: AnalysisOutput["report"]; display?: Uint8Array; message?: string }) => {
       if (message.kind === "stage") onStage(message.stage!, message.fraction!);

@@ -76,6 +76,7 @@ test("QG-1: strike profile with both segments, their sum and the overlap; relay 
   await expect(page.getByTestId("relay-linkage")).toHaveText(/linked|breached/);
   await expect(page.getByTestId("relay-ramp")).toHaveText(/ψ ≈ \d+(\.\d)?°/);
   await expect(page.getByTestId("relay-facts")).toContainText("Fossen & Rotevatn 2016");
+  await expect(page.getByTestId("relay-ramp-horizons")).toContainText("No horizon picked on both segments");
 
   await page.getByTestId("view-tab-scaling").click();
   const scaling = page.getByTestId("scaling-chart");

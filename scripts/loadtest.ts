@@ -139,7 +139,8 @@ async function main() {
         response = await send();
       } catch (error) {
         const cause = (error as { cause?: { code?: string; message?: string } }).cause;
-        errors.push(`${name}: ${(error as Error).message}${cause ? ` (${cause.code ?? ""} ${cause.message ?? ""})` : ""}`);
+        errors.push(`${name} at ${((Date.now() - windowStart) / 1000).toFixed(1)} s: ${(error as Error).message}${cause ? ` (${cause.code ?? ""} ${cause.message ?? ""})` : ""}`);
+        await new Promise((resolve) => setTimeout(resolve, 200)); // a refused connection must not turn the loop into a spin
         return null;
       }
       const body = await response.arrayBuffer();
@@ -198,7 +199,9 @@ async function main() {
       await new Promise((resolve) => setTimeout(resolve, Math.min(5000, (SECONDS * 1000) / 10)));
       return Promise.all(
         bigFiles.map(async (file, index) => {
-          const faultId = demoFaults[index % demoFaults.length].id;
+          // a fault of its own, so the pins written meanwhile on the demo faults keep their segments
+          const { fault } = await jsonOf<{ fault: { id: string } }>(await interpreter.client.json(`/api/studies/${demoStudyId}/faults`, "POST", { name: `Big ${runId} ${index + 1}` }));
+          const faultId = fault.id;
           const t0 = performance.now();
           const response = await interpreter.client.upload(faultId, `load-${index + 1}.csv`, file.csv);
           const uploadMs = performance.now() - t0;
@@ -278,7 +281,8 @@ async function main() {
     const writes = acknowledged.pins.length + acknowledged.replies.length + acknowledged.viewpoints.length + acknowledged.faults.length;
     console.log(`acknowledged writes: ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
     console.log(`errors: ${errors.length}`);
-    for (const error of errors.slice(0, 20)) console.log(`  ${error}`);
+    for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))]) console.log(`  ${error}`);
+    if (errors.length > 0) console.log(`server output (last lines):\n${server.output().split("\n").slice(-40).join("\n")}`);
     const failedAnalyses = runs.filter((run) => run.status !== "done").length;
     await shutdown();
     process.exit(errors.length === 0 && missing.length === 0 && failedAnalyses === 0 ? 0 : 1);

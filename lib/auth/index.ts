@@ -8,6 +8,13 @@ class TooManyAttempts extends CredentialsSignin {
 
 export const { handlers, auth, signIn, signOut } = NextAuth({
   trustHost: true,
+  logger: {
+    // a wrong password is an everyday event, answered with a message on the form: not a server error with a stack
+    error(error) {
+      if (error.name === "CredentialsSignin" || (error as { type?: string }).type === "CredentialsSignin") return;
+      console.error(`[auth] ${error.name}: ${error.message}`);
+    },
+  },
   secret: process.env.AUTH_SECRET,
   session: { strategy: "jwt", maxAge: 7 * 24 * 3600 },
   pages: { signIn: "/sign-in" },

@@ -126,6 +126,33 @@ export async function resumeUnfinishedAnalyses() {
   return unfinished.length;
 }
 
+/**
+ * A finished analysis never changes (a re-run makes a new row), so its report and display payload are kept in a small
+ * in-memory cache: the fault page polls them, and decoding a large jsonb/bytea value in PGlite costs the event loop
+ * more than the rest of the request (measured with `npm run loadtest` and a CPU profile). Keys carry the fault id, so
+ * a cached value is only ever served for the fault it belongs to.
+ */
+function lruCache<V>(limit: number) {
+  const entries = new Map<string, V>();
+  return {
+    get(key: string) {
+      const value = entries.get(key);
+      if (value !== undefined) {
+        entries.delete(key);
+        entries.set(key, value);
+      }
+      return value;
+    },
+    set(key: string, value: V) {
+      entries.delete(key);
+      entries.set(key, value);
+      if (entries.size > limit) entries.delete(entries.keys().next().value!);
+    },
+  };
+}
+const finishedReports = lruCache<unknown>(64);
+const finishedDisplays = lruCache<Uint8Array>(64);
+
 export async function latestAnalysisForFault(faultId: string, pickSetId?: string) {
   const db = await getDb();
   const rows = await db
@@ -134,7 +161,6 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
       status: analyses.status,
       stage: analyses.stage,
       progress: analyses.progress,
-      result: analyses.result,
       errorMessage: analyses.errorMessage,
       engineVersion: analyses.engineVersion,
       finishedAt: analyses.finishedAt,
@@ -149,16 +175,29 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
     .where(pickSetId ? and(eq(pickSets.faultId, faultId), eq(pickSets.id, pickSetId)) : eq(pickSets.faultId, faultId))
     .orderBy(desc(pickSets.version), desc(analyses.createdAt))
     .limit(1);
-  return rows[0] ?? null;
+  const row = rows[0];
+  if (!row) return null;
+  const key = `${faultId}:${row.id}`;
+  let result = row.status === "done" ? finishedReports.get(key) : undefined;
+  if (result === undefined) {
+    const [stored] = await db.select({ result: analyses.result, status: analyses.status }).from(analyses).where(eq(analyses.id, row.id));
+    result = stored?.result ?? null;
+    if (stored?.status === "done" && result !== null) finishedReports.set(key, result);
+  }
+  return { ...row, result: result as (typeof analyses.$inferSelect)["result"] };
 }
 
 export async function analysisDisplay(faultId: string, analysisId: string) {
+  const key = `${faultId}:${analysisId}`;
+  const cached = finishedDisplays.get(key);
+  if (cached) return cached;
   const db = await getDb();
   const [row] = await db
-    .select({ display: analyses.display })
+    .select({ display: analyses.display, status: analyses.status })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
     .where(and(eq(analyses.id, analysisId), eq(pickSets.faultId, faultId)));
+  if (row?.display && row.status === "done") finishedDisplays.set(key, row.display);
   return row?.display ?? null;
 }
 

@@ -2,7 +2,7 @@ import { spawn, spawnSync } from "node:child_process";
 import { mkdirSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
-import { ensureBuild, freePort, ROOT, tempDataDir } from "../../scripts/hardening/server";
+import { ensureBuild, freePort, ROOT, startServer, tempDataDir } from "../../scripts/hardening/server";
 
 /**
  * Start-up on a data folder that cannot be written: a clear message naming the folder, and a non-zero exit — through
@@ -97,5 +97,18 @@ describe("start-up on a data folder that cannot be written", () => {
     expect(result.code).toBe(1);
     expect(result.output).toContain(`cannot open the database in ${dataDir}`);
     expect(result.output).toMatch(/is writable and the disk is not full/);
+  });
+
+  it("a second server on a data folder that a running server holds stops with a message (PGlite allows one process)", async () => {
+    const dataDir = tempDataDir("twice");
+    const first = await startServer({ dataDir });
+    try {
+      const second = await run(nextStart(await freePort()), { SLIPFIELD_DATA_DIR: dataDir, AUTH_SECRET: "hardening-startup-secret-000000000000" });
+      expect(second.code).toBe(1);
+      expect(second.output).toMatch(/another server \(pid \d+\) is already using this data folder/);
+      expect((await fetch(`${first.url}/api/health`)).status).toBe(200);
+    } finally {
+      await first.stop();
+    }
   });
 });

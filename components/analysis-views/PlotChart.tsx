@@ -1,5 +1,5 @@
 "use client";
-import { useEffect, useRef, useState } from "react";
+import { usePlotFigure } from "./usePlotFigure";
 import { downloadDataUrl, downloadText, mainSvg, svgToPngDataUrl } from "./download";
 
 /**
@@ -18,35 +18,7 @@ export function PlotChart(props: {
   onRendered?: (element: SVGSVGElement | HTMLElement) => void;
   note?: React.ReactNode;
 }) {
-  const holder = useRef<HTMLDivElement>(null);
-  const [width, setWidth] = useState(0);
-  const [error, setError] = useState<string | null>(null);
-
-  useEffect(() => {
-    const element = holder.current;
-    if (!element) return;
-    const observer = new ResizeObserver(([entry]) => setWidth(Math.max(320, Math.floor(entry.contentRect.width))));
-    observer.observe(element);
-    return () => observer.disconnect();
-  }, []);
-
-  useEffect(() => {
-    const element = holder.current;
-    if (!element || width === 0) return;
-    let chart: SVGSVGElement | HTMLElement | null = null;
-    try {
-      chart = props.build(width);
-      setError(null);
-    } catch (cause) {
-      setError(cause instanceof Error ? cause.message : "The chart could not be drawn.");
-    }
-    if (chart) {
-      element.append(chart);
-      props.onRendered?.(chart);
-    }
-    return () => chart?.remove();
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [width, ...props.deps]);
+  const { holder, error } = usePlotFigure(props.build, props.deps, { onRendered: props.onRendered });
 
   async function png() {
     const svg = holder.current && mainSvg(holder.current);

@@ -1,36 +1,13 @@
 "use client";
 import * as Plot from "@observablehq/plot";
-import { useEffect, useRef, useState } from "react";
+import { usePlotFigure } from "@/components/analysis-views/usePlotFigure";
 import type { StressParameters } from "@/db/schema";
 
 const COLOURS = { low: "#c2410c", high: "#247a75", guide: "#94a3b8", circle: "#7c3aed" };
 
 /** Builds an Observable Plot figure into a div and replaces it when its inputs or the width change. */
 function PlotHolder({ build, deps, testId, points }: { build: (width: number) => SVGSVGElement | HTMLElement; deps: unknown[]; testId: string; points: number }) {
-  const holder = useRef<HTMLDivElement>(null);
-  const [width, setWidth] = useState(0);
-  const [error, setError] = useState<string | null>(null);
-  useEffect(() => {
-    const element = holder.current;
-    if (!element) return;
-    const observer = new ResizeObserver(([entry]) => setWidth(Math.max(280, Math.floor(entry.contentRect.width))));
-    observer.observe(element);
-    return () => observer.disconnect();
-  }, []);
-  useEffect(() => {
-    const element = holder.current;
-    if (!element || width === 0) return;
-    let chart: SVGSVGElement | HTMLElement | null = null;
-    try {
-      chart = build(width);
-      element.append(chart);
-      setError(null);
-    } catch (cause) {
-      setError(cause instanceof Error ? cause.message : "The chart could not be drawn.");
-    }
-    return () => chart?.remove();
-    // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [width, ...deps]);
+  const { holder, error } = usePlotFigure(build, deps, { minWidth: 280 });
   return (
     <div data-testid={testId} data-points={points}>
       <div ref={holder} className="w-full text-slate-800 dark:text-slate-200" />

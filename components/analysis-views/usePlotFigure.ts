@@ -1,0 +1,43 @@
+"use client";
+import { useEffect, useRef, useState } from "react";
+
+type Figure = SVGSVGElement | HTMLElement;
+
+/**
+ * Draws an Observable Plot figure into the returned holder div at the holder's width, and replaces it (removing
+ * the old one) whenever the width or `deps` change. Returns the holder ref and the last drawing error, if any.
+ */
+export function usePlotFigure(build: (width: number) => Figure | null, deps: unknown[], options: { minWidth?: number; onRendered?: (figure: Figure) => void } = {}) {
+  const holder = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState(0);
+  const [error, setError] = useState<string | null>(null);
+  const minWidth = options.minWidth ?? 320;
+
+  useEffect(() => {
+    const element = holder.current;
+    if (!element) return;
+    const observer = new ResizeObserver(([entry]) => setWidth(Math.max(minWidth, Math.floor(entry.contentRect.width))));
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, [minWidth]);
+
+  useEffect(() => {
+    const element = holder.current;
+    if (!element || width === 0) return;
+    let figure: Figure | null = null;
+    try {
+      figure = build(width);
+      setError(null);
+    } catch (cause) {
+      setError(cause instanceof Error ? cause.message : "The chart could not be drawn.");
+    }
+    if (figure) {
+      element.append(figure);
+      options.onRendered?.(figure);
+    }
+    return () => figure?.remove();
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [width, ...deps]);
+
+  return { holder, error };
+}

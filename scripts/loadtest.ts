@@ -2,10 +2,11 @@
 //   LOADTEST_SECONDS (60)      length of the measured window
 //   LOADTEST_CONNECTIONS (50)  concurrent connections (each a loop: send, wait for the answer, send the next)
 //   LOADTEST_SIGNUPS (8)       users created through the sign-up form, beside the four demo accounts
+//   LOADTEST_KEEP_DATA=1       keep the temporary data folder afterwards (removed by default)
 //   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
 // Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
 // write is stored. Exits 1 when there were errors or a write is missing.
-import { readFileSync } from "node:fs";
+import { readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import {
   Client,
@@ -79,6 +80,7 @@ async function main() {
   log(`server on ${server.url} (data ${server.dataDir}) ready in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   const shutdown = async () => {
     await server.stop();
+    if (process.env.LOADTEST_KEEP_DATA !== "1") rmSync(server.dataDir, { recursive: true, force: true });
   };
   process.on("SIGINT", () => void shutdown().then(() => process.exit(130)));
 

@@ -1,5 +1,5 @@
 import { spawnSync } from "node:child_process";
-import { existsSync, readdirSync, statSync } from "node:fs";
+import { existsSync, readdirSync, rmSync, statSync } from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Client, DEMO_PASSWORD, ensureBuild, pinBody, ROOT, startServer, tempDataDir, viewpointBody, waitForAnalysis, type RunningServer } from "../../scripts/hardening/server";
@@ -34,6 +34,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await server?.stop();
+  for (const folder of [source, restored, path.dirname(file)]) rmSync(folder, { recursive: true, force: true });
 });
 
 describe("backup and restore", () => {

@@ -1,3 +1,4 @@
+import { rmSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import {
   Client,
@@ -56,6 +57,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await server?.stop();
+  rmSync(dataDir, { recursive: true, force: true });
 });
 
 describe("killing the server (SIGKILL) and starting it again on the same data folder", () => {

@@ -1,3 +1,4 @@
+import { rmSync } from "node:fs";
 import { request as httpRequest } from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Client, DEMO_PASSWORD, ensureBuild, startServer, type RunningServer } from "../../scripts/hardening/server";
@@ -10,6 +11,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await server?.stop();
+  if (server) rmSync(server.dataDir, { recursive: true, force: true });
 });
 
 async function sessionCookieLine(headers: Record<string, string>) {

@@ -5,6 +5,7 @@ import { signInAs } from "../support/session";
 
 vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../support/session")).getSessionUserMock }));
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
+vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn() }));
 
 import type { StudyRole } from "@/db/schema";
 import { runAnalysis } from "@/lib/analysis/runner";
@@ -191,6 +192,59 @@ describe("access walk over every route handler on disk", () => {
             }
           }
         });
+      }
+    });
+  }
+});
+
+// ---- server actions ------------------------------------------------------------------------------------------------
+
+function serverActionFiles(folder: string): string[] {
+  return readdirSync(folder).flatMap((name) => {
+    const full = path.join(folder, name);
+    if (statSync(full).isDirectory()) return serverActionFiles(full);
+    return /\.tsx?$/.test(name) && /^\s*["']use server["']/.test(readFileSync(full, "utf8")) ? [full] : [];
+  });
+}
+
+const actionFiles = serverActionFiles(path.join(ROOT, "app")).map((file) => path.relative(ROOT, file).split(path.sep).join("/"));
+// sign-in, sign-up and sign-out create or end the session: they are public by design (rate limit and password policy
+// are tested in tests/hardening/security*.ts)
+const PUBLIC_ACTION_FILES = new Set(["app/(auth)/actions.ts"]);
+
+describe("access walk over every server action on disk", () => {
+  beforeAll(async () => {
+    await useFreshDatabase();
+  });
+
+  it("finds the server action files", () => {
+    expect(actionFiles).toContain("app/(auth)/actions.ts");
+    console.log(`access walk: server actions in ${actionFiles.join(", ")}`);
+  });
+
+  for (const file of actionFiles) {
+    if (PUBLIC_ACTION_FILES.has(file)) continue;
+    it(`${file}: every exported action refuses a signed-out caller`, async () => {
+      const module = (await import(path.join(ROOT, file))) as Record<string, unknown>;
+      const actions = Object.entries(module).filter(([, value]) => typeof value === "function") as [string, (state: unknown, form: FormData) => Promise<unknown>][];
+      expect(actions.length).toBeGreaterThan(0);
+      for (const [name, action] of actions) {
+        signInAs(null);
+        const form = new FormData();
+        form.set("token", "A".repeat(43));
+        form.set("notifyMode", "off");
+        let outcome: unknown;
+        try {
+          outcome = await action({}, form);
+        } catch (error) {
+          // redirect() to the sign-in page is a refusal too
+          const digest = String((error as { digest?: string }).digest ?? "");
+          expect(digest, `${file} ${name}`).toMatch(/NEXT_REDIRECT.*\/sign-in/);
+          continue;
+        }
+        const state = outcome as { ok?: boolean; message?: string };
+        expect(state?.ok, `${file} ${name} signed out`).not.toBe(true);
+        expect(state?.message, `${file} ${name} says why`).toBeTruthy();
       }
     });
   }

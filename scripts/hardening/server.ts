@@ -68,9 +68,9 @@ export function launchServer(options: { dataDir: string; port: number; env?: Rec
   };
   delete env.SLIPFIELD_INLINE_ANALYSIS; // the server runs analyses in its worker thread, as in production
   delete env.VITEST;
-  // --keepAliveTimeout above the clients' idle time: with Node's default (5 s) a client can reuse a connection at the
-  // moment the server closes it (ECONNRESET). Behind a proxy, set it above the proxy's idle timeout in the same way.
-  const args = [path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(options.port), "-H", "127.0.0.1", "--keepAliveTimeout", "65000"];
+  // as scripts/start.mjs runs it; SLIPFIELD_KEEPALIVE_MS sets next's --keepAliveTimeout to try other values
+  const args = [path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(options.port), "-H", "127.0.0.1"];
+  if (process.env.SLIPFIELD_KEEPALIVE_MS) args.push("--keepAliveTimeout", process.env.SLIPFIELD_KEEPALIVE_MS);
   const child = spawn(process.execPath, args, {
     cwd: ROOT,
     env,

@@ -31,10 +31,31 @@ export function contourGrid(grid: GridSpec, field: Float64Array, levels: number[
   if (levels.length === 0) return [];
   const sorted = levels.slice().sort((a, b) => a - b);
   const below = sorted[0] - 1;
+  const windows = levelWindows(grid, field, sorted);
+  const gen = d3Contours();
+  // the windows are nested, so the lowest level's is the largest: one buffer serves every level
+  const buffer = windows.width[0] > 0 ? new Float64Array(windows.width[0] * windows.height[0]) : new Float64Array(0);
+  return sorted.map((level, k) => {
+    const width = windows.width[k], height = windows.height[k];
+    if (width === 0) return { levelM: level, rings: [] };
+    const i0 = windows.i0[k], j0 = windows.j0[k];
+    const window = fillWindow(field, grid.columns, i0, j0, width, height, below, buffer);
+    const mp = gen.size([width, height]).contour(window as unknown as number[], level);
+    return { levelM: mp.value, rings: ringsOnGrid(mp.coordinates, grid, i0, j0) };
+  });
+}
+
+interface LevelWindows {
+  i0: Int32Array;
+  j0: Int32Array;
+  /** 0 when no node reaches the level */
+  width: Int32Array;
+  height: Int32Array;
+}
+
+/** For each level (ascending), the window of the nodes at or above it plus one node of margin, clipped to the grid. */
+function levelWindows(grid: GridSpec, field: Float64Array, sorted: number[]): LevelWindows {
   const { columns, rows } = grid;
-  const values = new Float64Array(field.length);
-  for (let i = 0; i < field.length; i++) values[i] = Number.isNaN(field[i]) ? below : field[i];
-  // window of the nodes at or above each level; nested, since a node above one level is above every lower one
   const count = sorted.length;
   const minI = new Int32Array(count).fill(columns), maxI = new Int32Array(count).fill(-1);
   const minJ = new Int32Array(count).fill(rows), maxJ = new Int32Array(count).fill(-1);
@@ -42,51 +63,76 @@ export function contourGrid(grid: GridSpec, field: Float64Array, levels: number[
   for (let j = 0; j < rows; j++) {
     const rowStart = j * columns;
     for (let i = 0; i < columns; i++) {
-      const v = values[rowStart + i];
-      if (!(v >= lowest)) continue;
-      let lo = 0, hi = count - 1; // highest k with sorted[k] <= v
-      while (lo < hi) {
-        const mid = (lo + hi + 1) >> 1;
-        if (sorted[mid] <= v) lo = mid;
-        else hi = mid - 1;
-      }
-      if (i < minI[lo]) minI[lo] = i;
-      if (i > maxI[lo]) maxI[lo] = i;
-      if (j < minJ[lo]) minJ[lo] = j;
-      if (j > maxJ[lo]) maxJ[lo] = j;
+      const v = field[rowStart + i];
+      if (!(v >= lowest)) continue; // NaN included
+      const k = highestLevelAtOrBelow(sorted, v);
+      if (i < minI[k]) minI[k] = i;
+      if (i > maxI[k]) maxI[k] = i;
+      if (j < minJ[k]) minJ[k] = j;
+      if (j > maxJ[k]) maxJ[k] = j;
     }
   }
+  // nested: a node above one level is above every lower one
   for (let k = count - 2; k >= 0; k--) {
     minI[k] = Math.min(minI[k], minI[k + 1]);
     maxI[k] = Math.max(maxI[k], maxI[k + 1]);
     minJ[k] = Math.min(minJ[k], minJ[k + 1]);
     maxJ[k] = Math.max(maxJ[k], maxJ[k + 1]);
   }
-  const gen = d3Contours();
-  const maxX = columns - 0.5;
-  const maxY = rows - 0.5;
-  return sorted.map((level, k) => {
-    if (maxI[k] < 0) return { levelM: level, rings: [] };
+  const out: LevelWindows = { i0: new Int32Array(count), j0: new Int32Array(count), width: new Int32Array(count), height: new Int32Array(count) };
+  for (let k = 0; k < count; k++) {
+    if (maxI[k] < 0) continue;
     const i0 = Math.max(0, minI[k] - 1), i1 = Math.min(columns - 1, maxI[k] + 1);
     const j0 = Math.max(0, minJ[k] - 1), j1 = Math.min(rows - 1, maxJ[k] + 1);
-    const width = i1 - i0 + 1, height = j1 - j0 + 1;
-    const window = new Float64Array(width * height);
-    for (let j = 0; j < height; j++) window.set(values.subarray((j0 + j) * columns + i0, (j0 + j) * columns + i0 + width), j * width);
-    const mp = gen.size([width, height]).contour(window as unknown as number[], level);
-    const rings: Ring[] = [];
-    for (const polygon of mp.coordinates) {
-      for (const ring of polygon) {
-        // d3-contour places node i at i + 0.5 and pads the edge by half a cell; clamp back onto the grid.
-        // The points are fresh arrays from d3-contour, so they are rewritten in place.
-        for (const point of ring) {
-          point[0] = grid.s0 + (Math.min(Math.max(point[0] + i0, 0.5), maxX) - 0.5) * grid.cellM;
-          point[1] = grid.t0 + (Math.min(Math.max(point[1] + j0, 0.5), maxY) - 0.5) * grid.cellM;
-        }
-        rings.push(ring as Ring);
-      }
+    out.i0[k] = i0;
+    out.j0[k] = j0;
+    out.width[k] = i1 - i0 + 1;
+    out.height[k] = j1 - j0 + 1;
+  }
+  return out;
+}
+
+/** highest k with sorted[k] <= v, for v >= sorted[0] */
+function highestLevelAtOrBelow(sorted: number[], v: number): number {
+  let lo = 0, hi = sorted.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1;
+    if (sorted[mid] <= v) lo = mid;
+    else hi = mid - 1;
+  }
+  return lo;
+}
+
+/** The window's nodes, row by row, at the start of `buffer`; NaN nodes become `below`. */
+function fillWindow(field: Float64Array, columns: number, i0: number, j0: number, width: number, height: number, below: number, buffer: Float64Array): Float64Array {
+  for (let j = 0, w = 0; j < height; j++) {
+    const rowStart = (j0 + j) * columns + i0;
+    for (let i = 0; i < width; i++, w++) {
+      const v = field[rowStart + i];
+      buffer[w] = v === v ? v : below;
     }
-    return { levelM: mp.value, rings };
-  });
+  }
+  return buffer.subarray(0, width * height);
+}
+
+/**
+ * d3-contour places node i at i + 0.5 and pads the edge by half a cell: shift by the window origin, clamp back
+ * onto the grid and map to (s, t). The points are fresh arrays from d3-contour, so they are rewritten in place.
+ */
+function ringsOnGrid(coordinates: number[][][][], grid: GridSpec, i0: number, j0: number): Ring[] {
+  const maxX = grid.columns - 0.5;
+  const maxY = grid.rows - 0.5;
+  const rings: Ring[] = [];
+  for (const polygon of coordinates) {
+    for (const ring of polygon) {
+      for (const point of ring) {
+        point[0] = grid.s0 + (Math.min(Math.max(point[0] + i0, 0.5), maxX) - 0.5) * grid.cellM;
+        point[1] = grid.t0 + (Math.min(Math.max(point[1] + j0, 0.5), maxY) - 0.5) * grid.cellM;
+      }
+      rings.push(ring as unknown as Ring);
+    }
+  }
+  return rings;
 }
 
 /** Signed area of a ring (shoelace). */

@@ -385,7 +385,7 @@ function readRowsFast(text: string, scale: number): RowTable | null {
       continue;
     }
     rowCounter++;
-    present.fill(0);
+    for (let k = 0; k < present.length; k++) present[k] = 0;
     let segmentFrom = -1, segmentTo = -1, horizonFrom = -1, horizonTo = -1;
     let p = start;
     for (let c = 0; ; c++) {

@@ -166,10 +166,11 @@ function leastSquaresFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLik
   const b0 = Math.max(maxT - tc0, tc0 - minT, 1e-6) * 1.1;
   const fv = new Float64Array(m);
   const geometry = (p: number[]) => {
-    const a = Math.exp(p[2]), b = Math.exp(p[3]);
+    const sc = p[0], tc = p[1];
+    const perA = 1 / Math.exp(p[2]), perB = 1 / Math.exp(p[3]);
     let sff = 0, sdf = 0;
     for (let k = 0; k < m; k++) {
-      const u = (ss[k] - p[0]) / a, w = (tt[k] - p[1]) / b;
+      const u = (ss[k] - sc) * perA, w = (tt[k] - tc) * perB;
       const r = Math.sqrt(u * u + w * w);
       const v = f(r);
       fv[k] = v;
@@ -219,19 +220,23 @@ function refineCensored(ss: Float64Array, tt: Float64Array, dd: Float64Array, f:
   // where the model is exactly zero (beyond the tip line) the censored terms are constants: computed once
   const zeroPick = logNormalCdf((0 - c.cutoffM) / sigma);
   const zeroPlace = logNormalCdf((c.cutoffM - 0) / sigma);
+  const { cutoffM, absentS, absentT } = c;
+  // reciprocals: multiplications in the hot loops instead of divisions
+  const perSigma = 1 / sigma;
   const nll = (p: number[]) => {
-    const a = Math.exp(p[2]), b = Math.exp(p[3]), dmax = Math.exp(p[4]);
+    const sc = p[0], tc = p[1];
+    const perA = 1 / Math.exp(p[2]), perB = 1 / Math.exp(p[3]), dmax = Math.exp(p[4]);
     let total = 0;
     for (let k = 0; k < m; k++) {
-      const u = (ss[k] - p[0]) / a, w = (tt[k] - p[1]) / b;
+      const u = (ss[k] - sc) * perA, w = (tt[k] - tc) * perB;
       const mu = dmax * f(Math.sqrt(u * u + w * w));
-      const z = (dd[k] - mu) / sigma;
-      total += 0.5 * z * z + (mu === 0 ? zeroPick : logNormalCdf((mu - c.cutoffM) / sigma));
+      const z = (dd[k] - mu) * perSigma;
+      total += 0.5 * z * z + (mu === 0 ? zeroPick : logNormalCdf((mu - cutoffM) * perSigma));
     }
     for (let k = 0; k < na; k++) {
-      const u = (c.absentS[k] - p[0]) / a, w = (c.absentT[k] - p[1]) / b;
+      const u = (absentS[k] - sc) * perA, w = (absentT[k] - tc) * perB;
       const mu = dmax * f(Math.sqrt(u * u + w * w));
-      total -= mu === 0 ? zeroPlace : logNormalCdf((c.cutoffM - mu) / sigma);
+      total -= mu === 0 ? zeroPlace : logNormalCdf((cutoffM - mu) * perSigma);
     }
     return total;
   };

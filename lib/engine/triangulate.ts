@@ -68,10 +68,12 @@ function medianEdge(tri: Uint32Array, coords: Float64Array): number {
 
 function peelSlivers(tri: Uint32Array, half: Int32Array, coords: Float64Array, removed: Uint8Array, limit: number): number {
   let removedSlivers = 0;
-  const queue: number[] = [];
-  for (let e = 0; e < half.length; e++) if (half[e] === -1) queue.push(Math.floor(e / 3));
-  while (queue.length) {
-    const k = queue.pop()!;
+  // a stack of triangles to test: each hull edge pushes once, each removal at most three times
+  const stack = new Int32Array(half.length + 3 * removed.length);
+  let top = 0;
+  for (let e = 0; e < half.length; e++) if (half[e] === -1) stack[top++] = (e / 3) | 0;
+  while (top > 0) {
+    const k = stack[--top];
     if (removed[k]) continue;
     const longest = Math.max(edgeLength(tri, coords, 3 * k), edgeLength(tri, coords, 3 * k + 1), edgeLength(tri, coords, 3 * k + 2));
     if (longest <= limit) continue;
@@ -79,7 +81,7 @@ function peelSlivers(tri: Uint32Array, half: Int32Array, coords: Float64Array, r
     removedSlivers++;
     for (let j = 0; j < 3; j++) {
       const opp = half[3 * k + j];
-      if (opp !== -1 && !removed[Math.floor(opp / 3)]) queue.push(Math.floor(opp / 3));
+      if (opp !== -1 && !removed[(opp / 3) | 0]) stack[top++] = (opp / 3) | 0;
     }
   }
   return removedSlivers;
@@ -97,32 +99,26 @@ function keptTriangles(tri: Uint32Array, removed: Uint8Array, keptCount: number)
   return kept;
 }
 
-/** boundary edges of the kept triangles, chained into loops; the loop with the longest perimeter */
+/**
+ * Boundary edges of the kept triangles, chained into loops; the loop with the longest perimeter. Each vertex's
+ * outgoing boundary edges are a stack (last found, first followed), and loops start from the vertices in the order
+ * their first boundary edge was found, so pinched outlines resolve the same way every time.
+ */
 function longestBoundaryLoop(tri: Uint32Array, half: Int32Array, removed: Uint8Array, s: Float64Array, t: Float64Array, n: number): number[] {
-  const next = new Map<number, number[]>();
-  for (let e = 0; e < tri.length; e++) {
-    const k = Math.floor(e / 3);
-    if (removed[k]) continue;
-    const o = half[e];
-    if (o === -1 || removed[Math.floor(o / 3)]) {
-      const a = tri[e];
-      const b = tri[e % 3 === 2 ? e - 2 : e + 1];
-      const list = next.get(a);
-      if (list) list.push(b);
-      else next.set(a, [b]);
-    }
-  }
+  const edges = boundaryEdges(tri, half, removed, n);
+  const { first, targets, starts } = edges;
+  const left = edges.count;
   let outline: number[] = [];
   let bestPerimeter = -1;
-  for (const start of [...next.keys()]) {
-    while ((next.get(start)?.length ?? 0) > 0) {
+  for (let q = 0; q < starts.length; q++) {
+    const start = starts[q];
+    while (left[start] > 0) {
       const loop = [start];
       let perimeter = 0;
       let cur = start;
       for (let guard = 0; guard <= n + 1; guard++) {
-        const list = next.get(cur);
-        if (!list || list.length === 0) break;
-        const nb = list.pop()!;
+        if (left[cur] === 0) break;
+        const nb = targets[first[cur] + --left[cur]];
         perimeter += Math.hypot(s[nb] - s[cur], t[nb] - t[cur]);
         cur = nb;
         if (cur === start) break;
@@ -135,6 +131,37 @@ function longestBoundaryLoop(tri: Uint32Array, half: Int32Array, removed: Uint8A
     }
   }
   return outline;
+}
+
+/**
+ * The directed boundary edges a → b of the kept triangles grouped by a (compressed rows: targets[first[a] …
+ * first[a] + count[a]) in the order found), and the vertices with any, in the order their first edge was found.
+ */
+function boundaryEdges(tri: Uint32Array, half: Int32Array, removed: Uint8Array, n: number): { first: Int32Array; count: Int32Array; targets: Int32Array; starts: Int32Array } {
+  const isBoundary = (e: number) => !removed[(e / 3) | 0] && (half[e] === -1 || removed[(half[e] / 3) | 0] === 1);
+  const count = new Int32Array(n);
+  let total = 0;
+  let vertices = 0;
+  for (let e = 0; e < tri.length; e++) {
+    if (!isBoundary(e)) continue;
+    if (count[tri[e]]++ === 0) vertices++;
+    total++;
+  }
+  const first = new Int32Array(n);
+  for (let v = 0, offset = 0; v < n; v++) {
+    first[v] = offset;
+    offset += count[v];
+  }
+  const targets = new Int32Array(total);
+  const starts = new Int32Array(vertices);
+  count.fill(0);
+  for (let e = 0, q = 0; e < tri.length; e++) {
+    if (!isBoundary(e)) continue;
+    const a = tri[e];
+    if (count[a] === 0) starts[q++] = a;
+    targets[first[a] + count[a]++] = tri[e % 3 === 2 ? e - 2 : e + 1];
+  }
+  return { first, count, targets, starts };
 }
 
 /** The k-th smallest value (0-based) by Hoare's quickselect, in place, O(n) on average — sort()[k] without the sort. */

@@ -68,7 +68,6 @@ export const stressParametersSchema = z
     cohesionMPa: number("Cohesion", "MPa", 0, 100),
     referenceDepthM: number("Reference depth", "m", 1, 20_000),
   })
-  .strict()
   .superRefine((p, ctx) => {
     if (p.minHorizontalGradient > p.maxHorizontalGradient) {
       ctx.addIssue({ code: "custom", path: ["minHorizontalGradient"], message: `Minimum horizontal stress gradient (${p.minHorizontalGradient} MPa/km) must not exceed the maximum (${p.maxHorizontalGradient} MPa/km)` });
@@ -87,8 +86,7 @@ export const stressStateInputSchema = z
     source: z.string({ error: "source must be text" }).trim().max(2000, { message: "source must be at most 2000 characters" }).default(""),
     /** true: the study-wide default; false: this fault only */
     studyWide: z.boolean({ error: "studyWide must be true or false" }).default(false),
-  })
-  .strict();
+  });
 
 export type StressStateInput = z.infer<typeof stressStateInputSchema>;
 

@@ -4,33 +4,23 @@ import { useEffect, useMemo, useState } from "react";
 import type { StressParameters, StudyRole } from "@/db/schema";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
-import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, REGIME_LABELS, parseThresholds } from "@/lib/stress/parameters";
+import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, REGIME_LABELS, parseThresholds, type StressStateView } from "@/lib/stress/parameters";
 import { STRESS_FIELD_KEYS, stressFields, type StressFieldPayload } from "@/lib/stress/fields";
 import type { ScreenSummary } from "@/lib/stress/summary";
 import { useViewSettings } from "@/scene/viewSettingsStore";
 import { MohrPlot, PressureHistogram, type MohrData } from "./StressCharts";
 import { StressForm, type StressFormValue } from "./StressForm";
 
-interface StateView {
-  id: string;
-  version: number;
-  scope: "fault" | "study";
-  parameters: StressParameters;
-  source: string;
-  setBy: { id: string; name: string; email: string } | null;
-  createdAt: string;
-}
-
 interface StateResponse {
-  current: StateView | null;
-  faultVersions: StateView[];
-  studyVersions: StateView[];
+  current: StressStateView | null;
+  faultVersions: StressStateView[];
+  studyVersions: StressStateView[];
 }
 
 interface ResultResponse extends StressFieldPayload {
   analysisId: string;
   pickSetVersion: number;
-  state: StateView;
+  state: StressStateView;
   summary: ScreenSummary;
   skipped: { degenerate: number; aboveDatum: number };
   mohr: MohrData;
@@ -144,7 +134,7 @@ function StressCaution() {
   );
 }
 
-function StateSummary({ state }: { state: StateView }) {
+function StateSummary({ state }: { state: StressStateView }) {
   const p = state.parameters;
   const rows: [string, string][] = [
     ["Regime", REGIME_LABELS[p.regime]],

@@ -3,11 +3,11 @@
 // default thresholds. Shares its queries (and cache) with the Stress screen tab.
 import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import { DEFAULT_THRESHOLDS_MPA } from "@/lib/stress/parameters";
+import { DEFAULT_THRESHOLDS_MPA, type StressStateView } from "@/lib/stress/parameters";
 import type { ScreenSummary } from "@/lib/stress/summary";
 
 interface StateResponse {
-  current: { id: string; version: number } | null;
+  current: StressStateView | null;
 }
 
 const THRESHOLDS = DEFAULT_THRESHOLDS_MPA.join(",");
@@ -19,7 +19,7 @@ export function StressSheetSummary({ faultId, analysisId }: { faultId: string; a
   const current = state.data?.current ?? null;
   const result = useQuery({
     queryKey: ["stress-result", faultId, analysisId, current?.id, THRESHOLDS],
-    queryFn: () => apiFetch<{ summary: ScreenSummary; state: { parameters: { frictionLow: number; frictionHigh: number } } }>(`/api/faults/${faultId}/stress/result?thresholds=${THRESHOLDS}`),
+    queryFn: () => apiFetch<{ summary: ScreenSummary; state: StressStateView }>(`/api/faults/${faultId}/stress/result?thresholds=${THRESHOLDS}`),
     enabled: Boolean(current),
   });
   return (

@@ -5,6 +5,18 @@ import type { StressParameters } from "@/db/schema";
 
 export type StressRegime = StressParameters["regime"];
 
+/** One saved stress-state version as the API returns it (fault's own or the study default). */
+export interface StressStateView {
+  id: string;
+  version: number;
+  scope: "fault" | "study";
+  parameters: StressParameters;
+  source: string;
+  setBy: { id: string; name: string; email: string } | null;
+  createdAt: string;
+}
+
+
 /**
  * Illustrative gradients (MPa/km) that reproduce the Andersonian ordering of each regime (Anderson 1951, from
  * memory): normal Sv ≥ SHmax ≥ Shmin, strike-slip SHmax ≥ Sv ≥ Shmin, reverse SHmax ≥ Shmin ≥ Sv. Magnitudes are

@@ -10,19 +10,9 @@ import { decodeFaultDisplay } from "@/lib/analysis/display";
 import { indicesBySegment } from "@/lib/engine/csv";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
-import type { StressStateInput } from "./parameters";
+import type { StressStateInput, StressStateView } from "./parameters";
 import { rasterizeTriangleValues, screenTriangles, segmentTriangles, type TriangleScreen } from "./surface";
 import { evenSubsample, summarizeScreen, type ScreenSummary } from "./summary";
-
-export interface StressStateView {
-  id: string;
-  version: number;
-  scope: "fault" | "study";
-  parameters: StressParameters;
-  source: string;
-  setBy: { id: string; name: string; email: string } | null;
-  createdAt: string;
-}
 
 async function listStates(studyId: string, faultId: string | null): Promise<StressStateView[]> {
   const db = await getDb();

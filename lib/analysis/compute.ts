@@ -1,4 +1,4 @@
-import { analyzePicks } from "@/lib/engine/pipeline";
+import { analyzePicks, type PipelineResult } from "@/lib/engine/pipeline";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { buildFaultDisplay, encodeFaultDisplay } from "./display";
@@ -8,6 +8,8 @@ export interface AnalysisJob {
   units: "m" | "ft";
   intervalM?: number;
   cellM?: number;
+  /** "display" (default): the report and the display payload; "grids": the engine's full-resolution result (exports) */
+  output?: "display" | "grids";
 }
 
 export interface AnalysisOutput {
@@ -21,4 +23,9 @@ export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fract
   const { report, grids } = analyzePicks(picks, { units: job.units, intervalM: job.intervalM, cellM: job.cellM, onStage });
   onStage("display", 0.98);
   return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
+}
+
+/** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */
+export function computeFullResolution(job: AnalysisJob): PipelineResult {
+  return analyzePicks(decodePicks(job.picks), { units: job.units, intervalM: job.intervalM, cellM: job.cellM });
 }

@@ -5,8 +5,8 @@ import { analyses, pickSets } from "@/db/schema";
 import { existsSync } from "node:fs";
 import path from "node:path";
 import { Worker } from "node:worker_threads";
-import { ENGINE_VERSION } from "@/lib/engine/pipeline";
-import { computeAnalysis, type AnalysisJob, type AnalysisOutput } from "./compute";
+import { ENGINE_VERSION, type PipelineResult } from "@/lib/engine/pipeline";
+import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
 
 const queue: string[] = [];
 let active = 0;
@@ -41,10 +41,19 @@ class AnalysisTimeout extends Error {}
  * and a runaway analysis can be stopped; in-process otherwise (tests, development without a worker build).
  */
 function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) => void): Promise<AnalysisOutput> {
+  return runJob({ ...job, output: "display" }, onStage, () => computeAnalysis(job, onStage));
+}
+
+/** Full-resolution engine grids of a stored pick set (exports), computed off the web server's thread like an analysis. */
+export function computeGridsOffThread(job: AnalysisJob): Promise<PipelineResult> {
+  return runJob({ ...job, output: "grids" }, () => {}, () => computeFullResolution(job));
+}
+
+function runJob<T>(job: AnalysisJob, onStage: (stage: string, fraction: number) => void, inline: () => T): Promise<T> {
   if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
     return new Promise((resolve, reject) => setImmediate(() => {
       try {
-        resolve(computeAnalysis(job, onStage));
+        resolve(inline());
       } catch (error) {
         reject(error);
       }
@@ -57,11 +66,11 @@ function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) =>
       void worker.terminate();
       reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`));
     }, limitMs);
-    worker.on("message", (message: { kind: string; stage?: string; fraction?: number; report?: AnalysisOutput["report"]; display?: Uint8Array; message?: string }) => {
+    worker.on("message", (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string }) => {
       if (message.kind === "stage") onStage(message.stage!, message.fraction!);
       else if (message.kind === "done") {
         clearTimeout(timer);
-        resolve({ report: message.report!, display: message.display! });
+        resolve(message.output!);
       } else if (message.kind === "failed") {
         clearTimeout(timer);
         reject(new Error(message.message));

@@ -3,7 +3,8 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, faults, pickSets, pins, studies, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
-import { analyzePicks, type PipelineResult } from "@/lib/engine/pipeline";
+import type { PipelineResult } from "@/lib/engine/pipeline";
+import { computeGridsOffThread } from "@/lib/analysis/runner";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { faultScalingPoint, type FaultScalingPoint } from "@/lib/views/scaling";
@@ -69,10 +70,14 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
 export async function loadPicks(source: ExportSource): Promise<PickColumns> {
   const cached = recomputed.get(source.analysis.id);
   if (cached) return cached.picks;
+  return decodePicks(await storedPickBytes(source));
+}
+
+async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
   const db = await getDb();
   const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, source.pickSet.id), columns: { picks: true } });
   if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
-  return decodePicks(pickSet.picks);
+  return pickSet.picks;
 }
 
 // Recomputing full-resolution grids costs seconds on large pick sets; keep the last few per analysis id.
@@ -83,9 +88,11 @@ const RECOMPUTED_KEEP = 2;
 export async function recomputeFullResolution(source: ExportSource): Promise<{ picks: PickColumns; result: PipelineResult }> {
   const cached = recomputed.get(source.analysis.id);
   if (cached) return cached;
-  const picks = await loadPicks(source);
+  const bytes = await storedPickBytes(source);
   const parameters = source.analysis.parameters as { intervalM?: number; cellM?: number };
-  const result = analyzePicks(picks, { units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
+  // seconds of work on a large pick set: off the web server's thread, like an analysis
+  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
+  const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
   while (recomputed.size > RECOMPUTED_KEEP) recomputed.delete(recomputed.keys().next().value!);
   return { picks, result };

@@ -5,9 +5,10 @@ vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOr
 
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses } from "@/db/schema";
+import { analyses, pickSets } from "@/db/schema";
 import { confirmUpload } from "@/lib/analysis/uploads";
-import { runAnalysis } from "@/lib/analysis/runner";
+import { computeGridsOffThread, runAnalysis } from "@/lib/analysis/runner";
+import { computeFullResolution } from "@/lib/analysis/compute";
 import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
@@ -35,6 +36,19 @@ describe("analyses in the worker thread", () => {
     expect(stored?.status).toBe("done");
     expect((stored?.result as { segments: unknown[] }).segments).toHaveLength(1);
     expect(stored?.display?.byteLength).toBeGreaterThan(1000);
+  });
+
+  // basis: common practice, no source (the same pure compute, run in another thread, gives the same numbers)
+  it("computes the full-resolution export grids off the main thread, identical to the in-process result", async () => {
+    const { analysisId } = await upload();
+    const analysis = await (await getDb()).query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
+    const pickSet = await (await getDb()).query.pickSets.findFirst({ where: eq(pickSets.id, analysis!.pickSetId) });
+    const job = { picks: pickSet!.picks, units: "m" as const };
+    const offThread = await computeGridsOffThread(job);
+    const inProcess = computeFullResolution(job);
+    expect(offThread.report).toEqual(inProcess.report);
+    const segment = inProcess.report.segments[0].id;
+    expect(Array.from(offThread.grids[segment].displacementM)).toEqual(Array.from(inProcess.grids[segment].displacementM));
   });
 
   it("stops an analysis that runs past the time limit and marks it failed with a message", async () => {

@@ -53,14 +53,17 @@ export async function requireStudyRole(studyId: string, action: StudyAction): Pr
   return { user, studyId, role: membership.role };
 }
 
+/** Session, the fault's study, membership and role in one query; a fault of another study answers 404 like a missing one. */
 export async function requireFaultRole(faultId: string, action: StudyAction): Promise<StudyAccess & { faultId: string }> {
   const user = await requireUser();
   const db = await getDb();
-  const fault = await db.query.faults.findFirst({ where: eq(faults.id, faultId), columns: { studyId: true } });
-  if (!fault) throw new ApiError(404, "Fault not found.");
-  const access = await requireStudyRole(fault.studyId, action).catch((error: unknown) => {
-    if (error instanceof ApiError && error.status === 404) throw new ApiError(404, "Fault not found.");
-    throw error;
-  });
-  return { ...access, user, faultId };
+  const [row] = await db
+    .select({ studyId: faults.studyId, role: memberships.role })
+    .from(faults)
+    .leftJoin(memberships, and(eq(memberships.studyId, faults.studyId), eq(memberships.userId, user.id)))
+    .where(eq(faults.id, faultId))
+    .limit(1);
+  if (!row?.role) throw new ApiError(404, "Fault not found.");
+  if (!roleAllows(row.role, action)) throw forbidden(ACTION_WORDS[action]);
+  return { user, studyId: row.studyId, role: row.role, faultId };
 }

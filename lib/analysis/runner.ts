@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, pickSets } from "@/db/schema";
+import { analyses, base64Bytes, pickSets } from "@/db/schema";
 import { existsSync } from "node:fs";
 import path from "node:path";
 import { Worker } from "node:worker_threads";
@@ -49,6 +49,56 @@ export function computeGridsOffThread(job: AnalysisJob): Promise<PipelineResult>
   return runJob({ ...job, output: "grids" }, () => {}, () => computeFullResolution(job));
 }
 
+/**
+ * Warm worker threads, kept between jobs: a fresh thread would load the engine bundle and run it cold (unoptimised)
+ * on every analysis. A thread that timed out, crashed or failed to start is discarded, never reused; idle threads are
+ * unref'd (they never keep the process alive) and closed after a few idle minutes to give their memory back.
+ */
+const idleWorkers: Worker[] = [];
+const IDLE_CLOSE_MS = 5 * 60_000;
+const idleTimers = new WeakMap<Worker, NodeJS.Timeout>();
+
+function takeWorker(): Worker {
+  const warm = idleWorkers.pop();
+  if (warm) {
+    clearTimeout(idleTimers.get(warm));
+    warm.ref();
+    return warm;
+  }
+  workerStarts++;
+  const worker = new Worker(/*turbopackIgnore: true*/ WORKER_FILE, { resourceLimits: { maxOldGenerationSizeMb: 3072 } });
+  // a thread that dies while waiting idle is simply forgotten (a running job's own handlers report its failure)
+  worker.on("error", () => discardIdle(worker));
+  worker.on("exit", () => discardIdle(worker));
+  return worker;
+}
+let workerStarts = 0;
+
+/** How many worker threads were started so far and how many wait warm (for tests and the load test's report). */
+export function analysisWorkerCounts() {
+  return { started: workerStarts, idle: idleWorkers.length };
+}
+
+function returnWorker(worker: Worker) {
+  if (idleWorkers.length >= MAX_PARALLEL) {
+    void worker.terminate();
+    return;
+  }
+  worker.unref();
+  idleWorkers.push(worker);
+  const timer = setTimeout(() => {
+    discardIdle(worker);
+    void worker.terminate();
+  }, IDLE_CLOSE_MS);
+  timer.unref();
+  idleTimers.set(worker, timer);
+}
+
+function discardIdle(worker: Worker) {
+  const index = idleWorkers.indexOf(worker);
+  if (index >= 0) idleWorkers.splice(index, 1);
+}
+
 function runJob<T>(job: AnalysisJob, onStage: (stage: string, fraction: number) => void, inline: () => T): Promise<T> {
   if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
     return new Promise((resolve, reject) => setImmediate(() => {
@@ -60,30 +110,30 @@ function runJob<T>(job: AnalysisJob, onStage: (stage: string, fraction: number) 
     }));
   }
   return new Promise((resolve, reject) => {
-    const worker = new Worker(/*turbopackIgnore: true*/ WORKER_FILE, { workerData: job, resourceLimits: { maxOldGenerationSizeMb: 3072 } });
+    const worker = takeWorker();
     const limitMs = timeLimitMs();
-    const timer = setTimeout(() => {
-      void worker.terminate();
-      reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`));
-    }, limitMs);
-    worker.on("message", (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string }) => {
+    let settled = false;
+    const onMessage = (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string }) => {
       if (message.kind === "stage") onStage(message.stage!, message.fraction!);
-      else if (message.kind === "done") {
-        clearTimeout(timer);
-        resolve(message.output!);
-      } else if (message.kind === "failed") {
-        clearTimeout(timer);
-        reject(new Error(message.message));
-      }
-    });
-    worker.on("error", (error) => {
+      else if (message.kind === "done") finish(true, () => resolve(message.output!));
+      else if (message.kind === "failed") finish(true, () => reject(new Error(message.message)));
+    };
+    const onError = (error: Error) => finish(false, () => reject(error));
+    const onExit = (code: number) => finish(false, () => reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`)));
+    const finish = (reuse: boolean, outcome: () => void) => {
+      if (settled) return;
+      settled = true;
       clearTimeout(timer);
-      reject(error);
-    });
-    worker.on("exit", (code) => {
-      clearTimeout(timer);
-      if (code !== 0) reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`));
-    });
+      worker.off("message", onMessage).off("error", onError).off("exit", onExit);
+      if (reuse) returnWorker(worker);
+      else void worker.terminate();
+      outcome();
+    };
+    const timer = setTimeout(() => {
+      finish(false, () => reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`)));
+    }, limitMs);
+    worker.on("message", onMessage).on("error", onError).on("exit", onExit);
+    worker.postMessage(job);
   });
 }
 

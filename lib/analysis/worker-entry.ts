@@ -1,15 +1,34 @@
-// Entry of the analysis worker thread (bundled by scripts/build-worker.mjs into dist/analysis-worker.mjs).
-import { parentPort, workerData } from "node:worker_threads";
+// Entry of the analysis worker thread (bundled by scripts/build-worker.mjs into dist/analysis-worker.mjs). The thread
+// is kept warm between jobs by lib/analysis/runner.ts and takes one job message at a time.
+import { readlinkSync } from "node:fs";
+import os from "node:os";
+import { parentPort } from "node:worker_threads";
 import { computeAnalysis, computeFullResolution, type AnalysisJob } from "./compute";
 
-const job = workerData as AnalysisJob;
-try {
-  if (job.output === "grids") {
-    parentPort!.postMessage({ kind: "done", output: computeFullResolution(job) });
-  } else {
-    const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }));
-    parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
+/**
+ * Analyses yield the CPU to the web server: on Linux a thread has its own nice value, so this thread (and only it)
+ * runs at lower priority; reads stay quick while an analysis computes on a busy machine. Elsewhere this is a no-op.
+ */
+function lowerThisThreadsPriority(niceness = 10) {
+  try {
+    const threadId = Number(readlinkSync("/proc/thread-self").split("/").pop());
+    if (threadId > 0) os.setPriority(threadId, niceness);
+  } catch {
+    // no /proc (not Linux) or not permitted: run at normal priority
   }
-} catch (error) {
-  parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error) });
 }
+
+lowerThisThreadsPriority();
+
+parentPort!.on("message", (job: AnalysisJob) => {
+  try {
+    if (job.output === "grids") {
+      parentPort!.postMessage({ kind: "done", output: computeFullResolution(job) });
+    } else {
+      const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }));
+      parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
+    }
+  } catch (error) {
+    parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error) });
+  }
+});

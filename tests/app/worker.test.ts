@@ -1,4 +1,5 @@
 import { execFileSync } from "node:child_process";
+import { readdirSync, readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
@@ -7,7 +8,7 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, pickSets } from "@/db/schema";
 import { confirmUpload } from "@/lib/analysis/uploads";
-import { computeGridsOffThread, runAnalysis } from "@/lib/analysis/runner";
+import { analysisWorkerCounts, computeGridsOffThread, runAnalysis } from "@/lib/analysis/runner";
 import { computeFullResolution } from "@/lib/analysis/compute";
 import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
@@ -51,12 +52,38 @@ describe("analyses in the worker thread", () => {
     expect(Array.from(offThread.grids[segment].displacementM)).toEqual(Array.from(inProcess.grids[segment].displacementM));
   });
 
-  it("stops an analysis that runs past the time limit and marks it failed with a message", async () => {
+  it("keeps one warm worker thread for the next job instead of starting a thread per analysis", async () => {
+    const before = analysisWorkerCounts();
+    for (let run = 0; run < 2; run++) {
+      const { analysisId } = await upload();
+      await runAnalysis(analysisId);
+    }
+    expect(analysisWorkerCounts().started).toBe(before.started + (before.idle > 0 ? 0 : 1));
+    expect(analysisWorkerCounts().idle).toBe(1);
+  });
+
+  // basis: common practice, no source (setpriority(2) on a Linux thread id changes that thread only)
+  it("runs the worker thread at a lower priority than the web server's thread (Linux)", () => {
+    const niceOf = (stat: string) => Number(stat.slice(stat.lastIndexOf(")") + 2).split(" ")[16]);
+    const tasks = readdirSync("/proc/self/task").map((task) => niceOf(readFileSync(`/proc/self/task/${task}/stat`, "utf8")));
+    expect(niceOf(readFileSync("/proc/thread-self/stat", "utf8"))).toBe(0);
+    expect(tasks).toContain(10);
+  });
+
+  it("stops an analysis that runs past the time limit, marks it failed with a message and never reuses that thread", async () => {
     process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS = "1";
+    const before = analysisWorkerCounts();
     const { analysisId } = await upload();
     await runAnalysis(analysisId);
     const stored = await (await getDb()).query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
     expect(stored?.status).toBe("failed");
     expect(stored?.errorMessage).toMatch(/time limit/);
+    expect(analysisWorkerCounts().idle).toBe(before.idle - 1);
+    delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
+    const retry = await upload();
+    await runAnalysis(retry.analysisId);
+    const again = await (await getDb()).query.analyses.findFirst({ where: eq(analyses.id, retry.analysisId) });
+    expect(again?.status).toBe("done");
+    expect(analysisWorkerCounts().started).toBe(before.started + 1);
   });
 });

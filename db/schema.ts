@@ -1,5 +1,6 @@
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import {
+  type AnyPgColumn,
   boolean,
   customType,
   doublePrecision,
@@ -15,10 +16,24 @@ import {
   uniqueIndex,
 } from "drizzle-orm/pg-core";
 
-const bytea = customType<{ data: Uint8Array; driverData: Uint8Array }>({
+/**
+ * Binary columns travel as base64 text decoded and encoded by the database itself: PGlite's bytea parameter path
+ * (hex text built and parsed in JavaScript) took 1.3–1.5 s for a 5.6 MB pick set on the server's thread, base64
+ * about 0.1 s. Read such a column with `base64Bytes(column)` for the same reason; a plain select still works.
+ */
+const bytea = customType<{ data: Uint8Array; driverData: Uint8Array | SQL }>({
   dataType: () => "bytea",
-  fromDriver: (value) => (value instanceof Uint8Array ? value : new Uint8Array(value as ArrayBufferLike)),
+  toDriver: (value) => sql`decode(${Buffer.from(value.buffer, value.byteOffset, value.byteLength).toString("base64")}, 'base64')`,
+  fromDriver: (value) => (value instanceof Uint8Array ? value : new Uint8Array(value as unknown as ArrayBufferLike)),
 });
+
+/** A bytea column selected as base64 text (see `bytea`) and decoded to bytes. */
+export function base64Bytes(column: AnyPgColumn) {
+  return sql<Uint8Array>`encode(${column}, 'base64')`.mapWith((text: string) => {
+    const bytes = Buffer.from(text, "base64"); // Node's decoder skips the line breaks PostgreSQL puts every 76 characters
+    return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  });
+}
 
 const id = () =>
   text("id")

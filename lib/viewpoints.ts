@@ -3,7 +3,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { and, asc, desc, eq, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, faults, pickSets, pins, users, viewpointLinks, viewpoints, type ViewpointLink } from "@/db/schema";
+import { analyses, base64Bytes, faults, pickSets, pins, users, viewpointLinks, viewpoints, type ViewpointLink } from "@/db/schema";
 import { requireFaultRole, requireUser, roleAllows, type StudyAccess } from "@/lib/access";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -337,7 +337,7 @@ export async function publicDisplay(token: string) {
   const { fault } = await activeLink(token);
   const latest = await latestFinishedAnalysis(fault.id);
   const db = await getDb();
-  const analysis = latest ? await db.query.analyses.findFirst({ where: eq(analyses.id, latest.id), columns: { display: true } }) : null;
+  const [analysis] = latest ? await db.select({ display: base64Bytes(analyses.display) }).from(analyses).where(eq(analyses.id, latest.id)) : [];
   if (!analysis?.display) throw new ApiError(404, "This fault has no surface to show yet.");
   return analysis.display;
 }

@@ -147,7 +147,10 @@ export async function runAnalysis(analysisId: string) {
     .where(and(eq(analyses.id, analysisId), eq(analyses.status, "queued")))
     .returning();
   if (!analysis) return;
-  const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, analysis.pickSetId) });
+  const [pickSet] = await db
+    .select({ picks: base64Bytes(pickSets.picks), units: pickSets.units })
+    .from(pickSets)
+    .where(eq(pickSets.id, analysis.pickSetId));
   if (!pickSet) return;
   let lastWrite = 0;
   const stageWrites: Promise<unknown>[] = [];

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, faults, pickSets, pins, studies, users } from "@/db/schema";
+import { analyses, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import type { PipelineResult } from "@/lib/engine/pipeline";
 import { computeGridsOffThread } from "@/lib/analysis/runner";
@@ -75,7 +75,7 @@ export async function loadPicks(source: ExportSource): Promise<PickColumns> {
 
 async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
   const db = await getDb();
-  const pickSet = await db.query.pickSets.findFirst({ where: eq(pickSets.id, source.pickSet.id), columns: { picks: true } });
+  const [pickSet] = await db.select({ picks: base64Bytes(pickSets.picks) }).from(pickSets).where(eq(pickSets.id, source.pickSet.id));
   if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
   return pickSet.picks;
 }

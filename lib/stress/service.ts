@@ -2,7 +2,7 @@ import "server-only";
 // Stress states (versioned, per fault or study-wide) and the reactivation screen of a fault's latest analysis.
 import { and, desc, eq, isNull, max } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, pickSets, stressStates, users, type StressParameters } from "@/db/schema";
+import { analyses, base64Bytes, pickSets, stressStates, users, type StressParameters } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { latestAnalysisForFault } from "@/lib/analysis/runner";
@@ -93,7 +93,7 @@ export async function screenFault(studyId: string, faultId: string): Promise<Fau
   if (latest.status !== "done") throw new ApiError(409, `The latest analysis is ${latest.status}; the screen runs once it is done.`);
   const db = await getDb();
   const [row] = await db
-    .select({ picks: pickSets.picks, display: analyses.display })
+    .select({ picks: base64Bytes(pickSets.picks), display: base64Bytes(analyses.display) })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
     .where(eq(analyses.id, latest.id));

@@ -213,6 +213,8 @@ function lruCache<V>(limit: number) {
   };
 }
 const finishedReports = lruCache<unknown>(64);
+/** whole response bodies of finished analyses, serialised once (re-serialising a large report costs more than the rest of a poll) */
+const finishedReportBodies = lruCache<string>(64);
 const finishedDisplays = lruCache<Uint8Array>(64);
 
 export async function latestAnalysisForFault(faultId: string, pickSetId?: string) {
@@ -249,13 +251,30 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
   return { ...row, result: result as (typeof analyses.$inferSelect)["result"] };
 }
 
+/**
+ * The JSON body of GET /api/faults/:id/analysis ({ analysis }); serialised once per finished analysis (a finished
+ * analysis and its pick set never change). Next's route handlers drop a Content-Encoding set by the handler, so the
+ * body cannot be kept compressed as well: next compresses it per response.
+ */
+export async function latestAnalysisResponseBody(faultId: string, pickSetId?: string): Promise<string> {
+  const latest = await latestAnalysisForFault(faultId, pickSetId);
+  if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest });
+  const key = `${faultId}:${latest.id}`;
+  let body = finishedReportBodies.get(key);
+  if (body === undefined) {
+    body = JSON.stringify({ analysis: latest });
+    finishedReportBodies.set(key, body);
+  }
+  return body;
+}
+
 export async function analysisDisplay(faultId: string, analysisId: string) {
   const key = `${faultId}:${analysisId}`;
   const cached = finishedDisplays.get(key);
   if (cached) return cached;
   const db = await getDb();
   const [row] = await db
-    .select({ display: analyses.display, status: analyses.status })
+    .select({ display: base64Bytes(analyses.display), status: analyses.status })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
     .where(and(eq(analyses.id, analysisId), eq(pickSets.faultId, faultId)));

@@ -69,7 +69,9 @@ export function launchServer(options: { dataDir: string; port: number; env?: Rec
   delete env.SLIPFIELD_INLINE_ANALYSIS; // the server runs analyses in its worker thread, as in production
   delete env.VITEST;
   // as scripts/start.mjs runs it; SLIPFIELD_KEEPALIVE_MS sets next's --keepAliveTimeout to try other values
-  const args = [path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(options.port), "-H", "127.0.0.1"];
+  // SLIPFIELD_SERVER_NODE_ARGS: extra node flags for the server process (e.g. "--cpu-prof --cpu-prof-dir=/tmp/p")
+  const nodeArgs = (process.env.SLIPFIELD_SERVER_NODE_ARGS ?? "").split(" ").filter(Boolean);
+  const args = [...nodeArgs, path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(options.port), "-H", "127.0.0.1"];
   if (process.env.SLIPFIELD_KEEPALIVE_MS) args.push("--keepAliveTimeout", process.env.SLIPFIELD_KEEPALIVE_MS);
   const child = spawn(process.execPath, args, {
     cwd: ROOT,

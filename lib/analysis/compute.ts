@@ -1,4 +1,4 @@
-import { analyzePicks, type PipelineResult } from "@/lib/engine/pipeline";
+import { analyzePicks, type PipelineResult, type TipLineFitter } from "@/lib/engine/pipeline";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { buildFaultDisplay, encodeFaultDisplay } from "./display";
@@ -18,14 +18,14 @@ export interface AnalysisOutput {
 }
 
 /** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
-export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}): AnalysisOutput {
+export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}, threads: { tipLineFitter?: TipLineFitter } = {}): AnalysisOutput {
   const picks = decodePicks(job.picks);
-  const { report, grids } = analyzePicks(picks, { units: job.units, intervalM: job.intervalM, cellM: job.cellM, onStage });
+  const { report, grids } = analyzePicks(picks, { units: job.units, intervalM: job.intervalM, cellM: job.cellM, onStage, ...threads });
   onStage("display", 0.98);
   return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
 }
 
 /** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */
-export function computeFullResolution(job: AnalysisJob): PipelineResult {
-  return analyzePicks(decodePicks(job.picks), { units: job.units, intervalM: job.intervalM, cellM: job.cellM });
+export function computeFullResolution(job: AnalysisJob, threads: { tipLineFitter?: TipLineFitter } = {}): PipelineResult {
+  return analyzePicks(decodePicks(job.picks), { units: job.units, intervalM: job.intervalM, cellM: job.cellM, ...threads });
 }

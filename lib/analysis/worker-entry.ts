@@ -1,9 +1,11 @@
 // Entry of the analysis worker thread (bundled by scripts/build-worker.mjs into dist/analysis-worker.mjs). The thread
-// is kept warm between jobs by lib/analysis/runner.ts and takes one job message at a time.
+// is kept warm between jobs by lib/analysis/runner.ts and takes one job message at a time. The same file, started with
+// the tip-line role, is the helper thread that fits tip-line profiles while the analysis grids and contours.
 import { readlinkSync } from "node:fs";
 import os from "node:os";
-import { parentPort } from "node:worker_threads";
+import { parentPort, workerData } from "node:worker_threads";
 import { computeAnalysis, computeFullResolution, type AnalysisJob } from "./compute";
+import { serveTipLineFits, threadedTipLineFitter } from "./tipline-thread";
 
 /**
  * Analyses yield the CPU to the web server: on Linux a thread has its own nice value, so this thread (and only it)
@@ -20,15 +22,22 @@ function lowerThisThreadsPriority(niceness = 10) {
 
 lowerThisThreadsPriority();
 
-parentPort!.on("message", (job: AnalysisJob) => {
+if (!serveTipLineFits(workerData)) serveAnalysisJobs();
+
+function serveAnalysisJobs() {
+  const { fitter: tipLineFitter } = threadedTipLineFitter(new URL(import.meta.url));
+  parentPort!.on("message", (job: AnalysisJob) => runJob(job, tipLineFitter));
+}
+
+function runJob(job: AnalysisJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
   try {
     if (job.output === "grids") {
-      parentPort!.postMessage({ kind: "done", output: computeFullResolution(job) });
+      parentPort!.postMessage({ kind: "done", output: computeFullResolution(job, { tipLineFitter }) });
     } else {
-      const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }));
+      const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }), { tipLineFitter });
       parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
     }
   } catch (error) {
     parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error) });
   }
-});
+}

@@ -6,7 +6,7 @@ import { displacementColumn } from "./displacement";
 import { triangulate } from "./triangulate";
 import { buildGrid, gridSpecFor } from "./grid";
 import { contourGrid, contourLevels, niceInterval } from "./contours";
-import { inferTipLine } from "./tipline";
+import { fitTipLineModels, tipLineFitInputs, tipLineFromFits, type ModelFit, type TipLineFitInputs } from "./tipline";
 import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
 import { analyzeRelays } from "./relays";
 
@@ -14,8 +14,19 @@ export const ENGINE_VERSION = "1.0.0";
 
 export type Stage = "parse" | "plane" | "triangulate" | "grid" | "contours" | "tipline" | "metrics" | "relays" | "done";
 
+/**
+ * Starts the tip-line profile fits of one segment and returns a function that waits for their result. The pipeline
+ * starts them right after triangulation and waits after contouring, so a fitter that hands them to another thread
+ * (lib/analysis/tipline-thread.ts) overlaps them with gridding and contouring. The results are the same either way.
+ */
+export type TipLineFitter = (inputs: TipLineFitInputs) => () => ModelFit[];
+
+/** The default: the fits run in this thread when waited for. */
+export const inlineTipLineFitter: TipLineFitter = (inputs) => () => fitTipLineModels(inputs);
+
 export interface PipelineOptions extends AnalysisOptions {
   onStage?: (stage: Stage, fraction: number) => void;
+  tipLineFitter?: TipLineFitter;
 }
 
 export interface PipelineResult {
@@ -52,6 +63,9 @@ export function analyzePicks(
     const displacementM = displacementColumn(throwM, heaveM, plane.dipDeg);
     stage("triangulate", k, 0.15);
     const tri = triangulate(s, t);
+    const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
+    if (outline.length) outline.push(outline[0]);
+    const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(tipLineFitInputs(s, t, displacementM, { outline, spacingM: tri.medianEdgeM }));
     stage("grid", k, 0.35);
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
     const grid = buildGrid(s, t, displacementM, throwM, tri.triangles, spec);
@@ -66,14 +80,12 @@ export function analyzePicks(
     const contours = contourGrid(spec, grid.displacementM, contourLevels(displacementM[maxIndex], intervalM));
 
     stage("tipline", k, 0.7);
-    const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
-    if (outline.length) outline.push(outline[0]);
     let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
     for (let i = 0; i < s.length; i++) {
       minS = Math.min(minS, s[i]); maxS = Math.max(maxS, s[i]);
       minT = Math.min(minT, t[i]); maxT = Math.max(maxT, t[i]);
     }
-    const { gradientTips: tips, fits: _fits, ...tipLine } = inferTipLine(s, t, displacementM, plane, { outline, spacingM: tri.medianEdgeM });
+    const { gradientTips: tips, fits: _fits, ...tipLine } = tipLineFromFits(s, t, displacementM, plane, waitForFits());
     void _fits;
     const aspectWarning = aspectRatioNote(tipLine.aspectRatio);
     if (aspectWarning) warnings.push(`segment "${id}": ${aspectWarning}`);

@@ -126,7 +126,26 @@ function subsample(s: ArrayLike<number>, t: ArrayLike<number>): Uint32Array {
  * and semi-axes by Nelder–Mead on log axes.
  */
 export function fitProfileModel(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, model: ProfileModel, censoring?: CensoringInfo, noiseM?: number): ModelFit {
-  return refineProfileFit(leastSquaresFit(s, t, d, model), censoring, noiseM);
+  return refineProfileFit(leastSquaresFit(sampleForFit(s, t, d), model), censoring, noiseM);
+}
+
+/** The picks the profile fits use (at most MAX_FIT_POINTS, see subsample). */
+interface FitSample {
+  ss: Float64Array;
+  tt: Float64Array;
+  dd: Float64Array;
+}
+
+function sampleForFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>): FitSample {
+  const ids = subsample(s, t);
+  const m = ids.length;
+  const ss = new Float64Array(m), tt = new Float64Array(m), dd = new Float64Array(m);
+  for (let k = 0; k < m; k++) {
+    ss[k] = s[ids[k]];
+    tt[k] = t[ids[k]];
+    dd[k] = d[ids[k]];
+  }
+  return { ss, tt, dd };
 }
 
 /** The least-squares stage of fitProfileModel, kept so a censored refinement can start from it without refitting. */
@@ -142,15 +161,12 @@ interface LeastSquaresFit {
   maxD: number;
 }
 
-function leastSquaresFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, model: ProfileModel, ids = subsample(s, t)): LeastSquaresFit {
+function leastSquaresFit(sample: FitSample, model: ProfileModel): LeastSquaresFit {
   const f = PROFILE_FUNCTIONS[model];
-  const m = ids.length;
-  const ss = new Float64Array(m), tt = new Float64Array(m), dd = new Float64Array(m);
+  const { ss, tt, dd } = sample;
+  const m = ss.length;
   let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity, maxD = 0;
   for (let k = 0; k < m; k++) {
-    ss[k] = s[ids[k]];
-    tt[k] = t[ids[k]];
-    dd[k] = d[ids[k]];
     minS = Math.min(minS, ss[k]); maxS = Math.max(maxS, ss[k]);
     minT = Math.min(minT, tt[k]); maxT = Math.max(maxT, tt[k]);
     maxD = Math.max(maxD, dd[k]);
@@ -354,21 +370,45 @@ export interface TipLineOptions {
   models?: ProfileModel[];
 }
 
-export function inferTipLine(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, options: TipLineOptions = {}): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
-  const models = options.models ?? CANDIDATE_MODELS;
-  const ids = subsample(s, t);
-  const leastSquares = models.map((m) => leastSquaresFit(s, t, d, m, ids));
-  const plain = leastSquares.map((ls) => ls.fit);
-  let fits = plain;
+/**
+ * Everything the profile fits need, small and self-contained (typed arrays and numbers), so the fits can run in
+ * another thread while the caller grids and contours.
+ */
+export interface TipLineFitInputs extends FitSample {
+  models: ProfileModel[];
+  /** set when the censored fit applies: smallest displacement picked, data outline and pick spacing */
+  censoring: { cutoffM: number; outline: [number, number][]; spacingM: number } | null;
+}
+
+export function tipLineFitInputs(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, options: TipLineOptions = {}): TipLineFitInputs {
+  let censoring: TipLineFitInputs["censoring"] = null;
   if (options.outline && options.outline.length >= 3 && options.spacingM && options.spacingM > 0 && s.length >= 8) {
     let cutoffM = Infinity;
     for (let i = 0; i < d.length; i++) cutoffM = Math.min(cutoffM, d[i]);
-    const noiseM = Math.min(...plain.map((f) => f.rmsM));
-    fits = models.map((_model, k) => {
-      const places = absentPlaces(options.outline!, plain[k].centre, options.spacingM!);
-      return refineProfileFit(leastSquares[k], { cutoffM, absentS: places.s, absentT: places.t }, noiseM);
-    });
+    censoring = { cutoffM, outline: options.outline, spacingM: options.spacingM };
   }
+  return { ...sampleForFit(s, t, d), models: options.models ?? CANDIDATE_MODELS, censoring };
+}
+
+/** Each candidate profile fitted (least squares, then the censored likelihood when it applies); the heavy part. */
+export function fitTipLineModels(inputs: TipLineFitInputs): ModelFit[] {
+  const { models, censoring } = inputs;
+  const leastSquares = models.map((m) => leastSquaresFit(inputs, m));
+  const plain = leastSquares.map((ls) => ls.fit);
+  if (!censoring) return plain;
+  const noiseM = Math.min(...plain.map((f) => f.rmsM));
+  return models.map((_model, k) => {
+    const places = absentPlaces(censoring.outline, plain[k].centre, censoring.spacingM);
+    return refineProfileFit(leastSquares[k], { cutoffM: censoring.cutoffM, absentS: places.s, absentT: places.t }, noiseM);
+  });
+}
+
+export function inferTipLine(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, options: TipLineOptions = {}): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
+  return tipLineFromFits(s, t, d, frame, fitTipLineModels(tipLineFitInputs(s, t, d, options)));
+}
+
+/** The tip line from the fitted candidates: the best-scoring profile, near-tip gradients and the uncertainty. */
+export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, fits: ModelFit[]): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
   const score = (f: ModelFit) => f.negLogLikelihood ?? f.rmsM;
   let best = fits[0];
   for (const f of fits) if (score(f) < score(best)) best = f;

@@ -155,4 +155,6 @@ export interface AnalysisOptions {
   cellM?: number;
   /** cap on grid columns/rows */
   gridCells?: number;
+  /** exactly gridCells square cells across the longer side of the data, centred on the shorter (benchmark grids) */
+  square?: boolean;
 }

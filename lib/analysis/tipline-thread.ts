@@ -1,0 +1,113 @@
+// A second thread for the tip-line profile fits, so they overlap with gridding and contouring (see TipLineFitter in
+// lib/engine/pipeline.ts). The pipeline stays synchronous: the fits are posted to the helper thread, and the wait for
+// their result blocks on a shared flag (Atomics.wait) and takes the reply with receiveMessageOnPort.
+import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from "node:worker_threads";
+import { fitTipLineModels, type ModelFit, type TipLineFitInputs } from "@/lib/engine/tipline";
+import { inlineTipLineFitter, type TipLineFitter } from "@/lib/engine/pipeline";
+
+export const TIPLINE_THREAD_ROLE = "tipline-fits";
+
+interface HelperData {
+  role: typeof TIPLINE_THREAD_ROLE;
+  port: MessagePort;
+  signal: SharedArrayBuffer;
+}
+
+type Reply = { fits: ModelFit[] } | { error: string };
+
+/**
+ * Longest waits before the fits are done in this thread instead: for a helper that never came up (its error event
+ * cannot arrive while this thread blocks), and for an answer.
+ */
+const START_LIMIT_MS = 5_000;
+const WAIT_LIMIT_MS = 120_000;
+// the shared flags: [0] a reply is waiting, [1] the helper is up and serving
+const REPLIED = 0;
+const SERVING = 1;
+
+/**
+ * A fitter backed by a helper thread started from `entry` (a module that calls serveTipLineFits for this role).
+ * Falls back to fitting in the calling thread if the helper cannot be reached. `close` ends the helper.
+ */
+export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFitter; close: () => Promise<void>; counts: () => { onHelper: number; inThisThread: number } } {
+  let helper: { worker: Worker; port: MessagePort; signal: Int32Array } | null = null;
+  let broken = false;
+  let onHelper = 0;
+  let inThisThread = 0;
+  const inline: TipLineFitter = (inputs) => {
+    inThisThread++;
+    return inlineTipLineFitter(inputs);
+  };
+  const start = () => {
+    const { port1, port2 } = new MessageChannel();
+    const signal = new Int32Array(new SharedArrayBuffer(8));
+    const data: HelperData = { role: TIPLINE_THREAD_ROLE, port: port2, signal: signal.buffer as SharedArrayBuffer };
+    const worker = new Worker(entry, { workerData: data, transferList: [port2] });
+    worker.unref();
+    port1.unref();
+    worker.on("error", () => (broken = true));
+    worker.on("exit", () => (broken = true));
+    return { worker, port: port1, signal };
+  };
+  const fitter: TipLineFitter = (inputs) => {
+    if (broken) return inline(inputs);
+    try {
+      helper ??= start();
+    } catch {
+      broken = true;
+      return inline(inputs);
+    }
+    const { port, signal } = helper;
+    Atomics.store(signal, REPLIED, 0);
+    port.postMessage(inputs);
+    return () => {
+      const startedWaiting = Date.now();
+      const until = startedWaiting + WAIT_LIMIT_MS;
+      for (;;) {
+        const received = receiveMessageOnPort(port);
+        if (received) {
+          const reply = received.message as Reply;
+          if ("error" in reply) throw new Error(reply.error);
+          onHelper++;
+          return reply.fits;
+        }
+        const now = Date.now();
+        if (broken || now > until || (Atomics.load(signal, SERVING) === 0 && now - startedWaiting > START_LIMIT_MS)) {
+          broken = true;
+          inThisThread++;
+          return fitTipLineModels(inputs);
+        }
+        Atomics.wait(signal, REPLIED, 0, 200);
+      }
+    };
+  };
+  return {
+    fitter,
+    counts: () => ({ onHelper, inThisThread }),
+    close: async () => {
+      if (helper) await helper.worker.terminate();
+      helper = null;
+    },
+  };
+}
+
+/** The helper thread's side: answer each set of fit inputs with the fits (or the error message). */
+export function serveTipLineFits(data: unknown): boolean {
+  const helper = data as HelperData | null;
+  if (helper?.role !== TIPLINE_THREAD_ROLE) return false;
+  const signal = new Int32Array(helper.signal);
+  Atomics.store(signal, SERVING, 1);
+  Atomics.notify(signal, REPLIED);
+  helper.port.on("message", (inputs: TipLineFitInputs) => {
+    let reply: Reply;
+    try {
+      reply = { fits: fitTipLineModels(inputs) };
+    } catch (error) {
+      reply = { error: error instanceof Error ? error.message : String(error) };
+    }
+    helper.port.postMessage(reply);
+    Atomics.store(signal, REPLIED, 1);
+    Atomics.notify(signal, REPLIED);
+  });
+  return true;
+}

@@ -52,7 +52,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
 
   const analysis = useQuery({
     queryKey: ["analysis", faultId, pickSetId ?? "latest"],
-    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis${pickSetId ? `?pickSet=${pickSetId}` : ""}`),
+    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}`),
     refetchInterval: (query) => {
       const status = query.state.data?.analysis?.status;
       return status === "queued" || status === "running" ? 700 : false;

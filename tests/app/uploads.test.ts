@@ -69,6 +69,14 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     expect(report.segments[0].tipLine.lengthM).toBeLessThan(2500 * 1.05);
     const display = decodeFaultDisplay(analysis!.display!);
     expect(display.segments).toHaveLength(1);
+    // the workspace's form: the same report with the contour rings left out (it draws them from the display)
+    const sheet = await callRoute(analysisRoute.GET, { path: "/x?contours=0", params: { faultId: fixture.fault.id } });
+    const lean = sheet.json.analysis.result;
+    expect(report.segments[0].contours.some((level: { rings: unknown[] }) => level.rings.length > 0)).toBe(true);
+    expect(lean.segments[0].contours.map((level: { levelM: number }) => level.levelM)).toEqual(report.segments[0].contours.map((level: { levelM: number }) => level.levelM));
+    expect(lean.segments[0].contours.every((level: { rings: unknown[] }) => level.rings.length === 0)).toBe(true);
+    expect({ ...lean.segments[0], contours: null }).toEqual({ ...report.segments[0], contours: null });
+    expect(sheet.json.analysis.id).toBe(latest.json.analysis.id);
   });
 
   it("detects a re-upload of the same file by checksum and versions the pick sets", async () => {

@@ -6,6 +6,8 @@ type Params = { faultId: string };
 
 export const GET = route<Params>(async (request, { faultId }) => {
   await requireFaultRole(faultId, "view");
-  const pickSetId = new URL(request.url).searchParams.get("pickSet") ?? undefined;
-  return new Response(await latestAnalysisResponseBody(faultId, pickSetId), { headers: { "content-type": "application/json" } });
+  const query = new URL(request.url).searchParams;
+  // ?contours=0: the report without contour rings, as the workspace reads it (it draws contours from the display payload)
+  const body = await latestAnalysisResponseBody(faultId, { pickSetId: query.get("pickSet") ?? undefined, contourRings: query.get("contours") !== "0" });
+  return new Response(body, { headers: { "content-type": "application/json" } });
 });

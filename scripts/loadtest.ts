@@ -2,6 +2,9 @@
 //   LOADTEST_SECONDS (60)      length of the measured window
 //   LOADTEST_CONNECTIONS (50)  concurrent connections (each a loop: send, wait for the answer, send the next)
 //   LOADTEST_SIGNUPS (8)       users created through the sign-up form, beside the four demo accounts
+//   LOADTEST_RATE (0)          0: each connection sends its next request as soon as the answer is in (closed loop, the
+//                              default); N > 0: the connections together offer N requests/s on a fixed schedule, and a
+//                              latency counts from the scheduled send time (a late answer delays nothing unmeasured)
 //   LOADTEST_KEEP_DATA=1       keep the temporary data folder afterwards (removed by default)
 //   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
 // Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
@@ -24,6 +27,7 @@ import {
 const SECONDS = Number(process.env.LOADTEST_SECONDS ?? 60);
 const CONNECTIONS = Number(process.env.LOADTEST_CONNECTIONS ?? 50);
 const SIGNUPS = Number(process.env.LOADTEST_SIGNUPS ?? 8);
+const RATE = Number(process.env.LOADTEST_RATE ?? 0);
 const PIN_BUDGET = 38; // the product allows 40 pins + replies per person per 10 minutes (lib/pins/service.ts)
 
 // Node's fetch keeps connections alive and opens one per request in flight: CONNECTIONS loops = CONNECTIONS connections.
@@ -134,8 +138,9 @@ async function main() {
     const windowStart = Date.now();
     const windowEnd = windowStart + SECONDS * 1000;
 
-    const timed = async (kind: Kind, name: string, send: () => Promise<Response>) => {
-      const t0 = performance.now();
+    // scheduledAt (paced runs): the send time the request was scheduled for; the clock starts there, not when the loop got to it
+    const timed = async (scheduledAt: number | null, kind: Kind, name: string, send: () => Promise<Response>) => {
+      const t0 = Math.min(performance.now(), scheduledAt ?? Infinity);
       let response: Response;
       try {
         response = await send();
@@ -153,21 +158,21 @@ async function main() {
     };
     const idOf = (body: ArrayBuffer, key: string) => (JSON.parse(new TextDecoder().decode(body)) as Record<string, { id: string }>)[key].id;
 
-    const oneRequest = async (actor: Actor, random: number) => {
+    const oneRequest = async (actor: Actor, random: number, scheduledAt: number | null = null) => {
       const fault = actor.faults[Math.floor(Math.random() * actor.faults.length)];
       if (random < 0.8 || !actor.canComment) {
         const which = Math.floor(Math.random() * 4);
-        if (which === 0) await timed("read", "GET fault", () => actor.client.request(`/api/faults/${fault.id}`));
-        else if (which === 1) await timed("read", "GET analysis", () => actor.client.request(`/api/faults/${fault.id}/analysis`));
-        else if (which === 2) await timed("read", "GET display grid", () => actor.client.request(`/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
-        else await timed("read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+        if (which === 0) await timed(scheduledAt, "read", "GET fault", () => actor.client.request(`/api/faults/${fault.id}`));
+        else if (which === 1) await timed(scheduledAt, "read", "GET analysis", () => actor.client.request(`/api/faults/${fault.id}/analysis?contours=0`)); // as the fault page asks
+        else if (which === 2) await timed(scheduledAt, "read", "GET display grid", () => actor.client.request(`/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
+        else await timed(scheduledAt, "read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
         return;
       }
       const index = writeCounter++;
       const choice = Math.random();
       if (actor.pinBudget > 0 && (choice < 0.3 || (choice < 0.45 && actor.ownPins.length === 0))) {
         actor.pinBudget--;
-        const result = await timed("write", "POST pin", () => actor.client.json(`/api/faults/${fault.id}/pins`, "POST", pinBody(fault.segmentId, index)));
+        const result = await timed(scheduledAt, "write", "POST pin", () => actor.client.json(`/api/faults/${fault.id}/pins`, "POST", pinBody(fault.segmentId, index)));
         if (result?.response.status === 201) {
           const id = idOf(result.body, "pin");
           actor.ownPins.push(id);
@@ -177,22 +182,33 @@ async function main() {
         actor.pinBudget--;
         const pinId = actor.ownPins[Math.floor(Math.random() * actor.ownPins.length)];
         const pinFault = acknowledged.pins.find((pin) => pin.id === pinId)!.faultId;
-        const result = await timed("write", "POST reply", () => actor.client.json(`/api/pins/${pinId}/replies`, "POST", { body: `Reply ${index}: agreed, check the next line.` }));
+        const result = await timed(scheduledAt, "write", "POST reply", () => actor.client.json(`/api/pins/${pinId}/replies`, "POST", { body: `Reply ${index}: agreed, check the next line.` }));
         if (result?.response.status === 201) acknowledged.replies.push({ faultId: pinFault, pinId, id: idOf(result.body, "reply"), reader: actor.client });
       } else if (actor.canShare && choice < 0.8) {
-        const result = await timed("write", "POST viewpoint", () => actor.client.json(`/api/faults/${fault.id}/viewpoints`, "POST", viewpointBody(index)));
+        const result = await timed(scheduledAt, "write", "POST viewpoint", () => actor.client.json(`/api/faults/${fault.id}/viewpoints`, "POST", viewpointBody(index)));
         if (result?.response.status === 201) acknowledged.viewpoints.push({ faultId: fault.id, id: idOf(result.body, "viewpoint"), reader: actor.client });
       } else if (actor.canEdit) {
-        const result = await timed("write", "POST fault", () => actor.client.json(`/api/studies/${actor.studyId}/faults`, "POST", { name: `Load ${runId} ${index}` }));
+        const result = await timed(scheduledAt, "write", "POST fault", () => actor.client.json(`/api/studies/${actor.studyId}/faults`, "POST", { name: `Load ${runId} ${index}` }));
         if (result?.response.status === 201) acknowledged.faults.push({ studyId: actor.studyId, id: idOf(result.body, "fault"), reader: actor.client });
       } else {
-        await timed("read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+        await timed(scheduledAt, "read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
       }
     };
 
     const connection = async (slot: number) => {
       const actor = actors[slot % actors.length];
-      while (Date.now() < windowEnd) await oneRequest(actor, Math.random());
+      if (RATE <= 0) {
+        while (Date.now() < windowEnd) await oneRequest(actor, Math.random());
+        return;
+      }
+      const intervalMs = (1000 * CONNECTIONS) / RATE;
+      let next = performance.now() + Math.random() * intervalMs;
+      while (Date.now() < windowEnd) {
+        const wait = next - performance.now();
+        if (wait > 0) await new Promise((resolve) => setTimeout(resolve, wait));
+        await oneRequest(actor, Math.random(), next);
+        next += intervalMs;
+      }
     };
 
     // the two analyses: uploaded by the interpreter to the two demo faults a few seconds into the window
@@ -223,7 +239,7 @@ async function main() {
     })();
 
     const loadBefore = (await import("node:os")).loadavg()[0];
-    log(`measuring for ${SECONDS} s at ${CONNECTIONS} connections…`);
+    log(`measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`);
     await Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
     const windowMs = Date.now() - windowStart;
     const runs = await analysisRuns;
@@ -273,7 +289,7 @@ async function main() {
     for (const name of [...new Set(samples.map((sample) => sample.name))].sort()) describe(`· ${name}`, samples.filter((sample) => sample.name === name));
 
     console.log("");
-    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${actors.length} users, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
     console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
     console.log(table.join("\n"));
     console.log("");

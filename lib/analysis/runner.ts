@@ -8,6 +8,7 @@ import { Worker } from "node:worker_threads";
 import { ENGINE_VERSION, type PipelineResult } from "@/lib/engine/pipeline";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
+import { parseUploadedFile, UploadProblem, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
 
 const queue: string[] = [];
 let active = 0;
@@ -43,6 +44,11 @@ class AnalysisTimeout extends Error {}
  */
 function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) => void): Promise<AnalysisOutput> {
   return runJob({ ...job, output: "display" }, onStage, () => computeAnalysis(job, onStage));
+}
+
+/** An uploaded file read and checked (and encoded for storage) off the web server's thread, like an analysis. */
+export function parseUploadOffThread(job: UploadParseJob): Promise<UploadParseOutput> {
+  return runJob(job, () => {}, () => parseUploadedFile(job), PARSE_TIME_LIMIT_MS);
 }
 
 /** Full-resolution engine grids of a stored pick set (exports), computed off the web server's thread like an analysis. */
@@ -106,7 +112,10 @@ function discardIdle(worker: Worker) {
   if (index >= 0) idleWorkers.splice(index, 1);
 }
 
-function runJob<T>(job: AnalysisJob, onStage: (stage: string, fraction: number) => void, inline: () => T): Promise<T> {
+/** reading the largest allowed file takes seconds; the analysis time limit (SLIPFIELD_ANALYSIS_TIMEOUT_MS) is not meant for it */
+const PARSE_TIME_LIMIT_MS = 5 * 60_000;
+
+function runJob<T>(job: AnalysisJob | UploadParseJob, onStage: (stage: string, fraction: number) => void, inline: () => T, limitMs = timeLimitMs()): Promise<T> {
   if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
     return new Promise((resolve, reject) => setImmediate(() => {
       try {
@@ -118,12 +127,11 @@ function runJob<T>(job: AnalysisJob, onStage: (stage: string, fraction: number) 
   }
   return new Promise((resolve, reject) => {
     const worker = takeWorker();
-    const limitMs = timeLimitMs();
     let settled = false;
-    const onMessage = (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string }) => {
+    const onMessage = (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string; problem?: Pick<UploadProblem, "status" | "details"> }) => {
       if (message.kind === "stage") onStage(message.stage!, message.fraction!);
       else if (message.kind === "done") finish(true, () => resolve(message.output!));
-      else if (message.kind === "failed") finish(true, () => reject(new Error(message.message)));
+      else if (message.kind === "failed") finish(true, () => reject(message.problem ? new UploadProblem(message.problem.status, message.message!, message.problem.details) : new Error(message.message)));
     };
     const onError = (error: Error) => finish(false, () => reject(error));
     const onExit = (code: number) => finish(false, () => reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`)));

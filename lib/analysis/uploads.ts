@@ -7,13 +7,11 @@ import { analyses, pickSets, segments } from "@/db/schema";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
-import { parsePickCsv } from "@/lib/engine/csv";
-import type { ParseResult, RejectedRow } from "@/lib/engine/types";
-import { encodePicks } from "@/lib/picks/codec";
-import { scheduleAnalysis } from "./runner";
+import { parseUploadOffThread, scheduleAnalysis } from "./runner";
+import { checkUploadSize, UploadProblem, type UploadParseOutput } from "./upload-parse";
 
-export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
-export const MAX_ROWS = 2_000_000;
+export { MAX_ROWS, MAX_UPLOAD_BYTES } from "./upload-parse";
+
 const PREVIEW_ROWS = 20;
 export const PROBLEM_PAGE_SIZE = 50;
 
@@ -36,32 +34,13 @@ function checksumOf(bytes: Uint8Array) {
   return createHash("sha256").update(bytes).digest("hex");
 }
 
-function decodeText(file: UploadedFile): string {
+/** The file read in the worker pool (lib/analysis/upload-parse.ts); its problems come back as API errors. */
+async function parseUpload(file: UploadedFile, options: UploadOptions, encode = false): Promise<UploadParseOutput> {
   try {
-    return new TextDecoder("utf-8", { fatal: true }).decode(file.bytes).replace(/^\uFEFF/, "");
-  } catch {
-    throw new ApiError(400, `${file.name} is not a UTF-8 text file. Save it as CSV (UTF-8) and try again.`);
-  }
-}
-
-function countRows(text: string) {
-  let rows = 0;
-  for (let index = 0; index < text.length; index++) if (text.charCodeAt(index) === 10) rows++;
-  return rows;
-}
-
-function parseUpload(file: UploadedFile, options: UploadOptions): ParseResult {
-  if (file.bytes.byteLength === 0) throw new ApiError(400, `${file.name} is empty.`);
-  if (file.bytes.byteLength > MAX_UPLOAD_BYTES) throw new ApiError(413, `${file.name} is larger than the 100 MB limit.`);
-  const text = decodeText(file);
-  if (countRows(text) > MAX_ROWS + 1) throw new ApiError(413, `${file.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
-  try {
-    return parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows });
+    checkUploadSize(file.name, file.bytes);
+    return await parseUploadOffThread({ output: "parse", name: file.name, bytes: file.bytes, units: options.units, dropBadRows: options.dropBadRows, encode });
   } catch (error) {
-    const rejected = (error as { rejected?: RejectedRow[] }).rejected;
-    if (Array.isArray(rejected) || error instanceof Error) {
-      throw new ApiError(422, error instanceof Error ? error.message : "The picks cannot be used.", { rejected: rejected ?? [] });
-    }
+    if (error instanceof UploadProblem) throw new ApiError(error.status, error.message, error.details);
     throw error;
   }
 }
@@ -69,7 +48,7 @@ function parseUpload(file: UploadedFile, options: UploadOptions): ParseResult {
 /** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
 export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
   // The preview always lists every problem row next to the usable picks; the choice to drop them is made on confirm.
-  const parsed = parseUpload(file, { ...options, dropBadRows: true });
+  const { parsed } = await parseUpload(file, { ...options, dropBadRows: true });
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const sameFile = await db.query.pickSets.findFirst({
@@ -110,7 +89,7 @@ export async function previewUpload(access: StudyAccess & { faultId: string }, f
 
 /** Saves the pick set, its segments and a queued analysis in one transaction, then starts the analysis. */
 export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
-  const parsed = parseUpload(file, options);
+  const { parsed, encoded } = await parseUpload(file, options, true);
   if (parsed.rejected.length > 0 && !options.dropBadRows) {
     throw new ApiError(422, `${parsed.rejected.length}${parsed.rejectedTruncated ? "+" : ""} rows have problems. Fix them, or choose to drop the bad rows.`, {
       rejected: parsed.rejected.slice(0, PROBLEM_PAGE_SIZE),
@@ -136,7 +115,7 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
         units: options.units,
         segmentNames: parsed.picks.segmentNames,
         horizonNames: parsed.picks.horizonNames,
-        picks: encodePicks(parsed.picks),
+        picks: encoded!,
         uploadedBy: access.user.id,
       })
       .returning({ id: pickSets.id, version: pickSets.version });

@@ -5,6 +5,7 @@ import { readlinkSync } from "node:fs";
 import os from "node:os";
 import { parentPort, workerData } from "node:worker_threads";
 import { computeAnalysis, computeFullResolution, type AnalysisJob } from "./compute";
+import { parseUploadedFile, UploadProblem, type UploadParseJob } from "./upload-parse";
 import { serveTipLineFits, threadedTipLineFitter } from "./tipline-thread";
 
 /**
@@ -26,18 +27,22 @@ if (!serveTipLineFits(workerData)) serveAnalysisJobs();
 
 function serveAnalysisJobs() {
   const { fitter: tipLineFitter } = threadedTipLineFitter(new URL(import.meta.url));
-  parentPort!.on("message", (job: AnalysisJob) => runJob(job, tipLineFitter));
+  parentPort!.on("message", (job: AnalysisJob | UploadParseJob) => runJob(job, tipLineFitter));
 }
 
-function runJob(job: AnalysisJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
+function runJob(job: AnalysisJob | UploadParseJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
   try {
-    if (job.output === "grids") {
+    if (job.output === "parse") {
+      const output = parseUploadedFile(job);
+      parentPort!.postMessage({ kind: "done", output }, output.encoded ? [output.encoded.buffer as ArrayBuffer] : []);
+    } else if (job.output === "grids") {
       parentPort!.postMessage({ kind: "done", output: computeFullResolution(job, { tipLineFitter }) });
     } else {
       const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }), { tipLineFitter });
       parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
     }
   } catch (error) {
-    parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error) });
+    const problem = error instanceof UploadProblem ? { status: error.status, details: error.details } : undefined;
+    parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error), problem });
   }
 }

@@ -8,8 +8,9 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, pickSets } from "@/db/schema";
 import { confirmUpload } from "@/lib/analysis/uploads";
-import { analysisWorkerCounts, computeGridsOffThread, runAnalysis } from "@/lib/analysis/runner";
+import { analysisWorkerCounts, computeGridsOffThread, parseUploadOffThread, runAnalysis } from "@/lib/analysis/runner";
 import { computeFullResolution } from "@/lib/analysis/compute";
+import { parseUploadedFile, UploadProblem } from "@/lib/analysis/upload-parse";
 import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
@@ -50,6 +51,22 @@ describe("analyses in the worker thread", () => {
     expect(offThread.report).toEqual(inProcess.report);
     const segment = inProcess.report.segments[0].id;
     expect(Array.from(offThread.grids[segment].displacementM)).toEqual(Array.from(inProcess.grids[segment].displacementM));
+  });
+
+  // basis: common practice, no source (the same pure parse, run in another thread, gives the same columns and errors)
+  it("reads an uploaded file off the main thread: the same picks and encoding, and row-level problems as a 422", async () => {
+    const bytes = new TextEncoder().encode(demoCsv("QG-4"));
+    const job = { output: "parse" as const, name: "qg-4.csv", bytes, units: "m" as const, dropBadRows: false, encode: true };
+    const offThread = await parseUploadOffThread(job);
+    const inProcess = parseUploadedFile(job);
+    expect(offThread.parsed.accepted).toBe(inProcess.parsed.accepted);
+    expect(Array.from(offThread.parsed.picks.throwM)).toEqual(Array.from(inProcess.parsed.picks.throwM));
+    expect(Buffer.from(offThread.encoded!).equals(Buffer.from(inProcess.encoded!))).toBe(true);
+    const bad = new TextEncoder().encode("x,y,z,throw\n1,2,3,4\n5,six,7,8\n9,10,11,-2\n");
+    const refused = await parseUploadOffThread({ ...job, bytes: bad }).catch((error: unknown) => error);
+    expect(refused).toBeInstanceOf(UploadProblem);
+    expect((refused as UploadProblem).status).toBe(422);
+    expect((refused as UploadProblem).details?.rejected.map((row) => row.row)).toEqual([3, 4]);
   });
 
   it("keeps one warm worker thread for the next job instead of starting a thread per analysis", async () => {

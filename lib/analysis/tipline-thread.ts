@@ -13,7 +13,9 @@ interface HelperData {
   signal: SharedArrayBuffer;
 }
 
-type Reply = { fits: ModelFit[] } | { error: string };
+/** Each request carries a number, so a reply nobody waited for (a job that failed between start and wait) is skipped. */
+type Request = { id: number; inputs: TipLineFitInputs };
+type Reply = { id: number } & ({ fits: ModelFit[] } | { error: string });
 
 /**
  * Longest waits before the fits are done in this thread instead: for a helper that never came up (its error event
@@ -21,7 +23,7 @@ type Reply = { fits: ModelFit[] } | { error: string };
  */
 const START_LIMIT_MS = 5_000;
 const WAIT_LIMIT_MS = 120_000;
-// the shared flags: [0] a reply is waiting, [1] the helper is up and serving
+// the shared words: [0] replies sent so far (the waiting thread sleeps until it changes), [1] the helper is serving
 const REPLIED = 0;
 const SERVING = 1;
 
@@ -34,6 +36,7 @@ export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFit
   let broken = false;
   let onHelper = 0;
   let inThisThread = 0;
+  let requests = 0;
   const inline: TipLineFitter = (inputs) => {
     inThisThread++;
     return inlineTipLineFitter(inputs);
@@ -58,15 +61,17 @@ export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFit
       return inline(inputs);
     }
     const { port, signal } = helper;
-    Atomics.store(signal, REPLIED, 0);
-    port.postMessage(inputs);
+    const id = ++requests;
+    port.postMessage({ id, inputs } satisfies Request);
     return () => {
       const startedWaiting = Date.now();
       const until = startedWaiting + WAIT_LIMIT_MS;
       for (;;) {
+        const repliesSoFar = Atomics.load(signal, REPLIED);
         const received = receiveMessageOnPort(port);
         if (received) {
           const reply = received.message as Reply;
+          if (reply.id !== id) continue;
           if ("error" in reply) throw new Error(reply.error);
           onHelper++;
           return reply.fits;
@@ -77,7 +82,7 @@ export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFit
           inThisThread++;
           return fitTipLineModels(inputs);
         }
-        Atomics.wait(signal, REPLIED, 0, 200);
+        Atomics.wait(signal, REPLIED, repliesSoFar, 200);
       }
     };
   };
@@ -98,15 +103,15 @@ export function serveTipLineFits(data: unknown): boolean {
   const signal = new Int32Array(helper.signal);
   Atomics.store(signal, SERVING, 1);
   Atomics.notify(signal, REPLIED);
-  helper.port.on("message", (inputs: TipLineFitInputs) => {
+  helper.port.on("message", ({ id, inputs }: Request) => {
     let reply: Reply;
     try {
-      reply = { fits: fitTipLineModels(inputs) };
+      reply = { id, fits: fitTipLineModels(inputs) };
     } catch (error) {
-      reply = { error: error instanceof Error ? error.message : String(error) };
+      reply = { id, error: error instanceof Error ? error.message : String(error) };
     }
     helper.port.postMessage(reply);
-    Atomics.store(signal, REPLIED, 1);
+    Atomics.add(signal, REPLIED, 1);
     Atomics.notify(signal, REPLIED);
   });
   return true;

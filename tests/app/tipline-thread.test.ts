@@ -3,6 +3,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { threadedTipLineFitter } from "@/lib/analysis/tipline-thread";
 import { analyzeCsv } from "@/lib/engine/pipeline";
+import { fitTipLineModels, tipLineFitInputs } from "@/lib/engine/tipline";
 import { generateSyntheticPicks, toCsv } from "@/lib/engine/synthetic";
 import { demoCsv } from "@/lib/demo";
 
@@ -25,6 +26,17 @@ describe("tip-line fits on a helper thread", () => {
       expect(helper.counts().onHelper - before).toBe(inline.report.segments.length);
     }
     expect(helper.counts().inThisThread).toBe(0);
+  });
+
+  it("answers each wait with its own fits, skipping the reply to a start nobody waited for (a job that failed midway)", () => {
+    const inputsFor = (halfLengthM: number, seed: number) => {
+      const { picks } = generateSyntheticPicks({ seed, pickCount: 3000, halfLengthM, dmaxM: 60, throwCutoffM: 0, noiseM: 1 });
+      return tipLineFitInputs(picks.x, picks.y, picks.throwM);
+    };
+    const abandoned = inputsFor(2000, 7);
+    const wanted = inputsFor(3500, 8);
+    helper.fitter(abandoned);
+    expect(helper.fitter(wanted)()).toEqual(fitTipLineModels(wanted));
   });
 
   it("falls back to fitting in this thread when the helper cannot start", () => {

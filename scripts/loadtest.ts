@@ -2,6 +2,7 @@
 //   LOADTEST_SECONDS (60)      length of the measured window
 //   LOADTEST_CONNECTIONS (50)  concurrent connections (each a loop: send, wait for the answer, send the next)
 //   LOADTEST_SIGNUPS (8)       users created through the sign-up form, beside the four demo accounts
+//   LOADTEST_BIG_UPLOADS (2)   10⁵-pick files uploaded and analysed during the window (0: the same load without analyses)
 //   LOADTEST_RATE (0)          0: each connection sends its next request as soon as the answer is in (closed loop, the
 //                              default); N > 0: the connections together offer N requests/s on a fixed schedule, and a
 //                              latency counts from the scheduled send time (a late answer delays nothing unmeasured)
@@ -28,6 +29,7 @@ const SECONDS = Number(process.env.LOADTEST_SECONDS ?? 60);
 const CONNECTIONS = Number(process.env.LOADTEST_CONNECTIONS ?? 50);
 const SIGNUPS = Number(process.env.LOADTEST_SIGNUPS ?? 8);
 const RATE = Number(process.env.LOADTEST_RATE ?? 0);
+const BIG_UPLOADS = Number(process.env.LOADTEST_BIG_UPLOADS ?? 2);
 const PIN_BUDGET = 38; // the product allows 40 pins + replies per person per 10 minutes (lib/pins/service.ts)
 
 // Node's fetch keeps connections alive and opens one per request in flight: CONNECTIONS loops = CONNECTIONS connections.
@@ -128,7 +130,7 @@ async function main() {
     log(`${actors.length} users signed in (${DEMO_ACCOUNTS.length} demo accounts, ${SIGNUPS} created through the sign-up form)`);
 
     // two 10⁵-pick files, uploaded through the real upload API during the window
-    const bigFiles = await Promise.all([syntheticPickCsv(100_000, 101), syntheticPickCsv(100_000, 202)]);
+    const bigFiles = await Promise.all(Array.from({ length: BIG_UPLOADS }, (_, index) => syntheticPickCsv(100_000, 101 * (index + 1))));
 
     // ---- the measured window ----------------------------------------------------------------------------------
     const samples: Sample[] = [];
@@ -211,7 +213,7 @@ async function main() {
       }
     };
 
-    // the two analyses: uploaded by the interpreter to the two demo faults a few seconds into the window
+    // the analyses (two by default): uploaded by the interpreter to the two demo faults a few seconds into the window
     const interpreter = actors[1];
     const analysisRuns = (async () => {
       await new Promise((resolve) => setTimeout(resolve, Math.min(5000, (SECONDS * 1000) / 10)));
@@ -289,7 +291,7 @@ async function main() {
     for (const name of [...new Set(samples.map((sample) => sample.name))].sort()) describe(`· ${name}`, samples.filter((sample) => sample.name === name));
 
     console.log("");
-    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
     console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
     console.log(table.join("\n"));
     console.log("");

@@ -10,6 +10,7 @@ import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import type { PinList, PinView, ReplyView } from "@/lib/pins/service";
 import { useAnnotationStore } from "@/scene/annotationStore";
 import { DEFAULT_FOV_DEG, useCameraStore } from "@/scene/cameraStore";
+import { MentionTextarea, type Mentionable } from "./MentionTextarea";
 import { PinText } from "./PinText";
 
 const COMMENT_ROLES: readonly StudyRole[] = ["owner", "interpreter", "reviewer"];
@@ -170,6 +171,7 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
             unread={unreadSeen.has(pin.id)}
             currentPickSetVersion={currentPickSetVersion}
             editWindowMinutes={pins.data?.editWindowMinutes ?? 15}
+            mentionable={pins.data?.mentionable ?? []}
             onSelect={() => {
               setSelected((current) => (current === pin.id ? null : pin.id));
               flyToPin(pin);
@@ -187,11 +189,11 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
   );
 }
 
-function MentionHint({ mentionable }: { mentionable: { name: string; handle: string }[] }) {
+function MentionHint({ mentionable }: { mentionable: Mentionable[] }) {
   if (mentionable.length === 0) return null;
   return (
     <p className="text-xs text-slate-500">
-      **bold**, `code`, links. Mention with {mentionable.slice(0, 6).map((person, index) => (
+      **bold**, `code`, links. Type @ to mention someone: {mentionable.slice(0, 6).map((person, index) => (
         <span key={person.handle}>{index > 0 && ", "}<span className="font-mono" title={person.name}>@{person.handle}</span></span>
       ))}.
     </p>
@@ -201,7 +203,7 @@ function MentionHint({ mentionable }: { mentionable: { name: string; handle: str
 function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
   faultId: string;
   hit: { x: number; y: number; z: number; s: number; t: number; segmentId: string };
-  mentionable: { name: string; handle: string }[];
+  mentionable: Mentionable[];
   onDone: (pinId: string | null) => void;
   onSaved: () => void;
 }) {
@@ -242,7 +244,7 @@ function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
         New note on segment <span className="font-medium">{hit.segmentId}</span> at along-strike <span className="num">{Math.round(hit.s)} m</span>, down-dip <span className="num">{Math.round(hit.t)} m</span>
       </p>
       <label className="label" htmlFor="pin-body">Note</label>
-      <textarea id="pin-body" className="field min-h-[84px]" value={body} onChange={(event) => setBody(event.target.value)} maxLength={4000} autoFocus
+      <MentionTextarea id="pin-body" className="field min-h-[84px]" value={body} onValueChange={setBody} mentionable={mentionable} maxLength={4000} autoFocus
         placeholder="Throw jumps here — mis-pick?" data-testid="pin-body-input" />
       <MentionHint mentionable={mentionable} />
       {create.isError && <p className="field-error" role="alert" data-testid="pin-form-error">{errorText(create.error)}</p>}
@@ -254,8 +256,9 @@ function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
   );
 }
 
-function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWindowMinutes, onSelect, onChanged }: {
+function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWindowMinutes, mentionable, onSelect, onChanged }: {
   pin: PinView;
+  mentionable: Mentionable[];
   faultId: string;
   expanded: boolean;
   unread: boolean;
@@ -345,7 +348,7 @@ function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWi
               <ReplyItem key={reply.id} reply={reply} pinId={pin.id} editWindowMinutes={editWindowMinutes} onChanged={onChanged} />
             ))}
           </ol>
-          {pin.can.reply && <ReplyBox pinId={pin.id} faultId={faultId} onChanged={onChanged} />}
+          {pin.can.reply && <ReplyBox pinId={pin.id} faultId={faultId} mentionable={mentionable} onChanged={onChanged} />}
         </div>
       )}
     </li>
@@ -393,7 +396,7 @@ function ReplyItem({ reply, pinId, editWindowMinutes, onChanged }: { reply: Repl
   );
 }
 
-function ReplyBox({ pinId, faultId, onChanged }: { pinId: string; faultId: string; onChanged: () => void }) {
+function ReplyBox({ pinId, faultId, mentionable, onChanged }: { pinId: string; faultId: string; mentionable: Mentionable[]; onChanged: () => void }) {
   const [body, setBody] = useState("");
   const queryClient = useQueryClient();
   const key = ["pins", faultId];
@@ -421,7 +424,7 @@ function ReplyBox({ pinId, faultId, onChanged }: { pinId: string; faultId: strin
   return (
     <form className="space-y-1" onSubmit={(event) => { event.preventDefault(); if (body.trim()) send.mutate(body); }}>
       <label className="sr-only" htmlFor={`reply-${pinId}`}>Reply</label>
-      <textarea id={`reply-${pinId}`} className="field min-h-[56px]" placeholder="Reply… (@ to mention)" value={body} onChange={(event) => setBody(event.target.value)} maxLength={4000} data-testid="reply-input" />
+      <MentionTextarea id={`reply-${pinId}`} className="field min-h-[56px]" placeholder="Reply… (@ to mention)" value={body} onValueChange={setBody} mentionable={mentionable} maxLength={4000} data-testid="reply-input" />
       {send.isError && <p className="field-error mt-0" role="alert" data-testid="reply-error">{errorText(send.error)}</p>}
       <button className="btn-primary py-1.5" disabled={send.isPending || body.trim() === ""} data-testid="reply-send">{send.isPending ? "Sending…" : "Reply"}</button>
     </form>

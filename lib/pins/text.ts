@@ -146,3 +146,22 @@ export function pinTextToHtml(text: string): string {
     .map((line) => line.map(inlineHtml).join(""))
     .join("<br>");
 }
+
+export interface Mentionable {
+  name: string;
+  handle: string;
+}
+
+/** The "@partial" right before the caret while a mention is being typed (read as MENTION reads it), else null. */
+export function mentionBeforeCaret(text: string, caret: number): { start: number; query: string } | null {
+  const match = /(^|[^\w.@])@([\w.-]*)$/.exec(text.slice(0, caret));
+  if (!match) return null;
+  return { start: caret - match[2].length - 1, query: match[2].toLowerCase() };
+}
+
+/** People whose handle, or a word of whose name, starts with the query: handles first, at most six. */
+export function mentionSuggestions(people: Mentionable[], query: string): Mentionable[] {
+  const byHandle = people.filter((person) => person.handle.toLowerCase().startsWith(query));
+  const byName = people.filter((person) => !byHandle.includes(person) && person.name.toLowerCase().split(/\s+/).some((word) => word.startsWith(query)));
+  return [...byHandle, ...byName].slice(0, 6);
+}

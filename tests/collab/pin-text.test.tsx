@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { renderToStaticMarkup } from "react-dom/server";
-import { parseMentions, pinTextToHtml, renderPinText, resolveMentions, safeHref, type Inline } from "@/lib/pins/text";
+import { mentionBeforeCaret, mentionSuggestions, parseMentions, pinTextToHtml, renderPinText, resolveMentions, safeHref, type Inline } from "@/lib/pins/text";
 import { PinText } from "@/components/collab/PinText";
 
 const members = [
@@ -135,5 +135,30 @@ describe("safe rendering: no HTML injection", () => {
     expect(html).toContain("<strong>a</strong>");
     expect(html).toMatch(/<code[^>]*>b<\/code>/);
     expect(html).toMatch(/<a href="https:\/\/example.org\/" [^>]*rel="noopener noreferrer nofollow"/);
+  });
+});
+
+// basis: common practice, no source (the box offers people while the text before the caret ends in an @mention)
+describe("mention suggestions while typing", () => {
+  const people = [
+    { name: "Ada Nwosu", handle: "reviewer" },
+    { name: "Tomas Iverson", handle: "interpreter" },
+    { name: "Ines Ortega", handle: "owner" },
+  ];
+
+  it("finds the mention being typed right before the caret, as the server reads mentions", () => {
+    expect(mentionBeforeCaret("check @inter", 12)).toEqual({ start: 6, query: "inter" });
+    expect(mentionBeforeCaret("@", 1)).toEqual({ start: 0, query: "" });
+    expect(mentionBeforeCaret("(@Ow", 4)).toEqual({ start: 1, query: "ow" });
+    expect(mentionBeforeCaret("mail ana@quillon", 16)).toBeNull();
+    expect(mentionBeforeCaret("@inter done", 11)).toBeNull();
+    expect(mentionBeforeCaret("@inter done", 6)).toEqual({ start: 0, query: "inter" });
+  });
+
+  it("offers handles first, then people whose name has a word starting with the query", () => {
+    expect(mentionSuggestions(people, "in").map((person) => person.handle)).toEqual(["interpreter", "owner"]);
+    expect(mentionSuggestions(people, "").map((person) => person.handle)).toEqual(["reviewer", "interpreter", "owner"]);
+    expect(mentionSuggestions(people, "nw").map((person) => person.handle)).toEqual(["reviewer"]);
+    expect(mentionSuggestions(people, "zz")).toEqual([]);
   });
 });

@@ -42,7 +42,15 @@ test("a reviewer pins a note on the surface, the interpreter gets the e-mail, re
   await reviewer.getByTestId("pin-a-note").click();
   await expect(reviewer.getByTestId("pin-placing-hint")).toBeVisible();
   await clickSurfaceNearCentre(reviewer);
-  await reviewer.getByTestId("pin-body-input").fill(note);
+  // typed as a person would: the @mention is chosen from the offered people
+  const input = reviewer.getByTestId("pin-body-input");
+  await input.fill(`Throw jumps here (${tag}): mis-pick? `);
+  await input.pressSequentially("@inter");
+  await expect(reviewer.getByTestId("mention-option").first()).toContainText("@interpreter");
+  await input.press("Enter");
+  await expect(reviewer.getByTestId("mention-list")).toHaveCount(0);
+  await input.pressSequentially("please check **this** ramp");
+  await expect(input).toHaveValue(note);
   await reviewer.getByTestId("pin-save").click();
   const reviewersPin = reviewer.getByTestId("pin-item").filter({ hasText: tag });
   await expect(reviewersPin).toHaveCount(1);

@@ -1,6 +1,6 @@
 // A second thread for the tip-line profile fits, so they overlap with gridding and contouring (see TipLineFitter in
 // lib/engine/pipeline.ts). The pipeline stays synchronous: the fits are posted to the helper thread, and the wait for
-// their result blocks on a shared flag (Atomics.wait) and takes the reply with receiveMessageOnPort.
+// their result blocks on a shared reply counter (Atomics.wait) and takes the reply with receiveMessageOnPort.
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from "node:worker_threads";
 import { fitTipLineModels, type ModelFit, type TipLineFitInputs } from "@/lib/engine/tipline";
 import { inlineTipLineFitter, type TipLineFitter } from "@/lib/engine/pipeline";

@@ -120,15 +120,6 @@ function subsample(s: ArrayLike<number>, t: ArrayLike<number>): Uint32Array {
   return out.slice(0, count);
 }
 
-/**
- * Fit D(s, t) = Dmax · f(r), r = sqrt(((s − sc)/a)² + ((t − tc)/b)²), to the picks: an elliptical tip line with
- * axes along strike and down dip (Barnett et al. 1987). Dmax is solved in closed form for each geometry; centre
- * and semi-axes by Nelder–Mead on log axes.
- */
-export function fitProfileModel(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, model: ProfileModel, censoring?: CensoringInfo, noiseM?: number): ModelFit {
-  return refineProfileFit(leastSquaresFit(sampleForFit(s, t, d), model), censoring, noiseM);
-}
-
 /** The picks the profile fits use (at most MAX_FIT_POINTS, see subsample). */
 interface FitSample {
   ss: Float64Array;
@@ -148,7 +139,7 @@ function sampleForFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<n
   return { ss, tt, dd };
 }
 
-/** The least-squares stage of fitProfileModel, kept so a censored refinement can start from it without refitting. */
+/** A least-squares fit with what a censored refinement needs to start from it without refitting. */
 interface LeastSquaresFit {
   fit: ModelFit;
   model: ProfileModel;
@@ -161,6 +152,11 @@ interface LeastSquaresFit {
   maxD: number;
 }
 
+/**
+ * Fit D(s, t) = Dmax · f(r), r = sqrt(((s − sc)/a)² + ((t − tc)/b)²), to the picks: an elliptical tip line with
+ * axes along strike and down dip (Barnett et al. 1987). Dmax is solved in closed form for each geometry; centre
+ * and semi-axes by Nelder–Mead on log axes.
+ */
 function leastSquaresFit(sample: FitSample, model: ProfileModel): LeastSquaresFit {
   const f = PROFILE_FUNCTIONS[model];
   const { ss, tt, dd } = sample;
@@ -357,11 +353,6 @@ export function ellipsePolygon(centre: { s: number; t: number }, semiAxes: { sM:
 
 export const CANDIDATE_MODELS: ProfileModel[] = ["walsh-watterson-1989", "elliptical-crack"];
 
-/**
- * The inferred tip line: where displacement reaches zero beyond the last picks. Each published profile is fitted
- * and the one with least misfit is kept; uncertainty is half the largest difference between the chosen tip line
- * and the near-tip gradient extrapolation.
- */
 export interface TipLineOptions {
   /** the data outline (mapped limit) in (s, t); enables the censored fit */
   outline?: [number, number][];
@@ -403,11 +394,11 @@ export function fitTipLineModels(inputs: TipLineFitInputs): ModelFit[] {
   });
 }
 
-export function inferTipLine(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, options: TipLineOptions = {}): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
-  return tipLineFromFits(s, t, d, frame, fitTipLineModels(tipLineFitInputs(s, t, d, options)));
-}
-
-/** The tip line from the fitted candidates: the best-scoring profile, near-tip gradients and the uncertainty. */
+/**
+ * The inferred tip line: where displacement reaches zero beyond the last picks, from the fitted candidates
+ * (fitTipLineModels). The profile with least misfit is kept; uncertainty is half the largest difference between the
+ * chosen tip line and the near-tip gradient extrapolation.
+ */
 export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, fits: ModelFit[]): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
   const score = (f: ModelFit) => f.negLogLikelihood ?? f.rmsM;
   let best = fits[0];

@@ -6,6 +6,7 @@ import { existsSync } from "node:fs";
 import path from "node:path";
 import { Worker } from "node:worker_threads";
 import { ENGINE_VERSION, type PipelineResult } from "@/lib/engine/pipeline";
+import { lruCache } from "@/lib/lru";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
 import { parseUploadedFile, UploadProblem, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
@@ -64,6 +65,12 @@ export function computeGridsOffThread(job: AnalysisJob): Promise<PipelineResult>
 const idleWorkers: Worker[] = [];
 const IDLE_CLOSE_MS = 5 * 60_000;
 const idleTimers = new WeakMap<Worker, NodeJS.Timeout>();
+let workerStarts = 0;
+/**
+ * A larger young generation than V8's default: the engine makes many short-lived arrays (contour rings, fit vectors),
+ * and fewer scavenges measured 10–20 % faster warm analyses (bench/pipeline.ts runs with the same setting).
+ */
+export const YOUNG_GENERATION_MB = 96;
 
 function takeWorker(): Worker {
   const warm = idleWorkers.pop();
@@ -79,15 +86,8 @@ function takeWorker(): Worker {
   worker.on("exit", () => discardIdle(worker));
   return worker;
 }
-let workerStarts = 0;
-/**
- * A larger young generation than V8's default: the engine makes many short-lived arrays (contour
- * rings, fit vectors), and fewer scavenges measured 10–20 % faster warm analyses (bench/pipeline.ts, which runs with
- * the same setting).
- */
-export const YOUNG_GENERATION_MB = 96;
 
-/** How many worker threads were started so far and how many wait warm (for tests and the load test's report). */
+/** How many worker threads were started so far and how many wait warm (for tests). */
 export function analysisWorkerCounts() {
   return { started: workerStarts, idle: idleWorkers.length };
 }
@@ -209,24 +209,6 @@ export async function resumeUnfinishedAnalyses() {
  * more than the rest of the request (measured with `npm run loadtest` and a CPU profile). Keys carry the fault id, so
  * a cached value is only ever served for the fault it belongs to.
  */
-function lruCache<V>(limit: number) {
-  const entries = new Map<string, V>();
-  return {
-    get(key: string) {
-      const value = entries.get(key);
-      if (value !== undefined) {
-        entries.delete(key);
-        entries.set(key, value);
-      }
-      return value;
-    },
-    set(key: string, value: V) {
-      entries.delete(key);
-      entries.set(key, value);
-      if (entries.size > limit) entries.delete(entries.keys().next().value!);
-    },
-  };
-}
 const finishedReports = lruCache<unknown>(64);
 /** whole response bodies of finished analyses, serialised once (re-serialising a large report costs more than the rest of a poll) */
 const finishedReportBodies = lruCache<string>(64);

@@ -1,5 +1,6 @@
 import "server-only";
 import { cookies } from "next/headers";
+import { lruCache } from "@/lib/lru";
 import { auth } from "./index";
 import type { SessionUser } from "./users";
 
@@ -13,7 +14,7 @@ import type { SessionUser } from "./users";
  */
 const REMEMBER_MS = 60_000;
 const MAX_REMEMBERED = 5_000;
-const remembered = new Map<string, { user: SessionUser; until: number }>();
+const remembered = lruCache<{ user: SessionUser; until: number }>(MAX_REMEMBERED);
 
 /** The session cookie(s) of this request (next-auth splits a large token into name.0, name.1, …), or "" if none. */
 async function sessionCookieKey(): Promise<string> {
@@ -39,6 +40,5 @@ export async function getSessionUser(): Promise<SessionUser | null> {
   if (!user?.id || !user.email) return null;
   const found: SessionUser = { id: user.id, email: user.email, name: user.name ?? user.email };
   remembered.set(key, { user: found, until: now + REMEMBER_MS });
-  if (remembered.size > MAX_REMEMBERED) remembered.delete(remembered.keys().next().value!);
   return found;
 }

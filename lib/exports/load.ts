@@ -7,6 +7,7 @@ import type { PipelineResult } from "@/lib/engine/pipeline";
 import { computeGridsOffThread } from "@/lib/analysis/runner";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
+import { lruCache } from "@/lib/lru";
 import { faultScalingPoint, type FaultScalingPoint } from "@/lib/views/scaling";
 
 export interface ExportSource {
@@ -81,8 +82,7 @@ async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
 }
 
 // Recomputing full-resolution grids costs seconds on large pick sets; keep the last few per analysis id.
-const recomputed = new Map<string, { picks: PickColumns; result: PipelineResult }>();
-const RECOMPUTED_KEEP = 2;
+const recomputed = lruCache<{ picks: PickColumns; result: PipelineResult }>(2);
 
 /** Full-resolution engine grids for an analysis, recomputed from the stored picks with the analysis' own parameters. */
 export async function recomputeFullResolution(source: ExportSource): Promise<{ picks: PickColumns; result: PipelineResult }> {
@@ -94,7 +94,6 @@ export async function recomputeFullResolution(source: ExportSource): Promise<{ p
   const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
   const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
-  while (recomputed.size > RECOMPUTED_KEEP) recomputed.delete(recomputed.keys().next().value!);
   return { picks, result };
 }
 

@@ -11,7 +11,8 @@ export default defineConfig({
     include: ["tests/**/*.test.ts", "tests/**/*.test.tsx"],
     exclude: ["tests/e2e/**", "node_modules/**"],
     testTimeout: 30_000,
-    // Analyses run in-process from the sources under test; tests/app/worker.test.ts builds and exercises the worker.
+    globalSetup: ["tests/support/build-workers.ts"],
+    // Analyses run in-process from the sources under test; tests/app/worker.test.ts exercises the worker.
     env: { SLIPFIELD_INLINE_ANALYSIS: "1" },
     hookTimeout: 60_000,
     server: { deps: { inline: ["server-only"] } },

@@ -9,9 +9,9 @@ export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
 export interface DatabaseHandle {
   db: Database;
   kind: "pglite" | "postgres";
+  /** PGlite only: the database engine runs on its own thread (db/pglite-thread.ts) */
+  threaded: boolean;
   close: () => Promise<void>;
-  /** PGlite only: dump the data folder as a tarball */
-  dump?: () => Promise<Blob>;
 }
 
 const migrationsFolder = path.join(process.cwd(), "drizzle");
@@ -20,8 +20,11 @@ export function dataDirectory(): string {
   return path.resolve(/*turbopackIgnore: true*/ process.env.SLIPFIELD_DATA_DIR ?? path.join(process.cwd(), "data"));
 }
 
-/** Opens and migrates a database: PostgreSQL when `url` is given, else PGlite (on disk, or in memory for `memory`). */
-export async function openDatabase(options: { url?: string; memory?: boolean; dataDir?: string; loadDataDir?: Blob } = {}): Promise<DatabaseHandle> {
+/**
+ * Opens and migrates a database: PostgreSQL when `url` is given, else PGlite (on disk, or in memory for `memory`).
+ * PGlite runs on its own thread unless `thread` is false or SLIPFIELD_DB_THREAD=off.
+ */
+export async function openDatabase(options: { url?: string; memory?: boolean; dataDir?: string; thread?: boolean } = {}): Promise<DatabaseHandle> {
   if (options.url) {
     const { Pool } = await import("pg");
     const { drizzle } = await import("drizzle-orm/node-postgres");
@@ -29,28 +32,30 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     const pool = new Pool({ connectionString: options.url, max: 10 });
     const db = drizzle(pool, { schema });
     await migrate(db, { migrationsFolder });
-    return { db: db as unknown as Database, kind: "postgres", close: () => pool.end() };
+    return { db: db as unknown as Database, kind: "postgres", threaded: false, close: () => pool.end() };
   }
-  const { PGlite } = await import("@electric-sql/pglite");
   const { drizzle } = await import("drizzle-orm/pglite");
   const { migrate } = await import("drizzle-orm/pglite/migrator");
-  let client;
-  if (options.memory) {
-    client = new PGlite({ loadDataDir: options.loadDataDir });
-  } else {
-    const folder = options.dataDir ?? path.join(dataDirectory(), "pglite");
+  let folder: string | undefined;
+  if (!options.memory) {
+    folder = options.dataDir ?? path.join(dataDirectory(), "pglite");
     mkdirSync(path.dirname(folder), { recursive: true });
-    client = new PGlite(folder, { loadDataDir: options.loadDataDir });
   }
-  await client.waitReady;
-  const db = drizzle(client, { schema });
+  const threaded = (options.thread ?? true) && process.env.SLIPFIELD_DB_THREAD !== "off";
+  let client: { close: () => Promise<void> };
+  if (threaded) {
+    const { ThreadedPGlite } = await import("./pglite-thread");
+    client = await ThreadedPGlite.open(folder);
+  } else {
+    const { PGlite } = await import("@electric-sql/pglite");
+    const inProcess = new PGlite(folder);
+    await inProcess.waitReady;
+    client = inProcess;
+  }
+  // drizzle's PGlite driver uses only query/exec/transaction, which the threaded client provides
+  const db = drizzle({ client: client as unknown as import("@electric-sql/pglite").PGlite, schema });
   await migrate(db, { migrationsFolder });
-  return {
-    db: db as unknown as Database,
-    kind: "pglite",
-    close: () => client.close(),
-    dump: () => client.dumpDataDir("gzip") as Promise<Blob>,
-  };
+  return { db: db as unknown as Database, kind: "pglite", threaded, close: () => client.close() };
 }
 
 const globalForDb = globalThis as unknown as { slipfieldDb?: Promise<DatabaseHandle> };

@@ -10,7 +10,7 @@ export async function prepareServer() {
   const started = Date.now();
   try {
     if (!process.env.DATABASE_URL) claimDataFolder(dataDirectory());
-    const { db, kind } = await getDatabaseHandle();
+    const { db, kind, threaded } = await getDatabaseHandle();
     const [{ userCount }] = await db.select({ userCount: count() }).from(users);
     if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
       const { seedDemo } = await import("./seed");
@@ -20,7 +20,7 @@ export async function prepareServer() {
     const { resumeUnfinishedAnalyses } = await import("./analysis/runner");
     const resumed = await resumeUnfinishedAnalyses();
     if (resumed > 0) console.log(`slipfield: resumed ${resumed} unfinished analyses`);
-    console.log(`slipfield: database ready (${kind}) in ${Date.now() - started} ms`);
+    console.log(`slipfield: database ready (${kind}${threaded ? ", on its own thread" : ""}) in ${Date.now() - started} ms`);
   } catch (error) {
     const reason = error instanceof Error ? error.message : String(error);
     console.error(

@@ -1,4 +1,5 @@
-// Bundles the analysis engine into a standalone worker file, so analyses run off the web server's event loop.
+// Bundles the two worker-thread entries: the analysis engine (dist/analysis-worker.mjs), so analyses run off the web
+// server's event loop, and the database thread (dist/database-worker.mjs), which runs PGlite.
 import { build } from "esbuild";
 import path from "node:path";
 
@@ -14,4 +15,15 @@ await build({
   banner: { js: "import { createRequire } from 'node:module'; const require = createRequire(import.meta.url);" },
   logLevel: "warning",
 });
-console.log("slipfield: built dist/analysis-worker.mjs");
+await build({
+  entryPoints: [path.join(root, "db/pglite-thread-entry.ts")],
+  outfile: path.join(root, "dist/database-worker.mjs"),
+  bundle: true,
+  platform: "node",
+  format: "esm",
+  target: "node20",
+  // PGlite finds its .wasm and .data files next to its own module: load it from node_modules, not from the bundle
+  external: ["@electric-sql/pglite"],
+  logLevel: "warning",
+});
+console.log("slipfield: built dist/analysis-worker.mjs and dist/database-worker.mjs");

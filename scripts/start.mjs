@@ -50,9 +50,9 @@ function newestSourceTime() {
 }
 
 const buildId = path.join(root, ".next", "BUILD_ID");
-const workerFile = path.join(root, "dist", "analysis-worker.mjs");
+const workerFiles = ["analysis-worker.mjs", "database-worker.mjs"].map((file) => path.join(root, "dist", file));
 const needsBuild =
-  process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !existsSync(workerFile) || statSync(buildId).mtimeMs < newestSourceTime());
+  process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !workerFiles.every(existsSync) || statSync(buildId).mtimeMs < newestSourceTime());
 if (needsBuild) {
   console.log("slipfield: building the app (first start or sources changed)…");
   const worker = spawnSync(process.execPath, [path.join(root, "scripts/build-worker.mjs")], { cwd: root, stdio: "inherit" });

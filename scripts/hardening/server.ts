@@ -15,7 +15,7 @@ export const DEMO_ACCOUNTS = ["owner", "interpreter", "reviewer", "viewer"].map(
 export const DIST_DIR = process.env.SLIPFIELD_DIST_DIR || ".next";
 
 export function hasBuild() {
-  return existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) && existsSync(path.join(ROOT, "dist", "analysis-worker.mjs"));
+  return existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) && ["analysis-worker.mjs", "database-worker.mjs"].every((file) => existsSync(path.join(ROOT, "dist", file)));
 }
 
 /** Builds the app (worker + next build) when no build exists, like scripts/start.mjs does on first start. */

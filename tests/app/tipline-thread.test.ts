@@ -1,4 +1,3 @@
-import { execFileSync } from "node:child_process";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { threadedTipLineFitter } from "@/lib/analysis/tipline-thread";
@@ -11,7 +10,6 @@ import { demoCsv } from "@/lib/demo";
 describe("tip-line fits on a helper thread", () => {
   let helper: ReturnType<typeof threadedTipLineFitter>;
   beforeAll(() => {
-    execFileSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "ignore" });
     helper = threadedTipLineFitter(path.join(process.cwd(), "dist", "analysis-worker.mjs"));
   });
   afterAll(() => helper.close());

@@ -1,4 +1,3 @@
-import { execFileSync } from "node:child_process";
 import { readdirSync, readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 
@@ -18,7 +17,6 @@ import { studyWithEveryRole } from "../support/fixtures";
 describe("analyses in the worker thread", () => {
   let access: Parameters<typeof confirmUpload>[0];
   beforeAll(async () => {
-    execFileSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "ignore" });
     process.env.SLIPFIELD_INLINE_ANALYSIS = "0";
     await useFreshDatabase();
     const fixture = await studyWithEveryRole();

@@ -1,4 +1,3 @@
-import { execFileSync } from "node:child_process";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { signInAs } from "../support/session";
 
@@ -38,7 +37,6 @@ describe.each([
   let access: Parameters<typeof confirmUpload>[0];
 
   beforeAll(async () => {
-    if (inline === "0") execFileSync(process.execPath, ["scripts/build-worker.mjs"], { stdio: "ignore" });
     process.env.SLIPFIELD_INLINE_ANALYSIS = inline;
     await useFreshDatabase();
     fixture = await studyWithEveryRole();

@@ -48,7 +48,8 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     client = await ThreadedPGlite.open(folder);
   } else {
     const { PGlite } = await import("@electric-sql/pglite");
-    const inProcess = new PGlite(folder);
+    const { pgliteOptions } = await import("./pglite-options");
+    const inProcess = new PGlite(folder, pgliteOptions);
     await inProcess.waitReady;
     client = inProcess;
   }

@@ -4,6 +4,7 @@
 // exactly as it would in the server's own thread.
 import { parentPort, workerData } from "node:worker_threads";
 import { PGlite, type QueryOptions, type Transaction } from "@electric-sql/pglite";
+import { pgliteOptions } from "./pglite-options";
 import { errorToData, type DatabaseReply, type DatabaseRequest, type DatabaseThreadData } from "./pglite-thread-protocol";
 
 const port = parentPort!;
@@ -85,7 +86,7 @@ async function handle(pg: PGlite, request: DatabaseRequest): Promise<unknown> {
 async function main() {
   let pg: PGlite;
   try {
-    pg = new PGlite(dataDir);
+    pg = new PGlite(dataDir, pgliteOptions);
     await pg.waitReady;
   } catch (error) {
     port.postMessage({ ready: false, error: errorToData(error) });

@@ -31,6 +31,7 @@ export class ThreadedPGlite implements QueryClient {
   private nextId = 1;
   private readonly pending = new Map<number, { resolve: (value: unknown) => void; reject: (error: Error) => void }>();
   private stopped: Error | null = null;
+  private closing = false;
 
   private constructor(private readonly worker: Worker) {
     worker.on("message", (reply: DatabaseReply) => {
@@ -42,6 +43,7 @@ export class ThreadedPGlite implements QueryClient {
       else waiting.reject(errorFromData(reply.error));
     });
     const stop = (error: Error) => {
+      if (!this.stopped && !this.closing) console.error(`slipfield: ${error.message}; database requests fail until the server is restarted`);
       this.stopped ??= error;
       for (const waiting of this.pending.values()) waiting.reject(this.stopped);
       this.pending.clear();
@@ -113,6 +115,7 @@ export class ThreadedPGlite implements QueryClient {
   }
 
   async close(): Promise<void> {
+    this.closing = true;
     if (!this.stopped) await this.call({ op: "close" }).catch(() => undefined);
     await this.worker.terminate();
   }

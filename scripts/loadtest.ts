@@ -6,6 +6,7 @@
 //   LOADTEST_RATE (0)          0: each connection sends its next request as soon as the answer is in (closed loop, the
 //                              default); N > 0: the connections together offer N requests/s on a fixed schedule, and a
 //                              latency counts from the scheduled send time (a late answer delays nothing unmeasured)
+//   LOADTEST_SERVER_OUTPUT=1   print the server's whole output afterwards
 //   LOADTEST_KEEP_DATA=1       keep the temporary data folder afterwards (removed by default)
 //   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
 // Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
@@ -40,6 +41,8 @@ interface Sample {
   name: string;
   ms: number;
   status: number;
+  /** when the request was (scheduled to be) sent, ms after the window opened */
+  sentAt: number;
 }
 
 interface Actor {
@@ -138,6 +141,7 @@ async function main() {
     const acknowledged = { pins: [] as { faultId: string; id: string; reader: Client }[], replies: [] as { faultId: string; pinId: string; id: string; reader: Client }[], viewpoints: [] as { faultId: string; id: string; reader: Client }[], faults: [] as { studyId: string; id: string; reader: Client }[] };
     let writeCounter = 0;
     const windowStart = Date.now();
+    const windowStartPerf = performance.now();
     const windowEnd = windowStart + SECONDS * 1000;
 
     // scheduledAt (paced runs): the send time the request was scheduled for; the clock starts there, not when the loop got to it
@@ -154,7 +158,7 @@ async function main() {
       }
       const body = await response.arrayBuffer();
       const ms = performance.now() - t0;
-      samples.push({ kind, name, ms, status: response.status });
+      samples.push({ kind, name, ms, status: response.status, sentAt: t0 - windowStartPerf });
       if (response.status >= 400) errors.push(`${name}: HTTP ${response.status} ${new TextDecoder().decode(body).slice(0, 200)}`);
       return { response, body };
     };
@@ -295,6 +299,14 @@ async function main() {
     console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
     console.log(table.join("\n"));
     console.log("");
+    // where in the window the slow answers were: reads by the 5-second slice they were sent in
+    const slices: string[] = [];
+    for (let from = 0; from < windowMs; from += 5000) {
+      const sorted = samples.filter((sample) => sample.kind === "read" && sample.sentAt >= from && sample.sentAt < from + 5000).map((sample) => sample.ms).sort((a, b) => a - b);
+      if (sorted.length) slices.push(`${from / 1000}–${(from + 5000) / 1000} s: ${sorted.length} reads, p95 ${percentile(sorted, 95).toFixed(0)} ms`);
+    }
+    console.log(`reads by send time: ${slices.join("; ")}`);
+    console.log("");
     for (const [index, run] of runs.entries()) {
       console.log(`analysis ${index + 1}: ${run.rows} picks, upload answered in ${(run.uploadMs / 1000).toFixed(1)} s, ${run.status}${run.error ? ` (${run.error})` : ""} at ${(run.doneAt / 1000).toFixed(1)} s into the window`);
     }
@@ -302,7 +314,8 @@ async function main() {
     console.log(`acknowledged writes: ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
     console.log(`errors: ${errors.length}`);
     for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))]) console.log(`  ${error}`);
-    if (errors.length > 0) console.log(`server output (last lines):\n${server.output().split("\n").slice(-40).join("\n")}`);
+    if (process.env.LOADTEST_SERVER_OUTPUT === "1") console.log(`server output:\n${server.output()}`);
+    else if (errors.length > 0) console.log(`server output (last lines):\n${server.output().split("\n").slice(-40).join("\n")}`);
     const failedAnalyses = runs.filter((run) => run.status !== "done").length;
     await shutdown();
     process.exit(errors.length === 0 && missing.length === 0 && failedAnalyses === 0 ? 0 : 1);

@@ -107,6 +107,24 @@ describe("PGlite on its own thread", () => {
     await expect(client.query("select 1")).rejects.toThrow(/database thread stopped/);
   });
 
+  it("fails the requests in flight, and every later one, when the thread dies", async () => {
+    const folder = mkdtempSync(path.join(os.tmpdir(), "slipfield-thread-"));
+    const dyingWorker = path.join(folder, "dies.mjs");
+    writeFileSync(dyingWorker, `import { parentPort } from "node:worker_threads"; parentPort.postMessage({ ready: true }); parentPort.once("message", () => process.exit(3));`);
+    const errors: unknown[] = [];
+    const original = console.error;
+    console.error = (...args: unknown[]) => errors.push(args.join(" "));
+    try {
+      const client = await ThreadedPGlite.open(undefined, dyingWorker);
+      await expect(client.query("select 1")).rejects.toThrow("the database thread stopped (exit code 3)");
+      await expect(client.query("select 1")).rejects.toThrow("the database thread stopped (exit code 3)");
+      expect(errors.join("\n")).toMatch(/database requests fail until the server is restarted/);
+    } finally {
+      console.error = original;
+      rmSync(folder, { recursive: true, force: true });
+    }
+  });
+
   it("reports why a data folder cannot be opened", async () => {
     const folder = mkdtempSync(path.join(os.tmpdir(), "slipfield-thread-"));
     const notAFolder = path.join(folder, "file");

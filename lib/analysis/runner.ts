@@ -9,7 +9,7 @@ import { ENGINE_VERSION, type PipelineResult } from "@/lib/engine/pipeline";
 import { lruCache } from "@/lib/lru";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
-import { parseUploadedFile, UploadProblem, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
+import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type MultipartOutput, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
 
 const queue: string[] = [];
 let active = 0;
@@ -50,6 +50,11 @@ function compute(job: AnalysisJob, onStage: (stage: string, fraction: number) =>
 /** An uploaded file read and checked (and encoded for storage) off the web server's thread, like an analysis. */
 export function parseUploadOffThread(job: UploadParseJob): Promise<UploadParseOutput> {
   return runJob(job, () => {}, () => parseUploadedFile(job), PARSE_TIME_LIMIT_MS);
+}
+
+/** A multipart upload body taken apart off the web server's thread; the body's buffer moves to the worker (not copied). */
+export function readMultipartOffThread(job: MultipartJob): Promise<MultipartOutput> {
+  return runJob(job, () => {}, () => readMultipart(job), PARSE_TIME_LIMIT_MS, [job.body.buffer as ArrayBuffer]);
 }
 
 /** Full-resolution engine grids of a stored pick set (exports), computed off the web server's thread like an analysis. */
@@ -115,7 +120,13 @@ function discardIdle(worker: Worker) {
 /** reading the largest allowed file takes seconds; the analysis time limit (SLIPFIELD_ANALYSIS_TIMEOUT_MS) is not meant for it */
 const PARSE_TIME_LIMIT_MS = 5 * 60_000;
 
-function runJob<T>(job: AnalysisJob | UploadParseJob, onStage: (stage: string, fraction: number) => void, inline: () => T, limitMs = timeLimitMs()): Promise<T> {
+function runJob<T>(
+  job: AnalysisJob | UploadParseJob | MultipartJob,
+  onStage: (stage: string, fraction: number) => void,
+  inline: () => T | Promise<T>,
+  limitMs = timeLimitMs(),
+  transfer: ArrayBuffer[] = [],
+): Promise<T> {
   if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
     return new Promise((resolve, reject) => setImmediate(() => {
       try {
@@ -148,7 +159,7 @@ function runJob<T>(job: AnalysisJob | UploadParseJob, onStage: (stage: string, f
       finish(false, () => reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`)));
     }, limitMs);
     worker.on("message", onMessage).on("error", onError).on("exit", onExit);
-    worker.postMessage(job);
+    worker.postMessage(job, transfer);
   });
 }
 

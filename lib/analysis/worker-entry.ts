@@ -5,7 +5,7 @@ import { readlinkSync } from "node:fs";
 import os from "node:os";
 import { parentPort, workerData } from "node:worker_threads";
 import { computeAnalysis, computeFullResolution, type AnalysisJob } from "./compute";
-import { parseUploadedFile, UploadProblem, type UploadParseJob } from "./upload-parse";
+import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type UploadParseJob } from "./upload-parse";
 import { serveTipLineFits, threadedTipLineFitter } from "./tipline-thread";
 
 /**
@@ -27,7 +27,21 @@ if (!serveTipLineFits(workerData)) serveAnalysisJobs();
 
 function serveAnalysisJobs() {
   const { fitter: tipLineFitter } = threadedTipLineFitter(new URL(import.meta.url));
-  parentPort!.on("message", (job: AnalysisJob | UploadParseJob) => runJob(job, tipLineFitter));
+  parentPort!.on("message", (job: AnalysisJob | UploadParseJob | MultipartJob) => (job.output === "multipart" ? void takeFormApart(job) : runJob(job, tipLineFitter)));
+}
+
+function failed(error: unknown) {
+  const problem = error instanceof UploadProblem ? { status: error.status, details: error.details } : undefined;
+  parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error), problem });
+}
+
+async function takeFormApart(job: MultipartJob) {
+  try {
+    const output = await readMultipart(job);
+    parentPort!.postMessage({ kind: "done", output }, output.file ? [output.file.bytes.buffer as ArrayBuffer] : []);
+  } catch (error) {
+    failed(error);
+  }
 }
 
 function runJob(job: AnalysisJob | UploadParseJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
@@ -42,7 +56,6 @@ function runJob(job: AnalysisJob | UploadParseJob, tipLineFitter: ReturnType<typ
       parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
     }
   } catch (error) {
-    const problem = error instanceof UploadProblem ? { status: error.status, details: error.details } : undefined;
-    parentPort!.postMessage({ kind: "failed", message: error instanceof Error ? error.message : String(error), problem });
+    failed(error);
   }
 }

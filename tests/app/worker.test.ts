@@ -7,7 +7,7 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, pickSets } from "@/db/schema";
 import { confirmUpload } from "@/lib/analysis/uploads";
-import { analysisWorkerCounts, computeGridsOffThread, parseUploadOffThread, runAnalysis } from "@/lib/analysis/runner";
+import { analysisWorkerCounts, computeGridsOffThread, parseUploadOffThread, readMultipartOffThread, runAnalysis } from "@/lib/analysis/runner";
 import { computeFullResolution } from "@/lib/analysis/compute";
 import { parseUploadedFile, UploadProblem } from "@/lib/analysis/upload-parse";
 import { demoCsv } from "@/lib/demo";
@@ -65,6 +65,30 @@ describe("analyses in the worker thread", () => {
     expect(refused).toBeInstanceOf(UploadProblem);
     expect((refused as UploadProblem).status).toBe(422);
     expect((refused as UploadProblem).details?.rejected.map((row) => row.row)).toEqual([3, 4]);
+  });
+
+  it("takes a multipart upload apart off the main thread: the file's exact bytes and the text fields", async () => {
+    const csv = new TextEncoder().encode(demoCsv("QG-4"));
+    const form = new FormData();
+    form.set("file", new Blob([csv], { type: "text/csv" }), "qg-4.csv");
+    form.set("units", "ft");
+    form.set("dropBadRows", "true");
+    const request = new Request("http://localhost/", { method: "POST", body: form });
+    const contentType = request.headers.get("content-type")!;
+    const body = new Uint8Array(await request.arrayBuffer());
+    const { file, fields } = await readMultipartOffThread({ output: "multipart", body, contentType });
+    expect(body.byteLength).toBe(0); // the body moved to the worker instead of being copied
+    expect(file?.name).toBe("qg-4.csv");
+    expect(file?.size).toBe(csv.byteLength);
+    expect(Buffer.from(file!.bytes).equals(Buffer.from(csv))).toBe(true);
+    expect(fields).toEqual({ units: "ft", dropBadRows: "true" });
+
+    const withoutFile = new Request("http://localhost/", { method: "POST", body: (() => { const f = new FormData(); f.set("units", "m"); return f; })() });
+    const none = await readMultipartOffThread({ output: "multipart", body: new Uint8Array(await withoutFile.arrayBuffer()), contentType: withoutFile.headers.get("content-type")! });
+    expect(none.file).toBeNull();
+    const broken = await readMultipartOffThread({ output: "multipart", body: new TextEncoder().encode("not a form"), contentType: "multipart/form-data; boundary=xyz" }).catch((error: unknown) => error);
+    expect(broken).toBeInstanceOf(UploadProblem);
+    expect((broken as UploadProblem).status).toBe(400);
   });
 
   it("keeps one warm worker thread for the next job instead of starting a thread per analysis", async () => {

@@ -2,7 +2,7 @@
 // (a 10⁵-pick file took 0.1–0.3 s of that thread, a 10⁶-pick one about a second).
 import { parsePickCsv } from "@/lib/engine/csv";
 import type { ParseResult, RejectedRow } from "@/lib/engine/types";
-import { encodePicks } from "@/lib/picks/codec";
+import { packPicks } from "@/lib/picks/codec";
 
 export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
 export const MAX_ROWS = 2_000_000;
@@ -13,7 +13,7 @@ export interface UploadParseJob {
   bytes: Uint8Array;
   units: "m" | "ft";
   dropBadRows: boolean;
-  /** also return the picks encoded for storage (lib/picks/codec.ts) */
+  /** also return the picks packed for storage (lib/picks/codec.ts) */
   encode: boolean;
 }
 
@@ -97,5 +97,5 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
     }
     throw error;
   }
-  return { parsed, encoded: job.encode ? encodePicks(parsed.picks) : null };
+  return { parsed, encoded: job.encode ? packPicks(parsed.picks) : null };
 }

@@ -1,6 +1,8 @@
+import { deflateSync, inflateSync } from "node:zlib";
 import type { PickColumns } from "@/lib/engine/types";
 
 const MAGIC = 0x534c5032; // "SLP2"
+const PACKED_MAGIC = 0x534c5a31; // "SLZ1": the same bytes, deflated
 type TypedColumn = Float64Array | Float32Array | Uint32Array | Int32Array | Uint8Array;
 const CONSTRUCTORS = { Float64Array, Float32Array, Uint32Array, Int32Array, Uint8Array } as const;
 type ColumnType = keyof typeof CONSTRUCTORS;
@@ -41,10 +43,26 @@ export function encodePicks(picks: PickColumns): Uint8Array {
   return bytes;
 }
 
+/**
+ * `encodePicks`, deflated (fastest level) as stored in the database: a third of the size, and storing or reading it
+ * holds the database a fraction of the time (10⁵ picks: 4.2 → 1.3 MB; insert 60–160 → 35–50 ms, read 53 → 10 ms in
+ * PGlite, whose own compression of the raw bytes is slower and weaker). Runs in the worker pool, like the parsing.
+ */
+export function packPicks(picks: PickColumns): Uint8Array {
+  const deflated = deflateSync(encodePicks(picks), { level: 1 });
+  const bytes = new Uint8Array(4 + deflated.byteLength);
+  new DataView(bytes.buffer).setUint32(0, PACKED_MAGIC, true);
+  bytes.set(deflated, 4);
+  return bytes;
+}
+
+/** Reads what `packPicks` or `encodePicks` wrote (pick sets stored before packing are plain). */
 export function decodePicks(stored: Uint8Array): PickColumns {
+  const packed = stored.byteLength >= 4 && new DataView(stored.buffer, stored.byteOffset, 4).getUint32(0, true) === PACKED_MAGIC;
+  const plain = packed ? inflateSync(stored.subarray(4)) : stored;
   // Copy into a fresh buffer: driver buffers may start at any offset, typed views need alignment.
-  const bytes = new Uint8Array(stored.byteLength);
-  bytes.set(stored);
+  const bytes = new Uint8Array(plain.byteLength);
+  bytes.set(plain);
   const view = new DataView(bytes.buffer);
   if (bytes.byteLength < 8 || view.getUint32(0, true) !== MAGIC) throw new Error("Stored picks are not in the expected format.");
   const headerLength = view.getUint32(4, true);

@@ -2,8 +2,11 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, auditLog, faults, memberships, outbox, pickSets, pinReplies, pins, studies, users, viewpointLinks, viewpoints } from "@/db/schema";
-import { decodePicks, encodePicks } from "@/lib/picks/codec";
+import { decodePicks, encodePicks, packPicks } from "@/lib/picks/codec";
 import type { PickColumns } from "@/lib/engine/types";
+import { base64Bytes } from "@/db/schema";
+import { parsePickCsv } from "@/lib/engine/csv";
+import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
 
 function tinyPicks(): PickColumns {
@@ -60,6 +63,26 @@ describe("schema round trip", () => {
     const storedViewpoint = await db.query.viewpoints.findFirst({ where: eq(viewpoints.id, viewpoint.id) });
     expect(storedViewpoint!.camera.position).toEqual([1, 2, 3]);
     expect((await db.query.pins.findFirst({ where: eq(pins.id, pin.id) }))!.state).toBe("open");
+  });
+
+  it("stores picks packed (deflated) and reads both packed and earlier plain pick sets back exactly", async () => {
+    const db = await getDb();
+    const [fault] = await db.insert(faults).values({ studyId: (await db.insert(studies).values({ name: "Packed" }).returning())[0].id, name: "F" }).returning();
+    const picks = tinyPicks();
+    const common = { faultId: fault.id, fileName: "p.csv", checksum: "abc", sizeBytes: 10, rowCount: 3, units: "m" as const, segmentNames: picks.segmentNames, horizonNames: picks.horizonNames };
+    const [packed] = await db.insert(pickSets).values({ ...common, version: 1, picks: packPicks(picks) }).returning({ id: pickSets.id });
+    const [plain] = await db.insert(pickSets).values({ ...common, version: 2, picks: encodePicks(picks) }).returning({ id: pickSets.id });
+    for (const id of [packed.id, plain.id]) {
+      const [row] = await db.select({ picks: base64Bytes(pickSets.picks) }).from(pickSets).where(eq(pickSets.id, id));
+      const decoded = decodePicks(row.picks);
+      expect(Array.from(decoded.x)).toEqual(Array.from(picks.x));
+      expect(Array.from(decoded.sourceRow)).toEqual([2, 3, 4]);
+      expect(Number.isNaN(decoded.quality[2])).toBe(true);
+      expect(decoded.horizonNames).toEqual(["H1"]);
+    }
+    // basis: common practice, no source (float columns of real pick sets deflate to about a third)
+    const { picks: many } = parsePickCsv(demoCsv("QG-1"));
+    expect(packPicks(many).byteLength).toBeLessThan(encodePicks(many).byteLength / 2);
   });
 
   it("cascades a study's deletion to its faults, pick sets and memberships", async () => {

@@ -1,6 +1,6 @@
 import "server-only";
 import { timingSafeEqual } from "node:crypto";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, inArray, or, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { memberships, outbox } from "@/db/schema";
 import { requireUser } from "@/lib/access";
@@ -17,9 +17,19 @@ export async function ownsAnyStudy(userId: string) {
   return Boolean(await db.query.memberships.findFirst({ where: and(eq(memberships.userId, userId), eq(memberships.role, "owner")), columns: { studyId: true } }));
 }
 
-export async function listOutbox(limit = 200) {
+/**
+ * What one owner may read in the outbox: the e-mail of the studies they own, and e-mail addressed to them. Digests to
+ * other people (they span studies) and e-mail of other studies stay hidden.
+ */
+export async function listOutbox(user: Pick<SessionUser, "id" | "email">, limit = 200) {
   const db = await getDb();
-  return db.select().from(outbox).orderBy(desc(outbox.createdAt)).limit(limit);
+  const owned = db.select({ studyId: memberships.studyId }).from(memberships).where(and(eq(memberships.userId, user.id), eq(memberships.role, "owner")));
+  return db
+    .select()
+    .from(outbox)
+    .where(or(inArray(outbox.studyId, owned), sql`lower(${outbox.to}) = ${user.email.toLowerCase()}`))
+    .orderBy(desc(outbox.createdAt))
+    .limit(limit);
 }
 
 /**

@@ -5,12 +5,12 @@ import { listOutbox, outboxEnabled, ownsAnyStudy } from "@/lib/outbox";
 
 export const metadata: Metadata = { title: "Outbox" };
 
-/** The development mailbox: every e-mail the app has "sent" through the local fake transport. Study owners only. */
+/** The development mailbox: e-mail the app has "sent" through the local fake transport, for study owners: their studies' e-mail and their own. */
 export default async function OutboxPage() {
   if (!outboxEnabled()) notFound();
   const user = await pageUser("/outbox");
   if (!(await ownsAnyStudy(user.id))) notFound();
-  const messages = await listOutbox();
+  const messages = await listOutbox(user);
   return (
     <main className="mx-auto max-w-4xl px-6 py-10">
       <p className="eyebrow">Development only</p>

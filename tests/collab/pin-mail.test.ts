@@ -195,11 +195,11 @@ describe("digest route and settings", () => {
     expect(outboxEnabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "yes" } as NodeJS.ProcessEnv)).toBe(false);
   });
 
-  it("the outbox page is a 404 for members who own no study and lists messages for owners", async () => {
+  it("the outbox page is a 404 for members who own no study and lists their studies' messages for owners", async () => {
     const { default: OutboxPage } = await import("@/app/outbox/page");
     const { renderToStaticMarkup } = await import("react-dom/server");
     const db = await getDb();
-    await db.insert(outbox).values({ to: "someone@example.test", subject: "Hello <b>there</b>", text: "Body text", kind: "mention" });
+    await db.insert(outbox).values({ to: "someone@example.test", subject: "Hello <b>there</b>", text: "Body text", kind: "mention", studyId: fixture.study.id });
     signInAs(fixture.people.reviewer);
     await expect(OutboxPage()).rejects.toMatchObject({ digest: expect.stringContaining("404") });
     signInAs(fixture.people.owner);

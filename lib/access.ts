@@ -1,10 +1,11 @@
 import "server-only";
 import { and, eq } from "drizzle-orm";
-import { getDb } from "@/db/client";
+import { getDatabaseHandle, getDb } from "@/db/client";
 import { faults, memberships, type StudyRole } from "@/db/schema";
 import { getSessionUser } from "@/lib/auth/session";
 import type { SessionUser } from "@/lib/auth/users";
 import { ApiError, forbidden, unauthorized } from "@/lib/api/errors";
+import { lruCache } from "@/lib/lru";
 
 /** What a member may do in a study. The single source of the role matrix (design.md). */
 export type StudyAction = "view" | "edit" | "comment" | "share" | "admin";
@@ -41,14 +42,67 @@ export interface StudyAccess {
   role: StudyRole;
 }
 
+// ---- remembered roles --------------------------------------------------------------------------------------------
+
+/**
+ * Every API request checks the session and the role; that lookup was the commonest query the server ran. Its answers
+ * are remembered in this process while nothing that could change them has happened: every function that changes or
+ * removes a membership, a study or a fault runs inside `changingRoles` (lib/studies.ts, lib/invitations.ts), and an answer
+ * read while such a change was under way is not kept (the generation has moved on). Only this process opens the
+ * embedded database (its folder is locked), so no one else changes roles behind its back; with an external PostgreSQL
+ * (DATABASE_URL) other processes could, so nothing is remembered there. Only granted roles are kept: a refusal is
+ * always read afresh. The state lives on globalThis so that route handlers and server actions (separate bundles)
+ * share one memory and one generation.
+ */
+const ROLE_MEMORY_SIZE = 20_000;
+interface RememberedRole {
+  generation: number;
+  studyId: string;
+  role: StudyRole;
+}
+const roleMemory = ((globalThis as unknown as { slipfieldRoleMemory?: { generation: number; roles: ReturnType<typeof lruCache<RememberedRole>> } }).slipfieldRoleMemory ??= {
+  generation: 0,
+  roles: lruCache<RememberedRole>(ROLE_MEMORY_SIZE),
+});
+
+/**
+ * Runs a write that changes or removes memberships, studies or faults, then drops every remembered role, also when
+ * the write failed (it may have got half-way). Dropping them after the commit, not before, matters: a lookup made
+ * meanwhile is then either not kept or read the new state.
+ */
+export async function changingRoles<T>(write: () => Promise<T>): Promise<T> {
+  try {
+    return await write();
+  } finally {
+    roleMemory.generation++;
+  }
+}
+
+/** `lookup` once, or its remembered answer for `key` if no role changed since it was read (embedded database only). */
+async function rememberedRole(key: string, lookup: () => Promise<{ studyId: string; role: StudyRole | null } | undefined>) {
+  const generation = roleMemory.generation;
+  const known = roleMemory.roles.get(key);
+  if (known && known.generation === generation) return known;
+  const found = await lookup();
+  if (found?.role && generation === roleMemory.generation && (await getDatabaseHandle()).kind === "pglite") {
+    roleMemory.roles.set(key, { generation, studyId: found.studyId, role: found.role });
+  }
+  return found;
+}
+
+// ---- checks ------------------------------------------------------------------------------------------------------
+
 /** Session + membership + role check. Non-members get 404 so that ids of other studies reveal nothing. */
 export async function requireStudyRole(studyId: string, action: StudyAction): Promise<StudyAccess> {
   const user = await requireUser();
-  const db = await getDb();
-  const membership = await db.query.memberships.findFirst({
-    where: and(eq(memberships.studyId, studyId), eq(memberships.userId, user.id)),
+  const membership = await rememberedRole(`study:${studyId}:${user.id}`, async () => {
+    const db = await getDb();
+    return db.query.memberships.findFirst({
+      where: and(eq(memberships.studyId, studyId), eq(memberships.userId, user.id)),
+      columns: { studyId: true, role: true },
+    });
   });
-  if (!membership) throw new ApiError(404, "Study not found.");
+  if (!membership?.role) throw new ApiError(404, "Study not found.");
   if (!roleAllows(membership.role, action)) throw forbidden(ACTION_WORDS[action]);
   return { user, studyId, role: membership.role };
 }
@@ -56,13 +110,16 @@ export async function requireStudyRole(studyId: string, action: StudyAction): Pr
 /** Session, the fault's study, membership and role in one query; a fault of another study answers 404 like a missing one. */
 export async function requireFaultRole(faultId: string, action: StudyAction): Promise<StudyAccess & { faultId: string }> {
   const user = await requireUser();
-  const db = await getDb();
-  const [row] = await db
-    .select({ studyId: faults.studyId, role: memberships.role })
-    .from(faults)
-    .leftJoin(memberships, and(eq(memberships.studyId, faults.studyId), eq(memberships.userId, user.id)))
-    .where(eq(faults.id, faultId))
-    .limit(1);
+  const row = await rememberedRole(`fault:${faultId}:${user.id}`, async () => {
+    const db = await getDb();
+    const [found] = await db
+      .select({ studyId: faults.studyId, role: memberships.role })
+      .from(faults)
+      .leftJoin(memberships, and(eq(memberships.studyId, faults.studyId), eq(memberships.userId, user.id)))
+      .where(eq(faults.id, faultId))
+      .limit(1);
+    return found;
+  });
   if (!row?.role) throw new ApiError(404, "Fault not found.");
   if (!roleAllows(row.role, action)) throw forbidden(ACTION_WORDS[action]);
   return { user, studyId: row.studyId, role: row.role, faultId };

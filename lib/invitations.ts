@@ -3,6 +3,7 @@ import { and, eq, gt, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { invitations, memberships, studies, users, type StudyRole } from "@/db/schema";
+import { changingRoles } from "@/lib/access";
 import type { SessionUser } from "@/lib/auth/users";
 import { recordAudit } from "@/lib/audit";
 import { hashToken } from "@/lib/members";
@@ -60,18 +61,20 @@ export async function acceptInvitation(user: SessionUser, token: string): Promis
     return { ok: false, reason: "wrong-email", message: `This invitation was sent to ${found.email}; you are signed in as ${user.email}. Sign in with the invited address.` };
   }
   const db = await getDb();
-  const result = await db.transaction(async (tx) => {
-    const [claimed] = await tx
-      .update(invitations)
-      .set({ acceptedAt: new Date() })
-      .where(and(eq(invitations.tokenHash, hashToken(token)), isNull(invitations.acceptedAt), gt(invitations.expiresAt, new Date())))
-      .returning({ studyId: invitations.studyId, role: invitations.role });
-    if (!claimed) return null;
-    const existing = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, claimed.studyId), eq(memberships.userId, user.id)) });
-    if (existing) return { studyId: claimed.studyId, role: existing.role, alreadyMember: true };
-    await tx.insert(memberships).values({ studyId: claimed.studyId, userId: user.id, role: claimed.role });
-    return { studyId: claimed.studyId, role: claimed.role, alreadyMember: false };
-  });
+  const result = await changingRoles(() =>
+    db.transaction(async (tx) => {
+      const [claimed] = await tx
+        .update(invitations)
+        .set({ acceptedAt: new Date() })
+        .where(and(eq(invitations.tokenHash, hashToken(token)), isNull(invitations.acceptedAt), gt(invitations.expiresAt, new Date())))
+        .returning({ studyId: invitations.studyId, role: invitations.role });
+      if (!claimed) return null;
+      const existing = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, claimed.studyId), eq(memberships.userId, user.id)) });
+      if (existing) return { studyId: claimed.studyId, role: existing.role, alreadyMember: true };
+      await tx.insert(memberships).values({ studyId: claimed.studyId, userId: user.id, role: claimed.role });
+      return { studyId: claimed.studyId, role: claimed.role, alreadyMember: false };
+    }),
+  );
   if (!result) return { ok: false, reason: "used", message: MESSAGES.used };
   await recordAudit({ studyId: result.studyId, userId: user.id, action: "member.accept-invitation", target: user.email, details: { role: result.role, alreadyMember: result.alreadyMember } });
   return { ok: true, ...result };

@@ -3,7 +3,7 @@ import { and, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { analyses, auditLog, faults, memberships, pickSets, studies, studyRole, users, type StudyRole } from "@/db/schema";
-import type { StudyAccess } from "@/lib/access";
+import { changingRoles, type StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { emailSchema, type SessionUser } from "@/lib/auth/users";
@@ -61,11 +61,13 @@ export async function listStudiesFor(user: SessionUser) {
 
 export async function createStudy(user: SessionUser, input: z.infer<typeof studyInputSchema>) {
   const db = await getDb();
-  const study = await db.transaction(async (tx) => {
-    const [created] = await tx.insert(studies).values({ ...input, createdBy: user.id }).returning();
-    await tx.insert(memberships).values({ studyId: created.id, userId: user.id, role: "owner" });
-    return created;
-  });
+  const study = await changingRoles(() =>
+    db.transaction(async (tx) => {
+      const [created] = await tx.insert(studies).values({ ...input, createdBy: user.id }).returning();
+      await tx.insert(memberships).values({ studyId: created.id, userId: user.id, role: "owner" });
+      return created;
+    }),
+  );
   await recordAudit({ studyId: study.id, userId: user.id, action: "study.create", target: study.name });
   return study;
 }
@@ -79,7 +81,7 @@ export async function updateStudy(access: StudyAccess, patch: z.infer<typeof stu
 
 export async function deleteStudy(access: StudyAccess) {
   const db = await getDb();
-  await db.delete(studies).where(eq(studies.id, access.studyId));
+  await changingRoles(() => db.delete(studies).where(eq(studies.id, access.studyId)));
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.delete" });
 }
 
@@ -217,29 +219,33 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: z
 
 export async function deleteFault(access: StudyAccess, faultId: string) {
   const db = await getDb();
-  const [deleted] = await db.delete(faults).where(eq(faults.id, faultId)).returning({ name: faults.name });
+  const [deleted] = await changingRoles(() => db.delete(faults).where(eq(faults.id, faultId)).returning({ name: faults.name }));
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.delete", target: deleted?.name ?? faultId });
 }
 
 export async function changeRole(access: StudyAccess, userId: string, role: StudyRole) {
   const db = await getDb();
-  await db.transaction(async (tx) => {
-    const current = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)) });
-    if (!current) throw new ApiError(404, "That person is not a member of this study.");
-    if (current.role === "owner" && role !== "owner") await assertAnotherOwner(tx, access.studyId);
-    await tx.update(memberships).set({ role }).where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
-  });
+  await changingRoles(() =>
+    db.transaction(async (tx) => {
+      const current = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)) });
+      if (!current) throw new ApiError(404, "That person is not a member of this study.");
+      if (current.role === "owner" && role !== "owner") await assertAnotherOwner(tx, access.studyId);
+      await tx.update(memberships).set({ role }).where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
+    }),
+  );
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "member.role", target: userId, details: { role } });
 }
 
 export async function removeMember(access: StudyAccess, userId: string) {
   const db = await getDb();
-  await db.transaction(async (tx) => {
-    const current = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)) });
-    if (!current) throw new ApiError(404, "That person is not a member of this study.");
-    if (current.role === "owner") await assertAnotherOwner(tx, access.studyId);
-    await tx.delete(memberships).where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
-  });
+  await changingRoles(() =>
+    db.transaction(async (tx) => {
+      const current = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)) });
+      if (!current) throw new ApiError(404, "That person is not a member of this study.");
+      if (current.role === "owner") await assertAnotherOwner(tx, access.studyId);
+      await tx.delete(memberships).where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
+    }),
+  );
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "member.remove", target: userId });
 }
 

@@ -11,13 +11,15 @@
 //   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
 // Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
 // write is stored. Exits 1 when there were errors or a write is missing.
-import { readFileSync, rmSync } from "node:fs";
+import { readdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import {
   Client,
   DEMO_ACCOUNTS,
   DEMO_PASSWORD,
   ensureBuild,
+  type LeanResponse,
+  leanText,
   pinBody,
   ROOT,
   startServer,
@@ -62,6 +64,52 @@ const log = (line: string) => console.log(`loadtest: ${line}`);
 function percentile(sorted: number[], p: number) {
   if (sorted.length === 0) return NaN;
   return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
+}
+
+/** CPU seconds (user + system, all threads) of a process and its descendants, from /proc (Linux). */
+function cpuSecondsOfTree(rootPid: number) {
+  const stats = new Map<number, { parent: number; seconds: number }>();
+  for (const entry of readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      const text = readFileSync(`/proc/${entry}/stat`, "utf8");
+      const fields = text.slice(text.lastIndexOf(")") + 2).split(" "); // fields from the third (state) on
+      stats.set(Number(entry), { parent: Number(fields[1]), seconds: (Number(fields[11]) + Number(fields[12])) / 100 });
+    } catch {
+      // the process ended while we looked
+    }
+  }
+  let total = 0;
+  const pending = [rootPid];
+  while (pending.length) {
+    const pid = pending.pop()!;
+    total += stats.get(pid)?.seconds ?? 0;
+    for (const [child, stat] of stats) if (stat.parent === pid) pending.push(child);
+  }
+  return total;
+}
+
+/** CPU seconds per thread of one process (Linux /proc/PID/task), keyed by "tid name". */
+function cpuSecondsByThread(pid: number) {
+  const threads = new Map<string, number>();
+  for (const tid of readdirSync(`/proc/${pid}/task`)) {
+    try {
+      const text = readFileSync(`/proc/${pid}/task/${tid}/stat`, "utf8");
+      const name = text.slice(text.indexOf("(") + 1, text.lastIndexOf(")"));
+      const fields = text.slice(text.lastIndexOf(")") + 2).split(" ");
+      threads.set(`${tid} ${name}`, (Number(fields[11]) + Number(fields[12])) / 100);
+    } catch {
+      // the thread ended while we looked
+    }
+  }
+  return threads;
+}
+
+/** The machine's CPU time so far by kind (Linux /proc/stat, all cores, in clock ticks). */
+function machineCpuTicks() {
+  const [, ...values] = readFileSync("/proc/stat", "utf8").split("\n")[0].trim().split(/\s+/);
+  const [user, nice, system, idle, iowait, irq, softirq, steal] = values.map(Number);
+  return { busy: user + nice + system + irq + softirq, idle: idle + iowait, steal: steal ?? 0 };
 }
 
 async function jsonOf<T>(response: Response): Promise<T> {
@@ -145,42 +193,41 @@ async function main() {
     const windowEnd = windowStart + SECONDS * 1000;
 
     // scheduledAt (paced runs): the send time the request was scheduled for; the clock starts there, not when the loop got to it
-    const timed = async (scheduledAt: number | null, kind: Kind, name: string, send: () => Promise<Response>) => {
+    const timed = async (scheduledAt: number | null, kind: Kind, name: string, send: () => Promise<LeanResponse>) => {
       const t0 = Math.min(performance.now(), scheduledAt ?? Infinity);
-      let response: Response;
+      let response: LeanResponse;
       try {
         response = await send();
       } catch (error) {
-        const cause = (error as { cause?: { code?: string; message?: string } }).cause;
-        errors.push(`${name} at ${((Date.now() - windowStart) / 1000).toFixed(1)} s: ${(error as Error).message}${cause ? ` (${cause.code ?? ""} ${cause.message ?? ""})` : ""}`);
+        const { code } = error as { code?: string };
+        errors.push(`${name} at ${((Date.now() - windowStart) / 1000).toFixed(1)} s: ${(error as Error).message}${code ? ` (${code})` : ""}`);
         await new Promise((resolve) => setTimeout(resolve, 200)); // a refused connection must not turn the loop into a spin
         return null;
       }
-      const body = await response.arrayBuffer();
       const ms = performance.now() - t0;
       samples.push({ kind, name, ms, status: response.status, sentAt: t0 - windowStartPerf });
-      if (response.status >= 400) errors.push(`${name}: HTTP ${response.status} ${new TextDecoder().decode(body).slice(0, 200)}`);
-      return { response, body };
+      if (response.status >= 400) errors.push(`${name}: HTTP ${response.status} ${leanText(response).slice(0, 200)}`);
+      return response;
     };
-    const idOf = (body: ArrayBuffer, key: string) => (JSON.parse(new TextDecoder().decode(body)) as Record<string, { id: string }>)[key].id;
+    const idOf = (response: LeanResponse, key: string) => (JSON.parse(leanText(response)) as Record<string, { id: string }>)[key].id;
 
     const oneRequest = async (actor: Actor, random: number, scheduledAt: number | null = null) => {
       const fault = actor.faults[Math.floor(Math.random() * actor.faults.length)];
       if (random < 0.8 || !actor.canComment) {
         const which = Math.floor(Math.random() * 4);
-        if (which === 0) await timed(scheduledAt, "read", "GET fault", () => actor.client.request(`/api/faults/${fault.id}`));
-        else if (which === 1) await timed(scheduledAt, "read", "GET analysis", () => actor.client.request(`/api/faults/${fault.id}/analysis?contours=0`)); // as the fault page asks
-        else if (which === 2) await timed(scheduledAt, "read", "GET display grid", () => actor.client.request(`/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
-        else await timed(scheduledAt, "read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+        if (which === 0) await timed(scheduledAt, "read", "GET fault", () => actor.client.send("GET", `/api/faults/${fault.id}`));
+        else if (which === 1) await timed(scheduledAt, "read", "GET analysis", () => actor.client.send("GET", `/api/faults/${fault.id}/analysis?contours=0`)); // as the fault page asks
+        else if (which === 2) await timed(scheduledAt, "read", "GET display grid", () => actor.client.send("GET", `/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
+        else await timed(scheduledAt, "read", "GET pins", () => actor.client.send("GET", `/api/faults/${fault.id}/pins`));
         return;
       }
       const index = writeCounter++;
       const choice = Math.random();
       if (actor.pinBudget > 0 && (choice < 0.3 || (choice < 0.45 && actor.ownPins.length === 0))) {
         actor.pinBudget--;
-        const result = await timed(scheduledAt, "write", "POST pin", () => actor.client.json(`/api/faults/${fault.id}/pins`, "POST", pinBody(fault.segmentId, index)));
-        if (result?.response.status === 201) {
-          const id = idOf(result.body, "pin");
+        const result = await timed(scheduledAt, "write", "POST pin", () => actor.client.send("POST", `/api/faults/${fault.id}/pins`, pinBody(fault.segmentId, index)));
+        if (result?.status === 201) {
+          const id = idOf(result, "pin");
           actor.ownPins.push(id);
           acknowledged.pins.push({ faultId: fault.id, id, reader: actor.client });
         }
@@ -188,16 +235,16 @@ async function main() {
         actor.pinBudget--;
         const pinId = actor.ownPins[Math.floor(Math.random() * actor.ownPins.length)];
         const pinFault = acknowledged.pins.find((pin) => pin.id === pinId)!.faultId;
-        const result = await timed(scheduledAt, "write", "POST reply", () => actor.client.json(`/api/pins/${pinId}/replies`, "POST", { body: `Reply ${index}: agreed, check the next line.` }));
-        if (result?.response.status === 201) acknowledged.replies.push({ faultId: pinFault, pinId, id: idOf(result.body, "reply"), reader: actor.client });
+        const result = await timed(scheduledAt, "write", "POST reply", () => actor.client.send("POST", `/api/pins/${pinId}/replies`, { body: `Reply ${index}: agreed, check the next line.` }));
+        if (result?.status === 201) acknowledged.replies.push({ faultId: pinFault, pinId, id: idOf(result, "reply"), reader: actor.client });
       } else if (actor.canShare && choice < 0.8) {
-        const result = await timed(scheduledAt, "write", "POST viewpoint", () => actor.client.json(`/api/faults/${fault.id}/viewpoints`, "POST", viewpointBody(index)));
-        if (result?.response.status === 201) acknowledged.viewpoints.push({ faultId: fault.id, id: idOf(result.body, "viewpoint"), reader: actor.client });
+        const result = await timed(scheduledAt, "write", "POST viewpoint", () => actor.client.send("POST", `/api/faults/${fault.id}/viewpoints`, viewpointBody(index)));
+        if (result?.status === 201) acknowledged.viewpoints.push({ faultId: fault.id, id: idOf(result, "viewpoint"), reader: actor.client });
       } else if (actor.canEdit) {
-        const result = await timed(scheduledAt, "write", "POST fault", () => actor.client.json(`/api/studies/${actor.studyId}/faults`, "POST", { name: `Load ${runId} ${index}` }));
-        if (result?.response.status === 201) acknowledged.faults.push({ studyId: actor.studyId, id: idOf(result.body, "fault"), reader: actor.client });
+        const result = await timed(scheduledAt, "write", "POST fault", () => actor.client.send("POST", `/api/studies/${actor.studyId}/faults`, { name: `Load ${runId} ${index}` }));
+        if (result?.status === 201) acknowledged.faults.push({ studyId: actor.studyId, id: idOf(result, "fault"), reader: actor.client });
       } else {
-        await timed(scheduledAt, "read", "GET pins", () => actor.client.request(`/api/faults/${fault.id}/pins`));
+        await timed(scheduledAt, "read", "GET pins", () => actor.client.send("GET", `/api/faults/${fault.id}/pins`));
       }
     };
 
@@ -245,9 +292,20 @@ async function main() {
     })();
 
     const loadBefore = (await import("node:os")).loadavg()[0];
+    const clientCpuBefore = process.cpuUsage();
+    const serverCpuBefore = cpuSecondsOfTree(server.process.pid!);
+    const threadCpuBefore = cpuSecondsByThread(server.process.pid!);
+    const machineBefore = machineCpuTicks();
     log(`measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`);
     await Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
     const windowMs = Date.now() - windowStart;
+    const clientCpu = process.cpuUsage(clientCpuBefore);
+    const clientCpuSeconds = (clientCpu.user + clientCpu.system) / 1e6;
+    const serverCpuSeconds = cpuSecondsOfTree(server.process.pid!) - serverCpuBefore;
+    const machineAfter = machineCpuTicks();
+    const machineTotal = machineAfter.busy + machineAfter.idle + machineAfter.steal - (machineBefore.busy + machineBefore.idle + machineBefore.steal);
+    const machineShare = (kind: "busy" | "idle" | "steal") => ((100 * (machineAfter[kind] - machineBefore[kind])) / machineTotal).toFixed(0);
+    const threadCpu = [...cpuSecondsByThread(server.process.pid!)].map(([thread, seconds]) => [thread, seconds - (threadCpuBefore.get(thread) ?? 0)] as const);
     const runs = await analysisRuns;
 
     // ---- every acknowledged write is stored ------------------------------------------------------------------
@@ -297,6 +355,10 @@ async function main() {
     console.log("");
     console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
     console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
+    console.log(`CPU during the window: server ${serverCpuSeconds.toFixed(1)} s (${((100 * serverCpuSeconds) / (windowMs / 1000)).toFixed(0)} % of one core, every thread), load generator ${clientCpuSeconds.toFixed(1)} s (${((100 * clientCpuSeconds) / (windowMs / 1000)).toFixed(0)} %)`);
+    const busiest = threadCpu.filter(([, seconds]) => seconds >= 0.5).sort((a, b) => b[1] - a[1]);
+    console.log(`machine CPU during the window (both cores): ${machineShare("busy")} % busy, ${machineShare("idle")} % idle, ${machineShare("steal")} % taken by the host (steal)`);
+    console.log(`server threads: ${busiest.map(([thread, seconds]) => `${thread === `${server.process.pid} ${thread.split(" ").slice(1).join(" ")}` ? "main" : thread} ${((100 * seconds) / (windowMs / 1000)).toFixed(0)} %`).join(", ")}`);
     console.log(table.join("\n"));
     console.log("");
     // where in the window the slow answers were: reads by the 5-second slice they were sent in

@@ -46,28 +46,27 @@ export interface StudyAccess {
 
 /**
  * Every API request checks the session and the role; that lookup was the commonest query the server ran. Its answers
- * are remembered in this process while nothing that could change them has happened: every function that changes or
- * removes a membership, a study or a fault runs inside `changingRoles` (lib/studies.ts, lib/invitations.ts), and an answer
- * read while such a change was under way is not kept (the generation has moved on). Only this process opens the
- * embedded database (its folder is locked), so no one else changes roles behind its back; with an external PostgreSQL
- * (DATABASE_URL) other processes could, so nothing is remembered there. Only granted roles are kept: a refusal is
- * always read afresh. The state lives on globalThis so that route handlers and server actions (separate bundles)
- * share one memory and one generation.
+ * (and each study's list of members) are remembered in this process while nothing that could change them has
+ * happened: every function that changes or removes a membership, a study or a fault runs inside `changingRoles`
+ * (lib/studies.ts, lib/invitations.ts), and an answer read while such a change was under way is not kept (the
+ * generation has moved on). Only this process opens the embedded database (its folder is locked), so no one else
+ * changes roles behind its back; with an external PostgreSQL (DATABASE_URL) other processes could, so nothing is
+ * remembered there. Only granted roles are kept: a refusal is always read afresh. The state lives on globalThis so
+ * that route handlers and server actions (separate bundles) share one memory and one generation.
  */
 const ROLE_MEMORY_SIZE = 20_000;
-interface RememberedRole {
+interface Remembered {
   generation: number;
-  studyId: string;
-  role: StudyRole;
+  value: unknown;
 }
-const roleMemory = ((globalThis as unknown as { slipfieldRoleMemory?: { generation: number; roles: ReturnType<typeof lruCache<RememberedRole>> } }).slipfieldRoleMemory ??= {
+const roleMemory = ((globalThis as unknown as { slipfieldRoleMemory?: { generation: number; entries: ReturnType<typeof lruCache<Remembered>> } }).slipfieldRoleMemory ??= {
   generation: 0,
-  roles: lruCache<RememberedRole>(ROLE_MEMORY_SIZE),
+  entries: lruCache<Remembered>(ROLE_MEMORY_SIZE),
 });
 
 /**
- * Runs a write that changes or removes memberships, studies or faults, then drops every remembered role, also when
- * the write failed (it may have got half-way). Dropping them after the commit, not before, matters: a lookup made
+ * Runs a write that changes or removes memberships, studies or faults, then drops everything remembered, also when
+ * the write failed (it may have got half-way). Dropping it after the commit, not before, matters: a lookup made
  * meanwhile is then either not kept or read the new state.
  */
 export async function changingRoles<T>(write: () => Promise<T>): Promise<T> {
@@ -78,30 +77,39 @@ export async function changingRoles<T>(write: () => Promise<T>): Promise<T> {
   }
 }
 
-/** `lookup` once, or its remembered answer for `key` if no role changed since it was read (embedded database only). */
-async function rememberedRole(key: string, lookup: () => Promise<{ studyId: string; role: StudyRole | null } | undefined>) {
+/**
+ * `lookup` once, or its remembered answer for `key` if no role changed since it was read (embedded database only).
+ * `keep` decides which answers are worth remembering. The answer is shared between requests: never mutate it.
+ */
+export async function rememberedWhileRolesStand<T>(key: string, lookup: () => Promise<T>, keep: (value: T) => boolean = () => true): Promise<T> {
   const generation = roleMemory.generation;
-  const known = roleMemory.roles.get(key);
-  if (known && known.generation === generation) return known;
+  const known = roleMemory.entries.get(key);
+  if (known && known.generation === generation) return known.value as T;
   const found = await lookup();
-  if (found?.role && generation === roleMemory.generation && (await getDatabaseHandle()).kind === "pglite") {
-    roleMemory.roles.set(key, { generation, studyId: found.studyId, role: found.role });
+  if (keep(found) && generation === roleMemory.generation && (await getDatabaseHandle()).kind === "pglite") {
+    roleMemory.entries.set(key, { generation, value: found });
   }
   return found;
 }
+
+const granted = (found: { role: StudyRole | null } | undefined) => Boolean(found?.role);
 
 // ---- checks ------------------------------------------------------------------------------------------------------
 
 /** Session + membership + role check. Non-members get 404 so that ids of other studies reveal nothing. */
 export async function requireStudyRole(studyId: string, action: StudyAction): Promise<StudyAccess> {
   const user = await requireUser();
-  const membership = await rememberedRole(`study:${studyId}:${user.id}`, async () => {
-    const db = await getDb();
-    return db.query.memberships.findFirst({
-      where: and(eq(memberships.studyId, studyId), eq(memberships.userId, user.id)),
-      columns: { studyId: true, role: true },
-    });
-  });
+  const membership = await rememberedWhileRolesStand(
+    `role:study:${studyId}:${user.id}`,
+    async () => {
+      const db = await getDb();
+      return db.query.memberships.findFirst({
+        where: and(eq(memberships.studyId, studyId), eq(memberships.userId, user.id)),
+        columns: { studyId: true, role: true },
+      });
+    },
+    granted,
+  );
   if (!membership?.role) throw new ApiError(404, "Study not found.");
   if (!roleAllows(membership.role, action)) throw forbidden(ACTION_WORDS[action]);
   return { user, studyId, role: membership.role };
@@ -110,16 +118,20 @@ export async function requireStudyRole(studyId: string, action: StudyAction): Pr
 /** Session, the fault's study, membership and role in one query; a fault of another study answers 404 like a missing one. */
 export async function requireFaultRole(faultId: string, action: StudyAction): Promise<StudyAccess & { faultId: string }> {
   const user = await requireUser();
-  const row = await rememberedRole(`fault:${faultId}:${user.id}`, async () => {
-    const db = await getDb();
-    const [found] = await db
-      .select({ studyId: faults.studyId, role: memberships.role })
-      .from(faults)
-      .leftJoin(memberships, and(eq(memberships.studyId, faults.studyId), eq(memberships.userId, user.id)))
-      .where(eq(faults.id, faultId))
-      .limit(1);
-    return found;
-  });
+  const row = await rememberedWhileRolesStand(
+    `role:fault:${faultId}:${user.id}`,
+    async () => {
+      const db = await getDb();
+      const [found] = await db
+        .select({ studyId: faults.studyId, role: memberships.role })
+        .from(faults)
+        .leftJoin(memberships, and(eq(memberships.studyId, faults.studyId), eq(memberships.userId, user.id)))
+        .where(eq(faults.id, faultId))
+        .limit(1);
+      return found as { studyId: string; role: StudyRole | null } | undefined;
+    },
+    granted,
+  );
   if (!row?.role) throw new ApiError(404, "Fault not found.");
   if (!roleAllows(row.role, action)) throw forbidden(ACTION_WORDS[action]);
   return { user, studyId: row.studyId, role: row.role, faultId };

@@ -3,7 +3,7 @@ import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { faults, memberships, pinReplies, pins, pinVisits, users, type Pin, type PinReply } from "@/db/schema";
-import { requireFaultRole, requireUser, type StudyAccess, type StudyAction } from "@/lib/access";
+import { rememberedWhileRolesStand, requireFaultRole, requireUser, type StudyAccess, type StudyAction } from "@/lib/access";
 import { latestAnalysisForFault } from "@/lib/analysis/runner";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -132,35 +132,44 @@ export interface PinList {
   mentionable: { name: string; handle: string }[];
 }
 
-async function studyMembers(studyId: string) {
-  const db = await getDb();
-  return db
-    .select({ id: users.id, email: users.email, name: users.name })
-    .from(memberships)
-    .innerJoin(users, eq(users.id, memberships.userId))
-    .where(eq(memberships.studyId, studyId));
+/** The study's members (names and e-mail addresses never change; who is a member changes only through changingRoles). */
+function studyMembers(studyId: string): Promise<readonly { id: string; email: string; name: string }[]> {
+  return rememberedWhileRolesStand(`members:${studyId}`, async () => {
+    const db = await getDb();
+    return db
+      .select({ id: users.id, email: users.email, name: users.name })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .where(eq(memberships.studyId, studyId));
+  });
 }
 
 export async function listPins(access: FaultAccess, filter: PinFilter = "all"): Promise<PinList> {
   const db = await getDb();
   const me = access.user.id;
   const canComment = access.role !== "viewer";
-  const visit = await db.query.pinVisits.findFirst({ where: and(eq(pinVisits.userId, me), eq(pinVisits.faultId, access.faultId)) });
-  const since = visit?.visitedAt ?? null;
-  const isUnread = (createdAt: Date, authorId: string | null) => authorId !== me && (since === null || createdAt > since);
-
   const conditions = [eq(pins.faultId, access.faultId), isNull(pins.deletedAt)];
   if (filter === "mine") conditions.push(eq(pins.authorId, me));
   if (filter === "open") conditions.push(eq(pins.state, "open"));
-  const pinRows = await db.select().from(pins).where(and(...conditions)).orderBy(desc(pins.createdAt));
-  const replyRows = pinRows.length
-    ? await db
-        .select()
-        .from(pinReplies)
-        .where(and(inArray(pinReplies.pinId, pinRows.map((pin) => pin.id)), isNull(pinReplies.deletedAt)))
-        .orderBy(asc(pinReplies.createdAt))
-    : [];
-  const members = await studyMembers(access.studyId);
+  // independent reads sent together: one wait for the database instead of four in a row
+  const [visit, pinRows, repliesOfFault, members] = await Promise.all([
+    db.query.pinVisits.findFirst({ where: and(eq(pinVisits.userId, me), eq(pinVisits.faultId, access.faultId)) }),
+    db.select().from(pins).where(and(...conditions)).orderBy(desc(pins.createdAt)),
+    // the replies of every live pin of the fault (those of pins the filter leaves out are not used)
+    db
+      .select({ reply: pinReplies })
+      .from(pinReplies)
+      .innerJoin(pins, eq(pins.id, pinReplies.pinId))
+      .where(and(eq(pins.faultId, access.faultId), isNull(pins.deletedAt), isNull(pinReplies.deletedAt)))
+      .orderBy(asc(pinReplies.createdAt))
+      .then((rows) => rows.map((row) => row.reply)),
+    studyMembers(access.studyId),
+  ]);
+  const shown = new Set(pinRows.map((pin) => pin.id));
+  const replyRows = repliesOfFault.filter((reply) => shown.has(reply.pinId));
+  const since = visit?.visitedAt ?? null;
+  const isUnread = (createdAt: Date, authorId: string | null) => authorId !== me && (since === null || createdAt > since);
+
   const personIds = new Set<string>();
   for (const row of [...pinRows, ...replyRows]) if (row.authorId) personIds.add(row.authorId);
   for (const pin of pinRows) if (pin.resolvedBy) personIds.add(pin.resolvedBy);
@@ -189,7 +198,9 @@ export async function listPins(access: FaultAccess, filter: PinFilter = "all"): 
       editableUntil: until.toISOString(),
       can: { edit: canComment && mine && until.getTime() > now, delete: canComment && mine },
     };
-    repliesByPin.set(reply.pinId, [...(repliesByPin.get(reply.pinId) ?? []), view]);
+    const ofPin = repliesByPin.get(reply.pinId);
+    if (ofPin) ofPin.push(view);
+    else repliesByPin.set(reply.pinId, [view]);
   }
 
   const pinViews = pinRows.map((pin): PinView => {

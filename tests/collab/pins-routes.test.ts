@@ -244,6 +244,33 @@ describe("pins: rules beyond the role", () => {
     expect(thread.replies[0]).toMatchObject({ body: "new reply after the visit", unread: true, author: { name: fresh.people.owner.name } });
   });
 
+  it("lists each pin with its own live replies in order; deleted pins and replies stay out, filters keep their pins' threads", async () => {
+    const fresh = await studyWithEveryRole();
+    await giveFaultDoneAnalysis(fresh.fault.id);
+    const first = await insertPin(fresh.fault.id, fresh.people.reviewer.id, "first pin");
+    const second = await insertPin(fresh.fault.id, fresh.people.interpreter.id, "second pin");
+    const gone = await insertPin(fresh.fault.id, fresh.people.reviewer.id, "pin deleted later");
+    const reply = async (pinId: string, body: string) => (await callRoute(repliesRoute.POST, { method: "POST", params: { pinId }, body: { body } })).json.reply.id as string;
+    signInAs(fresh.people.reviewer);
+    await reply(first.id, "a on first");
+    const deletedReply = await reply(second.id, "deleted on second");
+    await reply(gone.id, "on the deleted pin");
+    signInAs(fresh.people.interpreter);
+    await reply(first.id, "b on first");
+    await reply(second.id, "c on second");
+    signInAs(fresh.people.reviewer);
+    expect((await callRoute(replyRoute.DELETE, { method: "DELETE", params: { pinId: second.id, replyId: deletedReply } })).status).toBe(204);
+    expect((await callRoute(pinRoute.DELETE, { method: "DELETE", params: { pinId: gone.id } })).status).toBe(204);
+
+    const threads = (path?: string) =>
+      callRoute(faultPinsRoute.GET, { path, params: { faultId: fresh.fault.id } }).then((listed) =>
+        Object.fromEntries(listed.json.pins.map((p: any) => [p.body, p.replies.map((r: any) => r.body)])),
+      );
+    expect(await threads()).toEqual({ "first pin": ["a on first", "b on first"], "second pin": ["c on second"] });
+    signInAs(fresh.people.interpreter);
+    expect(await threads("/api/x?filter=mine")).toEqual({ "second pin": ["c on second"] });
+  });
+
   it("lets only the author edit or delete a reply", async () => {
     const pin = await insertPin(fixture.fault.id, fixture.people.reviewer.id);
     signInAs(fixture.people.interpreter);

@@ -2,6 +2,7 @@ import "server-only";
 import nodemailer from "nodemailer";
 import { getDb } from "@/db/client";
 import { outbox } from "@/db/schema";
+import { htmlFromText } from "@/lib/mail-html";
 
 export interface MailMessage {
   to: string;
@@ -23,14 +24,18 @@ function transport() {
   return globalForMail.slipfieldMail;
 }
 
-/** Every message is kept in the outbox table (the development mailbox), then handed to the transport. */
+/**
+ * Every message is kept in the outbox table (the development mailbox), then handed to the transport. A message
+ * without its own HTML gets one made from its text (escaped; only links into this Slipfield clickable).
+ */
 export async function sendMail(message: MailMessage) {
   const db = await getDb();
+  const html = message.html ?? htmlFromText(message.text, new URL(appUrl("/")).origin);
   const [stored] = await db
     .insert(outbox)
-    .values({ to: message.to, subject: message.subject, text: message.text, html: message.html ?? null, kind: message.kind, studyId: message.studyId ?? null })
+    .values({ to: message.to, subject: message.subject, text: message.text, html, kind: message.kind, studyId: message.studyId ?? null })
     .returning();
-  await transport().sendMail({ from: FROM, to: message.to, subject: message.subject, text: message.text, html: message.html });
+  await transport().sendMail({ from: FROM, to: message.to, subject: message.subject, text: message.text, html });
   return stored;
 }
 

@@ -61,6 +61,14 @@ describe("pin e-mails land in the outbox for the right people", () => {
     expect(await mailTo(reviewer.email)).toHaveLength(0);
   });
 
+  it("a note's markup reaches the e-mail's HTML part as text, never as markup", async () => {
+    const { interpreter } = fixture.people;
+    await newPin(fixture, "reviewer", `@${handle(interpreter.email)} <img src=x onerror=alert(1)> & "quotes"`);
+    const [mail] = (await mailTo(interpreter.email)).filter((message) => message.text.includes("onerror"));
+    expect(mail.html).not.toContain("<img");
+    expect(mail.html).toContain("&lt;img src=x onerror=alert(1)&gt; &amp; &quot;quotes&quot;");
+  });
+
   it("a reply e-mails the pin's author once, even when the reply also mentions them", async () => {
     const { interpreter, reviewer, owner } = fixture.people;
     const pinId = await newPin(fixture, "reviewer", "Is this a mis-pick?");
@@ -70,6 +78,9 @@ describe("pin e-mails land in the outbox for the right people", () => {
     expect(toReviewer).toHaveLength(1);
     expect(toReviewer[0]).toMatchObject({ kind: "pin-reply", subject: `${interpreter.name} replied to your pin on ${fixture.fault.name}` });
     expect(toReviewer[0].text).toContain("fixed in v2");
+    // the HTML part says the same, escaped, with the link to the pin clickable
+    expect(toReviewer[0].html).toContain("fixed in v2");
+    expect(toReviewer[0].html).toMatch(new RegExp(`<a href="http[^"]+/studies/${fixture.study.id}/faults/${fixture.fault.id}\\?pin=${pinId}"`));
     expect(await mailTo(owner.email)).toHaveLength(0);
     // replying in your own thread sends nothing
     signInAs(reviewer);

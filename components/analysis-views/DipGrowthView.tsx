@@ -8,7 +8,7 @@ import type { AnalysisReport } from "@/lib/engine/types";
 import { toCsv } from "@/lib/views/csv";
 import { backstripThrows, expansionIndex, readThrowDepth, throwDepthAt, type HorizonBin } from "@/lib/views/growth";
 import { dipProfileAtS, planePointToWorld } from "@/lib/views/profiles";
-import { CHART, PlotChart } from "./PlotChart";
+import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 export function DipGrowthView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
   const dip = useMemo(
@@ -34,11 +34,12 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
         csv={() => toCsv(["segment", "t_m", "z_m", "displacement_m", "throw_m"], dip.map((p) => [p.series, p.t, p.z, p.displacementM, p.throwM]))}
         build={(width) =>
           Plot.plot({
+            ...X_AXIS_ROOM,
             width,
             height: 300,
             marginLeft: 56,
             style: { fontSize: "12px", background: "transparent" },
-            x: { label: "Down dip, t (m; positive downward)", grid: true },
+            x: { ...X_LABEL_BELOW, label: "Down dip, t (m; positive downward)", grid: true },
             y: { label: "Displacement (m)", grid: true, zero: true },
             color: { legend: report.segments.length > 1, domain: report.segments.map((s) => s.id), range: CHART.segments },
             marks: [
@@ -100,8 +101,9 @@ function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: Ana
           csv={() => toCsv(["segment", "horizon", "s_m", "throw_m", "z_m", "picks"], own.map((b) => [b.segment, b.horizon, b.s, b.throwM, b.z, b.count]))}
           build={(width) =>
             Plot.plot({
+              ...X_AXIS_ROOM,
               width, height: 280, marginLeft: 50, style: { fontSize: "12px", background: "transparent" },
-              x: { label: "Along strike, s (m)", grid: true }, y: { label: "Throw (m)", grid: true, zero: true },
+              x: { ...X_LABEL_BELOW, label: "Along strike, s (m)", grid: true }, y: { label: "Throw (m)", grid: true, zero: true },
               color: { legend: true, type: "categorical" },
               marks: [Plot.ruleX([at], { stroke: CHART.tip }), Plot.line(own, { x: "s", y: "throwM", stroke: "horizon" }), Plot.dot(own, { x: "s", y: "throwM", fill: "horizon", r: 2 }), Plot.tip(own, Plot.pointer({ x: "s", y: "throwM", title: (b: HorizonBin) => `${b.horizon}\ns ${b.s.toFixed(0)} m\nthrow ${b.throwM.toFixed(1)} m (median of ${b.count})` }))],
             })
@@ -116,8 +118,9 @@ function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: Ana
           csv={() => toCsv(["horizon", "z_m", "throw_m"], tz.map((p) => [p.horizon, p.z, p.throwM]))}
           build={(width) =>
             Plot.plot({
+              ...X_AXIS_ROOM,
               width, height: 280, marginLeft: 60, style: { fontSize: "12px", background: "transparent" },
-              x: { label: "Throw (m)", grid: true, zero: true }, y: { label: "Elevation (m, up positive)", grid: true },
+              x: { ...X_LABEL_BELOW, label: "Throw (m)", grid: true, zero: true }, y: { label: "Elevation (m, up positive)", grid: true },
               marks: [Plot.line(tz, { x: "throwM", y: "z", stroke: CHART.slip, sort: "z" }), Plot.dot(tz, { x: "throwM", y: "z", fill: CHART.slip, r: 4 }), Plot.text(tz, { x: "throwM", y: "z", text: "horizon", dx: 8, textAnchor: "start" }), Plot.tip(tz, Plot.pointer({ x: "throwM", y: "z", title: (p: (typeof tz)[number]) => `${p.horizon}: throw ${p.throwM.toFixed(1)} m at ${p.z.toFixed(0)} m` }))],
             })
           }
@@ -140,8 +143,9 @@ function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: Ana
           csv={() => toCsv(["interval_below_horizon", "expansion_index", "accrued_throw_m"], ei.map((p) => [p.horizon, p.ei!.index, p.ei!.accruedThrowM]))}
           build={(width) =>
             Plot.plot({
+              ...X_AXIS_ROOM,
               width, height: 220, marginLeft: 90, style: { fontSize: "12px", background: "transparent" },
-              x: { label: "Expansion index = hanging-wall / footwall thickness", grid: true }, y: { label: "Interval (below horizon)" },
+              x: { ...X_LABEL_BELOW, label: "Expansion index = hanging-wall / footwall thickness", grid: true }, y: { label: "Interval (below horizon)" },
               marks: [Plot.barX(ei, { y: "horizon", x: (p: (typeof ei)[number]) => p.ei!.index, fill: CHART.slip }), Plot.ruleX([1], { stroke: CHART.tip, strokeWidth: 2 }), Plot.tip(ei, Plot.pointerY({ y: "horizon", x: (p: (typeof ei)[number]) => p.ei!.index, title: (p: (typeof ei)[number]) => `EI ${p.ei!.index.toFixed(2)}; throw accrued ≈ ${p.ei!.accruedThrowM.toFixed(1)} m` }))],
             })
           }

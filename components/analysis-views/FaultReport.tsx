@@ -9,7 +9,7 @@ import { fileStem } from "@/lib/views/csv";
 import { CautionNote } from "@/components/workspace/CautionNote";
 import { degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
 import { REPORT_PICTURE_KEY } from "./download";
-import { CHART, PlotChart } from "./PlotChart";
+import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 import { RelayTable } from "./RelayView";
 import { ScalingChart } from "./ScalingView";
 import { StrikeProfileView } from "./StrikeProfileView";
@@ -149,8 +149,9 @@ function ContourMap({ data, stem }: { data: FaultReportData; stem: string }) {
       deps={[rings, tips]}
       build={(width) =>
         Plot.plot({
+          ...X_AXIS_ROOM,
           width, height: 260, marginLeft: 56, style: { fontSize: "11px", background: "transparent" },
-          x: { label: "s along strike (m)" }, y: { label: "t down dip (m)", reverse: true },
+          x: { ...X_LABEL_BELOW, label: "s along strike (m)" }, y: { label: "t down dip (m)", reverse: true },
           color: { scheme: "viridis", label: "Displacement (m)", legend: true },
           marks: [Plot.line(rings, { x: "s", y: "t", z: "id", stroke: "level" }), Plot.line(tips, { x: "s", y: "t", z: "segment", stroke: CHART.tip, strokeWidth: 2 })],
         })

@@ -60,3 +60,7 @@ export const CHART = {
   overlap: "#f5a524",
   segments: ["#247a75", "#2563eb", "#be185d", "#65a30d"],
 };
+
+/** Room under a chart for its x ticks and, below them, the x label (Plot's default margin lets a long label run into the ticks). */
+export const X_AXIS_ROOM = { marginBottom: 44 } as const;
+export const X_LABEL_BELOW = { labelOffset: 38 } as const;

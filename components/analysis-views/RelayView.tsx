@@ -8,7 +8,7 @@ import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
 import type { HorizonBin } from "@/lib/views/growth";
 import { horizonRampDips, relaySketch } from "@/lib/views/relay";
-import { CHART, PlotChart } from "./PlotChart";
+import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 const LINKAGE_WORDS: Record<RelayResult["linkage"], string> = { soft: "soft-linked (intact relay ramp)", breached: "breached relay", hard: "hard-linked" };
 
@@ -75,11 +75,12 @@ function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult
         build={(width) => {
           const series = [...new Set([...lines.map((p) => p.series), ...traces.map((p) => p.series)])];
           return Plot.plot({
+            ...X_AXIS_ROOM,
             width,
             height: 300,
             marginLeft: 60,
             style: { fontSize: "12px", background: "transparent" },
-            x: { label: "Along mean strike (m)", grid: true },
+            x: { ...X_LABEL_BELOW, label: "Along mean strike (m)", grid: true },
             y: { label: "Across strike, toward dip (m)", grid: true, reverse: true },
             color: { legend: true, domain: series, range: series.map((name) => (name.includes("tip line") ? CHART.tip : name.startsWith(relay.segments[0]) ? CHART.segments[0] : CHART.segments[1])) },
             marks: [

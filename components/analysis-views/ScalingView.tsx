@@ -5,7 +5,16 @@ import { useMemo } from "react";
 import { apiFetch } from "@/lib/api/client";
 import { toCsv } from "@/lib/views/csv";
 import { fitPowerLaw, powerLawLine, SCALING_GUIDES, type FaultScalingPoint, type PowerLawFit } from "@/lib/views/scaling";
-import { CHART, PlotChart } from "./PlotChart";
+import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
+
+/**
+ * Log-axis tick labels as plain numbers at 1, 2 and 5 of each decade (the default SI labels print 0.2 m as "200m",
+ * which reads as 200 metres; labelling every tick crowds the upper end of each decade).
+ */
+function logTickLabel(value: number) {
+  const mantissa = value / 10 ** Math.floor(Math.log10(value) + 1e-9);
+  return [1, 2, 5].some((shown) => Math.abs(mantissa - shown) < 1e-6) ? value.toLocaleString("en-US", { maximumFractionDigits: 3 }) : "";
+}
 
 export function useStudyScaling(faultId: string) {
   return useQuery({
@@ -35,12 +44,13 @@ export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { p
         const fitNames = [...new Set(fits.map((g) => g.guide))];
         const boxName = `${box.label} (${box.source})`;
         return Plot.plot({
+          ...X_AXIS_ROOM,
           width,
           height,
           marginLeft: 56,
           style: { fontSize: "12px", background: "transparent" },
-          x: { type: "log", label: "Fault length L, inferred tip line (m)", domain: [lo, hi], grid: true },
-          y: { type: "log", label: "Maximum displacement Dmax (m)", domain: [Math.min(0.1, lo * 0.001), Math.max(1000, hi * 0.1)], grid: true },
+          x: { ...X_LABEL_BELOW, type: "log", label: "Fault length L, inferred tip line (m)", domain: [lo, hi], grid: true, tickFormat: logTickLabel },
+          y: { type: "log", label: "Maximum displacement Dmax (m)", tickFormat: logTickLabel, domain: [Math.min(0.1, lo * 0.001), Math.max(1000, hi * 0.1)], grid: true },
           color: {
             legend: true,
             domain: [...guideNames, boxName, ...fitNames],

@@ -19,7 +19,7 @@ import {
   type GridLike,
   type Profile,
 } from "@/lib/views/profiles";
-import { CHART, PlotChart } from "./PlotChart";
+import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 type Mode = "centre-line" | "column-max" | "line";
 type Quantity = "displacement" | "throw";
@@ -140,11 +140,12 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
             const domain = [...series, ...(chart.sum.length ? ["sum of segments"] : []), ...(chart.modelRows.length ? ["fitted model"] : [])];
             const range = [...series.map((_, i) => CHART.segments[i % CHART.segments.length]), ...(chart.sum.length ? [CHART.sum] : []), ...(chart.modelRows.length ? [CHART.model] : [])];
             return Plot.plot({
+              ...X_AXIS_ROOM,
               width,
               height: 320,
               marginLeft: 56,
               style: { fontSize: "12px", background: "transparent" },
-              x: { label: xLabel, grid: true },
+              x: { ...X_LABEL_BELOW, label: xLabel, grid: true },
               y: { label: yLabel, grid: true, zero: true },
               color: { legend: true, domain, range },
               marks: [
@@ -201,11 +202,12 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
         const s1 = grid.s0 + (grid.columns - 1) * grid.cellM;
         const t1 = grid.t0 + (grid.rows - 1) * grid.cellM;
         const chart = Plot.plot({
+          ...X_AXIS_ROOM,
           width: w,
           height: Math.max(160, Math.min(320, (w * (t1 - grid.t0)) / Math.max(1, s1 - grid.s0) + 60)),
           marginLeft: 50,
           style: { fontSize: "11px", background: "transparent", cursor: "crosshair", touchAction: "none" },
-          x: { label: "s along strike (m)", domain: [grid.s0, s1] },
+          x: { ...X_LABEL_BELOW, label: "s along strike (m)", domain: [grid.s0, s1] },
           y: { label: "t down dip (m)", domain: [t1, grid.t0] },
           color: { scheme: "viridis", label: "Displacement (m)" },
           marks: [

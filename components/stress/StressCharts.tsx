@@ -2,6 +2,7 @@
 import * as Plot from "@observablehq/plot";
 import { usePlotFigure } from "@/components/analysis-views/usePlotFigure";
 import type { StressParameters } from "@/db/schema";
+import { X_AXIS_ROOM, X_LABEL_BELOW } from "@/components/analysis-views/PlotChart";
 
 const COLOURS = { low: "#c2410c", high: "#247a75", guide: "#94a3b8", circle: "#7c3aed" };
 
@@ -34,11 +35,12 @@ export function PressureHistogram({ histogram, parameters, thresholdsMPa, height
       deps={[histogram, parameters.frictionLow, parameters.frictionHigh, thresholdsMPa.join(",")]}
       build={(width) =>
         Plot.plot({
+          ...X_AXIS_ROOM,
           width,
           height,
           marginLeft: 44,
           style: { fontSize: "11px", background: "transparent" },
-          x: { label: "ΔP to failure (MPa) →" },
+          x: { ...X_LABEL_BELOW, label: "ΔP to failure (MPa) →" },
           y: { label: "↑ Fault area (%)", grid: true },
           color: { legend: true, domain: [lowLabel, highLabel], range: [COLOURS.low, COLOURS.high] },
           marks: [
@@ -106,11 +108,12 @@ export function MohrPlot({ mohr, parameters, reference, height = 300 }: {
       deps={[mohr, parameters, reference]}
       build={(width) =>
         Plot.plot({
+          ...X_AXIS_ROOM,
           width,
           height,
           marginLeft: 44,
           style: { fontSize: "11px", background: "transparent" },
-          x: { label: "Effective normal stress σn′ (MPa) →", domain: [xMin, xMax] },
+          x: { ...X_LABEL_BELOW, label: "Effective normal stress σn′ (MPa) →", domain: [xMin, xMax] },
           y: { label: "↑ Shear stress τ (MPa)", grid: true, domain: [0, yTop] },
           color: { legend: true, label: "Depth (m)", scheme: "cividis", reverse: true },
           marks: [

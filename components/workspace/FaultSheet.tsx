@@ -38,7 +38,7 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
       </dl>
       <div className="rounded-lg bg-slate-50 p-3 text-xs leading-relaxed text-slate-600 dark:bg-slate-950 dark:text-slate-300">
         <p>
-          <span className="font-medium text-slate-800 dark:text-slate-100">Tip line:</span> {MODEL_NAMES[tip.model] ?? tip.model}, ±{metres(tip.uncertaintyM, 0)}. {tip.method}
+          <span className="font-medium text-slate-800 dark:text-slate-100">Tip line:</span> {MODEL_NAMES[tip.model] ?? tip.model}, ±{metres(tip.uncertaintyM, 0)}. {asSentence(tip.method)}
         </p>
         <p className="mt-1.5">
           <span className="font-medium text-slate-800 dark:text-slate-100">Scaling:</span> {segment.scaling.note}
@@ -96,3 +96,6 @@ export function FaultSheet({ report }: { report: AnalysisReport }) {
     </div>
   );
 }
+
+/** A lower-case phrase from the engine's report as a sentence of its own. */
+const asSentence = (phrase: string) => `${phrase.charAt(0).toUpperCase()}${phrase.slice(1)}${/[.!?]$/.test(phrase) ? "" : "."}`;

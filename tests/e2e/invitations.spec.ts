@@ -40,11 +40,34 @@ test("an owner invites a colleague by e-mail; they create an account from the li
   // the link worked once
   await guest.goto(invitePath);
   await expect(guest.getByTestId("invite-used")).toBeVisible();
-  await guestContext.close();
 
   // the owner sees the new member with the role they chose
   await page.goto("/studies");
   await openDemoStudy(page);
-  await expect(page.getByTestId("people")).toContainText("Noor Haddad");
-  await expect(page.getByTestId("people")).toContainText("reviewer");
+  const newcomer = page.getByTestId("people").locator("li").filter({ hasText: "Noor Haddad" });
+  await expect(newcomer).toBeVisible();
+  await expect(newcomer.getByLabel("Role")).toHaveValue("reviewer");
+
+  // roles are remembered by the server: a change made through the API must reach the pages (another bundle) at once
+  await guest.goto("/studies");
+  await openDemoStudy(guest);
+  await guest.getByRole("link", { name: "QG-4", exact: true }).click();
+  await expect(guest.getByTestId("fault-sheet")).toBeVisible();
+  const faultPath = new URL(guest.url()).pathname;
+  const faultId = faultPath.split("/faults/")[1];
+  await expect(guest.getByTestId("open-upload")).toHaveCount(0);
+  await newcomer.getByLabel("Role").selectOption("interpreter");
+  await expect(newcomer.getByLabel("Role")).toHaveValue("interpreter");
+  await guest.reload();
+  await expect(guest.getByTestId("open-upload")).toBeVisible();
+
+  // removed by the owner (a second click confirms): the very next page and API request are refused
+  await newcomer.getByTestId("remove-member").click();
+  await expect(newcomer.getByTestId("remove-member-confirm")).toContainText("Remove Noor Haddad from this study?");
+  await newcomer.getByTestId("remove-member-yes").click();
+  await expect(page.getByTestId("people")).not.toContainText("Noor Haddad");
+  await guest.reload();
+  await expect(guest.getByRole("heading", { name: "Nothing mapped here" })).toBeVisible();
+  expect((await guest.request.get(`/api/faults/${faultId}`)).status()).toBe(404);
+  await guestContext.close();
 });

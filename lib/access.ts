@@ -51,8 +51,9 @@ export interface StudyAccess {
  * (lib/studies.ts, lib/invitations.ts), and an answer read while such a change was under way is not kept (the
  * generation has moved on). Only this process opens the embedded database (its folder is locked), so no one else
  * changes roles behind its back; with an external PostgreSQL (DATABASE_URL) other processes could, so nothing is
- * remembered there. Only granted roles are kept: a refusal is always read afresh. The state lives on globalThis so
- * that route handlers and server actions (separate bundles) share one memory and one generation.
+ * remembered there. Only granted roles are kept: a refusal is always read afresh. The state lives on globalThis: route
+ * handlers, pages and server actions are separate bundles, each with its own copy of this module, and must share one
+ * memory and one generation (tests/e2e/invitations.spec.ts fails without it).
  */
 const ROLE_MEMORY_SIZE = 20_000;
 interface Remembered {

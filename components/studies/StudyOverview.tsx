@@ -105,20 +105,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
           </div>
           <ul className="divide-y divide-slate-100 dark:divide-slate-800" data-testid="people">
             {people.map((person) => (
-              <li key={person.userId} className="flex items-center justify-between gap-2 px-5 py-2.5 text-sm" data-user-id={person.userId}>
-                <div className="min-w-0">
-                  <div className="truncate font-medium">{person.name}{person.userId === currentUserId && <span className="text-slate-400"> (you)</span>}</div>
-                  <div className="truncate text-xs text-slate-500">{person.email}</div>
-                </div>
-                {canAdmin ? (
-                  <div className="flex flex-col items-end gap-1">
-                    <RoleSelect studyId={studyId} userId={person.userId} role={person.role} />
-                    {person.userId !== currentUserId && <RemoveMember studyId={studyId} userId={person.userId} name={person.name} />}
-                  </div>
-                ) : (
-                  <RoleBadge role={person.role} />
-                )}
-              </li>
+              <PersonRow key={person.userId} studyId={studyId} person={person} isYou={person.userId === currentUserId} canAdmin={canAdmin} />
             ))}
           </ul>
           {canAdmin && <InviteForm studyId={studyId} />}
@@ -179,28 +166,44 @@ function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string
   );
 }
 
-/** Takes a member out of the study after a second click; their pins and replies stay, signed with their name. */
-function RemoveMember({ studyId, userId, name }: { studyId: string; userId: string; name: string }) {
-  const [asking, setAsking] = useState(false);
-  const remove = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "DELETE" }));
-  if (!asking) {
-    return (
-      <button type="button" className="text-xs text-slate-500 hover:text-red-700 dark:hover:text-red-300" onClick={() => setAsking(true)} data-testid="remove-member">
-        Remove
-      </button>
-    );
-  }
+/** One member: name and address, and for owners their role and (for others) a remove that a second click confirms. */
+function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; person: Overview["people"][number]; isYou: boolean; canAdmin: boolean }) {
+  const [askingToRemove, setAskingToRemove] = useState(false);
+  // their pins and replies stay, signed with their name
+  const remove = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/members/${person.userId}`, { method: "DELETE" }));
   return (
-    <div className="text-right text-xs" data-testid="remove-member-confirm">
-      <span className="text-slate-600 dark:text-slate-300">Remove {name} from this study?</span>{" "}
-      <button type="button" className="font-medium text-red-700 hover:underline dark:text-red-300" disabled={remove.isPending} onClick={() => remove.mutate(undefined)} data-testid="remove-member-yes">
-        Remove
-      </button>{" "}
-      <button type="button" className="text-slate-500 hover:underline" onClick={() => setAsking(false)}>
-        Keep
-      </button>
-      {remove.error && <p className="field-error text-xs">{remove.error.message}</p>}
-    </div>
+    <li className="px-5 py-2.5 text-sm" data-user-id={person.userId}>
+      <div className="flex items-center justify-between gap-2">
+        <div className="min-w-0">
+          <div className="truncate font-medium">{person.name}{isYou && <span className="text-slate-400"> (you)</span>}</div>
+          <div className="truncate text-xs text-slate-500">{person.email}</div>
+        </div>
+        {canAdmin ? (
+          <div className="flex flex-col items-end gap-1">
+            <RoleSelect studyId={studyId} userId={person.userId} role={person.role} />
+            {!isYou && !askingToRemove && (
+              <button type="button" className="text-xs text-slate-500 hover:text-red-700 dark:hover:text-red-300" onClick={() => setAskingToRemove(true)} data-testid="remove-member">
+                Remove
+              </button>
+            )}
+          </div>
+        ) : (
+          <RoleBadge role={person.role} />
+        )}
+      </div>
+      {askingToRemove && (
+        <div className="mt-2 flex flex-wrap items-center justify-end gap-x-3 gap-y-1 text-xs" data-testid="remove-member-confirm">
+          <span className="text-slate-600 dark:text-slate-300">Remove {person.name} from this study?</span>
+          <button type="button" className="font-medium text-red-700 hover:underline dark:text-red-300" disabled={remove.isPending} onClick={() => remove.mutate(undefined)} data-testid="remove-member-yes">
+            Remove
+          </button>
+          <button type="button" className="text-slate-500 hover:underline" onClick={() => setAskingToRemove(false)}>
+            Keep
+          </button>
+          {remove.error && <p className="field-error basis-full text-right">{remove.error.message}</p>}
+        </div>
+      )}
+    </li>
   );
 }
 

@@ -1,5 +1,7 @@
 // npm run loadtest — the production build on loopback under a mixed load, with two 10⁵-pick analyses during the window.
 //   LOADTEST_SECONDS (60)      length of the measured window
+//   LOADTEST_WARMUP_SECONDS (10) the same load first, not measured: a server that has just started is still compiling
+//                              its code and filling its memories (its read p95 there is printed apart)
 //   LOADTEST_CONNECTIONS (50)  concurrent connections (each a loop: send, wait for the answer, send the next)
 //   LOADTEST_SIGNUPS (8)       users created through the sign-up form, beside the four demo accounts
 //   LOADTEST_BIG_UPLOADS (2)   10⁵-pick files uploaded and analysed during the window (0: the same load without analyses)
@@ -29,6 +31,7 @@ import {
 } from "./hardening/server";
 
 const SECONDS = Number(process.env.LOADTEST_SECONDS ?? 60);
+const WARMUP_SECONDS = Number(process.env.LOADTEST_WARMUP_SECONDS ?? 10);
 const CONNECTIONS = Number(process.env.LOADTEST_CONNECTIONS ?? 50);
 const SIGNUPS = Number(process.env.LOADTEST_SIGNUPS ?? 8);
 const RATE = Number(process.env.LOADTEST_RATE ?? 0);
@@ -185,11 +188,12 @@ async function main() {
 
     // ---- the measured window ----------------------------------------------------------------------------------
     const samples: Sample[] = [];
+    const warmupSamples: Sample[] = [];
     const errors: string[] = [];
     const acknowledged = { pins: [] as { faultId: string; id: string; reader: Client }[], replies: [] as { faultId: string; pinId: string; id: string; reader: Client }[], viewpoints: [] as { faultId: string; id: string; reader: Client }[], faults: [] as { studyId: string; id: string; reader: Client }[] };
     let writeCounter = 0;
-    const windowStart = Date.now();
-    const windowStartPerf = performance.now();
+    const windowStart = Date.now() + WARMUP_SECONDS * 1000;
+    const windowStartPerf = performance.now() + WARMUP_SECONDS * 1000;
     const windowEnd = windowStart + SECONDS * 1000;
 
     // scheduledAt (paced runs): the send time the request was scheduled for; the clock starts there, not when the loop got to it
@@ -205,7 +209,7 @@ async function main() {
         return null;
       }
       const ms = performance.now() - t0;
-      samples.push({ kind, name, ms, status: response.status, sentAt: t0 - windowStartPerf });
+      (t0 < windowStartPerf ? warmupSamples : samples).push({ kind, name, ms, status: response.status, sentAt: t0 - windowStartPerf });
       if (response.status >= 400) errors.push(`${name}: HTTP ${response.status} ${leanText(response).slice(0, 200)}`);
       return response;
     };
@@ -267,7 +271,7 @@ async function main() {
     // the analyses (two by default): uploaded by the interpreter to the two demo faults a few seconds into the window
     const interpreter = actors[1];
     const analysisRuns = (async () => {
-      await new Promise((resolve) => setTimeout(resolve, Math.min(5000, (SECONDS * 1000) / 10)));
+      await new Promise((resolve) => setTimeout(resolve, WARMUP_SECONDS * 1000 + Math.min(5000, (SECONDS * 1000) / 10)));
       return Promise.all(
         bigFiles.map(async (file, index) => {
           // a fault of its own, so the pins written meanwhile on the demo faults keep their segments
@@ -292,12 +296,14 @@ async function main() {
     })();
 
     const loadBefore = (await import("node:os")).loadavg()[0];
+    log(`${WARMUP_SECONDS} s of warm-up, then measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`);
+    const loops = Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
+    await new Promise((resolve) => setTimeout(resolve, Math.max(0, windowStart - Date.now())));
     const clientCpuBefore = process.cpuUsage();
     const serverCpuBefore = cpuSecondsOfTree(server.process.pid!);
     const threadCpuBefore = cpuSecondsByThread(server.process.pid!);
     const machineBefore = machineCpuTicks();
-    log(`measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`);
-    await Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
+    await loops;
     const windowMs = Date.now() - windowStart;
     const clientCpu = process.cpuUsage(clientCpuBefore);
     const clientCpuSeconds = (clientCpu.user + clientCpu.system) / 1e6;
@@ -354,7 +360,9 @@ async function main() {
 
     console.log("");
     console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
-    console.log(`machine load average (1 min) before the window ${loadBefore.toFixed(1)}, after ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
+    const warmupReads = warmupSamples.filter((sample) => sample.kind === "read").map((sample) => sample.ms).sort((a, b) => a - b);
+    if (WARMUP_SECONDS > 0) console.log(`warm-up: the same load for ${WARMUP_SECONDS} s after start-up before the window, not in the figures below (${warmupSamples.length} requests, reads p95 ${percentile(warmupReads, 95).toFixed(0)} ms)`);
+    console.log(`machine load average (1 min) before the ${WARMUP_SECONDS > 0 ? "warm-up" : "window"} ${loadBefore.toFixed(1)}, after the window ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
     console.log(`CPU during the window: server ${serverCpuSeconds.toFixed(1)} s (${((100 * serverCpuSeconds) / (windowMs / 1000)).toFixed(0)} % of one core, every thread), load generator ${clientCpuSeconds.toFixed(1)} s (${((100 * clientCpuSeconds) / (windowMs / 1000)).toFixed(0)} %)`);
     const busiest = threadCpu.filter(([, seconds]) => seconds >= 0.5).sort((a, b) => b[1] - a[1]);
     console.log(`machine CPU during the window (both cores): ${machineShare("busy")} % busy, ${machineShare("idle")} % idle, ${machineShare("steal")} % taken by the host (steal)`);
@@ -373,7 +381,7 @@ async function main() {
       console.log(`analysis ${index + 1}: ${run.rows} picks, upload answered in ${(run.uploadMs / 1000).toFixed(1)} s, ${run.status}${run.error ? ` (${run.error})` : ""} at ${(run.doneAt / 1000).toFixed(1)} s into the window`);
     }
     const writes = acknowledged.pins.length + acknowledged.replies.length + acknowledged.viewpoints.length + acknowledged.faults.length;
-    console.log(`acknowledged writes: ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
+    console.log(`acknowledged writes (warm-up included): ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
     console.log(`errors: ${errors.length}`);
     for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))]) console.log(`  ${error}`);
     if (process.env.LOADTEST_SERVER_OUTPUT === "1") console.log(`server output:\n${server.output()}`);

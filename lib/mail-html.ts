@@ -1,7 +1,5 @@
 // The HTML part of Slipfield's e-mails, made from their text part so the two always say the same thing.
-
-const ESCAPES: Record<string, string> = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
-const escapeHtml = (text: string) => text.replace(/[&<>"']/g, (character) => ESCAPES[character]);
+import { escapeHtml } from "@/lib/pins/text";
 
 const URL_PATTERN = /https?:\/\/[^\s<>"']+/g;
 const TRAILING_PUNCTUATION = /[.,;:!?)\]]+$/;

@@ -69,18 +69,26 @@ function percentile(sorted: number[], p: number) {
   return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
 }
 
-/** CPU seconds (user + system, all threads) of a process and its descendants, from /proc (Linux). */
+/**
+ * One /proc stat file (a process's or a thread's): its name, parent pid and CPU seconds used (user + system; Linux
+ * counts them in clock ticks of 1/100 s). Null when the process or thread ended while we looked.
+ */
+function procStat(file: string) {
+  try {
+    const text = readFileSync(file, "utf8");
+    const fields = text.slice(text.lastIndexOf(")") + 2).split(" "); // the fields after the name, from the state on
+    return { name: text.slice(text.indexOf("(") + 1, text.lastIndexOf(")")), parent: Number(fields[1]), seconds: (Number(fields[11]) + Number(fields[12])) / 100 };
+  } catch {
+    return null;
+  }
+}
+
+/** CPU seconds (all threads) of a process and its descendants. */
 function cpuSecondsOfTree(rootPid: number) {
   const stats = new Map<number, { parent: number; seconds: number }>();
   for (const entry of readdirSync("/proc")) {
-    if (!/^\d+$/.test(entry)) continue;
-    try {
-      const text = readFileSync(`/proc/${entry}/stat`, "utf8");
-      const fields = text.slice(text.lastIndexOf(")") + 2).split(" "); // fields from the third (state) on
-      stats.set(Number(entry), { parent: Number(fields[1]), seconds: (Number(fields[11]) + Number(fields[12])) / 100 });
-    } catch {
-      // the process ended while we looked
-    }
+    const stat = /^\d+$/.test(entry) ? procStat(`/proc/${entry}/stat`) : null;
+    if (stat) stats.set(Number(entry), stat);
   }
   let total = 0;
   const pending = [rootPid];
@@ -92,18 +100,12 @@ function cpuSecondsOfTree(rootPid: number) {
   return total;
 }
 
-/** CPU seconds per thread of one process (Linux /proc/PID/task), keyed by "tid name". */
+/** CPU seconds per thread of one process, keyed by "tid name". */
 function cpuSecondsByThread(pid: number) {
   const threads = new Map<string, number>();
   for (const tid of readdirSync(`/proc/${pid}/task`)) {
-    try {
-      const text = readFileSync(`/proc/${pid}/task/${tid}/stat`, "utf8");
-      const name = text.slice(text.indexOf("(") + 1, text.lastIndexOf(")"));
-      const fields = text.slice(text.lastIndexOf(")") + 2).split(" ");
-      threads.set(`${tid} ${name}`, (Number(fields[11]) + Number(fields[12])) / 100);
-    } catch {
-      // the thread ended while we looked
-    }
+    const stat = procStat(`/proc/${pid}/task/${tid}/stat`);
+    if (stat) threads.set(`${tid} ${stat.name}`, stat.seconds);
   }
   return threads;
 }

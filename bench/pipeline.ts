@@ -15,9 +15,12 @@ import { projectToPlane } from "../lib/engine/project";
 import { displacementColumn } from "../lib/engine/displacement";
 import { analyzePicks, type PipelineOptions } from "../lib/engine/pipeline";
 import { threadedTipLineFitter } from "../lib/analysis/tipline-thread";
+import { resolvePython } from "../scripts/python";
 
-/** the python3 on PATH if it has scipy, else Debian's (where apt's python3-scipy lands) */
-const PYTHON = ["python3", "/usr/bin/python3"].find((python) => spawnSync(python, ["-c", "import scipy"], { stdio: "ignore" }).status === 0) ?? "python3";
+/** the same interpreter the tests' oracles use (scripts/python.ts) */
+const resolved = resolvePython(["numpy", "scipy"]);
+if ("error" in resolved) throw new Error(`bench: ${resolved.error}`);
+const PYTHON = resolved.python;
 
 const SIZES = [1e3, 1e4, 1e5, 1e6];
 /** the analysis worker bundle, as the server runs it; also the tip-line helper thread (built at the start of main) */

@@ -16,10 +16,14 @@ if [ ! -x /usr/bin/chromium ]; then
   echo "test: installing Debian's chromium for the browser tests…"
   apt_install chromium
 fi
-if ! python3 -c "import scipy" >/dev/null 2>&1 && ! /usr/bin/python3 -c "import scipy" >/dev/null 2>&1; then
-  echo "test: installing Debian's python3-scipy (the interpolation oracle)…"
+# One Python for every numpy/scipy oracle: resolved here by scripts/python.ts and exported, so the tests use it too.
+if ! SLIPFIELD_PYTHON=$(npx tsx scripts/python.ts numpy scipy 2>/dev/null); then
+  echo "test: installing Debian's python3-scipy (the numpy/scipy oracles)…"
   apt_install python3-scipy
+  SLIPFIELD_PYTHON=$(npx tsx scripts/python.ts numpy scipy)
 fi
+export SLIPFIELD_PYTHON
+echo "test: Python oracles run with $SLIPFIELD_PYTHON"
 
 echo "== type check"
 npx tsc --noEmit

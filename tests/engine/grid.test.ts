@@ -1,10 +1,9 @@
 import { describe, expect, it } from "vitest";
-import { spawnSync } from "node:child_process";
 import path from "node:path";
 import { triangulate } from "@/lib/engine/triangulate";
 import { rasterizeTriangles, gridSpecFor, sampleGrid } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";
-import { requirePython } from "../support/python";
+import { runPythonOracle } from "../support/python";
 
 describe("linear interpolation on triangles", () => {
   // tiny exact case, by hand: two triangles over the unit square with v = 2s + 3t + 1 (a plane is reproduced exactly)
@@ -43,7 +42,7 @@ describe("linear interpolation on triangles", () => {
     expect(Math.max(capped.columns, capped.rows)).toBeLessThanOrEqual(64);
   });
 
-  // independent oracle: scipy.interpolate.griddata(method="linear") (Qhull Delaunay), run in python3
+  // independent oracle: scipy.interpolate.griddata(method="linear") (Qhull Delaunay), run in the resolved Python (tests/support/python.ts)
   it("matches scipy griddata(linear) within 1e-6 of the range inside the hull", () => {
     const rand = mulberry32(42);
     const n = 400;
@@ -55,15 +54,7 @@ describe("linear interpolation on triangles", () => {
     const [out] = rasterizeTriangles(s, t, [v], tri.triangles, spec);
     const nodes: [number, number][] = [];
     for (let j = 0; j < spec.rows; j++) for (let i = 0; i < spec.columns; i++) nodes.push([spec.s0 + i * spec.cellM, spec.t0 + j * spec.cellM]);
-    const py = spawnSync(requirePython("scipy"), [path.join(__dirname, "griddata_oracle.py")], {
-      input: JSON.stringify({ points: Array.from(s, (x, i) => [x, t[i]]), values: Array.from(v), nodes }),
-      encoding: "utf8",
-      maxBuffer: 64 * 1024 * 1024,
-    });
-    if (py.error || py.status !== 0) {
-      throw new Error(`the scipy oracle needs python3 with scipy (apt install python3-scipy): ${py.error?.message ?? py.stderr}`);
-    }
-    const ref: (number | null)[] = JSON.parse(py.stdout);
+    const ref = runPythonOracle<(number | null)[]>(path.join(__dirname, "griddata_oracle.py"), { points: Array.from(s, (x, i) => [x, t[i]]), values: Array.from(v), nodes });
     let lo = Infinity, hi = -Infinity;
     for (const x of v) { lo = Math.min(lo, x); hi = Math.max(hi, x); }
     let worst = 0, compared = 0, nanMismatch = 0;

@@ -1,4 +1,3 @@
-import { spawnSync } from "node:child_process";
 import path from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
@@ -6,6 +5,7 @@ import type { StressParameters } from "@/db/schema";
 import { mulberry32 } from "@/lib/engine/synthetic";
 import { DEFAULT_STRESS_PARAMETERS, REGIME_PRESETS, applyPreset, stressParametersSchema } from "@/lib/stress/parameters";
 import { screenTriangles } from "@/lib/stress/surface";
+import { runPythonOracle } from "../support/python";
 import {
   coulombFailureFunction,
   dilationTendency,
@@ -245,13 +245,10 @@ describe("per-triangle screen against an independent numpy implementation", () =
     const parameters: StressParameters = { ...applyPreset(DEFAULT_STRESS_PARAMETERS, "strike-slip"), maxHorizontalAzimuthDeg: 37, cohesionMPa: 1.5, frictionLow: 0.55, frictionHigh: 0.85 };
     const screen = screenTriangles({ x, y, z, triangles }, parameters, 0);
     expect(screen.count).toBe(500);
-    const py = spawnSync("python3", [path.join(__dirname, "stress_oracle.py")], {
-      input: JSON.stringify({ parameters, points: Array.from(x, (v, i) => [v, y[i], z[i]]), triangles: Array.from(triangles) }),
-      encoding: "utf8",
-      maxBuffer: 64 * 1024 * 1024,
-    });
-    if (py.error || py.status !== 0) throw new Error(`the numpy oracle needs python3 with numpy (apt install python3-numpy): ${py.error?.message ?? py.stderr}`);
-    const ref: { sigmaN: number; tau: number; ts: number; td: number; dpLow: number; dpHigh: number }[] = JSON.parse(py.stdout);
+    const ref = runPythonOracle<{ sigmaN: number; tau: number; ts: number; td: number; dpLow: number; dpHigh: number }[]>(
+      path.join(__dirname, "stress_oracle.py"),
+      { parameters, points: Array.from(x, (v, i) => [v, y[i], z[i]]), triangles: Array.from(triangles) },
+    );
     let worstStress = 0, worstRatio = 0;
     for (let i = 0; i < screen.count; i++) {
       const r = ref[screen.source[i]];

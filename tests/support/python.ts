@@ -1,22 +1,21 @@
-// Finds a Python 3 that can import the given modules, for the tests that use numpy/scipy as independent
-// oracles: the python3 on PATH first, then Debian's /usr/bin/python3 (where apt's python3-scipy lands).
+// The Python 3 every numpy/scipy oracle runs: one interpreter, resolved once by scripts/python.ts — the same
+// resolution scripts/test.sh (which exports SLIPFIELD_PYTHON) and the benchmarks use.
 import { spawnSync } from "node:child_process";
+import { resolvePython } from "../../scripts/python";
 
-const found = new Map<string, string | null>();
-
-export function pythonWith(...modules: string[]): string | null {
-  const key = modules.join(",");
-  if (!found.has(key)) {
-    const probe = `import ${modules.join(", ")}`;
-    const candidate = ["python3", "/usr/bin/python3"].find((python) => spawnSync(python, ["-c", probe], { stdio: "ignore" }).status === 0);
-    found.set(key, candidate ?? null);
-  }
-  return found.get(key)!;
-}
+let resolved: ReturnType<typeof resolvePython> | null = null;
 
 /** The interpreter to run, or a clear failure: these oracles are required, never skipped. */
-export function requirePython(...modules: string[]): string {
-  const python = pythonWith(...modules);
-  if (!python) throw new Error(`this test needs Python 3 with ${modules.join(" and ")} (apt-get install python3-scipy)`);
-  return python;
+export function requirePython(): string {
+  resolved ??= resolvePython(["numpy", "scipy"]);
+  if ("error" in resolved) throw new Error(`this test needs Python 3 with numpy and scipy: ${resolved.error}`);
+  return resolved.python;
+}
+
+/** Runs an oracle script with JSON on stdin and returns its parsed JSON stdout; fails loudly on any error. */
+export function runPythonOracle<T>(script: string, input: unknown): T {
+  const python = requirePython();
+  const run = spawnSync(python, [script], { input: JSON.stringify(input), encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
+  if (run.error || run.status !== 0) throw new Error(`the oracle ${script} failed under ${python}: ${run.error?.message ?? run.stderr}`);
+  return JSON.parse(run.stdout) as T;
 }

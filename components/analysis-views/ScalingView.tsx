@@ -77,9 +77,12 @@ function FitSummary({ fit, count }: { fit: PowerLawFit | null; count: number }) 
   if (!fit)
     return <>A power-law fit D = c·L^n needs at least 3 analysed faults; this study has {count}. Error bars: tip-line length uncertainty. Amber dot: this fault.</>;
   const row = (label: string, f: PowerLawFit["ols"]) => `${label}: n = ${f.n.toFixed(3)} (95 % CI ${f.nConfidence95[0].toFixed(2)}–${f.nConfidence95[1].toFixed(2)}), c = ${f.c.toPrecision(3)}`;
+  const weak = fit.correlationPValue >= 0.05;
   return (
     <span data-testid="scaling-fit">
-      {row("Least squares in log space", fit.ols)}; {row("reduced major axis", fit.rma)}; r² = {fit.r2.toFixed(3)}, N = {fit.count}. Published exponents lie between 1 and 1.5 (Walsh et al. 2002); Clark &amp; Cox (1996) found a common n = 0.946 ± 0.043. Error bars: tip-line length uncertainty. Amber dot: this fault.
+      {row("Least squares in log space", fit.ols)}; {row("reduced major axis", fit.rma)}; r² = {fit.r2.toFixed(3)}, N = {fit.count}. Intervals: Student t for least squares; for the reduced major axis the exact interval of Warton et al. (2006), not symmetric about n.{" "}
+      {weak && <strong data-testid="scaling-weak">The correlation is not significant at 5 % (p = {fit.correlationPValue.toFixed(2)}): these faults do not determine an exponent. </strong>}
+      Published exponents lie between 1 and 1.5 (Walsh et al. 2002); Clark &amp; Cox (1996) found a common n = 0.946 ± 0.043. Error bars: tip-line length uncertainty. Amber dot: this fault.
     </span>
   );
 }

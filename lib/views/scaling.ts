@@ -47,24 +47,46 @@ export interface LineFit {
   /** prefactor c (m^(1−n)) */
   c: number;
   log10c: number;
-  /** standard error of n */
-  nStandardError: number;
-  /** 95 % confidence interval of n (Student t, N − 2 degrees of freedom) */
+  /** standard error of n for OLS; null for RMA, whose exact interval is not built from a symmetric standard error */
+  nStandardError: number | null;
+  /** 95 % confidence interval of n (see intervalMethod); for RMA it is not symmetric about n */
   nConfidence95: [number, number];
+  /** how nConfidence95 was computed, with its published source */
+  intervalMethod: string;
 }
 
 export interface PowerLawFit {
   count: number;
   r: number;
   r2: number;
+  /** two-sided p-value of r against no correlation (Student t, N − 2 degrees of freedom) */
+  correlationPValue: number;
   ols: LineFit;
   rma: LineFit;
 }
 
+const OLS_INTERVAL = "Student t on the least-squares standard error, N − 2 degrees of freedom";
+const RMA_INTERVAL = "exact interval for the standardised major axis slope (Warton et al. 2006, after Pitman 1939)";
+
 /**
- * Fits log10 D = log10 c + n·log10 L. OLS slope = Sxy/Sxx with SE = sqrt(SSE/(N−2)/Sxx); RMA slope = sign(r)·s_y/s_x
- * (appropriate when both D and L carry error; Kim & Sanderson 2005 on errors in both) with SE = |n_RMA|·sqrt((1 − r²)/(N − 2))
- * (the usual RMA standard error, from memory). Needs at least 3 positive pairs; returns null otherwise.
+ * 95 % interval of the reduced (standardised) major axis slope b = sign(r)·s_y/s_x, exact for bivariate normal errors:
+ * b·(√(B + 1) − √B) to b·(√(B + 1) + √B), B = (1 − r²)·F(0.95; 1, N − 2)/(N − 2) (Warton, Wright, Falster &
+ * Westoby 2006, Biological Reviews 81, from the test of Pitman 1939 that residuals and fitted values are uncorrelated).
+ * It never changes sign and widens without bound as r → 0.
+ */
+export function reducedMajorAxisInterval(slope: number, r: number, count: number, level = 0.95): [number, number] {
+  const df = count - 2;
+  const t = studentTQuantile(1 - (1 - level) / 2, df);
+  const b = ((1 - r * r) * t * t) / df; // F(level; 1, df) = t², the two-sided t quantile squared
+  const lower = slope * (Math.sqrt(b + 1) - Math.sqrt(b));
+  const upper = slope * (Math.sqrt(b + 1) + Math.sqrt(b));
+  return lower <= upper ? [lower, upper] : [upper, lower];
+}
+
+/**
+ * Fits log10 D = log10 c + n·log10 L. OLS slope = Sxy/Sxx with SE = sqrt(SSE/(N−2)/Sxx) and a Student t interval;
+ * RMA slope = sign(r)·s_y/s_x (appropriate when both D and L carry error; Kim & Sanderson 2005 on errors in both) with
+ * the exact interval of Warton et al. (2006). Needs at least 3 positive pairs; returns null otherwise.
  */
 export function fitPowerLaw(lengthM: number[], dMaxM: number[]): PowerLawFit | null {
   const xs: number[] = [];
@@ -95,12 +117,19 @@ export function fitPowerLaw(lengthM: number[], dMaxM: number[]): PowerLawFit | n
   const sse = Math.max(0, syy - olsN * sxy);
   const olsSe = Math.sqrt(sse / df / sxx);
   const rmaN = (r < 0 ? -1 : 1) * Math.sqrt(syy / sxx);
-  const rmaSe = Math.abs(rmaN) * Math.sqrt(Math.max(0, 1 - r * r) / df);
-  const make = (method: "ols" | "rma", n: number, se: number): LineFit => {
+  const line = (method: "ols" | "rma", n: number, se: number | null, interval: [number, number], intervalMethod: string): LineFit => {
     const log10c = my - n * mx;
-    return { method, n, c: 10 ** log10c, log10c, nStandardError: se, nConfidence95: [n - tCrit * se, n + tCrit * se] };
+    return { method, n, c: 10 ** log10c, log10c, nStandardError: se, nConfidence95: interval, intervalMethod };
   };
-  return { count: k, r, r2: r * r, ols: make("ols", olsN, olsSe), rma: make("rma", rmaN, rmaSe) };
+  const tOfR = Math.abs(r) < 1 ? Math.abs(r) * Math.sqrt(df / (1 - r * r)) : Infinity;
+  return {
+    count: k,
+    r,
+    r2: r * r,
+    correlationPValue: 2 * (1 - studentTCdf(tOfR, df)),
+    ols: line("ols", olsN, olsSe, [olsN - tCrit * olsSe, olsN + tCrit * olsSe], OLS_INTERVAL),
+    rma: line("rma", rmaN, null, reducedMajorAxisInterval(rmaN, r, k), RMA_INTERVAL),
+  };
 }
 
 // ---- Student t quantile (regularised incomplete beta, continued fraction after Press et al., Numerical Recipes) --------
@@ -169,7 +198,7 @@ export function studentTQuantile(p: number, df: number): number {
   return (lo + hi) / 2;
 }
 
-// ---- published envelopes (domain reference sheet, section 3) ------------------------------------------------------
+// ---- published envelopes -----------------------------------------------------------------------------------------
 
 export interface ScalingGuide {
   kind: "ratio" | "line" | "box";

@@ -2,6 +2,7 @@
 import { readFileSync } from "node:fs";
 import { analyzeCsv } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
+import { formatAzimuth } from "../lib/engine/plane";
 import type { AnalysisReport } from "../lib/engine/types";
 
 class UsageError extends Error {}
@@ -47,7 +48,7 @@ function readable(report: AnalysisReport): string {
     const tl = s.tipLine;
     lines.push("");
     lines.push(`Segment ${s.id} (${s.pickCount} picks)`);
-    lines.push(`  plane: strike ${f(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${f(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`);
+    lines.push(`  plane: strike ${formatAzimuth(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${formatAzimuth(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`);
     lines.push(`  maximum: displacement ${f(s.max.displacementM)} m, throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`);
     lines.push(`  mapped limit: length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
     lines.push(`  inferred tip line: length ${f(tl.lengthM, 0)} m, height ${f(tl.heightM, 0)} m (± ${f(tl.uncertaintyM, 0)} m), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);

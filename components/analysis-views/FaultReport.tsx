@@ -7,7 +7,7 @@ import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
 import { CautionNote } from "@/components/workspace/CautionNote";
-import { degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
+import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
 import { REPORT_PICTURE_KEY } from "./download";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 import { RelayTable } from "./RelayView";
@@ -69,7 +69,7 @@ export function FaultReport({ data }: { data: FaultReportData }) {
                   <td>{metres(segment.tipLine.lengthM, 0)} ± {metres(segment.tipLine.uncertaintyM, 0)}</td>
                   <td>{metres(segment.tipLine.heightM, 0)}</td>
                   <td>{ratio(segment.scaling.dOverL)}</td>
-                  <td>{degrees(segment.plane.strikeDeg)} / {degrees(segment.plane.dipDeg)}</td>
+                  <td>{azimuth(segment.plane.strikeDeg)} / {degrees(segment.plane.dipDeg)}</td>
                 </tr>
               ))}
             </tbody>

@@ -8,6 +8,7 @@ import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, REGIME_LABELS, parse
 import { STRESS_FIELD_KEYS, stressFields, type StressFieldPayload } from "@/lib/stress/fields";
 import type { ScreenSummary } from "@/lib/stress/summary";
 import { useViewSettings } from "@/scene/viewSettingsStore";
+import { azimuth } from "@/components/workspace/format";
 import { MohrPlot, PressureHistogram, type MohrData } from "./StressCharts";
 import { StressForm, type StressFormValue } from "./StressForm";
 
@@ -139,7 +140,7 @@ function StateSummary({ state }: { state: StressStateView }) {
   const rows: [string, string][] = [
     ["Regime", REGIME_LABELS[p.regime]],
     ["Sv / SHmax / Shmin", `${p.verticalGradient} / ${p.maxHorizontalGradient} / ${p.minHorizontalGradient} MPa/km`],
-    ["SHmax azimuth", `${p.maxHorizontalAzimuthDeg}°`],
+    ["SHmax azimuth", azimuth(p.maxHorizontalAzimuthDeg, 0)],
     ["Pore pressure", `${p.porePressureGradient} MPa/km`],
     ["Friction μ", `${p.frictionLow}–${p.frictionHigh}`],
     ["Cohesion", `${p.cohesionMPa} MPa`],

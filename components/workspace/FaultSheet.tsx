@@ -1,7 +1,7 @@
 "use client";
 import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
 import { CautionNote } from "./CautionNote";
-import { degrees, metres, MODEL_NAMES, plain, ratio } from "./format";
+import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "./format";
 
 function Row({ label, value, testId }: { label: string; value: string; testId?: string }) {
   return (
@@ -29,7 +29,7 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
         <Row label="Area" value={`${(tip.areaM2 / 1e6).toFixed(2)} km²`} />
         <Row label="Dmax/L" value={ratio(segment.scaling.dOverL)} />
         <Row label="Mapped length / height" value={`${metres(segment.mappedLimit.lengthM, 0)} / ${metres(segment.mappedLimit.heightM, 0)}`} />
-        <Row label="Strike / dip" value={`${degrees(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
+        <Row label="Strike / dip" value={`${azimuth(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
         <Row label="Plane misfit (RMS)" value={metres(segment.plane.rmsM)} />
         <Row label="Mean / max gradient" value={`${plain(segment.gradients.meanPerM, 3)} / ${plain(segment.gradients.maxPerM, 3)}`} />
         <Row label="Tip gradients (strike start / end)" value={`${plain(segment.gradients.tips.strikeStartPerM, 3)} / ${plain(segment.gradients.tips.strikeEndPerM, 3)}`} />

@@ -140,6 +140,17 @@ export function normaliseAzimuth(deg: number): number {
   return a >= 360 - 1e-12 ? 0 : a;
 }
 
+/**
+ * An azimuth as printed with `digits` decimals, in [0, 360): rounded first, then wrapped, so a strike of 359.96°
+ * prints "0.0", never "360.0".
+ */
+export function formatAzimuth(deg: number, digits = 1): string {
+  if (!Number.isFinite(deg)) return "—";
+  const step = 10 ** digits;
+  const rounded = Math.round(normaliseAzimuth(deg) * step) / step;
+  return (rounded >= 360 ? 0 : rounded).toFixed(digits);
+}
+
 export function strikeVectorOf(strikeDeg: number): [number, number, number] {
   const r = strikeDeg / DEG;
   return [Math.sin(r), Math.cos(r), 0];

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { displacementFromThrow, heaveFromThrow, dipFromThrowHeave, displacementColumn } from "@/lib/engine/displacement";
-import { DegeneratePlaneError, fitPlane, strikeVectorOf, dipVectorOf } from "@/lib/engine/plane";
+import { DegeneratePlaneError, fitPlane, formatAzimuth, strikeVectorOf, dipVectorOf } from "@/lib/engine/plane";
+import { azimuth } from "@/components/workspace/format";
 import { projectToPlane, planeToWorld } from "@/lib/engine/project";
 
 const circularDiff = (a: number, b: number) => Math.abs(((a - b + 540) % 360) - 180);
@@ -35,6 +36,19 @@ describe("best-fit plane", () => {
     expect(circularDiff(p.dipDirectionDeg, 90)).toBeLessThan(0.01);
     expect(circularDiff(p.strikeDeg, 0)).toBeLessThan(0.01);
     expect(p.rmsM).toBeLessThan(1e-6);
+    // the fit lands within rounding of 360°: it prints as 0.0°, never 360.0°
+    expect(formatAzimuth(p.strikeDeg)).toBe("0.0");
+    expect(azimuth(p.strikeDeg)).toBe("0.0°");
+  });
+  it("azimuths print in [0, 360) after rounding (common practice, no source)", () => {
+    expect(formatAzimuth(359.96)).toBe("0.0");
+    expect(formatAzimuth(359.94)).toBe("359.9");
+    expect(formatAzimuth(360)).toBe("0.0");
+    expect(formatAzimuth(-0.04)).toBe("0.0");
+    expect(formatAzimuth(-90)).toBe("270.0");
+    expect(formatAzimuth(359.6, 0)).toBe("0");
+    expect(formatAzimuth(152.25, 0)).toBe("152");
+    expect(azimuth(NaN)).toBe("—");
   });
   // §10 row 10
   it("plane dipping 45° north: strike 270", () => {

@@ -58,6 +58,10 @@ function readable(report: AnalysisReport): string {
     lines.push(`  scaling: ${s.scaling.note}`);
     lines.push(`  contours: every ${s.contourIntervalM} m, ${s.contours.length} levels`);
   }
+  if (report.quality) {
+    lines.push("");
+    lines.push(`Pick quality: ${report.quality.note}`);
+  }
   for (const r of report.relays) {
     lines.push("");
     lines.push(`Relay ${r.segments[0]}–${r.segments[1]}: overlap ${f(r.overlapM, 0)} m, separation ${f(r.separationM, 0)} m, ${r.linkage}-linked`);

@@ -87,6 +87,9 @@ export function FaultSheet({ report }: { report: AnalysisReport }) {
           ))}
         </section>
       )}
+      <p className="text-xs leading-relaxed text-slate-600 dark:text-slate-300" data-testid="sheet-quality">
+        <span className="font-medium text-slate-800 dark:text-slate-100">Pick quality:</span> {report.quality?.note ?? "This analysis was made before pick quality was used, so every pick counted fully; re-run it to weight picks by their quality."}
+      </p>
       {report.warnings.length > 0 && (
         <ul className="list-disc space-y-1 pl-4 text-xs text-amber-700 dark:text-amber-300">
           {report.warnings.map((warning) => <li key={warning}>{warning}</li>)}

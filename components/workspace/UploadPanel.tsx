@@ -1,6 +1,7 @@
 "use client";
 import { useRef, useState } from "react";
 import { ApiRequestError } from "@/lib/api/client";
+import { QUALITY_USE } from "@/lib/engine/quality";
 import { metres } from "./format";
 
 interface Problem { row: number; column: string; reason: string }
@@ -112,6 +113,7 @@ export function UploadPanel({ faultId, onSaved }: { faultId: string; onSaved: (a
       >
         <p className="font-medium">Drop a pick CSV here</p>
         <p className="text-xs text-slate-500">Columns x, y, z (or depth), throw; optional segment, horizon, heave, quality. Up to 2,000,000 rows, 100 MB.</p>
+        <p className="max-w-md text-xs text-slate-500" data-testid="quality-use">{QUALITY_USE}</p>
         <div className="mt-1 flex items-center gap-2">
           <button type="button" className="btn-quiet py-1.5" onClick={() => inputRef.current?.click()}>Choose file</button>
           <label className="flex items-center gap-1.5 text-xs">

@@ -103,6 +103,7 @@ export function rasterizeTriangles(
   return outs;
 }
 
+/** Displacement and throw on the grid, and the off-plane distance w when given (one rasterisation for all). */
 export function buildGrid(
   s: ArrayLike<number>,
   t: ArrayLike<number>,
@@ -110,9 +111,10 @@ export function buildGrid(
   throwM: ArrayLike<number>,
   triangles: Uint32Array,
   spec: GridSpec,
+  offPlaneM?: ArrayLike<number>,
 ): RegularGrid {
-  const [d, th] = rasterizeTriangles(s, t, [displacementM, throwM], triangles, spec);
-  return { ...spec, displacementM: d, throwM: th };
+  const [d, th, w] = rasterizeTriangles(s, t, offPlaneM ? [displacementM, throwM, offPlaneM] : [displacementM, throwM], triangles, spec);
+  return w ? { ...spec, displacementM: d, throwM: th, offPlaneM: w } : { ...spec, displacementM: d, throwM: th };
 }
 
 /** Bilinear sample of a grid field at (s, t); NaN outside or next to missing nodes. */

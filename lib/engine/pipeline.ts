@@ -9,6 +9,7 @@ import { contourGrid, contourLevels, niceInterval } from "./contours";
 import { fitTipLineModels, tipLineFitInputs, tipLineFromFits, type ModelFit, type TipLineFitInputs } from "./tipline";
 import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
 import { analyzeRelays } from "./relays";
+import { pickWeights, pullTowardNeighbours, qualityNote, weightsMatter } from "./quality";
 
 export const ENGINE_VERSION = "1.0.0";
 
@@ -44,6 +45,7 @@ export function analyzePicks(
   const segments: SegmentResult[] = [];
   const grids: Record<string, RegularGrid> = {};
   const bySegment = indicesBySegment(picks);
+  let picksBelowOne = 0;
   bySegment.forEach((ids, k) => {
     const id = picks.segmentNames[k];
     if (ids.length < 3) {
@@ -51,9 +53,13 @@ export function analyzePicks(
       return;
     }
     stage("plane", k, 0.05);
-    const plane = fitPlane(picks.x, picks.y, picks.z, ids);
+    // pick quality: weights of the plane fit and of each pick's influence on the grids (lib/engine/quality.ts)
+    const weights = pickWeights(picks.quality, ids);
+    const weighted = weightsMatter(weights);
+    for (const weight of weights) if (weight < 1) picksBelowOne++;
+    const plane = fitPlane(picks.x, picks.y, picks.z, ids, weighted ? weights : undefined);
     if (plane.planarityWarning) warnings.push(`segment "${id}": ${plane.planarityWarning}`);
-    const { s, t } = projectToPlane(picks.x, picks.y, picks.z, plane, ids);
+    const { s, t, w } = projectToPlane(picks.x, picks.y, picks.z, plane, ids);
     const throwM = new Float64Array(ids.length);
     const heaveM = new Float64Array(ids.length);
     for (let i = 0; i < ids.length; i++) {
@@ -68,16 +74,17 @@ export function analyzePicks(
     const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(tipLineFitInputs(s, t, displacementM, { outline, spacingM: tri.medianEdgeM }));
     stage("grid", k, 0.35);
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
-    const grid = buildGrid(s, t, displacementM, throwM, tri.triangles, spec);
+    const [griddedDisplacementM, griddedThrowM, griddedOffPlaneM] = weighted ? pullTowardNeighbours([displacementM, throwM, w], weights, tri.triangles) : [displacementM, throwM, w];
+    const grid = buildGrid(s, t, griddedDisplacementM, griddedThrowM, tri.triangles, spec, griddedOffPlaneM);
     grids[id] = grid;
 
     let maxIndex = 0;
-    for (let i = 1; i < ids.length; i++) if (displacementM[i] > displacementM[maxIndex]) maxIndex = i;
+    for (let i = 1; i < ids.length; i++) if (griddedDisplacementM[i] > griddedDisplacementM[maxIndex]) maxIndex = i;
     const maxWorld = planeToWorld(s[maxIndex], t[maxIndex], plane);
 
     stage("contours", k, 0.5);
-    const intervalM = options.intervalM && options.intervalM > 0 ? options.intervalM : niceInterval(displacementM[maxIndex]);
-    const contours = contourGrid(spec, grid.displacementM, contourLevels(displacementM[maxIndex], intervalM));
+    const intervalM = options.intervalM && options.intervalM > 0 ? options.intervalM : niceInterval(griddedDisplacementM[maxIndex]);
+    const contours = contourGrid(spec, grid.displacementM, contourLevels(griddedDisplacementM[maxIndex], intervalM));
 
     stage("tipline", k, 0.7);
     let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
@@ -101,7 +108,7 @@ export function analyzePicks(
         planarityWarning: plane.planarityWarning, centroid: plane.centroid, strikeVector: plane.strikeVector,
         dipVector: plane.dipVector, normal: plane.normal,
       },
-      max: { displacementM: displacementM[maxIndex], throwM: throwM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2] },
+      max: { displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2] },
       mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(ps, pt, plane)) },
       tipLine,
       gradients: {
@@ -111,7 +118,7 @@ export function analyzePicks(
       },
       centroidOfDisplacement: displacementCentroid(grid),
       asymmetry: { alongStrike: (s[maxIndex] - tipLine.centre.s) / half.sM, downDip: (t[maxIndex] - tipLine.centre.t) / half.tM },
-      scaling: scalingNote(displacementM[maxIndex], tipLine.lengthM),
+      scaling: scalingNote(griddedDisplacementM[maxIndex], tipLine.lengthM),
       contourIntervalM: intervalM,
       contours: contours.map((c) => ({ levelM: c.levelM, rings: c.rings })),
     });
@@ -123,6 +130,7 @@ export function analyzePicks(
     report: {
       engineVersion: ENGINE_VERSION,
       input: { rows: picks.x.length, accepted: picks.x.length, rejected: [], units: options.units ?? "m", ...options.input },
+      quality: { picksBelowOne, note: qualityNote(picksBelowOne) },
       segments,
       relays,
       warnings,

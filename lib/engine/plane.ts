@@ -54,17 +54,22 @@ export class DegeneratePlaneError extends Error {}
 /**
  * Least-squares plane through points (PCA of the centred points = SVD of the N×3 matrix): the normal is the
  * direction of least variance. Strike by the right-hand rule (dip direction = strike + 90), azimuths 0–360.
+ * With `weights` (aligned with `indices`, e.g. pick quality) it is the weighted least-squares plane: weighted
+ * centroid and weighted scatter matrix, so a pick of weight w counts as w of a pick; the RMS misfit is weighted too.
  */
 export function fitPlane(
   x: ArrayLike<number>,
   y: ArrayLike<number>,
   z: ArrayLike<number>,
   indices?: ArrayLike<number>,
+  weights?: ArrayLike<number>,
 ): PlaneFit {
   const n = indices ? indices.length : x.length;
   if (n < 3) throw new DegeneratePlaneError("at least 3 points are needed to fit a plane");
-  const [cx, cy, cz] = centroidOf(x, y, z, n, indices);
-  const [xx, xy, xz, yy, yz, zz] = scatterOf(x, y, z, n, cx, cy, cz, indices);
+  const totalWeight = weights ? sumOf(weights) : n;
+  if (!(totalWeight > 0)) throw new DegeneratePlaneError("every point has weight 0");
+  const [cx, cy, cz] = weights ? weightedCentroidOf(x, y, z, n, weights, totalWeight, indices) : centroidOf(x, y, z, n, indices);
+  const [xx, xy, xz, yy, yz, zz] = weights ? weightedScatterOf(x, y, z, n, cx, cy, cz, weights, indices) : scatterOf(x, y, z, n, cx, cy, cz, indices);
   const { values, vectors } = symmetricEigen3([
     [xx, xy, xz],
     [xy, yy, yz],
@@ -85,7 +90,7 @@ export function fitPlane(
   const strikeDeg = (((dipDirectionDeg - 90) % 360) + 360) % 360;
   const strikeVector = strikeVectorOf(strikeDeg);
   const dipVector = dipVectorOf(dipDirectionDeg, dipDeg);
-  const rmsM = s3 / Math.sqrt(n);
+  const rmsM = s3 / Math.sqrt(totalWeight);
   let planarityWarning: string | null = null;
   if (s2 / s1 < 0.05) planarityWarning = `points are nearly collinear (s2/s1 = ${(s2 / s1).toFixed(3)}); the dip about that line is poorly constrained`;
   else if (s3 / s2 > 0.2) planarityWarning = `points are not planar enough for a single plane (s3/s2 = ${(s3 / s2).toFixed(3)}); treat the plane as a reference frame only`;
@@ -116,6 +121,43 @@ function centroidOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<num
     cz += z[i];
   }
   return [cx / n, cy / n, cz / n];
+}
+
+function sumOf(values: ArrayLike<number>): number {
+  let total = 0;
+  for (let k = 0; k < values.length; k++) total += values[k];
+  return total;
+}
+
+function weightedCentroidOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, weights: ArrayLike<number>, totalWeight: number, indices?: ArrayLike<number>): [number, number, number] {
+  let cx = 0;
+  let cy = 0;
+  let cz = 0;
+  for (let k = 0; k < n; k++) {
+    const i = indices ? indices[k] : k;
+    cx += weights[k] * x[i];
+    cy += weights[k] * y[i];
+    cz += weights[k] * z[i];
+  }
+  return [cx / totalWeight, cy / totalWeight, cz / totalWeight];
+}
+
+function weightedScatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, cx: number, cy: number, cz: number, weights: ArrayLike<number>, indices?: ArrayLike<number>): [number, number, number, number, number, number] {
+  let xx = 0, xy = 0, xz = 0, yy = 0, yz = 0, zz = 0;
+  for (let k = 0; k < n; k++) {
+    const i = indices ? indices[k] : k;
+    const w = weights[k];
+    const dx = x[i] - cx;
+    const dy = y[i] - cy;
+    const dz = z[i] - cz;
+    xx += w * dx * dx;
+    xy += w * dx * dy;
+    xz += w * dx * dz;
+    yy += w * dy * dy;
+    yz += w * dy * dz;
+    zz += w * dz * dz;
+  }
+  return [xx, xy, xz, yy, yz, zz];
 }
 
 function scatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, cx: number, cy: number, cz: number, indices?: ArrayLike<number>): [number, number, number, number, number, number] {

@@ -96,6 +96,8 @@ export interface RegularGrid {
   /** row-major, NaN outside the data */
   displacementM: Float64Array;
   throwM: Float64Array;
+  /** off-plane distance w of the fault surface from the segment's reference plane (m, along its normal), NaN outside */
+  offPlaneM?: Float64Array;
 }
 
 export interface SegmentResult {
@@ -142,6 +144,8 @@ export interface RelayResult {
 export interface AnalysisReport {
   engineVersion: string;
   input: { rows: number; accepted: number; rejected: RejectedRow[]; units: LengthUnit };
+  /** how the optional quality column was used (absent in reports made before it was) */
+  quality?: { picksBelowOne: number; note: string };
   segments: SegmentResult[];
   relays: RelayResult[];
   warnings: string[];

@@ -83,70 +83,108 @@ export function smoothGrid(field: ArrayLike<number>, spec: GridSpec, lengthM: nu
   return out;
 }
 
-export interface LocalPlaneFit {
+export interface LocalSurfaceFit {
   /** smoothed w (m) at each node */
   offPlaneM: Float64Array;
-  /** ∂w/∂s and ∂w/∂t of the local plane (dimensionless) */
+  /** ∂w/∂s and ∂w/∂t of the local fit at the node (dimensionless) */
   gradientS: Float64Array;
   gradientT: Float64Array;
   /** share of the full kernel's weight that falls on nodes with data (1 inside, about ½ on an edge, ¼ at a corner) */
   support: Float64Array;
 }
 
+/** Gaussian kernel samples exp(−d²/(2σ²)) · (d/σ)^power, d = i·cell, i = −radius…radius (radius = ⌈3σ/cell⌉). */
+function scaledKernel(cellM: number, lengthM: number, power: number): Float64Array {
+  const radius = Math.max(1, Math.ceil((3 * lengthM) / cellM));
+  const out = new Float64Array(2 * radius + 1);
+  for (let i = -radius; i <= radius; i++) {
+    const u = (i * cellM) / lengthM;
+    out[i + radius] = Math.exp((-u * u) / 2) * u ** power;
+  }
+  return out;
+}
+
+/** Solves the symmetric system a·x = b (n × n, row-major, destroyed) by Gaussian elimination with partial pivoting; false when singular. */
+function solveInPlace(a: Float64Array, b: Float64Array, n: number): boolean {
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(a[r * n + col]) > Math.abs(a[pivot * n + col])) pivot = r;
+    if (!(Math.abs(a[pivot * n + col]) > 1e-12)) return false;
+    if (pivot !== col) {
+      for (let c = 0; c < n; c++) { const tmp = a[col * n + c]; a[col * n + c] = a[pivot * n + c]; a[pivot * n + c] = tmp; }
+      const tmp = b[col]; b[col] = b[pivot]; b[pivot] = tmp;
+    }
+    for (let r = col + 1; r < n; r++) {
+      const f = a[r * n + col] / a[col * n + col];
+      if (f === 0) continue;
+      for (let c = col; c < n; c++) a[r * n + c] -= f * a[col * n + c];
+      b[r] -= f * b[col];
+    }
+  }
+  for (let r = n - 1; r >= 0; r--) {
+    let sum = b[r];
+    for (let c = r + 1; c < n; c++) sum -= a[r * n + c] * b[c];
+    b[r] = sum / a[r * n + r];
+  }
+  return true;
+}
+
 /**
- * Locally weighted linear regression of w on (s, t) with Gaussian weights of standard deviation `lengthM`
- * (Cleveland 1979; Cleveland & Devlin 1988): at every node the plane a + b·Δs + c·Δt that best fits the finite
- * nodes around it. Unlike plain smoothing it has no slope bias on an edge of the data, where the window is one-sided.
- * Values are given wherever the window holds enough data to fix a plane — also at NaN nodes next to the data, so
- * values can be read up to the outline; `support` tells how much data the window held. Cost: fourteen 1-D passes.
+ * Locally weighted polynomial regression of w on (s, t) with Gaussian weights of standard deviation `lengthM`
+ * (Cleveland & Devlin 1988): at every node the polynomial of the given degree in (Δs, Δt) that best fits the finite
+ * nodes around it; its constant term is the smoothed w and its linear terms the slopes. Degree 2 is the usual choice
+ * for slopes (a degree one above the derivative wanted: Fan & Gijbels 1996): unlike plain smoothing or a local plane
+ * its slope has no bias from curvature where the window is one-sided, on the edges of the data. Degree 1 (a local
+ * plane) is steadier there when the surface is flat. Values are given wherever the window holds enough data to fix the
+ * polynomial — also at NaN nodes next to the data, so values can be read up to the outline; `support` tells how much
+ * data the window held.
  */
-export function localPlaneFit(field: ArrayLike<number>, spec: GridSpec, lengthM: number): LocalPlaneFit {
+export function localPolynomialFit(field: ArrayLike<number>, spec: GridSpec, lengthM: number, degree: 1 | 2 = 1): LocalSurfaceFit {
   const { values, mask } = maskOf(field);
-  const g0 = kernel(spec.cellM, lengthM, 0);
-  const g1 = kernel(spec.cellM, lengthM, 1);
-  const g2 = kernel(spec.cellM, lengthM, 2);
-  // moments of the data mask: Σ K·m·Δs^a·Δt^b, separable as (s-kernel of power a) then (t-kernel of power b)
-  const m0 = correlate(mask, spec, g0, "s");
-  const m1 = correlate(mask, spec, g1, "s");
-  const m2 = correlate(mask, spec, g2, "s");
-  const M00 = correlate(m0, spec, g0, "t");
-  const M01 = correlate(m0, spec, g1, "t");
-  const M02 = correlate(m0, spec, g2, "t");
-  const M10 = correlate(m1, spec, g0, "t");
-  const M11 = correlate(m1, spec, g1, "t");
-  const M20 = correlate(m2, spec, g0, "t");
-  const f0 = correlate(values, spec, g0, "s");
-  const f1 = correlate(values, spec, g1, "s");
-  const F00 = correlate(f0, spec, g0, "t");
-  const F01 = correlate(f0, spec, g1, "t");
-  const F10 = correlate(f1, spec, g0, "t");
+  // monomials Δs^a·Δt^b (in units of L) of the fitted polynomial
+  const terms: [number, number][] = degree === 1 ? [[0, 0], [1, 0], [0, 1]] : [[0, 0], [1, 0], [0, 1], [2, 0], [1, 1], [0, 2]];
+  const maxPower = 2 * degree;
+  const kernels = Array.from({ length: maxPower + 1 }, (_, p) => scaledKernel(spec.cellM, lengthM, p));
+  // moments Σ K·m·Δs^a·Δt^b for a + b ≤ 2·degree, and Σ K·w·Δs^a·Δt^b for a + b ≤ degree: separable, s first
+  const moments = new Map<string, Float64Array>();
+  for (let a = 0; a <= maxPower; a++) {
+    const along = correlate(mask, spec, kernels[a], "s");
+    for (let b = 0; a + b <= maxPower; b++) moments.set(`${a},${b}`, correlate(along, spec, kernels[b], "t"));
+  }
+  const data = new Map<string, Float64Array>();
+  for (let a = 0; a <= degree; a++) {
+    const along = correlate(values, spec, kernels[a], "s");
+    for (let b = 0; a + b <= degree; b++) data.set(`${a},${b}`, correlate(along, spec, kernels[b], "t"));
+  }
+  const size = terms.length;
+  const normal = terms.flatMap(([a1, b1]) => terms.map(([a2, b2]) => moments.get(`${a1 + a2},${b1 + b2}`)!));
+  const rightHandSide = terms.map(([a, b]) => data.get(`${a},${b}`)!);
+  const M00 = moments.get("0,0")!;
   let fullKernel = 0;
-  for (const a of g0) for (const b of g0) fullKernel += a * b;
+  for (const a of kernels[0]) for (const b of kernels[0]) fullKernel += a * b;
   const n = values.length;
   const offPlaneM = new Float64Array(n).fill(NaN);
   const gradientS = new Float64Array(n).fill(NaN);
   const gradientT = new Float64Array(n).fill(NaN);
   const support = new Float64Array(n);
+  const matrix = new Float64Array(size * size);
+  const vector = new Float64Array(size);
   // the window's data must spread at least 0.2 L in every direction to fix a slope (common practice, no source)
-  const minSpread = (0.2 * lengthM) ** 2;
+  const minSpread = 0.2 ** 2;
   for (let k = 0; k < n; k++) {
     const w = M00[k];
     support[k] = w / fullKernel;
     if (!(w > 1e-9 * fullKernel)) continue;
-    const ms = M10[k] / w, mt = M01[k] / w;
-    const css = M20[k] / w - ms * ms, ctt = M02[k] / w - mt * mt, cst = M11[k] / w - ms * mt;
-    const det = css * ctt - cst * cst;
-    // smallest eigenvalue of the centred second moments
+    const ms = moments.get("1,0")![k] / w, mt = moments.get("0,1")![k] / w;
+    const css = moments.get("2,0")![k] / w - ms * ms, ctt = moments.get("0,2")![k] / w - mt * mt, cst = moments.get("1,1")![k] / w - ms * mt;
     const lambdaMin = (css + ctt) / 2 - Math.sqrt(((css - ctt) / 2) ** 2 + cst * cst);
-    if (!(lambdaMin > minSpread) || !(det > 0)) continue;
-    const fs = F10[k] / w - ms * (F00[k] / w);
-    const ft = F01[k] / w - mt * (F00[k] / w);
-    const b = (ctt * fs - cst * ft) / det;
-    const c = (css * ft - cst * fs) / det;
-    gradientS[k] = b;
-    gradientT[k] = c;
-    // value of the local plane at the node itself (Δs = Δt = 0): mean − slope · mean offset
-    offPlaneM[k] = F00[k] / w - b * ms - c * mt;
+    if (!(lambdaMin > minSpread)) continue;
+    for (let e = 0; e < size * size; e++) matrix[e] = normal[e][k] / w;
+    for (let e = 0; e < size; e++) vector[e] = rightHandSide[e][k] / w;
+    if (!solveInPlace(matrix, vector, size)) continue;
+    offPlaneM[k] = vector[0];
+    gradientS[k] = vector[1] / lengthM;
+    gradientT[k] = vector[2] / lengthM;
   }
   return { offPlaneM, gradientS, gradientT, support };
 }
@@ -155,7 +193,7 @@ export function localPlaneFit(field: ArrayLike<number>, spec: GridSpec, lengthM:
  * Local spread of the surface's orientation at the smoothing scale: the RMS difference (as an angle, degrees) between
  * the node-to-node slopes of the unsmoothed w grid and the fitted slopes, Gaussian-weighted like the fit.
  */
-export function slopeScatterDeg(field: ArrayLike<number>, fit: LocalPlaneFit, spec: GridSpec, lengthM: number): Float64Array {
+export function slopeScatterDeg(field: ArrayLike<number>, fit: LocalSurfaceFit, spec: GridSpec, lengthM: number): Float64Array {
   const { columns, rows, cellM } = spec;
   const n = columns * rows;
   const rawS = new Float64Array(n).fill(NaN);

@@ -16,11 +16,11 @@ export function decodeFloat32(base64: string): Float32Array {
   return new Float32Array(bytes.buffer, 0, Math.floor(bytes.length / 4));
 }
 
-export function stressFields(payload: StressFieldPayload, frictionLow: number): ScalarField[] {
+export function stressFields(payload: StressFieldPayload, friction: { low: number; high: number }): ScalarField[] {
   const bySegment = (key: "slip" | "dilation" | "dp") => Object.fromEntries(payload.segments.map((segment) => [segment.segmentId, decodeFloat32(segment[key])]));
   return [
     { key: STRESS_FIELD_KEYS.slip, label: "Slip tendency τ/σn′", unit: "ratio", bySegment: bySegment("slip"), range: payload.ranges.slip },
     { key: STRESS_FIELD_KEYS.dilation, label: "Dilation tendency", unit: "0–1", bySegment: bySegment("dilation"), range: payload.ranges.dilation },
-    { key: STRESS_FIELD_KEYS.dp, label: `ΔP to failure, μ = ${frictionLow}`, unit: "MPa", bySegment: bySegment("dp"), range: payload.ranges.dp, reversed: true },
+    { key: STRESS_FIELD_KEYS.dp, label: `ΔP to failure, more critical of μ ${friction.low}–${friction.high}`, unit: "MPa", bySegment: bySegment("dp"), range: payload.ranges.dp, reversed: true },
   ];
 }

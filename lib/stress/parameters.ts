@@ -113,3 +113,13 @@ export function parseThresholds(text: string | null | undefined): number[] | nul
   if (values.some((v) => !Number.isFinite(v) || v < -1000 || v > 1000)) return null;
   return [...new Set(values)].sort((a, b) => a - b);
 }
+
+/** Smoothing lengths the screen accepts for the fault surface's orientation (m). */
+export const LENGTH_SCALE_LIMITS_M = [10, 5000] as const;
+
+/** "250" → 250; null for an absent value (use the default), NaN for one that is not a length within the limits. */
+export function parseLengthScale(text: string | null | undefined): number | null {
+  if (text === null || text === undefined || text.trim() === "") return null;
+  const value = Number(text);
+  return Number.isFinite(value) && value >= LENGTH_SCALE_LIMITS_M[0] && value <= LENGTH_SCALE_LIMITS_M[1] ? value : NaN;
+}

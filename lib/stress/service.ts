@@ -11,7 +11,17 @@ import { indicesBySegment } from "@/lib/engine/csv";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import type { StressStateInput, StressStateView } from "./parameters";
-import { rasterizeTriangleValues, screenTriangles, segmentTriangles, type TriangleScreen } from "./surface";
+import {
+  ORIENTATION_RANGE_STANDARD_ERRORS,
+  defaultLengthScaleM,
+  gridForLengthScale,
+  rasterizeTriangleValues,
+  screenElements,
+  segmentSurface,
+  surfaceElements,
+  type SegmentSurface,
+  type TriangleScreen,
+} from "./surface";
 import { evenSubsample, summarizeScreen, type ScreenSummary } from "./summary";
 
 async function listStates(studyId: string, faultId: string | null): Promise<StressStateView[]> {
@@ -70,22 +80,38 @@ export interface SegmentScreen {
   screen: TriangleScreen;
   /** three pick indices per screened triangle (rows of `screen`) */
   triangleVertices: Uint32Array;
-  /** per display-grid node: slip tendency, dilation tendency, ΔP at the lower friction coefficient */
+  /** per display-grid node: slip tendency, dilation tendency, ΔP at the more critical end of the friction band */
   nodes: { slip: Float32Array; dilation: Float32Array; dp: Float32Array; columns: number; rows: number };
+}
+
+/** How the screen took the fault's orientation, as the panel states it. */
+export interface OrientationBasis {
+  /** Gaussian standard deviation of the surface smoothing (m) */
+  lengthScaleM: number;
+  /** what the screen uses when none is asked for, and the median pick spacing it came from */
+  defaultLengthScaleM: number;
+  medianPickSpacingM: number;
+  /** the orientation range spans this many standard errors of each window's mean normal */
+  rangeStandardErrors: number;
 }
 
 export interface FaultScreen {
   analysisId: string;
   pickSetVersion: number;
   state: StressStateView;
+  orientation: OrientationBasis;
   segments: SegmentScreen[];
   combined: TriangleScreen;
   /** pick coordinates (world, m) the triangles index into */
   vertices: { x: Float64Array; y: Float64Array; z: Float64Array };
 }
 
-/** Screens the triangles of the fault's latest finished analysis under the stress state that applies to it. */
-export async function screenFault(studyId: string, faultId: string): Promise<FaultScreen> {
+/**
+ * Screens the fault surface of the latest finished analysis under the stress state that applies to it: every
+ * triangle of the picks is an area element whose orientation and depth come from the surface smoothed at
+ * `lengthScaleM` (default from the pick spacing; lib/stress/surface.ts).
+ */
+export async function screenFault(studyId: string, faultId: string, lengthScaleM: number | null = null): Promise<FaultScreen> {
   const { current } = await stressStateForFault(studyId, faultId);
   if (!current) throw new ApiError(404, "No stress state is set for this fault or its study yet.");
   const latest = await latestAnalysisForFault(faultId);
@@ -102,30 +128,54 @@ export async function screenFault(studyId: string, faultId: string): Promise<Fau
   const display = decodeFaultDisplay(row.display);
   const picks = decodePicks(row.picks);
   const bySegment = indicesBySegment(picks);
-  const segments: SegmentScreen[] = [];
+  const surfaces: { segment: AnalysisReport["segments"][number]; surface: SegmentSurface; grid: (typeof display.segments)[number]["grid"] }[] = [];
   for (const segment of report.segments) {
     const nameIndex = picks.segmentNames.indexOf(segment.id);
     const ids = nameIndex >= 0 ? bySegment[nameIndex] : null;
     const displaySegment = display.segments.find((d) => d.id === segment.id);
     if (!ids || ids.length < 3 || !displaySegment) continue;
-    const { triangles, s, t } = segmentTriangles(picks.x, picks.y, picks.z, ids, segment.plane);
-    const screen = screenTriangles({ x: picks.x, y: picks.y, z: picks.z, triangles }, current.parameters);
-    const kept = new Uint32Array(screen.count * 3);
-    for (let i = 0; i < screen.count; i++) kept.set(triangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
-    const grid = displaySegment.grid;
-    const [slip, dilation, dp] = rasterizeTriangleValues(s, t, kept, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureLowMPa], grid);
-    segments.push({ segmentId: segment.id, screen, triangleVertices: kept, nodes: { slip, dilation, dp, columns: grid.columns, rows: grid.rows } });
+    surfaces.push({ segment, surface: segmentSurface(picks, ids, segment.plane), grid: displaySegment.grid });
   }
-  return { analysisId: latest.id, pickSetVersion: latest.version, state: current, segments, combined: concatScreens(segments.map((s) => s.screen)), vertices: { x: picks.x, y: picks.y, z: picks.z } };
+  const spacings = surfaces.map(({ surface }) => surface.medianEdgeM).filter(Number.isFinite);
+  const medianPickSpacingM = spacings.length ? Math.max(...spacings) : NaN;
+  const defaultLength = defaultLengthScaleM(medianPickSpacingM);
+  const length = lengthScaleM ?? defaultLength;
+  const segments: SegmentScreen[] = surfaces.map(({ segment, surface, grid }) => {
+    const screen = screenElements(surfaceElements(surface, segment.plane, gridForLengthScale(grid, length), length), current.parameters);
+    const local = new Uint32Array(screen.count * 3);
+    const kept = new Uint32Array(screen.count * 3);
+    for (let i = 0; i < screen.count; i++) {
+      local.set(surface.localTriangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
+      kept.set(surface.triangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
+    }
+    const [slip, dilation, dp] = rasterizeTriangleValues(surface.s, surface.t, local, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa], grid);
+    return { segmentId: segment.id, screen, triangleVertices: kept, nodes: { slip, dilation, dp, columns: grid.columns, rows: grid.rows } };
+  });
+  return {
+    analysisId: latest.id,
+    pickSetVersion: latest.version,
+    state: current,
+    orientation: { lengthScaleM: length, defaultLengthScaleM: defaultLength, medianPickSpacingM, rangeStandardErrors: ORIENTATION_RANGE_STANDARD_ERRORS },
+    segments,
+    combined: concatScreens(segments.map((s) => s.screen)),
+    vertices: { x: picks.x, y: picks.y, z: picks.z },
+  };
 }
+
+const SCREEN_COLUMNS = [
+  "centroidX", "centroidY", "centroidZ", "normalX", "normalY", "normalZ", "areaM2", "orientationUncertaintyDeg", "slopeScatterDeg",
+  "depthM", "normalMPa", "shearMPa", "porePressureMPa", "effectiveNormalMPa", "slipTendency", "dilationTendency",
+  "pressureToFailureLowMPa", "pressureToFailureHighMPa", "pressureToFailureCriticalMPa", "pressureToFailureMinMPa", "pressureToFailureMaxMPa",
+  "slipTendencyMin", "slipTendencyMax", "dilationTendencyMin", "dilationTendencyMax",
+] as const satisfies readonly (keyof TriangleScreen)[];
 
 function concatScreens(screens: TriangleScreen[]): TriangleScreen {
   const count = screens.reduce((n, s) => n + s.count, 0);
-  const join = (key: keyof TriangleScreen) => {
+  const join = (key: (typeof SCREEN_COLUMNS)[number]) => {
     const out = new Float64Array(count);
     let offset = 0;
     for (const s of screens) {
-      out.set(s[key] as Float64Array, offset);
+      out.set(s[key], offset);
       offset += s.count;
     }
     return out;
@@ -136,15 +186,11 @@ function concatScreens(screens: TriangleScreen[]): TriangleScreen {
     source.set(s.source, offset);
     offset += s.count;
   }
+  const columns = Object.fromEntries(SCREEN_COLUMNS.map((key) => [key, join(key)])) as Record<(typeof SCREEN_COLUMNS)[number], Float64Array>;
   return {
     count,
     source,
-    centroidX: join("centroidX"), centroidY: join("centroidY"), centroidZ: join("centroidZ"),
-    normalX: join("normalX"), normalY: join("normalY"), normalZ: join("normalZ"),
-    areaM2: join("areaM2"), depthM: join("depthM"), normalMPa: join("normalMPa"), shearMPa: join("shearMPa"),
-    porePressureMPa: join("porePressureMPa"), effectiveNormalMPa: join("effectiveNormalMPa"),
-    slipTendency: join("slipTendency"), dilationTendency: join("dilationTendency"),
-    pressureToFailureLowMPa: join("pressureToFailureLowMPa"), pressureToFailureHighMPa: join("pressureToFailureHighMPa"),
+    ...columns,
     skippedDegenerate: screens.reduce((n, s) => n + s.skippedDegenerate, 0),
     skippedAboveDatum: screens.reduce((n, s) => n + s.skippedAboveDatum, 0),
   };
@@ -157,6 +203,7 @@ export interface StressResultPayload {
   analysisId: string;
   pickSetVersion: number;
   state: StressStateView;
+  orientation: OrientationBasis;
   summary: ScreenSummary;
   skipped: { degenerate: number; aboveDatum: number };
   /** per segment, base64 little-endian Float32 arrays, one value per display-grid node (NaN: no triangle) */
@@ -166,8 +213,8 @@ export interface StressResultPayload {
   mohr: { total: number; effectiveNormalMPa: number[]; shearMPa: number[]; depthM: number[] };
 }
 
-export async function stressResult(studyId: string, faultId: string, thresholdsMPa: number[]): Promise<StressResultPayload> {
-  const result = await screenFault(studyId, faultId);
+export async function stressResult(studyId: string, faultId: string, thresholdsMPa: number[], lengthScaleM: number | null = null): Promise<StressResultPayload> {
+  const result = await screenFault(studyId, faultId, lengthScaleM);
   const { combined } = result;
   const summary = summarizeScreen(combined, result.state.parameters, thresholdsMPa);
   const pick = evenSubsample(combined.count, MOHR_POINTS);
@@ -176,13 +223,14 @@ export async function stressResult(studyId: string, faultId: string, thresholdsM
     analysisId: result.analysisId,
     pickSetVersion: result.pickSetVersion,
     state: result.state,
+    orientation: result.orientation,
     summary,
     skipped: { degenerate: combined.skippedDegenerate, aboveDatum: combined.skippedAboveDatum },
     segments: result.segments.map(({ segmentId, nodes }) => ({ segmentId, columns: nodes.columns, rows: nodes.rows, slip: base64(nodes.slip), dilation: base64(nodes.dilation), dp: base64(nodes.dp) })),
     ranges: {
       slip: [0, Math.max(result.state.parameters.frictionHigh, finiteMax(combined.slipTendency))],
       dilation: [0, 1],
-      dp: [Math.min(0, finiteMin(combined.pressureToFailureLowMPa)), Math.max(1, finiteMax(combined.pressureToFailureLowMPa))],
+      dp: [Math.min(0, finiteMin(combined.pressureToFailureCriticalMPa)), Math.max(1, finiteMax(combined.pressureToFailureCriticalMPa))],
     },
     mohr: {
       total: combined.count,
@@ -207,7 +255,8 @@ function finiteMin(values: ArrayLike<number>) {
 export const EXPORT_COLUMNS = [
   "segment", "centroid_x_m", "centroid_y_m", "centroid_z_m", "normal_x", "normal_y", "normal_z", "area_m2", "depth_m",
   "sigma_n_mpa", "tau_mpa", "pore_pressure_mpa", "sigma_n_eff_mpa", "slip_tendency", "dilation_tendency",
-  "dp_failure_mu_low_mpa", "dp_failure_mu_high_mpa",
+  "dp_failure_mu_low_mpa", "dp_failure_mu_high_mpa", "dp_failure_critical_mpa", "dp_failure_critical_min_mpa", "dp_failure_critical_max_mpa",
+  "orientation_uncertainty_deg",
 ] as const;
 
 function rowValues(screen: TriangleScreen, i: number): number[] {
@@ -215,20 +264,21 @@ function rowValues(screen: TriangleScreen, i: number): number[] {
     screen.centroidX[i], screen.centroidY[i], screen.centroidZ[i], screen.normalX[i], screen.normalY[i], screen.normalZ[i],
     screen.areaM2[i], screen.depthM[i], screen.normalMPa[i], screen.shearMPa[i], screen.porePressureMPa[i],
     screen.effectiveNormalMPa[i], screen.slipTendency[i], screen.dilationTendency[i],
-    screen.pressureToFailureLowMPa[i], screen.pressureToFailureHighMPa[i],
+    screen.pressureToFailureLowMPa[i], screen.pressureToFailureHighMPa[i], screen.pressureToFailureCriticalMPa[i],
+    screen.pressureToFailureMinMPa[i], screen.pressureToFailureMaxMPa[i], screen.orientationUncertaintyDeg[i],
   ];
 }
 
 const cell = (x: number, digits: number) => (Number.isFinite(x) ? x.toFixed(digits) : "");
-const DIGITS = [3, 3, 3, 6, 6, 6, 1, 1, 4, 4, 4, 4, 5, 5, 4, 4];
+const DIGITS = [3, 3, 3, 6, 6, 6, 1, 1, 4, 4, 4, 4, 5, 5, 4, 4, 4, 4, 4, 3];
 const csvText = (text: string) => (/[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text);
 
-export async function stressExport(studyId: string, faultId: string, format: "csv" | "geojson"): Promise<{ body: string; contentType: string; fileName: string }> {
-  const result = await screenFault(studyId, faultId);
+export async function stressExport(studyId: string, faultId: string, format: "csv" | "geojson", lengthScaleM: number | null = null): Promise<{ body: string; contentType: string; fileName: string }> {
+  const result = await screenFault(studyId, faultId, lengthScaleM);
   const p = result.state.parameters;
   const stem = `reactivation-screen-v${result.state.version}`;
   if (format === "csv") {
-    const comment = `# Screening only, not a site-specific assessment. Stress state ${result.state.scope} v${result.state.version} (${p.regime}; Sv ${p.verticalGradient}, SHmax ${p.maxHorizontalGradient} at ${p.maxHorizontalAzimuthDeg} deg, Shmin ${p.minHorizontalGradient}, Pp ${p.porePressureGradient} MPa/km; mu ${p.frictionLow}-${p.frictionHigh}; C ${p.cohesionMPa} MPa); pick set v${result.pickSetVersion}`;
+    const comment = `# Screening only, not a site-specific assessment. Stress state ${result.state.scope} v${result.state.version} (${p.regime}; Sv ${p.verticalGradient}, SHmax ${p.maxHorizontalGradient} at ${p.maxHorizontalAzimuthDeg} deg, Shmin ${p.minHorizontalGradient}, Pp ${p.porePressureGradient} MPa/km; mu ${p.frictionLow}-${p.frictionHigh}; C ${p.cohesionMPa} MPa); pick set v${result.pickSetVersion}; orientation from the surface smoothed at ${result.orientation.lengthScaleM} m, ranges over +-${result.orientation.rangeStandardErrors} standard errors of it`;
     const lines = [comment, EXPORT_COLUMNS.join(",")];
     for (const { segmentId, screen } of result.segments) {
       for (let i = 0; i < screen.count; i++) lines.push([csvText(segmentId), ...rowValues(screen, i).map((v, k) => cell(v, DIGITS[k]))].join(","));
@@ -253,7 +303,7 @@ export async function stressExport(studyId: string, faultId: string, format: "cs
   return {
     body: JSON.stringify({
       type: "FeatureCollection",
-      screening: { caution: "Screening only: not a site-specific engineering, safety or regulatory assessment.", stressStateVersion: result.state.version, parameters: p },
+      screening: { caution: "Screening only: not a site-specific engineering, safety or regulatory assessment.", stressStateVersion: result.state.version, parameters: p, orientation: result.orientation },
       features,
     }),
     contentType: "application/geo+json",

@@ -1,4 +1,5 @@
-// Area-weighted summaries of a triangle screen: minimum ΔP to failure, area fractions below thresholds,
+// Area-weighted summaries of a screen: minimum ΔP to failure (each end of the friction band, the more critical end per
+// element, and its range over the orientation uncertainty), area fractions below thresholds,
 // histogram bins, a deterministic subsample for the Mohr plot, and the plain summary sentence. Pure.
 import type { StressParameters } from "@/db/schema";
 import type { TriangleScreen } from "./surface";
@@ -6,9 +7,10 @@ import { maxSlipTendency, orderedPrincipal, stressesAtDepth } from "./tensor";
 
 export interface ThresholdFraction {
   thresholdMPa: number;
-  /** area fraction with ΔP below the threshold at the lower friction coefficient */
-  fractionLow: number;
-  fractionHigh: number;
+  /** area fraction with ΔP below the threshold at the more critical end of the friction band (per element) */
+  fractionCritical: number;
+  /** area fraction with ΔP below the threshold at both ends of the friction band */
+  fractionBothEnds: number;
 }
 
 export interface Histogram {
@@ -23,12 +25,29 @@ export interface ScreenSummary {
   triangleCount: number;
   areaM2: number;
   depthRangeM: [number, number];
-  minPressureToFailureMPa: { low: number; high: number };
+  minPressureToFailureMPa: {
+    /** at each end of the friction band */
+    low: number;
+    high: number;
+    /** the more critical end per element (the smaller of low and high) */
+    critical: number;
+    /** the minimum again with every element's orientation anywhere in its range: [lowest, highest] */
+    criticalRange: [number, number];
+  };
   /** area fraction where failure is already predicted (ΔP < 0) */
-  failingFraction: { low: number; high: number };
+  failingFraction: {
+    /** at the more critical end of the friction band */
+    critical: number;
+    /** at both ends */
+    bothEnds: number;
+    /** at the more critical end for some orientation within an element's range */
+    withinOrientationRange: number;
+  };
   thresholds: ThresholdFraction[];
-  slipTendency: { max: number; areaMean: number };
+  slipTendency: { max: number; areaMean: number; maxWithinOrientationRange: number };
   dilationTendency: { max: number; areaMean: number };
+  /** area-weighted median of the elements' orientation uncertainty and of the slope scatter in their windows (degrees) */
+  orientation: { medianUncertaintyDeg: number; medianSlopeScatterDeg: number };
   /** triangles with σn′ ≤ 0 (slip tendency undefined) */
   tensileCount: number;
   histogram: Histogram;
@@ -82,23 +101,42 @@ export function areaHistogram(valuesLow: ArrayLike<number>, valuesHigh: ArrayLik
 const fmt = (value: number, digits = 1) => (Number.isFinite(value) ? value.toFixed(digits) : "—");
 const pct = (fraction: number) => `${(fraction * 100).toFixed(fraction > 0 && fraction < 0.001 ? 2 : 1)} %`;
 
+/** Area-weighted median of the finite values (NaN when there are none). */
+function areaMedian(values: ArrayLike<number>, areas: ArrayLike<number>): number {
+  const order = Array.from({ length: values.length }, (_, i) => i).filter((i) => Number.isFinite(values[i])).sort((i, j) => values[i] - values[j]);
+  const total = order.reduce((sum, i) => sum + areas[i], 0);
+  let running = 0;
+  for (const i of order) {
+    running += areas[i];
+    if (running >= total / 2) return values[i];
+  }
+  return NaN;
+}
+
 export function summarizeScreen(screen: TriangleScreen, parameters: StressParameters, thresholdsMPa: number[], targetBins = 20): ScreenSummary {
-  let area = 0, minLow = Infinity, minHigh = Infinity, failLow = 0, failHigh = 0;
-  let tsMax = -Infinity, tsSum = 0, tsArea = 0, tdMax = -Infinity, tdSum = 0, tdArea = 0, tensile = 0;
+  let area = 0, minLow = Infinity, minHigh = Infinity, minCritical = Infinity, minRangeLow = Infinity, minRangeHigh = Infinity;
+  let failCritical = 0, failBoth = 0, failRange = 0;
+  let tsMax = -Infinity, tsRangeMax = -Infinity, tsSum = 0, tsArea = 0, tdMax = -Infinity, tdSum = 0, tdArea = 0, tensile = 0;
   let depthMin = Infinity, depthMax = -Infinity;
-  const below = thresholdsMPa.map(() => ({ low: 0, high: 0 }));
+  const below = thresholdsMPa.map(() => ({ critical: 0, both: 0 }));
   for (let i = 0; i < screen.count; i++) {
     const a = screen.areaM2[i];
     area += a;
     const low = screen.pressureToFailureLowMPa[i];
     const high = screen.pressureToFailureHighMPa[i];
+    const critical = screen.pressureToFailureCriticalMPa[i];
+    const leastCritical = Math.max(low, high);
     minLow = Math.min(minLow, low);
     minHigh = Math.min(minHigh, high);
-    if (low < 0) failLow += a;
-    if (high < 0) failHigh += a;
+    minCritical = Math.min(minCritical, critical);
+    minRangeLow = Math.min(minRangeLow, screen.pressureToFailureMinMPa[i]);
+    minRangeHigh = Math.min(minRangeHigh, screen.pressureToFailureMaxMPa[i]);
+    if (critical < 0) failCritical += a;
+    if (leastCritical < 0) failBoth += a;
+    if (screen.pressureToFailureMinMPa[i] < 0) failRange += a;
     thresholdsMPa.forEach((threshold, k) => {
-      if (low < threshold) below[k].low += a;
-      if (high < threshold) below[k].high += a;
+      if (critical < threshold) below[k].critical += a;
+      if (leastCritical < threshold) below[k].both += a;
     });
     const ts = screen.slipTendency[i];
     if (Number.isFinite(ts)) {
@@ -106,6 +144,7 @@ export function summarizeScreen(screen: TriangleScreen, parameters: StressParame
       tsSum += ts * a;
       tsArea += a;
     } else tensile++;
+    if (Number.isFinite(screen.slipTendencyMax[i])) tsRangeMax = Math.max(tsRangeMax, screen.slipTendencyMax[i]);
     const td = screen.dilationTendency[i];
     if (Number.isFinite(td)) {
       tdMax = Math.max(tdMax, td);
@@ -116,19 +155,25 @@ export function summarizeScreen(screen: TriangleScreen, parameters: StressParame
     depthMax = Math.max(depthMax, screen.depthM[i]);
   }
   const frac = (x: number) => (area > 0 ? x / area : NaN);
+  const any = screen.count > 0;
   const referenceStresses = stressesAtDepth(parameters, parameters.referenceDepthM);
   const [s1, s2, s3] = orderedPrincipal(referenceStresses);
   const pp = referenceStresses.porePressureMPa;
-  const thresholds = thresholdsMPa.map((thresholdMPa, k) => ({ thresholdMPa, fractionLow: frac(below[k].low), fractionHigh: frac(below[k].high) }));
   const summary: Omit<ScreenSummary, "sentence"> = {
     triangleCount: screen.count,
     areaM2: area,
     depthRangeM: [depthMin, depthMax],
-    minPressureToFailureMPa: { low: screen.count ? minLow : NaN, high: screen.count ? minHigh : NaN },
-    failingFraction: { low: frac(failLow), high: frac(failHigh) },
-    thresholds,
-    slipTendency: { max: tsArea > 0 ? tsMax : NaN, areaMean: tsArea > 0 ? tsSum / tsArea : NaN },
+    minPressureToFailureMPa: {
+      low: any ? minLow : NaN,
+      high: any ? minHigh : NaN,
+      critical: any ? minCritical : NaN,
+      criticalRange: [any ? minRangeLow : NaN, any ? minRangeHigh : NaN],
+    },
+    failingFraction: { critical: frac(failCritical), bothEnds: frac(failBoth), withinOrientationRange: frac(failRange) },
+    thresholds: thresholdsMPa.map((thresholdMPa, k) => ({ thresholdMPa, fractionCritical: frac(below[k].critical), fractionBothEnds: frac(below[k].both) })),
+    slipTendency: { max: tsArea > 0 ? tsMax : NaN, areaMean: tsArea > 0 ? tsSum / tsArea : NaN, maxWithinOrientationRange: Number.isFinite(tsRangeMax) ? tsRangeMax : NaN },
     dilationTendency: { max: tdArea > 0 ? tdMax : NaN, areaMean: tdArea > 0 ? tdSum / tdArea : NaN },
+    orientation: { medianUncertaintyDeg: areaMedian(screen.orientationUncertaintyDeg, screen.areaM2), medianSlopeScatterDeg: areaMedian(screen.slopeScatterDeg, screen.areaM2) },
     tensileCount: tensile,
     histogram: areaHistogram(screen.pressureToFailureLowMPa, screen.pressureToFailureHighMPa, screen.areaM2, targetBins),
     reference: {
@@ -147,14 +192,17 @@ function summarySentence(s: Omit<ScreenSummary, "sentence">, p: StressParameters
   if (s.triangleCount === 0) return "No triangles of the fault surface could be screened (none below the datum, or all degenerate).";
   const areaKm2 = s.areaM2 / 1e6;
   const firstThreshold = s.thresholds[0];
+  const [rangeLow, rangeHigh] = s.minPressureToFailureMPa.criticalRange;
   const parts = [
-    `Over ${fmt(areaKm2, 2)} km² of fault surface between ${fmt(s.depthRangeM[0], 0)} and ${fmt(s.depthRangeM[1], 0)} m depth, the smallest pore-pressure increase to failure is ${fmt(s.minPressureToFailureMPa.low)} MPa at μ = ${p.frictionLow} and ${fmt(s.minPressureToFailureMPa.high)} MPa at μ = ${p.frictionHigh}.`,
+    `Over ${fmt(areaKm2, 2)} km² of fault surface between ${fmt(s.depthRangeM[0], 0)} and ${fmt(s.depthRangeM[1], 0)} m depth, the smallest pore-pressure increase to failure is ${fmt(s.minPressureToFailureMPa.low)} MPa at μ = ${p.frictionLow} and ${fmt(s.minPressureToFailureMPa.high)} MPa at μ = ${p.frictionHigh}; taking the more critical end for each part of the surface, ${fmt(s.minPressureToFailureMPa.critical)} MPa (${fmt(rangeLow)} to ${fmt(rangeHigh)} MPa within the orientation uncertainty).`,
   ];
   if (firstThreshold) {
-    parts.push(`Between ${pct(Math.min(firstThreshold.fractionLow, firstThreshold.fractionHigh))} and ${pct(Math.max(firstThreshold.fractionLow, firstThreshold.fractionHigh))} of the area would reach failure with less than ${firstThreshold.thresholdMPa} MPa of added pore pressure.`);
+    parts.push(`Between ${pct(firstThreshold.fractionBothEnds)} (both ends of the friction band) and ${pct(firstThreshold.fractionCritical)} (the more critical end) of the area would reach failure with less than ${firstThreshold.thresholdMPa} MPa of added pore pressure.`);
   }
-  if (s.failingFraction.low > 0) {
-    parts.push(`${pct(s.failingFraction.low)} of the area is already at or past failure at μ = ${p.frictionLow} under these inputs.`);
+  if (s.failingFraction.critical > 0) {
+    parts.push(`${pct(s.failingFraction.critical)} of the area is already at or past failure at the more critical end of μ ${p.frictionLow}–${p.frictionHigh} under these inputs.`);
+  } else if (s.failingFraction.withinOrientationRange > 0) {
+    parts.push(`No part is at failure with its fitted orientation, but ${pct(s.failingFraction.withinOrientationRange)} of the area could be within its orientation uncertainty.`);
   }
   parts.push(`Slip tendency reaches ${fmt(s.slipTendency.max, 2)} (area mean ${fmt(s.slipTendency.areaMean, 2)}); dilation tendency reaches ${fmt(s.dilationTendency.max, 2)}.`);
   return parts.join(" ");

@@ -5,7 +5,7 @@ import { projectToPlane } from "@/lib/engine/project";
 import { triangulate } from "@/lib/engine/triangulate";
 import { gridSpecFor } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";
-import { effectivePickCount, localPlaneFit, offPlaneGrid, orientationOfNormal, slopeScatterDeg, smoothGrid, surfaceNormal } from "@/lib/engine/surface";
+import { effectivePickCount, localPolynomialFit, offPlaneGrid, orientationOfNormal, slopeScatterDeg, smoothGrid, surfaceNormal } from "@/lib/engine/surface";
 import { planeNormal } from "@/lib/stress/tensor";
 import { runPythonOracle } from "../support/python";
 
@@ -49,7 +49,7 @@ describe("smoothing and local plane fits of a grid with holes", () => {
     const { spec, field } = holedField((s, t) => 0.002 * (s - 120) ** 2 - 0.3 * t + 5 * Math.sin(s / 40) + 3 * rand());
     const lengthM = 30; // 3 cells, so scipy's truncate = 3 gives the same 9-cell radius
     const nodes = [0, 31, 215, 6 * 30 + 11, 10 * 30 + 14, 19 * 30 + 24, 5 * 30 + 25, 7 * 30 + 13];
-    const ref = runPythonOracle<{ smooth: (number | null)[]; fits: number[][] }>(path.join(__dirname, "surface_oracle.py"), {
+    const ref = runPythonOracle<{ smooth: (number | null)[]; fits: number[][]; fits2: number[][] }>(path.join(__dirname, "surface_oracle.py"), {
       columns: spec.columns, rows: spec.rows, cellM: spec.cellM, lengthM, field: Array.from(field, (v) => (Number.isFinite(v) ? v : null)), nodes,
     });
     const smooth = smoothGrid(field, spec, lengthM);
@@ -57,19 +57,37 @@ describe("smoothing and local plane fits of a grid with holes", () => {
       if (ref.smooth[k] === null) expect(value).toBeNaN();
       else expect(Math.abs(value - ref.smooth[k]!)).toBeLessThan(1e-9);
     });
-    const fit = localPlaneFit(field, spec, lengthM);
-    nodes.forEach((k, n) => {
-      const [a, b, c] = ref.fits[n];
-      // node 6·30 + 13 lies inside the hole: the fit reaches it from the data around
-      expect(Math.abs(fit.offPlaneM[k] - a)).toBeLessThan(1e-9);
-      expect(Math.abs(fit.gradientS[k] - b)).toBeLessThan(1e-9);
-      expect(Math.abs(fit.gradientT[k] - c)).toBeLessThan(1e-9);
-    });
+    for (const [degree, fits] of [[1, ref.fits], [2, ref.fits2]] as const) {
+      const fit = localPolynomialFit(field, spec, lengthM, degree);
+      nodes.forEach((k, n) => {
+        const [a, b, c] = fits[n];
+        // node 6·30 + 13 lies inside the hole: the fit reaches it from the data around
+        expect(Math.abs(fit.offPlaneM[k] - a)).toBeLessThan(1e-8);
+        expect(Math.abs(fit.gradientS[k] - b)).toBeLessThan(1e-9);
+        expect(Math.abs(fit.gradientT[k] - c)).toBeLessThan(1e-9);
+      });
+    }
+  });
+
+  it("a quadratic surface keeps its exact slopes under the degree-2 fit, edges included; a local plane bends them on the edges (by hand)", () => {
+    const { spec, field } = holedField((s, t) => 0.001 * (s - 100) ** 2 + 0.0005 * s * t - 0.002 * t * t);
+    const quadratic = localPolynomialFit(field, spec, 40, 2);
+    const plane = localPolynomialFit(field, spec, 40, 1);
+    let worst = 0;
+    for (let k = 0; k < field.length; k++) {
+      if (!Number.isFinite(field[k])) continue;
+      const s = (k % spec.columns) * 10, t = Math.floor(k / spec.columns) * 10;
+      worst = Math.max(worst, Math.abs(quadratic.gradientS[k] - (0.002 * (s - 100) + 0.0005 * t)), Math.abs(quadratic.gradientT[k] - (0.0005 * s - 0.004 * t)));
+    }
+    expect(worst).toBeLessThan(1e-9);
+    // on the bottom edge (t = 190 m) the plane's slope lags the true −0.004·190 + … by about curvature × window shift
+    const edge = 19 * 30 + 5;
+    expect(Math.abs(plane.gradientT[edge] - (0.0005 * 50 - 0.004 * 190))).toBeGreaterThan(0.05);
   });
 
   it("a plane survives the local fit exactly, also on edges and corners; plain smoothing bends its slope there (why the fit is used)", () => {
     const { spec, field } = holedField((s, t) => 0.2 * s - 0.1 * t + 7);
-    const fit = localPlaneFit(field, spec, 40);
+    const fit = localPolynomialFit(field, spec, 40);
     const smooth = smoothGrid(field, spec, 40);
     let worstFit = 0;
     for (let k = 0; k < field.length; k++) {
@@ -90,14 +108,14 @@ describe("smoothing and local plane fits of a grid with holes", () => {
 
   it("slope scatter is 0 on a plane and equals the known slope spread of a corrugation (by hand)", () => {
     const plane = holedField((s, t) => 0.2 * s - 0.1 * t);
-    const planeFit = localPlaneFit(plane.field, plane.spec, 40);
+    const planeFit = localPolynomialFit(plane.field, plane.spec, 40);
     const flat = slopeScatterDeg(plane.field, planeFit, plane.spec, 40);
     for (let k = 0; k < flat.length; k++) if (Number.isFinite(plane.field[k])) expect(flat[k]).toBeLessThan(1e-6);
     // w = 2·sin(2π t / 40 m) sampled every 10 m: node slopes by central differences are ±0.2 (0, ±4 over 20 m … every
     // other row), so the RMS slope about the mean is 0.2/√2 in the interior: atan(0.1414) = 8.05°
     const corrugated = { spec: { s0: 0, t0: 0, cellM: 10, columns: 60, rows: 60 }, field: new Float64Array(3600) };
     for (let j = 0; j < 60; j++) for (let i = 0; i < 60; i++) corrugated.field[j * 60 + i] = 2 * Math.sin((2 * Math.PI * j * 10) / 40);
-    const fit = localPlaneFit(corrugated.field, corrugated.spec, 60);
+    const fit = localPolynomialFit(corrugated.field, corrugated.spec, 60);
     const scatter = slopeScatterDeg(corrugated.field, fit, corrugated.spec, 60);
     expect(scatter[30 * 60 + 30]).toBeCloseTo((Math.atan(0.2 / Math.SQRT2) * 180) / Math.PI, 1);
   });

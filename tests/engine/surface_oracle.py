@@ -1,8 +1,9 @@
 # Independent oracle for lib/engine/surface.ts, written without its formulas:
 # - "smooth": normalised convolution with scipy.ndimage.gaussian_filter (mode="constant", truncate=3) on the values
 #   with NaN set to 0 and on the mask, divided;
-# - "fit": at chosen nodes, the weighted least-squares plane a + b*ds + c*dt through every finite node within
-#   3 sigma (np.linalg.lstsq on sqrt-weighted rows), weights exp(-d^2 / (2 sigma^2)).
+# - "fit" / "fit2": at chosen nodes, the weighted least-squares plane a + b*ds + c*dt (and the quadratic with
+#   ds^2, ds*dt, dt^2 added) through every finite node within 3 sigma (np.linalg.lstsq on sqrt-weighted rows),
+#   weights exp(-d^2 / (2 sigma^2)).
 # Reads {"columns", "rows", "cellM", "lengthM", "field": [... null for NaN], "nodes": [k, ...]}.
 import json
 import sys
@@ -21,16 +22,23 @@ den = ndimage.gaussian_filter(mask, sigma, mode="constant", cval=0.0, truncate=3
 smooth = np.where(mask > 0, num / np.where(den > 0, den, 1), np.nan)
 
 jj, ii = np.nonzero(mask)
-fits = []
-for k in req["nodes"]:
+
+
+def local_fit(k, quadratic):
     j, i = divmod(k, cols)
-    ds = (ii - i) * cell
-    dt = (jj - j) * cell
     near = (np.abs(ii - i) <= int(np.ceil(3 * sigma))) & (np.abs(jj - j) <= int(np.ceil(3 * sigma)))
-    w = np.exp(-(ds[near] ** 2 + dt[near] ** 2) / (2 * L * L))
-    A = np.column_stack([np.ones(near.sum()), ds[near], dt[near]]) * np.sqrt(w)[:, None]
+    ds = (ii[near] - i) * cell
+    dt = (jj[near] - j) * cell
+    w = np.exp(-(ds ** 2 + dt ** 2) / (2 * L * L))
+    columns = [np.ones(near.sum()), ds, dt] + ([ds * ds, ds * dt, dt * dt] if quadratic else [])
+    A = np.column_stack(columns) * np.sqrt(w)[:, None]
     y = f[jj[near], ii[near]] * np.sqrt(w)
     coef, *_ = np.linalg.lstsq(A, y, rcond=None)
-    fits.append([float(c) for c in coef])
+    return [float(c) for c in coef[:3]]
 
-json.dump({"smooth": [None if not np.isfinite(v) else float(v) for v in smooth.ravel()], "fits": fits}, sys.stdout)
+
+json.dump({
+    "smooth": [None if not np.isfinite(v) else float(v) for v in smooth.ravel()],
+    "fits": [local_fit(k, False) for k in req["nodes"]],
+    "fits2": [local_fit(k, True) for k in req["nodes"]],
+}, sys.stdout)

@@ -11,12 +11,12 @@ describe("3D colour fields from the result payload (common practice, no source)"
         segments: [{ segmentId: "north", columns: 3, rows: 1, slip: encode([0.1, 0.2, NaN]), dilation: encode([0.3, 0.4, NaN]), dp: encode([5, -1, NaN]) }],
         ranges: { slip: [0, 0.8], dilation: [0, 1], dp: [-1, 5] },
       },
-      0.6,
+      { low: 0.6, high: 0.8 },
     );
     expect(fields.map((f) => f.key)).toEqual([STRESS_FIELD_KEYS.slip, STRESS_FIELD_KEYS.dilation, STRESS_FIELD_KEYS.dp]);
     expect(fields.every((f) => f.key.startsWith("stress:"))).toBe(true);
     expect(fields[2]).toMatchObject({ unit: "MPa", reversed: true, range: [-1, 5] });
-    expect(fields[2].label).toMatch(/μ = 0\.6/);
+    expect(fields[2].label).toBe("ΔP to failure, more critical of μ 0.6–0.8");
     expect(Array.from(fields[0].bySegment.north)).toEqual([Math.fround(0.1), Math.fround(0.2), NaN]);
   });
 });

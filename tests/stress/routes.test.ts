@@ -151,10 +151,21 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
     const { summary } = json;
     expect(summary.triangleCount).toBeGreaterThan(1000);
     expect(summary.thresholds.map((t: { thresholdMPa: number }) => t.thresholdMPa)).toEqual([1, 2, 5]);
-    // fractions below a larger threshold can only grow
-    expect(summary.thresholds[0].fractionLow).toBeLessThanOrEqual(summary.thresholds[2].fractionLow);
-    // the lower friction coefficient is the more critical end of the band
+    // fractions below a larger threshold can only grow, and the more critical end counts at least the area of both ends
+    expect(summary.thresholds[0].fractionCritical).toBeLessThanOrEqual(summary.thresholds[2].fractionCritical);
+    for (const t of summary.thresholds) expect(t.fractionBothEnds).toBeLessThanOrEqual(t.fractionCritical);
+    // without cohesion the lower friction coefficient is the more critical end everywhere
+    expect(summary.minPressureToFailureMPa.critical).toBe(summary.minPressureToFailureMPa.low);
     expect(summary.minPressureToFailureMPa.low).toBeLessThanOrEqual(summary.minPressureToFailureMPa.high);
+    expect(summary.minPressureToFailureMPa.criticalRange[0]).toBeLessThanOrEqual(summary.minPressureToFailureMPa.critical);
+    expect(summary.minPressureToFailureMPa.criticalRange[1]).toBeGreaterThanOrEqual(summary.minPressureToFailureMPa.critical);
+    // the demo picks lie exactly on planes (lib/demo.ts), so the smoothed surface is that plane and nothing scatters
+    expect(summary.orientation.medianSlopeScatterDeg).toBeLessThan(0.01);
+    // the default length: 200 m or 4 median pick spacings; QG-1's picks are about 60 m apart
+    expect(json.orientation.lengthScaleM).toBe(json.orientation.defaultLengthScaleM);
+    expect(json.orientation.defaultLengthScaleM).toBe(Math.max(200, Math.ceil((4 * json.orientation.medianPickSpacingM) / 10) * 10));
+    expect(json.orientation.medianPickSpacingM).toBeGreaterThan(30);
+    expect(json.orientation.medianPickSpacingM).toBeLessThan(100);
     // QG-1 lies at about 2–3.5 km depth (lib/demo.ts)
     expect(summary.depthRangeM[0]).toBeGreaterThan(1000);
     expect(summary.depthRangeM[1]).toBeLessThan(5000);
@@ -163,6 +174,21 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
     const bad = await callRoute(resultRoute.GET, { path: "/x?thresholds=1,abc", params: { faultId: fixture.fault.id } });
     expect(bad.status).toBe(400);
     expect(bad.json.error).toMatch(/MPa/);
+  });
+
+  it("takes the smoothing length from the request, states it, and refuses one that is not a length", async () => {
+    signInAs(fixture.people.viewer);
+    const longer = await callRoute(resultRoute.GET, { path: "/x?lengthScaleM=600", params: { faultId: fixture.fault.id } });
+    expect(longer.status).toBe(200);
+    expect(longer.json.orientation.lengthScaleM).toBe(600);
+    expect(longer.json.summary.sentence).toMatch(/MPa/);
+    for (const bad of ["abc", "2", "99999"]) {
+      const refused = await callRoute(resultRoute.GET, { path: `/x?lengthScaleM=${bad}`, params: { faultId: fixture.fault.id } });
+      expect(refused.status).toBe(400);
+      expect(refused.json.error).toBe("lengthScaleM must be a length in metres between 10 and 5000, e.g. 200.");
+    }
+    const exported = await callRoute(exportRoute.GET, { path: "/x?format=csv&lengthScaleM=abc", params: { faultId: fixture.fault.id } });
+    expect(exported.status).toBe(400);
   });
 
   it("exports one CSV row per screened triangle with the documented header", async () => {
@@ -180,6 +206,10 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
     const tau = Number(first[EXPORT_COLUMNS.indexOf("tau_mpa")]);
     const eff = Number(first[EXPORT_COLUMNS.indexOf("sigma_n_eff_mpa")]);
     expect(Math.abs(ts - tau / eff)).toBeLessThan(1e-3);
+    const low = Number(first[EXPORT_COLUMNS.indexOf("dp_failure_mu_low_mpa")]);
+    const high = Number(first[EXPORT_COLUMNS.indexOf("dp_failure_mu_high_mpa")]);
+    expect(Number(first[EXPORT_COLUMNS.indexOf("dp_failure_critical_mpa")])).toBe(Math.min(low, high));
+    expect(lines[0]).toMatch(/orientation from the surface smoothed at \d+ m/);
   });
 
   it("exports valid RFC 7946 GeoJSON triangles with [x, y, z] and the values as properties (checked with @placemarkio/check-geojson)", async () => {

@@ -8,6 +8,7 @@ import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
 import { CautionNote } from "@/components/workspace/CautionNote";
 import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
+import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { REPORT_PICTURE_KEY } from "./download";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 import { RelayTable } from "./RelayView";
@@ -104,7 +105,8 @@ export function FaultReport({ data }: { data: FaultReportData }) {
           <div>
             <h2 className="mb-1 font-semibold">Relays</h2>
             <RelayTable report={report} />
-            {report.relays.map((relay) => <p key={relay.segments.join("-")} className="mt-1 text-xs text-slate-500">{relay.segments.join(" – ")}: {relay.evidence}. {relay.comparison}</p>)}
+            {report.relays.map((relay) => <p key={relay.segments.join("-")} className="mt-1 text-xs text-slate-500">{relay.segments.join(" – ")}: {relay.evidence} {relay.comparison}</p>)}
+            {report.relays.length > 0 && <p className="mt-1 text-xs text-slate-500">{report.relays[0].basis ?? LINKAGE_BASIS}</p>}
           </div>
           <div data-testid="report-pins">
             <h2 className="mb-1 font-semibold">Pins</h2>

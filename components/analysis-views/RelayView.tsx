@@ -2,7 +2,7 @@
 import * as Plot from "@observablehq/plot";
 import { useMemo } from "react";
 import type { FaultDisplay } from "@/lib/analysis/display";
-import { rampDipDeg } from "@/lib/engine/relays";
+import { LINKAGE_BASIS, rampDipDeg } from "@/lib/engine/relays";
 import type { AnalysisReport, RelayResult } from "@/lib/engine/types";
 import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
@@ -100,7 +100,7 @@ function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult
       />
       <dl className="space-y-2 text-sm" data-testid="relay-facts">
         <div><dt className="text-xs text-slate-500">Overlap / separation</dt><dd className="num">O/S = {relay.overlapToSeparation.toFixed(2)}</dd><dd className="text-xs text-slate-500">{relay.comparison}</dd></div>
-        <div><dt className="text-xs text-slate-500">Linkage</dt><dd className="font-medium" data-testid="relay-linkage">{LINKAGE_WORDS[relay.linkage]}</dd><dd className="text-xs text-slate-500">Evidence: {relay.evidence}. Stages after Peacock &amp; Sanderson (1994).</dd></div>
+        <div><dt className="text-xs text-slate-500">Linkage</dt><dd className="font-medium" data-testid="relay-linkage">{LINKAGE_WORDS[relay.linkage]}</dd><dd className="text-xs text-slate-500" data-testid="relay-evidence">Evidence: {relay.evidence}</dd><dd className="text-xs text-slate-500">{relay.basis ?? LINKAGE_BASIS}</dd></div>
         <div>
           <dt className="text-xs text-slate-500">Relay ramp dip (along strike)</dt>
           {ramp ? (

@@ -1,5 +1,6 @@
 "use client";
 import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
+import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { CautionNote } from "./CautionNote";
 import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "./format";
 
@@ -81,10 +82,11 @@ export function FaultSheet({ report }: { report: AnalysisReport }) {
             </tbody>
           </table>
           {report.relays.map((relay) => (
-            <p key={relay.segments.join("-")} className="mt-2 text-xs leading-relaxed text-slate-600 dark:text-slate-300">
-              {relay.evidence} {relay.comparison}
+            <p key={relay.segments.join("-")} className="mt-2 text-xs leading-relaxed text-slate-600 dark:text-slate-300" data-testid="relay-evidence">
+              <span className="font-medium text-slate-800 dark:text-slate-100">{relay.segments.join(" – ")}, evidence:</span> {relay.evidence} {relay.comparison}
             </p>
           ))}
+          <p className="mt-2 text-xs leading-relaxed text-slate-500" data-testid="relay-basis">{report.relays[0].basis ?? LINKAGE_BASIS}</p>
         </section>
       )}
       <p className="text-xs leading-relaxed text-slate-600 dark:text-slate-300" data-testid="sheet-quality">

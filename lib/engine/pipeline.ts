@@ -124,7 +124,7 @@ export function analyzePicks(
     });
   });
   options.onStage?.("relays", 0.98);
-  const relays = analyzeRelays(segments, grids);
+  const relays = analyzeRelays(segments, grids, picks);
   options.onStage?.("done", 1);
   return {
     report: {

@@ -135,7 +135,21 @@ export interface RelayResult {
   separationM: number;
   overlapToSeparation: number;
   linkage: "soft" | "breached" | "hard";
+  /** what the label rests on, in words (the mapped connection, or its absence), and the summed-profile transfer */
   evidence: string;
+  /** the published basis of the labels */
+  basis?: string;
+  /** the mapped structure the label rests on: a merge, a connecting segment or picks, or none */
+  connection?: {
+    kind: "none" | "picks" | "segment" | "merged";
+    via: string | null;
+    pickCount: number;
+    throwRangeM: [number, number] | null;
+    /** closest distance of a pick of one segment to the other's mapped surface (m) */
+    closestApproachM: number;
+  };
+  /** smallest summed displacement inside the overlap as a fraction of the summed profile's peak */
+  summedMinimumFraction?: number;
   comparison: string;
   /** sum of both segments' displacement along mean strike at their mean centroid elevation */
   summedProfile: { alongStrikeM: number[]; displacementM: number[] };

@@ -20,8 +20,8 @@ export interface StressStateView {
 /**
  * Illustrative gradients (MPa/km) that reproduce the Andersonian ordering of each regime (Anderson 1951, from
  * memory): normal Sv ≥ SHmax ≥ Shmin, strike-slip SHmax ≥ Sv ≥ Shmin, reverse SHmax ≥ Shmin ≥ Sv. Magnitudes are
- * generic (common practice, no source); the normal preset at 2.5 km gives the worked example of the domain
- * reference (Sv 60, SHmax 45, Shmin 35, Pp 25 MPa). They are starting points to be replaced by site data.
+ * generic (common practice, no source); the normal preset at 2.5 km gives the worked state of docs/check-values.md
+ * (Sv 60, SHmax 45, Shmin 35, Pp 25 MPa). They are starting points to be replaced by site data.
  */
 export const REGIME_PRESETS: Record<Exclude<StressRegime, "custom">, Pick<StressParameters, "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient" | "porePressureGradient">> = {
   normal: { verticalGradient: 24, maxHorizontalGradient: 18, minHorizontalGradient: 14, porePressureGradient: 10 },

@@ -37,7 +37,7 @@ export function principalDirections(maxHorizontalAzimuthDeg: number): { maxHoriz
   };
 }
 
-/** σ = Σ σi ai aiᵀ (domain reference §7.1; avoids Euler-angle conventions). */
+/** σ = Σ σi ai aiᵀ (the spectral form; avoids Euler-angle conventions). */
 export function tensorFromPrincipal(values: readonly number[], directions: readonly Vec3[]): Tensor {
   const tensor = new Float64Array(9);
   for (let k = 0; k < values.length; k++) {
@@ -70,7 +70,7 @@ export interface PlaneStress {
   shearVector: Vec3;
 }
 
-/** Cauchy: t = σ n, σn = n·t, τ = |t − σn n| (domain reference §7.1). `n` must be a unit vector. */
+/** Cauchy: t = σ n, σn = n·t, τ = |t − σn n| (worked values: docs/check-values.md M1). `n` must be a unit vector. */
 export function stressOnPlane(tensor: ArrayLike<number>, n: readonly number[]): PlaneStress {
   const tx = tensor[0] * n[0] + tensor[1] * n[1] + tensor[2] * n[2];
   const ty = tensor[3] * n[0] + tensor[4] * n[1] + tensor[5] * n[2];

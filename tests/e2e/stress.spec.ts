@@ -14,8 +14,14 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await expect(panel.getByTestId("stress-caution")).toContainText("Screening only");
   if (await panel.getByTestId("stress-edit").count()) await panel.getByTestId("stress-edit").click();
 
-  // an edited preset that breaks the normal-fault ordering is refused in the form, naming the field and unit
+  // an edited preset that breaks the normal-fault ordering (Sv 15 < SHmax 18 MPa/km, both within range) is refused,
+  // naming the regime and the way out
   await panel.getByTestId("stress-regime").selectOption("normal");
+  await panel.getByTestId("stress-verticalGradient").fill("15");
+  await panel.getByTestId("stress-save").click();
+  await expect(panel.getByTestId("stress-form")).toContainText('The gradients do not follow the Normal faulting (Sv ≥ SHmax ≥ Shmin) ordering; fix them or choose "custom"');
+  await expect(panel.getByTestId("stress-form")).not.toContainText("must be between");
+  // a value out of range is a different error, naming the field and its unit
   await panel.getByTestId("stress-verticalGradient").fill("-2");
   await panel.getByTestId("stress-save").click();
   await expect(panel.getByTestId("stress-form")).toContainText("Vertical stress gradient must be between 0.1 and 100 MPa/km");
@@ -29,7 +35,26 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
 
   await expect(panel.getByTestId("stress-state")).toContainText("illustrative normal-fault preset (e2e)");
   await expect(panel.getByTestId("stress-summary")).toContainText(/smallest pore-pressure increase to failure is -?\d+\.\d MPa at μ = 0\.6/, { timeout: 60_000 });
-  await expect(panel.getByTestId("stress-min-dp")).toContainText("MPa");
+  const atDefault = await (await page.request.get(`/api/faults/${faultId}/stress/result`)).json();
+  // the panel states the smoothing length the server used, and the minimum ΔP it found, to the hundredth
+  await expect(panel.getByTestId("stress-length-value")).toHaveText(`${atDefault.orientation.lengthScaleM} m`);
+  expect(atDefault.orientation.lengthScaleM).toBe(atDefault.orientation.defaultLengthScaleM);
+  await expect(panel.getByTestId("stress-min-dp")).toContainText(`${atDefault.summary.minPressureToFailureMPa.critical.toFixed(2)} MPa at the more critical μ`);
+  await expect(panel.getByTestId("stress-blind-spots")).toContainText("orientation below the smoothing length");
+  await expect(panel.getByTestId("stress-blind-spots")).toContainText("faults that are not mapped");
+
+  // the user changes the length: a bad one is refused in place, a good one re-screens at that length
+  await panel.getByTestId("stress-length-input").fill("5");
+  await expect(panel.getByTestId("stress-length-scale")).toContainText("A length in metres between 10 and 5000");
+  await expect(panel.getByTestId("stress-length-apply")).toBeDisabled();
+  await panel.getByTestId("stress-length-input").fill("600");
+  await panel.getByTestId("stress-length-apply").click();
+  await expect(panel.getByTestId("stress-length-value")).toHaveText("600 m");
+  const atSix = await (await page.request.get(`/api/faults/${faultId}/stress/result?lengthScaleM=600`)).json();
+  await expect(panel.getByTestId("stress-min-dp")).toContainText(`${atSix.summary.minPressureToFailureMPa.critical.toFixed(2)} MPa at the more critical μ`);
+  await expect(panel.getByTestId("stress-export-csv")).toHaveAttribute("href", `/api/faults/${faultId}/stress/export?format=csv&lengthScaleM=600`);
+  await panel.getByTestId("stress-length-default").click();
+  await expect(panel.getByTestId("stress-length-value")).toHaveText(`${atDefault.orientation.lengthScaleM} m`);
   await expect(panel.getByTestId("stress-caution")).toBeVisible();
   await expect(panel.getByTestId("stress-histogram").locator("svg").first()).toBeVisible();
   await expect(panel.getByTestId("stress-mohr").locator("svg").first()).toBeVisible();
@@ -49,7 +74,7 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   const lines = readFileSync((await download.path())!, "utf8").trim().split("\n");
   expect(lines[0]).toMatch(/^# Screening only/);
   expect(lines[1]).toBe(
-    "segment,centroid_x_m,centroid_y_m,centroid_z_m,normal_x,normal_y,normal_z,area_m2,depth_m,sigma_n_mpa,tau_mpa,pore_pressure_mpa,sigma_n_eff_mpa,slip_tendency,dilation_tendency,dp_failure_mu_low_mpa,dp_failure_mu_high_mpa",
+    "segment,centroid_x_m,centroid_y_m,centroid_z_m,normal_x,normal_y,normal_z,area_m2,depth_m,sigma_n_mpa,tau_mpa,pore_pressure_mpa,sigma_n_eff_mpa,slip_tendency,dilation_tendency,dp_failure_mu_low_mpa,dp_failure_mu_high_mpa,dp_failure_critical_mpa,dp_failure_critical_min_mpa,dp_failure_critical_max_mpa,orientation_uncertainty_deg",
   );
   expect(lines.length - 2).toBe(result.summary.triangleCount);
   expect(result.summary.triangleCount).toBeGreaterThan(1000);

@@ -6,11 +6,17 @@ import { distinctColours, openDemoStudy, signIn } from "./helpers";
 function demoCsvWithPlantedBadRow() {
   const lines = readFileSync(path.join(process.cwd(), "public/demo/qg-4-throw-picks.csv"), "utf8").trimEnd().split("\n");
   // Spreadsheet row 6 (header is row 1) gets a throw that is not a number.
+  const throwColumn = lines[0].split(",").map((name) => name.trim().toLowerCase()).indexOf("throw");
   const cells = lines[5].split(",");
-  cells[3] = "twelve";
+  cells[throwColumn] = "twelve";
   lines[5] = cells.join(",");
-  return Buffer.from(lines.join("\n") + "\n");
+  // the throws that remain once that row is dropped: the fault sheet's numbers must come from these
+  const throws = lines.slice(1).filter((_, k) => k !== 4).map((line) => Number(line.split(",")[throwColumn]));
+  return { file: Buffer.from(lines.join("\n") + "\n"), maxThrowM: Math.max(...throws), rows: throws.length };
 }
+
+/** The fault sheet's way of writing metres (components/workspace/format.ts): 0 decimals from 100 m, 1 from 10 m. */
+const sheetMetres = (value: number) => `${value.toLocaleString("en", { minimumFractionDigits: value >= 100 ? 0 : 1, maximumFractionDigits: value >= 100 ? 0 : 1 })} m`;
 
 test("an interpreter uploads picks, sees the planted bad row, confirms, and gets the surface and fault sheet", async ({ page }) => {
   await signIn(page, "interpreter@quillon.test");
@@ -22,7 +28,9 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
   await expect(page.getByTestId("no-picks")).toBeVisible();
 
   await page.getByTestId("open-upload").click();
-  await page.getByTestId("pick-file").setInputFiles({ name: "qg-4-rework.csv", mimeType: "text/csv", buffer: demoCsvWithPlantedBadRow() });
+  const planted = demoCsvWithPlantedBadRow();
+  await expect(page.getByTestId("quality-use")).toContainText("weights each pick in the least-squares plane fit");
+  await page.getByTestId("pick-file").setInputFiles({ name: "qg-4-rework.csv", mimeType: "text/csv", buffer: planted.file });
   await expect(page.getByTestId("upload-preview")).toBeVisible();
   const problem = page.getByTestId("problem-row");
   await expect(problem).toHaveCount(1);
@@ -33,8 +41,21 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
   await page.getByTestId("confirm-upload").click();
 
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
-  await expect(page.getByTestId("sheet-dmax")).toHaveText(/^\d[\d,.]* m$/);
-  await expect(page.getByTestId("sheet-length")).toHaveText(/^\d[\d,.]* m$/);
+  const faultId = page.url().split("/faults/")[1].split(/[?#]/)[0];
+  const { analysis } = await (await page.request.get(`/api/faults/${faultId}/analysis?contours=0`)).json();
+  expect(analysis.status).toBe("done");
+  const segment = analysis.result.segments[0];
+  expect(analysis.result.input.accepted).toBe(planted.rows);
+  // Dmax: the largest pick throw of the uploaded file over sin(dip) (Groshong 2006), the dip as fitted; the sheet
+  // shows it to 0.1 m, so the check is exact at that rounding
+  const expectedDmax = planted.maxThrowM / Math.sin((segment.plane.dipDeg * Math.PI) / 180);
+  await expect(page.getByTestId("sheet-dmax")).toHaveText(sheetMetres(expectedDmax));
+  // lib/demo.ts draws QG-4 dipping 52° from its picks exactly (0.01°: the CSV's millimetres)
+  expect(Math.abs(segment.plane.dipDeg - 52)).toBeLessThan(0.01);
+  // length: the tip line's, as the API reports it, and longer than the picks' own extent (it lies beyond them)
+  await expect(page.getByTestId("sheet-length")).toHaveText(sheetMetres(segment.tipLine.lengthM));
+  expect(segment.tipLine.lengthM).toBeGreaterThan(segment.mappedLimit.lengthM);
+  await expect(page.getByTestId("sheet-quality")).toContainText("No pick has a quality below 1");
   await expect(page.getByTestId("caution")).toContainText("Screening only");
 
   await page.waitForFunction(() => (window as unknown as { __slipfieldSceneReady?: boolean }).__slipfieldSceneReady === true, null, { timeout: 60_000 });

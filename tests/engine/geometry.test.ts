@@ -7,7 +7,7 @@ import { projectToPlane, planeToWorld } from "@/lib/engine/project";
 const circularDiff = (a: number, b: number) => Math.abs(((a - b + 540) % 360) - 180);
 
 describe("throw, heave and displacement", () => {
-  // Groshong 2006 (3-D Structural Geology, eq. 8.3); worked values from the domain reference sheet §10 rows 1–5
+  // Groshong 2006 (3-D Structural Geology, eq. 8.3); worked values: docs/check-values.md G1–G3
   it("T = 100 m, dip 60° gives D = 115.470 m and H = 57.735 m", () => {
     expect(displacementFromThrow(100, 60)).toBeCloseTo(115.47, 3);
     expect(heaveFromThrow(100, 60)).toBeCloseTo(57.735, 3);
@@ -21,7 +21,7 @@ describe("throw, heave and displacement", () => {
     expect(displacementFromThrow(100, 30)).toBeCloseTo(200, 3);
     expect(heaveFromThrow(100, 30)).toBeCloseTo(173.205, 3);
   });
-  it("uses heave where it is given: D = sqrt(T² + H²) (trigonometry, Groshong 2006)", () => {
+  it("uses heave where it is given: D = sqrt(T² + H²) (docs/check-values.md G4; Groshong 2006)", () => {
     const d = displacementColumn([30, 40], [40, NaN], 60);
     expect(d[0]).toBeCloseTo(50, 12);
     expect(d[1]).toBeCloseTo(40 / Math.sin(Math.PI / 3), 12);
@@ -29,7 +29,7 @@ describe("throw, heave and displacement", () => {
 });
 
 describe("best-fit plane", () => {
-  // reference sheet §10 row 9 (derived with numpy SVD)
+  // docs/check-values.md G5 (derived with numpy SVD)
   it("plane dipping 60° east: strike 000 by the right-hand rule", () => {
     const p = fitPlane([0, 0, 100, 100], [0, 100, 0, 100], [0, 0, -173.2051, -173.2051]);
     expect(p.dipDeg).toBeCloseTo(60, 2);
@@ -50,14 +50,14 @@ describe("best-fit plane", () => {
     expect(formatAzimuth(152.25, 0)).toBe("152");
     expect(azimuth(NaN)).toBe("—");
   });
-  // §10 row 10
+  // docs/check-values.md G6 (derived)
   it("plane dipping 45° north: strike 270", () => {
     const p = fitPlane([0, 100, 0, 100], [0, 0, 100, 100], [0, 0, -100, -100]);
     expect(p.dipDeg).toBeCloseTo(45, 2);
     expect(circularDiff(p.dipDirectionDeg, 0)).toBeLessThan(0.01);
     expect(circularDiff(p.strikeDeg, 270)).toBeLessThan(0.01);
   });
-  // §10 row 11 (common practice: collinear points leave the plane undetermined)
+  // docs/check-values.md G7 (common practice, no source: collinear points leave the plane undetermined)
   it("refuses collinear and coincident points", () => {
     expect(() => fitPlane([0, 1, 2, 3], [0, 1, 2, 3], [0, -1, -2, -3])).toThrow(DegeneratePlaneError);
     expect(() => fitPlane([5, 5, 5], [1, 1, 1], [0, 0, 0])).toThrow(DegeneratePlaneError);
@@ -73,7 +73,7 @@ describe("best-fit plane", () => {
 });
 
 describe("fault-plane coordinates", () => {
-  // reference sheet §10 row 12: strike 000, dip 60 E, p = (100, 200, −300) → u = 200, v = 309.808, w = −63.397
+  // docs/check-values.md G8 (derived): strike 000, dip 60 E, p = (100, 200, −300) → s = 200, t = 309.808, w = −63.397
   it("projects a point to along-strike, down-dip and normal coordinates", () => {
     const sv = strikeVectorOf(0);
     const dv = dipVectorOf(90, 60);

@@ -13,7 +13,7 @@ describe("pick quality as weights", () => {
     expect(weightsMatter([1, 0.99])).toBe(true);
   });
 
-  it("the weighted plane: weight 0 drops a point, weight ½ equals counting the others twice (exact identities of least squares)", () => {
+  it("the weighted plane: weight 0 drops a point, weight ½ equals counting the others twice (docs/check-values.md G9)", () => {
     // eight points near a plane dipping 40° east, and one wild point
     const x = [0, 100, 200, 0, 100, 200, 50, 150, 100];
     const y = [0, 0, 0, 100, 100, 100, 50, 50, 60];

@@ -75,7 +75,7 @@ function relayAB(b: Builder) {
   return { relay: relays[0], report };
 }
 
-describe("relay linkage from mapped evidence (stages after Peacock & Sanderson 1994)", () => {
+describe("relay linkage from mapped evidence (docs/check-values.md R4: stages after Peacock & Sanderson 1994)", () => {
   it("an intact relay with a smooth summed profile and no connecting structure is soft-linked", () => {
     const b = builder();
     segmentA(b);

@@ -44,7 +44,7 @@ describe("the off-plane distance grid", () => {
 });
 
 describe("smoothing and local plane fits of a grid with holes", () => {
-  it("match scipy (ndimage.gaussian_filter normalised convolution; numpy weighted least squares) to 1e-9", () => {
+  it("match scipy (ndimage.gaussian_filter normalised convolution; numpy weighted least squares) to 1e-9 (docs/check-values.md I3, I4)", () => {
     const rand = mulberry32(3);
     const { spec, field } = holedField((s, t) => 0.002 * (s - 120) ** 2 - 0.3 * t + 5 * Math.sin(s / 40) + 3 * rand());
     const lengthM = 30; // 3 cells, so scipy's truncate = 3 gives the same 9-cell radius
@@ -69,7 +69,7 @@ describe("smoothing and local plane fits of a grid with holes", () => {
     }
   });
 
-  it("a quadratic surface keeps its exact slopes under the degree-2 fit, edges included; a local plane bends them on the edges (by hand)", () => {
+  it("a quadratic surface keeps its exact slopes under the degree-2 fit, edges included; a local plane bends them on the edges (docs/check-values.md I5)", () => {
     const { spec, field } = holedField((s, t) => 0.001 * (s - 100) ** 2 + 0.0005 * s * t - 0.002 * t * t);
     const quadratic = localPolynomialFit(field, spec, 40, 2);
     const plane = localPolynomialFit(field, spec, 40, 1);
@@ -120,7 +120,7 @@ describe("smoothing and local plane fits of a grid with holes", () => {
     expect(scatter[30 * 60 + 30]).toBeCloseTo((Math.atan(0.2 / Math.SQRT2) * 180) / Math.PI, 1);
   });
 
-  it("effective pick count of one pick per node is 4πL²/cell² inside a large grid (Kish 1965; Gaussian integrals by hand)", () => {
+  it("effective pick count of one pick per node is 4πL²/cell² inside a large grid (docs/check-values.md I6; Kish 1965)", () => {
     const s: number[] = [], t: number[] = [];
     for (let j = 0; j < 80; j++) for (let i = 0; i < 80; i++) { s.push(i * 5); t.push(j * 5); }
     const spec = { s0: 0, t0: 0, cellM: 5, columns: 80, rows: 80 };

@@ -19,7 +19,7 @@ import { planeNormal } from "@/lib/stress/tensor";
 
 const RAD = Math.PI / 180;
 
-// The worked example plane (strike 000, dip 60° E; see docs/check-values.md, stress on a plane) built from two
+// The worked example plane (strike 000, dip 60° E; docs/check-values.md M1–M4) built from two
 // triangles centred at 2.5 km depth, so each triangle must reproduce σn = 41.250, τ = 10.825 MPa, Ts′ 0.6662, Td 0.750.
 function examplePlane(): { x: Float64Array; y: Float64Array; z: Float64Array; triangles: Uint32Array } {
   const dip = Math.PI / 3;
@@ -48,7 +48,7 @@ function singleElement(strikeDeg: number, dipDeg: number, depthM: number, uncert
 }
 
 describe("screen of a triangulated surface", () => {
-  it("each raw triangle of the worked-example plane gives its numbers (docs/check-values.md: stress on a plane, derived)", () => {
+  it("each raw triangle of the worked-example plane gives its numbers (docs/check-values.md M1–M4, derived)", () => {
     const plane = examplePlane();
     const screen = screenElements(rawTriangleElements(plane), exampleParameters);
     expect(screen.count).toBe(2);
@@ -68,7 +68,7 @@ describe("screen of a triangulated surface", () => {
     }
   });
 
-  it("both friction ends are computed and the smaller ΔP taken: with 2 MPa cohesion, plane 220/89 at 2.5 km gives 12.61 MPa at μ 0.6 and 11.96 MPa at μ 0.8, so μ 0.8 is critical (derived by hand from the Coulomb criterion)", () => {
+  it("both friction ends are computed and the smaller ΔP taken: with 2 MPa cohesion, plane 220/89 at 2.5 km gives 12.61 MPa at μ 0.6 and 11.96 MPa at μ 0.8, so μ 0.8 is critical (docs/check-values.md M9, derived from the Coulomb criterion)", () => {
     // normal preset (Sv 24, SHmax 18, Shmin 14, Pp 10 MPa/km), SHmax at 040: τ = 0.44 MPa < C, so (τ − C)/μ is negative
     // and grows in size as μ falls: the lower μ is the less critical end here
     const parameters: StressParameters = { ...applyPreset(DEFAULT_STRESS_PARAMETERS, "normal"), maxHorizontalAzimuthDeg: 40, cohesionMPa: 2, frictionLow: 0.6, frictionHigh: 0.8 };
@@ -192,7 +192,7 @@ describe("screen of a triangulated surface", () => {
 // depth, normal-faulting preset with SHmax along strike (σ3 across it), μ 0.6–0.8, no cohesion. The surface is built
 // here by integrating a dip profile down dip in 1 m steps, independently of the code under test; "jitter" is Gaussian
 // noise of that standard deviation added to each pick's z. The truth comes from the same profile, evaluated with the
-// plane formulas checked above (docs/check-values.md, stress on a plane).
+// plane formulas checked above (docs/check-values.md M1–M4); the cases are M10 and M11 there.
 
 const STRIKE_DEG = 30;
 const TOP_DEPTH_M = 2200;

@@ -21,17 +21,17 @@ import {
   tensorFromPrincipal,
 } from "@/lib/stress/tensor";
 
-// The worked example of the domain reference §7.3 / §10 rows 45–53 (derived there with numpy):
+// The worked state of docs/check-values.md M1–M8 (derived with numpy):
 // σ1 = Sv = 60 MPa, SHmax = 45 MPa at azimuth 000, Shmin = 35 MPa at 090, Pp = 25 MPa.
 const example = { verticalMPa: 60, maxHorizontalMPa: 45, minHorizontalMPa: 35, porePressureMPa: 25 };
 const exampleTensor = stressTensorENU(example, 0);
 
-describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () => {
-  it("builds the ENU tensor diag(35, 45, 60) for SHmax at 000 (§7.3)", () => {
+describe("Cauchy traction on a plane (docs/check-values.md M1–M8, derived)", () => {
+  it("builds the ENU tensor diag(35, 45, 60) for SHmax at 000 (docs/check-values.md, the worked state)", () => {
     expect(Array.from(exampleTensor)).toEqual([35, 0, 0, 0, 45, 0, 0, 0, 60]);
   });
 
-  it("strike 000 dip 60 E: n, t, σn = 41.250, τ = 10.825 MPa (§10 row 45)", () => {
+  it("strike 000 dip 60 E: n, t, σn = 41.250, τ = 10.825 MPa (M1)", () => {
     const n = planeNormal(0, 60);
     expect(n[0]).toBeCloseTo(0.866, 3);
     expect(n[1]).toBeCloseTo(0, 12);
@@ -43,25 +43,25 @@ describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () =>
     expect(Math.abs(shearMPa - 10.825)).toBeLessThan(1e-3);
   });
 
-  it("hanging-wall slip −τ_vec/τ = (0.5, 0, −0.866): down-dip, normal sense (§10 row 50)", () => {
+  it("hanging-wall slip −τ_vec/τ = (0.5, 0, −0.866): down-dip, normal sense (M5)", () => {
     const { shearVector, shearMPa } = stressOnPlane(exampleTensor, planeNormal(0, 60));
     expect(-shearVector[0] / shearMPa).toBeCloseTo(0.5, 3);
     expect(-shearVector[1] / shearMPa).toBeCloseTo(0, 3);
     expect(-shearVector[2] / shearMPa).toBeCloseTo(-0.866, 3);
   });
 
-  it("Ts = 0.2624 total and 0.6662 effective (Morris et al. 1996; §10 row 46)", () => {
+  it("Ts = 0.2624 total and 0.6662 effective (Morris et al. 1996; M2)", () => {
     const { normalMPa, shearMPa } = stressOnPlane(exampleTensor, planeNormal(0, 60));
     expect(Math.abs(shearMPa / normalMPa - 0.2624)).toBeLessThan(1e-4);
     expect(Math.abs(slipTendency(shearMPa, normalMPa - 25) - 0.6662)).toBeLessThan(1e-4);
   });
 
-  it("Td = 0.750 (Ferrill et al. 1999; §10 row 47)", () => {
+  it("Td = 0.750 (Ferrill et al. 1999; M3)", () => {
     const { normalMPa } = stressOnPlane(exampleTensor, planeNormal(0, 60));
     expect(Math.abs(dilationTendency(normalMPa, 60, 35) - 0.75)).toBeLessThan(1e-4);
   });
 
-  it("CFF +1.075 / −0.550 MPa at μ 0.6 / 0.7 and ΔP −1.79 / +0.785 MPa (Coulomb, common practice; §10 rows 48–49)", () => {
+  it("CFF +1.075 / −0.550 MPa at μ 0.6 / 0.7 and ΔP −1.79 / +0.785 MPa (Coulomb, common practice; M4)", () => {
     const { normalMPa, shearMPa } = stressOnPlane(exampleTensor, planeNormal(0, 60));
     const effective = normalMPa - 25;
     expect(Math.abs(coulombFailureFunction(shearMPa, effective, 0.6, 0) - 1.075)).toBeLessThan(1e-3);
@@ -70,7 +70,7 @@ describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () =>
     expect(pressureToFailure(shearMPa, effective, 0.6, 0)).toBeCloseTo(-1.79, 2);
   });
 
-  it("vertical N–S plane (n ∥ σ3): τ = 0, Ts = 0, Td = 1 (§10 row 51)", () => {
+  it("vertical N–S plane (n ∥ σ3): τ = 0, Ts = 0, Td = 1 (M6)", () => {
     const { normalMPa, shearMPa } = stressOnPlane(exampleTensor, [1, 0, 0]);
     expect(normalMPa).toBeCloseTo(35, 9);
     expect(shearMPa).toBeLessThan(1e-9);
@@ -78,7 +78,7 @@ describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () =>
     expect(Math.abs(dilationTendency(normalMPa, 60, 35) - 1)).toBeLessThan(1e-9);
   });
 
-  it("strike 045 dip 60 SE: σn = 45.000, τ = 9.682, Ts′ = 0.4841, Td = 0.600 (§10 row 52)", () => {
+  it("strike 045 dip 60 SE: σn = 45.000, τ = 9.682, Ts′ = 0.4841, Td = 0.600 (M7)", () => {
     const { normalMPa, shearMPa } = stressOnPlane(exampleTensor, planeNormal(45, 60));
     expect(Math.abs(normalMPa - 45)).toBeLessThan(1e-3);
     expect(Math.abs(shearMPa - 9.682)).toBeLessThan(1e-3);
@@ -86,7 +86,7 @@ describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () =>
     expect(Math.abs(dilationTendency(normalMPa, 60, 35) - 0.6)).toBeLessThan(1e-3);
   });
 
-  it("Ts_max′ = 0.66815 analytically and on a grid of planes near dip 62° (§10 row 53)", () => {
+  it("Ts_max′ = 0.66815 analytically and on a grid of planes near dip 62° (M8)", () => {
     expect(Math.abs(maxSlipTendency(35, 10) - 0.66815)).toBeLessThan(1e-3);
     let best = 0, bestDip = 0;
     for (let dip = 0; dip <= 90; dip += 0.1) {
@@ -98,7 +98,7 @@ describe("Cauchy traction on a plane (domain reference §7.1–7.3, [D])", () =>
     expect(Math.abs(bestDip - 62)).toBeLessThan(1);
   });
 
-  it("the normal preset at 2.5 km reproduces the worked example's stresses (§7.3)", () => {
+  it("the normal preset at 2.5 km reproduces the worked example's stresses (docs/check-values.md, the worked state)", () => {
     const s = stressesAtDepth(REGIME_PRESETS.normal, 2500);
     expect(s.verticalMPa).toBeCloseTo(60, 9);
     expect(s.maxHorizontalMPa).toBeCloseTo(45, 9);
@@ -142,7 +142,7 @@ describe("regime presets follow Andersonian ordering (Anderson 1951, from memory
   });
 });
 
-// invariants (common practice, no source: they follow from the definitions in §7.1–7.2)
+// invariants (common practice, no source: they follow from the definitions behind docs/check-values.md M1–M3)
 const unit = fc
   .tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }))
   .filter(([a, b, c]) => Math.hypot(a, b, c) > 1e-3)

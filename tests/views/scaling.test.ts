@@ -16,7 +16,7 @@ function mulberry32(seed: number) {
 }
 
 describe("D–L power-law fits", () => {
-  it("recovers an exact power law D = 0.02 L^1.2 (domain reference check 26, derived)", () => {
+  it("recovers an exact power law D = 0.02 L^1.2 (docs/check-values.md S2, derived)", () => {
     const L = [10, 100, 1000, 10000];
     const fit = fitPowerLaw(L, L.map((l) => 0.02 * l ** 1.2))!;
     expect(fit.ols.n).toBeCloseTo(1.2, 9);
@@ -25,7 +25,7 @@ describe("D–L power-law fits", () => {
     expect(fit.r).toBeCloseTo(1, 12);
   });
 
-  it("matches the worked OLS and RMA values of the reference sheet (checks 27–28, derived with numpy/scipy)", () => {
+  it("matches the worked OLS and RMA values (docs/check-values.md S3, derived with numpy)", () => {
     const fit = fitPowerLaw([100, 300, 1000, 3000, 10000], [2, 5, 30, 60, 400])!;
     expect(fit.r).toBeCloseTo(0.99263, 4);
     expect(fit.ols.n).toBeCloseTo(1.13839, 4);
@@ -39,13 +39,13 @@ describe("D–L power-law fits", () => {
     expect(fitPowerLaw([100, 200, -5], [1, 2, 3])).toBeNull();
   });
 
-  it("Student t quantiles match tabulated values (Student 1908 tables as reprinted in any statistics text; from memory)", () => {
+  it("Student t quantiles match tabulated values (docs/check-values.md S6: Student 1908 tables as reprinted in statistics texts; from memory)", () => {
     expect(studentTQuantile(0.975, 1)).toBeCloseTo(12.7062, 3);
     expect(studentTQuantile(0.975, 3)).toBeCloseTo(3.1824, 3);
     expect(studentTQuantile(0.975, 30)).toBeCloseTo(2.0423, 3);
   });
 
-  // The small-N case of the issue: N = 4 pairs with r = 0.32 and s_y/s_x = 0.9 in log space (built exactly below).
+  // docs/check-values.md S4, the small-N case: N = 4 pairs with r = 0.32 and s_y/s_x = 0.9 in log space (built exactly below).
   // Warton et al. (2006) give b·(√(B+1) ∓ √B), B = (1 − r²)·F/(N − 2); with F(0.95; 1, 2) = 18.513 from printed
   // F tables: B = 8.309, so 0.9 × 0.1685 = 0.152 to 0.9 × 5.933 = 5.34. The old symmetric t interval on an OLS-style
   // standard error gave −1.69…3.49, negative slopes included.
@@ -108,7 +108,7 @@ describe("D–L power-law fits", () => {
     });
   });
 
-  it("at N = 5 the RMA interval misses the true slope 2.5 % of the time on each side (4000 bivariate normal samples; exact under normality, Warton et al. 2006)", () => {
+  it("at N = 5 the RMA interval misses the true slope 2.5 % of the time on each side (docs/check-values.md S5: 4000 bivariate normal samples; exact under normality, Warton et al. 2006)", () => {
     const rand = mulberry32(2024);
     const normal = () => Math.sqrt(-2 * Math.log(Math.max(rand(), 1e-12))) * Math.cos(2 * Math.PI * rand());
     // x ~ N(0, 1), y = 0.8·(ρ x + √(1 − ρ²) e): the population's standardised major axis slope is σy/σx = 0.8
@@ -134,7 +134,7 @@ describe("D–L power-law fits", () => {
     }
   });
 
-  it("draws constant-ratio lines exactly: D = 0.03 L gives 30 m at 1 km (Schlische et al. 1996, check 29)", () => {
+  it("draws constant-ratio lines exactly: D = 0.03 L gives 30 m at 1 km (Schlische et al. 1996; docs/check-values.md S7)", () => {
     const line = powerLawLine(0.03, 1, 100, 10000, 3);
     expect(line[1].lengthM).toBeCloseTo(1000, 9);
     expect(line[1].dMaxM).toBeCloseTo(30, 9);

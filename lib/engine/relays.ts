@@ -270,6 +270,9 @@ function findConnection(
       }
     }
   }
+  // when no pick lies over the other's mapped surface (e.g. the mapped parts do not overlap), the gap between the two
+  // segments' nearest picks says how far apart they stay
+  if (!Number.isFinite(closest)) closest = nearestPickDistanceM(bySegment.get(a.id) ?? [], bySegment.get(b.id) ?? [], picks, Math.max(separationM, touchM, 1));
   if (closest <= touchM) {
     return {
       kind: "merged", via: null, pickCount: 0, throwRangeM: null, closestApproachM: closest,
@@ -324,8 +327,34 @@ function findConnection(
     : "";
   return {
     kind: "none", via: null, pickCount: 0, throwRangeM: null, closestApproachM: closest,
-    note: `No picks or segment connect the relay ramp; the segments stay ${Number.isFinite(closest) ? `at least ${closest.toFixed(0)} m` : "well"} apart.${partial}`,
+    note: `No picks or segment connect the relay ramp; the segments stay ${Number.isFinite(closest) ? `at least ${closest.toFixed(0)} m` : `more than ${(3 * Math.max(separationM, touchM, 1)).toFixed(0)} m`} apart.${partial}`,
   };
 }
 
 const capitalise = (text: string) => `${text.charAt(0).toUpperCase()}${text.slice(1)}`;
+
+/**
+ * The smallest 3-D distance between a pick of one list and a pick of the other, looked for within `reachM` cells of a
+ * horizontal hash (each pick of `a` scans the 3 × 3 cells around it); Infinity when no pair is that close.
+ */
+function nearestPickDistanceM(a: number[], b: number[], picks: RelayPicks, reachM: number): number {
+  const cells = new Map<string, number[]>();
+  const key = (x: number, y: number) => `${Math.floor(x / reachM)},${Math.floor(y / reachM)}`;
+  for (const i of b) {
+    const k = key(picks.x[i], picks.y[i]);
+    if (!cells.has(k)) cells.set(k, []);
+    cells.get(k)!.push(i);
+  }
+  let best = Infinity;
+  for (const i of a) {
+    const cx = Math.floor(picks.x[i] / reachM), cy = Math.floor(picks.y[i] / reachM);
+    for (let dx = -1; dx <= 1; dx++) {
+      for (let dy = -1; dy <= 1; dy++) {
+        for (const j of cells.get(`${cx + dx},${cy + dy}`) ?? []) {
+          best = Math.min(best, Math.hypot(picks.x[i] - picks.x[j], picks.y[i] - picks.y[j], picks.z[i] - picks.z[j]));
+        }
+      }
+    }
+  }
+  return best;
+}

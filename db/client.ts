@@ -11,6 +11,8 @@ export interface DatabaseHandle {
   kind: "pglite" | "postgres";
   /** PGlite only: the database engine runs on its own thread (db/pglite-thread.ts) */
   threaded: boolean;
+  /** PostgreSQL only: the server's address (db/notifications.ts opens its listening connection to it) */
+  url?: string;
   close: () => Promise<void>;
 }
 
@@ -29,10 +31,10 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     const { Pool } = await import("pg");
     const { drizzle } = await import("drizzle-orm/node-postgres");
     const { migrate } = await import("drizzle-orm/node-postgres/migrator");
-    const pool = new Pool({ connectionString: options.url, max: 10 });
+    const pool = new Pool({ connectionString: options.url, max: Number(process.env.SLIPFIELD_DB_POOL ?? 10) });
     const db = drizzle(pool, { schema });
-    await migrate(db, { migrationsFolder });
-    return { db: db as unknown as Database, kind: "postgres", threaded: false, close: () => pool.end() };
+    await migrateAlone(pool, () => migrate(db, { migrationsFolder }));
+    return { db: db as unknown as Database, kind: "postgres", threaded: false, url: options.url, close: () => pool.end() };
   }
   const { drizzle } = await import("drizzle-orm/pglite");
   const { migrate } = await import("drizzle-orm/pglite/migrator");
@@ -57,6 +59,24 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
   const db = drizzle({ client: client as unknown as import("@electric-sql/pglite").PGlite, schema });
   await migrate(db, { migrationsFolder });
   return { db: db as unknown as Database, kind: "pglite", threaded, close: () => client.close() };
+}
+
+/** An arbitrary constant: the advisory lock that lets one process at a time apply migrations. */
+const MIGRATION_LOCK = 0x511f1e1d;
+
+/**
+ * Several web processes and workers may start at once against one PostgreSQL server: they apply the migrations one
+ * after the other (the others then find nothing left to do), instead of racing to create the same tables.
+ */
+async function migrateAlone(pool: import("pg").Pool, run: () => Promise<void>) {
+  const client = await pool.connect();
+  try {
+    await client.query("select pg_advisory_lock($1)", [MIGRATION_LOCK]);
+    await run();
+  } finally {
+    await client.query("select pg_advisory_unlock($1)", [MIGRATION_LOCK]).catch(() => undefined);
+    client.release();
+  }
 }
 
 const globalForDb = globalThis as unknown as { slipfieldDb?: Promise<DatabaseHandle> };

@@ -4,7 +4,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { faults, memberships, pinReplies, pins, pinVisits, users, type Pin, type PinReply } from "@/db/schema";
 import { rememberedWhileRolesStand, requireFaultRole, requireUser, type StudyAccess, type StudyAction } from "@/lib/access";
-import { latestAnalysisForFault } from "@/lib/analysis/runner";
+import { latestAnalysisForFault } from "@/lib/analysis/reports";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { appUrl } from "@/lib/mail";

@@ -77,7 +77,9 @@ export async function claimNextJob(owner: string, kinds: JobKind[]): Promise<Cla
     .orderBy(jobs.runAfter, jobs.createdAt)
     .limit(1)
     .for("update", { skipLocked: true });
-  const [row] = await db.update(jobs).set(claimColumns(owner)).where(and(inArray(jobs.id, due), eq(jobs.state, "queued"))).returning();
+  // `id = (scalar subquery)` runs the subquery once; with `id in (…)` PostgreSQL may re-run it for each row it scans
+  // and claim several jobs at once
+  const [row] = await db.update(jobs).set(claimColumns(owner)).where(and(eq(jobs.id, sql`(${due})`), eq(jobs.state, "queued"))).returning();
   return row ? claimed(row) : null;
 }
 

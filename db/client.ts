@@ -13,6 +13,8 @@ export interface DatabaseHandle {
   threaded: boolean;
   /** PostgreSQL only: the server's address (db/notifications.ts opens its listening connection to it) */
   url?: string;
+  /** Runs `task` while no other process runs one under the same `lock` (a PostgreSQL advisory lock; in-process on PGlite). */
+  exclusively<T>(lock: number, task: () => Promise<T>): Promise<T>;
   close: () => Promise<void>;
 }
 
@@ -33,8 +35,9 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     const { migrate } = await import("drizzle-orm/node-postgres/migrator");
     const pool = new Pool({ connectionString: options.url, max: Number(process.env.SLIPFIELD_DB_POOL ?? 10) });
     const db = drizzle(pool, { schema });
-    await migrateAlone(pool, () => migrate(db, { migrationsFolder }));
-    return { db: db as unknown as Database, kind: "postgres", threaded: false, url: options.url, close: () => pool.end() };
+    const exclusively = <T>(lock: number, task: () => Promise<T>) => withAdvisoryLock(pool, lock, task);
+    await exclusively(MIGRATION_LOCK, () => migrate(db, { migrationsFolder }));
+    return { db: db as unknown as Database, kind: "postgres", threaded: false, url: options.url, exclusively, close: () => pool.end() };
   }
   const { drizzle } = await import("drizzle-orm/pglite");
   const { migrate } = await import("drizzle-orm/pglite/migrator");
@@ -58,23 +61,24 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
   // drizzle's PGlite driver uses only query/exec/transaction, which the threaded client provides
   const db = drizzle({ client: client as unknown as import("@electric-sql/pglite").PGlite, schema });
   await migrate(db, { migrationsFolder });
-  return { db: db as unknown as Database, kind: "pglite", threaded, close: () => client.close() };
+  return { db: db as unknown as Database, kind: "pglite", threaded, exclusively: (_lock, task) => task(), close: () => client.close() };
 }
 
-/** An arbitrary constant: the advisory lock that lets one process at a time apply migrations. */
-const MIGRATION_LOCK = 0x511f1e1d;
-
 /**
- * Several web processes and workers may start at once against one PostgreSQL server: they apply the migrations one
- * after the other (the others then find nothing left to do), instead of racing to create the same tables.
+ * Advisory locks (arbitrary constants). Several web processes and workers may start at once against one PostgreSQL
+ * server: they apply the migrations, and seed an empty database, one after the other (the others then find nothing
+ * left to do), instead of racing to create the same tables and demo accounts.
  */
-async function migrateAlone(pool: import("pg").Pool, run: () => Promise<void>) {
+const MIGRATION_LOCK = 0x511f1e1d;
+export const SEED_LOCK = 0x511f1e1e;
+
+async function withAdvisoryLock<T>(pool: import("pg").Pool, lock: number, task: () => Promise<T>): Promise<T> {
   const client = await pool.connect();
   try {
-    await client.query("select pg_advisory_lock($1)", [MIGRATION_LOCK]);
-    await run();
+    await client.query("select pg_advisory_lock($1)", [lock]);
+    return await task();
   } finally {
-    await client.query("select pg_advisory_unlock($1)", [MIGRATION_LOCK]).catch(() => undefined);
+    await client.query("select pg_advisory_unlock($1)", [lock]).catch(() => undefined);
     client.release();
   }
 }

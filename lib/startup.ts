@@ -2,7 +2,7 @@ import "server-only";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { count } from "drizzle-orm";
-import { dataDirectory, getDatabaseHandle } from "@/db/client";
+import { dataDirectory, getDatabaseHandle, SEED_LOCK } from "@/db/client";
 import { users } from "@/db/schema";
 
 /** Open + migrate the database and seed the demo on first start. A database that cannot open stops the server with a clear message. */
@@ -10,13 +10,15 @@ export async function prepareServer() {
   const started = Date.now();
   try {
     if (!process.env.DATABASE_URL) claimDataFolder(dataDirectory());
-    const { db, kind, threaded } = await getDatabaseHandle();
-    const [{ userCount }] = await db.select({ userCount: count() }).from(users);
-    if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
-      const { seedDemo } = await import("./seed");
-      await seedDemo();
-      console.log(`slipfield: seeded the Quillon Graben demo study`);
-    }
+    const { db, kind, threaded, exclusively } = await getDatabaseHandle();
+    await exclusively(SEED_LOCK, async () => {
+      const [{ userCount }] = await db.select({ userCount: count() }).from(users);
+      if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
+        const { seedDemo } = await import("./seed");
+        await seedDemo();
+        console.log(`slipfield: seeded the Quillon Graben demo study`);
+      }
+    });
     const { queueAnalysesWithoutJobs } = await import("./analysis/runner");
     const adopted = await queueAnalysesWithoutJobs();
     if (adopted > 0) console.log(`slipfield: queued ${adopted} unfinished analyses from before the job queue`);

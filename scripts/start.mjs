@@ -50,7 +50,7 @@ function newestSourceTime() {
 }
 
 const buildId = path.join(root, ".next", "BUILD_ID");
-const workerFiles = ["analysis-worker.mjs", "database-worker.mjs"].map((file) => path.join(root, "dist", file));
+const workerFiles = ["analysis-worker.mjs", "database-worker.mjs", "job-worker.mjs"].map((file) => path.join(root, "dist", file));
 const needsBuild =
   process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !workerFiles.every(existsSync) || statSync(buildId).mtimeMs < newestSourceTime());
 if (needsBuild) {

@@ -3,7 +3,7 @@ import { createHash } from "node:crypto";
 import { and, desc, eq, max } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, pickSets, segments } from "@/db/schema";
+import { analyses, faults, pickSets, segments } from "@/db/schema";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -99,6 +99,9 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const { pickSet, analysis } = await db.transaction(async (tx) => {
+    // uploads to one fault take their version numbers one at a time (on a PostgreSQL server they arrive concurrently,
+    // through several web processes)
+    await tx.select({ id: faults.id }).from(faults).where(eq(faults.id, access.faultId)).for("update");
     const [{ latest }] = await tx.select({ latest: max(pickSets.version) }).from(pickSets).where(eq(pickSets.faultId, access.faultId));
     for (const name of parsed.picks.segmentNames) {
       await tx.insert(segments).values({ faultId: access.faultId, name }).onConflictDoNothing();

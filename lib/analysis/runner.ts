@@ -6,7 +6,7 @@ import { ENGINE_VERSION } from "@/lib/engine/pipeline";
 import { claimJobOf, enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { holdWhileRunning, LeaseLost, newWorkerId, type JobContext, type JobHandler } from "@/lib/jobs/processor";
 import type { AnalysisJob } from "./compute";
-import { ComputeAborted, computeAnalysisOffThread } from "./worker-pool";
+import { analysisTimeLimitMs, ComputeAborted, computeAnalysisOffThread } from "./worker-pool";
 
 /**
  * The analysis state machine: queued → running → done | failed, driven by the job queue (lib/jobs). Every change an
@@ -124,14 +124,26 @@ export const analysisJobHandler: JobHandler = {
 };
 
 /**
- * Runs one queued analysis here and now, to its end (the demo seed; tests). Nothing happens if a worker already
- * claimed it.
+ * Runs one queued analysis here and now, to its end (the demo seed; tests). If a worker claimed it first, waits for
+ * that worker to end it.
  */
 export async function runAnalysis(analysisId: string) {
   const owner = newWorkerId("direct");
   const job = await claimJobOf(owner, "analysis", analysisId);
-  if (!job) return;
-  await holdWhileRunning(job, owner, (signal) => runAnalysisJob({ job, owner, signal }));
+  if (job) {
+    await holdWhileRunning(job, owner, (signal) => runAnalysisJob({ job, owner, signal }));
+    return;
+  }
+  const db = await getDb();
+  const until = Date.now() + analysisTimeLimitMs() * 2;
+  while (Date.now() < until) {
+    const [live] = await db
+      .select({ id: jobs.id })
+      .from(jobs)
+      .where(and(eq(jobs.kind, "analysis"), eq(jobs.subjectId, analysisId), inArray(jobs.state, ["queued", "running"])));
+    if (!live) return;
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
 }
 
 /** Queue a fresh analysis of a pick set (idempotent in result: same picks and parameters give the same report). */

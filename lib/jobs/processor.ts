@@ -54,9 +54,17 @@ export class LeaseLost extends Error {
 const ABORT_LOST = "lease-lost";
 const ABORT_DRAIN = "drain";
 
-/** A new worker id: role, host, pid and a random tag (a restarted process never reuses one). */
+/** This process's own tag, in every worker id it makes (a restarted process, even with the same pid, has another). */
+const processTag = ((globalThis as unknown as { slipfieldProcessTag?: string }).slipfieldProcessTag ??= randomBytes(4).toString("hex"));
+
+/** A new worker id: role, host, pid, this process's tag and a random part. */
 export function newWorkerId(role: string) {
-  return `${role}-${os.hostname()}-${process.pid}-${randomBytes(3).toString("hex")}`;
+  return `${role}-${os.hostname()}-${process.pid}-${processTag}${randomBytes(2).toString("hex")}`;
+}
+
+/** A part of every worker id this process makes, and of no other process's. */
+export function thisProcessMark() {
+  return `-${process.pid}-${processTag}`;
 }
 
 /**
@@ -140,7 +148,7 @@ export class JobProcessor {
   async start() {
     const handle = await getDatabaseHandle();
     if (handle.kind === "pglite") {
-      const interrupted = await takeBackJobsOfPreviousRun((tx, jobs) => this.interrupted(tx, jobs));
+      const interrupted = await takeBackJobsOfPreviousRun(thisProcessMark(), (tx, jobs) => this.interrupted(tx, jobs));
       if (interrupted.length > 0) this.log(`queued again ${interrupted.length} job(s) the previous run left unfinished`);
     } else {
       await startListening();

@@ -192,14 +192,15 @@ export async function sweepExpiredLeases(onInterrupted: (tx: Executor, jobs: Int
 /**
  * Embedded database only: at start-up no other process can hold a job (the data folder is locked to this process),
  * so jobs left running by a killed server are queued again at once instead of waiting for their leases to run out.
+ * Jobs this process already holds (their worker ids contain `ownMark`, e.g. the demo seed's) are left alone.
  */
-export async function takeBackJobsOfPreviousRun(onInterrupted: (tx: Executor, jobs: InterruptedJob[]) => Promise<void>): Promise<InterruptedJob[]> {
+export async function takeBackJobsOfPreviousRun(ownMark: string, onInterrupted: (tx: Executor, jobs: InterruptedJob[]) => Promise<void>): Promise<InterruptedJob[]> {
   const db = await getDb();
   return db.transaction(async (tx) => {
     const rows = await tx
       .update(jobs)
       .set({ ...retryColumns("The server stopped before this job finished."), runAfter: sql`now()` })
-      .where(eq(jobs.state, "running"))
+      .where(and(eq(jobs.state, "running"), sql`strpos(${jobs.leaseOwner}, ${ownMark}) = 0`))
       .returning({ id: jobs.id, kind: jobs.kind, subjectId: jobs.subjectId, state: jobs.state, attempts: jobs.attempts });
     const interrupted = rows as InterruptedJob[];
     if (interrupted.length > 0) await onInterrupted(tx, interrupted);

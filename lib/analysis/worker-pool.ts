@@ -23,7 +23,9 @@ const PARSE_TIME_LIMIT_MS = 5 * 60_000;
 
 export class AnalysisTimeout extends Error {}
 /** The job was given up by the one who asked for it (its lease was lost, or the process is draining). */
-export class ComputeAborted extends Error {}
+export class ComputeAborted extends Error {
+  name = "ComputeAborted";
+}
 
 /** An analysis's report and display payload, computed in a worker thread; `signal` stops the thread at once. */
 export function computeAnalysisOffThread(job: AnalysisJob, onStage: (stage: string, fraction: number) => void, signal?: AbortSignal): Promise<AnalysisOutput> {

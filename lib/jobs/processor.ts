@@ -83,6 +83,8 @@ export async function holdWhileRunning<T>(job: ClaimedJob, owner: string, work: 
   let renewedAt = Date.now();
   let renewing = false;
   const heartbeat = setInterval(() => {
+    // unrenewed for most of a lease (the database is unreachable or stalled): stop before another worker may claim it
+    if (Date.now() - renewedAt > leaseMs * (5 / 6)) giveUp(ABORT_LOST);
     if (renewing) return;
     renewing = true;
     const sentAt = Date.now();
@@ -92,8 +94,7 @@ export async function holdWhileRunning<T>(job: ClaimedJob, owner: string, work: 
         else giveUp(ABORT_LOST);
       })
       .catch(() => {
-        // the database is unreachable: keep trying until the lease may have run out
-        if (Date.now() - renewedAt > leaseMs * (5 / 6)) giveUp(ABORT_LOST);
+        // the database is unreachable: the next beat tries again (and gives up once the lease may have run out)
       })
       .finally(() => (renewing = false));
   }, Math.max(500, leaseMs / 3));
@@ -231,7 +232,7 @@ export class JobProcessor {
           if (await releaseJob(tx, job.id, this.id)) await this.interrupted(tx, [{ id: job.id, kind: job.kind, subjectId: job.subjectId, state: "queued", attempts: job.attempts - 1 }]);
         });
         this.log(`${job.kind} ${job.subjectId}: given back to the queue (this process is stopping)`);
-      } else if (error instanceof LeaseLost || (error as { name?: string }).name === "ComputeAborted") {
+      } else if (error instanceof LeaseLost || (error as { name?: string }).name === "ComputeAborted" || (error as { name?: string }).name === "AbortError") {
         this.log(`${job.kind} ${job.subjectId}: stopped, ${message}`);
       } else {
         let state: "queued" | "failed" | null = null;

@@ -312,17 +312,8 @@ export class Client {
 
   /** next-auth's credentials flow: CSRF token, then the callback; success sets the session cookie. */
   async signIn(email: string, password: string) {
-    const csrf = await this.request("/api/auth/csrf");
-    const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-    const response = await this.request("/api/auth/callback/credentials", {
-      method: "POST",
-      headers: { "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ csrfToken, email, password, callbackUrl: this.base + "/studies" }).toString(),
-    });
-    await response.arrayBuffer();
-    if (![...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token"))) {
-      throw new Error(`sign-in as ${email} failed (status ${response.status}, location ${response.headers.get("location")})`);
-    }
+    const { signedIn, location } = await this.signInAttempt(email, password);
+    if (!signedIn) throw new Error(`sign-in as ${email} failed (location ${location})`);
   }
 
   /** The sign-up form as a browser without JavaScript submits it (the server action's hidden fields come from the page). */

@@ -84,7 +84,7 @@ function pipelineOnce(csv: string, options: PipelineOptions & { square: boolean 
 }
 
 function runChild(n: number, prefix: string, repeats: number) {
-  // the analysis worker's young generation (YOUNG_GENERATION_MB in lib/analysis/runner.ts = 3 × the semi-space)
+  // the analysis worker's young generation (YOUNG_GENERATION_MB in lib/analysis/worker-pool.ts = 3 × the semi-space)
   const r = spawnSync(process.execPath, [...process.execArgv, "--max-semi-space-size=32", __filename, "--size", String(n), "--out", prefix, "--repeats", String(repeats)], { encoding: "utf8", maxBuffer: 1 << 24 });
   if (r.status !== 0) throw new Error(r.stderr.trim().split("\n").at(-1) || `exit ${r.status}`);
   return JSON.parse(r.stdout);

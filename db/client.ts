@@ -11,6 +11,10 @@ export interface DatabaseHandle {
   kind: "pglite" | "postgres";
   /** PGlite only: the database engine runs on its own thread (db/pglite-thread.ts) */
   threaded: boolean;
+  /** PostgreSQL only: the server's address (db/notifications.ts opens its listening connection to it) */
+  url?: string;
+  /** Runs `task` while no other process runs one under the same `lock` (a PostgreSQL advisory lock; in-process on PGlite). */
+  exclusively<T>(lock: number, task: () => Promise<T>): Promise<T>;
   close: () => Promise<void>;
 }
 
@@ -29,10 +33,11 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     const { Pool } = await import("pg");
     const { drizzle } = await import("drizzle-orm/node-postgres");
     const { migrate } = await import("drizzle-orm/node-postgres/migrator");
-    const pool = new Pool({ connectionString: options.url, max: 10 });
+    const pool = new Pool({ connectionString: options.url, max: Number(process.env.SLIPFIELD_DB_POOL ?? 10) });
     const db = drizzle(pool, { schema });
-    await migrate(db, { migrationsFolder });
-    return { db: db as unknown as Database, kind: "postgres", threaded: false, close: () => pool.end() };
+    const exclusively = <T>(lock: number, task: () => Promise<T>) => withAdvisoryLock(pool, lock, task);
+    await exclusively(MIGRATION_LOCK, () => migrate(db, { migrationsFolder }));
+    return { db: db as unknown as Database, kind: "postgres", threaded: false, url: options.url, exclusively, close: () => pool.end() };
   }
   const { drizzle } = await import("drizzle-orm/pglite");
   const { migrate } = await import("drizzle-orm/pglite/migrator");
@@ -56,7 +61,26 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
   // drizzle's PGlite driver uses only query/exec/transaction, which the threaded client provides
   const db = drizzle({ client: client as unknown as import("@electric-sql/pglite").PGlite, schema });
   await migrate(db, { migrationsFolder });
-  return { db: db as unknown as Database, kind: "pglite", threaded, close: () => client.close() };
+  return { db: db as unknown as Database, kind: "pglite", threaded, exclusively: (_lock, task) => task(), close: () => client.close() };
+}
+
+/**
+ * Advisory locks (arbitrary constants). Several web processes and workers may start at once against one PostgreSQL
+ * server: they apply the migrations, and seed an empty database, one after the other (the others then find nothing
+ * left to do), instead of racing to create the same tables and demo accounts.
+ */
+const MIGRATION_LOCK = 0x511f1e1d;
+export const SEED_LOCK = 0x511f1e1e;
+
+async function withAdvisoryLock<T>(pool: import("pg").Pool, lock: number, task: () => Promise<T>): Promise<T> {
+  const client = await pool.connect();
+  try {
+    await client.query("select pg_advisory_lock($1)", [lock]);
+    return await task();
+  } finally {
+    await client.query("select pg_advisory_unlock($1)", [lock]).catch(() => undefined);
+    client.release();
+  }
 }
 
 const globalForDb = globalThis as unknown as { slipfieldDb?: Promise<DatabaseHandle> };

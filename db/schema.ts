@@ -363,6 +363,96 @@ export const stressStates = pgTable(
   (table) => [index("stress_states_scope_idx").on(table.studyId, table.faultId, table.version)],
 );
 
+// ---- running on several processes: the job queue, shared limits and revoked sessions ----------------------------
+
+export const jobState = pgEnum("job_state", ["queued", "running", "done", "failed"]);
+
+/**
+ * The durable job queue (lib/jobs/queue.ts): analyses and exports waiting for, or held by, a worker. A worker claims a
+ * job with `FOR UPDATE SKIP LOCKED` and holds it by a lease it renews while it works (its heartbeat); a job whose lease
+ * ran out (its worker died) is queued again after a back-off, at most `maxAttempts` times.
+ */
+export const jobs = pgTable(
+  "jobs",
+  {
+    id: id(),
+    /** "analysis" (subject: the analysis id) or "export" (subject: the export file's key) */
+    kind: text("kind").notNull(),
+    subjectId: text("subject_id").notNull(),
+    payload: jsonb("payload").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    state: jobState("state").notNull().default("queued"),
+    /** claims so far (a claim whose worker died counts) */
+    attempts: integer("attempts").notNull().default(0),
+    maxAttempts: integer("max_attempts").notNull().default(3),
+    /** not claimed before this time (the back-off after an interrupted attempt) */
+    runAfter: timestamp("run_after", { withTimezone: true }).notNull().defaultNow(),
+    /** the worker holding the job, and until when its lease runs unless renewed */
+    leaseOwner: text("lease_owner"),
+    leaseUntil: timestamp("lease_until", { withTimezone: true }),
+    heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }),
+    lastError: text("last_error"),
+    createdAt: createdAt(),
+    startedAt: timestamp("started_at", { withTimezone: true }),
+    finishedAt: timestamp("finished_at", { withTimezone: true }),
+  },
+  (table) => [
+    // one live job per subject: a second request for the same export joins the first
+    uniqueIndex("jobs_live_subject_idx").on(table.kind, table.subjectId).where(sql`${table.state} in ('queued', 'running')`),
+    index("jobs_queued_idx").on(table.kind, table.runAfter).where(sql`${table.state} = 'queued'`),
+    index("jobs_lease_idx").on(table.leaseUntil).where(sql`${table.state} = 'running'`),
+  ],
+);
+
+/** Every process that works the queue, with its heartbeat (shown by /api/health). */
+export const jobWorkers = pgTable("job_workers", {
+  id: text("id").primaryKey(),
+  /** "web" (a web process that also runs jobs, the embedded default) or "worker" (`npm run worker`) */
+  role: text("role").notNull(),
+  kinds: text("kinds").array().notNull(),
+  slots: integer("slots").notNull(),
+  running: integer("running").notNull().default(0),
+  /** "running" or "draining" (after SIGTERM: takes no new jobs) */
+  state: text("state").notNull().default("running"),
+  startedAt: timestamp("started_at", { withTimezone: true }).notNull().defaultNow(),
+  heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }).notNull().defaultNow(),
+});
+
+/** Export files made by a worker (gzip), kept for a while so that every web process can serve them. */
+export const exportFiles = pgTable(
+  "export_files",
+  {
+    /** analysis id, export kind and mode */
+    key: text("key").primaryKey(),
+    analysisId: text("analysis_id")
+      .notNull()
+      .references(() => analyses.id, { onDelete: "cascade" }),
+    contentType: text("content_type").notNull(),
+    fileName: text("file_name").notNull(),
+    body: bytea("body").notNull(),
+    createdAt: createdAt(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  },
+  (table) => [index("export_files_expiry_idx").on(table.expiresAt)],
+);
+
+/** Attempts per key inside a sliding window (lib/rate-limit.ts), shared by every process on a PostgreSQL server. */
+export const rateLimitWindows = pgTable(
+  "rate_limit_windows",
+  {
+    scope: text("scope").notNull(),
+    key: text("key").notNull(),
+    hits: timestamp("hits", { withTimezone: true }).array().notNull(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [primaryKey({ columns: [table.scope, table.key] })],
+);
+
+/** Sessions ended by signing out: refused by every process until the token would have expired anyway. */
+export const revokedSessions = pgTable("revoked_sessions", {
+  sessionId: text("session_id").primaryKey(),
+  expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+});
+
 export type User = typeof users.$inferSelect;
 export type Study = typeof studies.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
@@ -380,3 +470,5 @@ export type OutboxMessage = typeof outbox.$inferSelect;
 export type AuditEntry = typeof auditLog.$inferSelect;
 export type Notification = typeof notifications.$inferSelect;
 export type StressState = typeof stressStates.$inferSelect;
+export type Job = typeof jobs.$inferSelect;
+export type JobState = (typeof jobState.enumValues)[number];

@@ -10,7 +10,7 @@ import { appUrl, sendMail } from "@/lib/mail";
 import { createRateLimiter } from "@/lib/rate-limit";
 
 const INVITATION_DAYS = 7;
-const inviteLimiter = createRateLimiter({ limit: 30, windowMs: 60 * 60_000 });
+const inviteLimiter = createRateLimiter({ scope: "invite", limit: 30, windowMs: 60 * 60_000 });
 
 export function hashToken(token: string) {
   return createHash("sha256").update(token).digest("hex");
@@ -21,7 +21,7 @@ export function hashToken(token: string) {
  * anyone else gets an invitation e-mail with a one-time link that expires.
  */
 export async function inviteMember(access: StudyAccess, email: string, role: StudyRole) {
-  if (!inviteLimiter.attempt(access.user.id)) throw new ApiError(429, "Too many invitations in the last hour; try again later.");
+  if (!(await inviteLimiter.attempt(access.user.id))) throw new ApiError(429, "Too many invitations in the last hour; try again later.");
   const db = await getDb();
   const study = await db.query.studies.findFirst({ where: eq(studies.id, access.studyId) });
   if (!study) throw new ApiError(404, "Study not found.");

@@ -2,7 +2,7 @@ import "server-only";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { count } from "drizzle-orm";
-import { dataDirectory, getDatabaseHandle } from "@/db/client";
+import { dataDirectory, getDatabaseHandle, SEED_LOCK } from "@/db/client";
 import { users } from "@/db/schema";
 
 /** Open + migrate the database and seed the demo on first start. A database that cannot open stops the server with a clear message. */
@@ -10,17 +10,26 @@ export async function prepareServer() {
   const started = Date.now();
   try {
     if (!process.env.DATABASE_URL) claimDataFolder(dataDirectory());
-    const { db, kind, threaded } = await getDatabaseHandle();
-    const [{ userCount }] = await db.select({ userCount: count() }).from(users);
-    if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
-      const { seedDemo } = await import("./seed");
-      await seedDemo();
-      console.log(`slipfield: seeded the Quillon Graben demo study`);
-    }
-    const { resumeUnfinishedAnalyses } = await import("./analysis/runner");
-    const resumed = await resumeUnfinishedAnalyses();
-    if (resumed > 0) console.log(`slipfield: resumed ${resumed} unfinished analyses`);
+    const { db, kind, threaded, exclusively } = await getDatabaseHandle();
+    await exclusively(SEED_LOCK, async () => {
+      const [{ userCount }] = await db.select({ userCount: count() }).from(users);
+      if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
+        const { seedDemo } = await import("./seed");
+        await seedDemo();
+        console.log(`slipfield: seeded the Quillon Graben demo study`);
+      }
+    });
+    const { queueAnalysesWithoutJobs } = await import("./analysis/runner");
+    const adopted = await queueAnalysesWithoutJobs();
+    if (adopted > 0) console.log(`slipfield: queued ${adopted} unfinished analyses from before the job queue`);
+    const { startListening } = await import("@/db/notifications");
+    if (kind === "postgres" && !(await startListening())) console.warn("slipfield: not listening for changes from other processes yet (roles and sessions are read afresh until then)");
+    const { startLocalJobs } = await import("./jobs/local");
+    const processor = await startLocalJobs((line) => console.log(`slipfield jobs: ${line}`));
+    const { drainOnSignals } = await import("./shutdown");
+    drainOnSignals(processor);
     console.log(`slipfield: database ready (${kind}${threaded ? ", on its own thread" : ""}) in ${Date.now() - started} ms`);
+    console.log(processor ? `slipfield: this process runs analyses and exports (${processor.id})` : "slipfield: this process runs no analyses or exports (SLIPFIELD_ANALYSIS_WORKERS=0): `npm run worker` processes do");
   } catch (error) {
     const reason = error instanceof Error ? error.message : String(error);
     console.error(

@@ -72,7 +72,7 @@ export function hashLinkToken(token: string) {
   return createHash("sha256").update(token).digest("hex");
 }
 
-const linkLimiter = createRateLimiter({ limit: 30, windowMs: 60 * 60_000 });
+const linkLimiter = createRateLimiter({ scope: "link", limit: 30, windowMs: 60 * 60_000 });
 
 // ---- access ------------------------------------------------------------------------------------------------
 
@@ -194,7 +194,7 @@ function describeLink(link: ViewpointLink, canRevoke = false) {
 /** The token is returned once, here; only its hash is kept. */
 export async function createViewpointLink({ access, viewpoint }: ViewpointAccess, input: z.infer<typeof linkInputSchema>) {
   const viewpointId = viewpoint.id;
-  if (!linkLimiter.attempt(access.user.id)) throw new ApiError(429, "Too many links made in the last hour; try again later.");
+  if (!(await linkLimiter.attempt(access.user.id))) throw new ApiError(429, "Too many links made in the last hour; try again later.");
   const token = newLinkToken();
   const expiresAt = input.expiresInDays === null ? null : new Date(Date.now() + input.expiresInDays * 24 * 3600_000);
   const db = await getDb();

@@ -1,5 +1,6 @@
 // Bundles the two worker-thread entries: the analysis engine (dist/analysis-worker.mjs), so analyses run off the web
-// server's event loop, and the database thread (dist/database-worker.mjs), which runs PGlite.
+// server's event loop, and the database thread (dist/database-worker.mjs), which runs PGlite; and the job worker
+// process (dist/job-worker.mjs, the bundled `npm run worker`: `node dist/job-worker.mjs` from the project folder).
 import { build } from "esbuild";
 import path from "node:path";
 
@@ -13,8 +14,17 @@ const workers = [
   },
   // PGlite finds its .wasm and .data files next to its own module: load it from node_modules, not from the bundle
   { entry: "db/pglite-thread-entry.ts", outfile: "dist/database-worker.mjs", external: ["@electric-sql/pglite"] },
+  {
+    entry: "scripts/worker.ts",
+    outfile: "dist/job-worker.mjs",
+    alias: { "@": root },
+    // server-only modules are allowed here (this is a server process); pg's optional native binding is not used
+    conditions: ["react-server"],
+    external: ["@electric-sql/pglite", "pg-native"],
+    banner: { js: "import { createRequire } from 'node:module'; const require = createRequire(import.meta.url);" },
+  },
 ];
 for (const { entry, outfile, ...options } of workers) {
   await build({ entryPoints: [path.join(root, entry)], outfile: path.join(root, outfile), bundle: true, platform: "node", format: "esm", target: "node20", logLevel: "warning", ...options });
 }
-console.log(`slipfield: built ${workers.map((worker) => worker.outfile).join(" and ")}`);
+console.log(`slipfield: built ${workers.map((worker) => worker.outfile).join(", ")}`);

@@ -9,6 +9,12 @@
 //                              default); N > 0: the connections together offer N requests/s on a fixed schedule, and a
 //                              latency counts from the scheduled send time (a late answer delays nothing unmeasured)
 //   LOADTEST_SERVER_OUTPUT=1   print the server's whole output afterwards
+// Targets (several web processes on one PostgreSQL server):
+//   npm run loadtest -- URL [URL…]   (or LOADTEST_TARGETS=URL,URL) load web processes that already run, spreading the
+//                              users (and so the connections) over them in turn; their CPU is not measured
+//   LOADTEST_DATABASE_URL=postgres://…  start the web processes and job workers here on that PostgreSQL database
+//                              (emptied first!) and load them: LOADTEST_WEB_PROCESSES (1) web processes that run no
+//                              jobs, LOADTEST_WORKERS (1) job workers (the bundled `npm run worker`) for the analyses
 //   LOADTEST_KEEP_DATA=1       keep the temporary data folder afterwards (removed by default)
 //   SLIPFIELD_DIST_DIR         build folder (default .next; built first when missing, like `npm start`)
 // Prints throughput, p50/p95/p99 for reads and writes, errors (must be 0) and the check that every acknowledged
@@ -25,7 +31,11 @@ import {
   pinBody,
   ROOT,
   startServer,
+  startWorker,
   syntheticPickCsv,
+  tempDataDir,
+  type RunningServer,
+  type RunningWorker,
   viewpointBody,
   waitForAnalysis,
 } from "./hardening/server";
@@ -134,15 +144,46 @@ async function faultsOf(client: Client, studyId: string) {
   return out;
 }
 
-async function main() {
+/** What is loaded: web processes started here (embedded, or on a PostgreSQL database with job workers), or given URLs. */
+async function startTargets(): Promise<{ targets: string[]; servers: RunningServer[]; workers: RunningWorker[]; description: string }> {
+  const given = [...process.argv.slice(2), ...(process.env.LOADTEST_TARGETS ?? "").split(",")].map((url) => url.trim().replace(/\/$/, "")).filter(Boolean);
+  if (given.length > 0) return { targets: given, servers: [], workers: [], description: `${given.length} web process(es) already running (${given.join(", ")})` };
   ensureBuild(log);
+  const databaseUrl = process.env.LOADTEST_DATABASE_URL;
+  if (!databaseUrl) {
+    // analyses run as in production: one worker thread (SLIPFIELD_ANALYSIS_WORKERS, default 1), further ones queued
+    const server = await startServer();
+    return { targets: [server.url], servers: [server], workers: [], description: "one web process on the embedded database (PGlite), running the analyses itself" };
+  }
+  const webCount = Number(process.env.LOADTEST_WEB_PROCESSES ?? 1);
+  const workerCount = Number(process.env.LOADTEST_WORKERS ?? 1);
+  const { Client: PgClient } = await import("pg");
+  const pg = new PgClient({ connectionString: databaseUrl });
+  await pg.connect();
+  await pg.query("drop schema if exists public cascade; drop schema if exists drizzle cascade; create schema public;");
+  await pg.end();
+  const env = { DATABASE_URL: databaseUrl, SLIPFIELD_ANALYSIS_WORKERS: "0" };
+  // the first one migrates and seeds; the others start together
+  const servers = [await startServer({ dataDir: tempDataDir("load-web1"), env })];
+  servers.push(...(await Promise.all(Array.from({ length: webCount - 1 }, (_, index) => startServer({ dataDir: tempDataDir(`load-web${index + 2}`), env })))));
+  const workers = await Promise.all(Array.from({ length: workerCount }, () => startWorker({ DATABASE_URL: databaseUrl, SLIPFIELD_ANALYSIS_WORKERS: "1" })));
+  return {
+    targets: servers.map((server) => server.url),
+    servers,
+    workers,
+    description: `${webCount} web process(es) running no jobs and ${workerCount} job worker(s) on PostgreSQL (${new URL(databaseUrl).host})`,
+  };
+}
+
+async function main() {
   const started = Date.now();
-  // analyses run as in production: one worker thread (SLIPFIELD_ANALYSIS_WORKERS, default 1), further ones queued
-  const server = await startServer();
-  log(`server on ${server.url} (data ${server.dataDir}) ready in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  const { targets, servers, workers, description } = await startTargets();
+  log(`${description}: ${targets.join(", ")} ready in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  const serverPids = [...servers, ...workers].map((running) => running.process.pid!);
+  const output = () => [...servers, ...workers].map((running) => running.output()).join("\n");
   const shutdown = async () => {
-    await server.stop();
-    if (process.env.LOADTEST_KEEP_DATA !== "1") rmSync(server.dataDir, { recursive: true, force: true });
+    await Promise.all([...servers.map((server) => server.stop()), ...workers.map((worker) => worker.stop())]);
+    if (process.env.LOADTEST_KEEP_DATA !== "1") for (const server of servers) rmSync(server.dataDir, { recursive: true, force: true });
   };
   process.on("SIGINT", () => void shutdown().then(() => process.exit(130)));
 
@@ -150,8 +191,10 @@ async function main() {
     // ---- users -------------------------------------------------------------------------------------------------
     const actors: Actor[] = [];
     let demoStudyId = "";
-    for (const email of DEMO_ACCOUNTS) {
-      const client = new Client(server.url);
+    // each user talks to one target, in turn (behind a proxy a browser would also stay on one process or another)
+    const targetFor = (index: number) => targets[index % targets.length];
+    for (const [index, email] of DEMO_ACCOUNTS.entries()) {
+      const client = new Client(targetFor(index));
       await client.signIn(email, DEMO_PASSWORD);
       const { studies } = await jsonOf<{ studies: { id: string }[] }>(await client.request("/api/studies"));
       demoStudyId = studies[0].id;
@@ -173,7 +216,7 @@ async function main() {
     const smallCsv = readFileSync(path.join(ROOT, "public/demo/qg-4-throw-picks.csv"), "utf8");
     const runId = Date.now().toString(36);
     for (let index = 0; index < SIGNUPS; index++) {
-      const client = new Client(server.url);
+      const client = new Client(targetFor(DEMO_ACCOUNTS.length + index));
       const email = `load-${runId}-${index}@example.test`;
       await client.signUp(`Load user ${index}`, email, `load-test-pass-${index}A`);
       const { study } = await jsonOf<{ study: { id: string } }>(await client.json("/api/studies", "POST", { name: `Load study ${index}` }));
@@ -302,18 +345,19 @@ async function main() {
     const loops = Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
     await new Promise((resolve) => setTimeout(resolve, Math.max(0, windowStart - Date.now())));
     const clientCpuBefore = process.cpuUsage();
-    const serverCpuBefore = cpuSecondsOfTree(server.process.pid!);
-    const threadCpuBefore = cpuSecondsByThread(server.process.pid!);
+    const serverCpuBefore = serverPids.map(cpuSecondsOfTree);
+    const threadCpuBefore = servers.length === 1 && workers.length === 0 ? cpuSecondsByThread(serverPids[0]) : new Map<string, number>();
     const machineBefore = machineCpuTicks();
     await loops;
     const windowMs = Date.now() - windowStart;
     const clientCpu = process.cpuUsage(clientCpuBefore);
     const clientCpuSeconds = (clientCpu.user + clientCpu.system) / 1e6;
-    const serverCpuSeconds = cpuSecondsOfTree(server.process.pid!) - serverCpuBefore;
+    const serverCpuEach = serverPids.map((pid, index) => cpuSecondsOfTree(pid) - serverCpuBefore[index]);
+    const serverCpuSeconds = serverCpuEach.reduce((sum, seconds) => sum + seconds, 0);
     const machineAfter = machineCpuTicks();
     const machineTotal = machineAfter.busy + machineAfter.idle + machineAfter.steal - (machineBefore.busy + machineBefore.idle + machineBefore.steal);
     const machineShare = (kind: "busy" | "idle" | "steal") => ((100 * (machineAfter[kind] - machineBefore[kind])) / machineTotal).toFixed(0);
-    const threadCpu = [...cpuSecondsByThread(server.process.pid!)].map(([thread, seconds]) => [thread, seconds - (threadCpuBefore.get(thread) ?? 0)] as const);
+    const threadCpu = threadCpuBefore.size > 0 ? [...cpuSecondsByThread(serverPids[0])].map(([thread, seconds]) => [thread, seconds - (threadCpuBefore.get(thread) ?? 0)] as const) : [];
     const runs = await analysisRuns;
 
     // ---- every acknowledged write is stored ------------------------------------------------------------------
@@ -361,14 +405,19 @@ async function main() {
     for (const name of [...new Set(samples.map((sample) => sample.name))].sort()) describe(`· ${name}`, samples.filter((sample) => sample.name === name));
 
     console.log("");
-    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, ${process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1} analysis worker thread(s), Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(`target: ${description}`);
     const warmupReads = warmupSamples.filter((sample) => sample.kind === "read").map((sample) => sample.ms).sort((a, b) => a - b);
     if (WARMUP_SECONDS > 0) console.log(`warm-up: the same load for ${WARMUP_SECONDS} s after start-up before the window, not in the figures below (${warmupSamples.length} requests, reads p95 ${percentile(warmupReads, 95).toFixed(0)} ms)`);
     console.log(`machine load average (1 min) before the ${WARMUP_SECONDS > 0 ? "warm-up" : "window"} ${loadBefore.toFixed(1)}, after the window ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
-    console.log(`CPU during the window: server ${serverCpuSeconds.toFixed(1)} s (${((100 * serverCpuSeconds) / (windowMs / 1000)).toFixed(0)} % of one core, every thread), load generator ${clientCpuSeconds.toFixed(1)} s (${((100 * clientCpuSeconds) / (windowMs / 1000)).toFixed(0)} %)`);
+    const percentOfCore = (seconds: number) => `${((100 * seconds) / (windowMs / 1000)).toFixed(0)} %`;
+    if (serverPids.length > 0) {
+      const each = serverCpuEach.map((seconds, index) => `${index < servers.length ? `web ${index + 1}` : `worker ${index - servers.length + 1}`} ${percentOfCore(seconds)}`).join(", ");
+      console.log(`CPU during the window: servers ${serverCpuSeconds.toFixed(1)} s (${percentOfCore(serverCpuSeconds)} of one core, every thread: ${each}), load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)})`);
+    } else console.log(`CPU during the window: load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)}); the targets' CPU is not measured (they were not started here)`);
     const busiest = threadCpu.filter(([, seconds]) => seconds >= 0.5).sort((a, b) => b[1] - a[1]);
     console.log(`machine CPU during the window (both cores): ${machineShare("busy")} % busy, ${machineShare("idle")} % idle, ${machineShare("steal")} % taken by the host (steal)`);
-    console.log(`server threads: ${busiest.map(([thread, seconds]) => `${thread === `${server.process.pid} ${thread.split(" ").slice(1).join(" ")}` ? "main" : thread} ${((100 * seconds) / (windowMs / 1000)).toFixed(0)} %`).join(", ")}`);
+    if (busiest.length > 0) console.log(`server threads: ${busiest.map(([thread, seconds]) => `${thread === `${serverPids[0]} ${thread.split(" ").slice(1).join(" ")}` ? "main" : thread} ${percentOfCore(seconds)}`).join(", ")}`);
     console.log(table.join("\n"));
     console.log("");
     // where in the window the slow answers were: reads by the 5-second slice they were sent in
@@ -386,14 +435,14 @@ async function main() {
     console.log(`acknowledged writes (warm-up included): ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
     console.log(`errors: ${errors.length}`);
     for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))]) console.log(`  ${error}`);
-    if (process.env.LOADTEST_SERVER_OUTPUT === "1") console.log(`server output:\n${server.output()}`);
-    else if (errors.length > 0) console.log(`server output (last lines):\n${server.output().split("\n").slice(-40).join("\n")}`);
+    if (process.env.LOADTEST_SERVER_OUTPUT === "1") console.log(`server output:\n${output()}`);
+    else if (errors.length > 0) console.log(`server output (last lines):\n${output().split("\n").slice(-40).join("\n")}`);
     const failedAnalyses = runs.filter((run) => run.status !== "done").length;
     await shutdown();
     process.exit(errors.length === 0 && missing.length === 0 && failedAnalyses === 0 ? 0 : 1);
   } catch (error) {
     console.error(`loadtest: ${(error as Error).message}`);
-    console.error(server.output().slice(-3000));
+    console.error(output().slice(-3000));
     await shutdown();
     process.exit(1);
   }

@@ -22,6 +22,9 @@ try {
 
 function authSecret() {
   if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  if (process.env.DATABASE_URL) {
+    console.warn("slipfield: AUTH_SECRET is not set: this process signs sessions with a secret of its own data folder, so a session made here is refused by every other web process on the same database. Give all of them the same AUTH_SECRET.");
+  }
   const file = path.join(dataDir, "auth-secret");
   if (existsSync(file)) return readFileSync(file, "utf8").trim();
   const secret = randomBytes(32).toString("base64url");
@@ -50,7 +53,7 @@ function newestSourceTime() {
 }
 
 const buildId = path.join(root, ".next", "BUILD_ID");
-const workerFiles = ["analysis-worker.mjs", "database-worker.mjs"].map((file) => path.join(root, "dist", file));
+const workerFiles = ["analysis-worker.mjs", "database-worker.mjs", "job-worker.mjs"].map((file) => path.join(root, "dist", file));
 const needsBuild =
   process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !workerFiles.every(existsSync) || statSync(buildId).mtimeMs < newestSourceTime());
 if (needsBuild) {

@@ -47,6 +47,6 @@ fi
 
 echo "== browser tests (Playwright, Debian chromium)"
 NEXT_TELEMETRY_DISABLED=1 npm run build >/tmp/slipfield-build.log 2>&1 || { tail -50 /tmp/slipfield-build.log; exit 1; }
-echo "== real-process hardening tests (kill, restart, backup, start-up failures, security over HTTP)"
+echo "== real-process hardening tests (kill, restart, backup, start-up failures, security over HTTP; with TEST_DATABASE_URL also two web processes and two job workers on PostgreSQL)"
 npm run test:process
 npx playwright test

@@ -2,6 +2,7 @@
 import { AuthError } from "next-auth";
 import { z } from "zod";
 import { signIn, signOut } from "@/lib/auth";
+import { revokeCurrentSession } from "@/lib/auth/session";
 import { createUser, signInSchema } from "@/lib/auth/users";
 
 export interface AuthFormState {
@@ -45,5 +46,6 @@ export async function signUpAction(_previous: AuthFormState, formData: FormData)
 }
 
 export async function signOutAction() {
+  await revokeCurrentSession();
   await signOut({ redirectTo: "/" });
 }

@@ -3,11 +3,12 @@ import { createHash } from "node:crypto";
 import { and, desc, eq, max } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, pickSets, segments } from "@/db/schema";
+import { analyses, faults, pickSets, segments } from "@/db/schema";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
-import { parseUploadOffThread, scheduleAnalysis } from "./runner";
+import { queueAnalysisJob, scheduleAnalysis } from "./runner";
+import { parseUploadOffThread } from "./worker-pool";
 import { checkUploadSize, UploadProblem, type UploadParseOutput } from "./upload-parse";
 
 export { MAX_ROWS, MAX_UPLOAD_BYTES } from "./upload-parse";
@@ -87,7 +88,7 @@ export async function previewUpload(access: StudyAccess & { faultId: string }, f
   };
 }
 
-/** Saves the pick set, its segments and a queued analysis in one transaction, then starts the analysis. */
+/** Saves the pick set, its segments, a queued analysis and its job in one transaction, then wakes the workers. */
 export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
   const { parsed, encoded } = await parseUpload(file, options, true);
   if (parsed.rejected.length > 0 && !options.dropBadRows) {
@@ -98,6 +99,9 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const { pickSet, analysis } = await db.transaction(async (tx) => {
+    // uploads to one fault take their version numbers one at a time (on a PostgreSQL server they arrive concurrently,
+    // through several web processes)
+    await tx.select({ id: faults.id }).from(faults).where(eq(faults.id, access.faultId)).for("update");
     const [{ latest }] = await tx.select({ latest: max(pickSets.version) }).from(pickSets).where(eq(pickSets.faultId, access.faultId));
     for (const name of parsed.picks.segmentNames) {
       await tx.insert(segments).values({ faultId: access.faultId, name }).onConflictDoNothing();
@@ -120,6 +124,7 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
       })
       .returning({ id: pickSets.id, version: pickSets.version });
     const [analysis] = await tx.insert(analyses).values({ pickSetId: pickSet.id }).returning({ id: analyses.id });
+    await queueAnalysisJob(tx, analysis.id);
     return { pickSet, analysis };
   });
   await recordAudit({

@@ -1,5 +1,5 @@
 // Entry of the analysis worker thread (bundled by scripts/build-worker.mjs into dist/analysis-worker.mjs). The thread
-// is kept warm between jobs by lib/analysis/runner.ts and takes one job message at a time. The same file, started with
+// is kept warm between jobs by lib/analysis/worker-pool.ts and takes one job message at a time. The same file, started with
 // the tip-line role, is the helper thread that fits tip-line profiles while the analysis grids and contours.
 import { readlinkSync } from "node:fs";
 import os from "node:os";

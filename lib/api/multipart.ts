@@ -1,6 +1,6 @@
 import "server-only";
 import { ApiError } from "./errors";
-import { readMultipartOffThread } from "@/lib/analysis/runner";
+import { readMultipartOffThread } from "@/lib/analysis/worker-pool";
 import { NOT_A_FORM, UploadProblem } from "@/lib/analysis/upload-parse";
 import { readCapped } from "./handler";
 

@@ -1,6 +1,10 @@
 import NextAuth, { CredentialsSignin } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
+import { randomUUID } from "node:crypto";
 import { checkCredentials } from "./users";
+
+/** How long a session lasts without use (a signed-out session is refused until then, lib/auth/session.ts). */
+export const SESSION_MAX_AGE_SECONDS = 7 * 24 * 3600;
 
 class TooManyAttempts extends CredentialsSignin {
   code = "too_many_attempts";
@@ -16,7 +20,7 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
     },
   },
   secret: process.env.AUTH_SECRET,
-  session: { strategy: "jwt", maxAge: 7 * 24 * 3600 },
+  session: { strategy: "jwt", maxAge: SESSION_MAX_AGE_SECONDS },
   pages: { signIn: "/sign-in" },
   providers: [
     Credentials({
@@ -31,11 +35,16 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
   ],
   callbacks: {
     jwt({ token, user }) {
-      if (user?.id) token.uid = user.id;
+      if (user?.id) {
+        token.uid = user.id;
+        // the session's own id, so that signing out can end it on every process (lib/auth/session.ts)
+        token.sid = randomUUID();
+      }
       return token;
     },
     session({ session, token }) {
       if (typeof token.uid === "string") session.user.id = token.uid;
+      if (typeof token.sid === "string") (session as typeof session & { sessionId?: string }).sessionId = token.sid;
       return session;
     },
   },

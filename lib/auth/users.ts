@@ -49,10 +49,10 @@ export async function checkCredentials(input: unknown): Promise<CredentialCheck>
   const parsed = signInSchema.safeParse(input);
   if (!parsed.success) return { ok: false, reason: "invalid" };
   const key = parsed.data.email;
-  if (!signInLimiter.attempt(key)) return { ok: false, reason: "rate-limited" };
+  if (!(await signInLimiter.attempt(key))) return { ok: false, reason: "rate-limited" };
   const db = await getDb();
   const user = await db.query.users.findFirst({ where: eq(users.email, parsed.data.email) });
   if (!user || !(await verifyPassword(parsed.data.password, user.passwordHash))) return { ok: false, reason: "invalid" };
-  signInLimiter.reset(key);
+  await signInLimiter.reset(key);
   return { ok: true, user: { id: user.id, email: user.email, name: user.name } };
 }

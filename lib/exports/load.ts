@@ -4,7 +4,7 @@ import { getDb } from "@/db/client";
 import { analyses, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import type { PipelineResult } from "@/lib/engine/pipeline";
-import { computeGridsOffThread } from "@/lib/analysis/runner";
+import { computeGridsOffThread } from "@/lib/analysis/worker-pool";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { lruCache } from "@/lib/lru";
@@ -85,13 +85,13 @@ async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
 const recomputed = lruCache<{ picks: PickColumns; result: PipelineResult }>(2);
 
 /** Full-resolution engine grids for an analysis, recomputed from the stored picks with the analysis' own parameters. */
-export async function recomputeFullResolution(source: ExportSource): Promise<{ picks: PickColumns; result: PipelineResult }> {
+export async function recomputeFullResolution(source: ExportSource, signal?: AbortSignal): Promise<{ picks: PickColumns; result: PipelineResult }> {
   const cached = recomputed.get(source.analysis.id);
   if (cached) return cached;
   const bytes = await storedPickBytes(source);
   const parameters = source.analysis.parameters as { intervalM?: number; cellM?: number };
   // seconds of work on a large pick set: off the web server's thread, like an analysis
-  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM });
+  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM }, signal);
   const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
   return { picks, result };

@@ -4,8 +4,8 @@ import { parseWith } from "@/lib/api/errors";
 import { fileStem } from "@/lib/views/csv";
 import { faultGeoJson } from "@/lib/views/geojson";
 import { horizonThrowBins } from "@/lib/views/growth";
-import { loadExportSource, loadPicks, recomputeFullResolution, studyScalingPoints } from "./load";
-import { gridCsv, picksCsv, profilesCsv } from "./tables";
+import { computedExport } from "./jobs";
+import { loadExportSource, loadPicks, studyScalingPoints } from "./load";
 
 export const exportKindSchema = z.enum(["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json", "horizons.json"]);
 export type ExportKind = z.infer<typeof exportKindSchema>;
@@ -44,17 +44,14 @@ export async function exportResponse(faultId: string, kindParam: string, url: UR
         headers: { "content-type": "application/json", "cache-control": "private, no-store" },
       });
     }
-    case "grid.csv": {
-      const { result } = await recomputeFullResolution(source);
-      return attachment(gridCsv(result), "text/csv", `${stem}-grid.csv`);
-    }
-    case "picks.csv": {
-      const { picks, result } = await recomputeFullResolution(source);
-      return attachment(picksCsv(picks, result), "text/csv", `${stem}-picks.csv`);
-    }
+    // these recompute the full-resolution grids: a job for a worker (lib/exports/jobs.ts)
+    case "grid.csv":
+      return attachment(await computedExport(source, kind, query.mode, `${stem}-grid.csv`), "text/csv", `${stem}-grid.csv`);
+    case "picks.csv":
+      return attachment(await computedExport(source, kind, query.mode, `${stem}-picks.csv`), "text/csv", `${stem}-picks.csv`);
     case "profiles.csv": {
-      const { result } = await recomputeFullResolution(source);
-      return attachment(profilesCsv(result, query.mode), "text/csv", `${stem}-profiles-${query.mode}.csv`);
+      const fileName = `${stem}-profiles-${query.mode}.csv`;
+      return attachment(await computedExport(source, kind, query.mode, fileName), "text/csv", fileName);
     }
   }
 }

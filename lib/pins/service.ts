@@ -4,7 +4,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { faults, memberships, pinReplies, pins, pinVisits, users, type Pin, type PinReply } from "@/db/schema";
 import { rememberedWhileRolesStand, requireFaultRole, requireUser, type StudyAccess, type StudyAction } from "@/lib/access";
-import { latestAnalysisForFault } from "@/lib/analysis/runner";
+import { latestAnalysisForFault } from "@/lib/analysis/reports";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { appUrl } from "@/lib/mail";
@@ -18,7 +18,7 @@ export const EDIT_WINDOW_MINUTES = 15;
 const EDIT_WINDOW_MS = EDIT_WINDOW_MINUTES * 60_000;
 
 /** Pins and replies together, per person: generous for a review session, a stop for a runaway script. */
-const writeLimiter = createRateLimiter({ limit: 40, windowMs: 10 * 60_000 });
+const writeLimiter = createRateLimiter({ scope: "pin-write", limit: 40, windowMs: 10 * 60_000 });
 
 type FaultAccess = StudyAccess & { faultId: string };
 
@@ -72,8 +72,8 @@ async function requireReply(pinId: string, replyId: string): Promise<PinReply> {
   return reply;
 }
 
-function spendWrite(userId: string) {
-  if (!writeLimiter.attempt(userId)) throw new ApiError(429, "You have written many pins and replies in the last few minutes; wait a little and try again.");
+async function spendWrite(userId: string) {
+  if (!(await writeLimiter.attempt(userId))) throw new ApiError(429, "You have written many pins and replies in the last few minutes; wait a little and try again.");
 }
 
 function requireOwnWithinWindow(authorId: string | null, userId: string, createdAt: Date, what: "pin" | "reply") {
@@ -282,7 +282,7 @@ async function notifyMentions(access: FaultAccess, pinId: string, text: string, 
 }
 
 export async function createPin(access: FaultAccess, input: z.infer<typeof pinInputSchema>) {
-  spendWrite(access.user.id);
+  await spendWrite(access.user.id);
   const analysis = await latestAnalysisForFault(access.faultId);
   if (!analysis || analysis.status !== "done")
     throw new ApiError(409, "This fault has no finished analysis yet; pins go on the analysed surface.");
@@ -312,7 +312,7 @@ export async function createPin(access: FaultAccess, input: z.infer<typeof pinIn
 }
 
 export async function replyToPin(access: FaultAccess & { pin: Pin }, input: z.infer<typeof replyInputSchema>) {
-  spendWrite(access.user.id);
+  await spendWrite(access.user.id);
   const db = await getDb();
   const [reply] = await db.insert(pinReplies).values({ pinId: access.pin.id, authorId: access.user.id, body: input.body }).returning();
   const told = new Set<string>();

@@ -5,7 +5,7 @@ import { getDb } from "@/db/client";
 import { analyses, base64Bytes, pickSets, stressStates, users, type StressParameters } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
-import { latestAnalysisForFault } from "@/lib/analysis/runner";
+import { latestAnalysisForFault } from "@/lib/analysis/reports";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import { indicesBySegment } from "@/lib/engine/csv";
 import type { AnalysisReport } from "@/lib/engine/types";

@@ -17,7 +17,7 @@ export const DEMO_ACCOUNTS = ["owner", "interpreter", "reviewer", "viewer"].map(
 export const DIST_DIR = process.env.SLIPFIELD_DIST_DIR || ".next";
 
 export function hasBuild() {
-  return existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) && ["analysis-worker.mjs", "database-worker.mjs"].every((file) => existsSync(path.join(ROOT, "dist", file)));
+  return existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) && ["analysis-worker.mjs", "database-worker.mjs", "job-worker.mjs"].every((file) => existsSync(path.join(ROOT, "dist", file)));
 }
 
 /** Builds the app (worker + next build) when no build exists, like scripts/start.mjs does on first start. */
@@ -129,6 +129,56 @@ export async function startServer(options: { dataDir?: string; port?: number; en
   };
 }
 
+// ---- job workers (npm run worker, bundled) ---------------------------------------------------------------------
+
+export interface RunningWorker {
+  process: ChildProcess;
+  output: () => string;
+  exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+  stop: () => Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+  kill9: () => Promise<void>;
+}
+
+/** `node dist/job-worker.mjs` (the bundled `npm run worker`) against `env.DATABASE_URL`; resolves once it works the queue. */
+export async function startWorker(env: Record<string, string>): Promise<RunningWorker> {
+  const child = spawn(process.execPath, [path.join(ROOT, "dist", "job-worker.mjs")], {
+    cwd: ROOT,
+    env: { ...process.env, NODE_ENV: "production", ...env, SLIPFIELD_INLINE_ANALYSIS: "0" },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let output = "";
+  child.stdout!.on("data", (chunk) => (output += chunk));
+  child.stderr!.on("data", (chunk) => (output += chunk));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on("exit", (code, signal) => resolve({ code, signal })));
+  let ended = false;
+  void exited.then(() => (ended = true));
+  const deadline = Date.now() + 60_000;
+  while (!/running up to/.test(output)) {
+    if (ended) throw new Error(`the worker exited during start-up:\n${output}`);
+    if (Date.now() > deadline) {
+      child.kill("SIGKILL");
+      throw new Error(`the worker did not start in time:\n${output}`);
+    }
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+  return {
+    process: child,
+    output: () => output,
+    exited,
+    stop: async () => {
+      if (!ended) child.kill("SIGTERM");
+      const timer = setTimeout(() => child.kill("SIGKILL"), 30_000);
+      const result = await exited;
+      clearTimeout(timer);
+      return result;
+    },
+    kill9: async () => {
+      child.kill("SIGKILL");
+      await exited;
+    },
+  };
+}
+
 // ---- a browser-like HTTP client ----------------------------------------------------------------------------------
 
 function setCookies(response: Response): string[] {
@@ -216,8 +266,11 @@ export class Client {
     return this.request(pathname, { method, headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
   }
 
-  /** next-auth's credentials flow: CSRF token, then the callback; success sets the session cookie. */
-  async signIn(email: string, password: string) {
+  /**
+   * One sign-in attempt through next-auth's credentials flow; answers where next-auth sent the browser: the page
+   * asked for on success, or the sign-in page with `code=too_many_attempts` when the address is over its limit.
+   */
+  async signInAttempt(email: string, password: string): Promise<{ signedIn: boolean; location: string }> {
     const csrf = await this.request("/api/auth/csrf");
     const { csrfToken } = (await csrf.json()) as { csrfToken: string };
     const response = await this.request("/api/auth/callback/credentials", {
@@ -226,9 +279,41 @@ export class Client {
       body: new URLSearchParams({ csrfToken, email, password, callbackUrl: this.base + "/studies" }).toString(),
     });
     await response.arrayBuffer();
-    if (![...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token"))) {
-      throw new Error(`sign-in as ${email} failed (status ${response.status}, location ${response.headers.get("location")})`);
+    return { signedIn: [...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token")), location: response.headers.get("location") ?? "" };
+  }
+
+  /** The session cookie(s) as sent, to replay them from another client (e.g. against another web process). */
+  sessionCookies(): Map<string, string> {
+    return new Map([...this.cookies].filter(([name]) => name.includes("authjs.session-token")));
+  }
+
+  /** A client that sends the same cookies to another address (the same browser, behind a proxy, on another process). */
+  sameBrowserOn(base: string) {
+    const other = new Client(base);
+    for (const [name, value] of this.cookies) other.cookies.set(name, value);
+    return other;
+  }
+
+  /** The header's "Sign out" form as a browser without JavaScript submits it (the server action's hidden fields from the page). */
+  async signOut() {
+    const page = await (await this.request("/studies")).text();
+    const signOutForm = [...page.matchAll(/<form[^>]*>([\s\S]*?)<\/form>/g)].find((match) => match[1].includes("Sign out"));
+    if (!signOutForm) throw new Error("no sign-out form on /studies (not signed in?)");
+    const form = new FormData();
+    for (const match of signOutForm[1].matchAll(/<input[^>]*type="hidden"[^>]*>/g)) {
+      const fieldName = /name="([^"]*)"/.exec(match[0])?.[1];
+      const value = /value="([^"]*)"/.exec(match[0])?.[1] ?? "";
+      if (fieldName) form.set(fieldName.replace(/&amp;/g, "&"), value.replace(/&amp;/g, "&").replace(/&quot;/g, '"'));
     }
+    const response = await this.request("/studies", { method: "POST", body: form });
+    await response.arrayBuffer();
+    if ([...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token"))) throw new Error(`sign-out did not clear the session (status ${response.status})`);
+  }
+
+  /** next-auth's credentials flow: CSRF token, then the callback; success sets the session cookie. */
+  async signIn(email: string, password: string) {
+    const { signedIn, location } = await this.signInAttempt(email, password);
+    if (!signedIn) throw new Error(`sign-in as ${email} failed (location ${location})`);
   }
 
   /** The sign-up form as a browser without JavaScript submits it (the server action's hidden fields come from the page). */

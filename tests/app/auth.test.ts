@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { checkCredentials, createUser } from "@/lib/auth/users";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
-import { createRateLimiter } from "@/lib/rate-limit";
+import { memoryWindow } from "@/lib/rate-limit";
 import { useFreshDatabase } from "../support/database";
 
 describe("accounts and sign-in", () => {
@@ -42,7 +42,7 @@ describe("accounts and sign-in", () => {
   });
 
   it("the limiter forgets attempts outside its window", () => {
-    const limiter = createRateLimiter({ limit: 2, windowMs: 1000 });
+    const limiter = memoryWindow({ limit: 2, windowMs: 1000 });
     expect(limiter.attempt("k", 0)).toBe(true);
     expect(limiter.attempt("k", 10)).toBe(true);
     expect(limiter.attempt("k", 20)).toBe(false);

@@ -1,6 +1,6 @@
 import { requireFaultRole } from "@/lib/access";
 import { route } from "@/lib/api/handler";
-import { latestAnalysisResponseBody } from "@/lib/analysis/runner";
+import { latestAnalysisResponseBody } from "@/lib/analysis/reports";
 
 type Params = { faultId: string };
 

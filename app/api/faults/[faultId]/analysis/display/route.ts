@@ -1,7 +1,7 @@
 import { requireFaultRole } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { route } from "@/lib/api/handler";
-import { analysisDisplay } from "@/lib/analysis/runner";
+import { analysisDisplay } from "@/lib/analysis/reports";
 
 type Params = { faultId: string };
 

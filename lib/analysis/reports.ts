@@ -1,0 +1,92 @@
+import "server-only";
+import { and, desc, eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { analyses, base64Bytes, pickSets } from "@/db/schema";
+import type { AnalysisReport } from "@/lib/engine/types";
+import { lruCache } from "@/lib/lru";
+
+/**
+ * The read repository of analyses: what the fault page, pins, stress screening and exports read about a fault's
+ * analyses, with the response caching that keeps those reads cheap.
+ *
+ * A finished analysis never changes (a re-run makes a new row), so its report and display payload are kept in a small
+ * in-memory cache: the fault page polls them, and decoding a large jsonb/bytea value in PGlite costs the event loop
+ * more than the rest of the request (measured with `npm run loadtest` and a CPU profile). Keys carry the fault id, so
+ * a cached value is only ever served for the fault it belongs to.
+ */
+const finishedReports = lruCache<unknown>(64);
+/** whole response bodies of finished analyses, serialised once (re-serialising a large report costs more than the rest of a poll) */
+const finishedReportBodies = lruCache<string>(64);
+const finishedDisplays = lruCache<Uint8Array>(64);
+
+export async function latestAnalysisForFault(faultId: string, pickSetId?: string) {
+  const db = await getDb();
+  const rows = await db
+    .select({
+      id: analyses.id,
+      status: analyses.status,
+      stage: analyses.stage,
+      progress: analyses.progress,
+      errorMessage: analyses.errorMessage,
+      engineVersion: analyses.engineVersion,
+      finishedAt: analyses.finishedAt,
+      pickSetId: pickSets.id,
+      version: pickSets.version,
+      fileName: pickSets.fileName,
+      checksum: pickSets.checksum,
+      uploadedAt: pickSets.uploadedAt,
+    })
+    .from(analyses)
+    .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
+    .where(pickSetId ? and(eq(pickSets.faultId, faultId), eq(pickSets.id, pickSetId)) : eq(pickSets.faultId, faultId))
+    .orderBy(desc(pickSets.version), desc(analyses.createdAt))
+    .limit(1);
+  const row = rows[0];
+  if (!row) return null;
+  const key = `${faultId}:${row.id}`;
+  let result = row.status === "done" ? finishedReports.get(key) : undefined;
+  if (result === undefined) {
+    const [stored] = await db.select({ result: analyses.result, status: analyses.status }).from(analyses).where(eq(analyses.id, row.id));
+    result = stored?.result ?? null;
+    if (stored?.status === "done" && result !== null) finishedReports.set(key, result);
+  }
+  return { ...row, result: result as (typeof analyses.$inferSelect)["result"] };
+}
+
+/** The report without its contour rings (nine tenths of its size; the display payload carries them for drawing). */
+export function withoutContourRings(report: AnalysisReport): AnalysisReport {
+  return { ...report, segments: report.segments.map((segment) => ({ ...segment, contours: segment.contours.map(({ levelM }) => ({ levelM, rings: [] })) })) };
+}
+
+/**
+ * The JSON body of GET /api/faults/:id/analysis ({ analysis }), whole or without contour rings; serialised once per
+ * finished analysis (a finished analysis and its pick set never change). Next's route handlers drop a
+ * Content-Encoding set by the handler, so the body cannot be kept compressed as well: next compresses each response.
+ */
+export async function latestAnalysisResponseBody(faultId: string, options: { pickSetId?: string; contourRings?: boolean } = {}): Promise<string> {
+  const latest = await latestAnalysisForFault(faultId, options.pickSetId);
+  const rings = options.contourRings ?? true;
+  const shaped = (analysis: NonNullable<typeof latest>) => (rings || !analysis.result ? analysis : { ...analysis, result: withoutContourRings(analysis.result as AnalysisReport) });
+  if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest && shaped(latest) });
+  const key = `${faultId}:${latest.id}:${rings ? "whole" : "no-rings"}`;
+  let body = finishedReportBodies.get(key);
+  if (body === undefined) {
+    body = JSON.stringify({ analysis: shaped(latest) });
+    finishedReportBodies.set(key, body);
+  }
+  return body;
+}
+
+export async function analysisDisplay(faultId: string, analysisId: string) {
+  const key = `${faultId}:${analysisId}`;
+  const cached = finishedDisplays.get(key);
+  if (cached) return cached;
+  const db = await getDb();
+  const [row] = await db
+    .select({ display: base64Bytes(analyses.display), status: analyses.status })
+    .from(analyses)
+    .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
+    .where(and(eq(analyses.id, analysisId), eq(pickSets.faultId, faultId)));
+  if (row?.display && row.status === "done") finishedDisplays.set(key, row.display);
+  return row?.display ?? null;
+}

@@ -237,3 +237,31 @@ describe("property: whatever the fault, the tip lines enclose every pick (common
     );
   }, 300_000);
 });
+
+describe("calibration: the range against the spread of replicate surveys of one fault (common practice, no source)", () => {
+  // with the profile fixed, the range holds only the fit's own uncertainty (sandwich draws), which replicate surveys
+  // measure directly; with every candidate, model spread comes on top
+  it("with the profile fixed: covers the truth in about nine replicates of ten and is about as wide as the replicates scatter", () => {
+    const base = truthBattery(1, 515)[0];
+    const fault: TruthFault = { ...base, profile: "walsh-watterson", pickCount: 1200 };
+    const lengths: number[] = [];
+    const widths: number[] = [];
+    let covered = 0;
+    const replicates = 30;
+    for (let k = 0; k < replicates; k++) {
+      const { picks } = truthPicks({ ...fault, seed: 9000 + k });
+      const segment = analyzePicks(picks, { profiles: ["walsh-watterson-1987"] }).report.segments[0];
+      const { lengthM, lengthRangeM } = segment.tipLine;
+      lengths.push(lengthM);
+      widths.push(lengthRangeM[1]! - lengthRangeM[0]);
+      if (within(truthLength(fault), lengthRangeM)) covered++;
+    }
+    lengths.sort((a, b) => a - b);
+    const scatter = lengths[Math.round(0.95 * (replicates - 1))] - lengths[Math.round(0.05 * (replicates - 1))];
+    const meanWidth = widths.reduce((a, b) => a + b, 0) / replicates;
+    expect(covered / replicates).toBeGreaterThanOrEqual(0.8);
+    // the reported 5–95 % width against the replicates' own 5–95 % scatter: not narrower than it, not many times wider
+    expect(meanWidth).toBeGreaterThan(0.7 * scatter);
+    expect(meanWidth).toBeLessThan(2.5 * scatter);
+  }, 300_000);
+});

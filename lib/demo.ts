@@ -21,7 +21,7 @@ function qg1Segments(): SyntheticFaultOptions[] {
   const along = strikeUnit(strikeDeg);
   const across = strikeUnit(strikeDeg + 90);
   const shift = 2 * halfLengthM - overlapM;
-  const common = { strikeDeg, dipDeg: 58, halfLengthM, aspectRatio: 2.1, noiseM: 2, throwCutoffM: 10, pickCount: 2600, profile: "walsh-watterson-1989" as const };
+  const common = { strikeDeg, dipDeg: 58, halfLengthM, aspectRatio: 2.1, noiseM: 2, throwCutoffM: 10, pickCount: 2600, profile: "walsh-watterson-1987" as const };
   const north: [number, number, number] = [BASIN_CENTRE[0] - (shift / 2) * along[0], BASIN_CENTRE[1] - (shift / 2) * along[1], BASIN_CENTRE[2]];
   const south: [number, number, number] = [north[0] + shift * along[0] + separationM * across[0], north[1] + shift * along[1] + separationM * across[1], BASIN_CENTRE[2] - 40];
   return [

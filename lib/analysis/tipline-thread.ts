@@ -2,8 +2,9 @@
 // lib/engine/pipeline.ts). The pipeline stays synchronous: the fits are posted to the helper thread, and the wait for
 // their result blocks on a shared reply counter (Atomics.wait) and takes the reply with receiveMessageOnPort.
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from "node:worker_threads";
-import { fitTipLineModels, type ModelFit, type TipLineFitInputs } from "@/lib/engine/tipline";
-import { inlineTipLineFitter, type TipLineFitter } from "@/lib/engine/pipeline";
+import type { TipLineSummary } from "@/lib/engine/tipline";
+import type { TipLineInputs } from "@/lib/engine/tipline-inputs";
+import { fitAndSummariseTipLine, inlineTipLineFitter, type TipLineFitter } from "@/lib/engine/pipeline";
 
 export const TIPLINE_THREAD_ROLE = "tipline-fits";
 
@@ -14,8 +15,8 @@ interface HelperData {
 }
 
 /** Each request carries a number, so a reply nobody waited for (a job that failed between start and wait) is skipped. */
-type Request = { id: number; inputs: TipLineFitInputs };
-type Reply = { id: number } & ({ fits: ModelFit[] } | { error: string });
+type Request = { id: number; inputs: TipLineInputs };
+type Reply = { id: number } & ({ fits: TipLineSummary } | { error: string });
 
 /**
  * Longest waits before the fits are done in this thread instead: for a helper that never came up (its error event
@@ -80,7 +81,7 @@ export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFit
         if (broken || now > until || (Atomics.load(signal, SERVING) === 0 && now - startedWaiting > START_LIMIT_MS)) {
           broken = true;
           inThisThread++;
-          return fitTipLineModels(inputs);
+          return fitAndSummariseTipLine(inputs);
         }
         Atomics.wait(signal, REPLIED, repliesSoFar, 200);
       }
@@ -106,7 +107,7 @@ export function serveTipLineFits(data: unknown): boolean {
   helper.port.on("message", ({ id, inputs }: Request) => {
     let reply: Reply;
     try {
-      reply = { id, fits: fitTipLineModels(inputs) };
+      reply = { id, fits: fitAndSummariseTipLine(inputs) };
     } catch (error) {
       reply = { id, error: error instanceof Error ? error.message : String(error) };
     }

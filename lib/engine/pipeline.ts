@@ -6,12 +6,14 @@ import { displacementColumn } from "./displacement";
 import { triangulate } from "./triangulate";
 import { buildGrid, gridSpecFor } from "./grid";
 import { contourGrid, contourLevels, niceInterval } from "./contours";
-import { fitTipLineModels, tipLineFitInputs, tipLineFromFits, type ModelFit, type TipLineFitInputs } from "./tipline";
+import { summariseTipLine, tipLineFromFits, type TipLineSummary } from "./tipline";
+import { fitTipLine } from "./tipline-fit";
+import { tipLineInputs, type TipLineInputs } from "./tipline-inputs";
 import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
 import { analyzeRelays } from "./relays";
 import { pickWeights, pullTowardNeighbours, qualityNote, weightsMatter } from "./quality";
 
-export const ENGINE_VERSION = "1.0.0";
+export const ENGINE_VERSION = "2.0.0";
 
 export type Stage = "parse" | "plane" | "triangulate" | "grid" | "contours" | "tipline" | "metrics" | "relays" | "done";
 
@@ -20,10 +22,15 @@ export type Stage = "parse" | "plane" | "triangulate" | "grid" | "contours" | "t
  * starts them right after triangulation and waits after contouring, so a fitter that hands them to another thread
  * (lib/analysis/tipline-thread.ts) overlaps them with gridding and contouring. The results are the same either way.
  */
-export type TipLineFitter = (inputs: TipLineFitInputs) => () => ModelFit[];
+export type TipLineFitter = (inputs: TipLineInputs) => () => TipLineSummary;
+
+/** The fits and their summary: everything about the tip line that does not need every pick. */
+export function fitAndSummariseTipLine(inputs: TipLineInputs): TipLineSummary {
+  return summariseTipLine(fitTipLine(inputs));
+}
 
 /** The default: the fits run in this thread when waited for. */
-export const inlineTipLineFitter: TipLineFitter = (inputs) => () => fitTipLineModels(inputs);
+export const inlineTipLineFitter: TipLineFitter = (inputs) => () => fitAndSummariseTipLine(inputs);
 
 export interface PipelineOptions extends AnalysisOptions {
   onStage?: (stage: Stage, fraction: number) => void;
@@ -71,7 +78,13 @@ export function analyzePicks(
     const tri = triangulate(s, t);
     const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
     if (outline.length) outline.push(outline[0]);
-    const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(tipLineFitInputs(s, t, displacementM, { outline, spacingM: tri.medianEdgeM }));
+    const sinDip = Math.sin((plane.dipDeg * Math.PI) / 180);
+    const fitInputs = tipLineInputs(s, t, displacementM, tri.outline, tri.triangles, tri.medianEdgeM, {
+      cutoffM: options.throwCutoffM !== undefined && sinDip > 0 ? options.throwCutoffM / sinDip : undefined,
+      models: options.profiles,
+      ends: options.ends,
+    }, weighted ? weights : undefined);
+    const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(fitInputs);
     stage("grid", k, 0.35);
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
     const [griddedDisplacementM, griddedThrowM, griddedOffPlaneM] = weighted ? pullTowardNeighbours([displacementM, throwM, w], weights, tri.triangles) : [displacementM, throwM, w];
@@ -92,8 +105,7 @@ export function analyzePicks(
       minS = Math.min(minS, s[i]); maxS = Math.max(maxS, s[i]);
       minT = Math.min(minT, t[i]); maxT = Math.max(maxT, t[i]);
     }
-    const { gradientTips: tips, fits: _fits, ...tipLine } = tipLineFromFits(s, t, displacementM, plane, waitForFits());
-    void _fits;
+    const { tipLine, fittedDmax, gradientTips: tips } = tipLineFromFits(s, t, displacementM, plane, waitForFits());
     const aspectWarning = aspectRatioNote(tipLine.aspectRatio);
     if (aspectWarning) warnings.push(`segment "${id}": ${aspectWarning}`);
 
@@ -108,7 +120,10 @@ export function analyzePicks(
         planarityWarning: plane.planarityWarning, centroid: plane.centroid, strikeVector: plane.strikeVector,
         dipVector: plane.dipVector, normal: plane.normal,
       },
-      max: { displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2] },
+      max: {
+        displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2],
+        fittedDisplacementM: fittedDmax.displacementM, fittedDisplacementRangeM: fittedDmax.rangeM,
+      },
       mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(ps, pt, plane)) },
       tipLine,
       gradients: {
@@ -117,8 +132,8 @@ export function analyzePicks(
         tips: { strikeStartPerM: tips.strikeStartPerM, strikeEndPerM: tips.strikeEndPerM, upDipPerM: tips.upDipPerM, downDipPerM: tips.downDipPerM },
       },
       centroidOfDisplacement: displacementCentroid(grid),
-      asymmetry: { alongStrike: (s[maxIndex] - tipLine.centre.s) / half.sM, downDip: (t[maxIndex] - tipLine.centre.t) / half.tM },
-      scaling: scalingNote(griddedDisplacementM[maxIndex], tipLine.lengthM),
+      asymmetry: asymmetryOf(s[maxIndex], t[maxIndex], tipLine.polygon, half),
+      scaling: scalingNote(fittedDmax.displacementM, tipLine.lengthM),
       contourIntervalM: intervalM,
       contours: contours.map((c) => ({ levelM: c.levelM, rings: c.rings })),
     });
@@ -137,6 +152,16 @@ export function analyzePicks(
     },
     grids,
   };
+}
+
+/** Where the maximum sits between the tip line's ends: 0 in the middle, ±1 at an end (along strike, down dip). */
+function asymmetryOf(maxS: number, maxT: number, polygon: [number, number][], half: { sM: number; tM: number }): { alongStrike: number; downDip: number } {
+  let minS = Infinity, maxS2 = -Infinity, minT = Infinity, maxT2 = -Infinity;
+  for (const [ps, pt] of polygon) {
+    minS = Math.min(minS, ps); maxS2 = Math.max(maxS2, ps);
+    minT = Math.min(minT, pt); maxT2 = Math.max(maxT2, pt);
+  }
+  return { alongStrike: (maxS - (minS + maxS2) / 2) / half.sM, downDip: (maxT - (minT + maxT2) / 2) / half.tM };
 }
 
 /** Parse a pick CSV and analyse it; throws PickInputError when the input cannot be used. */

@@ -1,25 +1,11 @@
 // Synthetic fault picks from published isolated-fault models: elliptical tip line (Barnett et al. 1987) with a
 // Walsh & Watterson (1989) or elliptical-crack (Pollard & Segall 1987) profile, truncated at a throw cut-off.
 import type { PickColumns, ProfileModel } from "./types";
-import { PROFILE_FUNCTIONS } from "./profiles";
+import { profileFunction } from "./profiles";
+import { gaussian, mulberry32 } from "./optimize";
 import { dipVectorOf, strikeVectorOf } from "./plane";
 
-/** mulberry32: small, fast, seedable PRNG returning [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function gaussian(rand: () => number): number {
-  const u = Math.max(rand(), 1e-12);
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
-}
+export { mulberry32 };
 
 export interface SyntheticFaultOptions {
   seed?: number;
@@ -32,7 +18,7 @@ export interface SyntheticFaultOptions {
   aspectRatio?: number;
   /** maximum displacement (m), in the fault plane */
   dmaxM?: number;
-  profile?: Exclude<ProfileModel, "linear"> | "linear";
+  profile?: ProfileModel;
   /** standard deviation of Gaussian throw noise (m) */
   noiseM?: number;
   /** picks with throw below this are dropped, as below seismic resolution (m) */
@@ -65,8 +51,8 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumn
   const a = o.halfLengthM ?? 1500;
   const b = a / (o.aspectRatio ?? 2);
   const dmaxM = o.dmaxM ?? 80;
-  const profile = o.profile ?? "walsh-watterson-1989";
-  const f = PROFILE_FUNCTIONS[profile];
+  const profile = o.profile ?? "walsh-watterson-1987";
+  const f = profileFunction(profile);
   const noiseM = o.noiseM ?? 2;
   const cutoff = o.throwCutoffM ?? 10;
   const n = o.pickCount ?? 2000;

@@ -1,295 +1,139 @@
-import type { PlaneFit, ProfileModel, TipLine } from "./types";
-import { PROFILE_FUNCTIONS, PROFILE_LABELS, extrapolateTipLinear } from "./profiles";
+// The inferred tip line of one segment: where displacement dies to zero beyond the picks. Candidate displacement
+// profiles are fitted with the resolution cut-off as censoring (lib/engine/tipline-fit.ts, on a helper thread),
+// weighted by an information criterion, and turned here into a central tip line with an inner and an outer one from
+// the fits' uncertainty. The tip line never crosses the data, and where the data stop while displacement is still
+// high (a survey edge, a gap) that end stays open instead of getting an invented tip.
+import type { PlaneFit, ProfileModel, TipEnd, TipEndSide, TipLine, TipProfileModel } from "./types";
+import { PROFILE_CANDIDATES, PROFILE_LABELS, PUBLISHED_PROFILES, extrapolateTipLinear, modelRadius, modelTipPolygon } from "./profiles";
 import { planeToWorld } from "./project";
+import { weightedQuantiles } from "./optimize";
+import type { TipLineFits, TipModel } from "./tipline-fit";
 
 type Frame = Pick<PlaneFit, "centroid" | "strikeVector" | "dipVector" | "normal">;
 
-/** Minimise f by the Nelder–Mead simplex (standard coefficients). */
-export function nelderMead(f: (p: number[]) => number, start: number[], steps: number[], maxIterations = 600, tolerance = 1e-10): { point: number[]; value: number } {
-  const dim = start.length;
-  let simplex = [start.slice()];
-  for (let i = 0; i < dim; i++) {
-    const p = start.slice();
-    p[i] += steps[i];
-    simplex.push(p);
+/** Directions around the centre at which the tip lines are built (every 2.5°). */
+export const RAY_COUNT = 144;
+
+export const END_SIDES: TipEndSide[] = ["strike-start", "strike-end", "up-dip", "down-dip"];
+/** Direction of each end from the centre in (s, t): t grows down dip, so up dip is −t. */
+const END_ANGLE: Record<TipEndSide, number> = { "strike-start": Math.PI, "strike-end": 0, "up-dip": -Math.PI / 2, "down-dip": Math.PI / 2 };
+/** Rays within this angle of an end's direction decide whether the end is open. */
+const END_HALF_ANGLE = (20 * Math.PI) / 180;
+
+/**
+ * Distances from (cs, ct) to a model's tip line along each ray angle (ascending from −π): the tip line as a fine
+ * polygon, walked in angle order round the centre (the tip line is convex, so every ray from inside crosses it once).
+ * 0 where the centre lies outside the model's tip line.
+ */
+export function modelReachAlongRays(m: Pick<TipProfileModel, "centre" | "reach" | "exponent">, cs: number, ct: number, angles: Float64Array): Float64Array {
+  const out = new Float64Array(angles.length);
+  if (modelRadius(m, cs, ct) >= 1) return out;
+  const polygon = modelTipPolygon(m, 240);
+  const n = polygon.length - 1;
+  const ps = new Float64Array(n), pt = new Float64Array(n), pa = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    ps[k] = polygon[k][0] - cs;
+    pt[k] = polygon[k][1] - ct;
+    pa[k] = Math.atan2(pt[k], ps[k]);
   }
-  let values = simplex.map(f);
-  for (let it = 0; it < maxIterations; it++) {
-    const order = values.map((_, i) => i).sort((i, j) => values[i] - values[j]);
-    simplex = order.map((i) => simplex[i]);
-    values = order.map((i) => values[i]);
-    if (Math.abs(values[dim] - values[0]) <= tolerance * (Math.abs(values[0]) + 1e-30)) break;
-    const centroid = new Array(dim).fill(0);
-    for (let i = 0; i < dim; i++) for (let k = 0; k < dim; k++) centroid[k] += simplex[i][k] / dim;
-    const along = (c: number) => centroid.map((v, k) => v + c * (simplex[dim][k] - v));
-    const reflected = along(-1);
-    const fr = f(reflected);
-    if (fr < values[0]) {
-      const expanded = along(-2);
-      const fe = f(expanded);
-      if (fe < fr) { simplex[dim] = expanded; values[dim] = fe; } else { simplex[dim] = reflected; values[dim] = fr; }
-    } else if (fr < values[dim - 1]) {
-      simplex[dim] = reflected;
-      values[dim] = fr;
-    } else {
-      const contracted = fr < values[dim] ? along(-0.5) : along(0.5);
-      const fc = f(contracted);
-      if (fc < Math.min(fr, values[dim])) {
-        simplex[dim] = contracted;
-        values[dim] = fc;
-      } else {
-        for (let i = 1; i <= dim; i++) {
-          simplex[i] = simplex[i].map((v, k) => simplex[0][k] + 0.5 * (v - simplex[0][k]));
-          values[i] = f(simplex[i]);
-        }
+  // vertices in angle order from the smallest, unwrapped so the angles rise through one turn (and back to the first)
+  let first = 0;
+  for (let k = 1; k < n; k++) if (pa[k] < pa[first]) first = k;
+  const order = new Int32Array(n + 1);
+  const ua = new Float64Array(n + 1);
+  for (let k = 0; k <= n; k++) {
+    order[k] = (first + k) % n;
+    ua[k] = pa[order[k]];
+    if (k > 0) while (ua[k] < ua[k - 1]) ua[k] += 2 * Math.PI;
+  }
+  for (let q = 0; q < angles.length; q++) {
+    const ray = angles[q] < ua[0] ? angles[q] + 2 * Math.PI : angles[q];
+    let lo = 0, hi = n;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (ua[mid] <= ray) lo = mid;
+      else hi = mid;
+    }
+    const i0 = order[lo];
+    const i1 = order[hi];
+    const ex = Math.cos(ray), ey = Math.sin(ray);
+    const fx = ps[i1] - ps[i0], fy = pt[i1] - pt[i0];
+    const det = ex * fy - ey * fx;
+    out[q] = det !== 0 ? (ps[i0] * fy - pt[i0] * fx) / det : Math.hypot(ps[i0], pt[i0]);
+    if (!(out[q] > 0)) out[q] = Math.hypot(ps[i0], pt[i0]);
+  }
+  return out;
+}
+
+/** Where each ray from the centre leaves the data outline: distance, displacement there and whether that edge is open. */
+export function outlineExits(
+  outlineS: ArrayLike<number>,
+  outlineT: ArrayLike<number>,
+  outlineD: ArrayLike<number>,
+  outlineOpen: ArrayLike<number>,
+  cs: number,
+  ct: number,
+  angles: Float64Array,
+): { rho: Float64Array; d: Float64Array; open: Uint8Array } {
+  const k = angles.length;
+  const rho = new Float64Array(k);
+  const d = new Float64Array(k);
+  const open = new Uint8Array(k);
+  const n = outlineS.length;
+  for (let q = 0; q < k; q++) {
+    const ex = Math.cos(angles[q]);
+    const ey = Math.sin(angles[q]);
+    for (let i = 0; i < n; i++) {
+      const j = (i + 1) % n;
+      const ax = outlineS[i] - cs, ay = outlineT[i] - ct;
+      const bx = outlineS[j] - cs, by = outlineT[j] - ct;
+      // solve c + ρ·e = a + λ·(b − a) with ρ ≥ 0 and 0 ≤ λ ≤ 1
+      const fx = bx - ax, fy = by - ay;
+      const det = fx * ey - fy * ex;
+      if (det === 0) continue;
+      const lambda = (ax * ey - ay * ex) / -det;
+      if (lambda < 0 || lambda > 1) continue;
+      const r = (ax * fy - ay * fx) / -det;
+      if (r > rho[q]) {
+        rho[q] = r;
+        d[q] = outlineD[i] + lambda * (outlineD[j] - outlineD[i]);
+        open[q] = outlineOpen[i] && outlineOpen[j] ? 1 : 0;
       }
     }
   }
-  let best = 0;
-  for (let i = 1; i <= dim; i++) if (values[i] < values[best]) best = i;
-  return { point: simplex[best], value: values[best] };
+  return { rho, d, open };
 }
 
-/** log of the standard normal CDF, accurate in the far lower tail. */
-export function logNormalCdf(x: number): number {
-  // from x ≈ 8.29 up, 0.5·erfc(−x/√2) rounds to exactly 1 in double precision, so the log is exactly 0: skip the work
-  if (x >= 8.5) return 0;
-  if (x < -6) {
-    const x2 = x * x;
-    return -x2 / 2 - Math.log(-x) - 0.5 * Math.log(2 * Math.PI) + Math.log(1 - 1 / x2 + 3 / (x2 * x2));
+/** Radii of a tip line along the rays, held at least `floor` (the data plus a margin) and at the data edge where open. */
+function constrained(radii: Float64Array, floor: Float64Array, exits: { rho: Float64Array; open: Uint8Array }): Float64Array {
+  const out = new Float64Array(radii.length);
+  for (let q = 0; q < radii.length; q++) out[q] = exits.open[q] ? exits.rho[q] : Math.max(radii[q], floor[q]);
+  return out;
+}
+
+function polygonOf(cs: number, ct: number, angles: Float64Array, radii: Float64Array): [number, number][] {
+  const out: [number, number][] = [];
+  for (let q = 0; q < angles.length; q++) out.push([cs + radii[q] * Math.cos(angles[q]), ct + radii[q] * Math.sin(angles[q])]);
+  out.push([out[0][0], out[0][1]]);
+  return out;
+}
+
+function extents(polygon: [number, number][]): { lengthM: number; heightM: number; minS: number; maxS: number; minT: number; maxT: number } {
+  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+  for (const [s, t] of polygon) {
+    minS = Math.min(minS, s); maxS = Math.max(maxS, s);
+    minT = Math.min(minT, t); maxT = Math.max(maxT, t);
   }
-  return Math.log(0.5 * erfc(-x / Math.SQRT2));
+  return { lengthM: maxS - minS, heightM: maxT - minT, minS, maxS, minT, maxT };
 }
 
-/** Complementary error function (Numerical Recipes erfcc, relative error < 1.2e-7). */
-export function erfc(x: number): number {
-  const z = Math.abs(x);
-  const t = 1 / (1 + 0.5 * z);
-  const r =
-    t *
-    Math.exp(
-      -z * z - 1.26551223 + t * (1.00002368 + t * (0.37409196 + t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
-    );
-  return x >= 0 ? r : 2 - r;
-}
-
-export interface CensoringInfo {
-  /** smallest displacement that could be picked (m); picks exist only above it */
-  cutoffM: number;
-  /** places just outside the data outline where no pick was made, so displacement there is below the cut-off */
-  absentS: Float64Array;
-  absentT: Float64Array;
-}
-
-export interface ModelFit {
-  model: ProfileModel;
-  centre: { s: number; t: number };
-  semiAxes: { sM: number; tM: number };
-  dmaxM: number;
-  rmsM: number;
-  /** set when the censored likelihood was used; compare between models on the same data */
-  negLogLikelihood?: number;
-}
-
-const MAX_FIT_POINTS = 1200;
-
-/**
- * Deterministic, order-independent subsample: a pick is kept when a hash of its coordinates falls in the kept
- * fraction, so permuting the rows never changes the fit.
- */
-function subsample(s: ArrayLike<number>, t: ArrayLike<number>): Uint32Array {
-  const n = s.length;
-  if (n <= MAX_FIT_POINTS) return Uint32Array.from({ length: n }, (_, i) => i);
-  const keep = MAX_FIT_POINTS / n;
-  const buf = new Float64Array(2);
-  const words = new Uint32Array(buf.buffer);
-  const out = new Uint32Array(n);
-  let count = 0;
-  for (let i = 0; i < n; i++) {
-    buf[0] = s[i];
-    buf[1] = t[i];
-    let h = Math.imul(2166136261 ^ words[0], 16777619);
-    h = Math.imul(h ^ words[1], 16777619);
-    h = Math.imul(h ^ words[2], 16777619);
-    h = Math.imul(h ^ words[3], 16777619);
-    h ^= h >>> 15;
-    h = Math.imul(h, 2246822507);
-    h ^= h >>> 13;
-    if ((h >>> 0) / 4294967296 < keep) out[count++] = i;
-  }
-  return out.slice(0, count);
-}
-
-/** The picks the profile fits use (at most MAX_FIT_POINTS, see subsample). */
-interface FitSample {
-  ss: Float64Array;
-  tt: Float64Array;
-  dd: Float64Array;
-}
-
-function sampleForFit(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>): FitSample {
-  const ids = subsample(s, t);
-  const m = ids.length;
-  const ss = new Float64Array(m), tt = new Float64Array(m), dd = new Float64Array(m);
-  for (let k = 0; k < m; k++) {
-    ss[k] = s[ids[k]];
-    tt[k] = t[ids[k]];
-    dd[k] = d[ids[k]];
-  }
-  return { ss, tt, dd };
-}
-
-/** A least-squares fit with what a censored refinement needs to start from it without refitting. */
-interface LeastSquaresFit {
-  fit: ModelFit;
-  model: ProfileModel;
-  ss: Float64Array;
-  tt: Float64Array;
-  dd: Float64Array;
-  point: number[];
-  sse: number;
-  dmax: number;
-  maxD: number;
-}
-
-/**
- * Fit D(s, t) = Dmax · f(r), r = sqrt(((s − sc)/a)² + ((t − tc)/b)²), to the picks: an elliptical tip line with
- * axes along strike and down dip (Barnett et al. 1987). Dmax is solved in closed form for each geometry; centre
- * and semi-axes by Nelder–Mead on log axes.
- */
-function leastSquaresFit(sample: FitSample, model: ProfileModel): LeastSquaresFit {
-  const f = PROFILE_FUNCTIONS[model];
-  const { ss, tt, dd } = sample;
-  const m = ss.length;
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity, maxD = 0;
-  for (let k = 0; k < m; k++) {
-    minS = Math.min(minS, ss[k]); maxS = Math.max(maxS, ss[k]);
-    minT = Math.min(minT, tt[k]); maxT = Math.max(maxT, tt[k]);
-    maxD = Math.max(maxD, dd[k]);
-  }
-  let wSum = 0, wsS = 0, wtS = 0;
-  for (let k = 0; k < m; k++) {
-    const w = dd[k] * dd[k];
-    wSum += w; wsS += w * ss[k]; wtS += w * tt[k];
-  }
-  const sc0 = wSum > 0 ? wsS / wSum : (minS + maxS) / 2;
-  const tc0 = wSum > 0 ? wtS / wSum : (minT + maxT) / 2;
-  const a0 = Math.max(maxS - sc0, sc0 - minS, 1e-6) * 1.1;
-  const b0 = Math.max(maxT - tc0, tc0 - minT, 1e-6) * 1.1;
-  const fv = new Float64Array(m);
-  const geometry = (p: number[]) => {
-    const sc = p[0], tc = p[1];
-    const perA = 1 / Math.exp(p[2]), perB = 1 / Math.exp(p[3]);
-    let sff = 0, sdf = 0;
-    for (let k = 0; k < m; k++) {
-      const u = (ss[k] - sc) * perA, w = (tt[k] - tc) * perB;
-      const r = Math.sqrt(u * u + w * w);
-      const v = f(r);
-      fv[k] = v;
-      sff += v * v;
-      sdf += v * dd[k];
-    }
-    const dmax = sff > 0 ? Math.max(sdf / sff, 0) : maxD;
-    let sse = 0;
-    for (let k = 0; k < m; k++) sse += (dd[k] - dmax * fv[k]) ** 2;
-    return { sse, dmax };
-  };
-  const objective = (p: number[]) => geometry(p).sse;
-  let best = nelderMead(objective, [sc0, tc0, Math.log(a0), Math.log(b0)], [0.1 * a0, 0.1 * b0, 0.15, 0.15]);
-  for (let restart = 0; restart < 2; restart++) {
-    const again = nelderMead(objective, best.point, [0.05 * Math.exp(best.point[2]), 0.05 * Math.exp(best.point[3]), 0.05, 0.05]);
-    if (again.value >= best.value * (1 - 1e-9)) break;
-    best = again;
-  }
-  const { sse, dmax } = geometry(best.point);
-  return {
-    fit: {
-      model,
-      centre: { s: best.point[0], t: best.point[1] },
-      semiAxes: { sM: Math.exp(best.point[2]), tM: Math.exp(best.point[3]) },
-      dmaxM: dmax,
-      rmsM: Math.sqrt(sse / m),
-    },
-    model, ss, tt, dd, point: best.point, sse, dmax, maxD,
-  };
-}
-
-function refineProfileFit(ls: LeastSquaresFit, censoring?: CensoringInfo, noiseM?: number): ModelFit {
-  const { ss, tt, dd, model, point, sse, dmax, maxD } = ls;
-  const m = ss.length;
-  if (censoring && m >= 8) return refineCensored(ss, tt, dd, PROFILE_FUNCTIONS[model], model, [...point, Math.log(Math.max(dmax, 1e-9))], censoring, Math.max(noiseM ?? Math.sqrt(sse / m), 1e-3 * maxD, 1e-6));
-  return ls.fit;
-}
-
-/**
- * Maximum-likelihood refinement that knows picks stop at a cut-off: each pick's likelihood is a normal truncated
- * at the cut-off (removing the outward bias of keeping only picks that noise lifted above it), and places just
- * outside the data where nothing was picked count as "displacement below the cut-off" (censored observations).
- */
-function refineCensored(ss: Float64Array, tt: Float64Array, dd: Float64Array, f: (r: number) => number, model: ProfileModel, start: number[], c: CensoringInfo, sigma: number): ModelFit {
-  const m = ss.length;
-  const na = c.absentS.length;
-  // where the model is exactly zero (beyond the tip line) the censored terms are constants: computed once
-  const zeroPick = logNormalCdf((0 - c.cutoffM) / sigma);
-  const zeroPlace = logNormalCdf((c.cutoffM - 0) / sigma);
-  const { cutoffM, absentS, absentT } = c;
-  // reciprocals: multiplications in the hot loops instead of divisions
-  const perSigma = 1 / sigma;
-  const nll = (p: number[]) => {
-    const sc = p[0], tc = p[1];
-    const perA = 1 / Math.exp(p[2]), perB = 1 / Math.exp(p[3]), dmax = Math.exp(p[4]);
-    let total = 0;
-    for (let k = 0; k < m; k++) {
-      const u = (ss[k] - sc) * perA, w = (tt[k] - tc) * perB;
-      const mu = dmax * f(Math.sqrt(u * u + w * w));
-      const z = (dd[k] - mu) * perSigma;
-      total += 0.5 * z * z + (mu === 0 ? zeroPick : logNormalCdf((mu - cutoffM) * perSigma));
-    }
-    for (let k = 0; k < na; k++) {
-      const u = (absentS[k] - sc) * perA, w = (absentT[k] - tc) * perB;
-      const mu = dmax * f(Math.sqrt(u * u + w * w));
-      total -= mu === 0 ? zeroPlace : logNormalCdf((cutoffM - mu) * perSigma);
-    }
-    return total;
-  };
-  const a0 = Math.exp(start[2]), b0 = Math.exp(start[3]);
-  let best = nelderMead(nll, start, [0.03 * a0, 0.03 * b0, 0.05, 0.05, 0.05], 1500);
-  for (let restart = 0; restart < 3; restart++) {
-    const again = nelderMead(nll, best.point, [0.02 * Math.exp(best.point[2]), 0.02 * Math.exp(best.point[3]), 0.02, 0.02, 0.02], 1500);
-    if (again.value >= best.value - 1e-9 * Math.abs(best.value)) break;
-    best = again;
-  }
-  const p = best.point;
-  const a = Math.exp(p[2]), b = Math.exp(p[3]), dmax = Math.exp(p[4]);
-  let sse = 0;
-  for (let k = 0; k < m; k++) sse += (dd[k] - dmax * f(Math.hypot((ss[k] - p[0]) / a, (tt[k] - p[1]) / b))) ** 2;
-  return { model, centre: { s: p[0], t: p[1] }, semiAxes: { sM: a, tM: b }, dmaxM: dmax, rmsM: Math.sqrt(sse / m), negLogLikelihood: best.value };
-}
-
-/** Places just outside the data outline (1.5 and 3 pick spacings beyond each outline vertex, away from the centre). */
-export function absentPlaces(outline: [number, number][], centre: { s: number; t: number }, spacingM: number): { s: Float64Array; t: Float64Array } {
-  const stride = Math.max(1, Math.ceil(outline.length / 240));
-  const ps: number[] = [];
-  const pt: number[] = [];
-  for (let k = 0; k < outline.length; k += stride) {
-    const [os, ot] = outline[k];
-    const dx = os - centre.s, dy = ot - centre.t;
-    const len = Math.hypot(dx, dy);
-    if (!(len > 0)) continue;
-    for (const step of [1.5, 3]) {
-      ps.push(os + (dx / len) * step * spacingM);
-      pt.push(ot + (dy / len) * step * spacingM);
-    }
-  }
-  return { s: Float64Array.from(ps), t: Float64Array.from(pt) };
+function ringArea(polygon: [number, number][]): number {
+  let area = 0;
+  for (let k = 0; k + 1 < polygon.length; k++) area += polygon[k][0] * polygon[k + 1][1] - polygon[k + 1][0] * polygon[k][1];
+  return Math.abs(area) / 2;
 }
 
 export interface GradientTips {
-  /** tip positions found by extrapolating near-tip gradients to zero (s or t, m) */
-  strikeStartM: number;
-  strikeEndM: number;
-  upDipM: number;
-  downDipM: number;
   /** |gradient| of displacement near each tip (m/m) */
   strikeStartPerM: number;
   strikeEndPerM: number;
@@ -298,134 +142,346 @@ export interface GradientTips {
 }
 
 /**
- * Near-tip gradient extrapolation (common practice; Barnett et al. 1987 endorse extrapolating gradients):
- * along a band through the centre, a least-squares line through the outermost quarter of picks on each side is
- * extended to zero displacement. Falls back to the outermost pick where the gradient does not point to a tip.
+ * Near-tip displacement gradients (common practice; Barnett et al. 1987 use gradients near tips): along a band
+ * through the centre, a least-squares line through the outermost quarter of picks on each side.
  */
-export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, centre: { s: number; t: number }, semiAxes: { sM: number; tM: number }): GradientTips {
-  // one pass over the picks collects the four bands (in pick order, as four separate passes would)
-  const bandT = 0.2 * semiAxes.tM;
-  const bandS = 0.2 * semiAxes.sM;
+export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, centre: { s: number; t: number }, halfSize: { sM: number; tM: number }): GradientTips {
+  const bandT = 0.2 * halfSize.tM;
+  const bandS = 0.2 * halfSize.sM;
   const sides = [0, 1, 2, 3].map(() => ({ xs: [] as number[], ds: [] as number[], far: 0 }));
   const [sStart, sEnd, tUp, tDown] = sides;
+  const add = (side: (typeof sides)[number], x: number, di: number) => {
+    if (!(x > 0)) return;
+    side.xs.push(x);
+    side.ds.push(di);
+    side.far = Math.max(side.far, x);
+  };
   for (let i = 0; i < s.length; i++) {
-    const si = s[i], ti = t[i], di = d[i];
-    if (!(Math.abs(ti - centre.t) > bandT)) {
-      const back = (si - centre.s) * -1;
-      if (!(back <= 0)) { sStart.xs.push(back); sStart.ds.push(di); sStart.far = Math.max(sStart.far, back); }
-      const ahead = (si - centre.s) * 1;
-      if (!(ahead <= 0)) { sEnd.xs.push(ahead); sEnd.ds.push(di); sEnd.far = Math.max(sEnd.far, ahead); }
+    if (!(Math.abs(t[i] - centre.t) > bandT)) {
+      add(sStart, centre.s - s[i], d[i]);
+      add(sEnd, s[i] - centre.s, d[i]);
     }
-    if (!(Math.abs(si - centre.s) > bandS)) {
-      const up = (ti - centre.t) * -1;
-      if (!(up <= 0)) { tUp.xs.push(up); tUp.ds.push(di); tUp.far = Math.max(tUp.far, up); }
-      const down = (ti - centre.t) * 1;
-      if (!(down <= 0)) { tDown.xs.push(down); tDown.ds.push(di); tDown.far = Math.max(tDown.far, down); }
+    if (!(Math.abs(s[i] - centre.s) > bandS)) {
+      add(tUp, centre.t - t[i], d[i]);
+      add(tDown, t[i] - centre.t, d[i]);
     }
   }
-  const side = ({ xs, ds, far }: { xs: number[]; ds: number[]; far: number }, c: number, sign: 1 | -1) => {
+  const gradient = ({ xs, ds, far }: (typeof sides)[number]) => {
     const nx: number[] = [];
     const nd: number[] = [];
     for (let k = 0; k < xs.length; k++) if (xs[k] >= 0.75 * far) { nx.push(xs[k]); nd.push(ds[k]); }
-    if (nx.length < 3) return { tip: c + sign * far, gradient: NaN };
-    const fit = extrapolateTipLinear(nx, nd);
-    const tip = fit.slopePerM < 0 && fit.tipM > far ? fit.tipM : far;
-    return { tip: c + sign * tip, gradient: Math.abs(fit.slopePerM) };
+    return nx.length < 3 ? NaN : Math.abs(extrapolateTipLinear(nx, nd).slopePerM);
   };
-  const ss = side(sStart, centre.s, -1);
-  const se = side(sEnd, centre.s, 1);
-  const up = side(tUp, centre.t, -1);
-  const dn = side(tDown, centre.t, 1);
-  return {
-    strikeStartM: ss.tip, strikeEndM: se.tip, upDipM: up.tip, downDipM: dn.tip,
-    strikeStartPerM: ss.gradient, strikeEndPerM: se.gradient, upDipPerM: up.gradient, downDipPerM: dn.gradient,
-  };
+  return { strikeStartPerM: gradient(sStart), strikeEndPerM: gradient(sEnd), upDipPerM: gradient(tUp), downDipPerM: gradient(tDown) };
 }
 
-export function ellipsePolygon(centre: { s: number; t: number }, semiAxes: { sM: number; tM: number }, vertices = 96): [number, number][] {
-  const out: [number, number][] = [];
-  for (let k = 0; k <= vertices; k++) {
-    const a = (2 * Math.PI * (k % vertices)) / vertices;
-    out.push([centre.s + semiAxes.sM * Math.cos(a), centre.t + semiAxes.tM * Math.sin(a)]);
+/** Angle difference folded into [0, π]. */
+function angleGap(a: number, b: number): number {
+  const d = Math.abs(((a - b) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI);
+  return Math.min(d, 2 * Math.PI - d);
+}
+
+function describeShape(model: ProfileModel, shape: number[]): string {
+  const values = PROFILE_CANDIDATES[model].describe(shape);
+  if (model === "flat-topped") return `, plateau to ${Math.round(100 * values.plateauFraction)} % of the way to the tip`;
+  if (model === "flexible") return `, p = ${values.p.toFixed(2)}, q = ${values.q.toFixed(2)}`;
+  return "";
+}
+
+/**
+ * Push a polygon's vertices out (scaling each one's distance from the centre) until every pick lies strictly inside:
+ * the tip line is where displacement reaches zero, and every pick has displacement above the cut-off.
+ */
+export function enclosePicks(radii: Float64Array, angles: Float64Array, cs: number, ct: number, s: ArrayLike<number>, t: ArrayLike<number>, marginM: (i: number) => number): Float64Array {
+  const k = angles.length;
+  const out = Float64Array.from(radii);
+  let minRadius = Infinity;
+  for (let q = 0; q < k; q++) minRadius = Math.min(minRadius, out[q]);
+  const step = (2 * Math.PI) / k;
+  const start = angles[0];
+  for (let i = 0; i < s.length; i++) {
+    const ds = s[i] - cs, dt = t[i] - ct;
+    const rho = Math.sqrt(ds * ds + dt * dt) + marginM(i);
+    // the chord between neighbouring vertices is at least cos(step/2)·min(radius) from the centre
+    if (rho < minRadius * Math.cos(step / 2) * 0.999) continue;
+    const phi = Math.atan2(dt, ds);
+    let f = (((phi - start) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI) / step;
+    const q0 = Math.floor(f) % k;
+    const q1 = (q0 + 1) % k;
+    f -= Math.floor(f);
+    // distance from the centre to the chord q0–q1 along the pick's direction
+    const a0 = angles[q0], a1 = angles[q1];
+    const x0 = out[q0] * Math.cos(a0), y0 = out[q0] * Math.sin(a0);
+    const x1 = out[q1] * Math.cos(a1), y1 = out[q1] * Math.sin(a1);
+    const ex = Math.cos(phi), ey = Math.sin(phi);
+    const fx = x1 - x0, fy = y1 - y0;
+    const det = fx * ey - fy * ex;
+    const chord = det !== 0 ? (x0 * fy - y0 * fx) / (ex * fy - ey * fx) : Math.min(out[q0], out[q1]);
+    if (chord < rho * 1.0005) {
+      const grow = (rho * 1.0005) / Math.max(chord, 1e-12);
+      out[q0] *= grow;
+      out[q1] *= grow;
+      minRadius = Math.min(minRadius, out[q0], out[q1]);
+    }
   }
   return out;
 }
 
-export const CANDIDATE_MODELS: ProfileModel[] = ["walsh-watterson-1989", "elliptical-crack"];
-
-export interface TipLineOptions {
-  /** the data outline (mapped limit) in (s, t); enables the censored fit */
-  outline?: [number, number][];
-  /** typical pick spacing (m) */
-  spacingM?: number;
-  models?: ProfileModel[];
+/**
+ * Everything about the tip line that does not need every pick, computed where the fits ran (the helper thread):
+ * the centre, the central, inner and outer radii along RAY_COUNT rays, which rays leave the data through an open
+ * edge, the ranges from the drawn models, and the words that explain the choice.
+ */
+export interface TipLineSummary {
+  centre: { s: number; t: number };
+  central: Float64Array;
+  inner: Float64Array;
+  outer: Float64Array;
+  open: Uint8Array;
+  /** the tip must stay beyond each pick by its displacement over this gradient (m/m) */
+  steepGradientPerM: number;
+  /** 5th and 95th percentiles of the drawn models' length, height and Dmax (NaN without draws) */
+  drawn: { lengthM: [number, number]; heightM: [number, number]; dmaxM: [number, number] };
+  dmaxM: number;
+  ends: TipEnd[];
+  best: TipProfileModel;
+  candidates: TipLine["candidates"];
+  modelMisfits: TipLine["modelMisfits"];
+  cutoff: TipLine["cutoff"];
+  noiseM: number;
+  selection: string;
 }
 
 /**
- * Everything the profile fits need, small and self-contained (typed arrays and numbers), so the fits can run in
- * another thread while the caller grids and contours.
+ * The tip line from the fits: centre and central line from the Akaike-weighted published profiles (model averaging,
+ * Burnham & Anderson 2002), inner and outer lines from the 5th and 95th percentiles of the models drawn from every
+ * fit's uncertainty (both the mixture of all candidates and that of the published ones), each held beyond the data
+ * and on the data edge where that edge is open.
  */
-export interface TipLineFitInputs extends FitSample {
-  models: ProfileModel[];
-  /** set when the censored fit applies: smallest displacement picked, data outline and pick spacing */
-  censoring: { cutoffM: number; outline: [number, number][]; spacingM: number } | null;
-}
-
-export function tipLineFitInputs(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, options: TipLineOptions = {}): TipLineFitInputs {
-  let censoring: TipLineFitInputs["censoring"] = null;
-  if (options.outline && options.outline.length >= 3 && options.spacingM && options.spacingM > 0 && s.length >= 8) {
-    let cutoffM = Infinity;
-    for (let i = 0; i < d.length; i++) cutoffM = Math.min(cutoffM, d[i]);
-    censoring = { cutoffM, outline: options.outline, spacingM: options.spacingM };
-  }
-  return { ...sampleForFit(s, t, d), models: options.models ?? CANDIDATE_MODELS, censoring };
-}
-
-/** Each candidate profile fitted (least squares, then the censored likelihood when it applies); the heavy part. */
-export function fitTipLineModels(inputs: TipLineFitInputs): ModelFit[] {
-  const { models, censoring } = inputs;
-  const leastSquares = models.map((m) => leastSquaresFit(inputs, m));
-  const plain = leastSquares.map((ls) => ls.fit);
-  if (!censoring) return plain;
-  const noiseM = Math.min(...plain.map((f) => f.rmsM));
-  return models.map((_model, k) => {
-    const places = absentPlaces(censoring.outline, plain[k].centre, censoring.spacingM);
-    return refineProfileFit(leastSquares[k], { cutoffM: censoring.cutoffM, absentS: places.s, absentT: places.t }, noiseM);
+export function summariseTipLine(fits: TipLineFits): TipLineSummary {
+  const { candidates, inputs } = fits;
+  const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM } = inputs;
+  // the centre and central line come from the published profiles (the flexible family only widens the range)
+  const publishedWeight = candidates.reduce((sum, c) => sum + (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight : 0), 0);
+  const centralWeights = candidates.map((c) => (publishedWeight > 0 ? (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight / publishedWeight : 0) : c.weight));
+  let cs = 0, ct = 0;
+  candidates.forEach((c, k) => {
+    cs += centralWeights[k] * c.best.centre.s;
+    ct += centralWeights[k] * c.best.centre.t;
   });
+  const angles = rayAngles();
+  const exits = outlineExits(outlineS, outlineT, outlineD, outlineOpen, cs, ct, angles);
+  const floor = Float64Array.from(exits.rho, (rho, q) => rho + marginFor(exits.d[q], steepGradientPerM));
+  const cosines = Float64Array.from(angles, Math.cos);
+  const sines = Float64Array.from(angles, Math.sin);
+  const radiiOf = (m: TipModel) => modelReachAlongRays(m, cs, ct, angles);
+  const sizeOf = (radii: Float64Array) => {
+    let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+    for (let q = 0; q < RAY_COUNT; q++) {
+      const ps = radii[q] * cosines[q], pt = radii[q] * sines[q];
+      if (ps < minS) minS = ps;
+      if (ps > maxS) maxS = ps;
+      if (pt < minT) minT = pt;
+      if (pt > maxT) maxT = pt;
+    }
+    return { lengthM: maxS - minS, heightM: maxT - minT };
+  };
+
+  const weighted = new Float64Array(RAY_COUNT);
+  candidates.forEach((c, k) => {
+    if (!centralWeights[k]) return;
+    const r = radiiOf(c.best);
+    for (let q = 0; q < RAY_COUNT; q++) weighted[q] += centralWeights[k] * r[q];
+  });
+  const central = constrained(weighted, floor, exits);
+
+  // two mixtures of drawn fault models: every candidate by its Akaike weight, and the published profiles by the
+  // weights that set the centre; the range covers both
+  const drawRadii: Float64Array[] = [];
+  const drawLengths: number[] = [];
+  const drawHeights: number[] = [];
+  const drawDmax: number[] = [];
+  const allWeights: number[] = [];
+  const centralDrawWeights: number[] = [];
+  candidates.forEach((c, k) => {
+    for (const m of c.draws) {
+      const r = constrained(radiiOf(m), floor, exits);
+      const e = sizeOf(r);
+      drawRadii.push(r);
+      allWeights.push(c.weight / c.draws.length);
+      centralDrawWeights.push(centralWeights[k] / c.draws.length);
+      drawLengths.push(e.lengthM);
+      drawHeights.push(e.heightM);
+      drawDmax.push(m.dmaxM);
+    }
+  });
+  const weightings = centralDrawWeights.some((w) => w > 0) ? [allWeights, centralDrawWeights] : [allWeights];
+  /** 5th and 95th percentiles of both mixtures, the wider of each */
+  const bounds = (values: ArrayLike<number>): [number, number] => {
+    if (!values.length) return [NaN, NaN];
+    const q = weightedQuantiles(values, weightings, [0.05, 0.95]);
+    const lows = q.map((x) => x[0]).filter(Number.isFinite);
+    const highs = q.map((x) => x[1]).filter(Number.isFinite);
+    return [lows.length ? Math.min(...lows) : NaN, highs.length ? Math.max(...highs) : NaN];
+  };
+  const inner = new Float64Array(RAY_COUNT);
+  const outer = new Float64Array(RAY_COUNT);
+  const column = new Float64Array(drawRadii.length);
+  for (let q = 0; q < RAY_COUNT; q++) {
+    for (let k = 0; k < drawRadii.length; k++) column[k] = drawRadii[k][q];
+    const [low, high] = bounds(column);
+    inner[q] = Math.max(floor[q], Math.min(central[q], Number.isFinite(low) ? low : central[q]));
+    outer[q] = Math.max(central[q], Number.isFinite(high) ? high : central[q]);
+    if (exits.open[q]) inner[q] = outer[q] = central[q];
+  }
+
+  const ends: TipEnd[] = END_SIDES.map((side) => {
+    const forced = inputs.ends[side];
+    let open = 0, count = 0;
+    for (let q = 0; q < RAY_COUNT; q++) {
+      if (angleGap(angles[q], END_ANGLE[side]) > END_HALF_ANGLE) continue;
+      count++;
+      open += exits.open[q];
+    }
+    const detected = count > 0 && open / count > 0.5 ? "open" : "inferred";
+    return { side, status: forced ?? detected, source: forced ? "set" : "detected" };
+  });
+
+  let dmaxM = 0;
+  candidates.forEach((c, k) => (dmaxM += centralWeights[k] * c.best.dmaxM));
+  const ranked = [...candidates].sort((a, b) => b.weight - a.weight);
+  const best = candidates[centralWeights.indexOf(Math.max(...centralWeights))].best;
+  const modelMisfits: Partial<Record<ProfileModel, number>> = {};
+  for (const c of candidates) modelMisfits[c.best.model] = c.rmsM;
+  const percent = (w: number) => (w >= 0.995 ? "all" : w < 0.01 ? "under 1 %" : `${Math.round(100 * w)} %`);
+  const ranking = ranked.filter((c) => c.weight >= 0.01).map((c) => `${PROFILE_LABELS[c.best.model]}${describeShape(c.best.model, c.best.shape)} ${percent(c.weight)}`);
+  const selection =
+    `Candidate profiles compared by the small-sample Akaike information criterion (Burnham & Anderson 2002), weights: ${ranking.join("; ")}. ` +
+    `The central tip line averages the published profiles by weight (${PROFILE_LABELS[best.model]} leads); the inner and outer lines are the 5th and 95th percentiles of ${drawRadii.length} fault models drawn from the fits' uncertainty. ` +
+    `They assume displacement below the cut-off keeps falling the way one of these profiles does; a fault whose tail below resolution is unlike all of them can lie outside the range.`;
+
+  return {
+    centre: { s: cs, t: ct },
+    central,
+    inner,
+    outer,
+    open: exits.open,
+    steepGradientPerM,
+    drawn: { lengthM: bounds(drawLengths), heightM: bounds(drawHeights), dmaxM: bounds(drawDmax) },
+    dmaxM,
+    ends,
+    best: { model: best.model, shape: best.shape, centre: best.centre, reach: best.reach, exponent: best.exponent, dmaxM: best.dmaxM },
+    candidates: ranked.map((c) => ({
+      model: c.best.model,
+      weight: c.weight,
+      aicc: c.aicc,
+      rmsM: c.rmsM,
+      lengthM: c.best.reach.strikeStartM + c.best.reach.strikeEndM,
+      heightM: c.best.reach.upDipM + c.best.reach.downDipM,
+      dmaxM: c.best.dmaxM,
+    })),
+    modelMisfits,
+    cutoff: { displacementM: inputs.cutoffM, source: inputs.cutoffSource },
+    noiseM: inputs.noiseM,
+    selection,
+  };
+}
+
+/** The rays' directions, from −π round. */
+export function rayAngles(): Float64Array {
+  return Float64Array.from({ length: RAY_COUNT }, (_, q) => -Math.PI + (2 * Math.PI * q) / RAY_COUNT);
+}
+
+/** How far beyond a pick of displacement d the tip must lie at least: d over the steepest plausible gradient. */
+function marginFor(d: number, steepGradientPerM: number): number {
+  return Number.isFinite(steepGradientPerM) && steepGradientPerM > 0 ? Math.max(0, d) / steepGradientPerM : 0;
+}
+
+export interface TipLineResult {
+  tipLine: TipLine;
+  fittedDmax: { displacementM: number; rangeM: [number, number] };
+  gradientTips: GradientTips;
 }
 
 /**
- * The inferred tip line: where displacement reaches zero beyond the last picks, from the fitted candidates
- * (fitTipLineModels). The profile with least misfit is kept; uncertainty is half the largest difference between the
- * chosen tip line and the near-tip gradient extrapolation.
+ * The tip line of a segment, finished with every pick: each line pushed out until it encloses every pick (the fits
+ * and the summary only saw a sample and the outline), lengths and heights with their ranges, and world coordinates.
  */
-export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, fits: ModelFit[]): TipLine & { gradientTips: GradientTips; fits: ModelFit[] } {
-  const score = (f: ModelFit) => f.negLogLikelihood ?? f.rmsM;
-  let best = fits[0];
-  for (const f of fits) if (score(f) < score(best)) best = f;
-  const tips = gradientTips(s, t, d, best.centre, best.semiAxes);
-  const lengthM = 2 * best.semiAxes.sM;
-  const heightM = 2 * best.semiAxes.tM;
-  const gradLength = tips.strikeEndM - tips.strikeStartM;
-  const gradHeight = tips.downDipM - tips.upDipM;
-  const uncertaintyM = Math.max(Math.abs(gradLength - lengthM), Math.abs(gradHeight - heightM)) / 2;
-  const polygon = ellipsePolygon(best.centre, best.semiAxes);
-  const modelMisfits: Partial<Record<ProfileModel, number>> = {};
-  for (const f of fits) modelMisfits[f.model] = f.rmsM;
-  return {
-    lengthM,
-    heightM,
-    aspectRatio: lengthM / heightM,
-    areaM2: Math.PI * best.semiAxes.sM * best.semiAxes.tM,
-    centre: best.centre,
-    semiAxes: best.semiAxes,
-    model: best.model,
-    modelMisfits,
-    uncertaintyM,
-    method: `elliptical tip line fitted with the ${PROFILE_LABELS[best.model]} (least misfit of ${fits.length} published profiles${best.negLogLikelihood !== undefined ? ", picks treated as truncated at the resolution cut-off" : ""}); uncertainty = half the difference from near-tip gradient extrapolation`,
+export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, frame: Frame, summary: TipLineSummary): TipLineResult {
+  const { centre, ends, steepGradientPerM, drawn } = summary;
+  const angles = rayAngles();
+  const marginOf = (i: number) => marginFor(d[i], steepGradientPerM);
+  const enclose = (radii: Float64Array) => enclosePicks(radii, angles, centre.s, centre.t, s, t, marginOf);
+  const centralRadii = enclose(summary.central);
+  const innerRadii = enclose(summary.inner);
+  const outerRadii = enclose(summary.outer);
+  // keep inner ≤ central ≤ outer by growing only, so each line still encloses every pick
+  for (let q = 0; q < RAY_COUNT; q++) {
+    centralRadii[q] = Math.max(centralRadii[q], innerRadii[q]);
+    outerRadii[q] = Math.max(outerRadii[q], centralRadii[q]);
+  }
+  const polygon = polygonOf(centre.s, centre.t, angles, centralRadii);
+  const innerPolygon = polygonOf(centre.s, centre.t, angles, innerRadii);
+  const outerPolygon = polygonOf(centre.s, centre.t, angles, outerRadii);
+  const centralSize = extents(polygon);
+  const innerSize = extents(innerPolygon);
+  const outerSize = extents(outerPolygon);
+
+  const isOpen = (side: TipEndSide) => ends.find((e) => e.side === side)?.status === "open";
+  const lengthOpen = isOpen("strike-start") || isOpen("strike-end");
+  const heightOpen = isOpen("up-dip") || isOpen("down-dip");
+  const range = ([lowDrawn, highDrawn]: [number, number], centralValue: number, innerValue: number, outerValue: number, open: boolean): [number, number | null] => {
+    const low = Math.min(centralValue, innerValue, Number.isFinite(lowDrawn) ? lowDrawn : innerValue);
+    const high = Math.max(centralValue, outerValue, Number.isFinite(highDrawn) ? highDrawn : outerValue);
+    return [low, open ? null : high];
+  };
+  const lengthRangeM = range(drawn.lengthM, centralSize.lengthM, innerSize.lengthM, outerSize.lengthM, lengthOpen);
+  const heightRangeM = range(drawn.heightM, centralSize.heightM, innerSize.heightM, outerSize.heightM, heightOpen);
+  const dmaxRange: [number, number] = [
+    Math.min(summary.dmaxM, Number.isFinite(drawn.dmaxM[0]) ? drawn.dmaxM[0] : summary.dmaxM),
+    Math.max(summary.dmaxM, Number.isFinite(drawn.dmaxM[1]) ? drawn.dmaxM[1] : summary.dmaxM),
+  ];
+
+  const halfSize = { sM: centralSize.lengthM / 2, tM: centralSize.heightM / 2 };
+  const world = (p: [number, number][]) => p.map(([ps, pt]) => planeToWorld(ps, pt, frame));
+  const openEnds = ends.filter((e) => e.status === "open").map((e) => e.side.replace("-", " "));
+  const minimums = [lengthOpen ? "length" : "", heightOpen ? "height" : ""].filter(Boolean);
+  const tipLine: TipLine = {
+    lengthM: centralSize.lengthM,
+    heightM: centralSize.heightM,
+    lengthRangeM,
+    heightRangeM,
+    lengthIsMinimum: lengthOpen,
+    heightIsMinimum: heightOpen,
+    aspectRatio: centralSize.lengthM / centralSize.heightM,
+    areaM2: ringArea(polygon),
+    centre,
+    semiAxes: halfSize,
+    model: summary.best.model,
+    profile: summary.best,
+    candidates: summary.candidates,
+    modelMisfits: summary.modelMisfits,
+    uncertaintyM: Math.max((lengthRangeM[1] ?? centralSize.lengthM) - lengthRangeM[0], (heightRangeM[1] ?? centralSize.heightM) - heightRangeM[0]) / 2,
+    cutoff: summary.cutoff,
+    noiseM: summary.noiseM,
+    ends,
+    openRays: Array.from(summary.open),
+    selection: summary.selection,
+    method:
+      `tip line where the fitted displacement reaches zero, with picks below the ${summary.cutoff.displacementM.toFixed(1)} m cut-off treated as unresolved (censored)` +
+      (openEnds.length
+        ? `; open at the ${openEnds.join(" and ")} end${openEnds.length > 1 ? "s" : ""}, where the picks stop while displacement is still well above the cut-off, so no tip is inferred there and the ${minimums.join(" and ")} ${minimums.length > 1 ? "are minimums" : "is a minimum"}`
+        : ""),
     polygon,
-    worldPolygon: polygon.map(([ps, pt]) => planeToWorld(ps, pt, frame)),
-    gradientTips: tips,
-    fits,
+    innerPolygon,
+    outerPolygon,
+    worldPolygon: world(polygon),
+    innerWorldPolygon: world(innerPolygon),
+    outerWorldPolygon: world(outerPolygon),
+  };
+  return {
+    tipLine,
+    fittedDmax: { displacementM: summary.dmaxM, rangeM: dmaxRange },
+    gradientTips: gradientTips(s, t, d, centre, halfSize),
   };
 }

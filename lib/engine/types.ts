@@ -67,23 +67,73 @@ export interface ContourLevel {
   worldRings: [number, number, number][][];
 }
 
-export type ProfileModel = "walsh-watterson-1989" | "elliptical-crack" | "linear";
+export type ProfileModel = "walsh-watterson-1987" | "elliptical-crack" | "linear" | "parabolic" | "flat-topped" | "flexible";
+
+/** The four ends of a fault: along strike towards lower / higher s, and up dip (shallower) / down dip. */
+export type TipEndSide = "strike-start" | "strike-end" | "up-dip" | "down-dip";
+
+export interface TipEnd {
+  side: TipEndSide;
+  /** inferred: displacement falls toward the cut-off there and a tip is inferred beyond; open: the data stop first */
+  status: "inferred" | "open";
+  /** detected from the picks, or set by the interpreter */
+  source: "detected" | "set";
+}
+
+/** The fault model of the profile that carries most weight: Dmax·f(r) with a reach to the tip on each side. */
+export interface TipProfileModel {
+  model: ProfileModel;
+  /** shape numbers as fitted (unbounded; see PROFILE_CANDIDATES) */
+  shape: number[];
+  centre: { s: number; t: number };
+  reach: { strikeStartM: number; strikeEndM: number; upDipM: number; downDipM: number };
+  /** superellipse exponent of the tip line: 2 an ellipse, larger boxier (layer-bound faults), smaller more pointed */
+  exponent: number;
+  dmaxM: number;
+}
 
 export interface TipLine {
+  /** central estimate, along strike and down dip (m) */
   lengthM: number;
   heightM: number;
+  /** 5–95 % range; the upper end is null where an end is open (the length or height is then a minimum) */
+  lengthRangeM: [number, number | null];
+  heightRangeM: [number, number | null];
+  lengthIsMinimum: boolean;
+  heightIsMinimum: boolean;
   aspectRatio: number;
   areaM2: number;
+  /** where the weighted fits put the displacement maximum; the tip lines are built around it */
   centre: { s: number; t: number };
-  /** semi-axes of the elliptical tip line (along strike, down dip) */
+  /** half the length and height */
   semiAxes: { sM: number; tM: number };
+  /** the profile with most weight */
   model: ProfileModel;
+  profile: TipProfileModel;
+  /** every profile tried, most weight first */
+  candidates: { model: ProfileModel; weight: number; aicc: number; rmsM: number; lengthM: number; heightM: number; dmaxM: number }[];
   /** how well each candidate model fitted, rms misfit in m */
   modelMisfits: Partial<Record<ProfileModel, number>>;
+  /** half the wider of the length and height ranges (m) */
   uncertaintyM: number;
+  /** displacement below which nothing could be picked */
+  cutoff: { displacementM: number; source: "estimated" | "set" };
+  /** interpretation noise near the edges (m) */
+  noiseM: number;
+  ends: TipEnd[];
+  /** per polygon vertex (ray from the centre), 1 where the line follows an open data edge */
+  openRays: number[];
+  /** which profiles were compared, how, and what carried the weight, in a sentence */
+  selection: string;
   method: string;
+  /** central tip line in (s, t), closed */
   polygon: [number, number][];
+  /** 5 % and 95 % tip lines in (s, t), closed, with the same vertex directions */
+  innerPolygon: [number, number][];
+  outerPolygon: [number, number][];
   worldPolygon: [number, number, number][];
+  innerWorldPolygon: [number, number, number][];
+  outerWorldPolygon: [number, number, number][];
 }
 
 export interface RegularGrid {
@@ -109,7 +159,18 @@ export interface SegmentResult {
     dipVector: [number, number, number];
     normal: [number, number, number];
   };
-  max: { displacementM: number; throwM: number; s: number; t: number; x: number; y: number; z: number };
+  /** observed maximum (biased upward by noise) and the fitted one with its 5–95 % range */
+  max: {
+    displacementM: number;
+    throwM: number;
+    s: number;
+    t: number;
+    x: number;
+    y: number;
+    z: number;
+    fittedDisplacementM: number;
+    fittedDisplacementRangeM: [number, number];
+  };
   mappedLimit: { lengthM: number; heightM: number; polygon: [number, number][]; worldPolygon: [number, number, number][] };
   tipLine: TipLine;
   gradients: {
@@ -175,4 +236,10 @@ export interface AnalysisOptions {
   gridCells?: number;
   /** exactly gridCells square cells across the longer side of the data, centred on the shorter (benchmark grids) */
   square?: boolean;
+  /** the resolution cut-off as a throw (m); estimated from the picks when absent */
+  throwCutoffM?: number;
+  /** the displacement profiles the tip-line fit may use; every automatic candidate when absent */
+  profiles?: ProfileModel[];
+  /** the interpreter's word on each end of the fault: open (the data stop there) or inferred */
+  ends?: Partial<Record<TipEndSide, "open" | "inferred">>;
 }

@@ -2,7 +2,7 @@
 // several segments placed in one common along-strike coordinate and summed (displacement transfer across a relay).
 // Pure: used by the browser views, the export routes and the tests.
 import { sampleGrid } from "@/lib/analysis/display";
-import { PROFILE_FUNCTIONS, PROFILE_LABELS } from "@/lib/engine/profiles";
+import { PROFILE_LABELS, modelRadius, profileFunction } from "@/lib/engine/profiles";
 import type { SegmentResult } from "@/lib/engine/types";
 
 export interface GridLike {
@@ -105,56 +105,80 @@ export interface ModelProfile {
   name: string;
   s: number[];
   displacementM: number[];
-  /** inferred tip positions (s) on this line, where the model reaches zero */
+  /** central inferred tip positions (s) on this line, where the tip line crosses it */
   tipsS: [number, number] | null;
-  /** model amplitude at the tip-line centre (m) */
+  /** where the inner and outer tip lines cross this line: the band each tip may lie in */
+  bandS: { start: [number, number]; end: [number, number] } | null;
+  /** which ends of this line stop at an open data edge (no tip inferred there) */
+  openS: { start: boolean; end: boolean };
+  /** model amplitude: the fitted maximum displacement (m) */
   amplitudeM: number;
 }
 
+/** Where a closed polygon in (s, t) crosses the line t = const: the smallest and largest s, or null. */
+export function polygonSpanAtT(polygon: [number, number][], t: number): [number, number] | null {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let k = 0; k + 1 < polygon.length; k++) {
+    const [s0, t0] = polygon[k];
+    const [s1, t1] = polygon[k + 1];
+    if ((t0 <= t && t <= t1) || (t1 <= t && t <= t0)) {
+      const s = t1 === t0 ? Math.min(s0, s1) : s0 + ((t - t0) / (t1 - t0)) * (s1 - s0);
+      lo = Math.min(lo, s, t1 === t0 ? s1 : s);
+      hi = Math.max(hi, s, t1 === t0 ? s0 : s);
+    }
+  }
+  return lo <= hi ? [lo, hi] : null;
+}
+
 /**
- * The fitted model (elliptical tip line + published profile shape, from the report) along strike at down-dip position t:
- * D(s, t) = A·f(r), r = sqrt(((s − cs)/a)² + ((t − ct)/b)²). A is set so that the model equals the segment's Dmax at the
- * Dmax position, the way the report scales it. `columnMax` evaluates the model's own maximum per column (r along the
- * centre row) instead.
+ * The fitted fault model (from the report: the profile with most weight, its reach to the tip on each side and its
+ * Dmax) along strike at down-dip position t, with the central tip positions and the band between the inner and outer
+ * tip lines on that line. `columnMax` evaluates along the row through the model's maximum instead.
  */
 export function modelStrikeProfile(segment: SegmentResult, t: number, options: { samples?: number; columnMax?: boolean } = {}): ModelProfile {
-  const { tipLine, max } = segment;
-  const f = PROFILE_FUNCTIONS[tipLine.model];
-  const a = tipLine.semiAxes.sM;
-  const b = tipLine.semiAxes.tM;
-  const cs = tipLine.centre.s;
-  const ct = tipLine.centre.t;
-  const radius = (s: number, tt: number) => Math.hypot((s - cs) / a, (tt - ct) / b);
-  const atMax = f(radius(max.s, max.t));
-  const amplitudeM = atMax > 0.05 ? max.displacementM / atMax : max.displacementM;
-  const rowT = options.columnMax ? ct : t;
-  const vertical = (rowT - ct) / b;
-  const halfWidth = Math.abs(vertical) < 1 ? a * Math.sqrt(1 - vertical * vertical) : 0;
+  const { tipLine } = segment;
+  const model = tipLine.profile;
+  const f = profileFunction(model.model, model.shape);
+  const rowT = options.columnMax ? model.centre.t : t;
   const samples = options.samples ?? 161;
+  const tips = polygonSpanAtT(tipLine.polygon, rowT);
+  const inner = polygonSpanAtT(tipLine.innerPolygon, rowT);
+  const outer = polygonSpanAtT(tipLine.outerPolygon, rowT);
+  const lo = Math.min(model.centre.s - model.reach.strikeStartM, outer?.[0] ?? Infinity) - 0.03 * (model.reach.strikeStartM + model.reach.strikeEndM);
+  const hi = Math.max(model.centre.s + model.reach.strikeEndM, outer?.[1] ?? -Infinity) + 0.03 * (model.reach.strikeStartM + model.reach.strikeEndM);
   const s: number[] = [];
   const displacementM: number[] = [];
-  // sample slightly past the tips so the curve visibly reaches zero
-  const lo = cs - a * 1.05;
-  const hi = cs + a * 1.05;
   for (let k = 0; k < samples; k++) {
     const sk = lo + ((hi - lo) * k) / (samples - 1);
     s.push(sk);
-    displacementM.push(amplitudeM * f(radius(sk, rowT)));
+    displacementM.push(model.dmaxM * f(modelRadius(model, sk, rowT)));
   }
-  if (halfWidth > 0) {
-    // the tips themselves, so that the drawn curve meets zero exactly there
-    for (const tipS of [cs - halfWidth, cs + halfWidth]) {
+  // the model's own tips on this row, so the drawn curve meets zero exactly there
+  const dv = rowT - model.centre.t;
+  const w = Math.abs(dv / (dv < 0 ? model.reach.upDipM : model.reach.downDipM));
+  if (w < 1) {
+    const along = Math.pow(1 - Math.pow(w, model.exponent), 1 / model.exponent);
+    for (const tipS of [model.centre.s - model.reach.strikeStartM * along, model.centre.s + model.reach.strikeEndM * along]) {
       const at = s.findIndex((value) => value > tipS);
+      if (at < 0) continue;
       s.splice(at, 0, tipS);
       displacementM.splice(at, 0, 0);
     }
   }
+  // open rays along this line: the ray from the centre nearest to each end's direction
+  const openAt = (angle: number) => {
+    const q = Math.round(((angle + Math.PI) / (2 * Math.PI)) * tipLine.openRays.length) % tipLine.openRays.length;
+    return tipLine.openRays[q] === 1;
+  };
   return {
-    name: PROFILE_LABELS[tipLine.model],
+    name: PROFILE_LABELS[model.model],
     s,
     displacementM,
-    tipsS: halfWidth > 0 ? [cs - halfWidth, cs + halfWidth] : null,
-    amplitudeM,
+    tipsS: tips,
+    bandS: inner && outer ? { start: [outer[0], inner[0]], end: [inner[1], outer[1]] } : null,
+    openS: { start: openAt(Math.PI), end: openAt(0) },
+    amplitudeM: model.dmaxM,
   };
 }
 

@@ -2,7 +2,9 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { threadedTipLineFitter } from "@/lib/analysis/tipline-thread";
 import { analyzeCsv } from "@/lib/engine/pipeline";
-import { fitTipLineModels, tipLineFitInputs } from "@/lib/engine/tipline";
+import { fitAndSummariseTipLine } from "@/lib/engine/pipeline";
+import { tipLineInputs } from "@/lib/engine/tipline-inputs";
+import { triangulate } from "@/lib/engine/triangulate";
 import { generateSyntheticPicks, toCsv } from "@/lib/engine/synthetic";
 import { demoCsv } from "@/lib/demo";
 
@@ -29,12 +31,13 @@ describe("tip-line fits on a helper thread", () => {
   it("answers each wait with its own fits, skipping the reply to a start nobody waited for (a job that failed midway)", () => {
     const inputsFor = (halfLengthM: number, seed: number) => {
       const { picks } = generateSyntheticPicks({ seed, pickCount: 3000, halfLengthM, dmaxM: 60, throwCutoffM: 0, noiseM: 1 });
-      return tipLineFitInputs(picks.x, picks.y, picks.throwM);
+      const tri = triangulate(picks.x, picks.y);
+      return tipLineInputs(picks.x, picks.y, picks.throwM, tri.outline, tri.triangles, tri.medianEdgeM);
     };
     const abandoned = inputsFor(2000, 7);
     const wanted = inputsFor(3500, 8);
     helper.fitter(abandoned);
-    expect(helper.fitter(wanted)()).toEqual(fitTipLineModels(wanted));
+    expect(helper.fitter(wanted)()).toEqual(fitAndSummariseTipLine(wanted));
   });
 
   it("falls back to fitting in this thread when the helper cannot start", () => {

@@ -9,7 +9,7 @@ const mean = (f: (r: number) => number) => {
 };
 
 describe("published displacement profiles", () => {
-  // Walsh & Watterson 1987/1989 profile; values from the reference sheet §10 rows 14–15
+  // Walsh & Watterson (1987) profile; docs/check-values.md P1
   it("Walsh & Watterson values", () => {
     expect(walshWattersonProfile(0.5)).toBeCloseTo(0.559, 4);
     expect(walshWattersonProfile(0.25)).toBeCloseTo(0.8592, 4);
@@ -18,7 +18,7 @@ describe("published displacement profiles", () => {
     expect(walshWattersonProfile(1)).toBe(0);
     expect(walshWattersonProfile(1.3)).toBe(0);
   });
-  // §10 row 16: the two published forms are algebraically identical
+  // docs/check-values.md P2: the two published forms are algebraically identical
   it("equals (1 − r)^1.5 (1 + 3r)^0.5 to 1e-12", () => {
     let worst = 0;
     for (let i = 0; i <= 1000; i++) {
@@ -27,7 +27,7 @@ describe("published displacement profiles", () => {
     }
     expect(worst).toBeLessThan(1e-12);
   });
-  // §10 row 17: steepest gradient 1.3625 Dmax/R at r = 1/sqrt(3)
+  // docs/check-values.md P3: steepest gradient 1.3625 Dmax/R at r = 1/sqrt(3)
   it("Walsh & Watterson steepest gradient", () => {
     let best = 0;
     let at = 0;
@@ -40,36 +40,36 @@ describe("published displacement profiles", () => {
     expect(best).toBeCloseTo(1.3625, 3);
     expect(at).toBeCloseTo(0.5774, 3);
   });
-  // Pollard & Segall 1987 elliptical crack; §10 row 18
+  // Pollard & Segall (1987) elliptical crack; docs/check-values.md P4
   it("elliptical crack values", () => {
     expect(ellipticalCrackProfile(0.5)).toBeCloseTo(0.866, 4);
     expect(ellipticalCrackProfile(0.9)).toBeCloseTo(0.4359, 4);
   });
-  // §10 row 19
+  // docs/check-values.md P5
   it("profile means", () => {
     expect(mean(walshWattersonProfile)).toBeCloseTo(0.5374, 4);
     expect(mean(ellipticalCrackProfile)).toBeCloseTo(0.7854, 4);
     expect(mean(linearProfile)).toBeCloseTo(0.5, 4);
   });
-  // §10 row 20: 2D elliptical field, a = 1000, b = 465.116, Dmax = 100 (Barnett et al. 1987 tip-line shape)
+  // docs/check-values.md P6: 2D elliptical field, a = 1000, b = 465.116, Dmax = 100 (Barnett et al. 1987 tip-line shape)
   it("2D elliptical field value", () => {
     const r = Math.hypot(500 / 1000, 232.558 / 465.116);
     expect(100 * walshWattersonProfile(r)).toBeCloseTo(28.005, 2);
   });
-  // §10 row 21: true/visible length at a cut-off of 15 % of Dmax
+  // docs/check-values.md P7: true/visible length at a cut-off of 15 % of Dmax
   it("visible-length factors at a 15 % cut-off", () => {
-    expect(1 / visibleRadius("walsh-watterson-1989", 0.15)).toBeCloseTo(1.23, 3);
+    expect(1 / visibleRadius("walsh-watterson-1987", 0.15)).toBeCloseTo(1.23, 3);
     expect(1 / visibleRadius("linear", 0.15)).toBeCloseTo(1.176, 3);
     expect(1 / visibleRadius("elliptical-crack", 0.15)).toBeCloseTo(1.011, 3);
   });
 });
 
 describe("near-tip gradient extrapolation", () => {
-  // §10 row 22 (common practice, Barnett et al. 1987 endorse extrapolating gradients)
+  // docs/check-values.md P8 (common practice, Barnett et al. 1987 endorse extrapolating gradients)
   it("two picks: tip at 1000 m", () => {
     expect(extrapolateTipLinear([800, 900], [30, 15]).tipM).toBeCloseTo(1000, 2);
   });
-  // §10 row 23
+  // docs/check-values.md P9
   it("least squares through four picks: slope −0.132, tip 1018.94 m", () => {
     const fit = extrapolateTipLinear([600, 700, 800, 900], [55, 42, 30, 15]);
     expect(fit.slopePerM).toBeCloseTo(-0.132, 3);

@@ -120,17 +120,27 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     expect(peak).toBeLessThanOrEqual(dA + dB);
   });
 
-  it("the fitted model profile reaches zero at the inferred tips and equals Dmax at the Dmax position", () => {
+  it("the leading profile's curve is zero beyond its own tips and peaks at its Dmax; the band brackets the central tips", () => {
     const { report } = analyzeCsv(demoCsv("QG-4"));
     const seg = report.segments[0];
-    const model = modelStrikeProfile(seg, seg.max.t);
+    const model = modelStrikeProfile(seg, seg.tipLine.profile.centre.t);
     expect(model.name).toMatch(/profile/);
     expect(model.tipsS).not.toBeNull();
+    expect(model.bandS).not.toBeNull();
     const [lo, hi] = model.tipsS!;
+    const band = model.bandS!;
+    // outer ≤ central ≤ inner at the strike start, inner ≤ central ≤ outer at the strike end
+    expect(band.start[0]).toBeLessThanOrEqual(lo);
+    expect(lo).toBeLessThanOrEqual(band.start[1]);
+    expect(band.end[0]).toBeLessThanOrEqual(hi);
+    expect(hi).toBeLessThanOrEqual(band.end[1]);
     const at = (s: number) => interpolateOrZero(model.s, model.displacementM, s);
-    expect(at(lo - 1)).toBe(0);
-    expect(at(hi + 1)).toBe(0);
-    expect(Math.max(...model.displacementM)).toBeGreaterThanOrEqual(seg.max.displacementM * 0.99);
+    const { centre, reach } = seg.tipLine.profile;
+    expect(at(centre.s - reach.strikeStartM * 1.01)).toBe(0);
+    expect(at(centre.s + reach.strikeEndM * 1.01)).toBe(0);
+    expect(at(centre.s - reach.strikeStartM * 0.9)).toBeGreaterThan(0);
+    // the curve through the model's centre peaks at the profile's own Dmax (to the sampling of 161 points)
+    expect(Math.max(...model.displacementM)).toBeCloseTo(seg.tipLine.profile.dmaxM, 0);
   });
 });
 

@@ -485,6 +485,7 @@ function sandwichCovariance(problem: Problem, model: ProfileModel, point: number
 
 /** Inverse of a symmetric matrix through its eigenvalues; directions without curvature get none of it (null if none). */
 function pseudoInverse(m: Matrix): Matrix | null {
+  if (!m.to1DArray().every(Number.isFinite)) return null;
   const e = new EigenvalueDecomposition(m, { assumeSymmetric: true });
   const values = e.realEigenvalues;
   const largest = Math.max(...values.map(Math.abs));
@@ -497,7 +498,8 @@ function pseudoInverse(m: Matrix): Matrix | null {
 }
 
 /** A square root of a symmetric positive semi-definite matrix (negative eigenvalues from rounding set to zero). */
-function symmetricRoot(m: Matrix): Matrix {
+function symmetricRoot(m: Matrix): Matrix | null {
+  if (!m.to1DArray().every(Number.isFinite)) return null;
   const e = new EigenvalueDecomposition(m, { assumeSymmetric: true });
   const V = e.eigenvectorMatrix;
   const k = e.realEigenvalues.length;
@@ -521,8 +523,10 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     const aicc = 2 * nll + 2 * parameters + (2 * parameters * (parameters + 1)) / Math.max(1, picks - parameters - 1);
     return { model, point, value, nll, aicc, parameters };
   });
-  const bestAicc = Math.min(...fitted.map((f) => f.aicc));
-  const raw = fitted.map((f) => Math.exp(-(f.aicc - bestAicc) / 2));
+  const bestAicc = Math.min(...fitted.map((f) => (Number.isFinite(f.aicc) ? f.aicc : Infinity)));
+  // a fit that failed to give a finite criterion carries no weight; if none did, all weigh the same
+  const finite = fitted.map((f) => Number.isFinite(f.aicc));
+  const raw = finite.some(Boolean) ? fitted.map((f, k) => (finite[k] ? Math.exp(-(f.aicc - bestAicc) / 2) : 0)) : fitted.map(() => 1);
   const total = raw.reduce((a, b) => a + b, 0);
   const publishedTotal = fitted.reduce((sum, f, k) => sum + (PUBLISHED_PROFILES.includes(f.model) ? raw[k] : 0), 0);
   const candidates: CandidateFit[] = fitted.map((f, index) => {
@@ -537,8 +541,8 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     const centralWeight = PUBLISHED_PROFILES.includes(f.model) && publishedTotal > 0 ? raw[index] / publishedTotal : 0;
     if (weight >= 0.005 || centralWeight >= 0.05) {
       const covariance = sandwichCovariance(problem, f.model, f.point);
-      if (covariance) {
-        const root = symmetricRoot(covariance);
+      const root = covariance ? symmetricRoot(covariance) : null;
+      if (root) {
         const rand = mulberry32(0x5eed + index);
         const k = f.point.length;
         for (let q = 0; q < DRAWS; q++) {

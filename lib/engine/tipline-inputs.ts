@@ -132,9 +132,14 @@ class Buckets {
   private readonly items: Int32Array;
   private readonly columns: number;
   private readonly rows: number;
-  constructor(private readonly s: ArrayLike<number>, private readonly t: ArrayLike<number>, private readonly cell: number, private readonly s0: number, private readonly t0: number, sMax: number, tMax: number) {
-    this.columns = Math.max(1, Math.floor((sMax - s0) / cell) + 1);
-    this.rows = Math.max(1, Math.floor((tMax - t0) / cell) + 1);
+  private readonly cell: number;
+  constructor(private readonly s: ArrayLike<number>, private readonly t: ArrayLike<number>, cell: number, private readonly s0: number, private readonly t0: number, sMax: number, tMax: number) {
+    // at most 1024 buckets a side, whatever the spacing (degenerate or enormous extents included)
+    const span = Math.max(sMax - s0, tMax - t0);
+    const size = Math.max(cell, span / 1024);
+    this.cell = Number.isFinite(size) && size > 0 ? size : Number.isFinite(span) && span > 0 ? span : 1;
+    this.columns = Math.min(1024, Math.max(1, Math.floor((sMax - s0) / this.cell) + 1) || 1);
+    this.rows = Math.min(1024, Math.max(1, Math.floor((tMax - t0) / this.cell) + 1) || 1);
     const count = new Int32Array(this.columns * this.rows + 1);
     const n = s.length;
     const key = new Int32Array(n);

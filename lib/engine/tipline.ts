@@ -264,6 +264,7 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   // the centre and central line come from the published profiles (the flexible family only widens the range)
   const publishedWeight = candidates.reduce((sum, c) => sum + (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight : 0), 0);
   const centralWeights = candidates.map((c) => (publishedWeight > 0 ? (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight / publishedWeight : 0) : c.weight));
+  if (!centralWeights.some((w) => w > 0)) centralWeights.fill(1 / candidates.length);
   let cs = 0, ct = 0;
   candidates.forEach((c, k) => {
     cs += centralWeights[k] * c.best.centre.s;

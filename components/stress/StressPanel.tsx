@@ -125,7 +125,7 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
   );
 }
 
-/** Always visible beside the results (issue 9; domain reference §8). */
+/** Always visible beside the results: screening is not a site-specific assessment. */
 function StressCaution() {
   return (
     <aside className="rounded-lg border border-tip-400/60 bg-amber-50 px-3 py-2.5 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100" data-testid="stress-caution">

@@ -71,7 +71,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
             <p className="px-5 py-10 text-center text-sm text-slate-500">No faults yet.{canEdit ? " Add one, then upload its pick set." : ""}</p>
           ) : (
             <table className="w-full text-sm" data-testid="fault-table">
-              <thead className="bg-slate-50 text-left text-xs uppercase tracking-wide text-slate-500 dark:bg-slate-950">
+              <thead className="bg-slate-50 text-left text-xs text-slate-500 dark:bg-slate-950">
                 <tr>
                   <th className="px-5 py-2 font-medium">Fault</th>
                   <th className="px-3 py-2 font-medium">Segments</th>

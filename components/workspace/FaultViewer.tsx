@@ -11,7 +11,7 @@ import { niceStep, niceTicks, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
 import { FaultView2D } from "./FaultView2D";
-import { metres } from "./format";
+import { inSentence, metres } from "./format";
 
 const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
   ssr: false,
@@ -129,7 +129,7 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
               <option value="displacement">displacement</option>
               <option value="throw">throw</option>
               {fields.map((field) => (
-                <option key={field.key} value={field.key}>{field.label.toLowerCase()}</option>
+                <option key={field.key} value={field.key}>{inSentence(field.label)}</option>
               ))}
             </select>
           </label>
@@ -219,7 +219,7 @@ function HoverReadout() {
     ["displacement", metres(readout.displacementM)],
   ];
   if (field && readout.fieldValue !== undefined) {
-    rows.push([field.label.toLowerCase(), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
+    rows.push([inSentence(field.label), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
   }
   return (
     <dl className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="hover-readout">

@@ -98,7 +98,7 @@ export function throwDepthAt(bins: HorizonBin[], segment: string, s: number, max
 
 /**
  * Throw accrued between successive horizons, youngest (shallowest) first: T(older) − T(younger), and the throw after
- * the youngest horizon (its own throw). Assumes the fault reached the surface of deposition (domain reference 5.2, 3).
+ * the youngest horizon (its own throw). Assumes the fault reached the surface of deposition (common practice, no source).
  */
 export function backstripThrows(pointsShallowFirst: { horizon: string; throwM: number }[]): { from: string; to: string | null; accruedM: number }[] {
   const out: { from: string; to: string | null; accruedM: number }[] = [];
@@ -123,7 +123,7 @@ export interface ThrowDepthReading {
 }
 
 const BASIS =
-  "Throw–depth plots after Cartwright et al. (1998, Geology 26); reactivation and growth kinematics from throw mapping after Baudon & Cartwright (2008, from memory); signatures as summarised in our domain reference (section 5.2). A hint, not a verdict: footwall erosion, compaction, drag and picking error give similar shapes.";
+  "Throw–depth plots after Cartwright et al. (1998); reactivation and growth read from throw mapping after Baudon & Cartwright (2008). A hint, not a verdict: footwall erosion, compaction, drag and picking error give similar shapes.";
 
 /** A reading of a T–z plot (points ordered shallow to deep), with a tolerance for "constant" of 10 % of the largest throw. */
 export function readThrowDepth(pointsShallowFirst: { throwM: number }[], tolerance = 0.1): ThrowDepthReading {

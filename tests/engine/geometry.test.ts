@@ -6,7 +6,7 @@ import { projectToPlane, planeToWorld } from "@/lib/engine/project";
 const circularDiff = (a: number, b: number) => Math.abs(((a - b + 540) % 360) - 180);
 
 describe("throw, heave and displacement", () => {
-  // Groshong 2006 (3-D Structural Geology, eq. 8.3); worked values from the domain reference sheet §10 rows 1–5
+  // Groshong 2006 (3-D Structural Geology, eq. 8.3); worked values derived by hand from it
   it("T = 100 m, dip 60° gives D = 115.470 m and H = 57.735 m", () => {
     expect(displacementFromThrow(100, 60)).toBeCloseTo(115.47, 3);
     expect(heaveFromThrow(100, 60)).toBeCloseTo(57.735, 3);

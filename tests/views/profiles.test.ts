@@ -147,7 +147,7 @@ describe("relay sketch (strike–normal coordinates)", () => {
     const transfer = Math.max(...sketch.throwTransferM);
     expect(transfer).toBeGreaterThan(5);
     expect(transfer).toBeLessThan(78);
-    // domain reference check 31: ΔT = 100 m over O = 600 m gives 9.462°
+    // ψ = atan(ΔT/O): ΔT = 100 m over O = 600 m gives 9.462° (derived by hand)
     expect(rampDipDeg(100, 600).dipDeg).toBeCloseTo(9.462, 3);
   });
 });

@@ -160,7 +160,7 @@ export async function deleteViewpoint({ access, viewpoint }: ViewpointAccess) {
   assertMayChange(access, viewpoint.createdBy, "delete it");
   const db = await getDb();
   await db.delete(viewpoints).where(eq(viewpoints.id, viewpointId));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint.delete", target: viewpointId, details: { title: viewpoint.title } });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint.delete", target: viewpointId, details: { title: viewpoint.title, faultId: viewpoint.faultId } });
 }
 
 // ---- links ---------------------------------------------------------------------------------------------------
@@ -236,7 +236,7 @@ export async function revokeViewpointLink(linkId: string) {
     .set({ revokedAt: new Date() })
     .where(and(eq(viewpointLinks.id, linkId), isNull(viewpointLinks.revokedAt)))
     .returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint-link.revoke", target: linkId });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint-link.revoke", target: linkId, details: { viewpointId: link.viewpointId } });
   return describeLink(revoked ?? link, true);
 }
 

@@ -5,6 +5,7 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { metres as formatM } from "@/components/workspace/format";
+import type { ActivityPart } from "@/lib/activity/sentences";
 import { RoleBadge } from "./RoleBadge";
 
 type Role = "owner" | "interpreter" | "reviewer" | "viewer";
@@ -21,30 +22,10 @@ interface Overview {
     analysis: { status: string; dMaxM: number | null; lengthM: number | null; segmentCount: number | null } | null;
   }[];
   people: { userId: string; name: string; email: string; role: Role }[];
-  activity: { id: string; action: string; target: string; createdAt: string; userName: string | null }[];
+  activity: { id: string; actor: string; parts: ActivityPart[]; createdAt: string }[];
 }
 
 const ROLES: Role[] = ["owner", "interpreter", "reviewer", "viewer"];
-
-/** audit actions in plain words */
-const ACTIVITY_WORDS: Record<string, string> = {
-  "study.create": "created the study",
-  "study.update": "edited the study",
-  "fault.create": "added fault",
-  "fault.update": "edited fault",
-  "fault.delete": "removed fault",
-  "pickset.upload": "uploaded pick set",
-  "member.invite": "invited",
-  "member.role": "changed the role of",
-  "member.remove": "removed",
-  "pin.create": "pinned a note on",
-  "pin.resolve": "resolved a note on",
-  "pin.reopen": "reopened a note on",
-  "pin.delete": "deleted a note on",
-  "viewpoint.create": "saved viewpoint",
-  "viewpoint.update": "edited viewpoint",
-  "viewpoint.delete": "deleted viewpoint",
-};
 
 export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
   const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<Overview>(`/api/studies/${studyId}`) });
@@ -120,8 +101,13 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
         ) : (
           <ul className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
             {activity.map((entry) => (
-              <li key={entry.id} className="flex justify-between gap-4 px-5 py-2">
-                <span><span className="font-medium">{entry.userName ?? "Someone"}</span> · {ACTIVITY_WORDS[entry.action] ?? entry.action.replace(".", " ")} {entry.target && <span className="text-slate-500">{entry.target}</span>}</span>
+              <li key={entry.id} className="flex justify-between gap-4 px-5 py-2" data-testid="activity-entry">
+                <span>
+                  <span className="font-medium">{entry.actor}</span>{" "}
+                  {entry.parts.map((part, index) =>
+                    part.href ? <Link key={index} href={part.href} className="text-slip-700 hover:underline dark:text-slip-300">{part.text}</Link> : <span key={index}>{part.text}</span>,
+                  )}
+                </span>
                 <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>{new Date(entry.createdAt).toLocaleString()}</time>
               </li>
             ))}

@@ -7,6 +7,7 @@ import { changingRoles, type StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
+import { FAULT_SENSE_VALUES } from "@/lib/fault-types";
 import { emailSchema, type SessionUser } from "@/lib/auth/users";
 
 export const studyInputSchema = z.object({
@@ -23,7 +24,7 @@ export const faultInputSchema = z.object({
     .max(80, "Use at most 80 characters.")
     .regex(/^[\w .\-/()]+$/, "Use letters, digits, spaces and . - / ( ) only."),
   description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
-  sense: z.enum(["normal", "reverse"]).default("normal"),
+  sense: z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(" or ")}.` }).default("normal"),
 });
 export const faultPatchSchema = faultInputSchema.partial();
 

@@ -1,11 +1,13 @@
 "use client";
 import Link from "next/link";
+import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { metres as formatM } from "@/components/workspace/format";
 import type { ActivityPart } from "@/lib/activity/sentences";
+import { FAULT_SENSES, faultSenseLabel, type FaultSense } from "@/lib/fault-types";
 import { RoleBadge } from "./RoleBadge";
 
 type Role = "owner" | "interpreter" | "reviewer" | "viewer";
@@ -66,7 +68,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                   <tr key={fault.id} className="hover:bg-slate-50 dark:hover:bg-slate-800/50">
                     <td className="px-5 py-3">
                       <Link href={`/studies/${studyId}/faults/${fault.id}`} className="font-medium text-slip-700 hover:underline dark:text-slip-300">{fault.name}</Link>
-                      <div className="text-xs text-slate-500">{fault.sense} fault{fault.description ? ` · ${fault.description}` : ""}</div>
+                      <div className="text-xs text-slate-500">{faultSenseLabel(fault.sense)} fault{fault.description ? ` · ${fault.description}` : ""}</div>
                     </td>
                     <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
@@ -123,20 +125,60 @@ function useStudyMutation<T>(studyId: string, mutationFn: (input: T) => Promise<
   return useMutation({ mutationFn, onSuccess: () => queryClient.invalidateQueries({ queryKey: ["study", studyId] }) });
 }
 
+/** Add a fault: its name and what the analysis needs to know about it (its type), then straight to its page to upload picks. */
 function NewFault({ studyId }: { studyId: string }) {
+  const router = useRouter();
   const [open, setOpen] = useState(false);
   const [name, setName] = useState("");
-  const create = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/faults`, { method: "POST", json: { name } }));
+  const [sense, setSense] = useState<FaultSense>("normal");
+  const [description, setDescription] = useState("");
+  const create = useMutation({
+    mutationFn: () => apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, { method: "POST", json: { name, sense, description } }),
+    onSuccess: ({ fault }) => router.push(`/studies/${studyId}/faults/${fault.id}`),
+  });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
   if (!open) return <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">Add fault</button>;
   return (
-    <form className="flex items-start gap-2" onSubmit={(event) => { event.preventDefault(); create.mutate(undefined, { onSuccess: () => { setName(""); setOpen(false); } }); }}>
-      <div>
-        <input className="field py-1.5" aria-label="Fault name" placeholder="Fault name" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
-        <FieldError errors={fieldErrors?.name ?? (create.error && !fieldErrors ? [create.error.message] : undefined)} />
-      </div>
-      <button className="btn-primary py-1.5" disabled={create.isPending}>Add</button>
-    </form>
+    <div className="fixed inset-0 z-40 flex items-start justify-center bg-slate-900/40 px-4 pt-24" role="dialog" aria-modal="true" aria-labelledby="new-fault-title" onClick={(event) => event.target === event.currentTarget && setOpen(false)}>
+      <form
+        className="card w-full max-w-md space-y-4 p-5"
+        data-testid="new-fault-form"
+        onSubmit={(event) => {
+          event.preventDefault();
+          create.mutate();
+        }}
+      >
+        <h3 id="new-fault-title" className="font-semibold">Add a fault</h3>
+        <div>
+          <label className="label" htmlFor="new-fault-name">Name</label>
+          <input id="new-fault-name" className="field" placeholder="e.g. QG-7" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
+          <FieldError errors={fieldErrors?.name} />
+        </div>
+        <fieldset>
+          <legend className="label">Type</legend>
+          <div className="space-y-1.5">
+            {FAULT_SENSES.map((option) => (
+              <label key={option.value} className="flex items-baseline gap-2 text-sm">
+                <input type="radio" name="fault-sense" value={option.value} checked={sense === option.value} onChange={() => setSense(option.value)} data-testid={`fault-sense-${option.value}`} />
+                <span><span className="font-medium">{option.label}</span> <span className="text-slate-500">— {option.hint}</span></span>
+              </label>
+            ))}
+          </div>
+          <FieldError errors={fieldErrors?.sense} />
+        </fieldset>
+        <div>
+          <label className="label" htmlFor="new-fault-description">Description <span className="font-normal text-slate-500">(optional)</span></label>
+          <textarea id="new-fault-description" className="field" rows={2} placeholder="Where it is, what it bounds" value={description} onChange={(event) => setDescription(event.target.value)} />
+          <FieldError errors={fieldErrors?.description} />
+        </div>
+        {create.error && !fieldErrors && <p className="field-error">{create.error.message}</p>}
+        <p className="text-xs text-slate-500">Next you upload its throw picks (a CSV) on the fault's page.</p>
+        <div className="flex justify-end gap-2">
+          <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>Cancel</button>
+          <button className="btn-primary" disabled={create.isPending} data-testid="new-fault-submit">{create.isPending ? "Adding…" : "Add fault"}</button>
+        </div>
+      </form>
+    </div>
   );
 }
 

@@ -390,6 +390,19 @@ export function niceTicks(low: number, high: number, count: number): number[] {
   return ticks;
 }
 
+/**
+ * Tick values for a colour legend over [low, high]: round values an even step apart, at most `maxCount`, never
+ * closer than the step (the ends are not added on top of the ticks).
+ */
+export function legendTicks(low: number, high: number, maxCount: number): number[] {
+  if (!(high > low)) return [];
+  for (let count = maxCount; count >= 2; count--) {
+    const ticks = niceTicks(low, high, count);
+    if (ticks.length <= maxCount) return ticks;
+  }
+  return niceTicks(low, high, 1);
+}
+
 export interface DepthLabel {
   position: [number, number, number];
   depthM: number;

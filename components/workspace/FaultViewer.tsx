@@ -7,7 +7,7 @@ import type { FaultDisplay } from "@/lib/analysis/display";
 import type { AnalysisReport } from "@/lib/engine/types";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
-import { niceStep, niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
 import { FaultView2D } from "./FaultView2D";
@@ -164,21 +164,8 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
     const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(reversed ? 1 - i / 10 : i / 10)} ${i * 10}%`);
     return `linear-gradient(to top, ${stops.join(", ")})`;
   }, [reversed]);
-  // displacement shows the contour levels; throw and other fields show round values
-  const levels = useMemo(() => {
-    if (colorMode === "displacement") {
-      const all = new Set<number>();
-      for (const segment of display.segments) for (const level of segment.contours.levelsM) all.add(level);
-      const sorted = [...all].sort((a, b) => a - b);
-      const stride = Math.ceil(sorted.length / 8);
-      const picked = sorted.filter((_, i) => i % stride === 0);
-      // the top level too, unless it would print on top of the one below it
-      const top = sorted.at(-1);
-      if (top !== undefined && top !== picked.at(-1) && (top - picked.at(-1)!) / (high - low || 1) > 0.08) picked.push(top);
-      return picked;
-    }
-    return niceTicks(low, high, 6);
-  }, [colorMode, display, high, low]);
+  // round values an even step apart, at most about seven, so labels neither crowd nor skip unevenly
+  const levels = useMemo(() => legendTicks(low, high, 7), [high, low]);
   const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
   const title = field ? `${field.label} (${field.unit})` : `${colorMode === "throw" ? "Throw" : "Displacement"} (m)`;
   return (
@@ -194,14 +181,19 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
           ))}
         </div>
       </div>
-      {colorMode === "displacement" && display.segments[0] && (
-        <div className="mt-1 text-slate-500">contours every {metres(display.segments[0].contours.intervalM, 0)}</div>
-      )}
-      {field && <div className="mt-1 max-w-40 text-slate-500">contours still show displacement</div>}
+      {display.segments.length > 0 && <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">{contourNote(display)}</div>}
+
       <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
       <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600" /> mapped limit</div>
     </div>
   );
+}
+
+/** "displacement contours every 10 m", or per segment when their intervals differ. */
+function contourNote(display: FaultDisplay): string {
+  const intervals = display.segments.map((segment) => segment.contours.intervalM);
+  if (intervals.every((interval) => interval === intervals[0])) return `displacement contours every ${metres(intervals[0], 0)}`;
+  return `displacement contours every ${display.segments.map((segment) => `${metres(segment.contours.intervalM, 0)} (${segment.id})`).join(", ")}`;
 }
 
 function HoverReadout() {

@@ -14,6 +14,7 @@ import {
   lineLiftM,
   linearToSrgb255,
   niceTicks,
+  legendTicks,
   parseCssColor,
   surfaceValueAt,
 } from "@/scene/geometry";
@@ -209,6 +210,19 @@ describe("bounds, depth labels and camera presets", () => {
   it("picks round tick values", () => {
     expect(niceTicks(1983, 2041, 6)).toEqual([1990, 2000, 2010, 2020, 2030, 2040]);
     expect(niceTicks(0, 1, 5)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
+  });
+
+  it("legend ticks are evenly spaced round values, at most the count asked for (common practice, no source)", () => {
+    expect(legendTicks(0, 81.5, 7)).toEqual([0, 20, 40, 60, 80]);
+    expect(legendTicks(10.2, 50.1, 7)).toEqual([20, 30, 40, 50]);
+    expect(legendTicks(-3.2, 0.4, 7)).toEqual([-3, -2, -1, 0]);
+    for (const [low, high] of [[0, 81.5], [10.2, 50.1], [0, 0.87], [-12, 140]]) {
+      const ticks = legendTicks(low, high, 7);
+      expect(ticks.length).toBeLessThanOrEqual(7);
+      expect(ticks.length).toBeGreaterThanOrEqual(2);
+      const steps = ticks.slice(1).map((tick, k) => tick - ticks[k]);
+      for (const step of steps) expect(step).toBeCloseTo(steps[0], 9);
+    }
   });
 
   // basis: common practice, no source (map view: looking straight down with north up on the screen)

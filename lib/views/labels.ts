@@ -17,6 +17,10 @@ export interface LabelRequest {
   /** the label's size, in pixels */
   width: number;
   height: number;
+  /** this point's marker radius, if not the common one */
+  radius?: number;
+  /** the side to try first */
+  prefer?: "above" | "right" | "below" | "left";
 }
 
 export interface LabelPlacement {
@@ -34,6 +38,13 @@ export interface LabelPlacement {
 type Side = [dx: -1 | 0 | 1, dy: -1 | 0 | 1];
 // above, right, below, left, then the four diagonals
 const SIDES: Side[] = [[0, -1], [1, 0], [0, 1], [-1, 0], [1, -1], [-1, -1], [1, 1], [-1, 1]];
+const PREFERRED: Record<NonNullable<LabelRequest["prefer"]>, Side> = { above: [0, -1], right: [1, 0], below: [0, 1], left: [-1, 0] };
+
+function sidesFor(request: LabelRequest): Side[] {
+  if (!request.prefer) return SIDES;
+  const first = PREFERRED[request.prefer];
+  return [first, ...SIDES.filter((side) => side !== first)];
+}
 
 function overlapArea(a: Rect, b: Rect): number {
   const w = Math.min(a.x1, b.x1) - Math.max(a.x0, b.x0);
@@ -59,12 +70,16 @@ function candidate(request: LabelRequest, [dx, dy]: Side, radius: number, distan
 }
 
 /**
- * Places one label per request. `radius` is the point marker's radius; `bounds` the plotting area labels must stay in.
+ * Places one label per request. `radius` is the points' marker radius; `bounds` the plotting area labels must stay in;
+ * `obstacles` other things on the picture that labels must not cover.
  */
-export function placeLabels(requests: LabelRequest[], bounds: Rect, options: { radius?: number; gap?: number } = {}): LabelPlacement[] {
-  const radius = options.radius ?? 5;
+export function placeLabels(requests: LabelRequest[], bounds: Rect, options: { radius?: number; gap?: number; obstacles?: Rect[] } = {}): LabelPlacement[] {
   const gap = options.gap ?? 3;
-  const markers: Rect[] = requests.map((r) => ({ x0: r.x - radius, y0: r.y - radius, x1: r.x + radius, y1: r.y + radius }));
+  const radiusOf = (request: LabelRequest) => request.radius ?? options.radius ?? 5;
+  const markers: Rect[] = [
+    ...requests.map((r) => ({ x0: r.x - radiusOf(r), y0: r.y - radiusOf(r), x1: r.x + radiusOf(r), y1: r.y + radiusOf(r) })),
+    ...(options.obstacles ?? []),
+  ];
   const placed: Rect[] = [];
   const cost = (box: Rect) => placed.reduce((sum, other) => sum + overlapArea(box, other), 0) + markers.reduce((sum, marker) => sum + overlapArea(box, marker), 0) + 4 * outside(box, bounds);
   return requests.map((request) => {
@@ -72,8 +87,8 @@ export function placeLabels(requests: LabelRequest[], bounds: Rect, options: { r
     let bestCost = Infinity;
     // close spots first; then further out, joined to the point by a leader line
     for (const distance of [gap, gap + request.height * 1.5, gap + request.height * 3]) {
-      for (const side of SIDES) {
-        const spot = candidate(request, side, radius, distance);
+      for (const side of sidesFor(request)) {
+        const spot = candidate(request, side, radiusOf(request), distance);
         const spotCost = cost(spot.box);
         if (spotCost === 0) {
           best = { ...spot, leader: distance > gap };

@@ -9,7 +9,9 @@ import {
   buildSurfaceMesh,
   buildTipLines,
   depthLabels,
+  contrastingLineColour,
   displayBounds,
+  framingPoints,
   frameCoordinates,
   lineLiftM,
   linearToSrgb255,
@@ -240,5 +242,45 @@ describe("bounds, depth labels and camera presets", () => {
     const direction = face.position.map((value, axis) => value - face.target[axis]);
     const length = Math.hypot(...direction);
     display.segments[0].frame.normal.forEach((component, axis) => expect(direction[axis] / length).toBeCloseTo(component, 6));
+  });
+
+  // basis: pinhole camera geometry (common practice, no source): a point is in view when its offset from the axis
+  // is at most its depth times tan(fov/2) (times the aspect ratio horizontally)
+  it("fits the camera to the fault's outline from any preset: every point in view, the widest one at the margin", () => {
+    const display = singleSegmentDisplay();
+    const points = framingPoints(display, 0);
+    const aspect = 1.65;
+    for (const preset of ["overview", "map", "faceOn", "alongStrike"] as const) {
+      const camera = presetCamera(preset, { bounds: displayBounds(display, 0), frame: display.segments[0].frame, origin: display.origin, points, aspect });
+      const forward = camera.target.map((value, axis) => value - camera.position[axis]);
+      const length = Math.hypot(...forward);
+      const back = forward.map((value) => -value / length) as [number, number, number];
+      // right = world up × back, as three.js's lookAt builds it
+      const right = [-back[1], back[0], 0];
+      const r = Math.hypot(...right) > 1e-9 ? right.map((v) => v / Math.hypot(...right)) : [1, 0, 0];
+      const up = [back[1] * r[2] - back[2] * r[1], back[2] * r[0] - back[0] * r[2], back[0] * r[1] - back[1] * r[0]];
+      const tanV = Math.tan((camera.fov / 2) * (Math.PI / 180));
+      let widest = 0;
+      for (let i = 0; i < points.length; i += 3) {
+        const relative = [0, 1, 2].map((axis) => points[i + axis] + display.origin[axis] - camera.position[axis]);
+        const depth = -(relative[0] * back[0] + relative[1] * back[1] + relative[2] * back[2]);
+        expect(depth, preset).toBeGreaterThan(0);
+        const x = (relative[0] * r[0] + relative[1] * r[1] + relative[2] * r[2]) / (depth * tanV * aspect);
+        const y = (relative[0] * up[0] + relative[1] * up[1] + relative[2] * up[2]) / (depth * tanV);
+        widest = Math.max(widest, Math.abs(x), Math.abs(y));
+      }
+      expect(widest, preset).toBeLessThanOrEqual(1 / 1.1 + 1e-6);
+      expect(widest, preset).toBeGreaterThan(1 / 1.1 - 0.02);
+    }
+  });
+
+  // basis: WCAG 2.x relative luminance and contrast ratio
+  it("draws contour lines light on the dark end of the colour scale and dark on the light end", () => {
+    expect(contrastingLineColour(interpolateViridis(0))).toBe("#f1f5f9");
+    expect(contrastingLineColour(interpolateViridis(0.15))).toBe("#f1f5f9");
+    expect(contrastingLineColour(interpolateViridis(0.85))).toBe("#0f172a");
+    expect(contrastingLineColour(interpolateViridis(1))).toBe("#0f172a");
+    expect(contrastingLineColour("#ffffff")).toBe("#0f172a");
+    expect(contrastingLineColour("#000000")).toBe("#f1f5f9");
   });
 });

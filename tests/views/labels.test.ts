@@ -39,4 +39,12 @@ describe("label placement", () => {
     for (let i = 0; i < placed.length; i++) for (let j = i + 1; j < placed.length; j++) expect(overlap(placed[i].box, placed[j].box), `${i}–${j}`).toBe(false);
     expect(placed.some((label) => label.leader)).toBe(true);
   });
+
+  it("tries the preferred side first and keeps clear of obstacles", () => {
+    const [right] = placeLabels([{ x: 200, y: 150, width: 40, height: 14, prefer: "right", radius: 9 }], bounds, { gap: 3 });
+    expect(right).toMatchObject({ x: 200 + 9 + 3, y: 150, anchor: "start" });
+    const blocked = placeLabels([{ x: 200, y: 150, width: 40, height: 14, prefer: "right" }], bounds, { obstacles: [{ x0: 205, y0: 100, x1: 300, y1: 200 }] });
+    expect(blocked[0].anchor).not.toBe("start");
+    expect(overlap(blocked[0].box, { x0: 205, y0: 100, x1: 300, y1: 200 })).toBe(false);
+  });
 });

@@ -188,7 +188,7 @@ function ContourMap({ data, stem }: { data: FaultReportData; stem: string }) {
             Plot.line(projection.contours, { x: "u", y: "depthM", z: "line", stroke: "levelM", strokeWidth: 1 }),
             Plot.line(projection.tipLines, { x: "u", y: "depthM", z: "segment", stroke: CHART.tip, strokeWidth: 2.5 }),
             Plot.dot(projection.peaks, { x: "u", y: "depthM", symbol: "diamond", r: 5, fill: "white", stroke: "currentColor" }),
-            Plot.text(projection.peaks, { x: "u", y: "depthM", text: (p: (typeof projection.peaks)[number]) => `${p.segment}: Dmax ${metres(p.displacementM)}`, dy: -12, fontWeight: 600, stroke: halo, strokeWidth: 3, paintOrder: "stroke" }),
+            Plot.text(projection.peaks, { x: "u", y: "depthM", text: (p: (typeof projection.peaks)[number]) => `${p.segment}: Dmax ${metres(p.displacementM)}`, dy: -12, fontWeight: 600, fill: "currentColor", stroke: halo, strokeWidth: 3, paintOrder: "stroke" }),
           ],
         });
       }}

@@ -19,6 +19,7 @@ import {
   type GridLike,
   type Profile,
 } from "@/lib/views/profiles";
+import { mainSvg } from "./download";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 type Mode = "centre-line" | "column-max" | "line";
@@ -232,7 +233,7 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
           style: { fontSize: "11px", background: "transparent", cursor: "crosshair", touchAction: "none" },
           x: { ...X_LABEL_BELOW, label: "s along strike (m)", domain: [sLow, sHigh] },
           y: { label: "t down dip (m)", domain: [tHigh, tLow] },
-          color: { scheme: "viridis", label: "Displacement (m)" },
+          color: { scheme: "viridis", label: "Displacement (m)", legend: true },
           marks: [
             Plot.raster(Array.from(grid.displacementM, (v) => (Number.isNaN(v) ? undefined : v)), { width: grid.columns, height: grid.rows, x1: grid.s0, x2: s1, y1: grid.t0, y2: t1, fill: (v: number | undefined) => v, imageRendering: "pixelated" }),
             Plot.line(displaySegment.tipLine, { x: "0", y: "1", stroke: CHART.tip, strokeWidth: 2 }),
@@ -243,7 +244,8 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
         });
         const x = chart.scale("x")!;
         const y = chart.scale("y")!;
-        const svg = chart instanceof SVGSVGElement ? chart : chart.querySelector("svg")!;
+        // the plot's own svg, not the colour legend's
+        const svg = chart instanceof SVGSVGElement ? chart : mainSvg(chart)!;
         const toPlane = (event: PointerEvent): [number, number] => {
           const box = svg.getBoundingClientRect();
           return [Number(x.invert!(event.clientX - box.left)), Number(y.invert!(event.clientY - box.top))];

@@ -293,7 +293,7 @@ function OrientationMarker() {
           <g key={item.name} data-axis={item.name}>
             {!item.endOn && <line x1={centre} y1={centre} x2={item.tip.x} y2={item.tip.y} stroke={item.colour} strokeWidth={2.5} strokeLinecap="round" opacity={item.z < -0.5 ? 0.55 : 1} />}
             <rect data-axis-label={item.name} x={box.x0} y={box.y0} width={box.x1 - box.x0} height={box.y1 - box.y0} rx={4} fill={item.colour} />
-            <text x={(box.x0 + box.x1) / 2} y={(box.y0 + box.y1) / 2} dy="0.35em" textAnchor="middle" fontSize={10.5} fontWeight={700} fill="#ffffff">
+            <text x={(box.x0 + box.x1) / 2} y={(box.y0 + box.y1) / 2} dy="0.35em" textAnchor="middle" fontSize={10.5} fontWeight={700} fill="#ffffff" style={{ fontFamily: "var(--font-sans, sans-serif)" }}>
               {item.label}
             </text>
           </g>

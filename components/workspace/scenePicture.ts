@@ -9,10 +9,14 @@ import { metres } from "./format";
 
 const HEADER_PX = 46;
 const FOOTER_PX = 64;
+
+/** The picture's colours follow the theme it was taken in (the lines in the view do too). */
+const PALETTES = {
+  light: { page: "#ffffff", groundTop: "#f1f5f9", groundBottom: "#e2e8f0", ink: "#0f172a", muted: "#475569", rule: "#e2e8f0", limit: "#334155", disc: "rgba(255,255,255,0.85)", discRing: "#cbd5e1", chip: "rgba(255,255,255,0.9)", chipRing: "#cbd5e1" },
+  dark: { page: "#0f172a", groundTop: "#0f172a", groundBottom: "#020617", ink: "#f1f5f9", muted: "#94a3b8", rule: "#1e293b", limit: "#cbd5e1", disc: "rgba(15,23,42,0.85)", discRing: "#334155", chip: "rgba(15,23,42,0.9)", chipRing: "#475569" },
+};
 // the app's own fonts (next/font gives them generated family names)
 const fontFamily = (element: Element, fallback: string) => getComputedStyle(element).fontFamily || fallback;
-const INK = "#0f172a";
-const MUTED = "#475569";
 
 function roundedRect(context: CanvasRenderingContext2D, x: number, y: number, width: number, height: number, radius: number) {
   context.beginPath();
@@ -43,17 +47,20 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
   out.height = Math.round((HEADER_PX + heightPx + FOOTER_PX) * scale);
   const context = out.getContext("2d");
   if (!context) return null;
+  const colours = document.documentElement.classList.contains("dark") ? PALETTES.dark : PALETTES.light;
+  const INK = colours.ink;
+  const MUTED = colours.muted;
   const FONT = fontFamily(frame, "system-ui, sans-serif");
   const mono = frame.querySelector(".num, .font-mono");
   const MONO = mono ? fontFamily(mono, "ui-monospace, monospace") : "ui-monospace, monospace";
   context.scale(scale, scale);
-  context.fillStyle = "#ffffff";
+  context.fillStyle = colours.page;
   context.fillRect(0, 0, widthPx, HEADER_PX + heightPx + FOOTER_PX);
 
-  // the view, on the viewer's light ground
+  // the view, on the viewer's ground
   const ground = context.createLinearGradient(0, HEADER_PX, 0, HEADER_PX + heightPx);
-  ground.addColorStop(0, "#f1f5f9");
-  ground.addColorStop(1, "#e2e8f0");
+  ground.addColorStop(0, colours.groundTop);
+  ground.addColorStop(1, colours.groundBottom);
   context.fillStyle = ground;
   context.fillRect(0, HEADER_PX, widthPx, heightPx);
   try {
@@ -76,9 +83,9 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
     const text = element.textContent?.trim() ?? "";
     if (kind === "segment") {
       roundedRect(context, box.x, box.y, box.width, box.height, 4);
-      context.fillStyle = "rgba(255,255,255,0.9)";
+      context.fillStyle = colours.chip;
       context.fill();
-      context.strokeStyle = "#cbd5e1";
+      context.strokeStyle = colours.chipRing;
       context.stroke();
       context.fillStyle = INK;
       context.font = `600 12px ${FONT}`;
@@ -106,9 +113,9 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
     const box = at(marker);
     context.beginPath();
     context.arc(box.x + box.width / 2, box.y + box.height / 2, box.width / 2, 0, Math.PI * 2);
-    context.fillStyle = "rgba(255,255,255,0.85)";
+    context.fillStyle = colours.disc;
     context.fill();
-    context.strokeStyle = "#cbd5e1";
+    context.strokeStyle = colours.discRing;
     context.stroke();
     try {
       context.drawImage(await svgImage(marker), box.x, box.y, box.width, box.height);
@@ -131,7 +138,7 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
   // footer: colour bar with its ticks and units, line keys, scale bar
   const legend = frame.querySelector<HTMLElement>('[data-testid="legend"]');
   const footerTop = HEADER_PX + heightPx;
-  context.strokeStyle = "#e2e8f0";
+  context.strokeStyle = colours.rule;
   context.beginPath();
   context.moveTo(0, footerTop + 0.5);
   context.lineTo(widthPx, footerTop + 0.5);
@@ -167,7 +174,7 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
     context.fillRect(keysX, footerTop + 14, 18, 4);
     context.fillStyle = MUTED;
     context.fillText("inferred tip line", keysX + 24, footerTop + 19);
-    context.strokeStyle = "#334155";
+    context.strokeStyle = colours.limit;
     context.setLineDash([4, 3]);
     context.lineWidth = 2;
     context.beginPath();

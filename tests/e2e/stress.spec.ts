@@ -40,6 +40,14 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await expect(page.getByTestId("legend-title")).toHaveText(/Slip tendency/);
   await panel.getByTestId("stress-colour-dp").click();
   await expect(page.getByTestId("legend-title")).toHaveText(/ΔP to failure.*\(MPa\)/);
+  // the colour list keeps the capital Δ (no text transform lower-cases it)
+  const chosen = await page.getByTestId("colour-mode").evaluate((select: HTMLSelectElement) => select.selectedOptions[0].textContent ?? "");
+  expect(chosen).toMatch(/^ΔP to failure/);
+  // the fault sheet names the stress state's version in words
+  await page.getByTestId("side-tab-sheet").click();
+  await expect(page.getByTestId("sheet-stress")).toContainText(/Stress state version \d+; screening only/);
+  await expect(page.getByTestId("sheet-stress")).not.toContainText("v—");
+  await page.getByTestId("side-tab-stress").click();
 
   const result = await (await page.request.get(`/api/faults/${faultId}/stress/result`)).json();
   const downloading = page.waitForEvent("download");

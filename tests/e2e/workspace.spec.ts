@@ -16,12 +16,11 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   await page.getByTestId("new-fault").click();
-  await page.getByLabel("Fault name").fill("QG-4 rework");
-  await page.getByRole("button", { name: "Add", exact: true }).click();
-  await page.getByRole("link", { name: "QG-4 rework" }).click();
+  await page.getByLabel("Name").fill("QG-4 rework");
+  await page.getByTestId("new-fault-submit").click();
+  // adding a fault opens it, ready for its picks
+  await expect(page.getByTestId("fault-title")).toHaveText("QG-4 rework");
   await expect(page.getByTestId("no-picks")).toBeVisible();
-
-  await page.getByTestId("open-upload").click();
   await page.getByTestId("pick-file").setInputFiles({ name: "qg-4-rework.csv", mimeType: "text/csv", buffer: demoCsvWithPlantedBadRow() });
   await expect(page.getByTestId("upload-preview")).toBeVisible();
   const problem = page.getByTestId("problem-row");

@@ -5,7 +5,7 @@ import { openDemoStudy, signIn } from "./helpers";
 async function openFault(page: Page, name: string, who = "viewer@quillon.test") {
   await signIn(page, who);
   await openDemoStudy(page);
-  await page.getByRole("link", { name, exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name, exact: true }).click();
   await expect(page.getByTestId("analysis-views-panel")).toBeVisible({ timeout: 60_000 });
 }
 

@@ -21,7 +21,7 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   const studyId = new URL(page.url()).pathname.split("/studies/")[1];
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await sceneReady(page);
   const faultId = new URL(page.url()).pathname.split("/faults/")[1];
 

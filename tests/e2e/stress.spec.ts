@@ -5,7 +5,7 @@ import { openDemoStudy, signIn } from "./helpers";
 test("an interpreter enters a stress state on QG-1, reads the screen with its caution, colours the surface by slip tendency and exports the triangles", async ({ page }) => {
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
   const faultId = page.url().split("/faults/")[1].split(/[?#]/)[0];
 
@@ -66,7 +66,7 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
 test("a viewer sees the screen and the caution but no stress form, and the API refuses their save", async ({ page }) => {
   await signIn(page, "viewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
   const faultId = page.url().split("/faults/")[1].split(/[?#]/)[0];
   await page.getByTestId("side-tab-stress").click();

@@ -45,7 +45,7 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
 test("a reviewer sees no upload control and the upload API refuses them", async ({ page }) => {
   await signIn(page, "reviewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-4", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-4", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible();
   await expect(page.getByTestId("open-upload")).toHaveCount(0);
   const faultId = page.url().split("/faults/")[1];
@@ -67,7 +67,7 @@ test("without WebGL the page falls back to the 2D contour map and the fault shee
   const page = await context.newPage();
   await signIn(page, "viewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible();
   const map = page.getByTestId("fault-map-2d");
   await expect(map).toBeVisible();

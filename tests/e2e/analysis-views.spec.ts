@@ -186,7 +186,16 @@ test("horizon picks: throw per horizon, throw–depth reading with its basis, ex
   await expect(tz).toHaveAttribute("data-points", "4");
   expect(await axisLabels(tz)).toMatch(/Elevation \(m, up positive\)/);
   await expect(page.getByTestId("tz-reading")).toContainText("syn-sedimentary growth");
-  await expect(page.getByTestId("tz-reading")).toContainText("Cartwright et al. (1998");
+  await expect(page.getByTestId("tz-reading")).toContainText("Cartwright et al. (1998)");
+  // the reading cites published work only
+  await expect(page.getByTestId("tz-reading")).not.toContainText(/memory|domain reference|section \d/);
+  // every horizon name beside the throw–depth points is inside the picture, none cut at its edge
+  const tzSvg = (await tz.locator("svg").last().boundingBox())!;
+  for (const horizon of ["H1", "H2", "H3", "H4"]) {
+    const label = (await tz.locator("svg").last().locator("text").filter({ hasText: new RegExp(`^${horizon}$`) }).first().boundingBox())!;
+    expect(label.x + label.width, horizon).toBeLessThanOrEqual(tzSvg.x + tzSvg.width);
+    expect(label.x, horizon).toBeGreaterThanOrEqual(tzSvg.x);
+  }
   const ei = page.getByTestId("expansion-index-chart");
   await expect(ei).toHaveAttribute("data-points", "4");
   const eiCsv = await download(page, page.getByTestId("expansion-index-chart-csv"));

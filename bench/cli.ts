@@ -14,7 +14,7 @@ import { projectToPlane } from "../lib/engine/project";
 import { displacementColumn } from "../lib/engine/displacement";
 
 const PYTHON = ["python3", "/usr/bin/python3"].find((python) => spawnSync(python, ["-c", "import scipy"], { stdio: "ignore" }).status === 0) ?? "python3";
-const BIN = path.join(__dirname, "../bin/slipfield.mjs");
+const BIN = path.join(__dirname, "../bin/slipfield.cjs");
 const runsArg = process.argv.indexOf("--runs");
 const RUNS = runsArg > 0 ? Number(process.argv[runsArg + 1]) : 7;
 

@@ -1,5 +1,5 @@
 // The command line: `slipfield analyze <file.csv | - | glob>… [--json | --format text|json|csv|geojson] [options]`.
-// Bundled by scripts/build-cli.mjs into dist/slipfield-cli.mjs (bin/slipfield.mjs runs it; `npm run analyze` too), so it
+// Bundled by scripts/build-cli.mjs into dist/slipfield-cli.cjs (bin/slipfield.cjs runs it; `npm run analyze` too), so it
 // starts without a TypeScript runner. The same file, started as a worker thread, is the helper that fits tip lines
 // while the main thread grids and contours (lib/analysis/tipline-thread.ts).
 import { readdirSync, readFileSync, statSync } from "node:fs";
@@ -189,8 +189,24 @@ function problemText(input: string, error: PickInputError): string {
   return lines.join("\n");
 }
 
+const HELPER_FROM_BYTES = 1_000_000;
+
+function sizeOf(file: string): number {
+  try {
+    return statSync(file).size;
+  } catch {
+    return 0;
+  }
+}
+
+/** This script's own file (the CommonJS bundle, or the source under tsx), which is also the helper thread's entry. */
+function thisFile(): string {
+  return __filename;
+}
+
 function readInput(input: string): string {
-  return readFileSync(input === "-" ? 0 : input, "utf8");
+  // bytes first, then one decode: a little quicker in Node 20 than asking readFileSync for text
+  return readFileSync(input === "-" ? 0 : input).toString("utf8");
 }
 
 /** Writes everything to stdout; a closed pipe (`| head`) ends the run quietly. */
@@ -214,7 +230,13 @@ export async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const several = inputs.length > 1;
-  const helper = threadedTipLineFitter(new URL(import.meta.url));
+  // A helper thread fits the tip lines while this thread grids and contours; it starts now, while this thread reads and
+  // parses. Starting a thread costs about as much as it saves on small files (measured with bench/cli.ts), so only
+  // files over a megabyte (some 20,000 picks) get one. SLIPFIELD_TIPLINE_THREAD=on or off decides it for every file.
+  const threadSetting = process.env.SLIPFIELD_TIPLINE_THREAD;
+  const useHelper = threadSetting === "on" || (threadSetting !== "off" && inputs.some((input) => input !== "-" && sizeOf(input) > HELPER_FROM_BYTES));
+  const helper = useHelper ? threadedTipLineFitter(thisFile()) : null;
+  helper?.warm();
   let status = 0;
   let written = 0;
   try {
@@ -229,7 +251,7 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, dropBadRows: options.dropBadRows, tipLineFitter: helper.fitter });
+        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
         write(render(result, input, options.format, several, written++ === 0));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;
@@ -244,7 +266,9 @@ export async function main(argv: string[]): Promise<number> {
     process.stderr.write(`analyze: unexpected failure: ${String((e as Error)?.message ?? e).split("\n")[0]}\n`);
     return 1;
   } finally {
-    void helper.close();
+    const counts = helper?.counts();
+    if (threadSetting === "on" && counts && counts.inThisThread > 0) process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
+    void helper?.close();
   }
   return status;
 }
@@ -255,7 +279,9 @@ process.stdout.on("error", (error: NodeJS.ErrnoException) => {
 });
 
 if (isMainThread) {
-  process.exitCode = await main(process.argv.slice(2));
+  void main(process.argv.slice(2)).then((status) => {
+    process.exitCode = status;
+  });
 } else {
   serveTipLineFits(workerData);
 }

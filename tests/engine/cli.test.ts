@@ -10,8 +10,8 @@ import { faultGeoJson } from "@/lib/views/geojson";
 import { gridCsv } from "@/lib/views/grid-csv";
 
 const root = path.resolve(__dirname, "../..");
-// the command as people run it: the bin entry, which runs the bundled dist/slipfield-cli.mjs
-const bin = path.join(root, "bin/slipfield.mjs");
+// the command as people run it: the bin entry, which runs the bundled dist/slipfield-cli.cjs
+const bin = path.join(root, "bin/slipfield.cjs");
 const run = (...args: string[]) => spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd: root });
 const runIn = (cwd: string, input: string | undefined, ...args: string[]) => spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd, input });
 
@@ -66,6 +66,11 @@ describe("analyze command line", () => {
     const npm = spawnSync("npm", ["run", "--silent", "analyze", "--", file, "--json"], { encoding: "utf8", cwd: root });
     expect(npm.status, npm.stderr).toBe(0);
     expect(JSON.parse(npm.stdout)).toEqual(expected);
+    // with the tip-line fits on the helper thread (the bundle started as a worker), the same report
+    const threaded = spawnSync(process.execPath, [bin, "analyze", file, "--json"], { encoding: "utf8", cwd: root, env: { ...process.env, SLIPFIELD_TIPLINE_THREAD: "on" } });
+    expect(threaded.status, threaded.stderr).toBe(0);
+    expect(threaded.stderr).toBe(""); // it says so when the helper could not be used
+    expect(JSON.parse(threaded.stdout)).toEqual(expected);
   });
 
   it("reads standard input with -, and writes the grid as CSV and the lines as GeoJSON", () => {

@@ -1,12 +1,14 @@
 #!/usr/bin/env node
-// `slipfield analyze …`: runs the bundled command line (dist/slipfield-cli.mjs), building it first when it is missing or
+"use strict";
+// `slipfield analyze …`: runs the bundled command line (dist/slipfield-cli.cjs), building it first when it is missing or
 // older than one of its sources (a fresh clone, a pull), so the command always runs the code in this checkout.
-import { existsSync, readFileSync, statSync } from "node:fs";
-import path from "node:path";
-import { pathToFileURL } from "node:url";
+// CommonJS, like the bundle: it starts sooner than an ES module.
+const { existsSync, readFileSync, statSync } = require("node:fs");
+const path = require("node:path");
+const { pathToFileURL } = require("node:url");
 
-const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
-const bundle = path.join(root, "dist/slipfield-cli.mjs");
+const root = path.resolve(__dirname, "..");
+const bundle = path.join(root, "dist/slipfield-cli.cjs");
 const inputsFile = path.join(root, "dist/slipfield-cli.inputs.json");
 
 function bundleIsCurrent() {
@@ -28,8 +30,9 @@ if (command !== "analyze" && command !== "-h" && command !== "--help") {
   process.stderr.write(`slipfield: unknown command ${command ? `"${command}"` : "(none)"}\nusage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [--json | --format text|json|csv|geojson] (slipfield analyze --help for the options)\n`);
   process.exit(2);
 }
-if (!bundleIsCurrent()) {
-  const { buildCli } = await import(pathToFileURL(path.join(root, "scripts/build-cli.mjs")).href);
-  await buildCli();
+if (bundleIsCurrent()) require(bundle);
+else {
+  import(pathToFileURL(path.join(root, "scripts/build-cli.mjs")).href)
+    .then(({ buildCli }) => buildCli())
+    .then(() => require(bundle));
 }
-await import(pathToFileURL(bundle).href);

@@ -189,16 +189,6 @@ function problemText(input: string, error: PickInputError): string {
   return lines.join("\n");
 }
 
-const HELPER_FROM_BYTES = 1_000_000;
-
-function sizeOf(file: string): number {
-  try {
-    return statSync(file).size;
-  } catch {
-    return 0;
-  }
-}
-
 /** This script's own file (the CommonJS bundle, or the source under tsx), which is also the helper thread's entry. */
 function thisFile(): string {
   return __filename;
@@ -230,12 +220,11 @@ export async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const several = inputs.length > 1;
-  // A helper thread fits the tip lines while this thread grids and contours; it starts now, while this thread reads and
-  // parses. Starting a thread costs about as much as it saves on small files (measured with bench/cli.ts), so only
-  // files over a megabyte (some 20,000 picks) get one. SLIPFIELD_TIPLINE_THREAD=on or off decides it for every file.
+  // SLIPFIELD_TIPLINE_THREAD=on: a helper thread fits the tip lines while this thread grids and contours (started now,
+  // while this thread reads and parses). Off by default: in a fresh process the helper's own start-up and colder code
+  // cost as much as the overlap saves, on 2,000 and on 100,000 picks alike (bench/cli.ts; the server's warm worker gains).
   const threadSetting = process.env.SLIPFIELD_TIPLINE_THREAD;
-  const useHelper = threadSetting === "on" || (threadSetting !== "off" && inputs.some((input) => input !== "-" && sizeOf(input) > HELPER_FROM_BYTES));
-  const helper = useHelper ? threadedTipLineFitter(thisFile()) : null;
+  const helper = threadSetting === "on" ? threadedTipLineFitter(thisFile()) : null;
   helper?.warm();
   let status = 0;
   let written = 0;

@@ -397,6 +397,10 @@ function PinMarkers({ display, pins }: { display: FaultDisplay; pins: ScenePin[]
 // ---- labels ---------------------------------------------------------------------------------------------
 
 const LABEL_Z_RANGE: [number, number] = [10, 0];
+/** room kept free at the left of a preset view for the colour legend and the depth labels beside the fault */
+const LEGEND_MARGIN_PX = 280;
+/** room kept free at the right for the orientation marker */
+const MARKER_MARGIN_PX = 120;
 
 interface SceneLabel {
   key: string;
@@ -606,6 +610,9 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
         origin: display.origin,
         points: framingPoints(display, exaggeration),
         aspect: heightPx > 0 ? widthPx / heightPx : undefined,
+        // the colour legend takes the left edge of the view and the orientation marker the right: the fault is framed between
+        leftInset: widthPx > 0 ? LEGEND_MARGIN_PX / widthPx : 0,
+        rightInset: widthPx > 0 ? MARKER_MARGIN_PX / widthPx : 0,
       }),
     [display, exaggeration, heightPx, widthPx],
   );

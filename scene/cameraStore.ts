@@ -65,10 +65,30 @@ const WORLD_UP: Vec3 = [0, 0, 1];
  */
 export function presetCamera(
   preset: CameraPreset,
-  { bounds, frame, origin, fov = DEFAULT_FOV_DEG, points, aspect = 1.6 }: { bounds: Bounds; frame: DisplayFrame; origin: Vec3; fov?: number; points?: ArrayLike<number>; aspect?: number },
+  {
+    bounds,
+    frame,
+    origin,
+    fov = DEFAULT_FOV_DEG,
+    points,
+    aspect = 1.6,
+    leftInset = 0,
+    rightInset = 0,
+  }: {
+    bounds: Bounds;
+    frame: DisplayFrame;
+    origin: Vec3;
+    fov?: number;
+    points?: ArrayLike<number>;
+    aspect?: number;
+    /** fractions of the view's width at its left and right edges to keep free (overlays sit there) */
+    leftInset?: number;
+    rightInset?: number;
+  },
 ): CameraState {
   const direction = normalize(presetDirection(preset, frame));
-  const fitted = points && points.length >= 9 ? fitToPoints(points, direction, fov, aspect) : null;
+  const clampInset = (inset: number) => Math.min(0.35, Math.max(0, inset));
+  const fitted = points && points.length >= 9 ? fitToPoints(points, direction, fov, aspect, clampInset(leftInset), clampInset(rightInset)) : null;
   if (fitted) return { position: add(fitted.position, origin), target: add(fitted.target, origin), up: [...WORLD_UP], fov };
   const centre = bounds.min.map((low, axis) => (low + bounds.max[axis]) / 2) as Vec3;
   const radius = Math.max(1, 0.5 * Math.hypot(...bounds.max.map((high, axis) => high - bounds.min[axis])));
@@ -95,8 +115,11 @@ export function screenAxes(direction: Vec3): { right: Vec3; screenUp: Vec3 } {
   return { right, screenUp: normalize(cross(direction, right)) };
 }
 
-/** Target and position that frame every point (perspective, vertical field of view `fovDeg`). */
-function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number, aspect: number): { target: Vec3; position: Vec3 } | null {
+/**
+ * Target and position that frame every point (perspective, vertical field of view `fovDeg`) in the part of the view
+ * between `leftInset` and `rightInset` (fractions of its width).
+ */
+function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number, aspect: number, leftInset: number, rightInset: number): { target: Vec3; position: Vec3 } | null {
   const { right, screenUp } = screenAxes(direction);
   const count = Math.floor(points.length / 3);
   const xs = new Float64Array(count), ys = new Float64Array(count), zs = new Float64Array(count);
@@ -117,7 +140,7 @@ function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number,
   const [xMid, yMid, zMid] = [mid(xs), mid(ys), mid(zs)];
   if (![xMid, yMid, zMid].every(Number.isFinite)) return null;
   const tanV = Math.tan(((fovDeg / 2) * Math.PI) / 180);
-  const tanH = tanV * Math.max(0.2, aspect);
+  const tanH = tanV * Math.max(0.2, aspect) * (1 - leftInset - rightInset);
   // a point at depth z (towards the camera) and offset x from the axis is in view when x ≤ (distance − z)·tan
   let distance = 0;
   for (let i = 0; i < count; i++) {
@@ -125,7 +148,9 @@ function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number,
     distance = Math.max(distance, dz + (Math.abs(xs[i] - xMid) * FIT_MARGIN) / tanH, dz + (Math.abs(ys[i] - yMid) * FIT_MARGIN) / tanV);
   }
   distance = Math.max(distance, 1);
-  const target = add(add(scale(right, xMid), scale(screenUp, yMid)), scale(direction, zMid));
+  // aim off the points' middle by half the difference of the insets, so they sit centred in the free part of the view
+  const shift = (leftInset - rightInset) * distance * tanV * Math.max(0.2, aspect);
+  const target = add(add(scale(right, xMid - shift), scale(screenUp, yMid)), scale(direction, zMid));
   return { target, position: add(target, scale(direction, distance)) };
 }
 

@@ -60,7 +60,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                   <th className="px-3 py-2 font-medium">Segments</th>
                   <th className="px-3 py-2 text-right font-medium">Dmax</th>
                   <th className="px-3 py-2 text-right font-medium">Length</th>
-                  <th className="px-5 py-2 text-right font-medium">Pick set</th>
+                  <th className="whitespace-nowrap px-5 py-2 text-right font-medium">Pick set</th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-slate-100 dark:divide-slate-800">
@@ -73,7 +73,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                     <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
-                    <td className="px-5 py-3 text-right text-xs text-slate-500">
+                    <td className="whitespace-nowrap px-5 py-3 text-right text-xs text-slate-500">
                       {fault.latestVersion ? <>v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}</> : "none yet"}
                     </td>
                   </tr>
@@ -139,7 +139,14 @@ function NewFault({ studyId }: { studyId: string }) {
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
   if (!open) return <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">Add fault</button>;
   return (
-    <div className="fixed inset-0 z-40 flex items-start justify-center bg-slate-900/40 px-4 pt-24" role="dialog" aria-modal="true" aria-labelledby="new-fault-title" onClick={(event) => event.target === event.currentTarget && setOpen(false)}>
+    <div
+      className="fixed inset-0 z-40 flex items-start justify-center bg-slate-900/40 px-4 pt-24"
+      role="dialog"
+      aria-modal="true"
+      aria-labelledby="new-fault-title"
+      onClick={(event) => event.target === event.currentTarget && setOpen(false)}
+      onKeyDown={(event) => event.key === "Escape" && setOpen(false)}
+    >
       <form
         className="card w-full max-w-md space-y-4 p-5"
         data-testid="new-fault-form"

@@ -32,11 +32,27 @@ async function svgImage(svg: SVGSVGElement): Promise<HTMLImageElement> {
   return image;
 }
 
+const nextFrame = () => new Promise((resolve) => requestAnimationFrame(resolve));
+
+/** True once the 3D view has drawn its first frame (FaultScene raises the flag), waiting up to 8 s. */
+async function sceneShown(): Promise<boolean> {
+  const until = performance.now() + 8_000;
+  while (!window.__slipfieldSceneReady) {
+    if (performance.now() > until) return false;
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+  await nextFrame();
+  await nextFrame();
+  return true;
+}
+
 /**
  * A PNG data URL of the 3D view inside `frame` (the viewer's element marked data-scene-frame), titled `title`; null when
  * there is no canvas to read.
  */
 export async function composeScenePicture(frame: HTMLElement, title: string): Promise<string | null> {
+  // a view switched on a moment ago has no frame yet (and its canvas not its final size): wait for the first frame
+  if (!(await sceneShown())) return null;
   const sceneCanvas = frame.querySelector("canvas");
   if (!sceneCanvas || sceneCanvas.clientWidth === 0) return null;
   const widthPx = sceneCanvas.clientWidth;

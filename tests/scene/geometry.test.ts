@@ -246,12 +246,14 @@ describe("bounds, depth labels and camera presets", () => {
 
   // basis: pinhole camera geometry (common practice, no source): a point is in view when its offset from the axis
   // is at most its depth times tan(fov/2) (times the aspect ratio horizontally)
-  it("fits the camera to the fault's outline from any preset: every point in view, the widest one at the margin", () => {
+  it("fits the camera to the fault's outline from any preset: every point in view right of the legend's strip, the widest one at the margin", () => {
     const display = singleSegmentDisplay();
     const points = framingPoints(display, 0);
     const aspect = 1.65;
+    const leftInset = 0.25;
+    const rightInset = 0.1;
     for (const preset of ["overview", "map", "faceOn", "alongStrike"] as const) {
-      const camera = presetCamera(preset, { bounds: displayBounds(display, 0), frame: display.segments[0].frame, origin: display.origin, points, aspect });
+      const camera = presetCamera(preset, { bounds: displayBounds(display, 0), frame: display.segments[0].frame, origin: display.origin, points, aspect, leftInset, rightInset });
       const forward = camera.target.map((value, axis) => value - camera.position[axis]);
       const length = Math.hypot(...forward);
       const back = forward.map((value) => -value / length) as [number, number, number];
@@ -261,16 +263,24 @@ describe("bounds, depth labels and camera presets", () => {
       const up = [back[1] * r[2] - back[2] * r[1], back[2] * r[0] - back[0] * r[2], back[0] * r[1] - back[1] * r[0]];
       const tanV = Math.tan((camera.fov / 2) * (Math.PI / 180));
       let widest = 0;
+      let leftmost = Infinity;
+      let rightmost = -Infinity;
       for (let i = 0; i < points.length; i += 3) {
         const relative = [0, 1, 2].map((axis) => points[i + axis] + display.origin[axis] - camera.position[axis]);
         const depth = -(relative[0] * back[0] + relative[1] * back[1] + relative[2] * back[2]);
         expect(depth, preset).toBeGreaterThan(0);
         const x = (relative[0] * r[0] + relative[1] * r[1] + relative[2] * r[2]) / (depth * tanV * aspect);
         const y = (relative[0] * up[0] + relative[1] * up[1] + relative[2] * up[2]) / (depth * tanV);
-        widest = Math.max(widest, Math.abs(x), Math.abs(y));
+        // x in the free part of the view, re-centred: −1 at the left strip's edge, 1 at the right strip's
+        const free = (x - (leftInset - rightInset)) / (1 - leftInset - rightInset);
+        leftmost = Math.min(leftmost, x);
+        rightmost = Math.max(rightmost, x);
+        widest = Math.max(widest, Math.abs(free), Math.abs(y));
       }
-      expect(widest, preset).toBeLessThanOrEqual(1 / 1.1 + 1e-6);
-      expect(widest, preset).toBeGreaterThan(1 / 1.1 - 0.02);
+      expect(leftmost, preset).toBeGreaterThan(-1 + 2 * leftInset - 0.02);
+      expect(rightmost, preset).toBeLessThan(1 - 2 * rightInset + 0.02);
+      expect(widest, preset).toBeLessThanOrEqual(1 / 1.1 + 0.02);
+      expect(widest, preset).toBeGreaterThan(1 / 1.1 - 0.05);
     }
   });
 

@@ -1,5 +1,5 @@
 import { expect, test, type Locator, type Page } from "@playwright/test";
-import { openDemoStudy, signIn } from "./helpers";
+import { openDemoStudy, pictureStats, signIn } from "./helpers";
 
 // What a new user meets in the first hour: the favicon, adding a fault and landing on it ready to upload (with the
 // demo files offered), recent activity in sentences, the shared view's notes and replies, figures that stand alone in
@@ -7,6 +7,14 @@ import { openDemoStudy, signIn } from "./helpers";
 
 const sceneReady = (page: Page) =>
   page.waitForFunction(() => (window as unknown as { __slipfieldSceneReady?: boolean }).__slipfieldSceneReady === true, null, { timeout: 60_000 });
+
+/** Signs in, opens the demo study's fault and waits for its 3D view's first frame. */
+async function openFaultScene(page: Page, who: string, fault: string) {
+  await signIn(page, who);
+  await openDemoStudy(page);
+  await page.getByTestId("fault-table").getByRole("link", { name: fault, exact: true }).click();
+  await sceneReady(page);
+}
 
 type Box = { x: number; y: number; width: number; height: number };
 const overlaps = (a: Box, b: Box) => a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height;
@@ -22,39 +30,6 @@ async function boxes(locator: Locator): Promise<Box[]> {
 
 function expectNoOverlap(found: Box[], what: string) {
   for (let i = 0; i < found.length; i++) for (let j = i + 1; j < found.length; j++) expect(overlaps(found[i], found[j]), `${what} ${i} and ${j} overlap`).toBe(false);
-}
-
-/**
- * The fraction of the picture's height between the first and last row holding strongly coloured pixels (the surface's
- * colours and the amber tip line; the grey ground and slate labels are not), ignoring the legend's column at the left.
- */
-async function colouredSpan(page: Page, png: Buffer): Promise<number> {
-  return page.evaluate(async (base64) => {
-    const image = new Image();
-    image.src = `data:image/png;base64,${base64}`;
-    await image.decode();
-    const canvas = document.createElement("canvas");
-    canvas.width = image.width;
-    canvas.height = image.height;
-    const context = canvas.getContext("2d")!;
-    context.drawImage(image, 0, 0);
-    const { data } = context.getImageData(0, 0, image.width, image.height);
-    const skipLeft = Math.round(image.width * 0.22);
-    let top = -1, bottom = -1;
-    for (let y = 0; y < image.height; y++) {
-      let coloured = 0;
-      for (let x = skipLeft; x < image.width * 0.85; x++) {
-        const i = (y * image.width + x) * 4;
-        const [r, g, b] = [data[i], data[i + 1], data[i + 2]];
-        if (Math.max(r, g, b) - Math.min(r, g, b) > 60) coloured++;
-      }
-      if (coloured >= 3) {
-        if (top < 0) top = y;
-        bottom = y;
-      }
-    }
-    return top < 0 ? 0 : (bottom - top) / image.height;
-  }, png.toString("base64"));
 }
 
 // a database id (26 lower-case letters and digits) or the start of a UUID
@@ -157,10 +132,7 @@ test("the shared view renders a note's bold and shows the replies when the link 
 });
 
 test("the printable report's figures stand alone: the contour map puts both segments side by side, the 3D picture carries its legend, labels and scale", async ({ page }) => {
-  await signIn(page, "viewer@quillon.test");
-  await openDemoStudy(page);
-  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
-  await sceneReady(page);
+  await openFaultScene(page, "viewer@quillon.test", "QG-1");
   await page.getByTestId("view-tab-export").click();
   const [report] = await Promise.all([page.waitForEvent("popup"), page.getByTestId("open-report").click()]);
   await report.waitForURL(/\/report\?analysis=/);
@@ -190,14 +162,11 @@ test("the printable report's figures stand alone: the contour map puts both segm
 });
 
 test("3D view: along strike the fault fills the view and its labels keep apart; the orientation marker names every axis it draws", async ({ page }) => {
-  await signIn(page, "viewer@quillon.test");
-  await openDemoStudy(page);
-  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
-  await sceneReady(page);
+  await openFaultScene(page, "viewer@quillon.test", "QG-1");
   await page.getByTestId("camera-alongStrike").click();
   // the camera is fitted to the fault's outline: the coloured surface and tip lines span most of the canvas height
   await page.waitForTimeout(500);
-  expect(await colouredSpan(page, await page.getByTestId("fault-scene").locator("canvas").screenshot())).toBeGreaterThan(0.5);
+  expect((await pictureStats(page, await page.getByTestId("fault-scene").locator("canvas").screenshot())).colouredSpan).toBeGreaterThan(0.5);
   const segmentLabels = await boxes(page.locator("[data-scene-label='segment'], [data-scene-label='peak']"));
   expect(segmentLabels).toHaveLength(4);
   expectNoOverlap(segmentLabels, "scene label");

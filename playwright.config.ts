@@ -44,7 +44,6 @@ export default defineConfig({
       AUTH_SECRET: "e2e-secret-not-for-production-0123456789",
       NEXT_TELEMETRY_DISABLED: "1",
       PORT: String(port),
-      SLIPFIELD_OUTBOX: "on",
     },
   },
 });

@@ -7,9 +7,18 @@ import { requireUser } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import type { SessionUser } from "@/lib/auth/users";
 
-/** The outbox page exists in development, or in a production build when SLIPFIELD_OUTBOX=on (browser tests). */
+/** True when no mail transport is configured: e-mail is only stored in the outbox table, nothing leaves the machine. */
+export function mailStaysLocal(env: NodeJS.ProcessEnv = process.env) {
+  return !env.SMTP_URL;
+}
+
+/**
+ * The outbox page exists whenever e-mail stays on this machine (no SMTP_URL: it is the only place to read it), in
+ * development, or when SLIPFIELD_OUTBOX=on; SLIPFIELD_OUTBOX=off hides it.
+ */
 export function outboxEnabled(env: NodeJS.ProcessEnv = process.env) {
-  return env.NODE_ENV !== "production" || env.SLIPFIELD_OUTBOX === "on";
+  if (env.SLIPFIELD_OUTBOX === "off") return false;
+  return mailStaysLocal(env) || env.NODE_ENV !== "production" || env.SLIPFIELD_OUTBOX === "on";
 }
 
 export async function ownsAnyStudy(userId: string) {

@@ -2,10 +2,12 @@ import "server-only";
 import { and, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, auditLog, faults, memberships, pickSets, studies, studyRole, users, type StudyRole } from "@/db/schema";
+import { analyses, faults, memberships, pickSets, studies, studyRole, users, type StudyRole } from "@/db/schema";
 import { changingRoles, type StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
+import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
+import { FAULT_SENSE_VALUES } from "@/lib/fault-types";
 import { emailSchema, type SessionUser } from "@/lib/auth/users";
 
 export const studyInputSchema = z.object({
@@ -22,7 +24,7 @@ export const faultInputSchema = z.object({
     .max(80, "Use at most 80 characters.")
     .regex(/^[\w .\-/()]+$/, "Use letters, digits, spaces and . - / ( ) only."),
   description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
-  sense: z.enum(["normal", "reverse"]).default("normal"),
+  sense: z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(" or ")}.` }).default("normal"),
 });
 export const faultPatchSchema = faultInputSchema.partial();
 
@@ -89,23 +91,7 @@ export async function getStudyOverview(access: StudyAccess) {
   const db = await getDb();
   const study = await db.query.studies.findFirst({ where: eq(studies.id, access.studyId) });
   if (!study) throw new ApiError(404, "Study not found.");
-  const [faultRows, people, activity] = await Promise.all([
-    listFaults(access.studyId),
-    listMembers(access.studyId),
-    db
-      .select({
-        id: auditLog.id,
-        action: auditLog.action,
-        target: auditLog.target,
-        createdAt: auditLog.createdAt,
-        userName: users.name,
-      })
-      .from(auditLog)
-      .leftJoin(users, eq(users.id, auditLog.userId))
-      .where(eq(auditLog.studyId, access.studyId))
-      .orderBy(desc(auditLog.createdAt))
-      .limit(20),
-  ]);
+  const [faultRows, people, activity] = await Promise.all([listFaults(access.studyId), listMembers(access.studyId), studyActivity(access.studyId)]);
   return { study, role: access.role, faults: faultRows, people, activity };
 }
 
@@ -195,7 +181,7 @@ export async function createFault(access: StudyAccess, input: z.infer<typeof fau
   const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, input.name)) });
   if (clash) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   const [fault] = await db.insert(faults).values({ ...input, studyId: access.studyId, createdBy: access.user.id }).returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.create", target: fault.name });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.create", target: fault.name, details: { faultId: fault.id } });
   return fault;
 }
 
@@ -213,14 +199,14 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: z
     if (clash && clash.id !== faultId) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   }
   const [updated] = await db.update(faults).set(patch).where(eq(faults.id, faultId)).returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.update", target: updated.name, details: patch });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.update", target: updated.name, details: { ...patch, faultId } });
   return updated;
 }
 
 export async function deleteFault(access: StudyAccess, faultId: string) {
   const db = await getDb();
   const [deleted] = await changingRoles(() => db.delete(faults).where(eq(faults.id, faultId)).returning({ name: faults.name }));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.delete", target: deleted?.name ?? faultId });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.delete", target: deleted?.name ?? "", details: { faultId } });
 }
 
 export async function changeRole(access: StudyAccess, userId: string, role: StudyRole) {

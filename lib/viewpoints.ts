@@ -1,9 +1,9 @@
 import "server-only";
 import { createHash, randomBytes } from "node:crypto";
-import { and, asc, desc, eq, isNull } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, base64Bytes, faults, pickSets, pins, users, viewpointLinks, viewpoints, type ViewpointLink } from "@/db/schema";
+import { analyses, base64Bytes, faults, pickSets, pinReplies, pins, users, viewpointLinks, viewpoints, type ViewpointLink } from "@/db/schema";
 import { requireFaultRole, requireUser, roleAllows, type StudyAccess } from "@/lib/access";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -160,7 +160,7 @@ export async function deleteViewpoint({ access, viewpoint }: ViewpointAccess) {
   assertMayChange(access, viewpoint.createdBy, "delete it");
   const db = await getDb();
   await db.delete(viewpoints).where(eq(viewpoints.id, viewpointId));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint.delete", target: viewpointId, details: { title: viewpoint.title } });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint.delete", target: viewpointId, details: { title: viewpoint.title, faultId: viewpoint.faultId } });
 }
 
 // ---- links ---------------------------------------------------------------------------------------------------
@@ -236,7 +236,7 @@ export async function revokeViewpointLink(linkId: string) {
     .set({ revokedAt: new Date() })
     .where(and(eq(viewpointLinks.id, linkId), isNull(viewpointLinks.revokedAt)))
     .returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint-link.revoke", target: linkId });
+  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint-link.revoke", target: linkId, details: { viewpointId: link.viewpointId } });
   return describeLink(revoked ?? link, true);
 }
 
@@ -266,6 +266,12 @@ const GONE: Record<"not-found" | "revoked" | "expired", { status: number; messag
   revoked: { status: 410, message: "This link was revoked." },
   expired: { status: 410, message: "This link has expired." },
 };
+
+/** The HTTP status a link's state answers with (the link page and the token routes agree). */
+export async function linkStateResponse(token: string): Promise<{ status: number; state: PublicLinkLookup["state"] }> {
+  const { state } = await lookupLinkToken(token);
+  return { state, status: state === "active" ? 200 : GONE[state].status };
+}
 
 export function linkGoneError(state: "not-found" | "revoked" | "expired") {
   return new ApiError(GONE[state].status, GONE[state].message, { state });
@@ -306,7 +312,19 @@ export interface PublicViewpoint {
   viewpoint: { title: string; note: string; camera: ViewpointInput["camera"]; settings: ViewpointInput["settings"] };
   link: { includePins: boolean; expiresAt: string | null };
   analysis: { pickSetVersion: number; report: AnalysisReport } | null;
-  pins: { id: string; x: number; y: number; z: number; body: string; state: "open" | "resolved"; pickSetVersion: number | null }[] | null;
+  /** with their replies; no authors: the link shows the notes, not the study's people */
+  pins: (PublicPinFields & { replies: { body: string; createdAt: string }[] })[] | null;
+}
+
+interface PublicPinFields {
+  id: string;
+  x: number;
+  y: number;
+  z: number;
+  body: string;
+  state: "open" | "resolved";
+  pickSetVersion: number | null;
+  createdAt: string;
 }
 
 /** Everything the link page shows, and only that: one fault's name, the saved view, the surface's report, pins if included. */
@@ -317,11 +335,23 @@ export async function publicViewpoint(token: string): Promise<PublicViewpoint> {
   const analysis = latest ? await db.query.analyses.findFirst({ where: eq(analyses.id, latest.id), columns: { result: true } }) : null;
   let pinRows: PublicViewpoint["pins"] = null;
   if (link.includePins) {
-    pinRows = await db
-      .select({ id: pins.id, x: pins.x, y: pins.y, z: pins.z, body: pins.body, state: pins.state, pickSetVersion: pins.pickSetVersion })
+    const rows = await db
+      .select({ id: pins.id, x: pins.x, y: pins.y, z: pins.z, body: pins.body, state: pins.state, pickSetVersion: pins.pickSetVersion, createdAt: pins.createdAt })
       .from(pins)
       .where(and(eq(pins.faultId, fault.id), isNull(pins.deletedAt)))
       .orderBy(asc(pins.createdAt));
+    const replies = rows.length
+      ? await db
+          .select({ pinId: pinReplies.pinId, body: pinReplies.body, createdAt: pinReplies.createdAt })
+          .from(pinReplies)
+          .where(and(inArray(pinReplies.pinId, rows.map((row) => row.id)), isNull(pinReplies.deletedAt)))
+          .orderBy(asc(pinReplies.createdAt))
+      : [];
+    pinRows = rows.map((row) => ({
+      ...row,
+      createdAt: row.createdAt.toISOString(),
+      replies: replies.filter((reply) => reply.pinId === row.id).map((reply) => ({ body: reply.body, createdAt: reply.createdAt.toISOString() })),
+    }));
   }
   return {
     fault: { name: fault.name, sense: fault.sense },

@@ -5,7 +5,7 @@
 // per frame.
 import { useCallback, useEffect, useMemo, useRef, type DependencyList } from "react";
 import { Canvas, useFrame, useThree, type ThreeEvent } from "@react-three/fiber";
-import { AdaptiveDpr, GizmoHelper, GizmoViewport, Html, Line, OrbitControls } from "@react-three/drei";
+import { AdaptiveDpr, Html, Line, OrbitControls } from "@react-three/drei";
 import * as THREE from "three";
 import type { OrbitControls as OrbitControlsImpl } from "three-stdlib";
 import type { DisplaySegment, FaultDisplay, Vec3 } from "@/lib/analysis/display";
@@ -24,8 +24,15 @@ import {
   residualRangeM,
   surfaceValueAt,
   buildTipLines,
+  contrastingLineColour,
+  DARK_LINE,
+  framingPoints,
+  LIGHT_LINE,
+  surfaceInterpolator,
   type ColorMode,
 } from "./geometry";
+import { placeLabels, type LabelRequest, type Rect } from "@/lib/views/labels";
+import { useDarkMode } from "./useDarkMode";
 import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore, type CameraState } from "./cameraStore";
 import { useLayerVisible, useViewSettings } from "./viewSettingsStore";
 import { useOverlayStore } from "./overlayStore";
@@ -71,9 +78,9 @@ declare global {
 }
 
 const COLORS = {
-  contour: "#0f172a",
   tipLine: "#f08c00",
-  mappedLimit: "#334155",
+  // the dashed mapped limit runs along the data's edge, between the darkest surface colours and the page: it follows the theme
+  mappedLimit: { light: "#334155", dark: "#cbd5e1" },
   peak: "#ffffff",
   pinOpen: "#2f978f",
   pinResolved: "#94a3b8",
@@ -95,9 +102,6 @@ export default function FaultScene({ display, pins, onSurfaceClick, initialCamer
       <SceneLights />
       <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} />
       <OrbitControlsRig display={display} initialCamera={initialCamera} />
-      <GizmoHelper alignment="bottom-right" margin={[64, 64]}>
-        <GizmoViewport labels={["E", "N", "Up"]} axisColors={["#c2410c", "#0f766e", "#475569"]} labelColor="#ffffff" />
-      </GizmoHelper>
       <FrameProbe />
     </Canvas>
   );
@@ -141,7 +145,7 @@ function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "i
             onSurfaceClick={onSurfaceClick}
           />
         ))}
-      {showContours && <ContourLines display={display} exaggeration={exaggeration} />}
+      {showContours && <ContourLines display={display} exaggeration={exaggeration} onDisplacementColours={colorMode === "displacement"} />}
       {showTipLine && <TipLines display={display} />}
       {showMappedLimit && <MappedLimitLines display={display} exaggeration={exaggeration} />}
       {showPicks && display.picks.count > 0 && <PickPoints display={display} exaggeration={exaggeration} />}
@@ -263,11 +267,27 @@ function SegmentSurface({
 
 // ---- lines ----------------------------------------------------------------------------------------------
 
-function ContourLines({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
-  const geometry = useDisposable(() => bufferGeometry(buildContourLines(display, exaggeration)), [display, exaggeration]);
+/**
+ * Contours are drawn in a colour that stands out on the surface under them: over the displacement colours each level
+ * gets a dark or light line by the colour at that level (viridis runs dark to light); over other colourings, whose
+ * colour at a contour is not its level's, the line follows the theme.
+ */
+function ContourLines({ display, exaggeration, onDisplacementColours }: { display: FaultDisplay; exaggeration: number; onDisplacementColours: boolean }) {
+  const dark = useDarkMode();
+  const geometry = useDisposable(() => {
+    const [low, high] = display.displacementRangeM;
+    const colour = new THREE.Color();
+    const themeLine = dark ? LIGHT_LINE : DARK_LINE;
+    const colourOf = (levelM: number): [number, number, number] => {
+      const css = onDisplacementColours ? contrastingLineColour(surfaceInterpolator(high > low ? Math.min(1, Math.max(0, (levelM - low) / (high - low))) : 0.5)) : themeLine;
+      colour.set(css);
+      return [colour.r, colour.g, colour.b];
+    };
+    return bufferGeometry(buildContourLines(display, exaggeration, colourOf));
+  }, [display, exaggeration, onDisplacementColours, dark]);
   return (
     <lineSegments geometry={geometry} renderOrder={1}>
-      <lineBasicMaterial color={COLORS.contour} transparent opacity={0.7} />
+      <lineBasicMaterial vertexColors transparent opacity={0.75} />
     </lineSegments>
   );
 }
@@ -281,6 +301,7 @@ function TipLines({ display }: { display: FaultDisplay }) {
 function MappedLimitLines({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {
   const points = useMemo(() => Array.from(buildMappedLimitLines(display, exaggeration).positions), [display, exaggeration]);
   const dashM = displayExtentM(display) / 80;
+  const dark = useDarkMode();
   if (points.length === 0) return null;
   return (
     <Line
@@ -289,7 +310,7 @@ function MappedLimitLines({ display, exaggeration }: { display: FaultDisplay; ex
       dashSize={dashM}
       gapSize={dashM * 0.7}
       points={points}
-      color={COLORS.mappedLimit}
+      color={dark ? COLORS.mappedLimit.dark : COLORS.mappedLimit.light}
       lineWidth={1.5}
       renderOrder={2}
     />
@@ -376,44 +397,134 @@ function PinMarkers({ display, pins }: { display: FaultDisplay; pins: ScenePin[]
 // ---- labels ---------------------------------------------------------------------------------------------
 
 const LABEL_Z_RANGE: [number, number] = [10, 0];
+/** room kept free at the left of a preset view for the colour legend and the depth labels beside the fault */
+const LEGEND_MARGIN_PX = 280;
+/** room kept free at the right for the orientation marker */
+const MARKER_MARGIN_PX = 120;
 
+interface SceneLabel {
+  key: string;
+  position: Vec3;
+  text: string;
+  kind: "segment" | "peak";
+}
+
+/**
+ * Segment names (above the top of each tip line) and peak values (beside each peak marker). Each frame in which the
+ * camera moved, the labels are projected to the screen and moved, by their own style only (no React state), to the
+ * nearest spot where they cover no other label, peak marker or depth label: seen along strike, the segments' labels
+ * would otherwise print over each other.
+ */
 function SegmentLabels({ display }: { display: FaultDisplay }) {
   const exaggeration = useViewSettings((state) => state.exaggeration);
   const showPeak = useLayerVisible("maxMarker");
   const lift = lineLiftM(display);
-  const labels = useMemo(
-    () =>
-      display.segments.map((segment) => {
-        // above the shallowest point of the tip line
-        const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
-        const point = new Float32Array(3);
-        const peak = new Float32Array(3);
-        planePointLocal(segment, top[0], top[1], lift, point);
-        planePointLocal(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, peak);
-        return { segment, title: [point[0], point[1], point[2]] as Vec3, peak: [peak[0], peak[1], peak[2]] as Vec3 };
-      }),
-    [display, exaggeration, lift],
-  );
+  const labels = useMemo(() => {
+    const out: SceneLabel[] = [];
+    for (const segment of display.segments) {
+      const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
+      const point = new Float32Array(3);
+      planePointLocal(segment, top[0], top[1], lift, point);
+      out.push({ key: `${segment.id}:segment`, kind: "segment", text: `Segment ${segment.id}`, position: [point[0], point[1], point[2]] });
+      if (showPeak) {
+        planePointLocal(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point);
+        out.push({ key: `${segment.id}:peak`, kind: "peak", text: `Peak ${formatMetres(segment.max.displacementM)}`, position: [point[0], point[1], point[2]] });
+      }
+    }
+    return out;
+  }, [display, exaggeration, lift, showPeak]);
+  const elements = useRef(new Map<string, HTMLDivElement>());
+  useLabelDeclutter(labels, elements);
   return (
     <>
-      {labels.map(({ segment, title, peak }) => (
-        <group key={segment.id}>
-          <Html position={title} center zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
-            <div className="-translate-y-4 whitespace-nowrap rounded bg-white/85 px-1.5 py-0.5 text-xs font-semibold text-slate-800 shadow-sm ring-1 ring-slate-300 dark:bg-slate-900/85 dark:text-slate-100 dark:ring-slate-600">
-              Segment {segment.id}
-            </div>
-          </Html>
-          {showPeak && (
-            <Html position={peak} zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
-              <div className="ml-3 -mt-2.5 whitespace-nowrap rounded bg-slate-900/75 px-1 text-[11px] font-medium text-white">
-                Peak {formatMetres(segment.max.displacementM)}
-              </div>
-            </Html>
-          )}
-        </group>
+      {labels.map((label) => (
+        <Html key={label.key} position={label.position} center zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+          <div
+            ref={(element) => {
+              if (element) elements.current.set(label.key, element);
+              else elements.current.delete(label.key);
+            }}
+            data-scene-label={label.kind}
+            className={
+              label.kind === "segment"
+                ? "whitespace-nowrap rounded bg-white/85 px-1.5 py-0.5 text-xs font-semibold text-slate-800 shadow-sm ring-1 ring-slate-300 dark:bg-slate-900/85 dark:text-slate-100 dark:ring-slate-600"
+                : "whitespace-nowrap rounded bg-slate-900/75 px-1 text-[11px] font-medium text-white"
+            }
+          >
+            {label.text}
+          </div>
+        </Html>
       ))}
     </>
   );
+}
+
+const PEAK_MARKER_RADIUS_PX = 10;
+
+function useLabelDeclutter(labels: SceneLabel[], elements: React.RefObject<Map<string, HTMLDivElement>>) {
+  const camera = useThree((state) => state.camera);
+  const size = useThree((state) => state.size);
+  const canvas = useThree((state) => state.gl.domElement);
+  const invalidate = useThree((state) => state.invalidate);
+  const lastMatrix = useRef<THREE.Matrix4 | null>(null);
+  const lastLabels = useRef<SceneLabel[] | null>(null);
+  const waitedFrames = useRef(0);
+  const projected = useMemo(() => new THREE.Vector3(), []);
+  useFrame(() => {
+    const moved = !lastMatrix.current || !lastMatrix.current.equals(camera.matrixWorld) || lastLabels.current !== labels;
+    if (!moved) return;
+    // the labels' HTML mounts after the first frames: until every one can be measured, look again next frame
+    const measurable = labels.every((label) => (elements.current.get(label.key)?.offsetWidth ?? 0) > 0);
+    if (!measurable && waitedFrames.current < 120) {
+      waitedFrames.current += 1;
+      invalidate();
+      return;
+    }
+    waitedFrames.current = 0;
+    lastMatrix.current = camera.matrixWorld.clone();
+    lastLabels.current = labels;
+    const requests: (LabelRequest & { element: HTMLDivElement })[] = [];
+    for (const label of labels) {
+      const element = elements.current.get(label.key);
+      if (!element || element.offsetWidth === 0) continue;
+      projected.set(...label.position).project(camera);
+      if (projected.z > 1) continue;
+      requests.push({
+        element,
+        x: ((projected.x + 1) / 2) * size.width,
+        y: ((1 - projected.y) / 2) * size.height,
+        width: element.offsetWidth,
+        height: element.offsetHeight,
+        radius: label.kind === "peak" ? PEAK_MARKER_RADIUS_PX : 0,
+        prefer: label.kind === "peak" ? "right" : "above",
+      });
+    }
+    // the depth labels stay where they are, and so do the legend, scale bar and orientation marker over the canvas
+    // (marked data-scene-overlay inside the viewer's data-scene-frame); the other labels keep clear of them
+    const frame = canvas.getBoundingClientRect();
+    const container = canvas.closest("[data-scene-frame]") ?? canvas.parentElement;
+    const relative = (element: HTMLElement): Rect => {
+      const box = element.getBoundingClientRect();
+      return { x0: box.left - frame.left, y0: box.top - frame.top, x1: box.right - frame.left, y1: box.bottom - frame.top };
+    };
+    const obstacles: Rect[] = [];
+    // a depth label that would start left of the canvas (the fault fills the view) slides right until it is inside
+    for (const element of container?.querySelectorAll<HTMLElement>("[data-scene-label='depth']") ?? []) {
+      element.style.transform = "";
+      const box = relative(element);
+      const shift = Math.max(0, -box.x0 + 2);
+      if (shift > 0) element.style.transform = `translateX(${shift.toFixed(1)}px)`;
+      obstacles.push({ ...box, x0: box.x0 + shift, x1: box.x1 + shift });
+    }
+    for (const element of container?.querySelectorAll<HTMLElement>("[data-scene-overlay]") ?? []) obstacles.push(relative(element));
+    const placed = placeLabels(requests, { x0: 0, y0: 0, x1: size.width, y1: size.height }, { gap: 4, obstacles });
+    placed.forEach((placement, index) => {
+      const { element, x, y } = requests[index];
+      const dx = (placement.box.x0 + placement.box.x1) / 2 - x;
+      const dy = (placement.box.y0 + placement.box.y1) / 2 - y;
+      element.style.transform = `translate(${dx.toFixed(1)}px, ${dy.toFixed(1)}px)`;
+    });
+  });
 }
 
 function planePointLocal(segment: DisplaySegment, s: number, t: number, h: number, out: Float32Array) {
@@ -429,9 +540,11 @@ function DepthLabels({ display }: { display: FaultDisplay }) {
     <>
       {labels.map(({ position, depthM }) => (
         <Html key={depthM} position={position} zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
-          <div className="flex -translate-x-full -translate-y-1/2 items-center gap-1 whitespace-nowrap font-mono text-[10px] text-slate-600 dark:text-slate-300">
+          <div className="-translate-x-full -translate-y-1/2">
+          <div data-scene-label="depth" className="flex items-center gap-1 whitespace-nowrap rounded bg-white/60 px-0.5 font-mono text-[10px] text-slate-600 dark:bg-slate-900/60 dark:text-slate-300">
             {formatMetres(depthM)} depth
             <span className="inline-block h-px w-2 bg-slate-500" />
+          </div>
           </div>
         </Html>
       ))}
@@ -457,6 +570,7 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
     const distance = camera.position.distanceTo(controls.target);
     const visibleHeightM = 2 * distance * Math.tan(THREE.MathUtils.degToRad(camera.fov / 2));
     useOverlayStore.getState().setMetresPerPixel(visibleHeightM / heightPx);
+    useOverlayStore.getState().setAxes(screenAxesOf(camera));
   }, [camera, controls, heightPx]);
 
   const recordCamera = useCallback(() => {
@@ -487,10 +601,20 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
     [camera, controls, invalidate, ox, oy, oz, publishScale],
   );
 
+  const widthPx = useThree((state) => state.size.width);
   const presetFor = useCallback(
     (preset: Parameters<typeof presetCamera>[0]) =>
-      presetCamera(preset, { bounds: displayBounds(display, exaggeration), frame: display.segments[0].frame, origin: display.origin }),
-    [display, exaggeration],
+      presetCamera(preset, {
+        bounds: displayBounds(display, exaggeration),
+        frame: display.segments[0].frame,
+        origin: display.origin,
+        points: framingPoints(display, exaggeration),
+        aspect: heightPx > 0 ? widthPx / heightPx : undefined,
+        // the colour legend takes the left edge of the view and the orientation marker the right: the fault is framed between
+        leftInset: widthPx > 0 ? LEGEND_MARGIN_PX / widthPx : 0,
+        rightInset: widthPx > 0 ? MARKER_MARGIN_PX / widthPx : 0,
+      }),
+    [display, exaggeration, heightPx, widthPx],
   );
 
   useEffect(() => {
@@ -533,6 +657,15 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
       onChange={recordCamera}
     />
   );
+}
+
+/** The world axes on the screen: x right, y down, z towards the viewer (from the camera's rotation). */
+function screenAxesOf(camera: THREE.Camera) {
+  const right = new THREE.Vector3(1, 0, 0).applyQuaternion(camera.quaternion);
+  const up = new THREE.Vector3(0, 1, 0).applyQuaternion(camera.quaternion);
+  const back = new THREE.Vector3(0, 0, 1).applyQuaternion(camera.quaternion);
+  const axis = (index: 0 | 1 | 2): [number, number, number] => [right.getComponent(index), -up.getComponent(index), back.getComponent(index)];
+  return { east: axis(0), north: axis(1), up: axis(2) };
 }
 
 /** Raises the readiness flag browser tests wait on, once the first frame is on screen. */

@@ -218,7 +218,11 @@ export function surfaceValueAt(grid: DisplayGrid, values: Float32Array, s: numbe
  * All contour rings of all segments as one segment list. A contour at level L sits where the surface shows
  * L, so its height off the plane is L·exaggeration, plus the lift.
  */
-export function buildContourLines(display: FaultDisplay, exaggeration: number): LineArrays {
+/**
+ * Every contour ring of every segment as one line-segment list. With `colourOf`, each line gets a vertex colour
+ * (linear RGB) chosen from its level, e.g. one that stands out on the surface colour at that level.
+ */
+export function buildContourLines(display: FaultDisplay, exaggeration: number, colourOf?: (levelM: number) => [number, number, number]): LineArrays & { colors?: Float32Array } {
   const lift = lineLiftM(display);
   let segmentCount = 0;
   for (const { contours } of display.segments) {
@@ -227,18 +231,39 @@ export function buildContourLines(display: FaultDisplay, exaggeration: number): 
     }
   }
   const positions = new Float32Array(segmentCount * 6);
+  const colors = colourOf ? new Float32Array(segmentCount * 6) : undefined;
   let offset = 0;
   for (const { contours, frame } of display.segments) {
     for (let ring = 0; ring < contours.ringLevelIndex.length; ring++) {
-      const height = contours.levelsM[contours.ringLevelIndex[ring]] * exaggeration + lift;
+      const levelM = contours.levelsM[contours.ringLevelIndex[ring]];
+      const height = levelM * exaggeration + lift;
+      const colour = colourOf?.(levelM);
       for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1] - 1; point++) {
         planePoint(frame, contours.points[point * 2], contours.points[point * 2 + 1], height, positions, offset);
         planePoint(frame, contours.points[point * 2 + 2], contours.points[point * 2 + 3], height, positions, offset + 3);
+        if (colors && colour) colors.set([...colour, ...colour], offset);
         offset += 6;
       }
     }
   }
-  return { positions };
+  return colors ? { positions, colors } : { positions };
+}
+
+export const DARK_LINE = "#0f172a";
+export const LIGHT_LINE = "#f1f5f9";
+
+/** Relative luminance (WCAG 2.x definition) of an sRGB colour given as CSS. */
+export function relativeLuminance(css: string): number {
+  const [r, g, b] = parseCssColor(css).map(srgbToLinear);
+  return 0.2126 * r + 0.7152 * g + 0.0722 * b;
+}
+
+/** A line colour that stands out on `backgroundCss`: dark on light colours, light on dark ones (higher contrast ratio). */
+export function contrastingLineColour(backgroundCss: string): string {
+  const background = relativeLuminance(backgroundCss);
+  const contrastWithDark = (background + 0.05) / (relativeLuminance(DARK_LINE) + 0.05);
+  const contrastWithLight = (relativeLuminance(LIGHT_LINE) + 0.05) / (background + 0.05);
+  return contrastWithDark >= contrastWithLight ? DARK_LINE : LIGHT_LINE;
 }
 
 /** Closed (s, t) polygons of every segment as one segment list; `heightAt` gives each vertex's height. */
@@ -340,6 +365,23 @@ export interface Bounds {
   max: [number, number, number];
 }
 
+/**
+ * Points that outline the fault for framing the camera, flat x, y, z world-local: every segment's inferred tip line
+ * and mapped limit on the plane, and its peak lifted by the relief.
+ */
+export function framingPoints(display: FaultDisplay, exaggeration: number): Float32Array {
+  const out: number[] = [];
+  const point = new Float32Array(3);
+  for (const segment of display.segments) {
+    for (const [s, t] of [...segment.tipLine, ...segment.mappedLimit]) {
+      planePoint(segment.frame, s, t, 0, point, 0);
+      out.push(point[0], point[1], point[2]);
+    }
+    out.push(...peakPosition(segment, exaggeration, 0));
+  }
+  return Float32Array.from(out);
+}
+
 /** Box around every surface node with data and every tip-line vertex, world-local. */
 export function displayBounds(display: FaultDisplay, exaggeration: number): Bounds {
   const min: [number, number, number] = [Infinity, Infinity, Infinity];
@@ -388,6 +430,19 @@ export function niceTicks(low: number, high: number, count: number): number[] {
     ticks.push(Number((index * step).toFixed(decimals)));
   }
   return ticks;
+}
+
+/**
+ * Tick values for a colour legend over [low, high]: round values an even step apart, at most `maxCount`, never
+ * closer than the step (the ends are not added on top of the ticks).
+ */
+export function legendTicks(low: number, high: number, maxCount: number): number[] {
+  if (!(high > low)) return [];
+  for (let count = maxCount; count >= 2; count--) {
+    const ticks = niceTicks(low, high, count);
+    if (ticks.length <= maxCount) return ticks;
+  }
+  return niceTicks(low, high, 1);
 }
 
 export interface DepthLabel {

@@ -16,18 +16,36 @@ export interface SurfaceReadout {
   fieldValue?: number;
 }
 
+/** Where the world's East, North and Up axes point on the screen: x right, y down, z towards the viewer (unit length). */
+export interface ScreenAxes {
+  east: [number, number, number];
+  north: [number, number, number];
+  up: [number, number, number];
+}
+
 interface OverlayStore {
   readout: SurfaceReadout | null;
   /** metres per CSS pixel at the orbit target */
   metresPerPixel: number | null;
+  /** the camera's orientation, for the orientation marker */
+  axes: ScreenAxes | null;
   setReadout: (readout: SurfaceReadout | null) => void;
   setMetresPerPixel: (metresPerPixel: number) => void;
+  setAxes: (axes: ScreenAxes) => void;
 }
+
+const axesDiffer = (a: ScreenAxes, b: ScreenAxes) =>
+  (["east", "north", "up"] as const).some((key) => a[key].some((value, index) => Math.abs(value - b[key][index]) > 0.005));
 
 export const useOverlayStore = create<OverlayStore>()((set, get) => ({
   readout: null,
   metresPerPixel: null,
+  axes: null,
   setReadout: (readout) => set({ readout }),
+  setAxes: (axes) => {
+    const previous = get().axes;
+    if (previous === null || axesDiffer(previous, axes)) set({ axes });
+  },
   setMetresPerPixel: (metresPerPixel) => {
     const previous = get().metresPerPixel;
     // ignore sub-percent changes so orbiting does not re-render the scale bar every frame

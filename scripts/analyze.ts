@@ -1,18 +1,56 @@
-// Command-line analysis of a pick CSV: npm run --silent analyze -- <file.csv> [--json] [--units m|ft] [--interval M] [--cell M]
-import { readFileSync } from "node:fs";
-import { analyzeCsv } from "../lib/engine/pipeline";
+// The command line: `slipfield analyze <file.csv | - | glob>… [--json | --format text|json|csv|geojson] [options]`.
+// Bundled by scripts/build-cli.mjs into dist/slipfield-cli.cjs (bin/slipfield.cjs runs it; `npm run analyze` too), so it
+// starts without a TypeScript runner. The same file, started as a worker thread, is the helper that fits tip lines
+// while the main thread grids and contours (lib/analysis/tipline-thread.ts).
+import { readdirSync, readFileSync, statSync } from "node:fs";
+import path from "node:path";
+import { isMainThread, workerData } from "node:worker_threads";
+import { serveTipLineFits, threadedTipLineFitter } from "../lib/analysis/tipline-thread";
+import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
 import { formatAzimuth } from "../lib/engine/plane";
 import type { AnalysisReport } from "../lib/engine/types";
+import { faultGeoJson } from "../lib/views/geojson";
+import { gridCsv } from "../lib/views/grid-csv";
 
 class UsageError extends Error {}
 
-function parseArgs(argv: string[]) {
-  const out: { file?: string; json: boolean; units: "m" | "ft"; intervalM?: number; cellM?: number; dropBadRows: boolean } = { json: false, units: "m", dropBadRows: false };
-  for (let i = 0; i < argv.length; i++) {
-    const a = argv[i];
+type Format = "text" | "json" | "csv" | "geojson";
+const FORMATS: Format[] = ["text", "json", "csv", "geojson"];
+
+const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [options]
+
+  -                    read the pick CSV from standard input
+  --json               the analysis report as one JSON object (one per line for several files)
+  --format F           text (default), json, csv (every grid node: segment, s, t, x, y, z, displacement, throw)
+                       or geojson (contours, inferred tip lines and mapped limits as 3D lines in map metres)
+  --units m|ft         units of the file (default m; feet are converted)
+  --interval M         contour interval in metres (default: about 8-12 levels)
+  --cell M             grid cell size in metres (default: from the pick spacing)
+  --drop-bad-rows      analyse the good rows of a file that has bad ones (default: refuse the file)
+  -h, --help           this text
+
+Several files (or a glob) are analysed one after another; json and geojson then write one object per line with the
+file's name, csv adds a leading file column. Exit status: 0 done, 2 a file could not be used or bad options, 1 failure.`;
+
+interface Options {
+  inputs: string[];
+  format: Format;
+  units: "m" | "ft";
+  intervalM?: number;
+  cellM?: number;
+  dropBadRows: boolean;
+  help: boolean;
+}
+
+export function parseArgs(argv: string[]): Options {
+  const args = argv[0] === "analyze" ? argv.slice(1) : argv;
+  const out: Options = { inputs: [], format: "text", units: "m", dropBadRows: false, help: false };
+  let formatGiven: string | null = null;
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
     const value = () => {
-      const v = argv[++i];
+      const v = args[++i];
       if (v === undefined) throw new UsageError(`${a} needs a value`);
       return v;
     };
@@ -21,20 +59,63 @@ function parseArgs(argv: string[]) {
       if (!(n > 0) || !Number.isFinite(n)) throw new UsageError(`${name} must be a positive number of metres, got "${v}"`);
       return n;
     };
-    if (a === "--json") out.json = true;
+    const setFormat = (name: string, format: string) => {
+      if (!FORMATS.includes(format as Format)) throw new UsageError(`--format must be one of ${FORMATS.join(", ")}, got "${format}"`);
+      if (formatGiven && formatGiven !== format) throw new UsageError(`choose one output format (got ${formatGiven} and ${format})`);
+      formatGiven = format;
+      out.format = format as Format;
+      void name;
+    };
+    if (a === "--json") setFormat(a, "json");
+    else if (a === "--format") setFormat(a, value());
+    else if (a.startsWith("--format=")) setFormat("--format", a.slice("--format=".length));
     else if (a === "--drop-bad-rows") out.dropBadRows = true;
+    else if (a === "-h" || a === "--help") out.help = true;
     else if (a === "--units") {
       const v = value();
       if (v !== "m" && v !== "ft") throw new UsageError(`--units must be m or ft, got "${v}"`);
       out.units = v;
     } else if (a === "--interval") out.intervalM = positive("--interval", value());
     else if (a === "--cell") out.cellM = positive("--cell", value());
-    else if (a.startsWith("--")) throw new UsageError(`unknown option ${a}`);
-    else if (out.file) throw new UsageError(`only one input file is accepted (got "${out.file}" and "${a}")`);
-    else out.file = a;
+    else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
+    else out.inputs.push(a);
   }
-  if (!out.file) throw new UsageError("usage: analyze <file.csv> [--json] [--units m|ft] [--interval M] [--cell M] [--drop-bad-rows]");
+  if (!out.help && out.inputs.length === 0) throw new UsageError("name a pick CSV to analyse (or - for standard input)");
+  if (out.inputs.filter((input) => input === "-").length > 1) throw new UsageError("standard input (-) can be read only once");
   return out;
+}
+
+/** A pattern's files, sorted: `*` and `?` in the last path part (for shells that pass globs through, and quoted globs). */
+function expandGlob(pattern: string): string[] {
+  const folder = path.dirname(pattern);
+  const namePattern = path.basename(pattern);
+  if (/[*?[]/.test(folder)) throw new UsageError(`wildcards are only understood in the file name, not in the folder: "${pattern}"`);
+  const expression = new RegExp(`^${namePattern.replace(/[.+^${}()|\\]/g, "\\$&").replace(/\*/g, "[^/]*").replace(/\?/g, "[^/]")}$`);
+  let names: string[];
+  try {
+    names = readdirSync(folder);
+  } catch {
+    throw new UsageError(`cannot read the folder of "${pattern}"`);
+  }
+  return names
+    .filter((name) => expression.test(name))
+    .map((name) => (folder === "." && !pattern.startsWith("./") ? name : path.join(folder, name)))
+    .filter((file) => statSync(file).isFile())
+    .sort();
+}
+
+function inputList(inputs: string[]): string[] {
+  return inputs.flatMap((input) => {
+    if (input === "-" || !/[*?[]/.test(input)) return [input];
+    try {
+      if (statSync(input).isFile()) return [input];
+    } catch {
+      // not a file of that name: a pattern
+    }
+    const files = expandGlob(input);
+    if (files.length === 0) throw new UsageError(`no file matches "${input}"`);
+    return files;
+  });
 }
 
 const f = (v: number, digits = 1) => (Number.isFinite(v) ? v.toFixed(digits) : "n/a");
@@ -53,7 +134,7 @@ function readable(report: AnalysisReport): string {
     lines.push(`  mapped limit: length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
     lines.push(`  inferred tip line: length ${f(tl.lengthM, 0)} m, height ${f(tl.heightM, 0)} m (± ${f(tl.uncertaintyM, 0)} m), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
     lines.push(`    ${tl.method}`);
-    lines.push(`  gradients: mean ${f(s.gradients.meanPerM, 4)}, max ${f(s.gradients.maxPerM, 4)}; near tips: strike start ${f(s.gradients.tips.strikeStartPerM, 4)}, strike end ${f(s.gradients.tips.strikeEndPerM, 4)}, up dip ${f(s.gradients.tips.upDipPerM, 4)}, down dip ${f(s.gradients.tips.downDipPerM, 4)}`);
+    lines.push(`  gradients (m/m): mean ${f(s.gradients.meanPerM, 4)}, max ${f(s.gradients.maxPerM, 4)}; near tips: strike start ${f(s.gradients.tips.strikeStartPerM, 4)}, strike end ${f(s.gradients.tips.strikeEndPerM, 4)}, up dip ${f(s.gradients.tips.upDipPerM, 4)}, down dip ${f(s.gradients.tips.downDipPerM, 4)}`);
     lines.push(`  asymmetry of Dmax: along strike ${f(s.asymmetry.alongStrike, 2)}, down dip ${f(s.asymmetry.downDip, 2)} (fraction of the semi-axis)`);
     lines.push(`  scaling: ${s.scaling.note}`);
     lines.push(`  contours: every ${s.contourIntervalM} m, ${s.contours.length} levels`);
@@ -76,36 +157,125 @@ function readable(report: AnalysisReport): string {
   return lines.join("\n");
 }
 
-function main(): number {
-  let args;
-  try {
-    args = parseArgs(process.argv.slice(2));
-  } catch (e) {
-    process.stderr.write(`analyze: ${(e as Error).message}\n`);
-    return 2;
-  }
-  let text: string;
-  try {
-    text = readFileSync(args.file!, "utf8");
-  } catch (e) {
-    process.stderr.write(`analyze: cannot read ${args.file}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}\n`);
-    return 2;
-  }
-  try {
-    const { report } = analyzeCsv(text, { units: args.units, intervalM: args.intervalM, cellM: args.cellM, dropBadRows: args.dropBadRows });
-    process.stdout.write(args.json ? JSON.stringify(report) + "\n" : readable(report) + "\n");
-    return 0;
-  } catch (e) {
-    if (e instanceof PickInputError) {
-      const lines = [`analyze: the pick file cannot be used (${e.rejected.length}${e.truncated ? "+" : ""} problem${e.rejected.length === 1 ? "" : "s"}):`];
-      for (const r of e.rejected.slice(0, 50)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
-      if (e.rejected.length > 50 || e.truncated) lines.push("  … more problems not shown");
-      process.stderr.write(lines.join("\n") + "\n");
-      return 2;
+/** The name a fault gets in the GeoJSON: the file's name without its extension. */
+const faultNameOf = (input: string) => (input === "-" ? "stdin" : path.basename(input).replace(/\.[^.]+$/, ""));
+
+/**
+ * One input's output in the chosen format. Several inputs: json and geojson carry the file's name, csv gets a file
+ * column and its header only before the first file's rows.
+ */
+function render(result: PipelineResult, input: string, format: Format, several: boolean, first: boolean): string {
+  switch (format) {
+    case "json":
+      return JSON.stringify(several ? { file: input, ...result.report } : result.report);
+    case "geojson": {
+      const collection = faultGeoJson(faultNameOf(input), result.report);
+      return JSON.stringify(several ? { ...collection, file: input } : collection);
     }
-    process.stderr.write(`analyze: unexpected failure: ${String((e as Error)?.message ?? e).split("\n")[0]}\n`);
-    return 1;
+    case "csv":
+      return several ? withFileColumn(gridCsv(result), input, first) : gridCsv(result).trimEnd();
+    case "text":
+      return several ? `== ${input}\n${readable(result.report)}\n` : readable(result.report);
   }
 }
 
-process.exitCode = main();
+/** A file column before every row of a CSV (header "file", kept only when `withHeader`); quoted when the name needs it. */
+function withFileColumn(csv: string, input: string, withHeader: boolean): string {
+  const cell = /[",\n\r]/.test(input) ? `"${input.replace(/"/g, '""')}"` : input;
+  const lines = csv.trimEnd().split("\n");
+  const rows = lines.slice(1).map((line) => `${cell},${line}`);
+  return (withHeader ? [`file,${lines[0]}`, ...rows] : rows).join("\n");
+}
+
+function problemText(input: string, error: PickInputError): string {
+  const lines = [`analyze: ${input === "-" ? "the pick data on standard input" : input} cannot be used (${error.rejected.length}${error.truncated ? "+" : ""} problem${error.rejected.length === 1 ? "" : "s"}):`];
+  for (const r of error.rejected.slice(0, 50)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
+  if (error.rejected.length > 50 || error.truncated) lines.push("  … more problems not shown");
+  return lines.join("\n");
+}
+
+/** This script's own file (the CommonJS bundle, or the source under tsx), which is also the helper thread's entry. */
+function thisFile(): string {
+  return __filename;
+}
+
+function readInput(input: string): string {
+  // bytes first, then one decode: a little quicker in Node 20 than asking readFileSync for text
+  return readFileSync(input === "-" ? 0 : input).toString("utf8");
+}
+
+/** Writes everything to stdout; a closed pipe (`| head`) ends the run quietly. */
+function write(text: string) {
+  if (text === "") return;
+  process.stdout.write(text.endsWith("\n") ? text : `${text}\n`);
+}
+
+export async function main(argv: string[]): Promise<number> {
+  let options: Options;
+  let inputs: string[];
+  try {
+    options = parseArgs(argv);
+    if (options.help) {
+      write(USAGE);
+      return 0;
+    }
+    inputs = inputList(options.inputs);
+  } catch (e) {
+    process.stderr.write(`analyze: ${(e as Error).message}\n${e instanceof UsageError ? "(slipfield analyze --help lists the options)\n" : ""}`);
+    return 2;
+  }
+  const several = inputs.length > 1;
+  // SLIPFIELD_TIPLINE_THREAD=on: a helper thread fits the tip lines while this thread grids and contours (started now,
+  // while this thread reads and parses). Off by default: in a fresh process the helper's own start-up and colder code
+  // cost as much as the overlap saves, on 2,000 and on 100,000 picks alike (bench/cli.ts; the server's warm worker gains).
+  const threadSetting = process.env.SLIPFIELD_TIPLINE_THREAD;
+  const helper = threadSetting === "on" ? threadedTipLineFitter(thisFile()) : null;
+  helper?.warm();
+  let status = 0;
+  let written = 0;
+  try {
+    for (const input of inputs) {
+      let text: string;
+      try {
+        text = readInput(input);
+      } catch (e) {
+        process.stderr.write(`analyze: cannot read ${input}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}\n`);
+        if (several && (options.format === "json" || options.format === "geojson")) write(JSON.stringify({ file: input, error: "cannot read the file" }));
+        status = 2;
+        continue;
+      }
+      try {
+        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
+        write(render(result, input, options.format, several, written++ === 0));
+      } catch (e) {
+        if (!(e instanceof PickInputError)) throw e;
+        process.stderr.write(`${problemText(input, e)}\n`);
+        if (several && (options.format === "json" || options.format === "geojson")) {
+          write(JSON.stringify({ file: input, error: "the pick file cannot be used", problems: e.rejected.slice(0, 50) }));
+        }
+        status = 2;
+      }
+    }
+  } catch (e) {
+    process.stderr.write(`analyze: unexpected failure: ${String((e as Error)?.message ?? e).split("\n")[0]}\n`);
+    return 1;
+  } finally {
+    const counts = helper?.counts();
+    if (threadSetting === "on" && counts && counts.inThisThread > 0) process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
+    void helper?.close();
+  }
+  return status;
+}
+
+process.stdout.on("error", (error: NodeJS.ErrnoException) => {
+  if (error.code === "EPIPE") process.exit(process.exitCode ?? 0);
+  throw error;
+});
+
+if (isMainThread) {
+  void main(process.argv.slice(2)).then((status) => {
+    process.exitCode = status;
+  });
+} else {
+  serveTipLineFits(workerData);
+}

@@ -57,15 +57,39 @@ const workerFiles = ["analysis-worker.mjs", "database-worker.mjs", "job-worker.m
 const needsBuild =
   process.env.SLIPFIELD_SKIP_BUILD !== "1" && (!existsSync(buildId) || !workerFiles.every(existsSync) || statSync(buildId).mtimeMs < newestSourceTime());
 if (needsBuild) {
-  console.log("slipfield: building the app (first start or sources changed)…");
+  console.log("slipfield: building the app (first start or sources changed; about a minute on two cores)…");
   const worker = spawnSync(process.execPath, [path.join(root, "scripts/build-worker.mjs")], { cwd: root, stdio: "inherit" });
   if (worker.status !== 0) fail("building the analysis worker failed (see above).");
+  const cli = spawnSync(process.execPath, [path.join(root, "scripts/build-cli.mjs")], { cwd: root, stdio: "inherit" });
+  if (cli.status !== 0) fail("building the command line failed (see above).");
   const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
   if (build.status !== 0) fail("the build failed (see above).");
 }
 
 const env = { ...process.env, AUTH_SECRET: authSecret(), SLIPFIELD_DATA_DIR: dataDir, PORT: port, NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" };
-console.log(`slipfield: serving on http://localhost:${port} (data in ${dataDir})`);
+console.log(`slipfield: serving on http://localhost:${port} (data in ${dataDir}); Ctrl-C stops it`);
 const server = spawn(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "start", "-p", port], { cwd: root, stdio: "inherit", env });
-for (const signal of ["SIGINT", "SIGTERM"]) process.on(signal, () => server.kill(signal));
-server.on("exit", (code, signal) => process.exit(code ?? (signal ? 1 : 0)));
+
+// Stopping: a signal to this launcher goes on to the server, and the launcher exits when the server has (with its exit
+// code). The server gets 15 s to close the database cleanly before it is killed.
+let stopping = false;
+function stop(signal) {
+  if (stopping) return;
+  stopping = true;
+  server.kill(signal);
+  setTimeout(() => server.kill("SIGKILL"), 15_000).unref();
+}
+for (const signal of ["SIGINT", "SIGTERM", "SIGHUP"]) process.on(signal, () => stop(signal));
+// `npm start` runs this launcher through a shell; stopping npm ends the shell but does not signal this process. When the
+// process that started the launcher is gone, the launcher is an orphan: stop the server rather than keep serving.
+const parentAtStart = process.ppid;
+setInterval(() => {
+  if (process.ppid !== parentAtStart) stop("SIGTERM");
+}, 500).unref();
+server.on("exit", (code, signal) => {
+  if (signal) {
+    // end the way the server ended, so whoever started the launcher sees the same
+    for (const name of ["SIGINT", "SIGTERM", "SIGHUP"]) process.removeAllListeners(name);
+    process.kill(process.pid, signal);
+  } else process.exit(code ?? 0);
+});

@@ -1,11 +1,11 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { pageUser } from "@/lib/pages";
-import { listOutbox, outboxEnabled, ownsAnyStudy } from "@/lib/outbox";
+import { listOutbox, mailStaysLocal, outboxEnabled, ownsAnyStudy } from "@/lib/outbox";
 
 export const metadata: Metadata = { title: "Outbox" };
 
-/** The development mailbox: e-mail the app has "sent" through the local fake transport, for study owners: their studies' e-mail and their own. */
+/** The local mailbox: e-mail the app has written (kept here, and sent only when SMTP_URL is set), for study owners: their studies' e-mail and their own. */
 export default async function OutboxPage() {
   if (!outboxEnabled()) notFound();
   const user = await pageUser("/outbox");
@@ -13,10 +13,13 @@ export default async function OutboxPage() {
   const messages = await listOutbox(user);
   return (
     <main className="mx-auto max-w-4xl px-6 py-10">
-      <p className="eyebrow">Development only</p>
+      <p className="eyebrow">Local mail</p>
       <h1 className="mt-1 text-2xl font-semibold">Outbox</h1>
-      <p className="mt-2 text-sm text-slate-600 dark:text-slate-400">
-        E-mails the app has written, newest first ({messages.length}{messages.length === 200 ? ", the latest 200" : ""}). Nothing here left this machine unless SMTP_URL is set.
+      <p className="mt-2 text-sm text-slate-600 dark:text-slate-400" data-testid="outbox-intro">
+        E-mails Slipfield has written for your studies and to you, newest first ({messages.length}{messages.length === 200 ? ", the latest 200" : ""}).{" "}
+        {mailStaysLocal()
+          ? "No mail server is configured (SMTP_URL is not set), so none of them left this machine: this page is where they can be read."
+          : "A mail server is configured (SMTP_URL), so each of them was also sent."}
       </p>
       {messages.length === 0 ? (
         <p className="card mt-6 p-6 text-sm text-slate-500">No e-mail yet.</p>

@@ -39,7 +39,7 @@ export function AnalysisViews({ studyId, faultId, faultName, report, display, an
         {tab === "dip" && display && <DipGrowthView faultId={faultId} report={report} display={display} stem={stem} />}
         {tab === "scaling" && <ScalingView faultId={faultId} stem={stem} />}
         {tab === "relays" && display && <RelayView faultId={faultId} report={report} display={display} stem={stem} />}
-        {tab === "export" && <ExportView studyId={studyId} faultId={faultId} stem={stem} analysisId={analysisId} />}
+        {tab === "export" && <ExportView studyId={studyId} faultId={faultId} faultName={faultName} stem={stem} analysisId={analysisId} />}
       </div>
     </div>
   );

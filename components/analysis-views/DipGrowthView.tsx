@@ -64,6 +64,12 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
   );
 }
 
+/** Pixels a column of labels needs at `fontPx` (about 0.62 em per character of the app's sans), plus a small gap. */
+function labelRoomPx(labels: string[], fontPx: number): number {
+  const longest = labels.reduce((most, label) => Math.max(most, label.length), 0);
+  return Math.ceil(longest * fontPx * 0.62) + 16;
+}
+
 function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: AnalysisReport; stem: string }) {
   const segments = [...new Set(bins.map((b) => b.segment))];
   const [segment, setSegment] = useState(segments[0]);
@@ -119,7 +125,8 @@ function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: Ana
           build={(width) =>
             Plot.plot({
               ...X_AXIS_ROOM,
-              width, height: 280, marginLeft: 60, style: { fontSize: "12px", background: "transparent" },
+              // room on the right for the horizon names printed beside the deepest-reaching points
+              width, height: 280, marginLeft: 60, marginRight: labelRoomPx(tz.map((p) => p.horizon), 12), style: { fontSize: "12px", background: "transparent" },
               x: { ...X_LABEL_BELOW, label: "Throw (m)", grid: true, zero: true }, y: { label: "Elevation (m, up positive)", grid: true },
               marks: [Plot.line(tz, { x: "throwM", y: "z", stroke: CHART.slip, sort: "z" }), Plot.dot(tz, { x: "throwM", y: "z", fill: CHART.slip, r: 4 }), Plot.text(tz, { x: "throwM", y: "z", text: "horizon", dx: 8, textAnchor: "start" }), Plot.tip(tz, Plot.pointer({ x: "throwM", y: "z", title: (p: (typeof tz)[number]) => `${p.horizon}: throw ${p.throwM.toFixed(1)} m at ${p.z.toFixed(0)} m` }))],
             })
@@ -144,7 +151,7 @@ function HorizonGrowth({ bins, report, stem }: { bins: HorizonBin[]; report: Ana
           build={(width) =>
             Plot.plot({
               ...X_AXIS_ROOM,
-              width, height: 220, marginLeft: 90, style: { fontSize: "12px", background: "transparent" },
+              width, height: 220, marginLeft: Math.max(90, labelRoomPx(ei.map((p) => p.horizon), 12)), style: { fontSize: "12px", background: "transparent" },
               x: { ...X_LABEL_BELOW, label: "Expansion index = hanging-wall / footwall thickness", grid: true }, y: { label: "Interval (below horizon)" },
               marks: [Plot.barX(ei, { y: "horizon", x: (p: (typeof ei)[number]) => p.ei!.index, fill: CHART.slip }), Plot.ruleX([1], { stroke: CHART.tip, strokeWidth: 2 }), Plot.tip(ei, Plot.pointerY({ y: "horizon", x: (p: (typeof ei)[number]) => p.ei!.index, title: (p: (typeof ei)[number]) => `EI ${p.ei!.index.toFixed(2)}; throw accrued ≈ ${p.ei!.accruedThrowM.toFixed(1)} m` }))],
             })

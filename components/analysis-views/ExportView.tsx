@@ -1,6 +1,7 @@
 "use client";
 import { useState } from "react";
-import { downloadDataUrl, REPORT_PICTURE_KEY, sceneDataUrl } from "./download";
+import { composeScenePicture } from "@/components/workspace/scenePicture";
+import { downloadDataUrl, REPORT_PICTURE_KEY } from "./download";
 
 const EXPORTS = [
   { kind: "grid.csv", label: "Grid CSV", detail: "segment, s, t, x, y, z, displacement, throw — every node with data, full resolution (recomputed on the server)" },
@@ -10,26 +11,36 @@ const EXPORTS = [
   { kind: "contours.geojson", label: "GeoJSON", detail: "contours, inferred tip lines and mapped limits as 3D lines [x, y, z] in map metres, with level, kind and units" },
 ];
 
-export function ExportView({ studyId, faultId, stem, analysisId }: { studyId: string; faultId: string; stem: string; analysisId: string }) {
+/** The 3D view with its labels, legend, title and scale bar, or null when the viewer is not on the page. */
+async function scenePicture(faultName: string): Promise<string | null> {
+  const frame = document.querySelector<HTMLElement>("[data-scene-frame]");
+  return frame ? composeScenePicture(frame, `${faultName}: displacement surface`) : null;
+}
+
+export function ExportView({ studyId, faultId, faultName, stem, analysisId }: { studyId: string; faultId: string; faultName: string; stem: string; analysisId: string }) {
   const [message, setMessage] = useState<string | null>(null);
   const withAnalysis = (kind: string) => `/api/faults/${faultId}/export/${kind}${kind.includes("?") ? "&" : "?"}analysis=${encodeURIComponent(analysisId)}`;
 
-  function scenePng() {
-    const url = sceneDataUrl();
-    if (!url) return setMessage("The 3D view is not on the page (it needs WebGL); use the chart PNG buttons instead.");
+  async function scenePng() {
+    const url = await scenePicture(faultName);
+    if (!url) return setMessage("The 3D view is not on the page (it needs WebGL, and the 3D surface view); use the chart PNG buttons instead.");
     downloadDataUrl(url, `${stem}-3d-view.png`);
     setMessage(null);
   }
 
-  function openReport() {
-    const url = sceneDataUrl();
+  async function openReport() {
+    // open the tab at once (a popup opened after an await can be blocked), then hand it the picture through storage
+    const reportTab = window.open("about:blank", "_blank");
+    const url = await scenePicture(faultName);
     try {
-      if (url) localStorage.setItem(REPORT_PICTURE_KEY(faultId), url);
-      else localStorage.removeItem(REPORT_PICTURE_KEY(faultId));
+      if (url) localStorage.setItem(REPORT_PICTURE_KEY(faultId, analysisId), url);
+      else localStorage.removeItem(REPORT_PICTURE_KEY(faultId, analysisId));
     } catch {
-      // storage full or disabled: the report draws a 2D contour map instead
+      // storage full or disabled: the report shows its 2D figures only
     }
-    window.open(`/studies/${studyId}/faults/${faultId}/report?analysis=${encodeURIComponent(analysisId)}`, "_blank", "noopener=no");
+    const address = `/studies/${studyId}/faults/${faultId}/report?analysis=${encodeURIComponent(analysisId)}`;
+    if (reportTab) reportTab.location.href = address;
+    else window.location.href = address;
   }
 
   return (
@@ -42,12 +53,12 @@ export function ExportView({ studyId, faultId, stem, analysisId }: { studyId: st
           </li>
         ))}
         <li className="flex flex-wrap items-baseline gap-2">
-          <button type="button" className="btn-quiet px-2 py-1 text-sm" onClick={scenePng} data-testid="export-3d-png">3D view PNG</button>
-          <span className="text-xs text-slate-500">the 3D view exactly as it is on screen now</span>
+          <button type="button" className="btn-quiet px-2 py-1 text-sm" onClick={() => void scenePng()} data-testid="export-3d-png">3D view PNG</button>
+          <span className="text-xs text-slate-500">the 3D view as it is on screen now, with its labels, a title, the colour legend and the scale bar</span>
         </li>
         <li className="flex flex-wrap items-baseline gap-2">
-          <button type="button" className="btn-primary px-2 py-1 text-sm" onClick={openReport} data-testid="open-report">Printable fault report</button>
-          <span className="text-xs text-slate-500">one page: fault sheet, current 3D picture, strike profile, scaling chart, relays, pins, caution and data provenance</span>
+          <button type="button" className="btn-primary px-2 py-1 text-sm" onClick={() => void openReport()} data-testid="open-report">Printable fault report</button>
+          <span className="text-xs text-slate-500">fault sheet, contour map, the current 3D picture, strike profile, scaling chart, relays, pins, caution and data provenance</span>
         </li>
       </ul>
       {message && <p className="text-sm text-amber-800 dark:text-amber-200">{message}</p>}

@@ -2,15 +2,16 @@
 import * as Plot from "@observablehq/plot";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { useEffect, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
+import { strikeProjection } from "@/lib/views/projection";
 import { CautionNote } from "@/components/workspace/CautionNote";
 import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { REPORT_PICTURE_KEY } from "./download";
-import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
+import { CHART, PlotChart, X_LABEL_BELOW } from "./PlotChart";
 import { RelayTable } from "./RelayView";
 import { ScalingChart } from "./ScalingView";
 import { StrikeProfileView } from "./StrikeProfileView";
@@ -25,12 +26,12 @@ export function FaultReport({ data }: { data: FaultReportData }) {
   useEffect(() => setPrintedAt(new Date().toLocaleString()), []);
   useEffect(() => {
     try {
-      const stored = localStorage.getItem(REPORT_PICTURE_KEY(fault.id));
+      const stored = localStorage.getItem(REPORT_PICTURE_KEY(fault.id, data.analysisId));
       if (stored?.startsWith("data:image/png")) setPicture(stored);
     } catch {
-      // no storage: the 2D contour map stands in
+      // no storage: the report has its 2D figures only
     }
-  }, [fault.id]);
+  }, [fault.id, data.analysisId]);
   const display = useQuery({
     queryKey: ["display", fault.id, data.analysisId],
     staleTime: Infinity,
@@ -81,15 +82,18 @@ export function FaultReport({ data }: { data: FaultReportData }) {
           {report.warnings.length > 0 && <p className="mt-1 text-xs text-amber-700">{report.warnings.join(" · ")}</p>}
         </div>
         <div>
-          <h2 className="mb-1 font-semibold">{picture ? "3D view (as last shown)" : "Displacement contours (plane coordinates)"}</h2>
-          {picture ? (
-            // eslint-disable-next-line @next/next/no-img-element
-            <img src={picture} alt={`3D view of ${fault.name}`} className="w-full rounded border border-slate-200" data-testid="report-picture" />
-          ) : (
-            <ContourMap data={data} stem={stem} />
-          )}
+          <h2 className="mb-1 font-semibold">Displacement contours</h2>
+          <ContourMap data={data} stem={stem} />
         </div>
       </section>
+
+      {picture && (
+        <section className="break-inside-avoid" data-testid="report-3d">
+          <h2 className="mb-1 font-semibold">3D view (as last shown in the workspace)</h2>
+          {/* eslint-disable-next-line @next/next/no-img-element */}
+          <img src={picture} alt={`3D view of ${fault.name}, with its colour legend, labels and scale bar`} className="mx-auto w-full max-w-[760px] rounded border border-slate-200 dark:border-slate-700" data-testid="report-picture" />
+        </section>
+      )}
 
       <section className="break-inside-avoid">
         <h2 className="mb-1 font-semibold">Strike profile</h2>
@@ -136,27 +140,67 @@ export function FaultReport({ data }: { data: FaultReportData }) {
   );
 }
 
-/** Fallback picture: contour rings and tip lines of each segment in its plane coordinates (s, t). */
+/**
+ * The fault's displacement in one picture that stands alone: every segment's contours, inferred tip line, mapped limit
+ * and peak in a strike projection (along the mean strike against depth), true to scale unless it says otherwise.
+ */
 function ContourMap({ data, stem }: { data: FaultReportData; stem: string }) {
-  const rings = data.report.segments.flatMap((segment) =>
-    segment.contours.flatMap((level, li) => level.rings.map((ring, ri) => ring.map(([s, t]) => ({ s, t, id: `${segment.id}-${li}-${ri}`, level: level.levelM, segment: segment.id })))).flat(),
-  );
-  const tips = data.report.segments.flatMap((segment) => segment.tipLine.polygon.map(([s, t]) => ({ s, t, segment: segment.id })));
+  const projection = useMemo(() => strikeProjection(data.report), [data.report]);
+  const extent = useMemo(() => {
+    const all = [...projection.tipLines, ...projection.mappedLimits, ...projection.contours];
+    const us = all.map((p) => p.u);
+    const depths = all.map((p) => p.depthM);
+    return { u: [Math.min(...us), Math.max(...us)] as [number, number], depth: [Math.min(...depths), Math.max(...depths)] as [number, number] };
+  }, [projection]);
+  const azimuth = `${projection.strikeAzimuthDeg.toFixed(0).padStart(3, "0")}°`;
+  const [exaggeration, setExaggeration] = useState(1);
+  const levels = data.report.segments.flatMap((segment) => segment.contours.map((level) => level.levelM));
   return (
     <PlotChart
       testId="report-contour-map"
-      title="Contours (m) and inferred tip lines, each segment in its own plane coordinates"
+      title={`${data.fault.name}: displacement contours in strike projection (along strike ${azimuth}, depth below datum)`}
       fileStem={`${stem}-contour-map`}
-      points={rings.length}
-      deps={[rings, tips]}
-      build={(width) =>
-        Plot.plot({
-          ...X_AXIS_ROOM,
-          width, height: 260, marginLeft: 56, style: { fontSize: "11px", background: "transparent" },
-          x: { ...X_LABEL_BELOW, label: "s along strike (m)" }, y: { label: "t down dip (m)", reverse: true },
-          color: { scheme: "viridis", label: "Displacement (m)", legend: true },
-          marks: [Plot.line(rings, { x: "s", y: "t", z: "id", stroke: "level" }), Plot.line(tips, { x: "s", y: "t", z: "segment", stroke: CHART.tip, strokeWidth: 2 })],
-        })
+      points={projection.contours.length}
+      deps={[projection, extent]}
+      build={(width) => {
+        const margin = { left: 64, right: 16, top: 8, bottom: 44 };
+        const plotWidth = width - margin.left - margin.right;
+        const uSpan = extent.u[1] - extent.u[0] || 1;
+        const depthSpan = extent.depth[1] - extent.depth[0] || 1;
+        // true scale where it fits; otherwise the depth axis is stretched and the caption says by how much
+        const trueHeight = (plotWidth * depthSpan) / uSpan;
+        const plotHeight = Math.min(320, Math.max(140, trueHeight));
+        const stretch = plotHeight / trueHeight;
+        queueMicrotask(() => setExaggeration(stretch));
+        // a halo in the page's ground colour keeps the peak labels readable over the contours
+        const halo = document.documentElement.classList.contains("dark") ? "#0f172a" : "#ffffff";
+        return Plot.plot({
+          width,
+          height: plotHeight + margin.top + margin.bottom,
+          marginLeft: margin.left,
+          marginRight: margin.right,
+          marginTop: margin.top,
+          marginBottom: margin.bottom,
+          style: { fontSize: "11px", background: "transparent" },
+          x: { ...X_LABEL_BELOW, label: `Along strike ${azimuth} (m)`, domain: extent.u },
+          y: { label: "Depth below datum (m)", domain: extent.depth, reverse: true },
+          color: { type: "linear", scheme: "viridis", label: "Displacement (m)", legend: true, domain: [0, Math.max(...levels, 1)] },
+          marks: [
+            Plot.line(projection.mappedLimits, { x: "u", y: "depthM", z: "segment", stroke: "currentColor", strokeDasharray: "4 3", strokeWidth: 1 }),
+            Plot.line(projection.contours, { x: "u", y: "depthM", z: "line", stroke: "levelM", strokeWidth: 1 }),
+            Plot.line(projection.tipLines, { x: "u", y: "depthM", z: "segment", stroke: CHART.tip, strokeWidth: 2.5 }),
+            Plot.dot(projection.peaks, { x: "u", y: "depthM", symbol: "diamond", r: 5, fill: "white", stroke: "currentColor" }),
+            Plot.text(projection.peaks, { x: "u", y: "depthM", text: (p: (typeof projection.peaks)[number]) => `${p.segment}: Dmax ${metres(p.displacementM)}`, dy: -12, fontWeight: 600, fill: "currentColor", stroke: halo, strokeWidth: 3, paintOrder: "stroke" }),
+          ],
+        });
+      }}
+      note={
+        <span data-testid="report-contour-legend">
+          <span className="mr-1 inline-block h-1 w-4 rounded bg-tip-500 align-middle" /> inferred tip line ·{" "}
+          <span className="mr-1 inline-block w-4 border-t-2 border-dashed border-slate-600 align-middle dark:border-slate-300" /> mapped limit of the picks · ◆ peak ·
+          contours every {[...new Set(data.report.segments.map((segment) => metres(segment.contourIntervalM, 0)))].join(" / ")} of displacement.{" "}
+          {Math.abs(exaggeration - 1) < 0.02 ? "True scale (depth as along strike)." : `Depth stretched ×${exaggeration.toFixed(1)} against distance along strike.`} Distances from the centre of segment {data.report.segments[0]?.id}.
+        </span>
       }
     />
   );

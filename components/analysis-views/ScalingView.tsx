@@ -5,6 +5,7 @@ import { useMemo } from "react";
 import { apiFetch } from "@/lib/api/client";
 import { toCsv } from "@/lib/views/csv";
 import { fitPowerLaw, powerLawLine, SCALING_GUIDES, type FaultScalingPoint, type PowerLawFit } from "@/lib/views/scaling";
+import { placeLabels, textWidthPx } from "@/lib/views/labels";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 /**
@@ -14,6 +15,43 @@ import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 function logTickLabel(value: number) {
   const mantissa = value / 10 ** Math.floor(Math.log10(value) + 1e-9);
   return [1, 2, 5].some((shown) => Math.abs(mantissa - shown) < 1e-6) ? value.toLocaleString("en-US", { maximumFractionDigits: 3 }) : "";
+}
+
+const LABEL_FONT_PX = 12;
+
+/**
+ * Fault names placed where they overlap no other name or point (this fault's first), in data coordinates for the
+ * chart; labels moved away from their point get a leader line from the point's edge.
+ */
+function faultLabels(points: FaultScalingPoint[], currentFaultId: string, frame: Plot.PlotOptions) {
+  const probe = Plot.plot({ ...frame, marks: [] });
+  const x = probe.scale("x")!;
+  const y = probe.scale("y")!;
+  const [left, right] = x.range as [number, number];
+  const [bottom, top] = y.range as [number, number];
+  const ordered = [...points].sort((a, b) => Number(b.faultId === currentFaultId) - Number(a.faultId === currentFaultId));
+  const pixels = ordered.map((p) => ({ x: x.apply(p.lengthM) as number, y: y.apply(p.dMaxM) as number }));
+  const placed = placeLabels(
+    ordered.map((p, k) => ({ ...pixels[k], width: textWidthPx(p.name, LABEL_FONT_PX), height: LABEL_FONT_PX + 2 })),
+    { x0: left, x1: right, y0: Math.min(top, bottom), y1: Math.max(top, bottom) },
+    { radius: 5, gap: 3 },
+  );
+  return placed.map((label, k) => {
+    // the leader runs from the point towards the nearest point of the label's box
+    const nearX = Math.min(Math.max(pixels[k].x, label.box.x0), label.box.x1);
+    const nearY = Math.min(Math.max(pixels[k].y, label.box.y0), label.box.y1);
+    return {
+      name: ordered[k].name,
+      anchor: label.anchor,
+      leader: label.leader,
+      x: x.invert!(label.x) as number,
+      y: y.invert!(label.y) as number,
+      pointX: ordered[k].lengthM,
+      pointY: ordered[k].dMaxM,
+      leaderX: x.invert!(nearX) as number,
+      leaderY: y.invert!(nearY) as number,
+    };
+  });
 }
 
 export function useStudyScaling(faultId: string) {
@@ -43,7 +81,7 @@ export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { p
         const guideNames = [...new Set(guides.map((g) => g.guide))];
         const fitNames = [...new Set(fits.map((g) => g.guide))];
         const boxName = `${box.label} (${box.source})`;
-        return Plot.plot({
+        const frame = {
           ...X_AXIS_ROOM,
           width,
           height,
@@ -51,6 +89,10 @@ export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { p
           style: { fontSize: "12px", background: "transparent" },
           x: { ...X_LABEL_BELOW, type: "log", label: "Fault length L, inferred tip line (m)", domain: [lo, hi], grid: true, tickFormat: logTickLabel },
           y: { type: "log", label: "Maximum displacement Dmax (m)", tickFormat: logTickLabel, domain: [Math.min(0.1, lo * 0.001), Math.max(1000, hi * 0.1)], grid: true },
+        } satisfies Plot.PlotOptions;
+        const labels = faultLabels(points, currentFaultId, frame);
+        return Plot.plot({
+          ...frame,
           color: {
             legend: true,
             domain: [...guideNames, boxName, ...fitNames],
@@ -63,7 +105,10 @@ export function ScalingChart({ points, currentFaultId, stem, height = 360 }: { p
             Plot.line(fits, { x: "lengthM", y: "dMaxM", z: "guide", stroke: "guide", strokeWidth: 1.5 }),
             Plot.link(points, { x1: (p: FaultScalingPoint) => Math.max(lo, p.lengthM - p.lengthUncertaintyM), x2: (p: FaultScalingPoint) => p.lengthM + p.lengthUncertaintyM, y1: "dMaxM", y2: "dMaxM", stroke: "currentColor", strokeWidth: 1.2 }),
             Plot.dot(points, { x: "lengthM", y: "dMaxM", r: 5, fill: (p: FaultScalingPoint) => (p.faultId === currentFaultId ? CHART.tip : CHART.slip), stroke: "white", className: "fault-point" }),
-            Plot.text(points, { x: "lengthM", y: "dMaxM", text: "name", dy: -10, fontWeight: 600 }),
+            Plot.link(labels.filter((label) => label.leader), { x1: "pointX", y1: "pointY", x2: "leaderX", y2: "leaderY", stroke: "currentColor", strokeOpacity: 0.6 }),
+            ...(["start", "middle", "end"] as const).map((anchor) =>
+              Plot.text(labels.filter((label) => label.anchor === anchor), { x: "x", y: "y", text: "name", textAnchor: anchor, lineAnchor: "middle", fontWeight: 600, fontSize: LABEL_FONT_PX, className: "fault-label" }),
+            ),
             Plot.tip(points, Plot.pointer({ x: "lengthM", y: "dMaxM", title: (p: FaultScalingPoint) => `${p.name}\nL = ${p.lengthM.toFixed(0)} ± ${p.lengthUncertaintyM.toFixed(0)} m\nDmax = ${p.dMaxM.toFixed(1)} m\nD/L = ${(p.dMaxM / p.lengthM).toPrecision(3)}` })),
           ],
         });

@@ -19,6 +19,7 @@ import {
   type GridLike,
   type Profile,
 } from "@/lib/views/profiles";
+import { mainSvg } from "./download";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 type Mode = "centre-line" | "column-max" | "line";
@@ -74,15 +75,18 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
         if (model.tipsS) for (const s of model.tipsS) tips.push({ series: segment.id, x: toX(s) });
       }
     }
-    let sum: { x: number; value: number }[] = [];
+    let sum: { x: number; value: number; contributors: number }[] = [];
     let overlap: [number, number] | null = null;
     if (multi && mode !== "line") {
       const summed = sumProfiles(commons, 240);
-      sum = summed.u.map((x, k) => ({ x, value: (quantity === "throw" ? summed.throwM : summed.displacementM)[k] }));
+      sum = summed.u.map((x, k) => ({ x, value: (quantity === "throw" ? summed.throwM : summed.displacementM)[k], contributors: summed.contributors[k] }));
       const extents = report.segments.map((segment) => tipExtent(segment, frame));
       overlap = overlapZone(extents[0], extents[1]);
     }
-    return { rows: rows.filter((r) => Number.isFinite(r.value)), allRows: rows, modelRows, tips, sum, overlap };
+    // the sum is drawn only where two or more segments have data: elsewhere it is the one segment's own line
+    const sumLine = sum.map((r) => ({ x: r.x, value: r.contributors >= 2 ? r.value : NaN }));
+    const sumVisible = sumLine.some((r) => Number.isFinite(r.value));
+    return { rows: rows.filter((r) => Number.isFinite(r.value)), allRows: rows, modelRows, tips, sum, sumLine: sumVisible ? sumLine : [], overlap };
   }, [report, display, mode, quantity, lineSegment, line, multi, frame]);
 
   const xLabel = mode === "line" ? "Distance along the drawn line (m)" : multi ? "Along strike, common mean-strike coordinate (m)" : "Along strike, s (m)";
@@ -137,8 +141,8 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
           build={(width) => {
             if (chart.rows.length === 0) return null;
             const series = [...new Set(chart.rows.map((r) => r.series))];
-            const domain = [...series, ...(chart.sum.length ? ["sum of segments"] : []), ...(chart.modelRows.length ? ["fitted model"] : [])];
-            const range = [...series.map((_, i) => CHART.segments[i % CHART.segments.length]), ...(chart.sum.length ? [CHART.sum] : []), ...(chart.modelRows.length ? [CHART.model] : [])];
+            const domain = [...series, ...(chart.sumLine.length ? ["sum of segments"] : []), ...(chart.modelRows.length ? ["fitted model"] : [])];
+            const range = [...series.map((_, i) => CHART.segments[i % CHART.segments.length]), ...(chart.sumLine.length ? [CHART.sum] : []), ...(chart.modelRows.length ? [CHART.model] : [])];
             return Plot.plot({
               ...X_AXIS_ROOM,
               width,
@@ -152,19 +156,22 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
                 chart.overlap ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
                 chart.overlap ? Plot.text([chart.overlap], { x: (d: [number, number]) => (d[0] + d[1]) / 2, frameAnchor: "top", dy: 6, text: () => "overlap (relay)", fill: CHART.tip }) : null,
                 Plot.ruleY([0]),
-                chart.sum.length ? Plot.line(chart.sum, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 }) : null,
+                chart.sumLine.length ? Plot.line(chart.sumLine, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 }) : null,
                 Plot.line(chart.modelRows, { x: "x", y: "value", z: "series", stroke: () => "fitted model", strokeDasharray: "6 4", strokeWidth: 1.5 }),
                 Plot.line(chart.rows, { x: "x", y: "value", z: "series", stroke: "series", strokeWidth: 1.5 }),
                 Plot.dot(chart.rows, { x: "x", y: "value", fill: "series", r: 1.8, className: "profile-point" }),
                 Plot.dot(chart.tips, { x: "x", y: () => 0, symbol: "diamond", r: 5, fill: CHART.tip, stroke: "white", title: (d: { series: string; x: number }) => `inferred tip of ${d.series} at ${d.x.toFixed(0)} m` }),
-                Plot.tip([...chart.rows, ...chart.sum.filter((r) => Number.isFinite(r.value)).map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN }))], Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
+                Plot.tip([...chart.rows, ...chart.sumLine.filter((r) => Number.isFinite(r.value)).map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN }))], Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
               ],
             });
           }}
           note={
             <>
               Inferred tip positions marked ◆ at zero (amber). Dashed: {modelName}, scaled to the segment&apos;s Dmax.
-              {multi && mode !== "line" && " Broad grey: the sum of the segments along strike (gaps where no segment has resolvable data) (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
+              {multi && mode !== "line" && chart.sumLine.length > 0 && " Broad grey: the sum of the segments where two or more have resolvable data (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
+              {multi && mode !== "line" && chart.sumLine.length === 0 && (
+                <span data-testid="no-sum-note"> No position along strike has resolvable data on two segments at once, so their sum is each segment&apos;s own line (no separate sum is drawn; the CSV has it). The overlap of the inferred tip lines is shaded.</span>
+              )}
               {" "}Values from the display grid; the Export tab gives the full-resolution profile.
             </>
           }
@@ -177,6 +184,21 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
 function modelStrikeProfileName(segments: SegmentResult[]): string {
   const names = [...new Set(segments.map((segment) => modelStrikeProfile(segment, segment.max.t, { samples: 2 }).name))];
   return `fitted model (${names.join("; ")})`;
+}
+
+/** [sMin, sMax, tMin, tMax] of points in the plane, widened by `margin` of the span on each side. */
+function planExtent(points: ArrayLike<number>[], margin: number): [number, number, number, number] {
+  let sMin = Infinity, sMax = -Infinity, tMin = Infinity, tMax = -Infinity;
+  for (const point of points) {
+    if (!Number.isFinite(point[0]) || !Number.isFinite(point[1])) continue;
+    sMin = Math.min(sMin, point[0]);
+    sMax = Math.max(sMax, point[0]);
+    tMin = Math.min(tMin, point[1]);
+    tMax = Math.max(tMax, point[1]);
+  }
+  const sPad = (sMax - sMin) * margin;
+  const tPad = (tMax - tMin) * margin;
+  return [sMin - sPad, sMax + sPad, tMin - tPad, tMax + tPad];
 }
 
 function profileFor(mode: Mode, segment: SegmentResult, grid: GridLike, line: [[number, number], [number, number]] | null): Profile {
@@ -201,15 +223,17 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
         const w = Math.min(width, 340);
         const s1 = grid.s0 + (grid.columns - 1) * grid.cellM;
         const t1 = grid.t0 + (grid.rows - 1) * grid.cellM;
+        // the plan spans the grid and the whole inferred tip line, which reaches beyond the data
+        const [sLow, sHigh, tLow, tHigh] = planExtent([[grid.s0, grid.t0], [s1, t1], ...displaySegment.tipLine, ...displaySegment.mappedLimit], 0.04);
         const chart = Plot.plot({
           ...X_AXIS_ROOM,
           width: w,
-          height: Math.max(160, Math.min(320, (w * (t1 - grid.t0)) / Math.max(1, s1 - grid.s0) + 60)),
+          height: Math.max(160, Math.min(320, (w * (tHigh - tLow)) / Math.max(1, sHigh - sLow) + 60)),
           marginLeft: 50,
           style: { fontSize: "11px", background: "transparent", cursor: "crosshair", touchAction: "none" },
-          x: { ...X_LABEL_BELOW, label: "s along strike (m)", domain: [grid.s0, s1] },
-          y: { label: "t down dip (m)", domain: [t1, grid.t0] },
-          color: { scheme: "viridis", label: "Displacement (m)" },
+          x: { ...X_LABEL_BELOW, label: "s along strike (m)", domain: [sLow, sHigh] },
+          y: { label: "t down dip (m)", domain: [tHigh, tLow] },
+          color: { scheme: "viridis", label: "Displacement (m)", legend: true },
           marks: [
             Plot.raster(Array.from(grid.displacementM, (v) => (Number.isNaN(v) ? undefined : v)), { width: grid.columns, height: grid.rows, x1: grid.s0, x2: s1, y1: grid.t0, y2: t1, fill: (v: number | undefined) => v, imageRendering: "pixelated" }),
             Plot.line(displaySegment.tipLine, { x: "0", y: "1", stroke: CHART.tip, strokeWidth: 2 }),
@@ -220,7 +244,8 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
         });
         const x = chart.scale("x")!;
         const y = chart.scale("y")!;
-        const svg = chart instanceof SVGSVGElement ? chart : chart.querySelector("svg")!;
+        // the plot's own svg, not the colour legend's
+        const svg = chart instanceof SVGSVGElement ? chart : mainSvg(chart)!;
         const toPlane = (event: PointerEvent): [number, number] => {
           const box = svg.getBoundingClientRect();
           return [Number(x.invert!(event.clientX - box.left)), Number(y.invert!(event.clientY - box.top))];

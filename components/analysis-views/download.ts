@@ -60,15 +60,5 @@ export async function svgToPngDataUrl(svg: SVGSVGElement, scale = 2, background 
   return canvas.toDataURL("image/png");
 }
 
-/** PNG of the current 3D view (the canvas keeps its drawing buffer), or null when the viewer is not on the page. */
-export function sceneDataUrl(): string | null {
-  const canvas = document.querySelector<HTMLCanvasElement>('[data-testid="fault-scene"] canvas');
-  if (!canvas) return null;
-  try {
-    return canvas.toDataURL("image/png");
-  } catch {
-    return null;
-  }
-}
-
-export const REPORT_PICTURE_KEY = (faultId: string) => `slipfield:report-picture:${faultId}`;
+/** Where the workspace leaves the composed 3D picture for the printable report of that analysis. */
+export const REPORT_PICTURE_KEY = (faultId: string, analysisId: string) => `slipfield:report-picture:${faultId}:${analysisId}`;

@@ -7,6 +7,7 @@ import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { PublicViewpoint } from "@/lib/viewpoints";
 import { FaultSheet } from "@/components/workspace/FaultSheet";
 import { FaultViewer } from "@/components/workspace/FaultViewer";
+import { PinText } from "./PinText";
 import { applyViewSettings } from "./viewSettings";
 
 class DisplayError extends Error {
@@ -81,8 +82,21 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
                   <ol className="space-y-2 text-sm">
                     {data.pins.map((pin) => (
                       <li key={pin.id} className="rounded-md bg-slate-50 p-2 dark:bg-slate-800/60" data-testid="shared-pin">
-                        <span className={`mr-2 text-xs font-medium ${pin.state === "resolved" ? "text-slate-400" : "text-slip-700 dark:text-slip-300"}`}>{pin.state}</span>
-                        <span className="whitespace-pre-line">{pin.body}</span>
+                        <div className="mb-0.5 flex items-baseline justify-between gap-2 text-xs">
+                          <span className={`font-medium ${pin.state === "resolved" ? "text-slate-400" : "text-slip-700 dark:text-slip-300"}`}>{pin.state}</span>
+                          <time className="text-slate-500" dateTime={pin.createdAt}>{new Date(pin.createdAt).toLocaleDateString()}</time>
+                        </div>
+                        <PinText text={pin.body} />
+                        {pin.replies.length > 0 && (
+                          <ol className="mt-2 space-y-1.5 border-l-2 border-slate-200 pl-2 dark:border-slate-700" aria-label="Replies">
+                            {pin.replies.map((reply, index) => (
+                              <li key={index} data-testid="shared-reply">
+                                <time className="block text-[11px] text-slate-500" dateTime={reply.createdAt}>reply · {new Date(reply.createdAt).toLocaleDateString()}</time>
+                                <PinText text={reply.body} />
+                              </li>
+                            ))}
+                          </ol>
+                        )}
                       </li>
                     ))}
                   </ol>

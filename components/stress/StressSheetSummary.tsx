@@ -44,7 +44,7 @@ export function StressSheetSummary({ faultId, analysisId }: { faultId: string; a
           ))}
         </dl>
       )}
-      <p className="mt-2 text-xs text-slate-500">Stress v{current?.version ?? "—"}{result.data ? `; orientation smoothed at ${result.data.orientation.lengthScaleM} m` : ""}; screening only, see the caution in the Stress screen tab.</p>
+      {current && <p className="mt-2 text-xs text-slate-500">Stress state version {current.version}{result.data ? `; orientation smoothed at ${result.data.orientation.lengthScaleM} m` : ""}; screening only, see the caution in the Stress screen tab.</p>}
     </section>
   );
 }

@@ -1,10 +1,13 @@
 "use client";
 import Link from "next/link";
+import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { metres as formatM } from "@/components/workspace/format";
+import type { ActivityPart } from "@/lib/activity/sentences";
+import { FAULT_SENSES, faultSenseLabel, type FaultSense } from "@/lib/fault-types";
 import { RoleBadge } from "./RoleBadge";
 
 type Role = "owner" | "interpreter" | "reviewer" | "viewer";
@@ -21,30 +24,10 @@ interface Overview {
     analysis: { status: string; dMaxM: number | null; lengthM: number | null; segmentCount: number | null } | null;
   }[];
   people: { userId: string; name: string; email: string; role: Role }[];
-  activity: { id: string; action: string; target: string; createdAt: string; userName: string | null }[];
+  activity: { id: string; actor: string; parts: ActivityPart[]; createdAt: string }[];
 }
 
 const ROLES: Role[] = ["owner", "interpreter", "reviewer", "viewer"];
-
-/** audit actions in plain words */
-const ACTIVITY_WORDS: Record<string, string> = {
-  "study.create": "created the study",
-  "study.update": "edited the study",
-  "fault.create": "added fault",
-  "fault.update": "edited fault",
-  "fault.delete": "removed fault",
-  "pickset.upload": "uploaded pick set",
-  "member.invite": "invited",
-  "member.role": "changed the role of",
-  "member.remove": "removed",
-  "pin.create": "pinned a note on",
-  "pin.resolve": "resolved a note on",
-  "pin.reopen": "reopened a note on",
-  "pin.delete": "deleted a note on",
-  "viewpoint.create": "saved viewpoint",
-  "viewpoint.update": "edited viewpoint",
-  "viewpoint.delete": "deleted viewpoint",
-};
 
 export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
   const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<Overview>(`/api/studies/${studyId}`) });
@@ -71,13 +54,13 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
             <p className="px-5 py-10 text-center text-sm text-slate-500">No faults yet.{canEdit ? " Add one, then upload its pick set." : ""}</p>
           ) : (
             <table className="w-full text-sm" data-testid="fault-table">
-              <thead className="bg-slate-50 text-left text-xs uppercase tracking-wide text-slate-500 dark:bg-slate-950">
+              <thead className="bg-slate-50 text-left text-xs text-slate-500 dark:bg-slate-950">
                 <tr>
                   <th className="px-5 py-2 font-medium">Fault</th>
                   <th className="px-3 py-2 font-medium">Segments</th>
                   <th className="px-3 py-2 text-right font-medium">Dmax</th>
                   <th className="px-3 py-2 text-right font-medium">Length</th>
-                  <th className="px-5 py-2 text-right font-medium">Pick set</th>
+                  <th className="whitespace-nowrap px-5 py-2 text-right font-medium">Pick set</th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-slate-100 dark:divide-slate-800">
@@ -85,12 +68,12 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                   <tr key={fault.id} className="hover:bg-slate-50 dark:hover:bg-slate-800/50">
                     <td className="px-5 py-3">
                       <Link href={`/studies/${studyId}/faults/${fault.id}`} className="font-medium text-slip-700 hover:underline dark:text-slip-300">{fault.name}</Link>
-                      <div className="text-xs text-slate-500">{fault.sense} fault{fault.description ? ` · ${fault.description}` : ""}</div>
+                      <div className="text-xs text-slate-500">{faultSenseLabel(fault.sense)} fault{fault.description ? ` · ${fault.description}` : ""}</div>
                     </td>
                     <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
-                    <td className="px-5 py-3 text-right text-xs text-slate-500">
+                    <td className="whitespace-nowrap px-5 py-3 text-right text-xs text-slate-500">
                       {fault.latestVersion ? <>v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}</> : "none yet"}
                     </td>
                   </tr>
@@ -120,8 +103,13 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
         ) : (
           <ul className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
             {activity.map((entry) => (
-              <li key={entry.id} className="flex justify-between gap-4 px-5 py-2">
-                <span><span className="font-medium">{entry.userName ?? "Someone"}</span> · {ACTIVITY_WORDS[entry.action] ?? entry.action.replace(".", " ")} {entry.target && <span className="text-slate-500">{entry.target}</span>}</span>
+              <li key={entry.id} className="flex justify-between gap-4 px-5 py-2" data-testid="activity-entry">
+                <span>
+                  <span className="font-medium">{entry.actor}</span>{" "}
+                  {entry.parts.map((part, index) =>
+                    part.href ? <Link key={index} href={part.href} className="text-slip-700 hover:underline dark:text-slip-300">{part.text}</Link> : <span key={index}>{part.text}</span>,
+                  )}
+                </span>
                 <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>{new Date(entry.createdAt).toLocaleString()}</time>
               </li>
             ))}
@@ -137,20 +125,67 @@ function useStudyMutation<T>(studyId: string, mutationFn: (input: T) => Promise<
   return useMutation({ mutationFn, onSuccess: () => queryClient.invalidateQueries({ queryKey: ["study", studyId] }) });
 }
 
+/** Add a fault: its name and what the analysis needs to know about it (its type), then straight to its page to upload picks. */
 function NewFault({ studyId }: { studyId: string }) {
+  const router = useRouter();
   const [open, setOpen] = useState(false);
   const [name, setName] = useState("");
-  const create = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/faults`, { method: "POST", json: { name } }));
+  const [sense, setSense] = useState<FaultSense>("normal");
+  const [description, setDescription] = useState("");
+  const create = useMutation({
+    mutationFn: () => apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, { method: "POST", json: { name, sense, description } }),
+    onSuccess: ({ fault }) => router.push(`/studies/${studyId}/faults/${fault.id}`),
+  });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
   if (!open) return <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">Add fault</button>;
   return (
-    <form className="flex items-start gap-2" onSubmit={(event) => { event.preventDefault(); create.mutate(undefined, { onSuccess: () => { setName(""); setOpen(false); } }); }}>
-      <div>
-        <input className="field py-1.5" aria-label="Fault name" placeholder="Fault name" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
-        <FieldError errors={fieldErrors?.name ?? (create.error && !fieldErrors ? [create.error.message] : undefined)} />
-      </div>
-      <button className="btn-primary py-1.5" disabled={create.isPending}>Add</button>
-    </form>
+    <div
+      className="fixed inset-0 z-40 flex items-start justify-center bg-slate-900/40 px-4 pt-24"
+      role="dialog"
+      aria-modal="true"
+      aria-labelledby="new-fault-title"
+      onClick={(event) => event.target === event.currentTarget && setOpen(false)}
+      onKeyDown={(event) => event.key === "Escape" && setOpen(false)}
+    >
+      <form
+        className="card w-full max-w-md space-y-4 p-5"
+        data-testid="new-fault-form"
+        onSubmit={(event) => {
+          event.preventDefault();
+          create.mutate();
+        }}
+      >
+        <h3 id="new-fault-title" className="font-semibold">Add a fault</h3>
+        <div>
+          <label className="label" htmlFor="new-fault-name">Name</label>
+          <input id="new-fault-name" className="field" placeholder="e.g. QG-7" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
+          <FieldError errors={fieldErrors?.name} />
+        </div>
+        <fieldset>
+          <legend className="label">Type</legend>
+          <div className="space-y-1.5">
+            {FAULT_SENSES.map((option) => (
+              <label key={option.value} className="flex items-baseline gap-2 text-sm">
+                <input type="radio" name="fault-sense" value={option.value} checked={sense === option.value} onChange={() => setSense(option.value)} data-testid={`fault-sense-${option.value}`} />
+                <span><span className="font-medium">{option.label}</span> <span className="text-slate-500">— {option.hint}</span></span>
+              </label>
+            ))}
+          </div>
+          <FieldError errors={fieldErrors?.sense} />
+        </fieldset>
+        <div>
+          <label className="label" htmlFor="new-fault-description">Description <span className="font-normal text-slate-500">(optional)</span></label>
+          <textarea id="new-fault-description" className="field" rows={2} placeholder="Where it is, what it bounds" value={description} onChange={(event) => setDescription(event.target.value)} />
+          <FieldError errors={fieldErrors?.description} />
+        </div>
+        {create.error && !fieldErrors && <p className="field-error">{create.error.message}</p>}
+        <p className="text-xs text-slate-500">Next you upload its throw picks (a CSV) on the fault's page.</p>
+        <div className="flex justify-end gap-2">
+          <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>Cancel</button>
+          <button className="btn-primary" disabled={create.isPending} data-testid="new-fault-submit">{create.isPending ? "Adding…" : "Add fault"}</button>
+        </div>
+      </form>
+    </div>
   );
 }
 

@@ -8,7 +8,7 @@ function Row({ label, value, testId }: { label: string; value: string; testId?: 
   return (
     <div className="flex items-baseline justify-between gap-3 py-1">
       <dt className="text-slate-500 dark:text-slate-400">{label}</dt>
-      <dd className="num text-right" data-testid={testId}>{value}</dd>
+      <dd className="num whitespace-nowrap text-right" data-testid={testId}>{value}</dd>
     </div>
   );
 }
@@ -32,10 +32,10 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
         <Row label="Mapped length / height" value={`${metres(segment.mappedLimit.lengthM, 0)} / ${metres(segment.mappedLimit.heightM, 0)}`} />
         <Row label="Strike / dip" value={`${azimuth(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
         <Row label="Plane misfit (RMS)" value={metres(segment.plane.rmsM)} />
-        <Row label="Mean / max gradient" value={`${plain(segment.gradients.meanPerM, 3)} / ${plain(segment.gradients.maxPerM, 3)}`} />
-        <Row label="Tip gradients (strike start / end)" value={`${plain(segment.gradients.tips.strikeStartPerM, 3)} / ${plain(segment.gradients.tips.strikeEndPerM, 3)}`} />
-        <Row label="Tip gradients (up / down dip)" value={`${plain(segment.gradients.tips.upDipPerM, 3)} / ${plain(segment.gradients.tips.downDipPerM, 3)}`} />
-        <Row label="Peak offset from centre (s, t)" value={`${plain(segment.asymmetry.alongStrike)} / ${plain(segment.asymmetry.downDip)}`} />
+        <Row label="Mean / max gradient (m/m)" value={`${plain(segment.gradients.meanPerM, 3)} / ${plain(segment.gradients.maxPerM, 3)}`} />
+        <Row label="Tip gradients, strike ends (m/m)" value={`${plain(segment.gradients.tips.strikeStartPerM, 3)} / ${plain(segment.gradients.tips.strikeEndPerM, 3)}`} />
+        <Row label="Tip gradients, up / down dip (m/m)" value={`${plain(segment.gradients.tips.upDipPerM, 3)} / ${plain(segment.gradients.tips.downDipPerM, 3)}`} />
+        <Row label="Peak offset s / t (× half-axis)" value={`${plain(segment.asymmetry.alongStrike)} / ${plain(segment.asymmetry.downDip)}`} />
       </dl>
       <div className="rounded-lg bg-slate-50 p-3 text-xs leading-relaxed text-slate-600 dark:bg-slate-950 dark:text-slate-300">
         <p>

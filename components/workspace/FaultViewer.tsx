@@ -7,11 +7,13 @@ import type { FaultDisplay } from "@/lib/analysis/display";
 import type { AnalysisReport } from "@/lib/engine/types";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
-import { niceStep, niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
 import { FaultView2D } from "./FaultView2D";
-import { metres } from "./format";
+import { placeLabels } from "@/lib/views/labels";
+import { useDarkMode } from "@/scene/useDarkMode";
+import { inSentence, metres } from "./format";
 
 const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
   ssr: false,
@@ -76,11 +78,12 @@ export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, tool
           reason={webgl === false ? "3D graphics (WebGL) are not available in this browser, so the surface is shown as a contour map on the fault plane." : undefined}
         />
       ) : (
-        <div className="relative h-[600px] bg-gradient-to-b from-slate-100 to-slate-200 dark:from-slate-900 dark:to-slate-950" data-testid="fault-scene">
+        <div className="relative h-[600px] bg-gradient-to-b from-slate-100 to-slate-200 dark:from-slate-900 dark:to-slate-950" data-testid="fault-scene" data-scene-frame>
           <FaultScene display={display} pins={pins} onSurfaceClick={onSurfaceClick} initialCamera={initialCamera} />
           <DisplacementLegend display={display} />
           <HoverReadout />
           <ScaleBar />
+          <OrientationMarker />
           {hint && <div className="pointer-events-none absolute left-1/2 top-3 -translate-x-1/2 rounded bg-slip-700 px-3 py-1 text-xs font-medium text-white shadow" data-testid="viewer-hint">{hint}</div>}
         </div>
       )}
@@ -129,7 +132,7 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
               <option value="displacement">displacement</option>
               <option value="throw">throw</option>
               {fields.map((field) => (
-                <option key={field.key} value={field.key}>{field.label.toLowerCase()}</option>
+                <option key={field.key} value={field.key}>{inSentence(field.label)}</option>
               ))}
             </select>
           </label>
@@ -164,25 +167,13 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
     const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(reversed ? 1 - i / 10 : i / 10)} ${i * 10}%`);
     return `linear-gradient(to top, ${stops.join(", ")})`;
   }, [reversed]);
-  // displacement shows the contour levels; throw and other fields show round values
-  const levels = useMemo(() => {
-    if (colorMode === "displacement") {
-      const all = new Set<number>();
-      for (const segment of display.segments) for (const level of segment.contours.levelsM) all.add(level);
-      const sorted = [...all].sort((a, b) => a - b);
-      const stride = Math.ceil(sorted.length / 8);
-      const picked = sorted.filter((_, i) => i % stride === 0);
-      // the top level too, unless it would print on top of the one below it
-      const top = sorted.at(-1);
-      if (top !== undefined && top !== picked.at(-1) && (top - picked.at(-1)!) / (high - low || 1) > 0.08) picked.push(top);
-      return picked;
-    }
-    return niceTicks(low, high, 6);
-  }, [colorMode, display, high, low]);
+  // round values an even step apart, at most about seven, so labels neither crowd nor skip unevenly
+  const levels = useMemo(() => legendTicks(low, high, 7), [high, low]);
   const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
   const title = field ? `${field.label} (${field.unit})` : `${colorMode === "throw" ? "Throw" : "Displacement"} (m)`;
   return (
-    <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend">
+    <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend" data-scene-overlay
+      data-low={low} data-high={high} data-reversed={reversed ? "1" : "0"} data-title={title} data-contours={display.segments.length > 0 ? contourNote(display) : ""}>
       <div className="mb-1 max-w-40 font-semibold" data-testid="legend-title">{title}</div>
       <div className="mt-2 flex gap-1.5">
         <div className="h-40 w-3 rounded-sm" style={{ background: gradient }} />
@@ -194,14 +185,19 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
           ))}
         </div>
       </div>
-      {colorMode === "displacement" && display.segments[0] && (
-        <div className="mt-1 text-slate-500">contours every {metres(display.segments[0].contours.intervalM, 0)}</div>
-      )}
-      {field && <div className="mt-1 max-w-40 text-slate-500">contours still show displacement</div>}
+      {display.segments.length > 0 && <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">{contourNote(display)}</div>}
+
       <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
-      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600" /> mapped limit</div>
+      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600 dark:border-slate-300" /> mapped limit</div>
     </div>
   );
+}
+
+/** "displacement contours every 10 m", or per segment when their intervals differ. */
+function contourNote(display: FaultDisplay): string {
+  const intervals = display.segments.map((segment) => segment.contours.intervalM);
+  if (intervals.every((interval) => interval === intervals[0])) return `displacement contours every ${metres(intervals[0], 0)}`;
+  return `displacement contours every ${display.segments.map((segment) => `${metres(segment.contours.intervalM, 0)} (${segment.id})`).join(", ")}`;
 }
 
 function HoverReadout() {
@@ -219,7 +215,7 @@ function HoverReadout() {
     ["displacement", metres(readout.displacementM)],
   ];
   if (field && readout.fieldValue !== undefined) {
-    rows.push([field.label.toLowerCase(), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
+    rows.push([inSentence(field.label), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
   }
   return (
     <dl className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="hover-readout">
@@ -238,10 +234,72 @@ function ScaleBar() {
   if (!metresPerPixel) return null;
   const lengthM = niceStep(metresPerPixel * 120);
   const widthPx = lengthM / metresPerPixel;
+  // on a plate of its own, so it reads over the surface at any zoom
   return (
-    <div className="pointer-events-none absolute bottom-4 left-4 text-[11px] text-slate-700 dark:text-slate-200" data-testid="scale-bar">
+    <div className="pointer-events-none absolute bottom-3 left-3 rounded-md bg-white/90 px-2 py-1.5 text-[11px] text-slate-800 shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:text-slate-100 dark:ring-slate-700" data-testid="scale-bar" data-scene-overlay>
       <div className="h-1.5 border-x-2 border-b-2 border-slate-700 dark:border-slate-200" style={{ width: widthPx }} />
       <div className="num mt-0.5">{metres(lengthM, 0)} at the centre of view</div>
     </div>
+  );
+}
+
+const MARKER_SIZE_PX = 104;
+const MARKER_AXIS_PX = 32;
+
+/**
+ * Which way East, North and Up point, drawn from the camera's rotation: each axis a line with its name placed where
+ * it covers no other name; an axis pointing at (⊙) or away from (⊗) the viewer is marked at the centre.
+ */
+function OrientationMarker() {
+  const axes = useOverlayStore((state) => state.axes);
+  const dark = useDarkMode();
+  if (!axes) return null;
+  const centre = MARKER_SIZE_PX / 2;
+  const items = [
+    { name: "E", vector: axes.east, colour: "#c2410c" },
+    { name: "N", vector: axes.north, colour: "#0f766e" },
+    { name: "Up", vector: axes.up, colour: dark ? "#94a3b8" : "#475569" },
+  ].map((item) => {
+    const [x, y, z] = item.vector;
+    const planar = Math.hypot(x, y);
+    const endOn = planar < 0.25;
+    const tip = { x: centre + x * MARKER_AXIS_PX, y: centre + y * MARKER_AXIS_PX };
+    const prefer: "above" | "right" | "below" | "left" = endOn ? "right" : Math.abs(x) >= Math.abs(y) ? (x > 0 ? "right" : "left") : y > 0 ? "below" : "above";
+    const label = endOn ? `${item.name} ${z > 0 ? "⊙" : "⊗"}` : item.name;
+    return { ...item, z, endOn, tip, prefer, label };
+  });
+  const placed = placeLabels(
+    items.map((item) => ({ x: item.tip.x, y: item.tip.y, width: item.label.length * 7 + 8, height: 15, prefer: item.prefer, radius: item.endOn ? 0 : 2 })),
+    { x0: 0, y0: 0, x1: MARKER_SIZE_PX, y1: MARKER_SIZE_PX },
+    { gap: 2 },
+  );
+  // far axes first, so the nearer ones are drawn over them
+  const order = items.map((_, index) => index).sort((a, b) => items[a].z - items[b].z);
+  return (
+    <svg
+      className="pointer-events-none absolute bottom-3 right-3 rounded-full bg-white/80 shadow ring-1 ring-slate-200 dark:bg-slate-900/80 dark:ring-slate-700"
+      width={MARKER_SIZE_PX}
+      height={MARKER_SIZE_PX}
+      viewBox={`0 0 ${MARKER_SIZE_PX} ${MARKER_SIZE_PX}`}
+      role="img"
+      aria-label={`Orientation: ${items.map((item) => item.label).join(", ")}`}
+      data-testid="orientation-marker"
+      data-scene-overlay
+    >
+      {order.map((index) => {
+        const item = items[index];
+        const box = placed[index].box;
+        return (
+          <g key={item.name} data-axis={item.name}>
+            {!item.endOn && <line x1={centre} y1={centre} x2={item.tip.x} y2={item.tip.y} stroke={item.colour} strokeWidth={2.5} strokeLinecap="round" opacity={item.z < -0.5 ? 0.55 : 1} />}
+            <rect data-axis-label={item.name} x={box.x0} y={box.y0} width={box.x1 - box.x0} height={box.y1 - box.y0} rx={4} fill={item.colour} />
+            <text x={(box.x0 + box.x1) / 2} y={(box.y0 + box.y1) / 2} dy="0.35em" textAnchor="middle" fontSize={10.5} fontWeight={700} fill="#ffffff" style={{ fontFamily: "var(--font-sans, sans-serif)" }}>
+              {item.label}
+            </text>
+          </g>
+        );
+      })}
+      <circle cx={centre} cy={centre} r={2} fill={dark ? "#e2e8f0" : "#334155"} />
+    </svg>
   );
 }

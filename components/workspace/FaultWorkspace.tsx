@@ -100,7 +100,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
               {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks)</option>)}
             </select>
           )}
-          {canEdit && (
+          {canEdit && current && (
             <button className="btn-primary" onClick={() => setShowUpload((open) => !open)} data-testid="open-upload">
               {showUpload ? "Close upload" : "Upload pick set"}
             </button>
@@ -134,9 +134,16 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
         </div>
       )}
       {analysis.isSuccess && !current && (
-        <div className="card p-10 text-center" data-testid="no-picks">
+        <div className={`card ${canEdit ? "p-5" : "p-10 text-center"}`} data-testid="no-picks">
           <h2 className="font-semibold">No picks yet</h2>
-          <p className="mt-2 text-sm text-slate-500">{canEdit ? "Upload a pick CSV to build the displacement surface." : "An interpreter has not uploaded picks for this fault yet."}</p>
+          {canEdit ? (
+            <>
+              <p className="mb-4 mt-1 text-sm text-slate-500">Upload the throw picks of {props.faultName} to build its displacement surface, tip line and fault sheet.</p>
+              <UploadPanel faultId={faultId} onSaved={onSaved} withExamples />
+            </>
+          ) : (
+            <p className="mt-2 text-sm text-slate-500">An interpreter has not uploaded picks for this fault yet.</p>
+          )}
         </div>
       )}
 

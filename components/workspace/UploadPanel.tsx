@@ -41,7 +41,56 @@ function postForm<T>(url: string, form: FormData, onProgress: (fraction: number)
   });
 }
 
-export function UploadPanel({ faultId, onSaved }: { faultId: string; onSaved: (analysisId: string) => void }) {
+/** The demo study's pick files (public/demo), offered on an empty fault to try the upload with. */
+const EXAMPLE_FILES = [
+  { file: "qg-1-throw-picks.csv", about: "two overlapping segments with a relay, 3,338 picks" },
+  { file: "qg-4-throw-picks.csv", about: "one blind fault with an elliptical tip line, 2,205 picks" },
+];
+
+/** The pick CSV format in brief, with the example files to download or to try at once. */
+function ExampleFiles({ onUse, busy }: { onUse: (file: File) => void; busy: boolean }) {
+  const [error, setError] = useState<string | null>(null);
+  async function use(name: string) {
+    setError(null);
+    try {
+      const response = await fetch(`/demo/${name}`);
+      if (!response.ok) throw new Error(`The example file could not be fetched (${response.status}).`);
+      onUse(new File([await response.blob()], name, { type: "text/csv" }));
+    } catch (caught) {
+      setError(caught instanceof Error ? caught.message : String(caught));
+    }
+  }
+  return (
+    <div className="grid gap-4 text-left text-sm md:grid-cols-2" data-testid="upload-help">
+      <div>
+        <h3 className="font-semibold">The pick file</h3>
+        <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">
+          A CSV with a header row; names in any order and case. Required: <code className="font-mono">x</code>, <code className="font-mono">y</code> (map coordinates, m),{" "}
+          <code className="font-mono">z</code> (elevation, m, positive up; or <code className="font-mono">depth</code>, positive down), <code className="font-mono">throw</code> (m, ≥ 0).
+          Optional: <code className="font-mono">segment</code>, <code className="font-mono">horizon</code>, <code className="font-mono">heave</code>, <code className="font-mono">quality</code> (0–1),{" "}
+          <code className="font-mono">hw_thickness</code>, <code className="font-mono">fw_thickness</code>. Feet are converted when you choose them.
+        </p>
+        <pre className="mt-2 overflow-x-auto rounded bg-slate-50 p-2 font-mono text-[11px] leading-snug text-slate-700 dark:bg-slate-950 dark:text-slate-300">{"x,y,z,throw,segment\n461880.3,6733605.6,-1527.8,11.6,north\n461910.0,6733550.7,-1527.1,11.0,north"}</pre>
+      </div>
+      <div>
+        <h3 className="font-semibold">No file at hand? Try an example</h3>
+        <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">The invented Quillon Graben demo picks: use one here to see the whole analysis, or download it to look inside.</p>
+        <ul className="mt-2 space-y-2" data-testid="example-files">
+          {EXAMPLE_FILES.map((example) => (
+            <li key={example.file} className="flex flex-wrap items-center gap-2">
+              <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={busy} onClick={() => void use(example.file)} data-testid={`use-example-${example.file}`}>Use {example.file}</button>
+              <a className="text-xs text-slip-700 underline dark:text-slip-300" href={`/demo/${example.file}`} download>download</a>
+              <span className="basis-full text-xs text-slate-500">{example.about}</span>
+            </li>
+          ))}
+        </ul>
+        {error && <p className="field-error text-xs">{error}</p>}
+      </div>
+    </div>
+  );
+}
+
+export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultId: string; onSaved: (analysisId: string) => void; withExamples?: boolean }) {
   const [file, setFile] = useState<File | null>(null);
   const [units, setUnits] = useState<"m" | "ft">("m");
   const [dropBadRows, setDropBadRows] = useState(false);
@@ -126,6 +175,8 @@ export function UploadPanel({ faultId, onSaved }: { faultId: string; onSaved: (a
         </div>
         <input ref={inputRef} type="file" accept=".csv,text/csv" className="sr-only" data-testid="pick-file" onChange={(event) => choose(event.target.files?.[0])} />
       </div>
+
+      {withExamples && !preview && <ExampleFiles onUse={choose} busy={busy !== null} />}
 
       {busy && (
         <div className="space-y-1" data-testid="upload-progress">

@@ -32,7 +32,13 @@ const SERVING = 1;
  * A fitter backed by a helper thread started from `entry` (a module that calls serveTipLineFits for this role).
  * Falls back to fitting in the calling thread if the helper cannot be reached. `close` ends the helper.
  */
-export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFitter; close: () => Promise<void>; counts: () => { onHelper: number; inThisThread: number } } {
+export function threadedTipLineFitter(entry: string | URL): {
+  fitter: TipLineFitter;
+  /** starts the helper now rather than at the first fit, so its start-up overlaps other work (the command line) */
+  warm: () => void;
+  close: () => Promise<void>;
+  counts: () => { onHelper: number; inThisThread: number };
+} {
   let helper: { worker: Worker; port: MessagePort; signal: Int32Array } | null = null;
   let broken = false;
   let onHelper = 0;
@@ -89,6 +95,14 @@ export function threadedTipLineFitter(entry: string | URL): { fitter: TipLineFit
   };
   return {
     fitter,
+    warm: () => {
+      if (helper || broken) return;
+      try {
+        helper = start();
+      } catch {
+        broken = true;
+      }
+    },
     counts: () => ({ onHelper, inThisThread }),
     close: async () => {
       if (helper) await helper.worker.terminate();

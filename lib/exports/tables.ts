@@ -5,29 +5,7 @@ import type { PickColumns } from "@/lib/engine/types";
 import { toCsv, type CsvCell } from "@/lib/views/csv";
 import { columnMaxProfile, planePointToWorld, strikeProfileAtT } from "@/lib/views/profiles";
 
-export const GRID_CSV_HEADER = ["segment", "s", "t", "x", "y", "z", "displacement", "throw"];
-
-/** Every grid node that has data, at the engine's full resolution (m). */
-export function gridCsv({ report, grids }: PipelineResult): string {
-  function* rows(): Generator<CsvCell[]> {
-    for (const segment of report.segments) {
-      const grid = grids[segment.id];
-      if (!grid) continue;
-      for (let row = 0; row < grid.rows; row++) {
-        for (let column = 0; column < grid.columns; column++) {
-          const k = row * grid.columns + column;
-          const d = grid.displacementM[k];
-          if (Number.isNaN(d)) continue;
-          const s = grid.s0 + column * grid.cellM;
-          const t = grid.t0 + row * grid.cellM;
-          const [x, y, z] = planePointToWorld(segment.plane, s, t);
-          yield [segment.id, s, t, x, y, z, d, grid.throwM[k]];
-        }
-      }
-    }
-  }
-  return toCsv(GRID_CSV_HEADER, rows());
-}
+export { GRID_CSV_HEADER, gridCsv } from "@/lib/views/grid-csv";
 
 export const PICKS_CSV_HEADER = ["row", "segment", "horizon", "x", "y", "z", "throw", "heave", "s", "t", "displacement", "surface_displacement", "residual"];
 

@@ -286,7 +286,7 @@ export function hasDataAt(u: number[], values: number[], x: number): boolean {
  * Sum of several segments' profiles on a common u axis of `samples` points spanning all of them. Where no segment has
  * data (below seismic resolution on every one) the sum is NaN, a gap, rather than a false zero.
  */
-export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: number[]; displacementM: number[]; throwM: number[] } {
+export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: number[]; displacementM: number[]; throwM: number[]; contributors: number[] } {
   let lo = Infinity;
   let hi = -Infinity;
   for (const p of profiles) {
@@ -297,15 +297,18 @@ export function sumProfiles(profiles: CommonProfile[], samples = 200): { u: numb
   const u: number[] = [];
   const displacementM: number[] = [];
   const throwM: number[] = [];
-  if (!(hi > lo)) return { u, displacementM, throwM };
+  const contributors: number[] = [];
+  if (!(hi > lo)) return { u, displacementM, throwM, contributors };
   for (let k = 0; k < samples; k++) {
     const x = lo + ((hi - lo) * k) / (samples - 1);
     u.push(x);
-    const covered = profiles.some((p) => hasDataAt(p.u, p.displacementM, x));
+    const count = profiles.reduce((n, p) => n + (hasDataAt(p.u, p.displacementM, x) ? 1 : 0), 0);
+    contributors.push(count);
+    const covered = count > 0;
     displacementM.push(covered ? profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.displacementM, x), 0) : NaN);
     throwM.push(covered ? profiles.reduce((sum, p) => sum + interpolateOrZero(p.u, p.throwM, x), 0) : NaN);
   }
-  return { u, displacementM, throwM };
+  return { u, displacementM, throwM, contributors };
 }
 
 /** Along-strike extent [min, max] of a segment's inferred tip line in the common coordinate. */

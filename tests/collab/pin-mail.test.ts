@@ -198,12 +198,15 @@ describe("digest route and settings", () => {
     expect(other.mode).toBe("immediate");
   });
 
-  it("the outbox exists in development, or in production only when SLIPFIELD_OUTBOX=on", () => {
-    expect(outboxEnabled({ NODE_ENV: "development" } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "test" } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "production" } as NodeJS.ProcessEnv)).toBe(false);
-    expect(outboxEnabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "on" } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "yes" } as NodeJS.ProcessEnv)).toBe(false);
+  it("the outbox exists whenever no mail server is configured (the only place to read the mail), in development, or with SLIPFIELD_OUTBOX=on", () => {
+    const smtp = "smtp://mail.example.test:587";
+    expect(outboxEnabled({ NODE_ENV: "production" } as NodeJS.ProcessEnv)).toBe(true);
+    expect(outboxEnabled({ NODE_ENV: "development", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(true);
+    expect(outboxEnabled({ NODE_ENV: "test", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(true);
+    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(false);
+    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "on" } as NodeJS.ProcessEnv)).toBe(true);
+    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "yes" } as NodeJS.ProcessEnv)).toBe(false);
+    expect(outboxEnabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "off" } as NodeJS.ProcessEnv)).toBe(false);
   });
 
   it("the outbox page is a 404 for members who own no study and lists their studies' messages for owners", async () => {

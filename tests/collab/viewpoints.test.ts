@@ -6,13 +6,14 @@ vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOr
 
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { auditLog, pins, viewpointLinks, viewpoints, type CameraState, type StudyRole } from "@/db/schema";
+import { auditLog, pinReplies, pins, viewpointLinks, viewpoints, type CameraState, type StudyRole } from "@/db/schema";
 import * as listRoute from "@/app/api/faults/[faultId]/viewpoints/route";
 import * as viewpointRoute from "@/app/api/viewpoints/[viewpointId]/route";
 import * as linksRoute from "@/app/api/viewpoints/[viewpointId]/links/route";
 import * as linkRoute from "@/app/api/links/[linkId]/route";
 import * as publicRoute from "@/app/api/v/[token]/route";
 import * as publicDisplayRoute from "@/app/api/v/[token]/display/route";
+import * as publicStateRoute from "@/app/api/v/[token]/state/route";
 import * as faultRoute from "@/app/api/faults/[faultId]/route";
 import * as studiesRoute from "@/app/api/studies/route";
 import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
@@ -247,7 +248,11 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     const viewpoint = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { title: "Tip region", note: "look at the NE tip", camera, settings } });
     viewpointId = viewpoint.json.viewpoint.id;
     const db = await getDb();
-    await db.insert(pins).values({ faultId: fixture.fault.id, authorId: fixture.people.reviewer.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "throw jumps here" });
+    const [pin] = await db.insert(pins).values({ faultId: fixture.fault.id, authorId: fixture.people.reviewer.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "throw **jumps** here" }).returning();
+    await db.insert(pinReplies).values([
+      { pinId: pin.id, authorId: fixture.people.interpreter.id, body: "a mis-pick on inline 1204, fixed in v2" },
+      { pinId: pin.id, authorId: fixture.people.owner.id, body: "withdrawn", deletedAt: new Date() },
+    ]);
   });
 
   function demoForm() {
@@ -302,13 +307,18 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     expect((await callRoute(studiesRoute.GET, {})).status).toBe(401);
   });
 
-  it("shows pins (without authors) only when the link includes them", async () => {
+  it("shows pins and their replies (without authors, without deleted replies) only when the link includes them", async () => {
     const link = await makeLink({ includePins: true });
     const response = await callRoute(publicRoute.GET, { params: { token: link.token } });
     expect(response.json.pins).toHaveLength(1);
-    expect(response.json.pins[0]).toMatchObject({ body: "throw jumps here", state: "open", x: 1, y: 2, z: 3 });
+    expect(response.json.pins[0]).toMatchObject({ body: "throw **jumps** here", state: "open", x: 1, y: 2, z: 3 });
+    expect(response.json.pins[0].replies).toEqual([{ body: "a mis-pick on inline 1204, fixed in v2", createdAt: expect.any(String) }]);
     expect(Object.keys(response.json.pins[0])).not.toContain("authorId");
-    expect(JSON.stringify(response.json)).not.toContain(fixture.people.reviewer.id);
+    const text = JSON.stringify(response.json);
+    for (const person of [fixture.people.reviewer, fixture.people.interpreter, fixture.people.owner]) {
+      expect(text).not.toContain(person.id);
+      expect(text).not.toContain(person.name);
+    }
   });
 
   it("a revoked link answers 410 'revoked' on both token routes, at once", async () => {
@@ -320,6 +330,8 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     expect(response.status).toBe(410);
     expect(response.json).toEqual({ error: "This link was revoked.", details: { state: "revoked" } });
     expect((await callRoute(publicDisplayRoute.GET, { params: { token: link.token } })).status).toBe(410);
+    const state = await callRoute(publicStateRoute.GET, { params: { token: link.token } });
+    expect(state).toEqual({ status: 410, json: { state: "revoked" } });
     const db = await getDb();
     const audit = await db.select().from(auditLog).where(eq(auditLog.target, link.id));
     expect(audit.map((entry) => entry.action).sort()).toEqual(["viewpoint-link.create", "viewpoint-link.revoke"]);
@@ -334,11 +346,13 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     expect(lifetimeMs).toBeGreaterThanOrEqual(24 * 3600_000);
     expect(lifetimeMs).toBeLessThan(24 * 3600_000 + 60_000);
     expect((await callRoute(publicRoute.GET, { params: { token: link.token } })).status).toBe(200);
+    expect(await callRoute(publicStateRoute.GET, { params: { token: link.token } })).toEqual({ status: 200, json: { state: "active" } });
     await db.update(viewpointLinks).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(viewpointLinks.id, link.id));
     const response = await callRoute(publicRoute.GET, { params: { token: link.token } });
     expect(response.status).toBe(410);
     expect(response.json.error).toBe("This link has expired.");
     expect((await callRoute(publicDisplayRoute.GET, { params: { token: link.token } })).status).toBe(410);
+    expect(await callRoute(publicStateRoute.GET, { params: { token: link.token } })).toEqual({ status: 410, json: { state: "expired" } });
   });
 
   it("a link made 'until revoked' has no expiry", async () => {
@@ -354,6 +368,7 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
       const response = await callRoute(publicRoute.GET, { params: { token } });
       expect(response.status, token).toBe(404);
       expect(response.json.error).toBe("This link does not exist.");
+      expect(await callRoute(publicStateRoute.GET, { params: { token } }), token).toEqual({ status: 404, json: { state: "not-found" } });
     }
   });
 

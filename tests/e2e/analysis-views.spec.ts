@@ -5,7 +5,7 @@ import { openDemoStudy, signIn } from "./helpers";
 async function openFault(page: Page, name: string, who = "viewer@quillon.test") {
   await signIn(page, who);
   await openDemoStudy(page);
-  await page.getByRole("link", { name, exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name, exact: true }).click();
   await expect(page.getByTestId("analysis-views-panel")).toBeVisible({ timeout: 60_000 });
 }
 
@@ -29,15 +29,18 @@ async function download(page: Page, trigger: Locator) {
 
 const isPng = (bytes: Buffer) => bytes.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
 
-test("QG-1: strike profile with both segments, their sum and the overlap; relay view; scaling chart", async ({ page }) => {
+test("QG-1: strike profile with both segments, the overlap and an honest legend; relay view; scaling chart", async ({ page }) => {
   await openFault(page, "QG-1");
   const chart = page.getByTestId("strike-profile-chart");
   const points = await expectPointsDrawn(chart, "profile-point");
   expect(await axisLabels(chart)).toMatch(/Along strike, common mean-strike coordinate \(m\)/);
   expect(await axisLabels(chart)).toMatch(/Displacement \(m\)/);
   await expect(chart).toContainText("overlap (relay)");
-  await expect(chart).toContainText("sum of segments");
   await expect(chart).toContainText("fitted model");
+  // QG-1's segments have no resolvable data at the same place along strike: no sum line, so the legend does not list
+  // one, and the note says why (the CSV still carries the sum)
+  await expect(chart).not.toContainText("sum of segments");
+  await expect(page.getByTestId("no-sum-note")).toContainText("no separate sum is drawn");
 
   await page.getByTestId("profile-mode").selectOption("column-max");
   await expect(chart).toHaveAttribute("data-points", /\d+/);
@@ -55,7 +58,8 @@ test("QG-1: strike profile with both segments, their sum and the overlap; relay 
 
   // a drawn line on the plan map
   await page.getByTestId("profile-mode").selectOption("line");
-  const map = page.getByTestId("profile-line-map").locator("svg").first();
+  // the plan's own svg (the colour legend's comes first)
+  const map = page.getByTestId("profile-line-map").locator("svg").last();
   const box = (await map.boundingBox())!;
   await page.mouse.move(box.x + box.width * 0.25, box.y + box.height * 0.5);
   await page.mouse.down();
@@ -164,10 +168,10 @@ test("horizon picks: throw per horizon, throw–depth reading with its basis, ex
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   await page.getByTestId("new-fault").click();
-  await page.getByLabel("Fault name").fill("QG-7 growth");
-  await page.getByRole("button", { name: "Add", exact: true }).click();
-  await page.getByRole("link", { name: "QG-7 growth" }).click();
-  await page.getByTestId("open-upload").click();
+  await page.getByLabel("Name").fill("QG-7 growth");
+  await page.getByTestId("new-fault-submit").click();
+  // adding a fault opens it, ready for its picks
+  await expect(page.getByTestId("fault-title")).toHaveText("QG-7 growth");
   await page.getByTestId("pick-file").setInputFiles({ name: "qg-7-growth.csv", mimeType: "text/csv", buffer: growthCsv() });
   await expect(page.getByTestId("upload-preview")).toBeVisible();
   await page.getByTestId("confirm-upload").click();
@@ -182,7 +186,16 @@ test("horizon picks: throw per horizon, throw–depth reading with its basis, ex
   await expect(tz).toHaveAttribute("data-points", "4");
   expect(await axisLabels(tz)).toMatch(/Elevation \(m, up positive\)/);
   await expect(page.getByTestId("tz-reading")).toContainText("syn-sedimentary growth");
-  await expect(page.getByTestId("tz-reading")).toContainText("Cartwright et al. (1998");
+  await expect(page.getByTestId("tz-reading")).toContainText("Cartwright et al. (1998)");
+  // the reading cites published work only
+  await expect(page.getByTestId("tz-reading")).not.toContainText(/memory|domain reference|section \d/);
+  // every horizon name beside the throw–depth points is inside the picture, none cut at its edge
+  const tzSvg = (await tz.locator("svg").last().boundingBox())!;
+  for (const horizon of ["H1", "H2", "H3", "H4"]) {
+    const label = (await tz.locator("svg").last().locator("text").filter({ hasText: new RegExp(`^${horizon}$`) }).first().boundingBox())!;
+    expect(label.x + label.width, horizon).toBeLessThanOrEqual(tzSvg.x + tzSvg.width);
+    expect(label.x, horizon).toBeGreaterThanOrEqual(tzSvg.x);
+  }
   const ei = page.getByTestId("expansion-index-chart");
   await expect(ei).toHaveAttribute("data-points", "4");
   const eiCsv = await download(page, page.getByTestId("expansion-index-chart-csv"));

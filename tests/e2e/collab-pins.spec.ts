@@ -13,7 +13,7 @@ async function personAt(browser: Browser, email: string) {
 async function openQg1Pins(page: Page) {
   await page.goto("/studies");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
   await page.waitForFunction(() => (window as unknown as { __slipfieldSceneReady?: boolean }).__slipfieldSceneReady === true, null, { timeout: 60_000 });
   await page.getByTestId("side-tab-pins").click();

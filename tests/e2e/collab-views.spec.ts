@@ -21,7 +21,7 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   const studyId = new URL(page.url()).pathname.split("/studies/")[1];
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await sceneReady(page);
   const faultId = new URL(page.url()).pathname.split("/faults/")[1];
 
@@ -67,7 +67,7 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   // a new, signed-out browser context opens the link
   const guest = await browser.newContext();
   const guestPage = await guest.newPage();
-  await guestPage.goto(url);
+  expect((await guestPage.goto(url))?.status()).toBe(200);
   await expect(guestPage.getByTestId("shared-fault-name")).toHaveText("QG-1");
   await expect(guestPage.getByTestId("shared-viewpoint-title")).toHaveText(title);
   await sceneReady(guestPage);
@@ -93,10 +93,15 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   const linkItem = page.getByTestId("link-item").first();
   await linkItem.getByTestId("link-revoke").click();
   await expect(linkItem).toHaveAttribute("data-state", "revoked");
-  await guestPage.reload();
+  // the page says why, and the answer says so too: 410 Gone
+  expect((await guestPage.reload())?.status()).toBe(410);
   await expect(guestPage.getByTestId("link-revoked")).toBeVisible();
   await expect(guestPage.getByRole("heading", { name: "This link was revoked" })).toBeVisible();
   expect((await guest.request.get(`/api/v/${token}`)).status()).toBe(410);
   expect((await guest.request.get(`/api/v/${token}/display`)).status()).toBe(410);
+  // an unknown token is not found: 404 with a page that says so
+  const nearMiss = (token[0] === "A" ? "B" : "A") + token.slice(1);
+  expect((await guestPage.goto(url.replace(token, nearMiss)))?.status()).toBe(404);
+  await expect(guestPage.getByTestId("link-not-found")).toBeVisible();
   await guest.close();
 });

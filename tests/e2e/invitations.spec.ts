@@ -51,7 +51,7 @@ test("an owner invites a colleague by e-mail; they create an account from the li
   // roles are remembered by the server: a change made through the API must reach the pages (another bundle) at once
   await guest.goto("/studies");
   await openDemoStudy(guest);
-  await guest.getByRole("link", { name: "QG-4", exact: true }).click();
+  await guest.getByTestId("fault-table").getByRole("link", { name: "QG-4", exact: true }).click();
   await expect(guest.getByTestId("fault-sheet")).toBeVisible();
   const faultPath = new URL(guest.url()).pathname;
   const faultId = faultPath.split("/faults/")[1];

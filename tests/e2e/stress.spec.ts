@@ -5,7 +5,7 @@ import { openDemoStudy, signIn } from "./helpers";
 test("an interpreter enters a stress state on QG-1, reads the screen with its caution, colours the surface by slip tendency and exports the triangles", async ({ page }) => {
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
   const faultId = page.url().split("/faults/")[1].split(/[?#]/)[0];
 
@@ -65,6 +65,14 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await expect(page.getByTestId("legend-title")).toHaveText(/Slip tendency/);
   await panel.getByTestId("stress-colour-dp").click();
   await expect(page.getByTestId("legend-title")).toHaveText(/ΔP to failure.*\(MPa\)/);
+  // the colour list keeps the capital Δ (no text transform lower-cases it)
+  const chosen = await page.getByTestId("colour-mode").evaluate((select: HTMLSelectElement) => select.selectedOptions[0].textContent ?? "");
+  expect(chosen).toMatch(/^ΔP to failure/);
+  // the fault sheet names the stress state's version in words
+  await page.getByTestId("side-tab-sheet").click();
+  await expect(page.getByTestId("sheet-stress")).toContainText(/Stress state version \d+; screening only/);
+  await expect(page.getByTestId("sheet-stress")).not.toContainText("v—");
+  await page.getByTestId("side-tab-stress").click();
 
   const result = await (await page.request.get(`/api/faults/${faultId}/stress/result`)).json();
   const downloading = page.waitForEvent("download");
@@ -83,7 +91,7 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
 test("a viewer sees the screen and the caution but no stress form, and the API refuses their save", async ({ page }) => {
   await signIn(page, "viewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible({ timeout: 60_000 });
   const faultId = page.url().split("/faults/")[1].split(/[?#]/)[0];
   await page.getByTestId("side-tab-stress").click();

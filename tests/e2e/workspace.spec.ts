@@ -22,12 +22,11 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   await page.getByTestId("new-fault").click();
-  await page.getByLabel("Fault name").fill("QG-4 rework");
-  await page.getByRole("button", { name: "Add", exact: true }).click();
-  await page.getByRole("link", { name: "QG-4 rework" }).click();
+  await page.getByLabel("Name").fill("QG-4 rework");
+  await page.getByTestId("new-fault-submit").click();
+  // adding a fault opens it, ready for its picks
+  await expect(page.getByTestId("fault-title")).toHaveText("QG-4 rework");
   await expect(page.getByTestId("no-picks")).toBeVisible();
-
-  await page.getByTestId("open-upload").click();
   const planted = demoCsvWithPlantedBadRow();
   await expect(page.getByTestId("quality-use")).toContainText("weights each pick in the least-squares plane fit");
   await page.getByTestId("pick-file").setInputFiles({ name: "qg-4-rework.csv", mimeType: "text/csv", buffer: planted.file });
@@ -67,7 +66,7 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
 test("a reviewer sees no upload control and the upload API refuses them", async ({ page }) => {
   await signIn(page, "reviewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-4", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-4", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible();
   await expect(page.getByTestId("open-upload")).toHaveCount(0);
   const faultId = page.url().split("/faults/")[1];
@@ -89,7 +88,7 @@ test("without WebGL the page falls back to the 2D contour map and the fault shee
   const page = await context.newPage();
   await signIn(page, "viewer@quillon.test");
   await openDemoStudy(page);
-  await page.getByRole("link", { name: "QG-1", exact: true }).click();
+  await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
   await expect(page.getByTestId("fault-sheet")).toBeVisible();
   const map = page.getByTestId("fault-map-2d");
   await expect(map).toBeVisible();

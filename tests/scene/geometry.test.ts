@@ -9,11 +9,14 @@ import {
   buildSurfaceMesh,
   buildTipLines,
   depthLabels,
+  contrastingLineColour,
   displayBounds,
+  framingPoints,
   frameCoordinates,
   lineLiftM,
   linearToSrgb255,
   niceTicks,
+  legendTicks,
   parseCssColor,
   surfaceValueAt,
 } from "@/scene/geometry";
@@ -211,6 +214,19 @@ describe("bounds, depth labels and camera presets", () => {
     expect(niceTicks(0, 1, 5)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
   });
 
+  it("legend ticks are evenly spaced round values, at most the count asked for (common practice, no source)", () => {
+    expect(legendTicks(0, 81.5, 7)).toEqual([0, 20, 40, 60, 80]);
+    expect(legendTicks(10.2, 50.1, 7)).toEqual([20, 30, 40, 50]);
+    expect(legendTicks(-3.2, 0.4, 7)).toEqual([-3, -2, -1, 0]);
+    for (const [low, high] of [[0, 81.5], [10.2, 50.1], [0, 0.87], [-12, 140]]) {
+      const ticks = legendTicks(low, high, 7);
+      expect(ticks.length).toBeLessThanOrEqual(7);
+      expect(ticks.length).toBeGreaterThanOrEqual(2);
+      const steps = ticks.slice(1).map((tick, k) => tick - ticks[k]);
+      for (const step of steps) expect(step).toBeCloseTo(steps[0], 9);
+    }
+  });
+
   // basis: common practice, no source (map view: looking straight down with north up on the screen)
   it("puts presets in world coordinates: map view from above, face-on along the normal", () => {
     const display = singleSegmentDisplay();
@@ -226,5 +242,55 @@ describe("bounds, depth labels and camera presets", () => {
     const direction = face.position.map((value, axis) => value - face.target[axis]);
     const length = Math.hypot(...direction);
     display.segments[0].frame.normal.forEach((component, axis) => expect(direction[axis] / length).toBeCloseTo(component, 6));
+  });
+
+  // basis: pinhole camera geometry (common practice, no source): a point is in view when its offset from the axis
+  // is at most its depth times tan(fov/2) (times the aspect ratio horizontally)
+  it("fits the camera to the fault's outline from any preset: every point in view right of the legend's strip, the widest one at the margin", () => {
+    const display = singleSegmentDisplay();
+    const points = framingPoints(display, 0);
+    const aspect = 1.65;
+    const leftInset = 0.25;
+    const rightInset = 0.1;
+    for (const preset of ["overview", "map", "faceOn", "alongStrike"] as const) {
+      const camera = presetCamera(preset, { bounds: displayBounds(display, 0), frame: display.segments[0].frame, origin: display.origin, points, aspect, leftInset, rightInset });
+      const forward = camera.target.map((value, axis) => value - camera.position[axis]);
+      const length = Math.hypot(...forward);
+      const back = forward.map((value) => -value / length) as [number, number, number];
+      // right = world up × back, as three.js's lookAt builds it
+      const right = [-back[1], back[0], 0];
+      const r = Math.hypot(...right) > 1e-9 ? right.map((v) => v / Math.hypot(...right)) : [1, 0, 0];
+      const up = [back[1] * r[2] - back[2] * r[1], back[2] * r[0] - back[0] * r[2], back[0] * r[1] - back[1] * r[0]];
+      const tanV = Math.tan((camera.fov / 2) * (Math.PI / 180));
+      let widest = 0;
+      let leftmost = Infinity;
+      let rightmost = -Infinity;
+      for (let i = 0; i < points.length; i += 3) {
+        const relative = [0, 1, 2].map((axis) => points[i + axis] + display.origin[axis] - camera.position[axis]);
+        const depth = -(relative[0] * back[0] + relative[1] * back[1] + relative[2] * back[2]);
+        expect(depth, preset).toBeGreaterThan(0);
+        const x = (relative[0] * r[0] + relative[1] * r[1] + relative[2] * r[2]) / (depth * tanV * aspect);
+        const y = (relative[0] * up[0] + relative[1] * up[1] + relative[2] * up[2]) / (depth * tanV);
+        // x in the free part of the view, re-centred: −1 at the left strip's edge, 1 at the right strip's
+        const free = (x - (leftInset - rightInset)) / (1 - leftInset - rightInset);
+        leftmost = Math.min(leftmost, x);
+        rightmost = Math.max(rightmost, x);
+        widest = Math.max(widest, Math.abs(free), Math.abs(y));
+      }
+      expect(leftmost, preset).toBeGreaterThan(-1 + 2 * leftInset - 0.02);
+      expect(rightmost, preset).toBeLessThan(1 - 2 * rightInset + 0.02);
+      expect(widest, preset).toBeLessThanOrEqual(1 / 1.1 + 0.02);
+      expect(widest, preset).toBeGreaterThan(1 / 1.1 - 0.05);
+    }
+  });
+
+  // basis: WCAG 2.x relative luminance and contrast ratio
+  it("draws contour lines light on the dark end of the colour scale and dark on the light end", () => {
+    expect(contrastingLineColour(interpolateViridis(0))).toBe("#f1f5f9");
+    expect(contrastingLineColour(interpolateViridis(0.15))).toBe("#f1f5f9");
+    expect(contrastingLineColour(interpolateViridis(0.85))).toBe("#0f172a");
+    expect(contrastingLineColour(interpolateViridis(1))).toBe("#0f172a");
+    expect(contrastingLineColour("#ffffff")).toBe("#0f172a");
+    expect(contrastingLineColour("#000000")).toBe("#f1f5f9");
   });
 });

@@ -80,6 +80,8 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     const inOverlap = sum.u.map((u, k) => [u, sum.displacementM[k]]).filter(([u]) => u >= 600 && u <= 1000);
     expect(inOverlap.length).toBeGreaterThan(2);
     for (const [, d] of inOverlap) expect(d).toBeCloseTo(40, 9);
+    // the sum differs from each segment only where both have data
+    sum.u.forEach((u, k) => expect(sum.contributors[k], `u = ${u}`).toBe(u >= 600 && u <= 1000 ? 2 : 1));
     expect(overlapZone([0, 1000], [600, 1600])).toEqual([600, 1000]);
     expect(overlapZone([0, 500], [600, 1600])).toBeNull();
   });
@@ -93,6 +95,7 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     expect(sum.displacementM[2]).toBeNaN(); // the node at 200 has no data
     expect(sumProfiles([a, b], 11).displacementM[1]).toBe(15); // u = 50 lies between two nodes with data
     expect(sum.displacementM[3]).toBeNaN();
+    expect(sum.contributors).toEqual([1, 1, 0, 0, 1, 1]);
     expect(sum.displacementM[4]).toBe(30);
   });
 

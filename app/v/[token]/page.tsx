@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { notFound } from "next/navigation";
 import { SharedViewpoint } from "@/components/collab/SharedViewpoint";
 import { ApiError } from "@/lib/api/errors";
 import { lookupLinkToken, publicViewpoint, type PublicViewpoint } from "@/lib/viewpoints";
@@ -8,7 +9,6 @@ export const metadata: Metadata = { title: "Shared view", robots: { index: false
 export const dynamic = "force-dynamic";
 
 const GONE = {
-  "not-found": ["This link does not work", "Check that the whole link was copied. Links are long on purpose."],
   revoked: ["This link was revoked", "The person who shared this view has turned the link off. Ask them for a new one if you still need it."],
   expired: ["This link has expired", "Shared views last for the time chosen when the link was made. Ask the person who shared it for a new link."],
 } as const;
@@ -24,16 +24,22 @@ function LinkGone({ state }: { state: keyof typeof GONE }) {
   );
 }
 
+/**
+ * An unknown token is a 404 (app/v/[token]/not-found.tsx); a revoked or expired one shows why, and proxy.ts sends that
+ * page with status 410 (a page cannot set its own status).
+ */
 export default async function ViewpointLinkPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
   const found = await lookupLinkToken(token);
+  if (found.state === "not-found") notFound();
   if (found.state !== "active") return <LinkGone state={found.state} />;
   let data: PublicViewpoint;
   try {
     data = await publicViewpoint(token);
   } catch (error) {
     // revoked between the two reads
-    const state = error instanceof ApiError ? (error.details as { state?: keyof typeof GONE } | undefined)?.state : undefined;
+    const state = error instanceof ApiError ? (error.details as { state?: "not-found" | keyof typeof GONE } | undefined)?.state : undefined;
+    if (state === "not-found") notFound();
     if (state) return <LinkGone state={state} />;
     throw error;
   }

@@ -124,7 +124,7 @@ export interface ThrowDepthReading {
 }
 
 const BASIS =
-  "Throw–depth plots after Cartwright et al. (1998, Geology 26); reactivation and growth kinematics from throw mapping after Baudon & Cartwright (2008, Journal of Structural Geology 30). A hint, not a verdict: footwall erosion, compaction, drag and picking error give similar shapes.";
+  "Throw–depth plots after Cartwright et al. (1998); reactivation and growth read from throw mapping after Baudon & Cartwright (2008). A hint, not a verdict: footwall erosion, compaction, drag and picking error give similar shapes.";
 
 /** A reading of a T–z plot (points ordered shallow to deep), with a tolerance for "constant" of 10 % of the largest throw. */
 export function readThrowDepth(pointsShallowFirst: { throwM: number }[], tolerance = 0.1): ThrowDepthReading {

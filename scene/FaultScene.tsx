@@ -23,6 +23,8 @@ import {
   planePointWorld,
   residualRangeM,
   surfaceValueAt,
+  buildOpenTipLines,
+  buildTipBandLines,
   buildTipLines,
   contrastingLineColour,
   DARK_LINE,
@@ -79,6 +81,10 @@ declare global {
 
 const COLORS = {
   tipLine: "#f08c00",
+  // the inner and outer tip lines: the tip line's hue, lighter
+  tipBand: "#f7b955",
+  // an open edge is where the data stop, not a tip: a cool colour set apart from the warm tip lines
+  openEdge: { light: "#0e7490", dark: "#67e8f9" },
   // the dashed mapped limit runs along the data's edge, between the darkest surface colours and the page: it follows the theme
   mappedLimit: { light: "#334155", dark: "#cbd5e1" },
   peak: "#ffffff",
@@ -292,10 +298,22 @@ function ContourLines({ display, exaggeration, onDisplacementColours }: { displa
   );
 }
 
+/** The central tip line bold, the 5–95 % band as two thin lines, and open edges (no tip inferred) dashed apart. */
 function TipLines({ display }: { display: FaultDisplay }) {
-  const points = useMemo(() => Array.from(buildTipLines(display).positions), [display]);
-  if (points.length === 0) return null;
-  return <Line segments points={points} color={COLORS.tipLine} lineWidth={4} renderOrder={2} />;
+  const central = useMemo(() => Array.from(buildTipLines(display).positions), [display]);
+  const band = useMemo(() => Array.from(buildTipBandLines(display).positions), [display]);
+  const open = useMemo(() => Array.from(buildOpenTipLines(display).positions), [display]);
+  const dark = useDarkMode();
+  const dashM = displayExtentM(display) / 60;
+  return (
+    <>
+      {central.length > 0 && <Line segments points={central} color={COLORS.tipLine} lineWidth={4} renderOrder={2} />}
+      {band.length > 0 && <Line segments points={band} color={COLORS.tipBand} lineWidth={1.5} transparent opacity={0.85} renderOrder={2} />}
+      {open.length > 0 && (
+        <Line segments dashed dashSize={dashM} gapSize={dashM * 0.8} points={open} color={dark ? COLORS.openEdge.dark : COLORS.openEdge.light} lineWidth={3} renderOrder={2} />
+      )}
+    </>
+  );
 }
 
 function MappedLimitLines({ display, exaggeration }: { display: FaultDisplay; exaggeration: number }) {

@@ -272,28 +272,70 @@ function polygonSegments(
   polygonOf: (segment: DisplaySegment) => [number, number][],
   heightAt: (segment: DisplaySegment, s: number, t: number) => number,
 ): LineArrays {
+  return polygonPieces(
+    display,
+    (segment) => {
+      const polygon = polygonOf(segment);
+      const last = polygon.length - 1;
+      const closed = last > 0 && polygon[last][0] === polygon[0][0] && polygon[last][1] === polygon[0][1];
+      return [closed || polygon.length < 2 ? polygon : [...polygon, polygon[0]]];
+    },
+    heightAt,
+  );
+}
+
+/** Line pairs along polylines in (s, t) of each segment, each point raised by heightAt along the normal. */
+function polygonPieces(
+  display: FaultDisplay,
+  piecesOf: (segment: DisplaySegment) => [number, number][][],
+  heightAt: (segment: DisplaySegment, s: number, t: number) => number,
+): LineArrays {
   const pairs: number[] = [];
   const scratch = new Float32Array(6);
   for (const segment of display.segments) {
-    const polygon = polygonOf(segment);
-    const last = polygon.length - 1;
-    const closed = last > 0 && polygon[last][0] === polygon[0][0] && polygon[last][1] === polygon[0][1];
-    const edgeCount = closed ? last : polygon.length;
-    for (let i = 0; i < edgeCount; i++) {
-      const [s0, t0] = polygon[i];
-      const [s1, t1] = polygon[(i + 1) % polygon.length];
-      planePoint(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
-      planePoint(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
-      for (const value of scratch) pairs.push(value);
+    for (const piece of piecesOf(segment)) {
+      for (let i = 0; i + 1 < piece.length; i++) {
+        const [s0, t0] = piece[i];
+        const [s1, t1] = piece[i + 1];
+        planePoint(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
+        planePoint(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
+        for (const value of scratch) pairs.push(value);
+      }
     }
   }
   return { positions: Float32Array.from(pairs) };
 }
 
-/** The inferred tip line is where displacement falls to zero: on the plane, lifted. */
+/** Edges of a closed polygon whose two ends are both flagged (or both not), as open polylines of their own. */
+function flaggedEdges(polygon: [number, number][], flags: number[] | undefined, wanted: 0 | 1): [number, number][][] {
+  const runs: [number, number][][] = [];
+  for (let i = 0; i + 1 < polygon.length; i++) {
+    const edgeOpen = flags ? (flags[i] === 1 && flags[i + 1] === 1 ? 1 : 0) : 0;
+    if (edgeOpen === wanted) runs.push([polygon[i], polygon[i + 1]]);
+  }
+  return runs;
+}
+
+/** The inferred tip line is where displacement falls to zero: on the plane, lifted. Open parts are left out. */
 export function buildTipLines(display: FaultDisplay): LineArrays {
   const lift = lineLiftM(display);
-  return polygonSegments(display, (segment) => segment.tipLine, () => lift);
+  return polygonPieces(display, (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 0), () => lift);
+}
+
+/** Where the tip line follows an open data edge: drawn apart, since no tip was inferred there. */
+export function buildOpenTipLines(display: FaultDisplay): LineArrays {
+  const lift = lineLiftM(display);
+  return polygonPieces(display, (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 1), () => lift);
+}
+
+/** The inner (5 %) and outer (95 %) tip lines: the band the tip lies in. */
+export function buildTipBandLines(display: FaultDisplay): LineArrays {
+  const lift = lineLiftM(display);
+  return polygonPieces(
+    display,
+    (segment) => (segment.tipBand ? [...flaggedEdges(segment.tipBand.inner, segment.tipOpen, 0), ...flaggedEdges(segment.tipBand.outer, segment.tipOpen, 0)] : []),
+    () => lift,
+  );
 }
 
 /** The mapped limit follows the surface's edge, so it takes the surface height there. */

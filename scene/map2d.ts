@@ -22,7 +22,12 @@ export interface MapPeak {
 export interface ContourMap {
   bounds: { sMin: number; sMax: number; tMin: number; tMax: number };
   contours: MapContour[];
+  /** central tip lines, without the parts that follow an open data edge */
   tipLines: MapPath[];
+  /** the inner (5 %) and outer (95 %) tip lines */
+  tipBands: MapPath[];
+  /** where the line follows an open data edge: no tip was inferred there */
+  openEdges: MapPath[];
   mappedLimits: MapPath[];
   peaks: MapPeak[];
   labels: { segmentId: string; s: number; t: number }[];
@@ -56,6 +61,8 @@ export function buildContourMap(display: FaultDisplay): ContourMap {
   };
   const contours: MapContour[] = [];
   const tipLines: MapPath[] = [];
+  const tipBands: MapPath[] = [];
+  const openEdges: MapPath[] = [];
   const mappedLimits: MapPath[] = [];
   const peaks: MapPeak[] = [];
   const labels: ContourMap["labels"] = [];
@@ -84,8 +91,34 @@ export function buildContourMap(display: FaultDisplay): ContourMap {
         d: ringPath(rings.points, rings.ringStarts[ring], rings.ringStarts[ring + 1]),
       });
     }
-    const tip = polygonPath(segment.tipLine);
+    /** the edges of a closed polygon whose ends are both flagged `wanted` (1 open, 0 not), as one path */
+    const edgesPath = (polygon: [number, number][], wanted: 0 | 1) => {
+      let d = "";
+      let drawing = false;
+      for (let i = 0; i + 1 < polygon.length; i++) {
+        const flags = segment.tipOpen;
+        const open = flags && flags[i] === 1 && flags[i + 1] === 1 ? 1 : 0;
+        if (open !== wanted) {
+          drawing = false;
+          continue;
+        }
+        const [s0, t0] = project(polygon[i][0], polygon[i][1]);
+        const [s1, t1] = project(polygon[i + 1][0], polygon[i + 1][1]);
+        widen(s0, t0);
+        widen(s1, t1);
+        d += `${drawing ? "" : `M${round(s0)} ${round(t0)}`}L${round(s1)} ${round(t1)}`;
+        drawing = true;
+      }
+      return d;
+    };
+    const tip = edgesPath(segment.tipLine, 0);
     if (tip) tipLines.push({ segmentId: segment.id, d: tip });
+    const open = edgesPath(segment.tipLine, 1);
+    if (open) openEdges.push({ segmentId: segment.id, d: open });
+    for (const band of segment.tipBand ? [segment.tipBand.inner, segment.tipBand.outer] : []) {
+      const d = edgesPath(band, 0);
+      if (d) tipBands.push({ segmentId: segment.id, d });
+    }
     const limit = polygonPath(segment.mappedLimit);
     if (limit) mappedLimits.push({ segmentId: segment.id, d: limit });
     const [peakS, peakT] = project(segment.max.s, segment.max.t);
@@ -98,5 +131,5 @@ export function buildContourMap(display: FaultDisplay): ContourMap {
     sMin = tMin = -1;
     sMax = tMax = 1;
   }
-  return { bounds: { sMin, sMax, tMin, tMax }, contours, tipLines, mappedLimits, peaks, labels };
+  return { bounds: { sMin, sMax, tMin, tMax }, contours, tipLines, tipBands, openEdges, mappedLimits, peaks, labels };
 }

@@ -9,7 +9,8 @@ import { serveTipLineFits, threadedTipLineFitter } from "../lib/analysis/tipline
 import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
 import { formatAzimuth } from "../lib/engine/plane";
-import type { AnalysisReport } from "../lib/engine/types";
+import type { AnalysisReport, ProfileModel, TipEndSide } from "../lib/engine/types";
+import { AUTOMATIC_CANDIDATES } from "../lib/engine/profiles";
 import { faultGeoJson } from "../lib/views/geojson";
 import { gridCsv } from "../lib/views/grid-csv";
 
@@ -27,6 +28,9 @@ const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [opti
   --units m|ft         units of the file (default m; feet are converted)
   --interval M         contour interval in metres (default: about 8-12 levels)
   --cell M             grid cell size in metres (default: from the pick spacing)
+  --cutoff M           resolution cut-off as a throw in metres (default: estimated from the picks)
+  --profile P          tip-line profile: auto (default) or one of ${AUTOMATIC_CANDIDATES.join(", ")}
+  --end SIDE=STATUS    an end's status, open or inferred (SIDE: strike-start, strike-end, up-dip, down-dip); repeatable
   --drop-bad-rows      analyse the good rows of a file that has bad ones (default: refuse the file)
   -h, --help           this text
 
@@ -39,13 +43,16 @@ interface Options {
   units: "m" | "ft";
   intervalM?: number;
   cellM?: number;
+  throwCutoffM?: number;
+  profiles?: ProfileModel[];
+  ends: Partial<Record<TipEndSide, "open" | "inferred">>;
   dropBadRows: boolean;
   help: boolean;
 }
 
 export function parseArgs(argv: string[]): Options {
   const args = argv[0] === "analyze" ? argv.slice(1) : argv;
-  const out: Options = { inputs: [], format: "text", units: "m", dropBadRows: false, help: false };
+  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, dropBadRows: false, help: false };
   let formatGiven: string | null = null;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -77,6 +84,16 @@ export function parseArgs(argv: string[]): Options {
       out.units = v;
     } else if (a === "--interval") out.intervalM = positive("--interval", value());
     else if (a === "--cell") out.cellM = positive("--cell", value());
+    else if (a === "--cutoff") out.throwCutoffM = positive("--cutoff", value());
+    else if (a === "--profile") {
+      const v = value();
+      if (v !== "auto" && !AUTOMATIC_CANDIDATES.includes(v as ProfileModel)) throw new UsageError(`--profile must be auto or one of ${AUTOMATIC_CANDIDATES.join(", ")}, got "${v}"`);
+      out.profiles = v === "auto" ? undefined : [v as ProfileModel];
+    } else if (a === "--end") {
+      const [side, status] = value().split("=");
+      if (!["strike-start", "strike-end", "up-dip", "down-dip"].includes(side) || (status !== "open" && status !== "inferred")) throw new UsageError(`--end takes SIDE=open or SIDE=inferred, SIDE one of strike-start, strike-end, up-dip, down-dip`);
+      out.ends[side as TipEndSide] = status;
+    }
     else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
     else out.inputs.push(a);
   }
@@ -130,10 +147,13 @@ function readable(report: AnalysisReport): string {
     lines.push("");
     lines.push(`Segment ${s.id} (${s.pickCount} picks)`);
     lines.push(`  plane: strike ${formatAzimuth(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${formatAzimuth(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`);
-    lines.push(`  maximum: displacement ${f(s.max.displacementM)} m, throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`);
+    lines.push(`  maximum: displacement ${f(s.max.displacementM)} m observed (fitted ${f(s.max.fittedDisplacementM)} m, 5–95 % ${f(s.max.fittedDisplacementRangeM[0])}–${f(s.max.fittedDisplacementRangeM[1])} m), throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`);
     lines.push(`  mapped limit: length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
-    lines.push(`  inferred tip line: length ${f(tl.lengthM, 0)} m, height ${f(tl.heightM, 0)} m (± ${f(tl.uncertaintyM, 0)} m), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
+    const range = ([low, high]: [number, number | null]) => (high === null ? `from ${f(low, 0)} m, open above` : `${f(low, 0)}–${f(high, 0)} m`);
+    lines.push(`  inferred tip line: length ${tl.lengthIsMinimum ? "at least " : ""}${f(tl.lengthM, 0)} m (5–95 % ${range(tl.lengthRangeM)}), height ${tl.heightIsMinimum ? "at least " : ""}${f(tl.heightM, 0)} m (5–95 % ${range(tl.heightRangeM)}), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
+    lines.push(`    ends: ${tl.ends.map((end) => `${end.side} ${end.status}`).join(", ")}; cut-off ${f(tl.cutoff.displacementM)} m displacement (${tl.cutoff.source})`);
     lines.push(`    ${tl.method}`);
+    lines.push(`    ${tl.selection}`);
     lines.push(`  gradients (m/m): mean ${f(s.gradients.meanPerM, 4)}, max ${f(s.gradients.maxPerM, 4)}; near tips: strike start ${f(s.gradients.tips.strikeStartPerM, 4)}, strike end ${f(s.gradients.tips.strikeEndPerM, 4)}, up dip ${f(s.gradients.tips.upDipPerM, 4)}, down dip ${f(s.gradients.tips.downDipPerM, 4)}`);
     lines.push(`  asymmetry of Dmax: along strike ${f(s.asymmetry.alongStrike, 2)}, down dip ${f(s.asymmetry.downDip, 2)} (fraction of the semi-axis)`);
     lines.push(`  scaling: ${s.scaling.note}`);
@@ -245,7 +265,7 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
+        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
         write(render(result, input, options.format, several, written++ === 0));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;

@@ -7,7 +7,7 @@ import { apiFetch } from "@/lib/api/client";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { toCsv } from "@/lib/views/csv";
 import { backstripThrows, expansionIndex, readThrowDepth, throwDepthAt, type HorizonBin } from "@/lib/views/growth";
-import { dipProfileAtS, planePointToWorld } from "@/lib/views/profiles";
+import { dipProfileAtS, planePointToWorld, tipBandOnLine } from "@/lib/views/profiles";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 export function DipGrowthView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
@@ -21,6 +21,21 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
     [report, display],
   );
   const plotted = dip.filter((p) => Number.isFinite(p.displacementM));
+  // where each segment's up- and down-dip tips lie on this column (5–95 %), and open ends
+  const tipMarks = useMemo(() => {
+    const bands: { series: string; t1: number; t2: number }[] = [];
+    const tips: { series: string; t: number }[] = [];
+    const open: { series: string; t: number }[] = [];
+    for (const segment of report.segments) {
+      const band = tipBandOnLine(segment, "s", segment.max.s);
+      if (!band) continue;
+      (band.open.start ? open : tips).push({ series: segment.id, t: band.tips[0] });
+      (band.open.end ? open : tips).push({ series: segment.id, t: band.tips[1] });
+      if (!band.open.start) bands.push({ series: segment.id, t1: band.start[0], t2: band.start[1] });
+      if (!band.open.end) bands.push({ series: segment.id, t1: band.end[0], t2: band.end[1] });
+    }
+    return { bands, tips, open };
+  }, [report]);
   const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<{ horizons: string[]; bins: HorizonBin[] }>(`/api/faults/${faultId}/export/horizons.json`) });
 
   return (
@@ -43,14 +58,17 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
             y: { label: "Displacement (m)", grid: true, zero: true },
             color: { legend: report.segments.length > 1, domain: report.segments.map((s) => s.id), range: CHART.segments },
             marks: [
+              Plot.rect(tipMarks.bands, { x1: "t1", x2: "t2", fill: CHART.tip, fillOpacity: 0.22, className: "tip-band", title: (d: { series: string; t1: number; t2: number }) => `${d.series}: the tip lies between t = ${Math.min(d.t1, d.t2).toFixed(0)} and ${Math.max(d.t1, d.t2).toFixed(0)} m (5–95 %)` }),
               Plot.ruleY([0]),
+              Plot.dot(tipMarks.tips, { x: "t", y: () => 0, symbol: "diamond", r: 5, fill: CHART.tip, stroke: "white", title: (d: { series: string; t: number }) => `inferred tip of ${d.series} at t = ${d.t.toFixed(0)} m` }),
+              Plot.dot(tipMarks.open, { x: "t", y: () => 0, symbol: "square", r: 5, fill: CHART.open, stroke: "white", className: "open-end", title: (d: { series: string; t: number }) => `open end of ${d.series} at t = ${d.t.toFixed(0)} m: the picks stop while displacement is still high, no tip inferred` }),
               Plot.line(plotted, { x: "t", y: "displacementM", z: "series", stroke: "series", strokeWidth: 1.5 }),
               Plot.dot(plotted, { x: "t", y: "displacementM", fill: "series", r: 1.8 }),
               Plot.tip(plotted, Plot.pointerX({ x: "t", y: "displacementM", title: (p: (typeof plotted)[number]) => `${p.series}\nt = ${p.t.toFixed(0)} m (elevation ${p.z.toFixed(0)} m)\ndisplacement ${p.displacementM.toFixed(1)} m, throw ${p.throwM.toFixed(1)} m` })),
             ],
           })
         }
-        note="The column through each segment's Dmax; values from the display grid."
+        note={`The column through each segment's Dmax; values from the display grid. ◆ inferred up- and down-dip tips, the shaded strips where they lie with 5–95 % confidence${tipMarks.open.length ? "; ■ an open end (the picks stop while displacement is still high, no tip inferred)" : ""}.`}
       />
       {horizons.isPending && <p className="text-sm text-slate-500">Loading horizon picks…</p>}
       {horizons.isError && <p className="text-sm text-red-700">{horizons.error.message}</p>}

@@ -8,7 +8,7 @@ import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
 import { strikeProjection } from "@/lib/views/projection";
 import { CautionNote } from "@/components/workspace/CautionNote";
-import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
+import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { REPORT_PICTURE_KEY } from "./download";
 import { CHART, PlotChart, X_LABEL_BELOW } from "./PlotChart";
@@ -62,14 +62,14 @@ export function FaultReport({ data }: { data: FaultReportData }) {
         <div>
           <h2 className="mb-1 font-semibold">Fault sheet</h2>
           <table className="w-full text-xs" data-testid="report-sheet">
-            <thead className="text-left text-slate-500"><tr><th>Segment</th><th>Dmax</th><th>L (tip line)</th><th>H</th><th>Dmax/L</th><th>Strike / dip</th></tr></thead>
+            <thead className="text-left text-slate-500"><tr><th>Segment</th><th>Dmax observed / fitted (5–95 %)</th><th>L (tip line, 5–95 %)</th><th>H (5–95 %)</th><th>Dmax/L</th><th>Strike / dip</th></tr></thead>
             <tbody className="num">
               {report.segments.map((segment) => (
                 <tr key={segment.id} className="border-t border-slate-200 dark:border-slate-800">
                   <td>{segment.id}</td>
-                  <td>{metres(segment.max.displacementM)}</td>
-                  <td>{metres(segment.tipLine.lengthM, 0)} ± {metres(segment.tipLine.uncertaintyM, 0)}</td>
-                  <td>{metres(segment.tipLine.heightM, 0)}</td>
+                  <td>{metres(segment.max.displacementM)} / {segment.max.fittedDisplacementM !== undefined ? metresWithRange(segment.max.fittedDisplacementM, segment.max.fittedDisplacementRangeM) : "—"}</td>
+                  <td>{metresWithRange(segment.tipLine.lengthM, segment.tipLine.lengthRangeM, 0)}</td>
+                  <td>{metresWithRange(segment.tipLine.heightM, segment.tipLine.heightRangeM, 0)}</td>
                   <td>{ratio(segment.scaling.dOverL)}</td>
                   <td>{azimuth(segment.plane.strikeDeg)} / {degrees(segment.plane.dipDeg)}</td>
                 </tr>
@@ -77,7 +77,8 @@ export function FaultReport({ data }: { data: FaultReportData }) {
             </tbody>
           </table>
           <p className="mt-1 text-xs text-slate-500">
-            Tip-line model: {[...new Set(report.segments.map((s) => MODEL_NAMES[s.tipLine.model] ?? s.tipLine.model))].join("; ")}. Aspect ratio {report.segments.map((s) => plain(s.tipLine.aspectRatio)).join(", ")}.
+            Tip-line profile with most weight: {[...new Set(report.segments.map((s) => MODEL_NAMES[s.tipLine.model] ?? s.tipLine.model))].join("; ")}. Aspect ratio {report.segments.map((s) => plain(s.tipLine.aspectRatio)).join(", ")}.
+            {report.segments.some((s) => s.tipLine.ends?.some((end) => end.status === "open")) && ` Open ends (no tip inferred; length or height a minimum): ${report.segments.filter((s) => s.tipLine.ends?.some((end) => end.status === "open")).map((s) => `${s.id}: ${endsSentence(s.tipLine.ends.filter((end) => end.status === "open"))}`).join("; ")}.`}
           </p>
           {report.warnings.length > 0 && <p className="mt-1 text-xs text-amber-700">{report.warnings.join(" · ")}</p>}
         </div>

@@ -54,6 +54,8 @@ export const CHART = {
   slip: "#247a75",
   slipLight: "#4bb3aa",
   tip: "#f08c00",
+  // an open end (no tip inferred): the cool colour the 3D view and the map use for open edges
+  open: "#0e7490",
   model: "#7c3aed",
   sum: "#64748b",
   guide: "#94a3b8",

@@ -51,6 +51,8 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
     const rows: Row[] = [];
     const modelRows: Row[] = [];
     const tips: { series: string; x: number }[] = [];
+    const openEnds: { series: string; x: number }[] = [];
+    const bands: { series: string; x1: number; x2: number }[] = [];
     const segmentPairs = report.segments.map((segment, index) => ({ segment, grid: display.segments.find((s) => s.id === segment.id)?.grid ?? display.segments[index].grid }));
     const used = mode === "line" ? [segmentPairs[Math.min(lineSegment, segmentPairs.length - 1)]] : segmentPairs;
     const commons = [];
@@ -68,11 +70,21 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
       }
       if (mode !== "line") {
         const model = modelStrikeProfile(segment, segment.max.t, { columnMax: mode === "column-max" });
-        const factor = quantity === "throw" ? Math.sin((segment.plane.dipDeg * Math.PI) / 180) : 1;
-        const rowT = mode === "column-max" ? segment.tipLine.centre.t : segment.max.t;
-        const toX = (s: number) => (common ? alongStrike(frame, ...(planePointToWorld(segment.plane, s, rowT).slice(0, 2) as [number, number])) : s);
-        model.s.forEach((s, k) => modelRows.push({ series: `${segment.id}: ${model.name}`, x: toX(s), value: model.displacementM[k] * factor, s, t: rowT }));
-        if (model.tipsS) for (const s of model.tipsS) tips.push({ series: segment.id, x: toX(s) });
+        if (model) {
+          const factor = quantity === "throw" ? Math.sin((segment.plane.dipDeg * Math.PI) / 180) : 1;
+          const rowT = mode === "column-max" ? segment.tipLine.profile.centre.t : segment.max.t;
+          const toX = (s: number) => (common ? alongStrike(frame, ...(planePointToWorld(segment.plane, s, rowT).slice(0, 2) as [number, number])) : s);
+          model.s.forEach((s, k) => modelRows.push({ series: `${segment.id}: ${model.name}`, x: toX(s), value: model.displacementM[k] * factor, s, t: rowT }));
+          if (model.tipsS) {
+            const [start, end] = model.tipsS;
+            (model.openS.start ? openEnds : tips).push({ series: segment.id, x: toX(start) });
+            (model.openS.end ? openEnds : tips).push({ series: segment.id, x: toX(end) });
+          }
+          if (model.bandS) {
+            if (!model.openS.start) bands.push({ series: segment.id, x1: toX(model.bandS.start[0]), x2: toX(model.bandS.start[1]) });
+            if (!model.openS.end) bands.push({ series: segment.id, x1: toX(model.bandS.end[0]), x2: toX(model.bandS.end[1]) });
+          }
+        }
       }
     }
     let sum: { x: number; value: number; contributors: number }[] = [];
@@ -86,7 +98,7 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
     // the sum is drawn only where two or more segments have data: elsewhere it is the one segment's own line
     const sumLine = sum.map((r) => ({ x: r.x, value: r.contributors >= 2 ? r.value : NaN }));
     const sumVisible = sumLine.some((r) => Number.isFinite(r.value));
-    return { rows: rows.filter((r) => Number.isFinite(r.value)), allRows: rows, modelRows, tips, sum, sumLine: sumVisible ? sumLine : [], overlap };
+    return { rows: rows.filter((r) => Number.isFinite(r.value)), allRows: rows, modelRows, tips, openEnds, bands, sum, sumLine: sumVisible ? sumLine : [], overlap };
   }, [report, display, mode, quantity, lineSegment, line, multi, frame]);
 
   const xLabel = mode === "line" ? "Distance along the drawn line (m)" : multi ? "Along strike, common mean-strike coordinate (m)" : "Along strike, s (m)";
@@ -155,19 +167,29 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
               marks: [
                 chart.overlap ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
                 chart.overlap ? Plot.text([chart.overlap], { x: (d: [number, number]) => (d[0] + d[1]) / 2, frameAnchor: "top", dy: 6, text: () => "overlap (relay)", fill: CHART.tip }) : null,
+                Plot.rect(chart.bands, {
+                  x1: "x1",
+                  x2: "x2",
+                  fill: CHART.tip,
+                  fillOpacity: 0.22,
+                  className: "tip-band",
+                  title: (d: { series: string; x1: number; x2: number }) => `${d.series}: the tip lies between ${Math.min(d.x1, d.x2).toFixed(0)} and ${Math.max(d.x1, d.x2).toFixed(0)} m (5–95 %)`,
+                }),
                 Plot.ruleY([0]),
                 chart.sumLine.length ? Plot.line(chart.sumLine, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 }) : null,
                 Plot.line(chart.modelRows, { x: "x", y: "value", z: "series", stroke: () => "fitted model", strokeDasharray: "6 4", strokeWidth: 1.5 }),
                 Plot.line(chart.rows, { x: "x", y: "value", z: "series", stroke: "series", strokeWidth: 1.5 }),
                 Plot.dot(chart.rows, { x: "x", y: "value", fill: "series", r: 1.8, className: "profile-point" }),
                 Plot.dot(chart.tips, { x: "x", y: () => 0, symbol: "diamond", r: 5, fill: CHART.tip, stroke: "white", title: (d: { series: string; x: number }) => `inferred tip of ${d.series} at ${d.x.toFixed(0)} m` }),
+                Plot.dot(chart.openEnds, { x: "x", y: () => 0, symbol: "square", r: 5, fill: CHART.open, stroke: "white", className: "open-end", title: (d: { series: string; x: number }) => `open end of ${d.series} at ${d.x.toFixed(0)} m: the picks stop while displacement is still high, no tip inferred` }),
                 Plot.tip([...chart.rows, ...chart.sumLine.filter((r) => Number.isFinite(r.value)).map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN }))], Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
               ],
             });
           }}
           note={
             <>
-              Inferred tip positions marked ◆ at zero (amber). Dashed: {modelName}, scaled to the segment&apos;s Dmax.
+              Inferred tip positions marked ◆ at zero (amber); the shaded strip at each end is where the tip lies with 5–95 % confidence.
+              {chart.openEnds.length > 0 && " ■ (blue) marks an open end: the picks stop there while displacement is still high, so no tip is inferred."} Dashed: {modelName}, at its fitted Dmax.
               {multi && mode !== "line" && chart.sumLine.length > 0 && " Broad grey: the sum of the segments where two or more have resolvable data (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
               {multi && mode !== "line" && chart.sumLine.length === 0 && (
                 <span data-testid="no-sum-note"> No position along strike has resolvable data on two segments at once, so their sum is each segment&apos;s own line (no separate sum is drawn; the CSV has it). The overlap of the inferred tip lines is shaded.</span>
@@ -182,7 +204,7 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
 }
 
 function modelStrikeProfileName(segments: SegmentResult[]): string {
-  const names = [...new Set(segments.map((segment) => modelStrikeProfile(segment, segment.max.t, { samples: 2 }).name))];
+  const names = [...new Set(segments.map((segment) => modelStrikeProfile(segment, segment.max.t, { samples: 2 })?.name).filter(Boolean))];
   return `fitted model (${names.join("; ")})`;
 }
 

@@ -2,7 +2,7 @@
 import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { CautionNote } from "./CautionNote";
-import { azimuth, degrees, metres, MODEL_NAMES, plain, ratio } from "./format";
+import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "./format";
 
 function Row({ label, value, testId }: { label: string; value: string; testId?: string }) {
   return (
@@ -22,10 +22,14 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
         <span className="text-xs font-normal text-slate-500">{segment.pickCount.toLocaleString("en")} picks</span>
       </h3>
       <dl className="divide-y divide-slate-100 text-sm dark:divide-slate-800">
-        <Row label="Dmax (displacement)" value={metres(segment.max.displacementM)} testId={first ? "sheet-dmax" : undefined} />
+        <Row label="Dmax (displacement), observed" value={metres(segment.max.displacementM)} testId={first ? "sheet-dmax" : undefined} />
+        {segment.max.fittedDisplacementM !== undefined && (
+          <Row label="Dmax, fitted (5–95 %)" value={metresWithRange(segment.max.fittedDisplacementM, segment.max.fittedDisplacementRangeM)} testId={first ? "sheet-dmax-fitted" : undefined} />
+        )}
         <Row label="Max throw" value={metres(segment.max.throwM)} />
-        <Row label="Length L (tip line)" value={metres(tip.lengthM)} testId={first ? "sheet-length" : undefined} />
-        <Row label="Height H (tip line)" value={metres(tip.heightM)} />
+        <Row label="Length L (tip line, 5–95 %)" value={metresWithRange(tip.lengthM, tip.lengthRangeM)} testId={first ? "sheet-length" : undefined} />
+        <Row label="Height H (tip line, 5–95 %)" value={metresWithRange(tip.heightM, tip.heightRangeM)} testId={first ? "sheet-height" : undefined} />
+        {tip.cutoff && <Row label={`Resolution cut-off (${tip.cutoff.source === "set" ? "set" : "estimated"})`} value={`${metres(tip.cutoff.displacementM)} displacement`} testId={first ? "sheet-cutoff" : undefined} />}
         <Row label="Aspect ratio L/H" value={plain(tip.aspectRatio)} />
         <Row label="Area" value={`${(tip.areaM2 / 1e6).toFixed(2)} km²`} />
         <Row label="Dmax/L" value={ratio(segment.scaling.dOverL)} />
@@ -39,8 +43,15 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
       </dl>
       <div className="rounded-lg bg-slate-50 p-3 text-xs leading-relaxed text-slate-600 dark:bg-slate-950 dark:text-slate-300">
         <p>
-          <span className="font-medium text-slate-800 dark:text-slate-100">Tip line:</span> {MODEL_NAMES[tip.model] ?? tip.model}, ±{metres(tip.uncertaintyM, 0)}. {asSentence(tip.method)}
+          <span className="font-medium text-slate-800 dark:text-slate-100">Tip line:</span>{" "}
+          {tip.selection ? `${asSentence(tip.method)} ${tip.selection}` : `${MODEL_NAMES[tip.model] ?? tip.model}, ±${metres(tip.uncertaintyM, 0)}. ${asSentence(tip.method)}`}
         </p>
+        {tip.ends && (
+          <p className="mt-1.5" data-testid={first ? "sheet-ends" : undefined}>
+            <span className="font-medium text-slate-800 dark:text-slate-100">Ends:</span> {endsSentence(tip.ends)}.
+            {tip.ends.some((end) => end.status === "open") && " Where an end is open the picks stop while displacement is still high (a survey edge, a crossing fault, a gap): the fault goes on beyond it, so the length or height is a minimum."}
+          </p>
+        )}
         <p className="mt-1.5">
           <span className="font-medium text-slate-800 dark:text-slate-100">Scaling:</span> {segment.scaling.note}
         </p>

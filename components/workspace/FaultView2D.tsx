@@ -64,8 +64,16 @@ export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisp
               <title>{`Segment ${contour.segmentId}: ${metres(contour.levelM)} displacement`}</title>
             </path>
           ))}
+          {map.tipBands.map((path, index) => (
+            <path key={`band-${path.segmentId}-${index}`} d={path.d} stroke="#f7b955" strokeWidth={1.2} vectorEffect="non-scaling-stroke" data-testid="map-tip-band" />
+          ))}
           {map.tipLines.map((path) => (
             <path key={`tip-${path.segmentId}`} d={path.d} stroke="#f08c00" strokeWidth={3.5} vectorEffect="non-scaling-stroke" data-testid="map-tip-line" />
+          ))}
+          {map.openEdges.map((path) => (
+            <path key={`open-${path.segmentId}`} d={path.d} className="stroke-cyan-700 dark:stroke-cyan-300" strokeWidth={3} strokeDasharray="8 5" vectorEffect="non-scaling-stroke" data-testid="map-open-edge">
+              <title>Open edge: the picks stop here while displacement is still well above the cut-off; no tip is inferred</title>
+            </path>
           ))}
         </g>
         {map.peaks.map((peak) => (

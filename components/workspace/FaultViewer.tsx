@@ -188,6 +188,10 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
       {display.segments.length > 0 && <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">{contourNote(display)}</div>}
 
       <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
+      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-tip-band"><span className="inline-block w-4 border-t border-[#f7b955]" /> its 5–95 % range</div>
+      {display.segments.some((segment) => segment.tipOpen?.includes(1)) && (
+        <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-open-edge"><span className="inline-block w-4 border-t-2 border-dashed border-cyan-700 dark:border-cyan-300" /> open edge, no tip inferred</div>
+      )}
       <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600 dark:border-slate-300" /> mapped limit</div>
     </div>
   );

@@ -44,7 +44,26 @@ export function ratio(value: number | null | undefined): string {
 }
 
 export const MODEL_NAMES: Record<string, string> = {
-  "walsh-watterson-1989": "Walsh & Watterson (1989) profile",
-  "elliptical-crack": "Elliptical crack (Pollard & Segall 1987)",
-  linear: "Linear taper",
+  "walsh-watterson-1987": "tapered profile (Walsh & Watterson 1987)",
+  // reports made before engine 2.0 used this name for the same profile
+  "walsh-watterson-1989": "tapered profile (Walsh & Watterson 1987)",
+  "elliptical-crack": "elliptical crack (Pollard & Segall 1987)",
+  linear: "linear taper (Muraoka & Kamata 1983; Dawers et al. 1993)",
+  parabolic: "parabolic profile",
+  "flat-topped": "flat-topped with steep tips (Nicol et al. 1996)",
+  flexible: "flexible profile (1 − r^p)^q",
 };
+
+/** A central value with its 5–95 % range, "2,510 m (2,440–2,580 m)"; an open upper end reads as a minimum. */
+export function metresWithRange(value: number, range: [number, number | null] | undefined, digits?: number): string {
+  if (!range) return metres(value, digits);
+  if (range[1] === null) return `≥ ${metres(value, digits)} (open end)`;
+  const strip = (text: string) => text.replace(/ m$/, "");
+  return `${metres(value, digits)} (${strip(metres(range[0], digits))}–${metres(range[1], digits)})`;
+}
+
+const SIDE_NAMES: Record<string, string> = { "strike-start": "strike start", "strike-end": "strike end", "up-dip": "up dip", "down-dip": "down dip" };
+/** "strike start inferred, strike end open (set by the interpreter), …" */
+export function endsSentence(ends: { side: string; status: string; source: string }[]): string {
+  return ends.map((end) => `${SIDE_NAMES[end.side] ?? end.side} ${end.status}${end.source === "set" ? " (set)" : ""}`).join(", ");
+}

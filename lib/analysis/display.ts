@@ -41,9 +41,13 @@ export interface DisplaySegment {
   frame: DisplayFrame;
   grid: DisplayGrid;
   contours: DisplayContours;
-  /** inferred tip line and mapped limit as closed polygons in (s, t) */
+  /** inferred tip line (central) and mapped limit as closed polygons in (s, t) */
   tipLine: [number, number][];
   mappedLimit: [number, number][];
+  /** the 5 % and 95 % tip lines, same vertex directions as tipLine (empty in displays made before they existed) */
+  tipBand?: { inner: [number, number][]; outer: [number, number][] };
+  /** per tipLine vertex, 1 where the line follows an open data edge (no tip inferred there) */
+  tipOpen?: number[];
   max: { displacementM: number; throwM: number; s: number; t: number };
 }
 
@@ -125,6 +129,9 @@ function displaySegment(segment: SegmentResult, grid: RegularGrid, origin: Vec3,
     grid: decimateGrid(grid, maxCells),
     contours: flattenContours(segment),
     tipLine: segment.tipLine.polygon.map(([s, t]) => [s, t]),
+    tipBand: { inner: segment.tipLine.innerPolygon.map(([s, t]) => [s, t]), outer: segment.tipLine.outerPolygon.map(([s, t]) => [s, t]) },
+    // the polygon repeats its first vertex to close: so does the flag list
+    tipOpen: [...segment.tipLine.openRays, segment.tipLine.openRays[0] ?? 0],
     mappedLimit: segment.mappedLimit.polygon.map(([s, t]) => [s, t]),
     max: { displacementM: segment.max.displacementM, throwM: segment.max.throwM, s: segment.max.s, t: segment.max.t },
   };

@@ -445,7 +445,8 @@ export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: A
 
   const halfSize = { sM: centralSize.lengthM / 2, tM: centralSize.heightM / 2 };
   const world = (p: [number, number][]) => p.map(([ps, pt]) => planeToWorld(ps, pt, frame));
-  const openEnds = ends.filter((e) => e.status === "open").map((e) => e.side.replace("-", " "));
+  const endNames: Record<TipEndSide, string> = { "strike-start": "strike start", "strike-end": "strike end", "up-dip": "up-dip end", "down-dip": "down-dip end" };
+  const openEnds = ends.filter((e) => e.status === "open").map((e) => `the ${endNames[e.side]}`);
   const minimums = [lengthOpen ? "length" : "", heightOpen ? "height" : ""].filter(Boolean);
   const tipLine: TipLine = {
     lengthM: centralSize.lengthM,
@@ -471,7 +472,7 @@ export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: A
     method:
       `tip line where the fitted displacement reaches zero, with picks below the ${summary.cutoff.displacementM.toFixed(1)} m cut-off treated as unresolved (censored)` +
       (openEnds.length
-        ? `; open at the ${openEnds.join(" and ")} end${openEnds.length > 1 ? "s" : ""}, where the picks stop while displacement is still well above the cut-off, so no tip is inferred there and the ${minimums.join(" and ")} ${minimums.length > 1 ? "are minimums" : "is a minimum"}`
+        ? `; open at ${openEnds.join(" and ")}, where the picks stop while displacement is still well above the cut-off, so no tip is inferred there and the ${minimums.join(" and ")} ${minimums.length > 1 ? "are minimums" : "is a minimum"}`
         : ""),
     polygon,
     innerPolygon,

@@ -115,20 +115,61 @@ export interface ModelProfile {
   amplitudeM: number;
 }
 
-/** Where a closed polygon in (s, t) crosses the line t = const: the smallest and largest s, or null. */
-export function polygonSpanAtT(polygon: [number, number][], t: number): [number, number] | null {
+/** Where a closed polygon in (s, t) crosses the line t = const (axis "t") or s = const (axis "s"): the span along the line, or null. */
+export function polygonSpan(polygon: [number, number][], axis: "s" | "t", value: number): [number, number] | null {
+  const across = axis === "t" ? 1 : 0;
+  const along = 1 - across;
   let lo = Infinity;
   let hi = -Infinity;
   for (let k = 0; k + 1 < polygon.length; k++) {
-    const [s0, t0] = polygon[k];
-    const [s1, t1] = polygon[k + 1];
-    if ((t0 <= t && t <= t1) || (t1 <= t && t <= t0)) {
-      const s = t1 === t0 ? Math.min(s0, s1) : s0 + ((t - t0) / (t1 - t0)) * (s1 - s0);
-      lo = Math.min(lo, s, t1 === t0 ? s1 : s);
-      hi = Math.max(hi, s, t1 === t0 ? s0 : s);
+    const a0 = polygon[k][across], a1 = polygon[k + 1][across];
+    const b0 = polygon[k][along], b1 = polygon[k + 1][along];
+    if ((a0 <= value && value <= a1) || (a1 <= value && value <= a0)) {
+      const b = a1 === a0 ? Math.min(b0, b1) : b0 + ((value - a0) / (a1 - a0)) * (b1 - b0);
+      lo = Math.min(lo, b, a1 === a0 ? b1 : b);
+      hi = Math.max(hi, b, a1 === a0 ? b0 : b);
     }
   }
   return lo <= hi ? [lo, hi] : null;
+}
+
+/** Where a closed polygon in (s, t) crosses the line t = const: the smallest and largest s, or null. */
+export function polygonSpanAtT(polygon: [number, number][], t: number): [number, number] | null {
+  return polygonSpan(polygon, "t", t);
+}
+
+/** Whether the tip line's ray nearest to a direction from its centre follows an open data edge. */
+function openToward(tipLine: SegmentResult["tipLine"], angle: number): boolean {
+  const rays = tipLine.openRays ?? [];
+  if (!rays.length) return false;
+  const q = Math.round(((angle + Math.PI) / (2 * Math.PI)) * rays.length) % rays.length;
+  return rays[q] === 1;
+}
+
+export interface TipBandOnLine {
+  /** central tips on the line (start: lower coordinate) */
+  tips: [number, number];
+  /** [outer, inner] at the start, [inner, outer] at the end: where each tip lies, 5–95 % */
+  start: [number, number];
+  end: [number, number];
+  /** ends of the line that stop at an open data edge */
+  open: { start: boolean; end: boolean };
+}
+
+/**
+ * The central tip positions and the 5–95 % bands where a line of constant t (an along-strike profile) or constant s
+ * (a down-dip profile) crosses the tip lines. Null for reports made before the range existed.
+ */
+export function tipBandOnLine(segment: SegmentResult, axis: "s" | "t", value: number): TipBandOnLine | null {
+  const { tipLine } = segment;
+  if (!tipLine.innerPolygon || !tipLine.outerPolygon) return null;
+  const tips = polygonSpan(tipLine.polygon, axis, value);
+  const inner = polygonSpan(tipLine.innerPolygon, axis, value);
+  const outer = polygonSpan(tipLine.outerPolygon, axis, value);
+  if (!tips || !inner || !outer) return null;
+  // along strike the line runs toward ±s (angles π and 0); down dip toward −t (up, −π/2) and +t (down, π/2)
+  const open = axis === "t" ? { start: openToward(tipLine, Math.PI), end: openToward(tipLine, 0) } : { start: openToward(tipLine, -Math.PI / 2), end: openToward(tipLine, Math.PI / 2) };
+  return { tips, start: [outer[0], inner[0]], end: [inner[1], outer[1]], open };
 }
 
 /**
@@ -136,15 +177,16 @@ export function polygonSpanAtT(polygon: [number, number][], t: number): [number,
  * Dmax) along strike at down-dip position t, with the central tip positions and the band between the inner and outer
  * tip lines on that line. `columnMax` evaluates along the row through the model's maximum instead.
  */
-export function modelStrikeProfile(segment: SegmentResult, t: number, options: { samples?: number; columnMax?: boolean } = {}): ModelProfile {
+export function modelStrikeProfile(segment: SegmentResult, t: number, options: { samples?: number; columnMax?: boolean } = {}): ModelProfile | null {
   const { tipLine } = segment;
   const model = tipLine.profile;
+  // reports made before engine 2.0 carry no fitted model
+  if (!model) return null;
   const f = profileFunction(model.model, model.shape);
   const rowT = options.columnMax ? model.centre.t : t;
   const samples = options.samples ?? 161;
-  const tips = polygonSpanAtT(tipLine.polygon, rowT);
-  const inner = polygonSpanAtT(tipLine.innerPolygon, rowT);
-  const outer = polygonSpanAtT(tipLine.outerPolygon, rowT);
+  const band = tipBandOnLine(segment, "t", rowT);
+  const outer = band ? ([band.start[0], band.end[1]] as [number, number]) : null;
   const lo = Math.min(model.centre.s - model.reach.strikeStartM, outer?.[0] ?? Infinity) - 0.03 * (model.reach.strikeStartM + model.reach.strikeEndM);
   const hi = Math.max(model.centre.s + model.reach.strikeEndM, outer?.[1] ?? -Infinity) + 0.03 * (model.reach.strikeStartM + model.reach.strikeEndM);
   const s: number[] = [];
@@ -166,18 +208,13 @@ export function modelStrikeProfile(segment: SegmentResult, t: number, options: {
       displacementM.splice(at, 0, 0);
     }
   }
-  // open rays along this line: the ray from the centre nearest to each end's direction
-  const openAt = (angle: number) => {
-    const q = Math.round(((angle + Math.PI) / (2 * Math.PI)) * tipLine.openRays.length) % tipLine.openRays.length;
-    return tipLine.openRays[q] === 1;
-  };
   return {
     name: PROFILE_LABELS[model.model],
     s,
     displacementM,
-    tipsS: tips,
-    bandS: inner && outer ? { start: [outer[0], inner[0]], end: [inner[1], outer[1]] } : null,
-    openS: { start: openAt(Math.PI), end: openAt(0) },
+    tipsS: band?.tips ?? null,
+    bandS: band ? { start: band.start, end: band.end } : null,
+    openS: band?.open ?? { start: false, end: false },
     amplitudeM: model.dmaxM,
   };
 }

@@ -6,38 +6,59 @@ import { alongStrike, commonStrikeFrame } from "./profiles";
 export interface FaultScalingPoint {
   faultId: string;
   name: string;
+  /** fitted Dmax (the observed maximum for reports made before the fit existed), m */
   dMaxM: number;
+  /** its 5–95 % range, m */
+  dMaxRangeM: [number, number];
   /** along-strike length of the inferred tip line(s), m */
   lengthM: number;
-  /** ± on the length from the tip-line inference (largest over segments), m */
-  lengthUncertaintyM: number;
+  /** its 5–95 % range, m; the upper end is null where an end is open (the length is then a minimum) */
+  lengthRangeM: [number, number | null];
+  lengthIsMinimum: boolean;
   segmentCount: number;
 }
 
+/** Along-strike extent of the union of the segments' polygons (world coordinates) on the mean strike. */
+function unionLength(report: AnalysisReport, polygonOf: (segment: AnalysisReport["segments"][number]) => [number, number, number][]): number {
+  const frame = commonStrikeFrame(report.segments);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const segment of report.segments) {
+    for (const [x, y] of polygonOf(segment)) {
+      const u = alongStrike(frame, x, y);
+      lo = Math.min(lo, u);
+      hi = Math.max(hi, u);
+    }
+  }
+  return hi - lo;
+}
+
 /**
- * One fault's D–L pair from its report: Dmax over all segments; L = along-strike extent of the union of the segments'
- * inferred tip lines on the mean strike (equals the tip-line length for a single segment).
+ * One fault's D–L pair from its report: the fitted Dmax (noise lifts the observed maximum) of the segment with the
+ * largest, with its range; L = along-strike extent of the union of the segments' inferred tip lines on the mean
+ * strike (the tip-line length for a single segment), its range from the inner and outer tip lines.
  */
 export function faultScalingPoint(faultId: string, name: string, report: AnalysisReport): FaultScalingPoint | null {
   if (report.segments.length === 0) return null;
-  const dMaxM = Math.max(...report.segments.map((s) => s.max.displacementM));
+  const fitted = (s: AnalysisReport["segments"][number]) => s.max.fittedDisplacementM ?? s.max.displacementM;
+  const top = report.segments.reduce((best, s) => (fitted(s) > fitted(best) ? s : best));
+  const dMaxM = fitted(top);
+  const dMaxRangeM: [number, number] = top.max.fittedDisplacementRangeM ?? [dMaxM, dMaxM];
+  const lengthIsMinimum = report.segments.some((s) => s.tipLine.lengthIsMinimum);
   let lengthM: number;
-  if (report.segments.length === 1) lengthM = report.segments[0].tipLine.lengthM;
-  else {
-    const frame = commonStrikeFrame(report.segments);
-    let lo = Infinity;
-    let hi = -Infinity;
-    for (const segment of report.segments) {
-      for (const [x, y] of segment.tipLine.worldPolygon) {
-        const u = alongStrike(frame, x, y);
-        lo = Math.min(lo, u);
-        hi = Math.max(hi, u);
-      }
-    }
-    lengthM = hi - lo;
+  let lengthRangeM: [number, number | null];
+  if (report.segments.length === 1) {
+    const tip = report.segments[0].tipLine;
+    lengthM = tip.lengthM;
+    lengthRangeM = tip.lengthRangeM ?? [tip.lengthM - tip.uncertaintyM, tip.lengthM + tip.uncertaintyM];
+  } else {
+    lengthM = unionLength(report, (s) => s.tipLine.worldPolygon);
+    const hasBand = report.segments.every((s) => s.tipLine.innerWorldPolygon?.length);
+    lengthRangeM = hasBand
+      ? [Math.min(lengthM, unionLength(report, (s) => s.tipLine.innerWorldPolygon)), lengthIsMinimum ? null : Math.max(lengthM, unionLength(report, (s) => s.tipLine.outerWorldPolygon))]
+      : [lengthM, lengthM];
   }
-  const lengthUncertaintyM = Math.max(...report.segments.map((s) => s.tipLine.uncertaintyM));
-  return { faultId, name, dMaxM, lengthM, lengthUncertaintyM, segmentCount: report.segments.length };
+  return { faultId, name, dMaxM, dMaxRangeM, lengthM, lengthRangeM, lengthIsMinimum, segmentCount: report.segments.length };
 }
 
 export interface LineFit {

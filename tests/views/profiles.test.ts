@@ -126,7 +126,7 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
   it("the leading profile's curve is zero beyond its own tips and peaks at its Dmax; the band brackets the central tips", () => {
     const { report } = analyzeCsv(demoCsv("QG-4"));
     const seg = report.segments[0];
-    const model = modelStrikeProfile(seg, seg.tipLine.profile.centre.t);
+    const model = modelStrikeProfile(seg, seg.tipLine.profile.centre.t)!;
     expect(model.name).toMatch(/profile/);
     expect(model.tipsS).not.toBeNull();
     expect(model.bandS).not.toBeNull();

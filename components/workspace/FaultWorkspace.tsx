@@ -16,6 +16,8 @@ import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
 import { UploadPanel } from "./UploadPanel";
+import { RunComparison } from "./RunComparison";
+import { RunsPanel } from "./RunsPanel";
 
 interface AnalysisState {
   id: string;
@@ -36,7 +38,7 @@ interface PickSetRow { id: string; version: number; fileName: string; rowCount: 
 
 const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
 
-type SideTab = "sheet" | "pins" | "stress";
+type SideTab = "sheet" | "runs" | "pins" | "stress";
 
 export function FaultWorkspace(props: { studyId: string; studyName: string; faultId: string; faultName: string; canEdit: boolean; role: StudyRole }) {
   const { faultId, canEdit } = props;
@@ -49,10 +51,13 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
   const queryClient = useQueryClient();
   const [pickSetId, setPickSetId] = useState<string | undefined>(undefined);
   const [showUpload, setShowUpload] = useState(false);
+  // a run chosen in the Runs tab (default: the newest run of the pick set), and two runs being compared
+  const [runId, setRunId] = useState<string | undefined>(undefined);
+  const [comparing, setComparing] = useState<[string, string] | null>(null);
 
   const analysis = useQuery({
-    queryKey: ["analysis", faultId, pickSetId ?? "latest"],
-    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}`),
+    queryKey: ["analysis", faultId, pickSetId ?? "latest", runId ?? "newest"],
+    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}${runId ? `&analysis=${runId}` : ""}`),
     refetchInterval: (query) => {
       const status = query.state.data?.analysis?.status;
       return status === "queued" || status === "running" ? 700 : false;
@@ -74,6 +79,8 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
   function onSaved() {
     setShowUpload(false);
     setPickSetId(undefined);
+    setRunId(undefined);
+    setComparing(null);
     void queryClient.invalidateQueries({ queryKey: ["analysis", faultId] });
     void queryClient.invalidateQueries({ queryKey: ["pick-sets", faultId] });
   }
@@ -95,7 +102,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
         </div>
         <div className="flex items-center gap-2">
           {pickSets.data && pickSets.data.pickSets.length > 1 && (
-            <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => setPickSetId(event.target.value || undefined)} data-testid="pick-set-select">
+            <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => { setPickSetId(event.target.value || undefined); setRunId(undefined); setComparing(null); }} data-testid="pick-set-select">
               <option value="">Latest version</option>
               {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks)</option>)}
             </select>
@@ -147,6 +154,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
         </div>
       )}
 
+      {comparing && <RunComparison faultId={faultId} ids={comparing} onClose={() => setComparing(null)} />}
       {report && (
         <>
           <div className="grid items-start gap-4 xl:grid-cols-[1fr_400px]">
@@ -166,7 +174,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             </div>
             <aside className="card max-h-[calc(100vh-7rem)] overflow-auto xl:sticky xl:top-4" data-testid="side-panel">
               <div className="sticky top-0 z-10 flex border-b border-slate-200 bg-white dark:border-slate-800 dark:bg-slate-900" role="tablist">
-                {([["sheet", "Fault sheet"], ["pins", "Pinned notes"], ["stress", "Stress screen"]] as const).map(([tab, label]) => (
+                {([["sheet", "Fault sheet"], ["runs", "Runs"], ["pins", "Pinned notes"], ["stress", "Stress screen"]] as const).map(([tab, label]) => (
                   <button key={tab} role="tab" aria-selected={sideTab === tab} onClick={() => setSideTab(tab)} data-testid={`side-tab-${tab}`}
                     className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
                     {label}
@@ -176,6 +184,19 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
               <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
                 <FaultSheet report={report} />
                 <StressSheetSummary faultId={faultId} analysisId={current!.id} />
+              </div>
+              <div className="p-4" hidden={sideTab !== "runs"}>
+                {sideTab === "runs" && (
+                  <RunsPanel
+                    faultId={faultId}
+                    pickSetId={current!.pickSetId}
+                    report={report}
+                    shownId={current!.id}
+                    canEdit={canEdit}
+                    onShow={setRunId}
+                    onCompare={setComparing}
+                  />
+                )}
               </div>
               <div className="p-4" hidden={sideTab !== "stress"}>
                 <StressPanel studyId={props.studyId} faultId={faultId} role={props.role} display={display.data ?? null} analysisId={current!.id} />

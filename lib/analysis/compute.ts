@@ -1,13 +1,13 @@
 import { analyzePicks, type PipelineResult, type TipLineFitter } from "@/lib/engine/pipeline";
-import type { AnalysisReport } from "@/lib/engine/types";
+import type { AnalysisReport, AnalysisSettings } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { buildFaultDisplay, encodeFaultDisplay } from "./display";
 
 export interface AnalysisJob {
   picks: Uint8Array;
   units: "m" | "ft";
-  intervalM?: number;
-  cellM?: number;
+  /** the run's settings (contour interval, cell, cut-off, profiles, ends, smoothing) */
+  settings?: AnalysisSettings;
   /** "display" (default): the report and the display payload; "grids": the engine's full-resolution result (exports) */
   output?: "display" | "grids";
 }
@@ -20,12 +20,12 @@ export interface AnalysisOutput {
 /** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
 export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}, threads: { tipLineFitter?: TipLineFitter } = {}): AnalysisOutput {
   const picks = decodePicks(job.picks);
-  const { report, grids } = analyzePicks(picks, { units: job.units, intervalM: job.intervalM, cellM: job.cellM, onStage, ...threads });
+  const { report, grids } = analyzePicks(picks, { ...job.settings, units: job.units, onStage, ...threads });
   onStage("display", 0.98);
   return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
 }
 
 /** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */
 export function computeFullResolution(job: AnalysisJob, threads: { tipLineFitter?: TipLineFitter } = {}): PipelineResult {
-  return analyzePicks(decodePicks(job.picks), { units: job.units, intervalM: job.intervalM, cellM: job.cellM, ...threads });
+  return analyzePicks(decodePicks(job.picks), { ...job.settings, units: job.units, ...threads });
 }

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, base64Bytes, pickSets } from "@/db/schema";
 import type { AnalysisReport } from "@/lib/engine/types";
@@ -19,7 +19,8 @@ const finishedReports = lruCache<unknown>(64);
 const finishedReportBodies = lruCache<string>(64);
 const finishedDisplays = lruCache<Uint8Array>(64);
 
-export async function latestAnalysisForFault(faultId: string, pickSetId?: string) {
+/** The newest analysis of the fault's newest pick set (or of the pick set named), or exactly the analysis named. */
+export async function latestAnalysisForFault(faultId: string, pickSetId?: string, analysisId?: string) {
   const db = await getDb();
   const rows = await db
     .select({
@@ -29,6 +30,8 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
       progress: analyses.progress,
       errorMessage: analyses.errorMessage,
       engineVersion: analyses.engineVersion,
+      parameters: analyses.parameters,
+      createdAt: analyses.createdAt,
       finishedAt: analyses.finishedAt,
       pickSetId: pickSets.id,
       version: pickSets.version,
@@ -38,7 +41,13 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
     })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
-    .where(pickSetId ? and(eq(pickSets.faultId, faultId), eq(pickSets.id, pickSetId)) : eq(pickSets.faultId, faultId))
+    .where(
+      and(
+        eq(pickSets.faultId, faultId),
+        pickSetId ? eq(pickSets.id, pickSetId) : undefined,
+        analysisId ? eq(analyses.id, analysisId) : undefined,
+      ),
+    )
     .orderBy(desc(pickSets.version), desc(analyses.createdAt))
     .limit(1);
   const row = rows[0];
@@ -63,8 +72,8 @@ export function withoutContourRings(report: AnalysisReport): AnalysisReport {
  * finished analysis (a finished analysis and its pick set never change). Next's route handlers drop a
  * Content-Encoding set by the handler, so the body cannot be kept compressed as well: next compresses each response.
  */
-export async function latestAnalysisResponseBody(faultId: string, options: { pickSetId?: string; contourRings?: boolean } = {}): Promise<string> {
-  const latest = await latestAnalysisForFault(faultId, options.pickSetId);
+export async function latestAnalysisResponseBody(faultId: string, options: { pickSetId?: string; analysisId?: string; contourRings?: boolean } = {}): Promise<string> {
+  const latest = await latestAnalysisForFault(faultId, options.pickSetId, options.analysisId);
   const rings = options.contourRings ?? true;
   const shaped = (analysis: NonNullable<typeof latest>) => (rings || !analysis.result ? analysis : { ...analysis, result: withoutContourRings(analysis.result as AnalysisReport) });
   if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest && shaped(latest) });
@@ -89,4 +98,60 @@ export async function analysisDisplay(faultId: string, analysisId: string) {
     .where(and(eq(analyses.id, analysisId), eq(pickSets.faultId, faultId)));
   if (row?.display && row.status === "done") finishedDisplays.set(key, row.display);
   return row?.display ?? null;
+}
+
+export interface AnalysisRunSummary {
+  id: string;
+  status: string;
+  createdAt: Date;
+  finishedAt: Date | null;
+  engineVersion: string | null;
+  settings: unknown;
+  /** per segment: the headline numbers, to compare runs at a glance */
+  segments: { id: string; lengthM: number; lengthRangeM: [number, number | null] | null; heightM: number; heightRangeM: [number, number | null] | null; fittedDmaxM: number | null; model: string; cutoffM: number | null }[];
+}
+
+/**
+ * Every run of the analysis of one pick set (the fault's newest when none is named), newest first: each run is kept
+ * beside the earlier ones so that two can be compared.
+ */
+export async function analysisRuns(faultId: string, pickSetId?: string): Promise<{ pickSetId: string | null; runs: AnalysisRunSummary[] }> {
+  const db = await getDb();
+  const [pickSet] = await db
+    .select({ id: pickSets.id })
+    .from(pickSets)
+    .where(and(eq(pickSets.faultId, faultId), pickSetId ? eq(pickSets.id, pickSetId) : undefined))
+    .orderBy(desc(pickSets.version))
+    .limit(1);
+  if (!pickSet) return { pickSetId: null, runs: [] };
+  const rows = await db
+    .select({
+      id: analyses.id,
+      status: analyses.status,
+      createdAt: analyses.createdAt,
+      finishedAt: analyses.finishedAt,
+      engineVersion: analyses.engineVersion,
+      parameters: analyses.parameters,
+      // only the headline numbers leave the database: a whole report per run would be most of a megabyte
+      segments: sql<AnalysisRunSummary["segments"] | null>`(
+        select jsonb_agg(jsonb_build_object(
+          'id', s->>'id',
+          'lengthM', (s->'tipLine'->>'lengthM')::float8,
+          'lengthRangeM', s->'tipLine'->'lengthRangeM',
+          'heightM', (s->'tipLine'->>'heightM')::float8,
+          'heightRangeM', s->'tipLine'->'heightRangeM',
+          'fittedDmaxM', (s->'max'->>'fittedDisplacementM')::float8,
+          'model', s->'tipLine'->>'model',
+          'cutoffM', (s->'tipLine'->'cutoff'->>'displacementM')::float8
+        ) order by ord)
+        from jsonb_array_elements(${analyses.result}->'segments') with ordinality as e(s, ord)
+      )`,
+    })
+    .from(analyses)
+    .where(eq(analyses.pickSetId, pickSet.id))
+    .orderBy(desc(analyses.createdAt));
+  return {
+    pickSetId: pickSet.id,
+    runs: rows.map(({ parameters, segments, ...row }) => ({ ...row, settings: parameters, segments: segments ?? [] })),
+  };
 }

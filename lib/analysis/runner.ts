@@ -6,6 +6,8 @@ import { ENGINE_VERSION } from "@/lib/engine/pipeline";
 import { claimJobOf, enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { holdWhileRunning, LeaseLost, newWorkerId, type JobContext, type JobHandler } from "@/lib/jobs/processor";
 import type { AnalysisJob } from "./compute";
+import type { AnalysisSettings } from "@/lib/engine/types";
+import { parseAnalysisSettings } from "./settings";
 import { analysisTimeLimitMs, ComputeAborted, computeAnalysisOffThread } from "./worker-pool";
 
 /**
@@ -53,8 +55,7 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
   let lastWrite = 0;
   const stageWrites: Promise<unknown>[] = [];
   try {
-    const parameters = analysis.parameters as { intervalM?: number; cellM?: number };
-    const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM };
+    const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, settings: parseAnalysisSettings(analysis.parameters) };
     const { report, display } = await computeAnalysisOffThread(
       input,
       (stage, fraction) => {
@@ -147,12 +148,12 @@ export async function runAnalysis(analysisId: string) {
 }
 
 /** Queue a fresh analysis of a pick set (idempotent in result: same picks and parameters give the same report). */
-export async function rerunAnalysis(faultId: string, pickSetId: string) {
+export async function rerunAnalysis(faultId: string, pickSetId: string, settings: AnalysisSettings = {}) {
   const db = await getDb();
   const pickSet = await db.query.pickSets.findFirst({ where: and(eq(pickSets.id, pickSetId), eq(pickSets.faultId, faultId)), columns: { id: true } });
   if (!pickSet) return null;
   const analysisId = await db.transaction(async (tx) => {
-    const [analysis] = await tx.insert(analyses).values({ pickSetId }).returning({ id: analyses.id });
+    const [analysis] = await tx.insert(analyses).values({ pickSetId, parameters: settings }).returning({ id: analyses.id });
     await queueAnalysisJob(tx, analysis.id);
     return analysis.id;
   });

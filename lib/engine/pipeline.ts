@@ -1,4 +1,4 @@
-import type { AnalysisOptions, AnalysisReport, PickColumns, RegularGrid, SegmentResult } from "./types";
+import type { AnalysisOptions, AnalysisReport, AnalysisSettings, PickColumns, RegularGrid, SegmentResult } from "./types";
 import { indicesBySegment, parsePickCsv, type ParseOptions } from "./csv";
 import { fitPlane } from "./plane";
 import { planeToWorld, projectToPlane } from "./project";
@@ -12,6 +12,7 @@ import { tipLineInputs, type TipLineInputs } from "./tipline-inputs";
 import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
 import { analyzeRelays } from "./relays";
 import { pickWeights, pullTowardNeighbours, qualityNote, weightsMatter } from "./quality";
+import { smoothGrid } from "./surface";
 
 export const ENGINE_VERSION = "2.0.0";
 
@@ -89,6 +90,11 @@ export function analyzePicks(
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
     const [griddedDisplacementM, griddedThrowM, griddedOffPlaneM] = weighted ? pullTowardNeighbours([displacementM, throwM, w], weights, tri.triangles) : [displacementM, throwM, w];
     const grid = buildGrid(s, t, griddedDisplacementM, griddedThrowM, tri.triangles, spec, griddedOffPlaneM);
+    if (options.smoothingM && options.smoothingM > 0) {
+      // the interpreter's smoothing: contours and views read the smoothed grids; picks, maximum and tip line do not
+      grid.displacementM = smoothGrid(grid.displacementM, spec, options.smoothingM);
+      grid.throwM = smoothGrid(grid.throwM, spec, options.smoothingM);
+    }
     grids[id] = grid;
 
     let maxIndex = 0;
@@ -146,12 +152,25 @@ export function analyzePicks(
       engineVersion: ENGINE_VERSION,
       input: { rows: picks.x.length, accepted: picks.x.length, rejected: [], units: options.units ?? "m", ...options.input },
       quality: { picksBelowOne, note: qualityNote(picksBelowOne) },
+      settings: settingsOf(options),
       segments,
       relays,
       warnings,
     },
     grids,
   };
+}
+
+/** The settings given, without the ones left to their defaults. */
+function settingsOf(options: AnalysisOptions): AnalysisSettings {
+  const settings: AnalysisSettings = {};
+  if (options.intervalM) settings.intervalM = options.intervalM;
+  if (options.cellM) settings.cellM = options.cellM;
+  if (options.throwCutoffM !== undefined) settings.throwCutoffM = options.throwCutoffM;
+  if (options.profiles?.length) settings.profiles = options.profiles;
+  if (options.ends && Object.keys(options.ends).length) settings.ends = options.ends;
+  if (options.smoothingM) settings.smoothingM = options.smoothingM;
+  return settings;
 }
 
 /** Where the maximum sits between the tip line's ends: 0 in the middle, ±1 at an end (along strike, down dip). */

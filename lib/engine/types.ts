@@ -221,6 +221,8 @@ export interface AnalysisReport {
   input: { rows: number; accepted: number; rejected: RejectedRow[]; units: LengthUnit };
   /** how the optional quality column was used (absent in reports made before it was) */
   quality?: { picksBelowOne: number; note: string };
+  /** the interpreter's settings this analysis ran with (absent: every default) */
+  settings?: AnalysisSettings;
   segments: SegmentResult[];
   relays: RelayResult[];
   warnings: string[];
@@ -242,4 +244,9 @@ export interface AnalysisOptions {
   profiles?: ProfileModel[];
   /** the interpreter's word on each end of the fault: open (the data stop there) or inferred */
   ends?: Partial<Record<TipEndSide, "open" | "inferred">>;
+  /** Gaussian smoothing of the displacement and throw grids before contouring, as a length (m); none when absent */
+  smoothingM?: number;
 }
+
+/** The settings an interpreter can give an analysis run; every one optional (absent: the default). */
+export type AnalysisSettings = Pick<AnalysisOptions, "intervalM" | "cellM" | "throwCutoffM" | "profiles" | "ends" | "smoothingM">;

@@ -1,4 +1,5 @@
 import "server-only";
+import { parseAnalysisSettings } from "@/lib/analysis/settings";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
@@ -89,9 +90,8 @@ export async function recomputeFullResolution(source: ExportSource, signal?: Abo
   const cached = recomputed.get(source.analysis.id);
   if (cached) return cached;
   const bytes = await storedPickBytes(source);
-  const parameters = source.analysis.parameters as { intervalM?: number; cellM?: number };
   // seconds of work on a large pick set: off the web server's thread, like an analysis
-  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, intervalM: parameters.intervalM, cellM: parameters.cellM }, signal);
+  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
   const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
   return { picks, result };

@@ -80,6 +80,14 @@ export function analyzePicks(
     const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
     if (outline.length) outline.push(outline[0]);
     const sinDip = Math.sin((plane.dipDeg * Math.PI) / 180);
+    if (options.throwCutoffM !== undefined) {
+      let below = 0;
+      for (let i = 0; i < throwM.length; i++) if (throwM[i] < options.throwCutoffM) below++;
+      if (below > 0.01 * throwM.length)
+        warnings.push(
+          `segment "${id}": ${((100 * below) / throwM.length).toFixed(1)} % of the picks have less throw than the ${options.throwCutoffM} m cut-off that was set; a resolution cut-off is the smallest throw that could be picked, so check the value`,
+        );
+    }
     const fitInputs = tipLineInputs(s, t, displacementM, tri.outline, tri.triangles, tri.medianEdgeM, {
       cutoffM: options.throwCutoffM !== undefined && sinDip > 0 ? options.throwCutoffM / sinDip : undefined,
       models: options.profiles,

@@ -33,6 +33,8 @@ export interface CandidateFit {
   aicc: number;
   /** Akaike weight among the candidates tried */
   weight: number;
+  /** weight in the central estimate: Akaike weight among the published profiles */
+  centralWeight: number;
   parameters: number;
   rmsM: number;
   /** models drawn from the fit's parameter uncertainty */
@@ -528,7 +530,12 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
   const finite = fitted.map((f) => Number.isFinite(f.aicc));
   const raw = finite.some(Boolean) ? fitted.map((f, k) => (finite[k] ? Math.exp(-(f.aicc - bestAicc) / 2) : 0)) : fitted.map(() => 1);
   const total = raw.reduce((a, b) => a + b, 0);
-  const publishedTotal = fitted.reduce((sum, f, k) => sum + (PUBLISHED_PROFILES.includes(f.model) ? raw[k] : 0), 0);
+  // the weights that set the centre: Akaike weights among the published profiles alone (from their own criteria, so
+  // they stay defined when the flexible family takes nearly all the weight); all candidates' when none is published
+  const published = fitted.map((f) => PUBLISHED_PROFILES.includes(f.model) && Number.isFinite(f.aicc));
+  const bestPublished = Math.min(...fitted.map((f, k) => (published[k] ? f.aicc : Infinity)));
+  const centralRaw = published.some(Boolean) ? fitted.map((f, k) => (published[k] ? Math.exp(-(f.aicc - bestPublished) / 2) : 0)) : raw;
+  const centralTotal = centralRaw.reduce((a, b) => a + b, 0);
   const candidates: CandidateFit[] = fitted.map((f, index) => {
     const best = toModel(problem, f.model, f.point);
     let sse = 0;
@@ -538,7 +545,7 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     }
     const weight = raw[index] / total;
     const draws: TipModel[] = [];
-    const centralWeight = PUBLISHED_PROFILES.includes(f.model) && publishedTotal > 0 ? raw[index] / publishedTotal : 0;
+    const centralWeight = centralRaw[index] / centralTotal;
     if (weight >= 0.005 || centralWeight >= 0.05) {
       const covariance = sandwichCovariance(problem, f.model, f.point);
       const root = covariance ? symmetricRoot(covariance) : null;
@@ -556,7 +563,7 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
         }
       }
     }
-    return { best, negLogLikelihood: f.nll, aicc: f.aicc, weight, parameters: f.parameters, rmsM: Math.sqrt(sse / Math.max(1, picks)), draws };
+    return { best, negLogLikelihood: f.nll, aicc: f.aicc, weight, centralWeight, parameters: f.parameters, rmsM: Math.sqrt(sse / Math.max(1, picks)), draws };
   });
   const { outlineS, outlineT, outlineD, outlineOpen, cutoffM, cutoffSource, noiseM, steepGradientPerM, ends, spacing } = inputs;
   return {

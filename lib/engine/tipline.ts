@@ -4,7 +4,7 @@
 // the fits' uncertainty. The tip line never crosses the data, and where the data stop while displacement is still
 // high (a survey edge, a gap) that end stays open instead of getting an invented tip.
 import type { PlaneFit, ProfileModel, TipEnd, TipEndSide, TipLine, TipProfileModel } from "./types";
-import { PROFILE_CANDIDATES, PROFILE_LABELS, PUBLISHED_PROFILES, extrapolateTipLinear, modelRadius, modelTipPolygon } from "./profiles";
+import { PROFILE_CANDIDATES, PROFILE_LABELS, extrapolateTipLinear, modelRadius, modelTipPolygon } from "./profiles";
 import { planeToWorld } from "./project";
 import { weightedQuantiles } from "./optimize";
 import type { TipLineFits, TipModel } from "./tipline-fit";
@@ -262,9 +262,7 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const { candidates, inputs } = fits;
   const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM } = inputs;
   // the centre and central line come from the published profiles (the flexible family only widens the range)
-  const publishedWeight = candidates.reduce((sum, c) => sum + (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight : 0), 0);
-  const centralWeights = candidates.map((c) => (publishedWeight > 0 ? (PUBLISHED_PROFILES.includes(c.best.model) ? c.weight / publishedWeight : 0) : c.weight));
-  if (!centralWeights.some((w) => w > 0)) centralWeights.fill(1 / candidates.length);
+  const centralWeights = candidates.map((c) => c.centralWeight);
   let cs = 0, ct = 0;
   candidates.forEach((c, k) => {
     cs += centralWeights[k] * c.best.centre.s;

@@ -260,7 +260,7 @@ export interface TipLineSummary {
  */
 export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const { candidates, inputs } = fits;
-  const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM } = inputs;
+  const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM, spacing } = inputs;
   // the centre and central line come from the published profiles (the flexible family only widens the range)
   const centralWeights = candidates.map((c) => c.centralWeight);
   let cs = 0, ct = 0;
@@ -329,8 +329,11 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   for (let q = 0; q < RAY_COUNT; q++) {
     for (let k = 0; k < drawRadii.length; k++) column[k] = drawRadii[k][q];
     const [low, high] = bounds(column);
-    inner[q] = Math.max(floor[q], Math.min(central[q], Number.isFinite(low) ? low : central[q]));
-    outer[q] = Math.max(central[q], Number.isFinite(high) ? high : central[q]);
+    // the picks sample the fault at their spacing: no tip is placed finer than half a spacing along the ray, so the
+    // band is at least that wide either side of the central line
+    const halfSpacing = 0.5 * Math.hypot(cosines[q] * spacing.alongStrikeM, sines[q] * spacing.downDipM);
+    inner[q] = Math.max(floor[q], Math.min(central[q] - halfSpacing, Number.isFinite(low) ? low : central[q]));
+    outer[q] = Math.max(central[q] + halfSpacing, Number.isFinite(high) ? high : central[q]);
     if (exits.open[q]) inner[q] = outer[q] = central[q];
   }
 
@@ -366,7 +369,8 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
     outer,
     open: exits.open,
     steepGradientPerM,
-    drawn: { lengthM: bounds(drawLengths), heightM: bounds(drawHeights), dmaxM: bounds(drawDmax) },
+    // each end of a length or height is placed no finer than half a pick spacing: the range is at least one spacing wide
+    drawn: { lengthM: atLeast(bounds(drawLengths), spacing.alongStrikeM), heightM: atLeast(bounds(drawHeights), spacing.downDipM), dmaxM: bounds(drawDmax) },
     dmaxM,
     ends,
     best: { model: best.model, shape: best.shape, centre: best.centre, reach: best.reach, exponent: best.exponent, dmaxM: best.dmaxM },
@@ -384,6 +388,12 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
     noiseM: inputs.noiseM,
     selection,
   };
+}
+
+/** A range at least `width` wide, widened evenly about its middle where narrower (NaN stays NaN). */
+function atLeast([low, high]: [number, number], width: number): [number, number] {
+  const short = width - (high - low);
+  return short > 0 ? [low - short / 2, high + short / 2] : [low, high];
 }
 
 /** The rays' directions, from −π round. */

@@ -37,6 +37,19 @@ interface AnalysisState {
 interface PickSetRow { id: string; version: number; fileName: string; rowCount: number; droppedRows: number; uploadedAt: string; units: string }
 
 const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
+/** the analysis stages in words */
+const STAGE_WORDS: Record<string, string> = {
+  queued: "waiting to start",
+  parse: "reading the picks",
+  plane: "fitting the fault plane",
+  triangulate: "triangulating",
+  grid: "gridding",
+  contours: "contouring",
+  tipline: "inferring the tip line",
+  metrics: "measuring",
+  relays: "relays between segments",
+  done: "done",
+};
 
 type SideTab = "sheet" | "runs" | "pins" | "stress";
 
@@ -124,14 +137,14 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       {current && (current.status === "queued" || current.status === "running") && (
         <div className="card mb-4 p-4" data-testid="analysis-progress">
           <div className="mb-2 flex justify-between text-sm">
-            <span>Analysing pick set v{current.version}: <span className="font-medium">{current.stage}</span></span>
+            <span>Analysing pick set v{current.version}: <span className="font-medium">{STAGE_WORDS[current.stage] ?? "working"}</span></span>
             <span className="num text-slate-500">{Math.round(current.progress * 100)}%</span>
           </div>
           <div className="h-2 overflow-hidden rounded bg-slate-200 dark:bg-slate-800">
             <div className="h-full bg-slip-500 transition-all" style={{ width: `${Math.max(3, current.progress * 100)}%` }} />
           </div>
           <ol className="mt-2 flex flex-wrap gap-2 text-xs text-slate-500">
-            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{stage}</li>)}
+            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{STAGE_WORDS[stage]}</li>)}
           </ol>
         </div>
       )}

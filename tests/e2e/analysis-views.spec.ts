@@ -55,6 +55,9 @@ test("QG-1: strike profile with both segments, the overlap and an honest legend;
   expect(lines.some((line) => line.startsWith("sum,"))).toBe(true);
   const png = await download(page, page.getByTestId("strike-profile-chart-png"));
   expect(isPng(png.bytes)).toBe(true);
+  // the PNG stands alone: taller than the plot by its title and legend (PNG header: width and height at bytes 16 and 20, at 2×)
+  const plotHeight = (await chart.locator("svg").last().boundingBox())!.height;
+  expect(png.bytes.readUInt32BE(20) / 2).toBeGreaterThan(plotHeight + 24 + 16);
 
   // a drawn line on the plan map
   await page.getByTestId("profile-mode").selectOption("line");

@@ -71,16 +71,16 @@ export function databaseWindow({ scope, limit, windowMs }: { scope: string; limi
 export function createRateLimiter(options: { scope: string; limit: number; windowMs: number }): RateLimiter {
   const memory = memoryWindow(options);
   const shared = databaseWindow(options);
-  const useDatabase = async () => {
+  const sharedThroughDatabase = async () => {
     const { getDatabaseHandle } = await import("@/db/client");
     return (await getDatabaseHandle()).kind === "postgres";
   };
   return {
     async attempt(key) {
-      return (await useDatabase()) ? shared.attempt(key) : memory.attempt(key);
+      return (await sharedThroughDatabase()) ? shared.attempt(key) : memory.attempt(key);
     },
     async reset(key) {
-      if (await useDatabase()) await shared.reset(key);
+      if (await sharedThroughDatabase()) await shared.reset(key);
       else memory.reset(key);
     },
   };

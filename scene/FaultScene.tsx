@@ -183,7 +183,8 @@ function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSc
 
 /** A disposable built in useMemo and disposed when it is rebuilt or the component unmounts. */
 function useDisposable<T extends { dispose(): void }>(factory: () => T, deps: DependencyList): T {
-  // eslint-disable-next-line react-hooks/exhaustive-deps
+  // the caller's dependencies are forwarded as they are (a generic hook, like useMemo itself)
+  // eslint-disable-next-line react-hooks/exhaustive-deps, react-hooks/use-memo
   const value = useMemo(factory, deps);
   useEffect(() => () => value.dispose(), [value]);
   return value;

@@ -7,7 +7,12 @@ export const LAYER_NAMES: readonly LayerName[] = ["surface", "contours", "tipLin
 
 export const MAX_EXAGGERATION = 5;
 
+/** Displacement and throw are always there to colour by; other colour modes are fields registered by a panel. */
+export const isBuiltInColourMode = (mode: string) => mode === "displacement" || mode === "throw";
+
 interface ViewSettingsStore {
+  /** which saved settings were applied last (a viewpoint link's token), if any */
+  appliedFrom: string | null;
   layers: Record<LayerName, boolean>;
   colorMode: ColorMode;
   /** relief drawn off the plane per metre of displacement, 0–5 */
@@ -23,6 +28,7 @@ interface ViewSettingsStore {
 }
 
 export const useViewSettings = create<ViewSettingsStore>()((set) => ({
+  appliedFrom: null,
   layers: { surface: true, contours: true, tipLine: true, mappedLimit: true, picks: false, maxMarker: true, pins: true },
   colorMode: "displacement",
   exaggeration: 0,

@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Every test: type check, migrations in step with the schema, unit + integration (vitest), the DB suite again on
+# Every test: type check, lint (ESLint errors fail), formatting (Prettier), migrations in step with the schema, unit + integration (vitest), the DB suite again on
 # PostgreSQL when TEST_DATABASE_URL is set, then the browser tests (Playwright on Debian's chromium) against a production build.
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -27,6 +27,12 @@ echo "test: Python oracles run with $SLIPFIELD_PYTHON"
 
 echo "== type check"
 npx tsc --noEmit
+
+echo "== lint (ESLint: errors fail, warnings are printed)"
+npm run --silent lint
+
+echo "== formatting (Prettier; 'npm run format' rewrites)"
+npm run --silent format:check
 
 echo "== migrations match the schema"
 before=$(cat drizzle/*.sql drizzle/meta/*.json | sha256sum)

@@ -2,7 +2,7 @@
 import * as Plot from "@observablehq/plot";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
@@ -11,27 +11,34 @@ import { CautionNote } from "@/components/workspace/CautionNote";
 import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { REPORT_PICTURE_KEY } from "./download";
+import { useBrowserValue } from "@/components/hooks/useBrowserValue";
 import { CHART, PlotChart, X_LABEL_BELOW } from "./PlotChart";
 import { RelayTable } from "./RelayView";
 import { ScalingChart } from "./ScalingView";
 import { StrikeProfileView } from "./StrikeProfileView";
 
+let openedAt: string | null = null;
+/** When this page was opened, in the reader's time zone (the same value for every render of the page). */
+const pageOpenedAt = () => (openedAt ??= new Date().toLocaleString());
+
+/** The 3D picture the export tab left in local storage for this analysis (a PNG data URL), if any. */
+function storedPicture(faultId: string, analysisId: string): string | null {
+  try {
+    const stored = localStorage.getItem(REPORT_PICTURE_KEY(faultId, analysisId));
+    return stored?.startsWith("data:image/png") ? stored : null;
+  } catch {
+    // no storage: the report has its 2D figures only
+    return null;
+  }
+}
+
 /** The one-page printable fault report. */
 export function FaultReport({ data }: { data: FaultReportData }) {
   const { fault, report, provenance, pins, scaling } = data;
   const stem = fileStem(fault.name);
-  const [picture, setPicture] = useState<string | null>(null);
-  // set after hydration: the server's clock and the reader's time zone differ
-  const [printedAt, setPrintedAt] = useState<string | null>(null);
-  useEffect(() => setPrintedAt(new Date().toLocaleString()), []);
-  useEffect(() => {
-    try {
-      const stored = localStorage.getItem(REPORT_PICTURE_KEY(fault.id, data.analysisId));
-      if (stored?.startsWith("data:image/png")) setPicture(stored);
-    } catch {
-      // no storage: the report has its 2D figures only
-    }
-  }, [fault.id, data.analysisId]);
+  const picture = useBrowserValue(() => storedPicture(fault.id, data.analysisId));
+  // read in the browser: the server's clock and the reader's time zone differ
+  const printedAt = useBrowserValue(pageOpenedAt);
   const display = useQuery({
     queryKey: ["display", fault.id, data.analysisId],
     staleTime: Infinity,

@@ -25,17 +25,22 @@ export function usePlotFigure(build: (width: number) => Figure | null, deps: unk
     const element = holder.current;
     if (!element || width === 0) return;
     let figure: Figure | null = null;
+    // the figure is drawn into the DOM at the holder's measured width, so it is made here, and only here can a drawing
+    // error be known: it is shown by a state update, at most once per drawing
+    /* eslint-disable react-hooks/set-state-in-effect */
     try {
       figure = build(width);
       setError(null);
     } catch (cause) {
       setError(cause instanceof Error ? cause.message : "The chart could not be drawn.");
     }
+    /* eslint-enable react-hooks/set-state-in-effect */
     if (figure) {
       element.append(figure);
       options.onRendered?.(figure);
     }
     return () => figure?.remove();
+    // the caller's `deps` are forwarded as they are (a generic hook, like useMemo itself)
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [width, ...deps]);
 

@@ -19,7 +19,8 @@ export function MentionTextarea({ value, onValueChange, mentionable, onKeyDown, 
   const [active, setActive] = useState(0);
   const [dismissedAt, setDismissedAt] = useState<number | null>(null);
   const mention = mentionBeforeCaret(value, caret);
-  const suggestions = useMemo(() => (mention ? mentionSuggestions(mentionable, mention.query) : []), [mention?.query, mention, mentionable]);
+  const query = mention?.query ?? null;
+  const suggestions = useMemo(() => (query !== null ? mentionSuggestions(mentionable, query) : []), [query, mentionable]);
   const open = mention !== null && suggestions.length > 0 && dismissedAt !== mention.start;
   const chosen = Math.min(active, Math.max(0, suggestions.length - 1));
 

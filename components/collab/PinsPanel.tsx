@@ -48,13 +48,22 @@ export function flyToPin(pin: { x: number; y: number; z: number }) {
   });
 }
 
-export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { studyId: string; faultId: string; role: StudyRole; currentPickSetVersion: number | null; display: FaultDisplay | null }) {
+export function PinsPanel({ faultId, role, currentPickSetVersion, display, linkedPinId = null }: {
+  studyId: string;
+  faultId: string;
+  role: StudyRole;
+  currentPickSetVersion: number | null;
+  display: FaultDisplay | null;
+  /** a pin named by the page's link (?pin=…, from an e-mail): its thread starts open and the camera flies to it */
+  linkedPinId?: string | null;
+}) {
   const canComment = COMMENT_ROLES.includes(role);
   const queryClient = useQueryClient();
   const key = useMemo(() => ["pins", faultId], [faultId]);
   const [filter, setFilter] = useState<Filter>("all");
-  const [selected, setSelected] = useState<string | null>(null);
+  const [selected, setSelected] = useState<string | null>(linkedPinId);
   const [unreadSeen, setUnreadSeen] = useState<Set<string>>(() => new Set());
+  const [countedList, setCountedList] = useState<PinList | undefined>(undefined);
   const visited = useRef(false);
   const setPins = useAnnotationStore((state) => state.setPins);
   const placing = useAnnotationStore((state) => state.placing);
@@ -76,12 +85,13 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
     [setPins, setPlacing],
   );
 
-  // Unread markers stay for this visit; once the list has been on screen the server counts from then on.
-  useEffect(() => {
-    if (!pins.data) return;
+  // Unread markers stay for this visit; once the list has been on screen the server counts from then on. Each new list
+  // adds its unread pins while rendering (the state follows the data without an effect).
+  if (pins.data && pins.data !== countedList) {
+    setCountedList(pins.data);
     const fresh = pins.data.pins.filter((pin) => pin.unread).map((pin) => pin.id);
-    if (fresh.length) setUnreadSeen((seen) => (fresh.every((id) => seen.has(id)) ? seen : new Set([...seen, ...fresh])));
-  }, [pins.data]);
+    if (fresh.length && !fresh.every((id) => unreadSeen.has(id))) setUnreadSeen(new Set([...unreadSeen, ...fresh]));
+  }
   const root = useRef<HTMLDivElement>(null);
   const loaded = Boolean(pins.data);
   useEffect(() => {
@@ -97,18 +107,14 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display }: { s
     return () => observer.disconnect();
   }, [loaded, faultId]);
 
-  // a link from an e-mail (?pin=…) opens that thread
-  const openedFromLink = useRef(false);
+  // a link from an e-mail (?pin=…) opened that thread: once the surface and the list are there, fly to its pin
+  const flewToLinkedPin = useRef(false);
   useEffect(() => {
-    if (openedFromLink.current || !pins.data || !display) return;
-    openedFromLink.current = true;
-    const wanted = new URLSearchParams(window.location.search).get("pin");
-    const pin = wanted ? pins.data.pins.find((candidate) => candidate.id === wanted) : undefined;
-    if (pin) {
-      setSelected(pin.id);
-      flyToPin(pin);
-    }
-  }, [pins.data, display]);
+    if (flewToLinkedPin.current || !linkedPinId || !pins.data || !display) return;
+    flewToLinkedPin.current = true;
+    const pin = pins.data.pins.find((candidate) => candidate.id === linkedPinId);
+    if (pin) flyToPin(pin);
+  }, [linkedPinId, pins.data, display]);
 
   const list = (pins.data?.pins ?? []).filter((pin) => (filter === "mine" ? pin.mine : filter === "open" ? pin.state === "open" : true));
   const counts = { all: pins.data?.pins.length ?? 0, mine: pins.data?.pins.filter((pin) => pin.mine).length ?? 0, open: pins.data?.pins.filter((pin) => pin.state === "open").length ?? 0 };

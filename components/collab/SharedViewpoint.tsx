@@ -1,7 +1,7 @@
 "use client";
 // The read-only view behind a viewpoint link: one fault's surface in the saved camera and settings.
 // Everything comes from the token-scoped routes under /api/v/[token]; nothing here links into the study.
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useMemo } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import type { PublicViewpoint } from "@/lib/viewpoints";
@@ -9,6 +9,7 @@ import { FaultSheet } from "@/components/workspace/FaultSheet";
 import { FaultViewer } from "@/components/workspace/FaultViewer";
 import { PinText } from "./PinText";
 import { applyViewSettings } from "./viewSettings";
+import { isBuiltInColourMode, useViewSettings } from "@/scene/viewSettingsStore";
 
 class DisplayError extends Error {
   constructor(readonly status: number, message: string) {
@@ -17,14 +18,16 @@ class DisplayError extends Error {
 }
 
 export function SharedViewpoint({ token, data }: { token: string; data: PublicViewpoint }) {
-  // settings go into the store before the viewer first renders, so the first frame is already the saved view
-  const [settingsApplied, setSettingsApplied] = useState(false);
-  const [colourNote, setColourNote] = useState<string | null>(null);
+  // settings go into the store before the viewer first renders, so the first frame is already the saved view; the
+  // store says which link's settings it holds
   useEffect(() => {
-    const { colourFellBack } = applyViewSettings(data.viewpoint.settings);
-    if (colourFellBack) setColourNote(`Coloured by displacement: the saved colouring (${data.viewpoint.settings.colourMode}) is not available in a shared view.`);
-    setSettingsApplied(true);
-  }, [data.viewpoint.settings]);
+    applyViewSettings(data.viewpoint.settings, token);
+  }, [data.viewpoint.settings, token]);
+  const settingsApplied = useViewSettings((state) => state.appliedFrom === token);
+  // a shared view loads no analysis fields (stress colourings): only displacement and throw can be shown
+  const colourNote = isBuiltInColourMode(data.viewpoint.settings.colourMode)
+    ? null
+    : `Coloured by displacement: the saved colouring (${data.viewpoint.settings.colourMode}) is not available in a shared view.`;
 
   const display = useQuery({
     queryKey: ["shared-display", token],
@@ -59,7 +62,7 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
         <div className="grid items-start gap-4 xl:grid-cols-[1fr_380px]">
           <div className="card overflow-hidden" data-testid="viewer-card">
             {display.data && settingsApplied ? (
-              <FaultViewer display={display.data} report={data.analysis.report} pins={pins} initialCamera={data.viewpoint.camera} />
+              <FaultViewer display={display.data} pins={pins} initialCamera={data.viewpoint.camera} />
             ) : (
               <div className="flex h-[600px] items-center justify-center px-6 text-center text-sm text-slate-500" data-testid={display.isError ? "shared-display-error" : undefined}>
                 {display.isError

@@ -12,7 +12,7 @@ export function currentViewSettings(): ViewSettings {
  * Applies saved settings to the viewer. Layers the viewer does not know are ignored; a colour mode that is not
  * available here (e.g. an analysis field not loaded) falls back to displacement. Returns whether it did.
  */
-export function applyViewSettings(settings: ViewSettings): { colourFellBack: boolean } {
+export function applyViewSettings(settings: ViewSettings, from: string | null = null): { colourFellBack: boolean } {
   const store = useViewSettings.getState();
   const layers = { ...store.layers };
   for (const layer of LAYER_NAMES) {
@@ -20,7 +20,7 @@ export function applyViewSettings(settings: ViewSettings): { colourFellBack: boo
     if (typeof visible === "boolean") layers[layer] = visible;
   }
   const available = settings.colourMode === "displacement" || settings.colourMode === "throw" || store.fields.some((field) => field.key === settings.colourMode);
-  useViewSettings.setState({ layers, colorMode: available ? settings.colourMode : "displacement" });
+  useViewSettings.setState({ layers, colorMode: available ? settings.colourMode : "displacement", appliedFrom: from });
   store.setExaggeration(settings.exaggeration);
   return { colourFellBack: !available };
 }

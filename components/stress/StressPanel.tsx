@@ -1,7 +1,7 @@
 "use client";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
-import type { StressParameters, StudyRole } from "@/db/schema";
+import type { StudyRole } from "@/db/schema";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, LENGTH_SCALE_LIMITS_M, REGIME_LABELS, parseLengthScale, parseThresholds, type StressStateView } from "@/lib/stress/parameters";
@@ -219,7 +219,7 @@ function ResultBody(props: {
   );
   return (
     <>
-      <LengthScaleControl orientation={orientation} refreshing={props.refreshing} onLength={props.onLength} />
+      <LengthScaleControl key={orientation.lengthScaleM} orientation={orientation} refreshing={props.refreshing} onLength={props.onLength} />
       <p data-testid="stress-summary" className="leading-relaxed">{summary.sentence}</p>
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-xs" data-testid="stress-figures">
         <dt className="text-slate-500">Minimum ΔP to failure</dt>
@@ -304,8 +304,8 @@ function ResultBody(props: {
 
 /** The stated, adjustable smoothing length of the surface orientation the screen uses. */
 function LengthScaleControl({ orientation, refreshing, onLength }: { orientation: ResultResponse["orientation"]; refreshing: boolean; onLength: (lengthM: number | null) => void }) {
+  // the field starts from the length in use; a new length in use remounts it (keyed by the caller)
   const [text, setText] = useState(String(orientation.lengthScaleM));
-  useEffect(() => setText(String(orientation.lengthScaleM)), [orientation.lengthScaleM]);
   const parsed = parseLengthScale(text);
   const valid = parsed !== null && !Number.isNaN(parsed);
   const spacing = orientation.medianPickSpacingM;

@@ -179,7 +179,7 @@ function NewFault({ studyId }: { studyId: string }) {
           <FieldError errors={fieldErrors?.description} />
         </div>
         {create.error && !fieldErrors && <p className="field-error">{create.error.message}</p>}
-        <p className="text-xs text-slate-500">Next you upload its throw picks (a CSV) on the fault's page.</p>
+        <p className="text-xs text-slate-500">Next you upload its throw picks (a CSV) on the fault&apos;s page.</p>
         <div className="flex justify-end gap-2">
           <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>Cancel</button>
           <button className="btn-primary" disabled={create.isPending} data-testid="new-fault-submit">{create.isPending ? "Adding…" : "Add fault"}</button>

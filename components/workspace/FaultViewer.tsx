@@ -2,9 +2,8 @@
 // The viewer card: the 3D scene (loaded only in the browser) or the 2D contour map, with the view bar, the
 // colour legend, the hover readout and the scale bar as plain HTML around the canvas.
 import dynamic from "next/dynamic";
-import { useEffect, useMemo, useState, type ReactNode } from "react";
+import { useMemo, useState, type ReactNode } from "react";
 import type { FaultDisplay } from "@/lib/analysis/display";
-import type { AnalysisReport } from "@/lib/engine/types";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
 import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
@@ -14,6 +13,7 @@ import { FaultView2D } from "./FaultView2D";
 import { placeLabels } from "@/lib/views/labels";
 import { useDarkMode } from "@/scene/useDarkMode";
 import { inSentence, metres } from "./format";
+import { useBrowserValue } from "@/components/hooks/useBrowserValue";
 
 const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
   ssr: false,
@@ -39,18 +39,23 @@ const PRESETS: { preset: CameraPreset; label: string; title: string }[] = [
   { preset: "alongStrike", label: "Along strike", title: "Looking along the strike of the fault" },
 ];
 
+let webglChecked: boolean | null = null;
+
+/** Whether this browser can draw WebGL (asked once per page: the test makes a canvas and a context). */
 export function webglAvailable(): boolean {
-  try {
-    const canvas = document.createElement("canvas");
-    return Boolean(canvas.getContext("webgl2") ?? canvas.getContext("webgl"));
-  } catch {
-    return false;
+  if (webglChecked === null) {
+    try {
+      const canvas = document.createElement("canvas");
+      webglChecked = Boolean(canvas.getContext("webgl2") ?? canvas.getContext("webgl"));
+    } catch {
+      webglChecked = false;
+    }
   }
+  return webglChecked;
 }
 
 export interface FaultViewerProps {
   display: FaultDisplay;
-  report: AnalysisReport;
   pins?: ScenePin[];
   onSurfaceClick?: (hit: SurfaceHit) => void;
   initialCamera?: CameraState;
@@ -61,9 +66,8 @@ export interface FaultViewerProps {
 }
 
 export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, toolbarExtra, hint }: FaultViewerProps) {
-  const [webgl, setWebgl] = useState<boolean | null>(null);
+  const webgl = useBrowserValue(webglAvailable);
   const [mode, setMode] = useState<ViewMode>("3d");
-  useEffect(() => setWebgl(webglAvailable()), []);
   const showMap = webgl === false || mode === "map";
 
   return (

@@ -175,7 +175,6 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
               {display.data ? (
                 <FaultViewer
                   display={display.data}
-                  report={report}
                   pins={pins}
                   onSurfaceClick={placing ? setPendingHit : undefined}
                   hint={placing ? "Click a place on the surface to pin a comment there" : undefined}
@@ -215,7 +214,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
                 <StressPanel studyId={props.studyId} faultId={faultId} role={props.role} display={display.data ?? null} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "pins"}>
-                <PinsPanel studyId={props.studyId} faultId={faultId} role={props.role} currentPickSetVersion={current?.version ?? null} display={display.data ?? null} />
+                <PinsPanel studyId={props.studyId} faultId={faultId} role={props.role} currentPickSetVersion={current?.version ?? null} display={display.data ?? null} linkedPinId={linkedPin} />
               </div>
             </aside>
           </div>

@@ -287,7 +287,6 @@ export function bfgs(f: (x: Float64Array, gradient: Float64Array) => number, sta
   const gTrial = new Float64Array(k);
   const direction = new Float64Array(k);
   let it = 0;
-  let evaluations = 1;
   let stalled = 0;
   for (; it < maxIterations; it++) {
     for (let i = 0; i < k; i++) {
@@ -315,7 +314,6 @@ export function bfgs(f: (x: Float64Array, gradient: Float64Array) => number, sta
     for (let tries = 0; tries < 40; tries++) {
       for (let i = 0; i < k; i++) trial[i] = x[i] + step * direction[i];
       fTrial = f(trial, gTrial);
-      evaluations++;
       if (Number.isFinite(fTrial) && fTrial <= fx + 1e-4 * step * slope) {
         accepted = true;
         break;

@@ -2,7 +2,7 @@ import "server-only";
 // Stress states (versioned, per fault or study-wide) and the reactivation screen of a fault's latest analysis.
 import { and, desc, eq, isNull, max } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, base64Bytes, pickSets, stressStates, users, type StressParameters } from "@/db/schema";
+import { analyses, base64Bytes, pickSets, stressStates, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { latestAnalysisForFault } from "@/lib/analysis/reports";

@@ -14,7 +14,7 @@ import * as repliesRoute from "@/app/api/pins/[pinId]/replies/route";
 import * as replyRoute from "@/app/api/pins/[pinId]/replies/[replyId]/route";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
-import { callRoute } from "../support/requests";
+import { callRoute, type LooseJson } from "../support/requests";
 import { giveFaultDoneAnalysis, insertPin, pinBody, ROLES } from "./pin-fixtures";
 
 type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
@@ -27,7 +27,7 @@ type Role = (typeof ROLES)[number];
 interface Case {
   name: string;
   action: StudyAction;
-  call: (fixture: Fixture, actor: Role, scope: "own" | "other") => Promise<{ status: number; json: Record<string, any> }>;
+  call: (fixture: Fixture, actor: Role, scope: "own" | "other") => Promise<{ status: number; json: LooseJson }>;
 }
 
 const writer = (fixture: Fixture, actor: Role) => (ROLE_PERMISSIONS.comment.includes(actor) ? fixture.people[actor] : fixture.people.owner);
@@ -142,9 +142,9 @@ describe("pins: rules beyond the role", () => {
     const later = await callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: pinBody("on v2") });
     expect(later.json.pin.pickSetVersion).toBe(2);
     const list = await callRoute(faultPinsRoute.GET, { params: { faultId: fixture.fault.id } });
-    const versions = Object.fromEntries(list.json.pins.map((pin: any) => [pin.body, pin.pickSetVersion]));
+    const versions = Object.fromEntries(list.json.pins.map((pin: LooseJson) => [pin.body, pin.pickSetVersion]));
     expect(versions).toMatchObject({ "on v1": 1, "on v2": 2 });
-    expect(list.json.pins.find((pin: any) => pin.body === "on v1")).toMatchObject({ x: 462_400, s: 120, t: 340, segmentName: "north", author: { name: fixture.people.reviewer.name } });
+    expect(list.json.pins.find((pin: LooseJson) => pin.body === "on v1")).toMatchObject({ x: 462_400, s: 120, t: 340, segmentName: "north", author: { name: fixture.people.reviewer.name } });
   });
 
   it("refuses a pin on a fault without a finished analysis, and on an unknown segment", async () => {
@@ -207,7 +207,7 @@ describe("pins: rules beyond the role", () => {
     const audit = await db.select().from(auditLog).where(eq(auditLog.target, pin.id));
     expect(audit.map((entry) => entry.action)).toContain("pin.delete");
     const list = await callRoute(faultPinsRoute.GET, { params: { faultId: fixture.fault.id } });
-    expect(list.json.pins.map((p: any) => p.id)).not.toContain(pin.id);
+    expect(list.json.pins.map((p: LooseJson) => p.id)).not.toContain(pin.id);
     expect((await callRoute(repliesRoute.POST, { method: "POST", params: { pinId: pin.id }, body: { body: "late" } })).status).toBe(404);
   });
 
@@ -221,24 +221,24 @@ describe("pins: rules beyond the role", () => {
     signInAs(fresh.people.viewer);
     const first = await callRoute(faultPinsRoute.GET, { params: { faultId: fresh.fault.id } });
     expect(first.json.lastVisitAt).toBeNull();
-    expect(Object.fromEntries(first.json.pins.map((p: any) => [p.id, p.unread]))).toEqual({ [mine.id]: false, [theirs.id]: true });
-    expect(first.json.pins.every((p: any) => p.can.reply === false)).toBe(true);
+    expect(Object.fromEntries(first.json.pins.map((p: LooseJson) => [p.id, p.unread]))).toEqual({ [mine.id]: false, [theirs.id]: true });
+    expect(first.json.pins.every((p: LooseJson) => p.can.reply === false)).toBe(true);
     const onlyMine = await callRoute(faultPinsRoute.GET, { path: "/api/x?filter=mine", params: { faultId: fresh.fault.id } });
-    expect(onlyMine.json.pins.map((p: any) => p.id)).toEqual([mine.id]);
+    expect(onlyMine.json.pins.map((p: LooseJson) => p.id)).toEqual([mine.id]);
     const open = await callRoute(faultPinsRoute.GET, { path: "/api/x?filter=open", params: { faultId: fresh.fault.id } });
-    expect(open.json.pins.map((p: any) => p.id)).toEqual([mine.id]);
+    expect(open.json.pins.map((p: LooseJson) => p.id)).toEqual([mine.id]);
     const bad = await callRoute(faultPinsRoute.GET, { path: "/api/x?filter=everything", params: { faultId: fresh.fault.id } });
     expect(bad.status).toBe(400);
 
     await callRoute(visitRoute.POST, { method: "POST", params: { faultId: fresh.fault.id } });
     const afterVisit = await callRoute(faultPinsRoute.GET, { params: { faultId: fresh.fault.id } });
-    expect(afterVisit.json.pins.some((p: any) => p.unread)).toBe(false);
+    expect(afterVisit.json.pins.some((p: LooseJson) => p.unread)).toBe(false);
 
     signInAs(fresh.people.owner);
     await callRoute(repliesRoute.POST, { method: "POST", params: { pinId: mine.id }, body: { body: "new reply after the visit" } });
     signInAs(fresh.people.viewer);
     const afterReply = await callRoute(faultPinsRoute.GET, { params: { faultId: fresh.fault.id } });
-    const thread = afterReply.json.pins.find((p: any) => p.id === mine.id);
+    const thread = afterReply.json.pins.find((p: LooseJson) => p.id === mine.id);
     expect(thread.unread).toBe(true);
     expect(thread.replies).toHaveLength(1);
     expect(thread.replies[0]).toMatchObject({ body: "new reply after the visit", unread: true, author: { name: fresh.people.owner.name } });
@@ -264,7 +264,7 @@ describe("pins: rules beyond the role", () => {
 
     const threads = (path?: string) =>
       callRoute(faultPinsRoute.GET, { path, params: { faultId: fresh.fault.id } }).then((listed) =>
-        Object.fromEntries(listed.json.pins.map((p: any) => [p.body, p.replies.map((r: any) => r.body)])),
+        Object.fromEntries(listed.json.pins.map((p: LooseJson) => [p.body, p.replies.map((r: LooseJson) => r.body)])),
       );
     expect(await threads()).toEqual({ "first pin": ["a on first", "b on first"], "second pin": ["c on second"] });
     signInAs(fresh.people.interpreter);

@@ -118,9 +118,9 @@ function paramsFor(route: (typeof routes)[number], fixture: Fixture) {
 }
 
 const call = async (route: (typeof routes)[number], method: string, fixture: Fixture) => {
-  const module = await routeModule(route.url);
+  const routeExports = await routeModule(route.url);
   const body = method === "GET" || method === "DELETE" ? undefined : {};
-  return callRoute(module[method], { method, path: `${route.url}?analysis=${fixture.ids.analysisId}&pickSet=${fixture.ids.pickSetId}`, params: paramsFor(route, fixture), body });
+  return callRoute(routeExports[method], { method, path: `${route.url}?analysis=${fixture.ids.analysisId}&pickSet=${fixture.ids.pickSetId}`, params: paramsFor(route, fixture), body });
 };
 
 describe("access walk over every route handler on disk", () => {
@@ -148,17 +148,17 @@ describe("access walk over every route handler on disk", () => {
         return;
       }
       it("exports only known HTTP methods, each checked below", async () => {
-        const module = await routeModule(route.url);
-        const exported = Object.keys(module).filter((key) => /^[A-Z]+$/.test(key));
+        const routeExports = await routeModule(route.url);
+        const exported = Object.keys(routeExports).filter((key) => /^[A-Z]+$/.test(key));
         expect(exported.length).toBeGreaterThan(0);
         for (const name of exported) expect(METHODS as readonly string[]).toContain(name);
       });
 
       for (const method of METHODS) {
         it(`${method}: signed out, another study's member, each role`, async () => {
-          const module = await routeModule(route.url);
-          if (typeof module[method] !== "function") {
-            expect(module[method]).toBeUndefined();
+          const routeExports = await routeModule(route.url);
+          if (typeof routeExports[method] !== "function") {
+            expect(routeExports[method]).toBeUndefined();
             return;
           }
           if (PUBLIC.has(route.url)) {
@@ -225,8 +225,8 @@ describe("access walk over every server action on disk", () => {
   for (const file of actionFiles) {
     if (PUBLIC_ACTION_FILES.has(file)) continue;
     it(`${file}: every exported action refuses a signed-out caller`, async () => {
-      const module = (await import(path.join(ROOT, file))) as Record<string, unknown>;
-      const actions = Object.entries(module).filter(([, value]) => typeof value === "function") as [string, (state: unknown, form: FormData) => Promise<unknown>][];
+      const actionExports = (await import(path.join(ROOT, file))) as Record<string, unknown>;
+      const actions = Object.entries(actionExports).filter(([, value]) => typeof value === "function") as [string, (state: unknown, form: FormData) => Promise<unknown>][];
       expect(actions.length).toBeGreaterThan(0);
       for (const [name, action] of actions) {
         signInAs(null);

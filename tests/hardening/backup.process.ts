@@ -23,9 +23,10 @@ beforeAll(async () => {
   await client.signIn("interpreter@quillon.test", DEMO_PASSWORD);
   const { studies } = (await (await client.request("/api/studies")).json()) as { studies: { id: string }[] };
   const { faults } = (await (await client.request(`/api/studies/${studies[0].id}/faults`)).json()) as { faults: { id: string }[] };
-  const analysis = (await waitForAnalysis(client, faults[0].id)) as unknown as { result: { segments: { id: string }[] } };
+  type Analysis = { result: { segments: { id: string }[] } };
+  await waitForAnalysis(client, faults[0].id);
   await waitForAnalysis(client, faults[1].id);
-  const full = (await (await client.request(`/api/faults/${faults[0].id}/analysis`)).json()) as { analysis: typeof analysis };
+  const full = (await (await client.request(`/api/faults/${faults[0].id}/analysis`)).json()) as { analysis: Analysis };
   const pin = await client.json(`/api/faults/${faults[0].id}/pins`, "POST", pinBody(full.analysis.result.segments[0].id, 1));
   expect(pin.status).toBe(201);
   pinId = ((await pin.json()) as { pin: { id: string } }).pin.id;

@@ -1,3 +1,10 @@
+/**
+ * A JSON body as tests read it: loosely, by property paths. The response shapes themselves are checked against the
+ * contracts (lib/contracts) in tests/contracts.
+ */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any -- the one loose type of the test suite, see above
+export type LooseJson = Record<string, any>;
+
 type Handler<P> = (request: Request, context: { params: Promise<P> }) => Promise<Response>;
 
 export async function callRoute<P>(
@@ -18,5 +25,5 @@ export async function callRoute<P>(
   } catch {
     json = text;
   }
-  return { status: response.status, json: json as Record<string, any> };
+  return { status: response.status, json: json as LooseJson };
 }

@@ -4,6 +4,7 @@ import { fitPowerLaw, powerLawLine, studentTQuantile, faultScalingPoint } from "
 import { analyzeCsv } from "@/lib/engine/pipeline";
 import { demoCsv } from "@/lib/demo";
 import { runPythonOracle } from "../support/python";
+import type { LooseJson } from "../support/requests";
 
 function mulberry32(seed: number) {
   return () => {
@@ -88,7 +89,7 @@ describe("D–L power-law fits", () => {
         return { L, D: L.map((l) => 0.02 * l ** (0.9 + 0.3 * rand()) * 10 ** (0.4 * (rand() - 0.5))) };
       }),
     ];
-    const reference = runPythonOracle<Record<string, any>[]>(path.join(__dirname, "line_fit_oracle.py"), { cases });
+    const reference = runPythonOracle<LooseJson[]>(path.join(__dirname, "line_fit_oracle.py"), { cases });
     expect(reference).toHaveLength(cases.length);
     cases.forEach((c, i) => {
       const mine = fitPowerLaw(c.L, c.D)!;

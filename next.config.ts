@@ -1,6 +1,8 @@
 import type { NextConfig } from "next";
+import { config } from "./lib/config";
 
-const isProduction = process.env.NODE_ENV === "production";
+const settings = config();
+const isProduction = settings.NODE_ENV === "production";
 
 // CSP: no unsafe-eval in production; three.js and R3F need blob: workers only for drei helpers we don't use.
 const contentSecurityPolicy = [
@@ -19,8 +21,8 @@ const contentSecurityPolicy = [
 const nextConfig: NextConfig = {
   // A separate build folder for the hardening scripts and tests (scripts/hardening/server.ts), so their build and a
   // concurrent `npm run build` on the same checkout do not overwrite each other. Default: .next
-  ...(process.env.SLIPFIELD_DIST_DIR ? { distDir: process.env.SLIPFIELD_DIST_DIR } : {}),
-  serverExternalPackages: ["@electric-sql/pglite", "piscina"],
+  ...(settings.SLIPFIELD_DIST_DIR ? { distDir: settings.SLIPFIELD_DIST_DIR } : {}),
+  serverExternalPackages: ["@electric-sql/pglite"],
   poweredByHeader: false,
   async headers() {
     return [

@@ -4,6 +4,7 @@
 // nothing here: the page answers 404 itself (notFound()). Active links go straight through.
 import { randomBytes } from "node:crypto";
 import { NextResponse, type NextRequest } from "next/server";
+import { config as settings } from "@/lib/config";
 
 // marks the proxy's own request for the page, so it is not checked twice; unguessable, so nobody else can skip the check
 const INNER_HEADER = "x-slipfield-link-page";
@@ -12,7 +13,7 @@ const INNER_SECRET = randomBytes(16).toString("hex");
 /** This server's own address (next start records it when it starts listening). */
 function ownOrigin(): string | null {
   if (process.env.__NEXT_PRIVATE_ORIGIN) return process.env.__NEXT_PRIVATE_ORIGIN;
-  return process.env.PORT ? `http://127.0.0.1:${process.env.PORT}` : null;
+  return process.env.PORT ? `http://127.0.0.1:${settings().PORT}` : null;
 }
 
 export async function proxy(request: NextRequest) {

@@ -3,6 +3,7 @@ import { mkdirSync } from "node:fs";
 import path from "node:path";
 import type { PgDatabase, PgQueryResultHKT } from "drizzle-orm/pg-core";
 import * as schema from "./schema";
+import { config } from "@/lib/config";
 
 export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
 
@@ -21,7 +22,7 @@ export interface DatabaseHandle {
 const migrationsFolder = path.join(process.cwd(), "drizzle");
 
 export function dataDirectory(): string {
-  return path.resolve(/*turbopackIgnore: true*/ process.env.SLIPFIELD_DATA_DIR ?? path.join(process.cwd(), "data"));
+  return path.resolve(/*turbopackIgnore: true*/ config().SLIPFIELD_DATA_DIR ?? path.join(process.cwd(), "data"));
 }
 
 /**
@@ -33,7 +34,7 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     const { Pool } = await import("pg");
     const { drizzle } = await import("drizzle-orm/node-postgres");
     const { migrate } = await import("drizzle-orm/node-postgres/migrator");
-    const pool = new Pool({ connectionString: options.url, max: Number(process.env.SLIPFIELD_DB_POOL ?? 10) });
+    const pool = new Pool({ connectionString: options.url, max: config().SLIPFIELD_DB_POOL });
     const db = drizzle(pool, { schema });
     const exclusively = <T>(lock: number, task: () => Promise<T>) => withAdvisoryLock(pool, lock, task);
     await exclusively(MIGRATION_LOCK, () => migrate(db, { migrationsFolder }));
@@ -46,7 +47,7 @@ export async function openDatabase(options: { url?: string; memory?: boolean; da
     folder = options.dataDir ?? path.join(dataDirectory(), "pglite");
     mkdirSync(path.dirname(folder), { recursive: true });
   }
-  const threaded = (options.thread ?? true) && process.env.SLIPFIELD_DB_THREAD !== "off";
+  const threaded = (options.thread ?? true) && config().SLIPFIELD_DB_THREAD !== "off";
   let client: { close: () => Promise<void> };
   if (threaded) {
     const { ThreadedPGlite } = await import("./pglite-thread");
@@ -88,7 +89,7 @@ const globalForDb = globalThis as unknown as { slipfieldDb?: Promise<DatabaseHan
 /** The app's one database, opened lazily (never at import time, so `next build` does not touch the data folder). */
 export function getDatabaseHandle(): Promise<DatabaseHandle> {
   if (!globalForDb.slipfieldDb) {
-    globalForDb.slipfieldDb = openDatabase({ url: process.env.DATABASE_URL || undefined });
+    globalForDb.slipfieldDb = openDatabase({ url: config().DATABASE_URL });
     globalForDb.slipfieldDb.catch(() => {
       globalForDb.slipfieldDb = undefined;
     });

@@ -3,6 +3,7 @@ import nodemailer from "nodemailer";
 import { getDb } from "@/db/client";
 import { outbox } from "@/db/schema";
 import { htmlFromText } from "@/lib/mail-html";
+import { config } from "@/lib/config";
 
 export interface MailMessage {
   to: string;
@@ -13,13 +14,12 @@ export interface MailMessage {
   studyId?: string | null;
 }
 
-const FROM = process.env.MAIL_FROM ?? "Slipfield <no-reply@slipfield.local>";
-
 /** SMTP when SMTP_URL is set; otherwise nodemailer's JSON transport, which sends nothing (the local fake). */
 function transport() {
   const globalForMail = globalThis as unknown as { slipfieldMail?: nodemailer.Transporter };
-  globalForMail.slipfieldMail ??= process.env.SMTP_URL
-    ? nodemailer.createTransport(process.env.SMTP_URL)
+  const { SMTP_URL } = config();
+  globalForMail.slipfieldMail ??= SMTP_URL
+    ? nodemailer.createTransport(SMTP_URL)
     : nodemailer.createTransport({ jsonTransport: true });
   return globalForMail.slipfieldMail;
 }
@@ -35,11 +35,12 @@ export async function sendMail(message: MailMessage) {
     .insert(outbox)
     .values({ to: message.to, subject: message.subject, text: message.text, html, kind: message.kind, studyId: message.studyId ?? null })
     .returning();
-  await transport().sendMail({ from: FROM, to: message.to, subject: message.subject, text: message.text, html });
+  await transport().sendMail({ from: config().MAIL_FROM, to: message.to, subject: message.subject, text: message.text, html });
   return stored;
 }
 
 export function appUrl(path: string) {
-  const base = process.env.SLIPFIELD_URL ?? `http://localhost:${process.env.PORT ?? 3000}`;
+  const { SLIPFIELD_URL, PORT } = config();
+  const base = SLIPFIELD_URL ?? `http://localhost:${PORT}`;
   return new URL(path, base).toString();
 }

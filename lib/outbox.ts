@@ -6,19 +6,20 @@ import { memberships, outbox } from "@/db/schema";
 import { requireUser } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import type { SessionUser } from "@/lib/auth/users";
+import { config, type Config } from "@/lib/config";
 
 /** True when no mail transport is configured: e-mail is only stored in the outbox table, nothing leaves the machine. */
-export function mailStaysLocal(env: NodeJS.ProcessEnv = process.env) {
-  return !env.SMTP_URL;
+export function mailStaysLocal(settings: Pick<Config, "SMTP_URL"> = config()) {
+  return !settings.SMTP_URL;
 }
 
 /**
  * The outbox page exists whenever e-mail stays on this machine (no SMTP_URL: it is the only place to read it), in
  * development, or when SLIPFIELD_OUTBOX=on; SLIPFIELD_OUTBOX=off hides it.
  */
-export function outboxEnabled(env: NodeJS.ProcessEnv = process.env) {
-  if (env.SLIPFIELD_OUTBOX === "off") return false;
-  return mailStaysLocal(env) || env.NODE_ENV !== "production" || env.SLIPFIELD_OUTBOX === "on";
+export function outboxEnabled(settings: Pick<Config, "SMTP_URL" | "SLIPFIELD_OUTBOX" | "NODE_ENV"> = config()) {
+  if (settings.SLIPFIELD_OUTBOX === "off") return false;
+  return mailStaysLocal(settings) || settings.NODE_ENV !== "production" || settings.SLIPFIELD_OUTBOX === "on";
 }
 
 export async function ownsAnyStudy(userId: string) {
@@ -46,7 +47,7 @@ export async function listOutbox(user: Pick<SessionUser, "id" | "email">, limit 
  * `x-slipfield-digest-secret`), or a signed-in owner of any study. Returns the caller for the audit trail.
  */
 export async function requireDigestCaller(request: Request): Promise<{ kind: "secret" } | { kind: "owner"; user: SessionUser }> {
-  const secret = process.env.SLIPFIELD_DIGEST_SECRET;
+  const secret = config().SLIPFIELD_DIGEST_SECRET;
   const offered = request.headers.get("x-slipfield-digest-secret");
   if (secret && offered !== null) {
     const a = Buffer.from(offered);

@@ -1,9 +1,10 @@
 import "server-only";
 import { stopListening } from "@/db/notifications";
 import type { JobProcessor } from "@/lib/jobs/processor";
+import { config } from "@/lib/config";
 
 /** How long a stopping process lets its running jobs finish before it gives them back to the queue (SLIPFIELD_DRAIN_SECONDS). */
-export const drainDeadlineMs = () => Math.max(0, Number(process.env.SLIPFIELD_DRAIN_SECONDS ?? 8)) * 1000;
+export const drainDeadlineMs = () => config().SLIPFIELD_DRAIN_SECONDS * 1000;
 
 const state = globalThis as unknown as { slipfieldDraining?: boolean; slipfieldDrainInstalled?: boolean };
 

@@ -4,16 +4,19 @@ import path from "node:path";
 import { count } from "drizzle-orm";
 import { dataDirectory, getDatabaseHandle, SEED_LOCK } from "@/db/client";
 import { users } from "@/db/schema";
+import { config, ConfigError } from "@/lib/config";
 
 /** Open + migrate the database and seed the demo on first start. A database that cannot open stops the server with a clear message. */
 export async function prepareServer() {
   const started = Date.now();
   try {
-    if (!process.env.DATABASE_URL) claimDataFolder(dataDirectory());
+    // an unusable setting stops the start here, with the variable named (lib/config.ts)
+    const settings = config();
+    if (!settings.DATABASE_URL) claimDataFolder(dataDirectory());
     const { db, kind, threaded, exclusively } = await getDatabaseHandle();
     await exclusively(SEED_LOCK, async () => {
       const [{ userCount }] = await db.select({ userCount: count() }).from(users);
-      if (Number(userCount) === 0 && process.env.SLIPFIELD_SEED !== "off") {
+      if (Number(userCount) === 0 && settings.SLIPFIELD_SEED !== "off") {
         const { seedDemo } = await import("./seed");
         await seedDemo();
         console.log(`slipfield: seeded the Quillon Graben demo study`);
@@ -31,9 +34,13 @@ export async function prepareServer() {
     console.log(`slipfield: database ready (${kind}${threaded ? ", on its own thread" : ""}) in ${Date.now() - started} ms`);
     console.log(processor ? `slipfield: this process runs analyses and exports (${processor.id})` : "slipfield: this process runs no analyses or exports (SLIPFIELD_ANALYSIS_WORKERS=0): `npm run worker` processes do");
   } catch (error) {
+    if (error instanceof ConfigError) {
+      console.error(`slipfield: ${error.message}`);
+      process.exit(1);
+    }
     const reason = error instanceof Error ? error.message : String(error);
     console.error(
-      `slipfield: cannot open the database${process.env.DATABASE_URL ? " at DATABASE_URL" : ` in ${dataDirectory()}`}: ${reason}\n` +
+      `slipfield: cannot open the database${config().DATABASE_URL ? " at DATABASE_URL" : ` in ${dataDirectory()}`}: ${reason}\n` +
         `Check that the folder exists, is writable and the disk is not full (or that the PostgreSQL server is reachable).`,
     );
     process.exit(1);

@@ -13,6 +13,7 @@ import type { AnalysisReport, ProfileModel, TipEndSide } from "../lib/engine/typ
 import { AUTOMATIC_CANDIDATES } from "../lib/engine/profiles";
 import { faultGeoJson } from "../lib/views/geojson";
 import { gridCsv } from "../lib/views/grid-csv";
+import { config } from "../lib/config";
 
 class UsageError extends Error {}
 
@@ -248,8 +249,7 @@ export async function main(argv: string[]): Promise<number> {
   // SLIPFIELD_TIPLINE_THREAD=on: a helper thread fits the tip lines while this thread grids and contours (started now,
   // while this thread reads and parses). Off by default: in a fresh process the helper's own start-up and colder code
   // cost as much as the overlap saves, on 2,000 and on 100,000 picks alike (bench/cli.ts; the server's warm worker gains).
-  const threadSetting = process.env.SLIPFIELD_TIPLINE_THREAD;
-  const helper = threadSetting === "on" ? threadedTipLineFitter(thisFile()) : null;
+  const helper = config().SLIPFIELD_TIPLINE_THREAD === "on" ? threadedTipLineFitter(thisFile()) : null;
   helper?.warm();
   let status = 0;
   let written = 0;
@@ -281,7 +281,7 @@ export async function main(argv: string[]): Promise<number> {
     return 1;
   } finally {
     const counts = helper?.counts();
-    if (threadSetting === "on" && counts && counts.inThisThread > 0) process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
+    if (helper && counts && counts.inThisThread > 0) process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
     void helper?.close();
   }
   return status;

@@ -5,6 +5,7 @@ import { existsSync, mkdirSync, readdirSync, statSync, writeFileSync } from "nod
 import path from "node:path";
 import { PGlite } from "@electric-sql/pglite";
 import { livingServerPid } from "./hardening/data-lock";
+import { config } from "../lib/config";
 
 function fail(message: string): never {
   console.error(`backup: ${message}`);
@@ -12,7 +13,7 @@ function fail(message: string): never {
 }
 
 async function main() {
-  const dataDir = path.resolve(process.env.SLIPFIELD_DATA_DIR ?? "data");
+  const dataDir = path.resolve(config().SLIPFIELD_DATA_DIR ?? "data");
   const folder = path.join(dataDir, "pglite");
   if (!existsSync(folder) || readdirSync(folder).length === 0) fail(`no database in ${folder} (set SLIPFIELD_DATA_DIR to the data folder).`);
   const pid = livingServerPid(dataDir);

@@ -5,6 +5,7 @@ import { existsSync, mkdirSync, readFileSync, readdirSync, renameSync, rmSync } 
 import path from "node:path";
 import { PGlite } from "@electric-sql/pglite";
 import { livingServerPid } from "./hardening/data-lock";
+import { config } from "../lib/config";
 
 function fail(message: string): never {
   console.error(`restore: ${message}`);
@@ -17,7 +18,7 @@ async function main() {
   const file = args.find((arg) => !arg.startsWith("--"));
   if (!file) fail("name the backup file: npm run restore backups/slipfield-….tar.gz [--force]");
   if (!existsSync(file)) fail(`${file} does not exist.`);
-  const dataDir = path.resolve(process.env.SLIPFIELD_DATA_DIR ?? "data");
+  const dataDir = path.resolve(config().SLIPFIELD_DATA_DIR ?? "data");
   const folder = path.join(dataDir, "pglite");
   const pid = livingServerPid(dataDir);
   if (pid) fail(`the server (pid ${pid}) is using ${dataDir}; stop it first.`);

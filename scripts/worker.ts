@@ -9,11 +9,12 @@ import { startListening, stopListening } from "../db/notifications";
 import { jobHandlers } from "../lib/jobs/local";
 import { configuredSlots, JobProcessor } from "../lib/jobs/processor";
 import { drainDeadlineMs } from "../lib/shutdown";
+import { config } from "../lib/config";
 
 const log = (line: string) => console.log(`slipfield worker: ${line}`);
 
 async function main() {
-  if (!process.env.DATABASE_URL) {
+  if (!config().DATABASE_URL) {
     console.error("slipfield worker: DATABASE_URL is not set. A worker shares a PostgreSQL server with the web processes; the embedded database is opened by `npm start` alone, which runs analyses itself.");
     process.exit(2);
   }

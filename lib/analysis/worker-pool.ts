@@ -5,6 +5,7 @@ import { Worker } from "node:worker_threads";
 import type { PipelineResult } from "@/lib/engine/pipeline";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
 import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type MultipartOutput, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
+import { config } from "@/lib/config";
 
 /**
  * The worker pool: warm worker threads (dist/analysis-worker.mjs) that run analyses, export grids, upload parsing and
@@ -14,8 +15,8 @@ import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, typ
  */
 
 /** Threads kept warm: analyses run at most this many at once per process (SLIPFIELD_ANALYSIS_WORKERS). */
-export const POOL_SIZE = Math.max(0, Number(process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1));
-export const analysisTimeLimitMs = () => Number(process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS ?? 10 * 60_000);
+const poolSize = () => config().SLIPFIELD_ANALYSIS_WORKERS;
+export const analysisTimeLimitMs = () => config().SLIPFIELD_ANALYSIS_TIMEOUT_MS;
 // built by scripts/build-worker.mjs; kept out of the Next bundle on purpose (it runs in its own thread)
 const WORKER_FILE = path.join(/*turbopackIgnore: true*/ process.cwd(), "dist", "analysis-worker.mjs");
 /** reading the largest allowed file takes seconds; the analysis time limit (SLIPFIELD_ANALYSIS_TIMEOUT_MS) is not meant for it */
@@ -83,7 +84,7 @@ export function analysisWorkerCounts() {
 }
 
 function returnWorker(worker: Worker) {
-  if (idleWorkers.length >= Math.max(1, POOL_SIZE)) {
+  if (idleWorkers.length >= Math.max(1, poolSize())) {
     void worker.terminate();
     return;
   }
@@ -111,7 +112,7 @@ function runJob<T>(
   signal?: AbortSignal,
 ): Promise<T> {
   if (signal?.aborted) return Promise.reject(new ComputeAborted("The job was given up before it started."));
-  if (process.env.SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
+  if (config().SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
     return new Promise((resolve, reject) => setImmediate(() => {
       try {
         resolve(inline());

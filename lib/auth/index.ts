@@ -2,6 +2,7 @@ import NextAuth, { CredentialsSignin } from "next-auth";
 import Credentials from "next-auth/providers/credentials";
 import { randomUUID } from "node:crypto";
 import { checkCredentials } from "./users";
+import { config } from "@/lib/config";
 
 /** How long a session lasts without use (a signed-out session is refused until then, lib/auth/session.ts). */
 export const SESSION_MAX_AGE_SECONDS = 7 * 24 * 3600;
@@ -19,7 +20,7 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
       console.error(`[auth] ${error.name}: ${error.message}`);
     },
   },
-  secret: process.env.AUTH_SECRET,
+  secret: config().AUTH_SECRET,
   session: { strategy: "jwt", maxAge: SESSION_MAX_AGE_SECONDS },
   pages: { signIn: "/sign-in" },
   providers: [

@@ -18,6 +18,7 @@ import {
   type InterruptedJob,
   type JobKind,
 } from "./queue";
+import { config } from "@/lib/config";
 
 /**
  * Works the job queue in this process: claims due jobs while it has free slots, holds each by renewing its lease (the
@@ -305,7 +306,7 @@ const local = globalThis as unknown as { slipfieldJobProcessor?: Promise<JobProc
 
 /** Jobs of each kind this process runs at once: SLIPFIELD_ANALYSIS_WORKERS (default 1; 0 leaves them to `npm run worker`). */
 export function configuredSlots(): Record<JobKind, number> {
-  const slots = Math.max(0, Number(process.env.SLIPFIELD_ANALYSIS_WORKERS ?? 1));
+  const slots = config().SLIPFIELD_ANALYSIS_WORKERS;
   return { analysis: slots, export: slots };
 }
 

@@ -2,6 +2,7 @@ import "server-only";
 import { and, count, eq, gt, inArray, lt, lte, sql } from "drizzle-orm";
 import { getDb, type Database } from "@/db/client";
 import { jobs, jobWorkers, type Job } from "@/db/schema";
+import { config } from "@/lib/config";
 
 /**
  * The durable job queue: one row per job in PostgreSQL (or the embedded PGlite), claimed with
@@ -36,10 +37,10 @@ export interface ClaimedJob {
 
 type Executor = Pick<Database, "select" | "insert" | "update" | "delete" | "execute">;
 
-export const leaseSeconds = () => Math.max(2, Number(process.env.SLIPFIELD_JOB_LEASE_SECONDS ?? 30));
-const retryBaseSeconds = () => Math.max(0, Number(process.env.SLIPFIELD_JOB_RETRY_SECONDS ?? 5));
+export const leaseSeconds = () => config().SLIPFIELD_JOB_LEASE_SECONDS;
+const retryBaseSeconds = () => config().SLIPFIELD_JOB_RETRY_SECONDS;
 const RETRY_CAP_SECONDS = 300;
-export const defaultMaxAttempts = () => Math.max(1, Number(process.env.SLIPFIELD_JOB_ATTEMPTS ?? 3));
+export const defaultMaxAttempts = () => config().SLIPFIELD_JOB_ATTEMPTS;
 
 const secondsFromNow = (seconds: number) => sql`now() + ${seconds}::float8 * interval '1 second'`;
 

@@ -14,6 +14,7 @@ import * as digestRoute from "@/app/api/digest/route";
 import { saveNotifySettings } from "@/app/settings/actions";
 import { runDigest } from "@/lib/pins/notify";
 import { outboxEnabled } from "@/lib/outbox";
+import { readConfig } from "@/lib/config";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
 import { callRoute } from "../support/requests";
@@ -200,13 +201,15 @@ describe("digest route and settings", () => {
 
   it("the outbox exists whenever no mail server is configured (the only place to read the mail), in development, or with SLIPFIELD_OUTBOX=on", () => {
     const smtp = "smtp://mail.example.test:587";
-    expect(outboxEnabled({ NODE_ENV: "production" } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "development", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "test", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp } as NodeJS.ProcessEnv)).toBe(false);
-    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "on" } as NodeJS.ProcessEnv)).toBe(true);
-    expect(outboxEnabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "yes" } as NodeJS.ProcessEnv)).toBe(false);
-    expect(outboxEnabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "off" } as NodeJS.ProcessEnv)).toBe(false);
+    const enabled = (env: Record<string, string>) => outboxEnabled(readConfig(env));
+    expect(enabled({ NODE_ENV: "production" })).toBe(true);
+    expect(enabled({ NODE_ENV: "development", SMTP_URL: smtp })).toBe(true);
+    expect(enabled({ NODE_ENV: "test", SMTP_URL: smtp })).toBe(true);
+    expect(enabled({ NODE_ENV: "production", SMTP_URL: smtp })).toBe(false);
+    expect(enabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "on" })).toBe(true);
+    expect(enabled({ NODE_ENV: "production", SLIPFIELD_OUTBOX: "off" })).toBe(false);
+    // a value that is neither on nor off stops with the variable named, rather than silently counting as "not on"
+    expect(() => enabled({ NODE_ENV: "production", SMTP_URL: smtp, SLIPFIELD_OUTBOX: "yes" })).toThrow(/SLIPFIELD_OUTBOX="yes": must be on or off/);
   });
 
   it("the outbox page is a 404 for members who own no study and lists their studies' messages for owners", async () => {

@@ -15,6 +15,13 @@ import {
   timestamp,
   uniqueIndex,
 } from "drizzle-orm/pg-core";
+// JSON columns are typed by the contracts they hold (lib/contracts): one definition of each shape.
+import type { AnalysisSettings } from "@/lib/contracts/analysis-settings";
+import type { CameraState } from "@/lib/contracts/camera";
+import type { AnalysisReport } from "@/lib/contracts/report";
+import { FAULT_SENSE_VALUES, STUDY_ROLES } from "@/lib/contracts/roles";
+import type { SceneSettings } from "@/lib/contracts/scene-settings";
+import type { StressParameters } from "@/lib/contracts/stress";
 
 /**
  * Binary columns are written as binary parameters (see db/pglite-options.ts: PGlite's default turns them into hex
@@ -42,7 +49,7 @@ const id = () =>
     .$defaultFn(() => crypto.randomUUID());
 const createdAt = () => timestamp("created_at", { withTimezone: true }).notNull().defaultNow();
 
-export const studyRole = pgEnum("study_role", ["owner", "interpreter", "reviewer", "viewer"]);
+export const studyRole = pgEnum("study_role", STUDY_ROLES);
 export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);
 export const pinState = pgEnum("pin_state", ["open", "resolved"]);
 export const notifyMode = pgEnum("notify_mode", ["immediate", "digest", "off"]);
@@ -89,7 +96,7 @@ export const faults = pgTable(
       .references(() => studies.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     description: text("description").notNull().default(""),
-    sense: text("sense", { enum: ["normal", "reverse"] })
+    sense: text("sense", { enum: FAULT_SENSE_VALUES })
       .notNull()
       .default("normal"),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
@@ -149,9 +156,10 @@ export const analyses = pgTable(
     status: analysisStatus("status").notNull().default("queued"),
     stage: text("stage").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
-    parameters: jsonb("parameters").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
-    /** the engine's JSON report */
-    result: jsonb("result"),
+    /** the interpreter's settings for this run (lib/contracts/analysis-settings.ts) */
+    parameters: jsonb("parameters").$type<AnalysisSettings>().notNull().default(sql`'{}'::jsonb`),
+    /** the engine's report, its contour levels without rings (the display payload holds them) */
+    result: jsonb("result").$type<AnalysisReport>(),
     /** decimated display grids for the 3D view (see lib/analysis/display.ts) */
     display: bytea("display"),
     engineVersion: text("engine_version"),
@@ -221,19 +229,6 @@ export const pinVisits = pgTable(
   (table) => [primaryKey({ columns: [table.userId, table.faultId] })],
 );
 
-export interface CameraState {
-  position: [number, number, number];
-  target: [number, number, number];
-  up: [number, number, number];
-  fov: number;
-}
-
-export interface ViewSettings {
-  layers: Record<string, boolean>;
-  colourMode: string;
-  exaggeration: number;
-}
-
 export const viewpoints = pgTable(
   "viewpoints",
   {
@@ -245,7 +240,7 @@ export const viewpoints = pgTable(
     title: text("title").notNull(),
     note: text("note").notNull().default(""),
     camera: jsonb("camera").$type<CameraState>().notNull(),
-    settings: jsonb("settings").$type<ViewSettings>().notNull(),
+    settings: jsonb("settings").$type<SceneSettings>().notNull(),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -328,23 +323,6 @@ export const auditLog = pgTable(
 );
 
 /** The stress state used for reactivation screening: one row per saved version, per study or per fault. */
-export interface StressParameters {
-  regime: "normal" | "strike-slip" | "reverse" | "custom";
-  /** MPa/km */
-  verticalGradient: number;
-  minHorizontalGradient: number;
-  maxHorizontalGradient: number;
-  /** degrees clockwise from north */
-  maxHorizontalAzimuthDeg: number;
-  porePressureGradient: number;
-  frictionLow: number;
-  frictionHigh: number;
-  /** MPa */
-  cohesionMPa: number;
-  /** m below datum, positive down */
-  referenceDepthM: number;
-}
-
 export const stressStates = pgTable(
   "stress_states",
   {
@@ -456,7 +434,6 @@ export const revokedSessions = pgTable("revoked_sessions", {
 export type User = typeof users.$inferSelect;
 export type Study = typeof studies.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
-export type StudyRole = (typeof studyRole.enumValues)[number];
 export type Fault = typeof faults.$inferSelect;
 export type Segment = typeof segments.$inferSelect;
 export type PickSet = typeof pickSets.$inferSelect;

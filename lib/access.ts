@@ -2,22 +2,13 @@ import "server-only";
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { isListening, onListeningChange, publish, subscribe } from "@/db/notifications";
-import { faults, memberships, type StudyRole } from "@/db/schema";
+import { faults, memberships } from "@/db/schema";
+import { roleAllows, type StudyAction, type StudyRole } from "@/lib/contracts/roles";
 import { getSessionUser } from "@/lib/auth/session";
 import type { SessionUser } from "@/lib/auth/users";
 import { ApiError, forbidden, unauthorized } from "@/lib/api/errors";
 import { lruCache } from "@/lib/lru";
 
-/** What a member may do in a study. The single source of the role matrix (design.md). */
-export type StudyAction = "view" | "edit" | "comment" | "share" | "admin";
-
-export const ROLE_PERMISSIONS: Record<StudyAction, readonly StudyRole[]> = {
-  view: ["owner", "interpreter", "reviewer", "viewer"],
-  edit: ["owner", "interpreter"],
-  comment: ["owner", "interpreter", "reviewer"],
-  share: ["owner", "interpreter", "reviewer"],
-  admin: ["owner"],
-};
 
 const ACTION_WORDS: Record<StudyAction, string> = {
   view: "view this study",
@@ -26,10 +17,6 @@ const ACTION_WORDS: Record<StudyAction, string> = {
   share: "save viewpoints or make links",
   admin: "manage people or delete the study",
 };
-
-export function roleAllows(role: StudyRole, action: StudyAction): boolean {
-  return ROLE_PERMISSIONS[action].includes(role);
-}
 
 export async function requireUser(): Promise<SessionUser> {
   const user = await getSessionUser();

@@ -1,19 +1,15 @@
-// The kinds of fault a study can hold, as the add-fault form offers them. One list for the form, the API's
-// validation and the labels; a new kind (e.g. oblique, with its rake) is one more entry here plus its fields.
-import type { faults } from "@/db/schema";
+// The kinds of fault a study can hold, as the add-fault form offers them, with their words. The values themselves are
+// the contract's (lib/contracts/roles.ts: the form, the API's check and the database column share them); a new kind
+// (e.g. oblique, with its rake) is one more value there and one more entry here.
+import type { FaultSense } from "@/lib/contracts/roles";
 
-/** The column's values (db/schema.ts); the list below must offer exactly these. */
-export type FaultSense = (typeof faults.sense.enumValues)[number];
+/** Every value offered, in order (a Record keyed by FaultSense fails to compile when a value lacks its words). */
+const SENSE_WORDS: Record<FaultSense, { label: string; hint: string }> = {
+  normal: { label: "Normal", hint: "hanging wall moved down the dip (extension)" },
+  reverse: { label: "Reverse", hint: "hanging wall moved up the dip (shortening)" },
+};
 
-export const FAULT_SENSES: { value: FaultSense; label: string; hint: string }[] = [
-  { value: "normal", label: "Normal", hint: "hanging wall moved down the dip (extension)" },
-  { value: "reverse", label: "Reverse", hint: "hanging wall moved up the dip (shortening)" },
-];
-
-export const FAULT_SENSE_VALUES = ["normal", "reverse"] as const satisfies readonly FaultSense[];
-// every value of the column is offered (fails to compile when the column gains one the list lacks)
-const allOffered: Exclude<FaultSense, (typeof FAULT_SENSE_VALUES)[number]> extends never ? true : never = true;
-void allOffered;
+export const FAULT_SENSES = (Object.keys(SENSE_WORDS) as FaultSense[]).map((value) => ({ value, ...SENSE_WORDS[value] }));
 
 export function faultSenseLabel(value: string): string {
   return FAULT_SENSES.find((sense) => sense.value === value)?.label.toLowerCase() ?? value;

@@ -3,19 +3,11 @@ import { sql } from "drizzle-orm";
 import { getDatabaseHandle } from "@/db/client";
 import { leaseSeconds, queueDepth, workerHeartbeats } from "@/lib/jobs/queue";
 import { isDraining } from "@/lib/shutdown";
+import type { HealthStatus } from "@/lib/contracts/health";
 
 /** A worker is counted live while its heartbeat is younger than a lease (it beats every third of one). */
 const liveWithinSeconds = () => leaseSeconds();
 
-export interface HealthStatus {
-  ok: boolean;
-  database: string;
-  error?: string;
-  /** this process was asked to stop and is finishing its jobs */
-  draining?: boolean;
-  queue?: Awaited<ReturnType<typeof queueDepth>>;
-  workers?: { live: number; list: Awaited<ReturnType<typeof workerHeartbeats>> };
-}
 
 /** The database, the job queue's depth and the workers' heartbeats (public: no ids of studies, users or jobs). */
 export async function healthStatus(): Promise<HealthStatus> {

@@ -1,6 +1,7 @@
 import "server-only";
 import { notFound, redirect } from "next/navigation";
-import { requireFaultRole, requireStudyRole, type StudyAction } from "@/lib/access";
+import { requireFaultRole, requireStudyRole } from "@/lib/access";
+import type { StudyAction } from "@/lib/contracts/roles";
 import { ApiError } from "@/lib/api/errors";
 import { getSessionUser } from "@/lib/auth/session";
 

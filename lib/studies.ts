@@ -1,38 +1,15 @@
 import "server-only";
 import { and, count, desc, eq, inArray, sql } from "drizzle-orm";
-import { z } from "zod";
 import { getDb } from "@/db/client";
-import { analyses, faults, memberships, pickSets, studies, studyRole, users, type StudyRole } from "@/db/schema";
+import { analyses, faults, memberships, pickSets, studies, users } from "@/db/schema";
+import type { StudyRole } from "@/lib/contracts/roles";
 import { changingRoles, type StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
-import { FAULT_SENSE_VALUES } from "@/lib/fault-types";
-import { emailSchema, type SessionUser } from "@/lib/auth/users";
+import type { SessionUser } from "@/lib/auth/users";
+import type { FaultInput, StudyInput } from "@/lib/contracts/studies";
 
-export const studyInputSchema = z.object({
-  name: z.string().trim().min(2, "Use at least 2 characters.").max(120, "Use at most 120 characters."),
-  description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
-});
-export const studyPatchSchema = studyInputSchema.partial();
-
-export const faultInputSchema = z.object({
-  name: z
-    .string()
-    .trim()
-    .min(1, "Enter a name.")
-    .max(80, "Use at most 80 characters.")
-    .regex(/^[\w .\-/()]+$/, "Use letters, digits, spaces and . - / ( ) only."),
-  description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
-  sense: z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(" or ")}.` }).default("normal"),
-});
-export const faultPatchSchema = faultInputSchema.partial();
-
-export const memberInputSchema = z.object({
-  email: emailSchema,
-  role: z.enum(studyRole.enumValues),
-});
-export const rolePatchSchema = z.object({ role: z.enum(studyRole.enumValues) });
 
 export async function listStudiesFor(user: SessionUser) {
   const db = await getDb();
@@ -61,7 +38,7 @@ export async function listStudiesFor(user: SessionUser) {
   return rows.map((row) => ({ ...row, faultCount: countByStudy.get(row.id) ?? 0 }));
 }
 
-export async function createStudy(user: SessionUser, input: z.infer<typeof studyInputSchema>) {
+export async function createStudy(user: SessionUser, input: StudyInput) {
   const db = await getDb();
   const study = await changingRoles(() =>
     db.transaction(async (tx) => {
@@ -74,7 +51,7 @@ export async function createStudy(user: SessionUser, input: z.infer<typeof study
   return study;
 }
 
-export async function updateStudy(access: StudyAccess, patch: z.infer<typeof studyPatchSchema>) {
+export async function updateStudy(access: StudyAccess, patch: Partial<StudyInput>) {
   const db = await getDb();
   const [updated] = await db.update(studies).set(patch).where(eq(studies.id, access.studyId)).returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
@@ -176,7 +153,7 @@ async function latestAnalysisSummaries(faultIds: string[]): Promise<Map<string, 
   return summaries;
 }
 
-export async function createFault(access: StudyAccess, input: z.infer<typeof faultInputSchema>) {
+export async function createFault(access: StudyAccess, input: FaultInput) {
   const db = await getDb();
   const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, input.name)) });
   if (clash) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
@@ -192,7 +169,7 @@ export async function getFault(faultId: string) {
   return fault;
 }
 
-export async function updateFault(access: StudyAccess, faultId: string, patch: z.infer<typeof faultPatchSchema>) {
+export async function updateFault(access: StudyAccess, faultId: string, patch: Partial<FaultInput>) {
   const db = await getDb();
   if (patch.name) {
     const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, patch.name)) });

@@ -1,58 +1,16 @@
 import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
-import { z } from "zod";
 import { getDb } from "@/db/client";
 import { analyses, base64Bytes, faults, pickSets, pinReplies, pins, users, viewpointLinks, viewpoints, type ViewpointLink } from "@/db/schema";
-import { requireFaultRole, requireUser, roleAllows, type StudyAccess } from "@/lib/access";
+import { requireFaultRole, requireUser, type StudyAccess } from "@/lib/access";
+import { roleAllows, type FaultSense } from "@/lib/contracts/roles";
+import type { LinkInput, LinkState, PublicViewpoint, ViewpointInput, ViewpointPatch } from "@/lib/contracts/viewpoints";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { createRateLimiter } from "@/lib/rate-limit";
 import type { AnalysisReport } from "@/lib/engine/types";
 
-// ---- input -------------------------------------------------------------------------------------------------
-
-/** World coordinates are metres; a million kilometres is far outside any survey, so larger means a broken client. */
-const coordinate = z.number().finite("Use a finite number.").min(-1e9).max(1e9);
-const vec3 = z.tuple([coordinate, coordinate, coordinate]);
-
-export const cameraSchema = z
-  .object({
-    position: vec3,
-    target: vec3,
-    up: vec3.refine(([x, y, z]) => Math.hypot(x, y, z) > 1e-9, "The up vector must not be zero."),
-    fov: z.number().finite().min(1, "Field of view must be at least 1°.").max(150, "Field of view must be at most 150°."),
-  })
-  .refine(({ position, target }) => position.some((value, axis) => value !== target[axis]), {
-    message: "The camera position and target must differ.",
-    path: ["target"],
-  });
-
-export const viewSettingsSchema = z.object({
-  layers: z
-    .record(z.string().trim().min(1).max(40), z.boolean())
-    .refine((layers) => Object.keys(layers).length <= 30, "At most 30 layers."),
-  colourMode: z.string().trim().min(1).max(80),
-  exaggeration: z.number().finite().min(0).max(5),
-});
-
-const title = z.string().trim().min(1, "Give the viewpoint a title.").max(120, "Use at most 120 characters.");
-const note = z.string().trim().max(2000, "Use at most 2000 characters.");
-
-export const viewpointInputSchema = z.object({ title, note: note.default(""), camera: cameraSchema, settings: viewSettingsSchema });
-export const viewpointPatchSchema = z
-  .object({ title, note })
-  .partial()
-  .refine((patch) => patch.title !== undefined || patch.note !== undefined, "Change the title or the note.");
-
-export const LINK_EXPIRY_DAYS = [1, 7, 30, 90] as const;
-export const linkInputSchema = z.object({
-  /** null: the link lasts until revoked */
-  expiresInDays: z.number().int().min(1, "At least one day.").max(365, "At most 365 days.").nullable().default(7),
-  includePins: z.boolean().default(false),
-});
-
-export type ViewpointInput = z.infer<typeof viewpointInputSchema>;
 
 // ---- tokens ------------------------------------------------------------------------------------------------
 
@@ -141,7 +99,7 @@ export async function createViewpoint(access: FaultAccess, input: ViewpointInput
   return { ...created, createdById: created.createdBy, createdByName: access.user.name, canChange: true };
 }
 
-export async function updateViewpoint({ access, viewpoint }: ViewpointAccess, patch: z.infer<typeof viewpointPatchSchema>) {
+export async function updateViewpoint({ access, viewpoint }: ViewpointAccess, patch: ViewpointPatch) {
   const viewpointId = viewpoint.id;
   assertMayChange(access, viewpoint.createdBy, "rename it or edit its note");
   const db = await getDb();
@@ -164,8 +122,6 @@ export async function deleteViewpoint({ access, viewpoint }: ViewpointAccess) {
 }
 
 // ---- links ---------------------------------------------------------------------------------------------------
-
-export type LinkState = "active" | "expired" | "revoked";
 
 export function linkState(link: Pick<ViewpointLink, "expiresAt" | "revokedAt">, now = new Date()): LinkState {
   if (link.revokedAt) return "revoked";
@@ -192,7 +148,7 @@ function describeLink(link: ViewpointLink, canRevoke = false) {
 }
 
 /** The token is returned once, here; only its hash is kept. */
-export async function createViewpointLink({ access, viewpoint }: ViewpointAccess, input: z.infer<typeof linkInputSchema>) {
+export async function createViewpointLink({ access, viewpoint }: ViewpointAccess, input: LinkInput) {
   const viewpointId = viewpoint.id;
   if (!(await linkLimiter.attempt(access.user.id))) throw new ApiError(429, "Too many links made in the last hour; try again later.");
   const token = newLinkToken();
@@ -244,7 +200,7 @@ export async function revokeViewpointLink(linkId: string) {
 
 export type PublicLinkLookup =
   | { state: "not-found" | "revoked" | "expired" }
-  | { state: "active"; link: ViewpointLink; viewpoint: typeof viewpoints.$inferSelect; fault: { id: string; name: string; sense: string } };
+  | { state: "active"; link: ViewpointLink; viewpoint: typeof viewpoints.$inferSelect; fault: { id: string; name: string; sense: FaultSense } };
 
 /** Resolves a token and nothing else: no session, no study. Malformed tokens never reach the database. */
 export async function lookupLinkToken(token: string): Promise<PublicLinkLookup> {
@@ -307,25 +263,6 @@ export function publicReport(report: AnalysisReport): AnalysisReport {
   };
 }
 
-export interface PublicViewpoint {
-  fault: { name: string; sense: string };
-  viewpoint: { title: string; note: string; camera: ViewpointInput["camera"]; settings: ViewpointInput["settings"] };
-  link: { includePins: boolean; expiresAt: string | null };
-  analysis: { pickSetVersion: number; report: AnalysisReport } | null;
-  /** with their replies; no authors: the link shows the notes, not the study's people */
-  pins: (PublicPinFields & { replies: { body: string; createdAt: string }[] })[] | null;
-}
-
-interface PublicPinFields {
-  id: string;
-  x: number;
-  y: number;
-  z: number;
-  body: string;
-  state: "open" | "resolved";
-  pickSetVersion: number | null;
-  createdAt: string;
-}
 
 /** Everything the link page shows, and only that: one fault's name, the saved view, the surface's report, pins if included. */
 export async function publicViewpoint(token: string): Promise<PublicViewpoint> {

@@ -31,12 +31,13 @@ import {
   framingPoints,
   LIGHT_LINE,
   surfaceInterpolator,
-  type ColorMode,
 } from "./geometry";
 import { placeLabels, type LabelRequest, type Rect } from "@/lib/views/labels";
+import type { ColourMode } from "@/lib/contracts/scene-settings";
 import { useDarkMode } from "./useDarkMode";
-import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore, type CameraState } from "./cameraStore";
-import { useLayerVisible, useViewSettings } from "./viewSettingsStore";
+import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore } from "./cameraStore";
+import type { CameraState } from "@/lib/contracts/camera";
+import { useLayerVisible, useSceneSettings } from "./sceneSettingsStore";
 import { useOverlayStore } from "./overlayStore";
 import { metres as formatMetres } from "@/components/workspace/format";
 
@@ -139,8 +140,8 @@ function SceneLights() {
 type LabelLayer = React.RefObject<HTMLDivElement | null>;
 
 function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSceneProps, "initialCamera"> & { labelLayer: LabelLayer }) {
-  const colorMode = useViewSettings((state) => state.colorMode);
-  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const colourMode = useSceneSettings((state) => state.colourMode);
+  const exaggeration = useSceneSettings((state) => state.exaggeration);
   const showSurface = useLayerVisible("surface");
   const showContours = useLayerVisible("contours");
   const showTipLine = useLayerVisible("tipLine");
@@ -148,8 +149,8 @@ function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSc
   const showPicks = useLayerVisible("picks");
   const showPeak = useLayerVisible("maxMarker");
   const showPins = useLayerVisible("pins");
-  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === colorMode));
-  const [low, high] = field ? field.range : colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const field = useSceneSettings((state) => state.fields.find((candidate) => candidate.key === colourMode));
+  const [low, high] = field ? field.range : colourMode === "throw" ? display.throwRangeM : display.displacementRangeM;
   return (
     <>
       {showSurface &&
@@ -158,7 +159,7 @@ function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSc
             key={segment.id}
             segment={segment}
             origin={display.origin}
-            colorMode={colorMode}
+            colourMode={colourMode}
             fieldValues={field?.bySegment[segment.id]}
             reversed={field?.reversed}
             exaggeration={exaggeration}
@@ -167,7 +168,7 @@ function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSc
             onSurfaceClick={onSurfaceClick}
           />
         ))}
-      {showContours && <ContourLines display={display} exaggeration={exaggeration} onDisplacementColours={colorMode === "displacement"} />}
+      {showContours && <ContourLines display={display} exaggeration={exaggeration} onDisplacementColours={colourMode === "displacement"} />}
       {showTipLine && <TipLines display={display} />}
       {showMappedLimit && <MappedLimitLines display={display} exaggeration={exaggeration} />}
       {showPicks && display.picks.count > 0 && <PickPoints display={display} exaggeration={exaggeration} />}
@@ -225,7 +226,7 @@ function useReadoutPublisher() {
 function SegmentSurface({
   segment,
   origin,
-  colorMode,
+  colourMode,
   fieldValues,
   reversed,
   exaggeration,
@@ -235,7 +236,7 @@ function SegmentSurface({
 }: {
   segment: DisplaySegment;
   origin: Vec3;
-  colorMode: ColorMode;
+  colourMode: ColourMode;
   fieldValues?: Float32Array;
   reversed?: boolean;
   exaggeration: number;
@@ -244,10 +245,10 @@ function SegmentSurface({
   onSurfaceClick?: (hit: SurfaceHit) => void;
 }) {
   const geometry = useDisposable(() => {
-    const built = bufferGeometry(buildSurfaceMesh(segment, { colorMode, exaggeration, colorRangeM: [colorLowM, colorHighM], fieldValues, reversed }));
+    const built = bufferGeometry(buildSurfaceMesh(segment, { colourMode, exaggeration, colorRangeM: [colorLowM, colorHighM], fieldValues, reversed }));
     if (exaggeration > 0) built.computeVertexNormals();
     return built;
-  }, [segment, colorMode, exaggeration, colorLowM, colorHighM, fieldValues, reversed]);
+  }, [segment, colourMode, exaggeration, colorLowM, colorHighM, fieldValues, reversed]);
   const publishReadout = useReadoutPublisher();
 
   const hitAt = (point: THREE.Vector3) => {
@@ -452,7 +453,7 @@ interface SceneLabel {
  * would otherwise print over each other.
  */
 function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {
-  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const exaggeration = useSceneSettings((state) => state.exaggeration);
   const showPeak = useLayerVisible("maxMarker");
   const lift = lineLiftM(display);
   const labels = useMemo(() => {
@@ -595,7 +596,7 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
   const controls = useThree((state) => state.controls) as OrbitControlsImpl | null;
   const invalidate = useThree((state) => state.invalidate);
   const heightPx = useThree((state) => state.size.height);
-  const exaggeration = useViewSettings((state) => state.exaggeration);
+  const exaggeration = useSceneSettings((state) => state.exaggeration);
   const request = useCameraStore((state) => state.request);
   const handledRequest = useRef<number | null>(null);
   const initialised = useRef(false);

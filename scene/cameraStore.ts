@@ -4,14 +4,9 @@
 import { create } from "zustand";
 import type { DisplayFrame, Vec3 } from "@/lib/analysis/display";
 import type { Bounds } from "./geometry";
+import type { CameraState } from "@/lib/contracts/camera";
 
-export interface CameraState {
-  position: Vec3;
-  target: Vec3;
-  up: Vec3;
-  /** vertical field of view, degrees */
-  fov: number;
-}
+
 
 export type CameraPreset = "overview" | "map" | "faceOn" | "alongStrike";
 

@@ -1,10 +1,9 @@
 // Geometry for the 3D view as plain typed arrays (no three.js objects), so it can be built and tested
 // anywhere. All positions are in world-local metres: world position minus FaultDisplay.origin.
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
+import type { ColourMode } from "@/lib/contracts/scene-settings";
 import { sampleGrid, type DisplayFrame, type DisplayGrid, type DisplaySegment, type FaultDisplay } from "@/lib/analysis/display";
 
-/** "displacement", "throw", or the key of a registered ScalarField */
-export type ColorMode = string;
 
 /**
  * A value per display-grid node, per segment, for colouring the surface by something other than
@@ -137,7 +136,7 @@ export function displayExtentM(display: FaultDisplay): number {
 // ---- surface ---------------------------------------------------------------------------------------------
 
 export interface SurfaceOptions {
-  colorMode: ColorMode;
+  colourMode: ColourMode;
   /** relief off the plane per metre of displacement (0 = flat on the plane) */
   exaggeration: number;
   /** value range mapped onto the colour scale */
@@ -158,7 +157,7 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
   const nodeCount = columns * rows;
   const positions = new Float32Array(nodeCount * 3);
   const colors = new Float32Array(nodeCount * 3);
-  const colorValues = options.fieldValues ?? (options.colorMode === "throw" ? grid.throwM : grid.displacementM);
+  const colorValues = options.fieldValues ?? (options.colourMode === "throw" ? grid.throwM : grid.displacementM);
   const lut = surfaceColorLut();
   const [low, high] = options.colorRangeM;
   const span = high - low || 1;

@@ -6,7 +6,8 @@ import type { FaultDisplay } from "@/lib/analysis/display";
 import { apiFetch } from "@/lib/api/client";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { toCsv } from "@/lib/views/csv";
-import { backstripThrows, expansionIndex, readThrowDepth, throwDepthAt, type HorizonBin } from "@/lib/views/growth";
+import { backstripThrows, expansionIndex, readThrowDepth, throwDepthAt } from "@/lib/views/growth";
+import type { HorizonBin, HorizonBinsResponse } from "@/lib/contracts/analysis";
 import { dipProfileAtS, planePointToWorld, tipBandOnLine } from "@/lib/views/profiles";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
@@ -36,7 +37,7 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
     }
     return { bands, tips, open };
   }, [report]);
-  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<{ horizons: string[]; bins: HorizonBin[] }>(`/api/faults/${faultId}/export/horizons.json`) });
+  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<HorizonBinsResponse>(`/api/faults/${faultId}/export/horizons.json`) });
 
   return (
     <div className="space-y-6" data-testid="dip-growth-view">

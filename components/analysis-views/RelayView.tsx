@@ -6,7 +6,7 @@ import { LINKAGE_BASIS, rampDipDeg } from "@/lib/engine/relays";
 import type { AnalysisReport, RelayResult } from "@/lib/engine/types";
 import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import type { HorizonBin } from "@/lib/views/growth";
+import type { HorizonBin, HorizonBinsResponse } from "@/lib/contracts/analysis";
 import { horizonRampDips, relaySketch } from "@/lib/views/relay";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
@@ -36,7 +36,7 @@ export function RelayTable({ report }: { report: AnalysisReport }) {
 }
 
 export function RelayView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
-  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<{ horizons: string[]; bins: HorizonBin[] }>(`/api/faults/${faultId}/export/horizons.json`) });
+  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<HorizonBinsResponse>(`/api/faults/${faultId}/export/horizons.json`) });
   return (
     <div className="space-y-6" data-testid="relay-view">
       <RelayTable report={report} />

@@ -4,7 +4,8 @@ import { useQuery } from "@tanstack/react-query";
 import { useMemo } from "react";
 import { apiFetch } from "@/lib/api/client";
 import { toCsv } from "@/lib/views/csv";
-import { fitPowerLaw, powerLawLine, SCALING_GUIDES, type FaultScalingPoint, type PowerLawFit } from "@/lib/views/scaling";
+import { fitPowerLaw, powerLawLine, SCALING_GUIDES, type PowerLawFit } from "@/lib/views/scaling";
+import type { FaultScalingPoint, ScalingResponse } from "@/lib/contracts/analysis";
 import { placeLabels, textWidthPx } from "@/lib/views/labels";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
@@ -57,7 +58,7 @@ function faultLabels(points: FaultScalingPoint[], currentFaultId: string, frame:
 export function useStudyScaling(faultId: string) {
   return useQuery({
     queryKey: ["scaling", faultId],
-    queryFn: () => apiFetch<{ studyId: string; faults: FaultScalingPoint[] }>(`/api/faults/${faultId}/export/scaling.json`),
+    queryFn: () => apiFetch<ScalingResponse>(`/api/faults/${faultId}/export/scaling.json`),
   });
 }
 

@@ -4,16 +4,15 @@
 // edit within the window, delete. Clicking a note flies the camera to its pin.
 import { useEffect, useMemo, useRef, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { StudyRole } from "@/db/schema";
+import { roleAllows, type StudyRole } from "@/lib/contracts/roles";
 import type { FaultDisplay, Vec3 } from "@/lib/analysis/display";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
-import type { PinList, PinView, ReplyView } from "@/lib/pins/service";
+import type { PinList, PinView, ReplyView } from "@/lib/contracts/pins";
 import { useAnnotationStore } from "@/scene/annotationStore";
 import { DEFAULT_FOV_DEG, useCameraStore } from "@/scene/cameraStore";
 import { MentionTextarea, type Mentionable } from "./MentionTextarea";
 import { PinText } from "./PinText";
 
-const COMMENT_ROLES: readonly StudyRole[] = ["owner", "interpreter", "reviewer"];
 /** how far from the pin the camera stops when flying to it, m */
 const FLY_DISTANCE_M = 800;
 
@@ -57,7 +56,7 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display, linke
   /** a pin named by the page's link (?pin=…, from an e-mail): its thread starts open and the camera flies to it */
   linkedPinId?: string | null;
 }) {
-  const canComment = COMMENT_ROLES.includes(role);
+  const canComment = roleAllows(role, "comment");
   const queryClient = useQueryClient();
   const key = useMemo(() => ["pins", faultId], [faultId]);
   const [filter, setFilter] = useState<Filter>("all");

@@ -4,12 +4,11 @@
 import { useEffect, useMemo } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
-import type { PublicViewpoint } from "@/lib/viewpoints";
+import type { PublicViewpoint } from "@/lib/contracts/viewpoints";
 import { FaultSheet } from "@/components/workspace/FaultSheet";
 import { FaultViewer } from "@/components/workspace/FaultViewer";
 import { PinText } from "./PinText";
-import { applyViewSettings } from "./viewSettings";
-import { isBuiltInColourMode, useViewSettings } from "@/scene/viewSettingsStore";
+import { applySceneSettings, isBuiltInColourMode, useSceneSettings } from "@/scene/sceneSettingsStore";
 
 class DisplayError extends Error {
   constructor(readonly status: number, message: string) {
@@ -21,9 +20,9 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
   // settings go into the store before the viewer first renders, so the first frame is already the saved view; the
   // store says which link's settings it holds
   useEffect(() => {
-    applyViewSettings(data.viewpoint.settings, token);
+    applySceneSettings(data.viewpoint.settings, token);
   }, [data.viewpoint.settings, token]);
-  const settingsApplied = useViewSettings((state) => state.appliedFrom === token);
+  const settingsApplied = useSceneSettings((state) => state.appliedFrom === token);
   // a shared view loads no analysis fields (stress colourings): only displacement and throw can be shown
   const colourNote = isBuiltInColourMode(data.viewpoint.settings.colourMode)
     ? null

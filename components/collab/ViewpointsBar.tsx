@@ -3,31 +3,13 @@
 // delete, and make or revoke viewpoint links. Viewers may restore; the rest follows the share permission.
 import { useEffect, useRef, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { CameraState as StoredCamera, StudyRole, ViewSettings } from "@/db/schema";
+import { roleAllows, type StudyRole } from "@/lib/contracts/roles";
+import type { Viewpoint, ViewpointLink } from "@/lib/contracts/viewpoints";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { copyCameraState, useCameraStore } from "@/scene/cameraStore";
-import { applyViewSettings, currentViewSettings } from "./viewSettings";
+import { applySceneSettings, currentSceneSettings } from "@/scene/sceneSettingsStore";
 
-interface ViewpointRow {
-  id: string;
-  title: string;
-  note: string;
-  camera: StoredCamera;
-  settings: ViewSettings;
-  createdAt: string;
-  createdByName: string | null;
-  canChange: boolean;
-}
 
-interface LinkRow {
-  id: string;
-  includePins: boolean;
-  expiresAt: string | null;
-  revokedAt: string | null;
-  createdAt: string;
-  state: "active" | "expired" | "revoked";
-  canRevoke: boolean;
-}
 
 const EXPIRY_CHOICES: { value: string; label: string }[] = [
   { value: "1", label: "1 day" },
@@ -36,8 +18,6 @@ const EXPIRY_CHOICES: { value: string; label: string }[] = [
   { value: "90", label: "90 days" },
   { value: "never", label: "until revoked" },
 ];
-
-const SHARE_ROLES: readonly StudyRole[] = ["owner", "interpreter", "reviewer"];
 
 function errorText(error: unknown) {
   if (error instanceof ApiRequestError) {
@@ -49,16 +29,16 @@ function errorText(error: unknown) {
 }
 
 export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyRole }) {
-  const canShare = SHARE_ROLES.includes(role);
+  const canShare = roleAllows(role, "share");
   const [open, setOpen] = useState(false);
-  const [mode, setMode] = useState<{ kind: "list" } | { kind: "save" } | { kind: "edit"; viewpoint: ViewpointRow } | { kind: "share"; viewpoint: ViewpointRow }>({ kind: "list" });
+  const [mode, setMode] = useState<{ kind: "list" } | { kind: "save" } | { kind: "edit"; viewpoint: Viewpoint } | { kind: "share"; viewpoint: Viewpoint }>({ kind: "list" });
   const [restoredId, setRestoredId] = useState<string | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const panel = useRef<HTMLDivElement>(null);
   const queryClient = useQueryClient();
   const key = ["viewpoints", faultId];
 
-  const list = useQuery({ queryKey: key, queryFn: () => apiFetch<{ viewpoints: ViewpointRow[] }>(`/api/faults/${faultId}/viewpoints`) });
+  const list = useQuery({ queryKey: key, queryFn: () => apiFetch<{ viewpoints: Viewpoint[] }>(`/api/faults/${faultId}/viewpoints`) });
   const viewpoints = list.data?.viewpoints ?? [];
 
   useEffect(() => {
@@ -80,8 +60,8 @@ export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyR
     onSuccess: () => queryClient.invalidateQueries({ queryKey: key }),
   });
 
-  function restore(viewpoint: ViewpointRow) {
-    const { colourFellBack } = applyViewSettings(viewpoint.settings);
+  function restore(viewpoint: Viewpoint) {
+    const { colourFellBack } = applySceneSettings(viewpoint.settings);
     useCameraStore.getState().applyCamera(viewpoint.camera);
     setRestoredId(viewpoint.id);
     setNotice(colourFellBack ? `Restored “${viewpoint.title}”; its colouring (${viewpoint.settings.colourMode}) is not loaded, so displacement is shown.` : null);
@@ -182,9 +162,9 @@ function SaveForm({ faultId, onDone }: { faultId: string; onDone: () => void }) 
     mutationFn: () => {
       const camera = useCameraStore.getState().camera;
       if (!camera) throw new Error("The 3D view has not drawn yet; wait a moment and try again.");
-      return apiFetch<{ viewpoint: ViewpointRow }>(`/api/faults/${faultId}/viewpoints`, {
+      return apiFetch<{ viewpoint: Viewpoint }>(`/api/faults/${faultId}/viewpoints`, {
         method: "POST",
-        json: { title, note, camera: copyCameraState(camera), settings: currentViewSettings() },
+        json: { title, note, camera: copyCameraState(camera), settings: currentSceneSettings() },
       });
     },
     onSuccess: async () => {
@@ -221,7 +201,7 @@ function SaveForm({ faultId, onDone }: { faultId: string; onDone: () => void }) 
   );
 }
 
-function EditForm({ viewpoint, faultId, onDone }: { viewpoint: ViewpointRow; faultId: string; onDone: () => void }) {
+function EditForm({ viewpoint, faultId, onDone }: { viewpoint: Viewpoint; faultId: string; onDone: () => void }) {
   const queryClient = useQueryClient();
   const [title, setTitle] = useState(viewpoint.title);
   const [note, setNote] = useState(viewpoint.note);
@@ -260,16 +240,16 @@ function EditForm({ viewpoint, faultId, onDone }: { viewpoint: ViewpointRow; fau
   );
 }
 
-function SharePanel({ viewpoint, onBack }: { viewpoint: ViewpointRow; onBack: () => void }) {
+function SharePanel({ viewpoint, onBack }: { viewpoint: Viewpoint; onBack: () => void }) {
   const queryClient = useQueryClient();
   const key = ["viewpoint-links", viewpoint.id];
   const [expiry, setExpiry] = useState("7");
   const [includePins, setIncludePins] = useState(false);
   const [madeUrl, setMadeUrl] = useState<string | null>(null);
-  const links = useQuery({ queryKey: key, queryFn: () => apiFetch<{ links: LinkRow[] }>(`/api/viewpoints/${viewpoint.id}/links`) });
+  const links = useQuery({ queryKey: key, queryFn: () => apiFetch<{ links: ViewpointLink[] }>(`/api/viewpoints/${viewpoint.id}/links`) });
   const make = useMutation({
     mutationFn: () =>
-      apiFetch<{ link: LinkRow & { path: string } }>(`/api/viewpoints/${viewpoint.id}/links`, {
+      apiFetch<{ link: ViewpointLink & { path: string } }>(`/api/viewpoints/${viewpoint.id}/links`, {
         method: "POST",
         json: { expiresInDays: expiry === "never" ? null : Number(expiry), includePins },
       }),

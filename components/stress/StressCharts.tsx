@@ -1,7 +1,7 @@
 "use client";
 import * as Plot from "@observablehq/plot";
 import { usePlotFigure } from "@/components/analysis-views/usePlotFigure";
-import type { StressParameters } from "@/db/schema";
+import type { StressParameters } from "@/lib/contracts/stress";
 import { X_AXIS_ROOM, X_LABEL_BELOW } from "@/components/analysis-views/PlotChart";
 
 const COLOURS = { low: "#c2410c", high: "#247a75", guide: "#94a3b8", circle: "#7c3aed" };

@@ -1,8 +1,8 @@
 "use client";
 import { useState } from "react";
-import type { StressParameters } from "@/db/schema";
 import { ApiRequestError } from "@/lib/api/client";
-import { REGIME_LABELS, applyPreset, stressParametersSchema, type StressRegime } from "@/lib/stress/parameters";
+import { REGIME_LABELS, stressParametersSchema, type StressParameters, type StressRegime } from "@/lib/contracts/stress";
+import { applyPreset } from "@/lib/stress/parameters";
 
 type NumericKey = Exclude<keyof StressParameters, "regime">;
 

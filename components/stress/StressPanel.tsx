@@ -1,13 +1,14 @@
 "use client";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
-import type { StudyRole } from "@/db/schema";
+import { roleAllows, type StudyRole } from "@/lib/contracts/roles";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
-import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, LENGTH_SCALE_LIMITS_M, REGIME_LABELS, parseLengthScale, parseThresholds, type StressStateView } from "@/lib/stress/parameters";
+import { REGIME_LABELS, type StressStateView } from "@/lib/contracts/stress";
+import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, LENGTH_SCALE_LIMITS_M, parseLengthScale, parseThresholds } from "@/lib/stress/parameters";
 import { STRESS_FIELD_KEYS, stressFields, type StressFieldPayload } from "@/lib/stress/fields";
-import type { ScreenSummary } from "@/lib/stress/summary";
-import { useViewSettings } from "@/scene/viewSettingsStore";
+import type { ScreenSummary } from "@/lib/contracts/stress";
+import { useSceneSettings } from "@/scene/sceneSettingsStore";
 import { azimuth } from "@/components/workspace/format";
 import { MohrPlot, PressureHistogram, type MohrData } from "./StressCharts";
 import { StressForm, type StressFormValue } from "./StressForm";
@@ -28,9 +29,6 @@ interface ResultResponse extends StressFieldPayload {
   mohr: MohrData;
 }
 
-// mirrors ROLE_PERMISSIONS.edit in lib/access.ts (a server-only module); the server checks again on save
-const EDIT_ROLES: readonly StudyRole[] = ["owner", "interpreter"];
-
 // above the 3D view's HTML labels, which take z-indices up to 16 777 271 (drei <Html> default range)
 const DIALOG_Z_INDEX = 16_777_300;
 
@@ -40,7 +38,7 @@ const pct = (fraction: number) => (Number.isFinite(fraction) ? `${(fraction * 10
 /** The reactivation screen: stress state (form, versions), results, charts, 3D colour modes, exports, caution. */
 export function StressPanel({ faultId, role, display, analysisId }: { studyId: string; faultId: string; role: StudyRole; display: FaultDisplay | null; analysisId: string }) {
   const queryClient = useQueryClient();
-  const canEdit = EDIT_ROLES.includes(role);
+  const canEdit = roleAllows(role, "edit");
   const [editing, setEditing] = useState(false);
   const [thresholdText, setThresholdText] = useState(DEFAULT_THRESHOLDS_MPA.join(", "));
   const thresholds = parseThresholds(thresholdText);
@@ -68,9 +66,9 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
   });
 
   // register the colour modes while results are shown; remove them when the panel goes away
-  const setFields = useViewSettings((s) => s.setFields);
-  const setColorMode = useViewSettings((s) => s.setColorMode);
-  const colorMode = useViewSettings((s) => s.colorMode);
+  const setFields = useSceneSettings((s) => s.setFields);
+  const setColourMode = useSceneSettings((s) => s.setColourMode);
+  const colourMode = useSceneSettings((s) => s.colourMode);
   const fields = useMemo(
     () => (result.data && display ? stressFields(result.data, { low: result.data.state.parameters.frictionLow, high: result.data.state.parameters.frictionHigh }) : null),
     [result.data, display],
@@ -120,8 +118,8 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
               lengthQuery={lengthQuery}
               refreshing={result.isFetching}
               onLength={setAppliedLength}
-              colorMode={colorMode}
-              onColour={(key) => setColorMode(key)}
+              colourMode={colourMode}
+              onColour={(key) => setColourMode(key)}
               canColour={Boolean(fields)}
               thresholdText={thresholdText}
               thresholdsValid={Boolean(thresholds)}
@@ -186,7 +184,7 @@ function ResultBody(props: {
   lengthQuery: string;
   refreshing: boolean;
   onLength: (lengthM: number | null) => void;
-  colorMode: string;
+  colourMode: string;
   canColour: boolean;
   onColour: (key: string) => void;
   thresholdText: string;
@@ -265,8 +263,8 @@ function ResultBody(props: {
         <p className="mb-1 text-xs font-medium">Colour the 3D surface by</p>
         <div className="flex flex-wrap gap-1">
           {colourButtons.map(([key, label]) => (
-            <button key={key} type="button" disabled={!props.canColour} aria-pressed={props.colorMode === key}
-              className={`rounded border px-2 py-0.5 text-xs ${props.colorMode === key ? "border-slip-600 bg-slip-50 text-slip-800 dark:bg-slip-950 dark:text-slip-200" : "border-slate-300 hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"}`}
+            <button key={key} type="button" disabled={!props.canColour} aria-pressed={props.colourMode === key}
+              className={`rounded border px-2 py-0.5 text-xs ${props.colourMode === key ? "border-slip-600 bg-slip-50 text-slip-800 dark:bg-slip-950 dark:text-slip-200" : "border-slate-300 hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"}`}
               onClick={() => props.onColour(key)} data-testid={`stress-colour-${key.slice("stress:".length)}`}>
               {label}
             </button>

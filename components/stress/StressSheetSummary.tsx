@@ -3,8 +3,9 @@
 // default thresholds. Shares its queries (and cache) with the Stress screen tab.
 import { useQuery } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import { DEFAULT_THRESHOLDS_MPA, type StressStateView } from "@/lib/stress/parameters";
-import type { ScreenSummary } from "@/lib/stress/summary";
+import { DEFAULT_THRESHOLDS_MPA } from "@/lib/stress/parameters";
+import type { StressStateView } from "@/lib/contracts/stress";
+import type { ScreenSummary } from "@/lib/contracts/stress";
 
 interface StateResponse {
   current: StressStateView | null;

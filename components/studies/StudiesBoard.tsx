@@ -5,19 +5,12 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { RoleBadge } from "./RoleBadge";
+import type { StudiesResponse } from "@/lib/contracts/studies";
 
-interface StudyRow {
-  id: string;
-  name: string;
-  description: string;
-  role: "owner" | "interpreter" | "reviewer" | "viewer";
-  faultCount: number;
-  createdAt: string;
-}
 
 export function StudiesBoard() {
   const queryClient = useQueryClient();
-  const studies = useQuery({ queryKey: ["studies"], queryFn: () => apiFetch<{ studies: StudyRow[] }>("/api/studies") });
+  const studies = useQuery({ queryKey: ["studies"], queryFn: () => apiFetch<StudiesResponse>("/api/studies") });
   const [creating, setCreating] = useState(false);
   return (
     <div className="mt-6 space-y-6">

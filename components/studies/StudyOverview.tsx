@@ -6,31 +6,15 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { metres as formatM } from "@/components/workspace/format";
-import type { ActivityPart } from "@/lib/activity/sentences";
-import { FAULT_SENSES, faultSenseLabel, type FaultSense } from "@/lib/fault-types";
+import { FAULT_SENSES, faultSenseLabel } from "@/lib/fault-types";
+import type { FaultSense } from "@/lib/contracts/roles";
 import { RoleBadge } from "./RoleBadge";
+import { STUDY_ROLES, type StudyRole } from "@/lib/contracts/roles";
+import type { StudyOverview as StudyOverviewData } from "@/lib/contracts/studies";
 
-type Role = "owner" | "interpreter" | "reviewer" | "viewer";
-interface Overview {
-  study: { id: string; name: string; description: string; createdAt: string };
-  role: Role;
-  faults: {
-    id: string;
-    name: string;
-    description: string;
-    sense: string;
-    latestVersion: number | null;
-    pickSetCount: number;
-    analysis: { status: string; dMaxM: number | null; lengthM: number | null; segmentCount: number | null } | null;
-  }[];
-  people: { userId: string; name: string; email: string; role: Role }[];
-  activity: { id: string; actor: string; parts: ActivityPart[]; createdAt: string }[];
-}
-
-const ROLES: Role[] = ["owner", "interpreter", "reviewer", "viewer"];
 
 export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
-  const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<Overview>(`/api/studies/${studyId}`) });
+  const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<StudyOverviewData>(`/api/studies/${studyId}`) });
   if (overview.isPending) return <p className="text-sm text-slate-500">Loading study…</p>;
   if (overview.isError) return <p className="text-sm text-red-600">Could not load the study: {overview.error.message}</p>;
   const { study, faults, people, activity, role } = overview.data;
@@ -189,12 +173,12 @@ function NewFault({ studyId }: { studyId: string }) {
   );
 }
 
-function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string; role: Role }) {
-  const change = useStudyMutation(studyId, (next: Role) => apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "PATCH", json: { role: next } }));
+function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string; role: StudyRole }) {
+  const change = useStudyMutation(studyId, (next: StudyRole) => apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "PATCH", json: { role: next } }));
   return (
     <div className="text-right">
-      <select className="field w-auto py-1 text-xs" aria-label="Role" value={role} onChange={(event) => change.mutate(event.target.value as Role)}>
-        {ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+      <select className="field w-auto py-1 text-xs" aria-label="StudyRole" value={role} onChange={(event) => change.mutate(event.target.value as StudyRole)}>
+        {STUDY_ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
       </select>
       {change.error && <p className="field-error text-xs">{change.error.message}</p>}
     </div>
@@ -202,7 +186,7 @@ function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string
 }
 
 /** One member: name and address, and for owners their role and (for others) a remove that a second click confirms. */
-function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; person: Overview["people"][number]; isYou: boolean; canAdmin: boolean }) {
+function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; person: StudyOverviewData["people"][number]; isYou: boolean; canAdmin: boolean }) {
   const [askingToRemove, setAskingToRemove] = useState(false);
   // their pins and replies stay, signed with their name
   const remove = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/members/${person.userId}`, { method: "DELETE" }));
@@ -244,7 +228,7 @@ function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; pers
 
 function InviteForm({ studyId }: { studyId: string }) {
   const [email, setEmail] = useState("");
-  const [role, setRole] = useState<Role>("reviewer");
+  const [role, setRole] = useState<StudyRole>("reviewer");
   const invite = useStudyMutation(studyId, () => apiFetch(`/api/studies/${studyId}/members`, { method: "POST", json: { email, role } }));
   const fieldErrors = invite.error instanceof ApiRequestError ? invite.error.details?.fieldErrors : undefined;
   return (
@@ -257,8 +241,8 @@ function InviteForm({ studyId }: { studyId: string }) {
       <h3 className="text-sm font-semibold">Invite someone</h3>
       <div className="flex gap-2">
         <input className="field" type="email" placeholder="name@company.com" aria-label="E-mail to invite" value={email} onChange={(event) => setEmail(event.target.value)} />
-        <select className="field w-auto" aria-label="Role for the invitation" value={role} onChange={(event) => setRole(event.target.value as Role)}>
-          {ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+        <select className="field w-auto" aria-label="StudyRole for the invitation" value={role} onChange={(event) => setRole(event.target.value as StudyRole)}>
+          {STUDY_ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
         </select>
       </div>
       <FieldError errors={fieldErrors?.email ?? (invite.error && !fieldErrors ? [invite.error.message] : undefined)} />

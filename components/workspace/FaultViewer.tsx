@@ -5,10 +5,12 @@ import dynamic from "next/dynamic";
 import { useMemo, useState, type ReactNode } from "react";
 import type { FaultDisplay } from "@/lib/analysis/display";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
-import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
+import { useCameraStore, type CameraPreset } from "@/scene/cameraStore";
+import type { CameraState } from "@/lib/contracts/camera";
 import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
-import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
+import { LAYER_NAMES, MAX_EXAGGERATION, type LayerName } from "@/lib/contracts/scene-settings";
+import { useSceneSettings } from "@/scene/sceneSettingsStore";
 import { FaultView2D } from "./FaultView2D";
 import { placeLabels } from "@/lib/views/labels";
 import { useDarkMode } from "@/scene/useDarkMode";
@@ -96,13 +98,13 @@ export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, tool
 }
 
 function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolean; onMode: (mode: ViewMode) => void; extra?: ReactNode }) {
-  const layers = useViewSettings((state) => state.layers);
-  const toggleLayer = useViewSettings((state) => state.toggleLayer);
-  const colorMode = useViewSettings((state) => state.colorMode);
-  const setColorMode = useViewSettings((state) => state.setColorMode);
-  const fields = useViewSettings((state) => state.fields);
-  const exaggeration = useViewSettings((state) => state.exaggeration);
-  const setExaggeration = useViewSettings((state) => state.setExaggeration);
+  const layers = useSceneSettings((state) => state.layers);
+  const toggleLayer = useSceneSettings((state) => state.toggleLayer);
+  const colourMode = useSceneSettings((state) => state.colourMode);
+  const setColourMode = useSceneSettings((state) => state.setColourMode);
+  const fields = useSceneSettings((state) => state.fields);
+  const exaggeration = useSceneSettings((state) => state.exaggeration);
+  const setExaggeration = useSceneSettings((state) => state.setExaggeration);
   const applyPreset = useCameraStore((state) => state.applyPreset);
   return (
     <div className="flex flex-wrap items-center gap-x-4 gap-y-2 border-b border-slate-200 px-3 py-2 text-xs dark:border-slate-800" data-testid="view-bar">
@@ -132,7 +134,7 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
           </div>
           <label className="flex items-center gap-1.5">
             <span className="text-slate-500">Colour by</span>
-            <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value)} data-testid="colour-mode">
+            <select className="field w-auto py-0.5 text-xs" value={colourMode} onChange={(event) => setColourMode(event.target.value)} data-testid="colour-mode">
               <option value="displacement">displacement</option>
               <option value="throw">throw</option>
               {fields.map((field) => (
@@ -163,9 +165,9 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
 }
 
 function DisplacementLegend({ display }: { display: FaultDisplay }) {
-  const colorMode = useViewSettings((state) => state.colorMode);
-  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode));
-  const [low, high] = field ? field.range : colorMode === "throw" ? display.throwRangeM : display.displacementRangeM;
+  const colourMode = useSceneSettings((state) => state.colourMode);
+  const field = useSceneSettings((state) => state.fields.find((candidate) => candidate.key === state.colourMode));
+  const [low, high] = field ? field.range : colourMode === "throw" ? display.throwRangeM : display.displacementRangeM;
   const reversed = field?.reversed ?? false;
   const gradient = useMemo(() => {
     const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(reversed ? 1 - i / 10 : i / 10)} ${i * 10}%`);
@@ -174,7 +176,7 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
   // round values an even step apart, at most about seven, so labels neither crowd nor skip unevenly
   const levels = useMemo(() => legendTicks(low, high, 7), [high, low]);
   const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
-  const title = field ? `${field.label} (${field.unit})` : `${colorMode === "throw" ? "Throw" : "Displacement"} (m)`;
+  const title = field ? `${field.label} (${field.unit})` : `${colourMode === "throw" ? "Throw" : "Displacement"} (m)`;
   return (
     <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend" data-scene-overlay
       data-low={low} data-high={high} data-reversed={reversed ? "1" : "0"} data-title={title} data-contours={display.segments.length > 0 ? contourNote(display) : ""}>
@@ -210,7 +212,7 @@ function contourNote(display: FaultDisplay): string {
 
 function HoverReadout() {
   const readout = useOverlayStore((state) => state.readout);
-  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode));
+  const field = useSceneSettings((state) => state.fields.find((candidate) => candidate.key === state.colourMode));
   if (!readout) return null;
   const rows: [string, string][] = [
     ["segment", readout.segmentId],

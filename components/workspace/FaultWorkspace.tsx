@@ -5,8 +5,8 @@ import { useState } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
-import type { AnalysisReport } from "@/lib/engine/types";
-import type { StudyRole } from "@/db/schema";
+import { ANALYSIS_STAGES, type AnalysisResponse, type PickSetsResponse } from "@/lib/contracts/analysis";
+import type { StudyRole } from "@/lib/contracts/roles";
 import { useAnnotationStore } from "@/scene/annotationStore";
 import { AnalysisViews } from "@/components/analysis-views/AnalysisViews";
 import { PinsPanel } from "@/components/collab/PinsPanel";
@@ -19,24 +19,7 @@ import { UploadPanel } from "./UploadPanel";
 import { RunComparison } from "./RunComparison";
 import { RunsPanel } from "./RunsPanel";
 
-interface AnalysisState {
-  id: string;
-  status: "queued" | "running" | "done" | "failed";
-  stage: string;
-  progress: number;
-  result: AnalysisReport | null;
-  errorMessage: string | null;
-  engineVersion: string | null;
-  pickSetId: string;
-  version: number;
-  fileName: string;
-  checksum: string;
-  uploadedAt: string;
-}
 
-interface PickSetRow { id: string; version: number; fileName: string; rowCount: number; droppedRows: number; uploadedAt: string; units: string }
-
-const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
 /** the analysis stages in words */
 const STAGE_WORDS: Record<string, string> = {
   queued: "waiting to start",
@@ -70,13 +53,13 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
 
   const analysis = useQuery({
     queryKey: ["analysis", faultId, pickSetId ?? "latest", runId ?? "newest"],
-    queryFn: () => apiFetch<{ analysis: AnalysisState | null }>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}${runId ? `&analysis=${runId}` : ""}`),
+    queryFn: () => apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}${runId ? `&analysis=${runId}` : ""}`),
     refetchInterval: (query) => {
       const status = query.state.data?.analysis?.status;
       return status === "queued" || status === "running" ? 700 : false;
     },
   });
-  const pickSets = useQuery({ queryKey: ["pick-sets", faultId], queryFn: () => apiFetch<{ pickSets: PickSetRow[] }>(`/api/faults/${faultId}/pick-sets`) });
+  const pickSets = useQuery({ queryKey: ["pick-sets", faultId], queryFn: () => apiFetch<PickSetsResponse>(`/api/faults/${faultId}/pick-sets`) });
   const current = analysis.data?.analysis ?? null;
   const display = useQuery({
     queryKey: ["display", faultId, current?.id],
@@ -144,7 +127,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             <div className="h-full bg-slip-500 transition-all" style={{ width: `${Math.max(3, current.progress * 100)}%` }} />
           </div>
           <ol className="mt-2 flex flex-wrap gap-2 text-xs text-slate-500">
-            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{STAGE_WORDS[stage]}</li>)}
+            {ANALYSIS_STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{STAGE_WORDS[stage]}</li>)}
           </ol>
         </div>
       )}

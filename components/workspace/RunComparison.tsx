@@ -3,15 +3,12 @@
 // and their fault sheets.
 import { useQueries } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import { describeSettings } from "@/lib/analysis/settings";
-import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
+import { describeSettings } from "@/lib/contracts/analysis-settings";
+import type { AnalysisResponse } from "@/lib/contracts/analysis";
+import type { AnalysisReport, SegmentResult } from "@/lib/contracts/report";
 import { FaultSheet } from "./FaultSheet";
 
 const RUN_COLOURS = ["#f08c00", "#2563eb"] as const;
-
-interface RunResponse {
-  analysis: { id: string; createdAt: string; result: AnalysisReport | null } | null;
-}
 
 /** One plane map per segment with both runs' lines: the same (s, t) frame, since both runs read the same picks. */
 function OverlayMap({ segmentId, runs }: { segmentId: string; runs: SegmentResult[] }) {
@@ -49,7 +46,7 @@ function OverlayMap({ segmentId, runs }: { segmentId: string; runs: SegmentResul
 
 export function RunComparison({ faultId, ids, onClose }: { faultId: string; ids: [string, string]; onClose: () => void }) {
   const queries = useQueries({
-    queries: ids.map((id) => ({ queryKey: ["analysis-run", faultId, id], staleTime: Infinity, queryFn: () => apiFetch<RunResponse>(`/api/faults/${faultId}/analysis?contours=0&analysis=${id}`) })),
+    queries: ids.map((id) => ({ queryKey: ["analysis-run", faultId, id], staleTime: Infinity, queryFn: () => apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0&analysis=${id}`) })),
   });
   const reports = queries.map((query) => query.data?.analysis?.result ?? null);
   const ready = reports.every((report): report is AnalysisReport => report !== null && report.segments.every((segment) => segment.tipLine.innerPolygon));

@@ -4,23 +4,18 @@
 import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import { analysisSettingsSchema, describeSettings } from "@/lib/analysis/settings";
+import { analysisSettingsSchema, describeSettings } from "@/lib/contracts/analysis-settings";
 import { AUTOMATIC_CANDIDATES } from "@/lib/engine/profiles";
-import type { AnalysisReport, AnalysisSettings, TipEndSide } from "@/lib/engine/types";
+import type { AnalysisRunsResponse } from "@/lib/contracts/analysis";
+import type { AnalysisSettings } from "@/lib/contracts/analysis-settings";
+import type { AnalysisReport, TipEndSide } from "@/lib/contracts/report";
 import { metres, metresWithRange, MODEL_NAMES } from "./format";
 
-export interface RunSummary {
-  id: string;
-  status: string;
-  createdAt: string;
-  settings: AnalysisSettings | null;
-  segments: { id: string; lengthM: number; lengthRangeM: [number, number | null] | null; heightM: number; fittedDmaxM: number | null; model: string; cutoffM: number | null }[];
-}
 
 export function useRuns(faultId: string, pickSetId: string | undefined) {
   return useQuery({
     queryKey: ["runs", faultId, pickSetId ?? "latest"],
-    queryFn: () => apiFetch<{ pickSetId: string | null; runs: RunSummary[] }>(`/api/faults/${faultId}/analysis/runs${pickSetId ? `?pickSet=${pickSetId}` : ""}`),
+    queryFn: () => apiFetch<AnalysisRunsResponse>(`/api/faults/${faultId}/analysis/runs${pickSetId ? `?pickSet=${pickSetId}` : ""}`),
     refetchInterval: (query) => (query.state.data?.runs.some((run) => run.status === "queued" || run.status === "running") ? 1000 : false),
   });
 }

@@ -3,24 +3,9 @@ import { useRef, useState } from "react";
 import { ApiRequestError } from "@/lib/api/client";
 import { QUALITY_USE } from "@/lib/engine/quality";
 import { metres } from "./format";
+import type { UploadPreview, UploadSaved } from "@/lib/contracts/analysis";
+import type { RejectedRow } from "@/lib/contracts/report";
 
-interface Problem { row: number; column: string; reason: string }
-interface Preview {
-  fileName: string;
-  sizeBytes: number;
-  rows: number;
-  accepted: number;
-  segments: string[];
-  horizons: string[];
-  sample: { row: number; x: number; y: number; z: number; throwM: number; segment: string; horizon: string | null }[];
-  problems: Problem[];
-  problemCount: number;
-  problemsTruncated: boolean;
-  problemPage: number;
-  problemPageSize: number;
-  warnings: string[];
-  duplicateOfVersion: number | null;
-}
 
 /** POST a multipart form with upload progress (fetch cannot report it). */
 function postForm<T>(url: string, form: FormData, onProgress: (fraction: number) => void): Promise<T> {
@@ -94,9 +79,9 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
   const [file, setFile] = useState<File | null>(null);
   const [units, setUnits] = useState<"m" | "ft">("m");
   const [dropBadRows, setDropBadRows] = useState(false);
-  const [preview, setPreview] = useState<Preview | null>(null);
+  const [preview, setPreview] = useState<UploadPreview | null>(null);
   const [error, setError] = useState<string | null>(null);
-  const [errorRows, setErrorRows] = useState<Problem[]>([]);
+  const [errorRows, setErrorRows] = useState<RejectedRow[]>([]);
   const [busy, setBusy] = useState<null | "preview" | "confirm">(null);
   const [uploadFraction, setUploadFraction] = useState(0);
   const [dragging, setDragging] = useState(false);
@@ -117,11 +102,11 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
     setErrorRows([]);
     setUploadFraction(0);
     try {
-      setPreview(await postForm<Preview>(`/api/faults/${faultId}/pick-sets?step=preview`, formFor(selected, page, dropBadRows, unit), setUploadFraction));
+      setPreview(await postForm<UploadPreview>(`/api/faults/${faultId}/pick-sets?step=preview`, formFor(selected, page, dropBadRows, unit), setUploadFraction));
     } catch (caught) {
       setPreview(null);
       setError(caught instanceof Error ? caught.message : String(caught));
-      if (caught instanceof ApiRequestError && Array.isArray(caught.details?.rejected)) setErrorRows(caught.details.rejected as Problem[]);
+      if (caught instanceof ApiRequestError && Array.isArray(caught.details?.rejected)) setErrorRows(caught.details.rejected as RejectedRow[]);
     } finally {
       setBusy(null);
     }
@@ -132,7 +117,7 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
     setBusy("confirm");
     setError(null);
     try {
-      const saved = await postForm<{ analysisId: string; version: number }>(`/api/faults/${faultId}/pick-sets?step=confirm`, formFor(file), setUploadFraction);
+      const saved = await postForm<UploadSaved>(`/api/faults/${faultId}/pick-sets?step=confirm`, formFor(file), setUploadFraction);
       setPreview(null);
       setFile(null);
       onSaved(saved.analysisId);

@@ -55,7 +55,7 @@ export const MODEL_NAMES: Record<string, string> = {
 };
 
 /** A central value with its 5–95 % range, "2,510 m (2,440–2,580 m)"; an open upper end reads as a minimum. */
-export function metresWithRange(value: number, range: [number, number | null] | undefined, digits?: number): string {
+export function metresWithRange(value: number, range: [number | null, number | null] | undefined, digits?: number): string {
   if (!range) return metres(value, digits);
   if (range[1] === null) return `≥ ${metres(value, digits)} (open end)`;
   const strip = (text: string) => text.replace(/ m$/, "");

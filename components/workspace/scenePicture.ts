@@ -4,7 +4,7 @@
 // shows (the legend's data-* attributes, the overlay store), so it matches the screen.
 import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
-import { useViewSettings } from "@/scene/viewSettingsStore";
+import { useSceneSettings } from "@/scene/sceneSettingsStore";
 import { svgImage } from "@/components/analysis-views/download";
 import { metres } from "./format";
 
@@ -133,7 +133,7 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
   }
 
   // title
-  const { exaggeration } = useViewSettings.getState();
+  const { exaggeration } = useSceneSettings.getState();
   context.textAlign = "left";
   context.textBaseline = "alphabetic";
   context.fillStyle = INK;

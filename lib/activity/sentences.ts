@@ -1,8 +1,10 @@
 // Recent activity in plain sentences: each audit entry becomes words with names and links, never raw ids or action
 // codes. Pure: the loader (lib/activity/load.ts) resolves the ids an entry refers to and passes them in.
+import type { z } from "zod";
+import type { activityPartSchema } from "@/lib/contracts/studies";
 
 /** A piece of a sentence: plain words, or words that link somewhere in the study. */
-export type ActivityPart = { text: string; href?: string };
+export type ActivityPart = z.infer<typeof activityPartSchema>;
 
 export interface ActivityEntry {
   action: string;

@@ -4,6 +4,7 @@ import { getDb } from "@/db/client";
 import { analyses, base64Bytes, pickSets } from "@/db/schema";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { lruCache } from "@/lib/lru";
+import type { AnalysisRun } from "@/lib/contracts/analysis";
 
 /**
  * The read repository of analyses: what the fault page, pins, stress screening and exports read about a fault's
@@ -100,22 +101,12 @@ export async function analysisDisplay(faultId: string, analysisId: string) {
   return row?.display ?? null;
 }
 
-export interface AnalysisRunSummary {
-  id: string;
-  status: string;
-  createdAt: Date;
-  finishedAt: Date | null;
-  engineVersion: string | null;
-  settings: unknown;
-  /** per segment: the headline numbers, to compare runs at a glance */
-  segments: { id: string; lengthM: number; lengthRangeM: [number, number | null] | null; heightM: number; heightRangeM: [number, number | null] | null; fittedDmaxM: number | null; model: string; cutoffM: number | null }[];
-}
 
 /**
  * Every run of the analysis of one pick set (the fault's newest when none is named), newest first: each run is kept
  * beside the earlier ones so that two can be compared.
  */
-export async function analysisRuns(faultId: string, pickSetId?: string): Promise<{ pickSetId: string | null; runs: AnalysisRunSummary[] }> {
+export async function analysisRuns(faultId: string, pickSetId?: string): Promise<{ pickSetId: string | null; runs: AnalysisRun[] }> {
   const db = await getDb();
   const [pickSet] = await db
     .select({ id: pickSets.id })
@@ -133,7 +124,7 @@ export async function analysisRuns(faultId: string, pickSetId?: string): Promise
       engineVersion: analyses.engineVersion,
       parameters: analyses.parameters,
       // only the headline numbers leave the database: a whole report per run would be most of a megabyte
-      segments: sql<AnalysisRunSummary["segments"] | null>`(
+      segments: sql<AnalysisRun["segments"] | null>`(
         select jsonb_agg(jsonb_build_object(
           'id', s->>'id',
           'lengthM', (s->'tipLine'->>'lengthM')::float8,
@@ -152,6 +143,12 @@ export async function analysisRuns(faultId: string, pickSetId?: string): Promise
     .orderBy(desc(analyses.createdAt));
   return {
     pickSetId: pickSet.id,
-    runs: rows.map(({ parameters, segments, ...row }) => ({ ...row, settings: parameters, segments: segments ?? [] })),
+    runs: rows.map(({ parameters, segments, createdAt, finishedAt, ...row }) => ({
+      ...row,
+      createdAt: createdAt.toISOString(),
+      finishedAt: finishedAt?.toISOString() ?? null,
+      settings: parameters,
+      segments: segments ?? [],
+    })),
   };
 }

@@ -7,7 +7,7 @@ import { claimJobOf, enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { holdWhileRunning, LeaseLost, newWorkerId, type JobContext, type JobHandler } from "@/lib/jobs/processor";
 import type { AnalysisJob } from "./compute";
 import type { AnalysisSettings } from "@/lib/engine/types";
-import { parseAnalysisSettings } from "./settings";
+import { parseAnalysisSettings } from "@/lib/contracts/analysis-settings";
 import { analysisTimeLimitMs, ComputeAborted, computeAnalysisOffThread } from "./worker-pool";
 
 /**

@@ -1,7 +1,7 @@
 import "server-only";
 import { createHash } from "node:crypto";
 import { and, desc, eq, max } from "drizzle-orm";
-import { z } from "zod";
+import type { UploadOptions } from "@/lib/contracts/analysis";
 import { getDb } from "@/db/client";
 import { analyses, faults, pickSets, segments } from "@/db/schema";
 import type { StudyAccess } from "@/lib/access";
@@ -16,15 +16,6 @@ export { MAX_ROWS, MAX_UPLOAD_BYTES } from "./upload-parse";
 const PREVIEW_ROWS = 20;
 export const PROBLEM_PAGE_SIZE = 50;
 
-export const uploadOptionsSchema = z.object({
-  units: z.enum(["m", "ft"]).default("m"),
-  dropBadRows: z
-    .enum(["true", "false"])
-    .default("false")
-    .transform((value) => value === "true"),
-  problemPage: z.coerce.number().int().min(0).max(10_000).default(0),
-});
-export type UploadOptions = z.infer<typeof uploadOptionsSchema>;
 
 export interface UploadedFile {
   name: string;

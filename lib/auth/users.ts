@@ -4,10 +4,10 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { users } from "@/db/schema";
 import { hashPassword, passwordSchema, verifyPassword } from "./password";
+import { emailSchema } from "@/lib/contracts/people";
 import { signInLimiter } from "@/lib/rate-limit";
 import { recordAudit } from "@/lib/audit";
 
-export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address.").max(200);
 
 export const signUpSchema = z.object({
   name: z.string().trim().min(1, "Enter your name.").max(100, "Use at most 100 characters."),

@@ -1,5 +1,6 @@
 // Normalised displacement profiles of an isolated fault, r = distance from the maximum / distance to the tip
 // (0 ≤ r ≤ 1). Every profile is 1 at r = 0, falls monotonically and is exactly 0 from r = 1 on.
+import { PROFILE_MODELS } from "@/lib/contracts/report";
 import type { ProfileModel, TipProfileModel } from "./types";
 
 /** Walsh & Watterson (1987): D = 2·Dmax·(1 − r)·sqrt(((1 + r)/2)² − r²); zero gradient at the tip. */
@@ -137,7 +138,7 @@ export function writeProfile(kind: number, r: number, x0: number, x1: number, ou
 }
 
 /** Profiles tried when the interpreter leaves the choice to the fit. */
-export const AUTOMATIC_CANDIDATES: ProfileModel[] = ["walsh-watterson-1987", "elliptical-crack", "linear", "parabolic", "flat-topped", "flexible"];
+export const AUTOMATIC_CANDIDATES: ProfileModel[] = [...PROFILE_MODELS];
 
 /**
  * Profiles with a mechanical or observational basis. The central tip line is averaged over these only: the flexible

@@ -1,15 +1,23 @@
-// The analysis engine's public contract: what the CLI prints with --json, what the API stores and what the
-// 3D view draws. Coordinates: x East, y North, z Up (m). Fault-plane coordinates per segment: s along strike
-// (right-hand-rule strike direction), t down dip (positive downward), origin at the segment's pick centroid.
+// The engine's own shapes: picks in flat columns, plane fits, grids and its options. What it hands out (the analysis
+// report and its parts) is the contract in lib/contracts/report.ts, re-exported here for the engine's modules.
+// Coordinates: x East, y North, z Up (m); fault-plane coordinates per segment: s along strike, t down dip.
 
-export type LengthUnit = "m" | "ft";
+import type { LengthUnit, ProfileModel, RejectedRow, Ring, TipEndSide } from "@/lib/contracts/report";
 
-export interface RejectedRow {
-  /** 1-based data row number as the user sees it in a spreadsheet (header is row 1, first data row is 2). */
-  row: number;
-  column: string;
-  reason: string;
-}
+export type {
+  AnalysisReport,
+  LengthUnit,
+  ProfileModel,
+  RejectedRow,
+  RelayResult,
+  Ring,
+  SegmentResult,
+  TipEnd,
+  TipEndSide,
+  TipLine,
+  TipProfileModel,
+} from "@/lib/contracts/report";
+export type { AnalysisSettings } from "@/lib/contracts/analysis-settings";
 
 /** Picks in flat columns; NaN marks an absent optional value. Lengths in metres. */
 export interface PickColumns {
@@ -57,83 +65,12 @@ export interface PlaneFit {
   planarityWarning: string | null;
 }
 
-export type Ring = [number, number][];
-
 export interface ContourLevel {
   levelM: number;
   /** rings in (s, t) */
   rings: Ring[];
   /** the same rings in world (x, y, z) */
   worldRings: [number, number, number][][];
-}
-
-export type ProfileModel = "walsh-watterson-1987" | "elliptical-crack" | "linear" | "parabolic" | "flat-topped" | "flexible";
-
-/** The four ends of a fault: along strike towards lower / higher s, and up dip (shallower) / down dip. */
-export type TipEndSide = "strike-start" | "strike-end" | "up-dip" | "down-dip";
-
-export interface TipEnd {
-  side: TipEndSide;
-  /** inferred: displacement falls toward the cut-off there and a tip is inferred beyond; open: the data stop first */
-  status: "inferred" | "open";
-  /** detected from the picks, or set by the interpreter */
-  source: "detected" | "set";
-}
-
-/** The fault model of the profile that carries most weight: Dmax·f(r) with a reach to the tip on each side. */
-export interface TipProfileModel {
-  model: ProfileModel;
-  /** shape numbers as fitted (unbounded; see PROFILE_CANDIDATES) */
-  shape: number[];
-  centre: { s: number; t: number };
-  reach: { strikeStartM: number; strikeEndM: number; upDipM: number; downDipM: number };
-  /** superellipse exponent of the tip line: 2 an ellipse, larger boxier (layer-bound faults), smaller more pointed */
-  exponent: number;
-  dmaxM: number;
-}
-
-export interface TipLine {
-  /** central estimate, along strike and down dip (m) */
-  lengthM: number;
-  heightM: number;
-  /** 5–95 % range; the upper end is null where an end is open (the length or height is then a minimum) */
-  lengthRangeM: [number, number | null];
-  heightRangeM: [number, number | null];
-  lengthIsMinimum: boolean;
-  heightIsMinimum: boolean;
-  aspectRatio: number;
-  areaM2: number;
-  /** where the weighted fits put the displacement maximum; the tip lines are built around it */
-  centre: { s: number; t: number };
-  /** half the length and height */
-  semiAxes: { sM: number; tM: number };
-  /** the profile with most weight */
-  model: ProfileModel;
-  profile: TipProfileModel;
-  /** every profile tried, most weight first */
-  candidates: { model: ProfileModel; weight: number; aicc: number; rmsM: number; lengthM: number; heightM: number; dmaxM: number }[];
-  /** how well each candidate model fitted, rms misfit in m */
-  modelMisfits: Partial<Record<ProfileModel, number>>;
-  /** half the wider of the length and height ranges (m) */
-  uncertaintyM: number;
-  /** displacement below which nothing could be picked */
-  cutoff: { displacementM: number; source: "estimated" | "set" };
-  /** interpretation noise near the edges (m) */
-  noiseM: number;
-  ends: TipEnd[];
-  /** per polygon vertex (ray from the centre), 1 where the line follows an open data edge */
-  openRays: number[];
-  /** which profiles were compared, how, and what carried the weight, in a sentence */
-  selection: string;
-  method: string;
-  /** central tip line in (s, t), closed */
-  polygon: [number, number][];
-  /** 5 % and 95 % tip lines in (s, t), closed, with the same vertex directions */
-  innerPolygon: [number, number][];
-  outerPolygon: [number, number][];
-  worldPolygon: [number, number, number][];
-  innerWorldPolygon: [number, number, number][];
-  outerWorldPolygon: [number, number, number][];
 }
 
 export interface RegularGrid {
@@ -148,84 +85,6 @@ export interface RegularGrid {
   throwM: Float64Array;
   /** off-plane distance w of the fault surface from the segment's reference plane (m, along its normal), NaN outside */
   offPlaneM?: Float64Array;
-}
-
-export interface SegmentResult {
-  id: string;
-  pickCount: number;
-  plane: Omit<PlaneFit, "centroid" | "strikeVector" | "dipVector" | "normal" | "singularValues"> & {
-    centroid: [number, number, number];
-    strikeVector: [number, number, number];
-    dipVector: [number, number, number];
-    normal: [number, number, number];
-  };
-  /** observed maximum (biased upward by noise) and the fitted one with its 5–95 % range */
-  max: {
-    displacementM: number;
-    throwM: number;
-    s: number;
-    t: number;
-    x: number;
-    y: number;
-    z: number;
-    fittedDisplacementM: number;
-    fittedDisplacementRangeM: [number, number];
-  };
-  mappedLimit: { lengthM: number; heightM: number; polygon: [number, number][]; worldPolygon: [number, number, number][] };
-  tipLine: TipLine;
-  gradients: {
-    meanPerM: number;
-    maxPerM: number;
-    tips: {
-      strikeStartPerM: number;
-      strikeEndPerM: number;
-      upDipPerM: number;
-      downDipPerM: number;
-    };
-  };
-  centroidOfDisplacement: { s: number; t: number };
-  asymmetry: { alongStrike: number; downDip: number };
-  scaling: { dOverL: number; note: string; plausible: boolean };
-  contourIntervalM: number;
-  contours: { levelM: number; rings: Ring[] }[];
-}
-
-export interface RelayResult {
-  segments: [string, string];
-  overlapM: number;
-  separationM: number;
-  overlapToSeparation: number;
-  linkage: "soft" | "breached" | "hard";
-  /** what the label rests on, in words (the mapped connection, or its absence), and the summed-profile transfer */
-  evidence: string;
-  /** the published basis of the labels */
-  basis?: string;
-  /** the mapped structure the label rests on: a merge, a connecting segment or picks, or none */
-  connection?: {
-    kind: "none" | "picks" | "segment" | "merged";
-    via: string | null;
-    pickCount: number;
-    throwRangeM: [number, number] | null;
-    /** closest distance of a pick of one segment to the other's mapped surface (m) */
-    closestApproachM: number;
-  };
-  /** smallest summed displacement inside the overlap as a fraction of the summed profile's peak */
-  summedMinimumFraction?: number;
-  comparison: string;
-  /** sum of both segments' displacement along mean strike at their mean centroid elevation */
-  summedProfile: { alongStrikeM: number[]; displacementM: number[] };
-}
-
-export interface AnalysisReport {
-  engineVersion: string;
-  input: { rows: number; accepted: number; rejected: RejectedRow[]; units: LengthUnit };
-  /** how the optional quality column was used (absent in reports made before it was) */
-  quality?: { picksBelowOne: number; note: string };
-  /** the interpreter's settings this analysis ran with (absent: every default) */
-  settings?: AnalysisSettings;
-  segments: SegmentResult[];
-  relays: RelayResult[];
-  warnings: string[];
 }
 
 export interface AnalysisOptions {
@@ -248,5 +107,3 @@ export interface AnalysisOptions {
   smoothingM?: number;
 }
 
-/** The settings an interpreter can give an analysis run; every one optional (absent: the default). */
-export type AnalysisSettings = Pick<AnalysisOptions, "intervalM" | "cellM" | "throwCutoffM" | "profiles" | "ends" | "smoothingM">;

@@ -1,5 +1,5 @@
 import "server-only";
-import { parseAnalysisSettings } from "@/lib/analysis/settings";
+import { parseAnalysisSettings } from "@/lib/contracts/analysis-settings";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
@@ -9,7 +9,8 @@ import { computeGridsOffThread } from "@/lib/analysis/worker-pool";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { lruCache } from "@/lib/lru";
-import { faultScalingPoint, type FaultScalingPoint } from "@/lib/views/scaling";
+import { faultScalingPoint } from "@/lib/views/scaling";
+import type { FaultScalingPoint } from "@/lib/contracts/analysis";
 
 export interface ExportSource {
   fault: { id: string; name: string; studyId: string; studyName: string };

@@ -1,3 +1,4 @@
+import type { DigestSummary } from "@/lib/contracts/health";
 import "server-only";
 import { and, asc, eq, inArray, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
@@ -32,14 +33,6 @@ export async function notifyUser(input: NotificationInput): Promise<"sent" | "qu
   return "sent";
 }
 
-export interface DigestSummary {
-  /** e-mails sent, one per person */
-  emails: number;
-  /** notifications those e-mails carried */
-  notifications: number;
-  /** notifications dropped because their person has turned e-mail off since */
-  dropped: number;
-}
 
 /**
  * Sends every pending notification: one e-mail per person listing all of theirs, oldest first. People whose

@@ -1,9 +1,9 @@
 import "server-only";
 import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
-import { z } from "zod";
 import { getDb } from "@/db/client";
 import { faults, memberships, pinReplies, pins, pinVisits, users, type Pin, type PinReply } from "@/db/schema";
-import { rememberedWhileRolesStand, requireFaultRole, requireUser, type StudyAccess, type StudyAction } from "@/lib/access";
+import { rememberedWhileRolesStand, requireFaultRole, requireUser, type StudyAccess } from "@/lib/access";
+import type { StudyAction } from "@/lib/contracts/roles";
 import { latestAnalysisForFault } from "@/lib/analysis/reports";
 import { ApiError, forbidden } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -11,7 +11,8 @@ import { appUrl } from "@/lib/mail";
 import { createRateLimiter } from "@/lib/rate-limit";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { notifyUser, type NotificationInput } from "./notify";
-import { PIN_TEXT_MAX, resolveMentions } from "./text";
+import { resolveMentions } from "./text";
+import type { PinFilter, PinInput, PinList, PinPatch, PinView, ReplyView } from "@/lib/contracts/pins";
 
 /** How long after writing a pin or reply its author may still change the text. */
 export const EDIT_WINDOW_MINUTES = 15;
@@ -22,33 +23,6 @@ const writeLimiter = createRateLimiter({ scope: "pin-write", limit: 40, windowMs
 
 type FaultAccess = StudyAccess & { faultId: string };
 
-const bodySchema = z
-  .string()
-  .trim()
-  .min(1, "Write something.")
-  .max(PIN_TEXT_MAX, `Use at most ${PIN_TEXT_MAX} characters.`);
-const coordinate = (what: string) => z.number({ error: `${what} must be a number (m).` }).finite(`${what} must be a finite number (m).`).refine((value) => Math.abs(value) < 1e9, `${what} is out of range.`);
-
-export const pinInputSchema = z.object({
-  x: coordinate("x"),
-  y: coordinate("y"),
-  z: coordinate("z"),
-  s: coordinate("s"),
-  t: coordinate("t"),
-  segmentId: z.string().trim().min(1, "Name the segment the pin is on.").max(120),
-  body: bodySchema,
-});
-
-export const pinPatchSchema = z.discriminatedUnion("action", [
-  z.object({ action: z.literal("edit"), body: bodySchema }),
-  z.object({ action: z.literal("resolve") }),
-  z.object({ action: z.literal("reopen") }),
-]);
-
-export const replyInputSchema = z.object({ body: bodySchema });
-
-export const pinFilterSchema = z.enum(["all", "mine", "open"]).default("all");
-export type PinFilter = z.infer<typeof pinFilterSchema>;
 
 // ---- access ------------------------------------------------------------------------------------------
 
@@ -84,53 +58,7 @@ function requireOwnWithinWindow(authorId: string | null, userId: string, created
 
 // ---- reading -----------------------------------------------------------------------------------------
 
-export interface PersonRef {
-  id: string;
-  name: string;
-}
 
-export interface ReplyView {
-  id: string;
-  author: PersonRef | null;
-  body: string;
-  createdAt: string;
-  edited: boolean;
-  unread: boolean;
-  mine: boolean;
-  editableUntil: string;
-  can: { edit: boolean; delete: boolean };
-}
-
-export interface PinView {
-  id: string;
-  x: number;
-  y: number;
-  z: number;
-  s: number;
-  t: number;
-  segmentName: string | null;
-  pickSetVersion: number | null;
-  body: string;
-  state: "open" | "resolved";
-  author: PersonRef | null;
-  createdAt: string;
-  edited: boolean;
-  resolvedBy: PersonRef | null;
-  resolvedAt: string | null;
-  unread: boolean;
-  mine: boolean;
-  editableUntil: string;
-  can: { edit: boolean; resolve: boolean; delete: boolean; reply: boolean };
-  replies: ReplyView[];
-}
-
-export interface PinList {
-  pins: PinView[];
-  /** when this person last looked at the fault's pins (before this read); null for never */
-  lastVisitAt: string | null;
-  editWindowMinutes: number;
-  mentionable: { name: string; handle: string }[];
-}
 
 /** The study's members (names and e-mail addresses never change; who is a member changes only through changingRoles). */
 function studyMembers(studyId: string): Promise<readonly { id: string; email: string; name: string }[]> {
@@ -281,7 +209,7 @@ async function notifyMentions(access: FaultAccess, pinId: string, text: string, 
   return mentioned.map((member) => member.id);
 }
 
-export async function createPin(access: FaultAccess, input: z.infer<typeof pinInputSchema>) {
+export async function createPin(access: FaultAccess, input: PinInput) {
   await spendWrite(access.user.id);
   const analysis = await latestAnalysisForFault(access.faultId);
   if (!analysis || analysis.status !== "done")
@@ -311,7 +239,7 @@ export async function createPin(access: FaultAccess, input: z.infer<typeof pinIn
   return { pin, mentioned };
 }
 
-export async function replyToPin(access: FaultAccess & { pin: Pin }, input: z.infer<typeof replyInputSchema>) {
+export async function replyToPin(access: FaultAccess & { pin: Pin }, input: { body: string }) {
   await spendWrite(access.user.id);
   const db = await getDb();
   const [reply] = await db.insert(pinReplies).values({ pinId: access.pin.id, authorId: access.user.id, body: input.body }).returning();
@@ -340,7 +268,7 @@ async function isMember(studyId: string, userId: string) {
 
 const excerpt = (text: string) => (text.length > 160 ? `${text.slice(0, 157)}…` : text);
 
-export async function updatePin(access: FaultAccess & { pin: Pin }, patch: z.infer<typeof pinPatchSchema>) {
+export async function updatePin(access: FaultAccess & { pin: Pin }, patch: PinPatch) {
   const db = await getDb();
   const { pin, user } = access;
   if (patch.action === "edit") {
@@ -383,7 +311,7 @@ export async function deletePin(access: FaultAccess & { pin: Pin }) {
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "pin.delete", target: access.pin.id, details: { faultId: access.faultId, body: access.pin.body } });
 }
 
-export async function editReply(access: FaultAccess & { pin: Pin }, replyId: string, input: z.infer<typeof replyInputSchema>) {
+export async function editReply(access: FaultAccess & { pin: Pin }, replyId: string, input: { body: string }) {
   const reply = await requireReply(access.pin.id, replyId);
   requireOwnWithinWindow(reply.authorId, access.user.id, reply.createdAt, "reply");
   const db = await getDb();

@@ -1,21 +1,6 @@
-// The stress state a user enters for reactivation screening: validation (shared by the form and the API),
-// Andersonian regime presets and a default. Pure; usable on the server and in the browser.
-import { z } from "zod";
-import type { StressParameters } from "@/db/schema";
-
-export type StressRegime = StressParameters["regime"];
-
-/** One saved stress-state version as the API returns it (fault's own or the study default). */
-export interface StressStateView {
-  id: string;
-  version: number;
-  scope: "fault" | "study";
-  parameters: StressParameters;
-  source: string;
-  setBy: { id: string; name: string; email: string } | null;
-  createdAt: string;
-}
-
+// Starting values for the stress state a user enters (its check is the contract in lib/contracts/stress.ts): Andersonian
+// regime presets, a default, and the screen's own query parameters. Pure; usable on the server and in the browser.
+import type { StressParameters, StressRegime } from "@/lib/contracts/stress";
 
 /**
  * Illustrative gradients (MPa/km) that reproduce the Andersonian ordering of each regime (Anderson 1951, from
@@ -27,13 +12,6 @@ export const REGIME_PRESETS: Record<Exclude<StressRegime, "custom">, Pick<Stress
   normal: { verticalGradient: 24, maxHorizontalGradient: 18, minHorizontalGradient: 14, porePressureGradient: 10 },
   "strike-slip": { verticalGradient: 24, maxHorizontalGradient: 32, minHorizontalGradient: 16, porePressureGradient: 10 },
   reverse: { verticalGradient: 24, maxHorizontalGradient: 38, minHorizontalGradient: 30, porePressureGradient: 10 },
-};
-
-export const REGIME_LABELS: Record<StressRegime, string> = {
-  normal: "Normal faulting (Sv ≥ SHmax ≥ Shmin)",
-  "strike-slip": "Strike-slip (SHmax ≥ Sv ≥ Shmin)",
-  reverse: "Reverse faulting (SHmax ≥ Shmin ≥ Sv)",
-  custom: "Custom (any ordering)",
 };
 
 export const DEFAULT_STRESS_PARAMETERS: StressParameters = {
@@ -49,58 +27,6 @@ export const DEFAULT_STRESS_PARAMETERS: StressParameters = {
 export function applyPreset(parameters: StressParameters, regime: StressRegime): StressParameters {
   return regime === "custom" ? { ...parameters, regime } : { ...parameters, regime, ...REGIME_PRESETS[regime] };
 }
-
-/** True when the gradients follow the ordering the named regime requires (custom accepts any). */
-export function regimeOrderingHolds(p: Pick<StressParameters, "regime" | "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient">): boolean {
-  const { verticalGradient: v, maxHorizontalGradient: H, minHorizontalGradient: h } = p;
-  if (p.regime === "normal") return v >= H && H >= h;
-  if (p.regime === "strike-slip") return H >= v && v >= h;
-  if (p.regime === "reverse") return H >= h && h >= v;
-  return true;
-}
-
-const number = (what: string, unit: string, min: number, max: number) =>
-  z
-    .number({ error: `${what} must be a number (${unit})` })
-    .refine(Number.isFinite, { message: `${what} must be a finite number (${unit})` })
-    .refine((x) => x >= min && x <= max, { message: `${what} must be between ${min} and ${max} ${unit}` });
-
-const gradient = (what: string) => number(what, "MPa/km", 0.1, 100);
-
-export const stressParametersSchema = z
-  .object({
-    regime: z.enum(["normal", "strike-slip", "reverse", "custom"], { error: "regime must be normal, strike-slip, reverse or custom" }),
-    verticalGradient: gradient("Vertical stress gradient"),
-    minHorizontalGradient: gradient("Minimum horizontal stress gradient"),
-    maxHorizontalGradient: gradient("Maximum horizontal stress gradient"),
-    maxHorizontalAzimuthDeg: number("Azimuth of SHmax", "° from north", 0, 360),
-    porePressureGradient: number("Pore-pressure gradient", "MPa/km", 0, 100),
-    frictionLow: number("Lower friction coefficient", "(dimensionless)", 0.05, 1.5),
-    frictionHigh: number("Upper friction coefficient", "(dimensionless)", 0.05, 1.5),
-    cohesionMPa: number("Cohesion", "MPa", 0, 100),
-    referenceDepthM: number("Reference depth", "m", 1, 20_000),
-  })
-  .superRefine((p, ctx) => {
-    if (p.minHorizontalGradient > p.maxHorizontalGradient) {
-      ctx.addIssue({ code: "custom", path: ["minHorizontalGradient"], message: `Minimum horizontal stress gradient (${p.minHorizontalGradient} MPa/km) must not exceed the maximum (${p.maxHorizontalGradient} MPa/km)` });
-    }
-    if (p.frictionLow > p.frictionHigh) {
-      ctx.addIssue({ code: "custom", path: ["frictionHigh"], message: `Upper friction coefficient (${p.frictionHigh}) must be at least the lower one (${p.frictionLow})` });
-    }
-    if (p.minHorizontalGradient <= p.maxHorizontalGradient && !regimeOrderingHolds(p)) {
-      ctx.addIssue({ code: "custom", path: ["regime"], message: `The gradients do not follow the ${REGIME_LABELS[p.regime]} ordering; fix them or choose "custom"` });
-    }
-  });
-
-export const stressStateInputSchema = z
-  .object({
-    parameters: stressParametersSchema,
-    source: z.string({ error: "source must be text" }).trim().max(2000, { message: "source must be at most 2000 characters" }).default(""),
-    /** true: the study-wide default; false: this fault only */
-    studyWide: z.boolean({ error: "studyWide must be true or false" }).default(false),
-  });
-
-export type StressStateInput = z.infer<typeof stressStateInputSchema>;
 
 export const DEFAULT_THRESHOLDS_MPA = [1, 2, 5];
 

@@ -10,7 +10,7 @@ import { decodeFaultDisplay } from "@/lib/analysis/display";
 import { indicesBySegment } from "@/lib/engine/csv";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
-import type { StressStateInput, StressStateView } from "./parameters";
+import type { StressStateInput, StressStateView } from "@/lib/contracts/stress";
 import {
   ORIENTATION_RANGE_STANDARD_ERRORS,
   defaultLengthScaleM,
@@ -22,7 +22,8 @@ import {
   type SegmentSurface,
   type TriangleScreen,
 } from "./surface";
-import { evenSubsample, summarizeScreen, type ScreenSummary } from "./summary";
+import { evenSubsample, summarizeScreen } from "./summary";
+import type { OrientationBasis, ScreenSummary } from "@/lib/contracts/stress";
 
 async function listStates(studyId: string, faultId: string | null): Promise<StressStateView[]> {
   const db = await getDb();
@@ -84,16 +85,6 @@ export interface SegmentScreen {
   nodes: { slip: Float32Array; dilation: Float32Array; dp: Float32Array; columns: number; rows: number };
 }
 
-/** How the screen took the fault's orientation, as the panel states it. */
-export interface OrientationBasis {
-  /** Gaussian standard deviation of the surface smoothing (m) */
-  lengthScaleM: number;
-  /** what the screen uses when none is asked for, and the median pick spacing it came from */
-  defaultLengthScaleM: number;
-  medianPickSpacingM: number;
-  /** the orientation range spans this many standard errors of each window's mean normal */
-  rangeStandardErrors: number;
-}
 
 export interface FaultScreen {
   analysisId: string;

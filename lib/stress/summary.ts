@@ -1,67 +1,12 @@
 // Area-weighted summaries of a screen: minimum ΔP to failure (each end of the friction band, the more critical end per
 // element, and its range over the orientation uncertainty), area fractions below thresholds,
 // histogram bins, a deterministic subsample for the Mohr plot, and the plain summary sentence. Pure.
-import type { StressParameters } from "@/db/schema";
+import type { Histogram, ScreenSummary, StressParameters } from "@/lib/contracts/stress";
 import type { TriangleScreen } from "./surface";
 import { maxSlipTendency, orderedPrincipal, stressesAtDepth } from "./tensor";
 
-export interface ThresholdFraction {
-  thresholdMPa: number;
-  /** area fraction with ΔP below the threshold at the more critical end of the friction band (per element) */
-  fractionCritical: number;
-  /** area fraction with ΔP below the threshold at both ends of the friction band */
-  fractionBothEnds: number;
-}
 
-export interface Histogram {
-  /** bin edges, MPa; bins = edges.length − 1 */
-  edgesMPa: number[];
-  /** area fraction per bin, ΔP at the lower and the upper friction coefficient */
-  fractionLow: number[];
-  fractionHigh: number[];
-}
 
-export interface ScreenSummary {
-  triangleCount: number;
-  areaM2: number;
-  depthRangeM: [number, number];
-  minPressureToFailureMPa: {
-    /** at each end of the friction band */
-    low: number;
-    high: number;
-    /** the more critical end per element (the smaller of low and high) */
-    critical: number;
-    /** the minimum again with every element's orientation anywhere in its range: [lowest, highest] */
-    criticalRange: [number, number];
-  };
-  /** area fraction where failure is already predicted (ΔP < 0) */
-  failingFraction: {
-    /** at the more critical end of the friction band */
-    critical: number;
-    /** at both ends */
-    bothEnds: number;
-    /** at the more critical end for some orientation within an element's range */
-    withinOrientationRange: number;
-  };
-  thresholds: ThresholdFraction[];
-  slipTendency: { max: number; areaMean: number; maxWithinOrientationRange: number };
-  dilationTendency: { max: number; areaMean: number };
-  /** area-weighted median of the elements' orientation uncertainty and of the slope scatter in their windows (degrees) */
-  orientation: { medianUncertaintyDeg: number; medianSlopeScatterDeg: number };
-  /** triangles with σn′ ≤ 0 (slip tendency undefined) */
-  tensileCount: number;
-  histogram: Histogram;
-  reference: {
-    depthM: number;
-    sigma1MPa: number;
-    sigma2MPa: number;
-    sigma3MPa: number;
-    porePressureMPa: number;
-    /** largest effective slip tendency of any cohesionless plane at the reference depth */
-    maxPossibleSlipTendency: number;
-  };
-  sentence: string;
-}
 
 /** A round step (1, 2 or 5 × 10^k) giving about `target` bins over the span (common practice, no source). */
 export function niceStep(span: number, target = 20): number {

@@ -2,7 +2,7 @@
 // element, but its orientation and depth come from the surface smoothed at a stated length scale (the off-plane
 // distance w of the picks, gridded and fitted locally: lib/engine/surface.ts), not from its own three corners, whose
 // normal mostly measures pick noise. Flat typed arrays in, flat typed arrays out; no I/O.
-import type { StressParameters } from "@/db/schema";
+import type { StressParameters } from "@/lib/contracts/stress";
 import { projectToPlane } from "@/lib/engine/project";
 import { triangulate } from "@/lib/engine/triangulate";
 import type { GridSpec } from "@/lib/engine/grid";

@@ -1,6 +1,6 @@
 // Stress on a plane. Compression positive (geological convention), MPa; coordinates East-North-Up.
 // Pure functions over plain numbers and flat arrays; no I/O.
-import type { StressParameters } from "@/db/schema";
+import type { StressParameters } from "@/lib/contracts/stress";
 
 export type Vec3 = [number, number, number];
 /** symmetric 3×3 tensor, row-major: [xx, xy, xz, yx, yy, yz, zx, zy, zz] */

@@ -1,21 +1,8 @@
 // Growth clues from horizon picks: throw per horizon along strike, throw–depth (T–z) at a chosen position with a
 // reading stated as a hint, throw backstripping, and the expansion index (Thorsen 1963) per interval.
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
+import type { HorizonBin } from "@/lib/contracts/analysis";
 
-export interface HorizonBin {
-  segment: string;
-  horizon: string;
-  /** bin centre along strike (segment plane coordinate s, m) */
-  s: number;
-  /** median throw of the picks in the bin (m) */
-  throwM: number;
-  /** mean elevation of the picks in the bin (m, up positive) */
-  z: number;
-  count: number;
-  /** mean hanging-wall and footwall thickness of the interval below the horizon where given (m), else NaN */
-  hwThicknessM: number;
-  fwThicknessM: number;
-}
 
 /** Optional per-pick interval thicknesses (m) beside the pick columns; NaN where absent. */
 export type PicksWithThickness = PickColumns & { hwThicknessM?: Float64Array; fwThicknessM?: Float64Array };

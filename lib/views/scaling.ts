@@ -2,21 +2,8 @@
 // least squares and reduced major axis, with n's 95 % confidence interval, and the published envelopes drawn behind.
 import type { AnalysisReport } from "@/lib/engine/types";
 import { alongStrike, commonStrikeFrame } from "./profiles";
+import type { FaultScalingPoint } from "@/lib/contracts/analysis";
 
-export interface FaultScalingPoint {
-  faultId: string;
-  name: string;
-  /** fitted Dmax (the observed maximum for reports made before the fit existed), m */
-  dMaxM: number;
-  /** its 5–95 % range, m */
-  dMaxRangeM: [number, number];
-  /** along-strike length of the inferred tip line(s), m */
-  lengthM: number;
-  /** its 5–95 % range, m; the upper end is null where an end is open (the length is then a minimum) */
-  lengthRangeM: [number, number | null];
-  lengthIsMinimum: boolean;
-  segmentCount: number;
-}
 
 /** Along-strike extent of the union of the segments' polygons (world coordinates) on the mean strike. */
 function unionLength(report: AnalysisReport, polygonOf: (segment: AnalysisReport["segments"][number]) => [number, number, number][]): number {

@@ -6,7 +6,8 @@ vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOr
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn() }));
 
 import { getDb } from "@/db/client";
-import { pins, type CameraState } from "@/db/schema";
+import { pins } from "@/db/schema";
+import type { CameraState } from "@/lib/contracts/camera";
 import * as studyRoute from "@/app/api/studies/[studyId]/route";
 import * as faultsRoute from "@/app/api/studies/[studyId]/faults/route";
 import * as viewpointsRoute from "@/app/api/faults/[faultId]/viewpoints/route";

@@ -4,8 +4,8 @@ import { signInAs } from "../support/session";
 vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../support/session")).getSessionUserMock }));
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
 
-import type { StudyRole } from "@/db/schema";
-import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/access";
+import type { StudyRole } from "@/lib/contracts/roles";
+import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/contracts/roles";
 import * as studiesRoute from "@/app/api/studies/route";
 import * as studyRoute from "@/app/api/studies/[studyId]/route";
 import * as membersRoute from "@/app/api/studies/[studyId]/members/route";

@@ -1,3 +1,4 @@
+import type { AnalysisReport } from "@/lib/contracts/report";
 import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
@@ -41,7 +42,7 @@ describe("schema round trip", () => {
       .insert(pickSets)
       .values({ faultId: fault.id, version: 1, fileName: "p.csv", checksum: "abc", sizeBytes: 10, rowCount: 3, units: "m", segmentNames: picks.segmentNames, horizonNames: picks.horizonNames, picks: encodePicks(picks) })
       .returning();
-    const [analysis] = await db.insert(analyses).values({ pickSetId: pickSet.id, result: { segments: [] } }).returning();
+    const [analysis] = await db.insert(analyses).values({ pickSetId: pickSet.id, result: { segments: [] } as unknown as AnalysisReport }).returning();
     const [pin] = await db.insert(pins).values({ faultId: fault.id, pickSetId: pickSet.id, authorId: user.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "Here" }).returning();
     await db.insert(pinReplies).values({ pinId: pin.id, authorId: user.id, body: "Reply" });
     const [viewpoint] = await db

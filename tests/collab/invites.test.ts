@@ -6,7 +6,8 @@ vi.mock("next/cache", () => ({ revalidatePath: vi.fn() }));
 
 import { and, desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { invitations, memberships, outbox, users, type StudyRole } from "@/db/schema";
+import { invitations, memberships, outbox, users } from "@/db/schema";
+import type { StudyRole } from "@/lib/contracts/roles";
 import * as membersRoute from "@/app/api/studies/[studyId]/members/route";
 import * as memberRoute from "@/app/api/studies/[studyId]/members/[userId]/route";
 import { acceptInvitationAction } from "@/app/invite/[token]/actions";

@@ -1,5 +1,7 @@
 import { getDb } from "@/db/client";
-import { analyses, pickSets, pins, type StudyRole } from "@/db/schema";
+import { analyses, pickSets, pins } from "@/db/schema";
+import type { StudyRole } from "@/lib/contracts/roles";
+import type { AnalysisReport } from "@/lib/contracts/report";
 
 /** Gives a fault a finished analysis (pick set vN with the named segments), as pins need one. */
 export async function giveFaultDoneAnalysis(faultId: string, { version = 1, segments = ["north", "south"] } = {}) {
@@ -19,7 +21,8 @@ export async function giveFaultDoneAnalysis(faultId: string, { version = 1, segm
       picks: new Uint8Array([0]),
     })
     .returning();
-  await db.insert(analyses).values({ pickSetId: pickSet.id, status: "done", stage: "done", progress: 1, result: { segments: segments.map((id) => ({ id })) } });
+  await db.insert(analyses).values({ pickSetId: pickSet.id, status: "done", stage: "done", progress: 1, // a stub report: pins need only the segment names
+    result: { segments: segments.map((id) => ({ id })) } as unknown as AnalysisReport });
   return pickSet;
 }
 

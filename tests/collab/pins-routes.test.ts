@@ -6,7 +6,7 @@ vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../s
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { auditLog, pinReplies, pins } from "@/db/schema";
-import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/access";
+import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/contracts/roles";
 import * as faultPinsRoute from "@/app/api/faults/[faultId]/pins/route";
 import * as visitRoute from "@/app/api/faults/[faultId]/pins/visit/route";
 import * as pinRoute from "@/app/api/pins/[pinId]/route";

@@ -6,7 +6,9 @@ vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOr
 
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { auditLog, pinReplies, pins, viewpointLinks, viewpoints, type CameraState, type StudyRole } from "@/db/schema";
+import { auditLog, pinReplies, pins, viewpointLinks, viewpoints } from "@/db/schema";
+import type { CameraState } from "@/lib/contracts/camera";
+import type { StudyRole } from "@/lib/contracts/roles";
 import * as listRoute from "@/app/api/faults/[faultId]/viewpoints/route";
 import * as viewpointRoute from "@/app/api/viewpoints/[viewpointId]/route";
 import * as linksRoute from "@/app/api/viewpoints/[viewpointId]/links/route";
@@ -20,7 +22,7 @@ import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { decodeFaultDisplay } from "@/lib/analysis/display";
 import { demoCsv } from "@/lib/demo";
-import { ROLE_PERMISSIONS } from "@/lib/access";
+import { ROLE_PERMISSIONS } from "@/lib/contracts/roles";
 import { hashLinkToken, LINK_TOKEN_PATTERN, linkState, newLinkToken } from "@/lib/viewpoints";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";

@@ -7,7 +7,7 @@ vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../s
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
 vi.mock("next/cache", () => ({ revalidatePath: vi.fn(), revalidateTag: vi.fn() }));
 
-import type { StudyRole } from "@/db/schema";
+import type { StudyRole } from "@/lib/contracts/roles";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";

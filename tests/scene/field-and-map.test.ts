@@ -22,12 +22,12 @@ describe("surface coloured by a scalar field", () => {
     const nodes = segment.grid.columns * segment.grid.rows;
     const field = new Float32Array(nodes).fill(0.25);
     field[0] = 1;
-    const mesh = buildSurfaceMesh(segment, { colorMode: "slip", exaggeration: 0, colorRangeM: [0, 1], fieldValues: field });
+    const mesh = buildSurfaceMesh(segment, { colourMode: "slip", exaggeration: 0, colorRangeM: [0, 1], fieldValues: field });
     const quarter = parseCssColor(interpolateViridis(0.25));
     for (let channel = 0; channel < 3; channel++) expect(Math.abs(colourAt(mesh.colors, 5)[channel] - quarter[channel])).toBeLessThanOrEqual(1);
     const top = parseCssColor(interpolateViridis(1));
     for (let channel = 0; channel < 3; channel++) expect(Math.abs(colourAt(mesh.colors, 0)[channel] - top[channel])).toBeLessThanOrEqual(1);
-    const reversed = buildSurfaceMesh(segment, { colorMode: "slip", exaggeration: 0, colorRangeM: [0, 1], fieldValues: field, reversed: true });
+    const reversed = buildSurfaceMesh(segment, { colourMode: "slip", exaggeration: 0, colorRangeM: [0, 1], fieldValues: field, reversed: true });
     const bottom = parseCssColor(interpolateViridis(0));
     for (let channel = 0; channel < 3; channel++) expect(Math.abs(colourAt(reversed.colors, 0)[channel] - bottom[channel])).toBeLessThanOrEqual(1);
   });

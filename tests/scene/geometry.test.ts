@@ -42,7 +42,7 @@ function expectColor(colors: Float32Array, vertex: number, css: string, toleranc
 }
 
 describe("buildSurfaceMesh", () => {
-  const options = { colorMode: "displacement" as const, exaggeration: 0, colorRangeM: [0, 50] as [number, number] };
+  const options = { colourMode: "displacement" as const, exaggeration: 0, colorRangeM: [0, 50] as [number, number] };
 
   // basis: common practice, no source (one vertex per grid node, two triangles per full cell)
   it("has one vertex per node and two triangles per cell", () => {
@@ -79,7 +79,7 @@ describe("buildSurfaceMesh", () => {
     const segment = display.segments[0];
     const peak = 4 * segment.grid.columns + 5;
     const throwPeak = segment.grid.throwM[peak];
-    const mesh = buildSurfaceMesh(segment, { ...options, colorMode: "throw", colorRangeM: [0, throwPeak * 2] });
+    const mesh = buildSurfaceMesh(segment, { ...options, colourMode: "throw", colorRangeM: [0, throwPeak * 2] });
     expectColor(mesh.colors, peak, interpolateViridis(0.5));
   });
 

@@ -5,8 +5,8 @@ vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../s
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
 
 import { check } from "@placemarkio/check-geojson";
-import type { StudyRole } from "@/db/schema";
-import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/access";
+import type { StudyRole } from "@/lib/contracts/roles";
+import { ROLE_PERMISSIONS, type StudyAction } from "@/lib/contracts/roles";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { demoCsv } from "@/lib/demo";
 import { DEFAULT_STRESS_PARAMETERS, applyPreset } from "@/lib/stress/parameters";

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import type { StressParameters } from "@/db/schema";
+import type { StressParameters } from "@/lib/contracts/stress";
 import { fitPlane } from "@/lib/engine/plane";
 import { gridSpecFor } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";

@@ -1,9 +1,10 @@
 import path from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import type { StressParameters } from "@/db/schema";
+import type { StressParameters } from "@/lib/contracts/stress";
 import { mulberry32 } from "@/lib/engine/synthetic";
-import { DEFAULT_STRESS_PARAMETERS, REGIME_PRESETS, applyPreset, stressParametersSchema } from "@/lib/stress/parameters";
+import { DEFAULT_STRESS_PARAMETERS, REGIME_PRESETS, applyPreset } from "@/lib/stress/parameters";
+import { stressParametersSchema } from "@/lib/contracts/stress";
 import { rawTriangleElements, screenElements } from "@/lib/stress/surface";
 import { runPythonOracle } from "../support/python";
 import {

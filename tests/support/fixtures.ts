@@ -1,5 +1,6 @@
 import { getDb } from "@/db/client";
-import { faults, memberships, studies, users, type StudyRole } from "@/db/schema";
+import { faults, memberships, studies, users } from "@/db/schema";
+import type { StudyRole } from "@/lib/contracts/roles";
 import type { SessionUser } from "@/lib/auth/users";
 
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireUser } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { createStudy, listStudiesFor, studyInputSchema } from "@/lib/studies";
+import { createStudy, listStudiesFor } from "@/lib/studies";
+import { studyInputSchema } from "@/lib/contracts/studies";
 
 export const GET = route(async () => {
   const user = await requireUser();

@@ -1,6 +1,6 @@
 import { StudyOverview } from "@/components/studies/StudyOverview";
 import { pageStudyAccess } from "@/lib/pages";
-import { roleAllows } from "@/lib/access";
+import { roleAllows } from "@/lib/contracts/roles";
 
 export default async function StudyPage({ params }: { params: Promise<{ studyId: string }> }) {
   const { studyId } = await params;

@@ -2,7 +2,8 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { SharedViewpoint } from "@/components/collab/SharedViewpoint";
 import { ApiError } from "@/lib/api/errors";
-import { lookupLinkToken, publicViewpoint, type PublicViewpoint } from "@/lib/viewpoints";
+import { lookupLinkToken, publicViewpoint } from "@/lib/viewpoints";
+import type { PublicViewpoint } from "@/lib/contracts/viewpoints";
 
 // the token is a secret: keep it out of search engines and out of Referer headers to other sites
 export const metadata: Metadata = { title: "Shared view", robots: { index: false, follow: false }, referrer: "no-referrer" };

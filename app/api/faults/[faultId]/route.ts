@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireFaultRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { deleteFault, faultPatchSchema, getFault, updateFault } from "@/lib/studies";
+import { deleteFault, getFault, updateFault } from "@/lib/studies";
+import { faultPatchSchema } from "@/lib/contracts/studies";
 
 type Params = { faultId: string };
 

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { deletePin, pinPatchSchema, requirePinRole, updatePin } from "@/lib/pins/service";
+import { deletePin, requirePinRole, updatePin } from "@/lib/pins/service";
+import { pinPatchSchema } from "@/lib/contracts/pins";
 
 type Params = { pinId: string };
 

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireStudyRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { deleteStudy, getStudyOverview, studyPatchSchema, updateStudy } from "@/lib/studies";
+import { deleteStudy, getStudyOverview, updateStudy } from "@/lib/studies";
+import { studyPatchSchema } from "@/lib/contracts/studies";
 
 type Params = { studyId: string };
 

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { deleteViewpoint, requireViewpointRole, updateViewpoint, viewpointPatchSchema } from "@/lib/viewpoints";
+import { deleteViewpoint, requireViewpointRole, updateViewpoint } from "@/lib/viewpoints";
+import { viewpointPatchSchema } from "@/lib/contracts/viewpoints";
 
 type Params = { viewpointId: string };
 

@@ -3,7 +3,8 @@ import { requireFaultRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { route } from "@/lib/api/handler";
 import { readUploadedFile } from "@/lib/api/multipart";
-import { confirmUpload, listPickSets, MAX_UPLOAD_BYTES, previewUpload, uploadOptionsSchema } from "@/lib/analysis/uploads";
+import { confirmUpload, listPickSets, MAX_UPLOAD_BYTES, previewUpload } from "@/lib/analysis/uploads";
+import { uploadOptionsSchema } from "@/lib/contracts/analysis";
 
 type Params = { faultId: string };
 

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireFaultRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { createPin, listPins, pinFilterSchema, pinInputSchema } from "@/lib/pins/service";
+import { createPin, listPins } from "@/lib/pins/service";
+import { pinFilterSchema, pinInputSchema } from "@/lib/contracts/pins";
 
 type Params = { faultId: string };
 

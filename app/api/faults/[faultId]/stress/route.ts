@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { requireFaultRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { stressStateInputSchema } from "@/lib/stress/parameters";
+import { stressStateInputSchema } from "@/lib/contracts/stress";
 import { saveStressState, stressStateForFault } from "@/lib/stress/service";
 
 type Params = { faultId: string };

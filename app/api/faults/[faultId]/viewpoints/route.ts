@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireFaultRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { createViewpoint, listViewpoints, viewpointInputSchema } from "@/lib/viewpoints";
+import { createViewpoint, listViewpoints } from "@/lib/viewpoints";
+import { viewpointInputSchema } from "@/lib/contracts/viewpoints";
 
 type Params = { faultId: string };
 

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { replyInputSchema, replyToPin, requirePinRole } from "@/lib/pins/service";
+import { replyToPin, requirePinRole } from "@/lib/pins/service";
+import { replyInputSchema } from "@/lib/contracts/pins";
 
 type Params = { pinId: string };
 

@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireStudyRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { createFault, faultInputSchema, listFaults } from "@/lib/studies";
+import { createFault, listFaults } from "@/lib/studies";
+import { faultInputSchema } from "@/lib/contracts/studies";
 
 type Params = { studyId: string };
 

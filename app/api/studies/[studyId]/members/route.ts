@@ -3,7 +3,8 @@ import { requireStudyRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
 import { inviteMember, listPendingInvitations } from "@/lib/members";
-import { listMembers, memberInputSchema } from "@/lib/studies";
+import { listMembers } from "@/lib/studies";
+import { memberInputSchema } from "@/lib/contracts/studies";
 
 type Params = { studyId: string };
 

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { createViewpointLink, linkInputSchema, listViewpointLinks, requireViewpointRole } from "@/lib/viewpoints";
+import { createViewpointLink, listViewpointLinks, requireViewpointRole } from "@/lib/viewpoints";
+import { linkInputSchema } from "@/lib/contracts/viewpoints";
 
 type Params = { viewpointId: string };
 

@@ -1,6 +1,6 @@
 import { notFound } from "next/navigation";
 import { FaultWorkspace } from "@/components/workspace/FaultWorkspace";
-import { roleAllows } from "@/lib/access";
+import { roleAllows } from "@/lib/contracts/roles";
 import { pageFaultAccess } from "@/lib/pages";
 import { getFault } from "@/lib/studies";
 import { getDb } from "@/db/client";

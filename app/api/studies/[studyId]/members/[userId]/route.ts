@@ -2,7 +2,8 @@ import { NextResponse } from "next/server";
 import { requireStudyRole } from "@/lib/access";
 import { parseWith } from "@/lib/api/errors";
 import { readJson, route } from "@/lib/api/handler";
-import { changeRole, removeMember, rolePatchSchema } from "@/lib/studies";
+import { changeRole, removeMember } from "@/lib/studies";
+import { rolePatchSchema } from "@/lib/contracts/studies";
 
 type Params = { studyId: string; userId: string };
 

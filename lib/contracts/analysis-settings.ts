@@ -1,10 +1,7 @@
-// The settings an interpreter gives a run of the analysis, checked at the edge (route handler, stored parameters).
-// Client-safe: the workspace's form uses the same schema and describes a run with the same words.
+// The settings an interpreter gives a run of the analysis, checked at the edge (route handler, stored parameters in
+// analyses.parameters). Client-safe: the workspace's form uses the same schema and describes a run with the same words.
 import { z } from "zod";
-import { AUTOMATIC_CANDIDATES } from "@/lib/engine/profiles";
-import type { AnalysisSettings, ProfileModel, TipEndSide } from "@/lib/engine/types";
-
-const SIDES = ["strike-start", "strike-end", "up-dip", "down-dip"] as const satisfies readonly TipEndSide[];
+import { PROFILE_MODELS, TIP_END_SIDES, type ProfileModel, type TipEndSide } from "./report";
 const metres = (what: string, max: number) =>
   z
     .number({ error: `${what} must be a number of metres` })
@@ -18,14 +15,17 @@ export const analysisSettingsSchema = z
     cellM: metres("The grid cell", 10_000).optional(),
     throwCutoffM: metres("The resolution cut-off", 1_000).optional(),
     profiles: z
-      .array(z.enum(AUTOMATIC_CANDIDATES as [ProfileModel, ...ProfileModel[]], { error: `The profile must be one of ${AUTOMATIC_CANDIDATES.join(", ")}` }))
+      .array(z.enum(PROFILE_MODELS, { error: `The profile must be one of ${PROFILE_MODELS.join(", ")}` }))
       .min(1)
-      .max(AUTOMATIC_CANDIDATES.length)
+      .max(PROFILE_MODELS.length)
       .optional(),
-    ends: z.partialRecord(z.enum(SIDES), z.enum(["open", "inferred"], { error: "An end is open or inferred" })).optional(),
+    ends: z.partialRecord(z.enum(TIP_END_SIDES), z.enum(["open", "inferred"], { error: "An end is open or inferred" })).optional(),
     smoothingM: metres("The grid smoothing", 10_000).optional(),
   })
   .strict();
+
+/** The settings an interpreter can give an analysis run; every one optional (absent: the default). */
+export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;
 
 export function parseAnalysisSettings(value: unknown): AnalysisSettings {
   return analysisSettingsSchema.parse(value ?? {});

@@ -10,7 +10,7 @@ import path from "node:path";
 import { generateSyntheticPicks, toCsv } from "../lib/engine/synthetic";
 import { parsePickCsv } from "../lib/engine/csv";
 import { fitPlane } from "../lib/engine/plane";
-import { projectToPlane } from "../lib/engine/project";
+import { projectToPlane } from "../lib/display/frame";
 import { displacementColumn } from "../lib/engine/displacement";
 
 const PYTHON = ["python3", "/usr/bin/python3"].find((python) => spawnSync(python, ["-c", "import scipy"], { stdio: "ignore" }).status === 0) ?? "python3";

@@ -11,7 +11,7 @@ import path from "node:path";
 import { generateSyntheticPicks, toCsv } from "../lib/engine/synthetic";
 import { parsePickCsv } from "../lib/engine/csv";
 import { fitPlane } from "../lib/engine/plane";
-import { projectToPlane } from "../lib/engine/project";
+import { projectToPlane } from "../lib/display/frame";
 import { displacementColumn } from "../lib/engine/displacement";
 import { analyzePicks, type PipelineOptions } from "../lib/engine/pipeline";
 import { threadedTipLineFitter } from "../lib/analysis/tipline-thread";
@@ -69,7 +69,7 @@ function pipelineOnce(csv: string, options: PipelineOptions & { square: boolean 
   const marks: [string, number][] = [["parse", performance.now()]];
   const parsed = parsePickCsv(csv);
   marks.push(["plane", performance.now()]);
-  const result = analyzePicks(parsed.picks, { ...options, onStage: (stage) => { if (stage !== "plane") marks.push([stage, performance.now()]); } });
+  const result = analyzePicks(parsed.picks, { ...options, planes: parsed.planes, onStage: (stage) => { if (stage !== "plane") marks.push([stage, performance.now()]); } });
   const times: Record<string, number> = {};
   for (let k = 0; k + 1 < marks.length; k++) times[marks[k][0]] = (times[marks[k][0]] ?? 0) + marks[k + 1][1] - marks[k][1];
   const [segment] = result.report.segments;

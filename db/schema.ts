@@ -171,6 +171,19 @@ export const analyses = pgTable(
   (table) => [index("analyses_pick_set_idx").on(table.pickSetId)],
 );
 
+/**
+ * What an analysis computed besides its report and display payload, kept so nothing is computed twice: the
+ * full-resolution grids (the exports read them) and each segment's triangulation of the picks (the stress screen reads
+ * it). One deflated record per analysis (lib/analysis/outputs.ts), written in the transaction that ends the analysis.
+ */
+export const analysisOutputs = pgTable("analysis_outputs", {
+  analysisId: text("analysis_id")
+    .primaryKey()
+    .references(() => analyses.id, { onDelete: "cascade" }),
+  body: bytea("body").notNull(),
+  createdAt: createdAt(),
+});
+
 export const pins = pgTable(
   "pins",
   {

@@ -8,7 +8,9 @@ import { Canvas, useFrame, useThree, type ThreeEvent } from "@react-three/fiber"
 import { AdaptiveDpr, Html, Line, OrbitControls } from "@react-three/drei";
 import * as THREE from "three";
 import type { OrbitControls as OrbitControlsImpl } from "three-stdlib";
-import type { DisplaySegment, FaultDisplay, Vec3 } from "@/lib/analysis/display";
+import type { DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
+import type { Vec3 } from "@/lib/contracts/json";
+import { planeToWorld, shiftedFrame, worldToPlane, writePlaneToWorld } from "@/lib/display/frame";
 import {
   buildContourLines,
   buildMappedLimitLines,
@@ -18,9 +20,7 @@ import {
   depthLabels,
   displayBounds,
   displayExtentM,
-  frameCoordinates,
   lineLiftM,
-  planePointWorld,
   residualRangeM,
   surfaceValueAt,
   buildOpenTipLines,
@@ -252,8 +252,8 @@ function SegmentSurface({
   const publishReadout = useReadoutPublisher();
 
   const hitAt = (point: THREE.Vector3) => {
-    const [s, t] = frameCoordinates(segment.frame, point.x, point.y, point.z);
-    const [x, y, z] = planePointWorld(segment.frame, origin, s, t);
+    const [s, t] = worldToPlane(segment.frame, point.x, point.y, point.z);
+    const [x, y, z] = planeToWorld(shiftedFrame(segment.frame, origin), s, t);
     return { s, t, x, y, z };
   };
 
@@ -461,10 +461,10 @@ function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLa
     for (const segment of display.segments) {
       const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
       const point = new Float32Array(3);
-      planePointLocal(segment, top[0], top[1], lift, point);
+      writePlaneToWorld(segment.frame, top[0], top[1], lift, point, 0);
       out.push({ key: `${segment.id}:segment`, kind: "segment", text: `Segment ${segment.id}`, position: [point[0], point[1], point[2]] });
       if (showPeak) {
-        planePointLocal(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point);
+        writePlaneToWorld(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point, 0);
         out.push({ key: `${segment.id}:peak`, kind: "peak", text: `Peak ${formatMetres(segment.max.displacementM)}`, position: [point[0], point[1], point[2]] });
       }
     }
@@ -562,13 +562,6 @@ function useLabelDeclutter(labels: SceneLabel[], elements: React.RefObject<Map<s
       element.style.transform = `translate(${dx.toFixed(1)}px, ${dy.toFixed(1)}px)`;
     });
   });
-}
-
-function planePointLocal(segment: DisplaySegment, s: number, t: number, h: number, out: Float32Array) {
-  const { frame } = segment;
-  for (let axis = 0; axis < 3; axis++) {
-    out[axis] = frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis] + h * frame.normal[axis];
-  }
 }
 
 function DepthLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {

@@ -2,7 +2,8 @@
 // restored exactly whatever local origin the scene happens to use. The scene records the camera here when
 // the person moves it and carries out requests (restore a state, go to a preset).
 import { create } from "zustand";
-import type { DisplayFrame, Vec3 } from "@/lib/analysis/display";
+import type { DisplayFrame } from "@/lib/contracts/display";
+import type { Vec3 } from "@/lib/contracts/json";
 import type { Bounds } from "./geometry";
 import type { CameraState } from "@/lib/contracts/camera";
 

@@ -2,7 +2,9 @@
 // anywhere. All positions are in world-local metres: world position minus FaultDisplay.origin.
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
 import type { ColourMode } from "@/lib/contracts/scene-settings";
-import { sampleGrid, type DisplayFrame, type DisplayGrid, type DisplaySegment, type FaultDisplay } from "@/lib/analysis/display";
+import type { DisplayGrid, DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
+import { writePlaneToWorld } from "@/lib/display/frame";
+import { AS_DRAWN, EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
 
 
 /**
@@ -95,30 +97,6 @@ export const residualColorLut = () => (residualLut ??= colorLut(residualInterpol
 
 // ---- the plane frame -------------------------------------------------------------------------------------
 
-/** centroid + s·strike + t·dip + h·normal, written into out[offset..offset+2] */
-export function planePoint(frame: DisplayFrame, s: number, t: number, h: number, out: Float32Array, offset: number) {
-  for (let axis = 0; axis < 3; axis++) {
-    out[offset + axis] =
-      frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis] + h * frame.normal[axis];
-  }
-}
-
-/** World coordinates (float64) of the plane point (s, t) of a segment whose frame is relative to `origin`. */
-export function planePointWorld(frame: DisplayFrame, origin: readonly number[], s: number, t: number): [number, number, number] {
-  const point: [number, number, number] = [0, 0, 0];
-  for (let axis = 0; axis < 3; axis++) {
-    point[axis] = origin[axis] + frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis];
-  }
-  return point;
-}
-
-/** (s, t, h) of a world-local point in a segment's frame */
-export function frameCoordinates(frame: DisplayFrame, x: number, y: number, z: number): [number, number, number] {
-  const d = [x - frame.centroid[0], y - frame.centroid[1], z - frame.centroid[2]];
-  const dot = (v: readonly number[]) => d[0] * v[0] + d[1] * v[1] + d[2] * v[2];
-  return [dot(frame.strikeVector), dot(frame.dipVector), dot(frame.normal)];
-}
-
 /** lines sit this far off the surface along the normal so they are not hidden in it */
 export function lineLiftM(display: FaultDisplay): number {
   return Math.max(0.5, displayExtentM(display) * 0.002);
@@ -166,7 +144,7 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
       const node = row * columns + column;
       const displacement = grid.displacementM[node];
       const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
-      planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
+      writePlaneToWorld(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
       const value = colorValues[node];
       const fraction = (value - low) / span;
       const entry = Number.isNaN(value) ? 0 : lutIndex(options.reversed ? 1 - fraction : fraction) * 3;
@@ -191,24 +169,9 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
   return { positions, colors, indices: Uint32Array.from(indices) };
 }
 
-/**
- * The value the drawn surface shows at (s, t): linear on the same triangles as `buildSurfaceMesh`;
- * NaN outside the grid or where a corner has no data.
- */
+/** The value the drawn surface shows at (s, t): linear on the same triangles as `buildSurfaceMesh` (NaN off it). */
 export function surfaceValueAt(grid: DisplayGrid, values: Float32Array, s: number, t: number): number {
-  const u = (s - grid.s0) / grid.cellM;
-  const v = (t - grid.t0) / grid.cellM;
-  const column = Math.min(Math.max(Math.floor(u), 0), grid.columns - 2);
-  const row = Math.min(Math.max(Math.floor(v), 0), grid.rows - 2);
-  const fu = u - column;
-  const fv = v - row;
-  const tolerance = 1e-6;
-  if (fu < -tolerance || fv < -tolerance || fu > 1 + tolerance || fv > 1 + tolerance) return NaN;
-  const at = (dc: number, dr: number) => values[(row + dr) * grid.columns + column + dc];
-  const [a, b, c, d] = [at(0, 0), at(1, 0), at(0, 1), at(1, 1)];
-  // barycentric on triangle (a, b, d) when fu >= fv, else on (a, d, c)
-  if (fu >= fv) return a + fu * (b - a) + fv * (d - b);
-  return a + fv * (c - a) + fu * (d - c);
+  return sampleGrid(grid, values, s, t, AS_DRAWN);
 }
 
 // ---- lines -----------------------------------------------------------------------------------------------
@@ -238,8 +201,8 @@ export function buildContourLines(display: FaultDisplay, exaggeration: number, c
       const height = levelM * exaggeration + lift;
       const colour = colourOf?.(levelM);
       for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1] - 1; point++) {
-        planePoint(frame, contours.points[point * 2], contours.points[point * 2 + 1], height, positions, offset);
-        planePoint(frame, contours.points[point * 2 + 2], contours.points[point * 2 + 3], height, positions, offset + 3);
+        writePlaneToWorld(frame, contours.points[point * 2], contours.points[point * 2 + 1], height, positions, offset);
+        writePlaneToWorld(frame, contours.points[point * 2 + 2], contours.points[point * 2 + 3], height, positions, offset + 3);
         if (colors && colour) colors.set([...colour, ...colour], offset);
         offset += 6;
       }
@@ -296,8 +259,8 @@ function polygonPieces(
       for (let i = 0; i + 1 < piece.length; i++) {
         const [s0, t0] = piece[i];
         const [s1, t1] = piece[i + 1];
-        planePoint(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
-        planePoint(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
+        writePlaneToWorld(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
+        writePlaneToWorld(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
         for (const value of scratch) pairs.push(value);
       }
     }
@@ -344,7 +307,7 @@ export function buildMappedLimitLines(display: FaultDisplay, exaggeration: numbe
     display,
     (segment) => segment.mappedLimit,
     (segment, s, t) => {
-      const displacement = sampleGrid(segment.grid, segment.grid.displacementM, s, t);
+      const displacement = sampleGrid(segment.grid, segment.grid.displacementM, s, t, EDGE_TOLERANT_BILINEAR);
       return (Number.isNaN(displacement) ? 0 : displacement * exaggeration) + lift;
     },
   );
@@ -390,7 +353,7 @@ export function buildPickPoints(display: FaultDisplay, exaggeration: number, ran
 /** Where each segment's peak marker sits: its maximum displacement, on the surface, lifted twice. */
 export function peakPosition(segment: DisplaySegment, exaggeration: number, liftM: number): [number, number, number] {
   const point = new Float32Array(3);
-  planePoint(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + liftM * 2, point, 0);
+  writePlaneToWorld(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + liftM * 2, point, 0);
   return [point[0], point[1], point[2]];
 }
 
@@ -415,7 +378,7 @@ export function framingPoints(display: FaultDisplay, exaggeration: number): Floa
   const point = new Float32Array(3);
   for (const segment of display.segments) {
     for (const [s, t] of [...segment.tipLine, ...segment.mappedLimit]) {
-      planePoint(segment.frame, s, t, 0, point, 0);
+      writePlaneToWorld(segment.frame, s, t, 0, point, 0);
       out.push(point[0], point[1], point[2]);
     }
     out.push(...peakPosition(segment, exaggeration, 0));
@@ -439,12 +402,12 @@ export function displayBounds(display: FaultDisplay, exaggeration: number): Boun
       for (let column = 0; column < grid.columns; column++) {
         const displacement = grid.displacementM[row * grid.columns + column];
         if (Number.isNaN(displacement)) continue;
-        planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, displacement * exaggeration, point, 0);
+        writePlaneToWorld(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, displacement * exaggeration, point, 0);
         include();
       }
     }
     for (const [s, t] of tipLine) {
-      planePoint(frame, s, t, 0, point, 0);
+      writePlaneToWorld(frame, s, t, 0, point, 0);
       include();
     }
   }
@@ -505,7 +468,7 @@ export function depthLabels(display: FaultDisplay, originZ: number, count = 5): 
   const point = new Float32Array(3);
   return niceTicks(depths[0], depths[1], count).map((depthM) => {
     const t = (-depthM - originZ - frame.centroid[2] - s * frame.strikeVector[2]) / dipZ;
-    planePoint(frame, s, t, 0, point, 0);
+    writePlaneToWorld(frame, s, t, 0, point, 0);
     return { position: [point[0], point[1], point[2]], depthM };
   });
 }

@@ -1,6 +1,7 @@
 // The 2D contour map: every segment's contour rings, tip line, mapped limit and peak drawn in one (s, t)
 // frame (the first segment's), so a multi-segment fault reads as one map. Pure; used by the SVG fallback.
-import type { DisplayFrame, FaultDisplay } from "@/lib/analysis/display";
+import type { DisplayFrame, FaultDisplay } from "@/lib/contracts/display";
+import { planeToWorld, worldToPlane } from "@/lib/display/frame";
 
 export interface MapPath {
   segmentId: string;
@@ -35,13 +36,7 @@ export interface ContourMap {
 
 /** (s, t) of one segment's plane point in the reference frame; both frames relative to the same origin */
 export function toReferenceFrame(from: DisplayFrame, reference: DisplayFrame, s: number, t: number): [number, number] {
-  let sRef = 0;
-  let tRef = 0;
-  for (let axis = 0; axis < 3; axis++) {
-    const offset = from.centroid[axis] + s * from.strikeVector[axis] + t * from.dipVector[axis] - reference.centroid[axis];
-    sRef += offset * reference.strikeVector[axis];
-    tRef += offset * reference.dipVector[axis];
-  }
+  const [sRef, tRef] = worldToPlane(reference, ...planeToWorld(from, s, t));
   return [sRef, tRef];
 }
 

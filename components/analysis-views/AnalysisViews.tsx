@@ -1,7 +1,7 @@
 "use client";
 // Analysis views below the 3D viewer: strike profile, down-dip profile and growth clues, scaling chart, relays, exports.
 import { useState } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { fileStem } from "@/lib/views/csv";
 import { DipGrowthView } from "./DipGrowthView";

@@ -1,14 +1,15 @@
 "use client";
+import { planeToWorld } from "@/lib/display/frame";
 import * as Plot from "@observablehq/plot";
 import { useQuery } from "@tanstack/react-query";
 import { useMemo, useState } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import { apiFetch } from "@/lib/api/client";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { toCsv } from "@/lib/views/csv";
 import { backstripThrows, expansionIndex, readThrowDepth, throwDepthAt } from "@/lib/views/growth";
 import type { HorizonBin, HorizonBinsResponse } from "@/lib/contracts/analysis";
-import { dipProfileAtS, planePointToWorld, tipBandOnLine } from "@/lib/views/profiles";
+import { dipProfileAtS, tipBandOnLine } from "@/lib/views/profiles";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
 export function DipGrowthView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
@@ -17,7 +18,7 @@ export function DipGrowthView({ faultId, report, display, stem }: { faultId: str
       report.segments.flatMap((segment, index) => {
         const grid = display.segments.find((s) => s.id === segment.id)?.grid ?? display.segments[index].grid;
         const profile = dipProfileAtS(grid, segment.max.s);
-        return profile.t.map((t, k) => ({ series: segment.id, t, z: planePointToWorld(segment.plane, profile.s[k], t)[2], displacementM: profile.displacementM[k], throwM: profile.throwM[k] }));
+        return profile.t.map((t, k) => ({ series: segment.id, t, z: planeToWorld(segment.plane, profile.s[k], t)[2], displacementM: profile.displacementM[k], throwM: profile.throwM[k] }));
       }),
     [report, display],
   );

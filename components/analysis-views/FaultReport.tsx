@@ -3,7 +3,7 @@ import * as Plot from "@observablehq/plot";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { useMemo, useState } from "react";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
 import { strikeProjection } from "@/lib/views/projection";

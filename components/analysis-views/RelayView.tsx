@@ -1,7 +1,7 @@
 "use client";
 import * as Plot from "@observablehq/plot";
 import { useMemo } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import { LINKAGE_BASIS, rampDipDeg } from "@/lib/engine/relays";
 import type { AnalysisReport, RelayResult } from "@/lib/engine/types";
 import { useQuery } from "@tanstack/react-query";

@@ -1,7 +1,8 @@
 "use client";
+import { planeToWorld } from "@/lib/display/frame";
 import * as Plot from "@observablehq/plot";
 import { useMemo, useRef, useState } from "react";
-import type { DisplaySegment, FaultDisplay } from "@/lib/analysis/display";
+import type { DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
 import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
 import { toCsv } from "@/lib/views/csv";
 import {
@@ -9,7 +10,6 @@ import {
   commonStrikeFrame,
   modelStrikeProfile,
   overlapZone,
-  planePointToWorld,
   alongStrike,
   profileAlongLine,
   strikeProfileAtT,
@@ -73,7 +73,7 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
         if (model) {
           const factor = quantity === "throw" ? Math.sin((segment.plane.dipDeg * Math.PI) / 180) : 1;
           const rowT = mode === "column-max" ? segment.tipLine.profile.centre.t : segment.max.t;
-          const toX = (s: number) => (common ? alongStrike(frame, ...(planePointToWorld(segment.plane, s, rowT).slice(0, 2) as [number, number])) : s);
+          const toX = (s: number) => (common ? alongStrike(frame, ...(planeToWorld(segment.plane, s, rowT).slice(0, 2) as [number, number])) : s);
           model.s.forEach((s, k) => modelRows.push({ series: `${segment.id}: ${model.name}`, x: toX(s), value: model.displacementM[k] * factor, s, t: rowT }));
           if (model.tipsS) {
             const [start, end] = model.tipsS;

@@ -5,7 +5,8 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { roleAllows, type StudyRole } from "@/lib/contracts/roles";
-import type { FaultDisplay, Vec3 } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
+import type { Vec3 } from "@/lib/contracts/json";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import type { PinList, PinView, ReplyView } from "@/lib/contracts/pins";
 import { useAnnotationStore } from "@/scene/annotationStore";

@@ -3,7 +3,7 @@
 // Everything comes from the token-scoped routes under /api/v/[token]; nothing here links into the study.
 import { useEffect, useMemo } from "react";
 import { useQuery } from "@tanstack/react-query";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import type { PublicViewpoint } from "@/lib/contracts/viewpoints";
 import { FaultSheet } from "@/components/workspace/FaultSheet";
 import { FaultViewer } from "@/components/workspace/FaultViewer";

@@ -2,7 +2,7 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
 import { roleAllows, type StudyRole } from "@/lib/contracts/roles";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { REGIME_LABELS, type StressStateView } from "@/lib/contracts/stress";
 import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, LENGTH_SCALE_LIMITS_M, parseLengthScale, parseThresholds } from "@/lib/stress/parameters";

@@ -1,9 +1,10 @@
 "use client";
 // The flat contour map in fault-plane coordinates: the fallback when WebGL is missing, and a view of its own.
 import { useMemo } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import { buildContourMap } from "@/scene/map2d";
-import { frameCoordinates, niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import { worldToPlane } from "@/lib/display/frame";
 import type { ScenePin } from "@/scene/FaultScene";
 import { metres } from "./format";
 
@@ -14,7 +15,7 @@ export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisp
   const map = useMemo(() => buildContourMap(display), [display]);
   const reference = display.segments[0].frame;
   const pinPoints = pins.map((pin) => {
-    const [s, t] = frameCoordinates(reference, pin.x - display.origin[0], pin.y - display.origin[1], pin.z - display.origin[2]);
+    const [s, t] = worldToPlane(reference, pin.x - display.origin[0], pin.y - display.origin[1], pin.z - display.origin[2]);
     return { ...pin, s, t };
   });
   const { sMin, sMax, tMin, tMax } = map.bounds;

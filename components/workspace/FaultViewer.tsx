@@ -3,7 +3,7 @@
 // colour legend, the hover readout and the scale bar as plain HTML around the canvas.
 import dynamic from "next/dynamic";
 import { useMemo, useState, type ReactNode } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset } from "@/scene/cameraStore";
 import type { CameraState } from "@/lib/contracts/camera";

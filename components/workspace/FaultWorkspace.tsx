@@ -4,7 +4,7 @@ import { useSearchParams } from "next/navigation";
 import { useState } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch } from "@/lib/api/client";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import { ANALYSIS_STAGES, type AnalysisResponse, type PickSetsResponse } from "@/lib/contracts/analysis";
 import type { StudyRole } from "@/lib/contracts/roles";
 import { useAnnotationStore } from "@/scene/annotationStore";

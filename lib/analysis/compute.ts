@@ -1,7 +1,9 @@
 import { analyzePicks, type PipelineResult, type TipLineFitter } from "@/lib/engine/pipeline";
 import type { AnalysisReport, AnalysisSettings } from "@/lib/engine/types";
-import { decodePicks } from "@/lib/picks/codec";
-import { buildFaultDisplay, encodeFaultDisplay } from "./display";
+import { decodePickSet } from "@/lib/picks/codec";
+import { buildFaultDisplay } from "@/lib/display/build";
+import { encodeFaultDisplay } from "@/lib/display/payload";
+import { packAnalysisOutputs } from "./outputs";
 
 export interface AnalysisJob {
   picks: Uint8Array;
@@ -15,17 +17,20 @@ export interface AnalysisJob {
 export interface AnalysisOutput {
   report: AnalysisReport;
   display: Uint8Array;
+  /** full-resolution grids and triangulations, packed (./outputs.ts) */
+  outputs: Uint8Array;
 }
 
 /** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
 export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}, threads: { tipLineFitter?: TipLineFitter } = {}): AnalysisOutput {
-  const picks = decodePicks(job.picks);
-  const { report, grids } = analyzePicks(picks, { ...job.settings, units: job.units, onStage, ...threads });
+  const { picks, planes } = decodePickSet(job.picks);
+  const { report, grids, triangulations } = analyzePicks(picks, { ...job.settings, units: job.units, planes, onStage, ...threads });
   onStage("display", 0.98);
-  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
+  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })), outputs: packAnalysisOutputs({ grids, triangulations }) };
 }
 
 /** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */
 export function computeFullResolution(job: AnalysisJob, threads: { tipLineFitter?: TipLineFitter } = {}): PipelineResult {
-  return analyzePicks(decodePicks(job.picks), { ...job.settings, units: job.units, ...threads });
+  const { picks, planes } = decodePickSet(job.picks);
+  return analyzePicks(picks, { ...job.settings, units: job.units, planes, ...threads });
 }

@@ -2,7 +2,8 @@ import "server-only";
 import { and, desc, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, base64Bytes, pickSets } from "@/db/schema";
-import type { AnalysisReport } from "@/lib/engine/types";
+import type { AnalysisReport } from "@/lib/contracts/report";
+import { decodeFaultDisplay, reportWithContourRings, withoutContourRings } from "@/lib/display/payload";
 import { lruCache } from "@/lib/lru";
 import type { AnalysisRun } from "@/lib/contracts/analysis";
 
@@ -15,7 +16,7 @@ import type { AnalysisRun } from "@/lib/contracts/analysis";
  * more than the rest of the request (measured with `npm run loadtest` and a CPU profile). Keys carry the fault id, so
  * a cached value is only ever served for the fault it belongs to.
  */
-const finishedReports = lruCache<unknown>(64);
+const finishedReports = lruCache<AnalysisReport>(64);
 /** whole response bodies of finished analyses, serialised once (re-serialising a large report costs more than the rest of a poll) */
 const finishedReportBodies = lruCache<string>(64);
 const finishedDisplays = lruCache<Uint8Array>(64);
@@ -57,31 +58,29 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
   let result = row.status === "done" ? finishedReports.get(key) : undefined;
   if (result === undefined) {
     const [stored] = await db.select({ result: analyses.result, status: analyses.status }).from(analyses).where(eq(analyses.id, row.id));
-    result = stored?.result ?? null;
-    if (stored?.status === "done" && result !== null) finishedReports.set(key, result);
+    result = stored?.result ?? undefined;
+    if (stored?.status === "done" && result !== undefined) finishedReports.set(key, result);
   }
-  return { ...row, result: result as (typeof analyses.$inferSelect)["result"] };
-}
-
-/** The report without its contour rings (nine tenths of its size; the display payload carries them for drawing). */
-export function withoutContourRings(report: AnalysisReport): AnalysisReport {
-  return { ...report, segments: report.segments.map((segment) => ({ ...segment, contours: segment.contours.map(({ levelM }) => ({ levelM, rings: [] })) })) };
+  return { ...row, result: result ?? null };
 }
 
 /**
- * The JSON body of GET /api/faults/:id/analysis ({ analysis }), whole or without contour rings; serialised once per
- * finished analysis (a finished analysis and its pick set never change). Next's route handlers drop a
- * Content-Encoding set by the handler, so the body cannot be kept compressed as well: next compresses each response.
+ * The JSON body of GET /api/faults/:id/analysis ({ analysis }), with or without contour rings; serialised once per
+ * finished analysis (a finished analysis and its pick set never change). The stored report keeps its contour levels
+ * without rings, which live once in the display payload: the whole report puts them back from there. Next's route
+ * handlers drop a Content-Encoding set by the handler, so the body cannot be kept compressed as well: next compresses
+ * each response.
  */
 export async function latestAnalysisResponseBody(faultId: string, options: { pickSetId?: string; analysisId?: string; contourRings?: boolean } = {}): Promise<string> {
   const latest = await latestAnalysisForFault(faultId, options.pickSetId, options.analysisId);
   const rings = options.contourRings ?? true;
-  const shaped = (analysis: NonNullable<typeof latest>) => (rings || !analysis.result ? analysis : { ...analysis, result: withoutContourRings(analysis.result as AnalysisReport) });
-  if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest && shaped(latest) });
+  if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest && { ...latest, result: latest.result && withoutContourRings(latest.result) } });
   const key = `${faultId}:${latest.id}:${rings ? "whole" : "no-rings"}`;
   let body = finishedReportBodies.get(key);
   if (body === undefined) {
-    body = JSON.stringify({ analysis: shaped(latest) });
+    const display = rings ? await analysisDisplay(faultId, latest.id) : null;
+    const result = display ? reportWithContourRings(latest.result, decodeFaultDisplay(display)) : withoutContourRings(latest.result);
+    body = JSON.stringify({ analysis: { ...latest, result } });
     finishedReportBodies.set(key, body);
   }
   return body;

@@ -1,13 +1,14 @@
 import "server-only";
 import { and, DrizzleQueryError, eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, base64Bytes, jobs, pickSets } from "@/db/schema";
+import { analyses, analysisOutputs, base64Bytes, jobs, pickSets } from "@/db/schema";
 import { ENGINE_VERSION } from "@/lib/engine/pipeline";
 import { claimJobOf, enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { holdWhileRunning, LeaseLost, newWorkerId, type JobContext, type JobHandler } from "@/lib/jobs/processor";
 import type { AnalysisJob } from "./compute";
 import type { AnalysisSettings } from "@/lib/engine/types";
 import { parseAnalysisSettings } from "@/lib/contracts/analysis-settings";
+import { withoutContourRings } from "@/lib/display/payload";
 import { analysisTimeLimitMs, ComputeAborted, computeAnalysisOffThread } from "./worker-pool";
 
 /**
@@ -56,7 +57,7 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
   const stageWrites: Promise<unknown>[] = [];
   try {
     const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, settings: parseAnalysisSettings(analysis.parameters) };
-    const { report, display } = await computeAnalysisOffThread(
+    const { report, display, outputs } = await computeAnalysisOffThread(
       input,
       (stage, fraction) => {
         const now = Date.now();
@@ -71,8 +72,10 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
       if (!(await finishJob(tx, job.id, owner, { state: "done" }))) throw new LeaseLost();
       await tx
         .update(analyses)
-        .set({ status: "done", stage: "done", progress: 1, result: report, display, engineVersion: ENGINE_VERSION, finishedAt: new Date() })
+        // the report without contour rings: the display payload holds them (once)
+        .set({ status: "done", stage: "done", progress: 1, result: withoutContourRings(report), display, engineVersion: ENGINE_VERSION, finishedAt: new Date() })
         .where(eq(analyses.id, analysisId));
+      await tx.insert(analysisOutputs).values({ analysisId, body: outputs }).onConflictDoUpdate({ target: analysisOutputs.analysisId, set: { body: outputs } });
     });
   } catch (error) {
     await Promise.allSettled(stageWrites);

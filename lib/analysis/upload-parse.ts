@@ -97,5 +97,5 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
     }
     throw error;
   }
-  return { parsed, encoded: job.encode ? packPicks(parsed.picks) : null };
+  return { parsed, encoded: job.encode ? packPicks(parsed.picks, parsed.planes) : null };
 }

@@ -53,7 +53,7 @@ function runJob(job: AnalysisJob | UploadParseJob, tipLineFitter: ReturnType<typ
       parentPort!.postMessage({ kind: "done", output: computeFullResolution(job, { tipLineFitter }) });
     } else {
       const output = computeAnalysis(job, (stage, fraction) => parentPort!.postMessage({ kind: "stage", stage, fraction }), { tipLineFitter });
-      parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer]);
+      parentPort!.postMessage({ kind: "done", output }, [output.display.buffer as ArrayBuffer, output.outputs.buffer as ArrayBuffer]);
     }
   } catch (error) {
     failed(error);

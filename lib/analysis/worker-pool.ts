@@ -1,5 +1,5 @@
 import "server-only";
-import { existsSync } from "node:fs";
+import { existsSync, statSync } from "node:fs";
 import path from "node:path";
 import { Worker } from "node:worker_threads";
 import type { PipelineResult } from "@/lib/engine/pipeline";
@@ -63,10 +63,19 @@ let workerStarts = 0;
  */
 export const YOUNG_GENERATION_MB = 96;
 
+/** the worker bundle's modification time when each thread started it */
+const bundleTimes = new WeakMap<Worker, number>();
+const bundleTime = () => (existsSync(WORKER_FILE) ? statSync(WORKER_FILE).mtimeMs : 0);
+
 function takeWorker(): Worker {
-  const warm = idleWorkers.pop();
-  if (warm) {
+  const current = bundleTime();
+  for (let warm = idleWorkers.pop(); warm; warm = idleWorkers.pop()) {
     clearTimeout(idleTimers.get(warm));
+    // a thread started from an older bundle (npm run dev rebuilds it when the engine changes) is not reused
+    if (bundleTimes.get(warm) !== current) {
+      void warm.terminate();
+      continue;
+    }
     warm.ref();
     return warm;
   }
@@ -75,6 +84,7 @@ function takeWorker(): Worker {
   // a thread that dies while waiting idle is simply forgotten (a running job's own handlers report its failure)
   worker.on("error", () => discardIdle(worker));
   worker.on("exit", () => discardIdle(worker));
+  bundleTimes.set(worker, current);
   return worker;
 }
 

@@ -21,3 +21,4 @@ export const isoTime = z.iso.datetime({ offset: true });
 /** The error body every route answers a failure with. */
 export const apiErrorSchema = z.object({ error: z.string().min(1), details: z.record(z.string(), z.unknown()).optional() });
 export type ApiErrorBody = z.infer<typeof apiErrorSchema>;
+export type Vec3 = z.infer<typeof vec3>;

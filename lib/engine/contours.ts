@@ -1,6 +1,6 @@
 import { contours as d3Contours } from "d3-contour";
 import type { Ring } from "./types";
-import type { GridSpec } from "./grid";
+import type { GridSpec } from "@/lib/display/grid-sampler";
 
 /** A "nice" interval (1, 2, 2.5 or 5 × 10^k) giving roughly 8–12 levels between 0 and maxValue. */
 export function niceInterval(maxValue: number, targetLevels = 10): number {

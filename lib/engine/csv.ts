@@ -1,7 +1,7 @@
 import Papa from "papaparse";
 // zod/mini: the same validation without loading zod's full API (about 50 ms of every command-line start)
 import * as z from "zod/mini";
-import type { LengthUnit, ParseResult, PickColumns, RejectedRow } from "./types";
+import type { LengthUnit, ParseResult, PickColumns, PlaneFit, RejectedRow } from "./types";
 import { DegeneratePlaneError, fitPlane } from "./plane";
 
 export const MAX_REJECTED_LISTED = 200;
@@ -91,6 +91,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
 
   const segmentProblems: RejectedRow[] = [];
   const perSegment = indicesBySegment(picks);
+  // the check fits each segment's plane (unweighted); the fit is handed on, so the analysis does not fit it again
+  const planes: (PlaneFit | null)[] = perSegment.map(() => null);
   perSegment.forEach((ids, si) => {
     const name = picks.segmentNames[si];
     if (ids.length < 3) {
@@ -98,7 +100,7 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
       return;
     }
     try {
-      fitPlane(picks.x, picks.y, picks.z, ids);
+      planes[si] = fitPlane(picks.x, picks.y, picks.z, ids);
     } catch (e) {
       if (!(e instanceof DegeneratePlaneError)) throw e;
       segmentProblems.push({ row: picks.sourceRow[ids[0]], column: "x,y,z", reason: `segment "${name}": ${e.message}` });
@@ -110,7 +112,7 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
   }
 
-  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  return { picks, planes, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
 }
 
 interface RowTable {

@@ -6,6 +6,11 @@ export function displacementFromThrow(throwM: number, dipDeg: number): number {
   return throwM / Math.sin(dipDeg * RAD);
 }
 
+/** The throw of a dip-slip displacement: T = D sin δ. */
+export function throwFromDisplacement(displacementM: number, dipDeg: number): number {
+  return displacementM * Math.sin(dipDeg * RAD);
+}
+
 export function heaveFromThrow(throwM: number, dipDeg: number): number {
   return throwM / Math.tan(dipDeg * RAD);
 }
@@ -14,17 +19,20 @@ export function dipFromThrowHeave(throwM: number, heaveM: number): number {
   return Math.atan2(throwM, heaveM) / RAD;
 }
 
-export function displacementFromThrowHeave(throwM: number, heaveM: number): number {
-  return Math.hypot(throwM, heaveM);
+/** sin(dip), as the displacement of picks divides by it. */
+export function sinOfDip(dipDeg: number): number {
+  return Math.sin(dipDeg * RAD);
+}
+
+/** One pick's displacement: from throw and heave where heave is given, otherwise throw / sin(dip) (sinDip: sinOfDip). */
+export function pickDisplacement(throwM: number, heaveM: number, sinDip: number): number {
+  return Number.isFinite(heaveM) ? Math.hypot(throwM, heaveM) : throwM / sinDip;
 }
 
 /** Displacement per pick: from throw and heave where heave is given, otherwise throw / sin(dip). */
 export function displacementColumn(throwM: ArrayLike<number>, heaveM: ArrayLike<number>, dipDeg: number): Float64Array {
   const out = new Float64Array(throwM.length);
-  const sinDip = Math.sin(dipDeg * RAD);
-  for (let i = 0; i < out.length; i++) {
-    const h = heaveM[i];
-    out[i] = Number.isFinite(h) ? Math.hypot(throwM[i], h) : throwM[i] / sinDip;
-  }
+  const sinDip = sinOfDip(dipDeg);
+  for (let i = 0; i < out.length; i++) out[i] = pickDisplacement(throwM[i], heaveM[i], sinDip);
   return out;
 }

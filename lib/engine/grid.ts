@@ -1,12 +1,5 @@
+import type { GridSpec } from "@/lib/display/grid-sampler";
 import type { RegularGrid } from "./types";
-
-export interface GridSpec {
-  s0: number;
-  t0: number;
-  cellM: number;
-  columns: number;
-  rows: number;
-}
 
 export const DEFAULT_GRID_CELLS = 512;
 
@@ -54,21 +47,24 @@ function roundSignificant(v: number, digits: number): number {
 }
 
 /**
- * Linear interpolation on triangles onto a regular grid, rasterised triangle by triangle: each triangle visits
- * only the grid nodes inside its bounding box, so the cost is O(triangles + nodes). NaN outside the triangles.
+ * Values onto the nodes of a regular grid, rasterised triangle by triangle: each triangle visits only the grid nodes
+ * inside its bounding box, so the cost is O(triangles + nodes). NaN outside the triangles. By default `values` hold one
+ * value per vertex, interpolated linearly on each triangle; with `perTriangle`, one value per triangle (row k of
+ * `triangles`), written as it is onto the triangle's nodes (the stress screen's per-element results).
  */
 export function rasterizeTriangles(
   s: ArrayLike<number>,
   t: ArrayLike<number>,
   values: ArrayLike<number>[],
-  triangles: Uint32Array,
+  triangles: ArrayLike<number>,
   spec: GridSpec,
+  perTriangle = false,
 ): Float64Array[] {
   const { s0, t0, cellM, columns, rows } = spec;
   const outs = values.map(() => new Float64Array(columns * rows).fill(NaN));
   const eps = 1e-10;
   // per-vertex record [s, t, value…] in one interleaved array, so each triangle corner is one cache line
-  const nv = values.length;
+  const nv = perTriangle ? 0 : values.length;
   const stride = 2 + nv;
   const vertex = new Float64Array(s.length * stride);
   for (let i = 0, o = 0; i < s.length; i++, o += stride) {
@@ -96,7 +92,8 @@ export function rasterizeTriangles(
         const l2 = 1 - l0 - l1;
         if (l0 < -eps || l1 < -eps || l2 < -eps) continue;
         const node = j * columns + i;
-        for (let v = 0; v < nv; v++) outs[v][node] = l0 * vertex[a + 2 + v] + l1 * vertex[b + 2 + v] + l2 * vertex[c + 2 + v];
+        if (perTriangle) for (let v = 0; v < values.length; v++) outs[v][node] = values[v][k / 3];
+        else for (let v = 0; v < nv; v++) outs[v][node] = l0 * vertex[a + 2 + v] + l1 * vertex[b + 2 + v] + l2 * vertex[c + 2 + v];
       }
     }
   }
@@ -115,22 +112,4 @@ export function buildGrid(
 ): RegularGrid {
   const [d, th, w] = rasterizeTriangles(s, t, offPlaneM ? [displacementM, throwM, offPlaneM] : [displacementM, throwM], triangles, spec);
   return w ? { ...spec, displacementM: d, throwM: th, offPlaneM: w } : { ...spec, displacementM: d, throwM: th };
-}
-
-/** Bilinear sample of a grid field at (s, t); NaN outside or next to missing nodes. */
-export function sampleGrid(grid: GridSpec, field: Float64Array, s: number, t: number): number {
-  const gx = (s - grid.s0) / grid.cellM;
-  const gy = (t - grid.t0) / grid.cellM;
-  if (gx < 0 || gy < 0 || gx > grid.columns - 1 || gy > grid.rows - 1) return NaN;
-  const i = Math.min(Math.floor(gx), grid.columns - 2);
-  const j = Math.min(Math.floor(gy), grid.rows - 2);
-  if (i < 0 || j < 0) return field[Math.round(gy) * grid.columns + Math.round(gx)];
-  const fx = gx - i, fy = gy - j;
-  const c = grid.columns;
-  return (
-    field[j * c + i] * (1 - fx) * (1 - fy) +
-    field[j * c + i + 1] * fx * (1 - fy) +
-    field[(j + 1) * c + i] * (1 - fx) * fy +
-    field[(j + 1) * c + i + 1] * fx * fy
-  );
 }

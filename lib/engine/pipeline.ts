@@ -1,7 +1,7 @@
-import type { AnalysisOptions, AnalysisReport, AnalysisSettings, PickColumns, RegularGrid, SegmentResult } from "./types";
+import type { AnalysisOptions, AnalysisReport, AnalysisSettings, PickColumns, PlaneFit, RegularGrid, SegmentResult } from "./types";
 import { indicesBySegment, parsePickCsv, type ParseOptions } from "./csv";
 import { fitPlane } from "./plane";
-import { planeToWorld, projectToPlane } from "./project";
+import { planeToWorld, projectToPlane } from "@/lib/display/frame";
 import { displacementColumn } from "./displacement";
 import { triangulate } from "./triangulate";
 import { buildGrid, gridSpecFor } from "./grid";
@@ -36,11 +36,31 @@ export const inlineTipLineFitter: TipLineFitter = (inputs) => () => fitAndSummar
 export interface PipelineOptions extends AnalysisOptions {
   onStage?: (stage: Stage, fraction: number) => void;
   tipLineFitter?: TipLineFitter;
+  /**
+   * Per segment (index into segmentNames), its plane as fitted without weights when the picks were read
+   * (ParseResult.planes, kept with a stored pick set): used as it is for segments whose picks all weigh the same, so
+   * the plane is fitted once. A quality-weighted segment is fitted here with its weights.
+   */
+  planes?: (PlaneFit | null)[] | null;
+}
+
+/** A segment's Delaunay triangulation of its picks: three local pick numbers (order of the segment's picks) per triangle. */
+export interface SegmentTriangulation {
+  triangles: Uint32Array;
+  medianEdgeM: number;
+}
+
+/** A report with the full-resolution grids it was made with: what the grid, picks and profile exports are made from. */
+export interface ReportWithGrids {
+  report: AnalysisReport;
+  grids: Record<string, Pick<RegularGrid, "s0" | "t0" | "cellM" | "columns" | "rows" | "displacementM" | "throwM">>;
 }
 
 export interface PipelineResult {
   report: AnalysisReport;
   grids: Record<string, RegularGrid>;
+  /** per segment id, the triangulation the grids were made on (the stress screen reuses it) */
+  triangulations: Record<string, SegmentTriangulation>;
 }
 
 /** Analyse parsed picks: every segment, then relays between overlapping segments. */
@@ -52,6 +72,7 @@ export function analyzePicks(
   const warnings = [...(options.warnings ?? [])];
   const segments: SegmentResult[] = [];
   const grids: Record<string, RegularGrid> = {};
+  const triangulations: Record<string, SegmentTriangulation> = {};
   const bySegment = indicesBySegment(picks);
   let picksBelowOne = 0;
   bySegment.forEach((ids, k) => {
@@ -65,7 +86,7 @@ export function analyzePicks(
     const weights = pickWeights(picks.quality, ids);
     const weighted = weightsMatter(weights);
     for (const weight of weights) if (weight < 1) picksBelowOne++;
-    const plane = fitPlane(picks.x, picks.y, picks.z, ids, weighted ? weights : undefined);
+    const plane = (!weighted && options.planes?.[k]) || fitPlane(picks.x, picks.y, picks.z, ids, weighted ? weights : undefined);
     if (plane.planarityWarning) warnings.push(`segment "${id}": ${plane.planarityWarning}`);
     const { s, t, w } = projectToPlane(picks.x, picks.y, picks.z, plane, ids);
     const throwM = new Float64Array(ids.length);
@@ -77,6 +98,7 @@ export function analyzePicks(
     const displacementM = displacementColumn(throwM, heaveM, plane.dipDeg);
     stage("triangulate", k, 0.15);
     const tri = triangulate(s, t);
+    triangulations[id] = { triangles: tri.triangles, medianEdgeM: tri.medianEdgeM };
     const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
     if (outline.length) outline.push(outline[0]);
     const sinDip = Math.sin((plane.dipDeg * Math.PI) / 180);
@@ -107,7 +129,7 @@ export function analyzePicks(
 
     let maxIndex = 0;
     for (let i = 1; i < ids.length; i++) if (griddedDisplacementM[i] > griddedDisplacementM[maxIndex]) maxIndex = i;
-    const maxWorld = planeToWorld(s[maxIndex], t[maxIndex], plane);
+    const maxWorld = planeToWorld(plane, s[maxIndex], t[maxIndex]);
 
     stage("contours", k, 0.5);
     const intervalM = options.intervalM && options.intervalM > 0 ? options.intervalM : niceInterval(griddedDisplacementM[maxIndex]);
@@ -138,7 +160,7 @@ export function analyzePicks(
         displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2],
         fittedDisplacementM: fittedDmax.displacementM, fittedDisplacementRangeM: fittedDmax.rangeM,
       },
-      mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(ps, pt, plane)) },
+      mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(plane, ps, pt)) },
       tipLine,
       gradients: {
         meanPerM: gradients.meanPerM,
@@ -166,6 +188,7 @@ export function analyzePicks(
       warnings,
     },
     grids,
+    triangulations,
   };
 }
 
@@ -197,6 +220,7 @@ export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOp
   const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe });
   return analyzePicks(parsed.picks, {
     ...options,
+    planes: parsed.planes,
     input: { rows: parsed.rows, accepted: parsed.accepted, rejected: parsed.rejected, units: options.units ?? "m" },
     warnings: parsed.warnings,
   });

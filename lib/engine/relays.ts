@@ -1,5 +1,5 @@
 import type { RelayResult, SegmentResult, RegularGrid } from "./types";
-import { sampleGrid } from "./grid";
+import { sampleGrid, STRICT_BILINEAR } from "@/lib/display/grid-sampler";
 
 const DEG = 180 / Math.PI;
 
@@ -81,7 +81,7 @@ function offSurfaceM(seg: SegmentResult, grid: RegularGrid | undefined, x: numbe
   const s = px * sx + py * sy + pz * sz;
   const t = px * dx + py * dy + pz * dz;
   const w = px * nx + py * ny + pz * nz;
-  const surface = grid?.offPlaneM ? sampleGrid(grid, grid.offPlaneM, s, t) : NaN;
+  const surface = grid?.offPlaneM ? sampleGrid(grid, grid.offPlaneM, s, t, STRICT_BILINEAR) : NaN;
   return { distanceM: w - (Number.isFinite(surface) ? surface : 0), s, t };
 }
 
@@ -177,7 +177,7 @@ function relayBetween(
     const [dx, dy, dz] = seg.plane.dipVector;
     const s = wx * sx + wy * sy;
     const t = wx * dx + wy * dy + wz * dz;
-    const v = sampleGrid(grid, grid.displacementM, s, t);
+    const v = sampleGrid(grid, grid.displacementM, s, t, STRICT_BILINEAR);
     return Number.isFinite(v) ? v : 0;
   };
   for (let k = 0; k < samples; k++) {

@@ -1,11 +1,10 @@
 // The fault surface itself, not only its reference plane: each pick's off-plane distance w = (p − c)·n, interpolated
 // on the same Delaunay triangles and regular (s, t) grid as displacement, smoothed at a stated length scale, and the
 // local orientation (normal, strike, dip) of the smoothed surface. Pure; flat typed arrays with NaN for "no data".
-import type { PlaneFit } from "./types";
-import type { GridSpec } from "./grid";
+import type { PlaneFrame } from "@/lib/display/frame";
+import type { GridSpec } from "@/lib/display/grid-sampler";
 import { rasterizeTriangles } from "./grid";
 
-type Frame = Pick<PlaneFit, "strikeVector" | "dipVector" | "normal">;
 
 /** w on the grid nodes: linear on the triangles, NaN outside them (the same rasterisation as displacement). */
 export function offPlaneGrid(s: ArrayLike<number>, t: ArrayLike<number>, offPlaneM: ArrayLike<number>, triangles: Uint32Array, spec: GridSpec): Float64Array {
@@ -265,10 +264,10 @@ export function effectivePickCount(s: ArrayLike<number>, t: ArrayLike<number>, s
  * Unit normal (East, North, Up; pointing to the side of the reference plane's normal) of the surface
  * P = c + s·ŝ + t·d̂ + w(s, t)·n̂ where w has slopes (∂w/∂s, ∂w/∂t): the gradient of (P − c)·n̂ − w is n̂ − w_s·ŝ − w_t·d̂.
  */
-export function surfaceNormal(gradientS: number, gradientT: number, frame: Frame): [number, number, number] {
-  const [sx, sy, sz] = frame.strikeVector;
-  const [dx, dy, dz] = frame.dipVector;
-  const [nx, ny, nz] = frame.normal;
+export function surfaceNormal(gradientS: number, gradientT: number, frame: Omit<PlaneFrame, "centroid">): [number, number, number] {
+  const [sx, sy, sz] = [frame.strikeVector[0], frame.strikeVector[1], frame.strikeVector[2]];
+  const [dx, dy, dz] = [frame.dipVector[0], frame.dipVector[1], frame.dipVector[2]];
+  const [nx, ny, nz] = [frame.normal[0], frame.normal[1], frame.normal[2]];
   const x = nx - gradientS * sx - gradientT * dx;
   const y = ny - gradientS * sy - gradientT * dy;
   const z = nz - gradientS * sz - gradientT * dz;

@@ -5,7 +5,7 @@
 // high (a survey edge, a gap) that end stays open instead of getting an invented tip.
 import type { PlaneFit, ProfileModel, TipEnd, TipEndSide, TipLine, TipProfileModel } from "./types";
 import { PROFILE_CANDIDATES, PROFILE_LABELS, extrapolateTipLinear, modelRadius, modelTipPolygon } from "./profiles";
-import { planeToWorld } from "./project";
+import { planeToWorld } from "@/lib/display/frame";
 import { weightedQuantiles } from "./optimize";
 import type { TipLineFits, TipModel } from "./tipline-fit";
 
@@ -452,7 +452,7 @@ export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: A
   ];
 
   const halfSize = { sM: centralSize.lengthM / 2, tM: centralSize.heightM / 2 };
-  const world = (p: [number, number][]) => p.map(([ps, pt]) => planeToWorld(ps, pt, frame));
+  const world = (p: [number, number][]) => p.map(([ps, pt]) => planeToWorld(frame, ps, pt));
   const endNames: Record<TipEndSide, string> = { "strike-start": "strike start", "strike-end": "strike end", "up-dip": "up-dip end", "down-dip": "down-dip end" };
   const openEnds = ends.filter((e) => e.status === "open").map((e) => `the ${endNames[e.side]}`);
   const minimums = [lengthOpen ? "length" : "", heightOpen ? "height" : ""].filter(Boolean);

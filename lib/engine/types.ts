@@ -42,6 +42,8 @@ export interface PickColumns {
 
 export interface ParseResult {
   picks: PickColumns;
+  /** per segment (index into segmentNames): its plane, fitted without weights when the file was checked */
+  planes: (PlaneFit | null)[];
   rows: number;
   accepted: number;
   rejected: RejectedRow[];

@@ -9,7 +9,7 @@ import { ApiError } from "@/lib/api/errors";
 import { analysisTimeLimitMs } from "@/lib/analysis/worker-pool";
 import { enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { LeaseLost, type JobContext, type JobHandler } from "@/lib/jobs/processor";
-import { loadExportSource, recomputeFullResolution, type ExportSource } from "./load";
+import { fullResolution, loadExportSource, type ExportSource } from "./load";
 import { gridCsv, picksCsv, profilesCsv } from "./tables";
 
 /**
@@ -110,7 +110,7 @@ async function makeExport({ job, owner, signal }: JobContext) {
   let text: string;
   try {
     const source = await loadExportSource(payload.faultId, payload.analysisId);
-    const { picks, result } = await recomputeFullResolution(source, signal);
+    const { picks, result } = await fullResolution(source, signal);
     text = payload.kind === "grid.csv" ? gridCsv(result) : payload.kind === "picks.csv" ? picksCsv(picks, result) : profilesCsv(result, payload.mode);
   } catch (error) {
     if (signal.aborted || !(error instanceof ApiError)) throw error;

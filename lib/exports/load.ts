@@ -2,9 +2,10 @@ import "server-only";
 import { parseAnalysisSettings } from "@/lib/contracts/analysis-settings";
 import { and, desc, eq, isNull } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
+import { analyses, analysisOutputs, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
-import type { PipelineResult } from "@/lib/engine/pipeline";
+import { unpackAnalysisOutputs } from "@/lib/analysis/outputs";
+import type { ReportWithGrids } from "@/lib/engine/pipeline";
 import { computeGridsOffThread } from "@/lib/analysis/worker-pool";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
@@ -71,7 +72,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
 
 /** The stored picks of the analysis' pick set (metres). */
 export async function loadPicks(source: ExportSource): Promise<PickColumns> {
-  const cached = recomputed.get(source.analysis.id);
+  const cached = fullResolutionCache.get(source.analysis.id);
   if (cached) return cached.picks;
   return decodePicks(await storedPickBytes(source));
 }
@@ -83,19 +84,27 @@ async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
   return pickSet.picks;
 }
 
-// Recomputing full-resolution grids costs seconds on large pick sets; keep the last few per analysis id.
-const recomputed = lruCache<{ picks: PickColumns; result: PipelineResult }>(2);
+// Reading (or, for an older analysis, recomputing) full-resolution grids costs time on large pick sets; keep the last few.
+const fullResolutionCache = lruCache<{ picks: PickColumns; result: ReportWithGrids }>(2);
 
-/** Full-resolution engine grids for an analysis, recomputed from the stored picks with the analysis' own parameters. */
-export async function recomputeFullResolution(source: ExportSource, signal?: AbortSignal): Promise<{ picks: PickColumns; result: PipelineResult }> {
-  const cached = recomputed.get(source.analysis.id);
+/**
+ * The analysis' full-resolution grids as it stored them (analysis_outputs), with its picks. An analysis made before the
+ * grids were stored has them recomputed from its picks with its own settings, off the web server's thread.
+ */
+export async function fullResolution(source: ExportSource, signal?: AbortSignal): Promise<{ picks: PickColumns; result: ReportWithGrids }> {
+  const cached = fullResolutionCache.get(source.analysis.id);
   if (cached) return cached;
-  const bytes = await storedPickBytes(source);
-  // seconds of work on a large pick set: off the web server's thread, like an analysis
-  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
-  const picks = decodePicks(bytes);
-  recomputed.set(source.analysis.id, { picks, result });
-  return { picks, result };
+  const db = await getDb();
+  const [bytes, [stored]] = await Promise.all([
+    storedPickBytes(source),
+    db.select({ body: base64Bytes(analysisOutputs.body) }).from(analysisOutputs).where(eq(analysisOutputs.analysisId, source.analysis.id)),
+  ]);
+  const result: ReportWithGrids = stored
+    ? { report: source.report, grids: unpackAnalysisOutputs(stored.body).grids }
+    : await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
+  const loaded = { picks: decodePicks(bytes), result };
+  fullResolutionCache.set(source.analysis.id, loaded);
+  return loaded;
 }
 
 /** One D–L point per fault of the study that has a finished analysis (latest pick set). */

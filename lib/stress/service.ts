@@ -6,8 +6,9 @@ import { analyses, base64Bytes, pickSets, stressStates, users } from "@/db/schem
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { latestAnalysisForFault } from "@/lib/analysis/reports";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import { indicesBySegment } from "@/lib/engine/csv";
+import { rasterizeTriangles } from "@/lib/engine/grid";
 import type { AnalysisReport } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import type { StressStateInput, StressStateView } from "@/lib/contracts/stress";
@@ -15,7 +16,6 @@ import {
   ORIENTATION_RANGE_STANDARD_ERRORS,
   defaultLengthScaleM,
   gridForLengthScale,
-  rasterizeTriangleValues,
   screenElements,
   segmentSurface,
   surfaceElements,
@@ -139,7 +139,7 @@ export async function screenFault(studyId: string, faultId: string, lengthScaleM
       local.set(surface.localTriangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
       kept.set(surface.triangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
     }
-    const [slip, dilation, dp] = rasterizeTriangleValues(surface.s, surface.t, local, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa], grid);
+    const [slip, dilation, dp] = rasterizeTriangles(surface.s, surface.t, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa], local, grid, true).map((values) => Float32Array.from(values));
     return { segmentId: segment.id, screen, triangleVertices: kept, nodes: { slip, dilation, dp, columns: grid.columns, rows: grid.rows } };
   });
   return {

@@ -3,9 +3,9 @@
 // distance w of the picks, gridded and fitted locally: lib/engine/surface.ts), not from its own three corners, whose
 // normal mostly measures pick noise. Flat typed arrays in, flat typed arrays out; no I/O.
 import type { StressParameters } from "@/lib/contracts/stress";
-import { projectToPlane } from "@/lib/engine/project";
+import { planeToWorld, projectToPlane, type PlaneFrame } from "@/lib/display/frame";
 import { triangulate } from "@/lib/engine/triangulate";
-import type { GridSpec } from "@/lib/engine/grid";
+import { sampleGrid, type GridSpec, type SampleRule } from "@/lib/display/grid-sampler";
 import { pickWeights, pullTowardNeighbours, weightsMatter } from "@/lib/engine/quality";
 import { effectivePickCount, localPolynomialFit, offPlaneGrid, slopeScatterDeg, surfaceNormal } from "@/lib/engine/surface";
 import {
@@ -154,20 +154,6 @@ export function rawTriangleElements(surface: SurfaceTriangles, minQuality = MIN_
   return cutElements(out, kept, skippedDegenerate, skippedAboveDatum);
 }
 
-export interface PlaneFrame {
-  centroid: readonly number[];
-  strikeVector: readonly number[];
-  dipVector: readonly number[];
-  normal: readonly number[];
-}
-
-const frameTuple = (frame: PlaneFrame) => ({
-  centroid: [frame.centroid[0], frame.centroid[1], frame.centroid[2]] as [number, number, number],
-  strikeVector: [frame.strikeVector[0], frame.strikeVector[1], frame.strikeVector[2]] as [number, number, number],
-  dipVector: [frame.dipVector[0], frame.dipVector[1], frame.dipVector[2]] as [number, number, number],
-  normal: [frame.normal[0], frame.normal[1], frame.normal[2]] as [number, number, number],
-});
-
 /** One segment's picks in its plane frame, triangulated as the analysis triangulates them. */
 export interface SegmentSurface {
   /** local (per-pick of the segment) fault-plane coordinates and off-plane distance, quality-adjusted as for the grids */
@@ -189,7 +175,7 @@ export function segmentSurface(
   indices: ArrayLike<number>,
   frame: PlaneFrame,
 ): SegmentSurface {
-  const { s, t, w } = projectToPlane(picks.x, picks.y, picks.z, frameTuple(frame), indices);
+  const { s, t, w } = projectToPlane(picks.x, picks.y, picks.z, frame, indices);
   if (s.length < 3) return { s, t, offPlaneM: w, localTriangles: new Uint32Array(0), triangles: new Uint32Array(0), medianEdgeM: NaN };
   const { triangles: localTriangles, medianEdgeM } = triangulate(s, t);
   const weights = picks.quality ? pickWeights(picks.quality, indices) : null;
@@ -222,28 +208,8 @@ export function gridForLengthScale(spec: GridSpec, lengthM: number): GridSpec {
   return { s0: spec.s0, t0: spec.t0, cellM: spec.cellM / factor, columns: (spec.columns - 1) * factor + 1, rows: (spec.rows - 1) * factor + 1 };
 }
 
-/** Bilinear sample at (s, t) that ignores NaN corners (weights renormalised over the finite ones); NaN if none. */
-function sampleFinite(spec: GridSpec, field: Float64Array, s: number, t: number): number {
-  const gx = Math.min(Math.max((s - spec.s0) / spec.cellM, 0), spec.columns - 1);
-  const gy = Math.min(Math.max((t - spec.t0) / spec.cellM, 0), spec.rows - 1);
-  const i = Math.min(Math.floor(gx), spec.columns - 2);
-  const j = Math.min(Math.floor(gy), spec.rows - 2);
-  const fx = gx - Math.max(i, 0), fy = gy - Math.max(j, 0);
-  let sum = 0, weight = 0;
-  const add = (ii: number, jj: number, w: number) => {
-    if (ii < 0 || jj < 0 || ii >= spec.columns || jj >= spec.rows || w === 0) return;
-    const v = field[jj * spec.columns + ii];
-    if (Number.isFinite(v)) {
-      sum += w * v;
-      weight += w;
-    }
-  };
-  add(i, j, (1 - fx) * (1 - fy));
-  add(i + 1, j, fx * (1 - fy));
-  add(i, j + 1, (1 - fx) * fy);
-  add(i + 1, j + 1, fx * fy);
-  return weight > 0 ? sum / weight : NaN;
-}
+/** The fitted fields are read at each triangle's centroid: missing nodes left out, points on the grid's edge kept. */
+const AT_CENTROID: SampleRule = { interpolation: "bilinear", missing: "renormalise", outside: "clamp" };
 
 /**
  * Elements with the smoothed surface's orientation: w of the picks on the grid, a local quadratic fitted around every
@@ -254,7 +220,6 @@ function sampleFinite(spec: GridSpec, field: Float64Array, s: number, t: number)
  */
 export function surfaceElements(surface: SegmentSurface, frame: PlaneFrame, spec: GridSpec, lengthM: number, minQuality = MIN_TRIANGLE_QUALITY): ScreenElements {
   const { s, t, offPlaneM, localTriangles } = surface;
-  const planeFrame = frameTuple(frame);
   const wGrid = offPlaneGrid(s, t, offPlaneM, localTriangles, spec);
   // degree 2: no slope bias from curvature on the edges of the data, where the shallowest (least stressed) and deepest
   // parts of a fault lie (lib/engine/surface.ts)
@@ -264,10 +229,6 @@ export function surfaceElements(surface: SegmentSurface, frame: PlaneFrame, spec
   const total = localTriangles.length / 3;
   const out = elementColumns(total);
   let kept = 0, skippedDegenerate = 0, skippedAboveDatum = 0;
-  const [cx, cy, cz] = planeFrame.centroid;
-  const [sx, sy, sz] = planeFrame.strikeVector;
-  const [dx, dy, dz] = planeFrame.dipVector;
-  const [nx0, ny0, nz0] = planeFrame.normal;
   for (let k = 0; k < total; k++) {
     const a = localTriangles[3 * k], b = localTriangles[3 * k + 1], c = localTriangles[3 * k + 2];
     const abs = s[b] - s[a], abt = t[b] - t[a], acs = s[c] - s[a], act = t[c] - t[a], bcs = s[c] - s[b], bct = t[c] - t[b];
@@ -278,25 +239,25 @@ export function surfaceElements(surface: SegmentSurface, frame: PlaneFrame, spec
     }
     const sc = (s[a] + s[b] + s[c]) / 3;
     const tc = (t[a] + t[b] + t[c]) / 3;
-    const gradientS = sampleFinite(spec, fit.gradientS, sc, tc);
-    const gradientT = sampleFinite(spec, fit.gradientT, sc, tc);
-    const w = sampleFinite(spec, fit.offPlaneM, sc, tc);
+    const gradientS = sampleGrid(spec, fit.gradientS, sc, tc, AT_CENTROID);
+    const gradientT = sampleGrid(spec, fit.gradientT, sc, tc, AT_CENTROID);
+    const w = sampleGrid(spec, fit.offPlaneM, sc, tc, AT_CENTROID);
     if (!Number.isFinite(gradientS) || !Number.isFinite(gradientT) || !Number.isFinite(w)) {
       skippedDegenerate++;
       continue;
     }
-    const z = cz + sc * sz + tc * dz + w * nz0;
+    const [x, y, z] = planeToWorld(frame, sc, tc, w);
     if (!(-z > 0)) {
       skippedAboveDatum++;
       continue;
     }
-    const [nx, ny, nz] = surfaceNormal(gradientS, gradientT, planeFrame);
+    const [nx, ny, nz] = surfaceNormal(gradientS, gradientT, frame);
     const flip = nz < 0 ? -1 : 1;
-    const spread = sampleFinite(spec, scatter, sc, tc);
-    const count = sampleFinite(spec, picksInWindow, sc, tc);
+    const spread = sampleGrid(spec, scatter, sc, tc, AT_CENTROID);
+    const count = sampleGrid(spec, picksInWindow, sc, tc, AT_CENTROID);
     out.source[kept] = k;
-    out.centroidX[kept] = cx + sc * sx + tc * dx + w * nx0;
-    out.centroidY[kept] = cy + sc * sy + tc * dy + w * ny0;
+    out.centroidX[kept] = x;
+    out.centroidY[kept] = y;
     out.centroidZ[kept] = z;
     out.normalX[kept] = flip * nx;
     out.normalY[kept] = flip * ny;
@@ -381,61 +342,4 @@ export function screenElements(elements: ScreenElements, parameters: StressParam
     out.dilationTendencyMax[i] = tdMax;
   }
   return { ...elements, ...out };
-}
-
-export interface PlaneFrame {
-  centroid: readonly number[];
-  strikeVector: readonly number[];
-  dipVector: readonly number[];
-  normal: readonly number[];
-}
-
-export interface GridShape {
-  s0: number;
-  t0: number;
-  cellM: number;
-  columns: number;
-  rows: number;
-}
-
-/**
- * Per-triangle constant values onto the nodes of a regular (s, t) grid, rasterised triangle by triangle (each
- * triangle visits only the nodes of its bounding box). `triangleVertices` holds three vertex indices per row of
- * `values`; nodes in no triangle stay NaN.
- */
-export function rasterizeTriangleValues(
-  s: ArrayLike<number>,
-  t: ArrayLike<number>,
-  triangleVertices: ArrayLike<number>,
-  values: ArrayLike<number>[],
-  grid: GridShape,
-): Float32Array[] {
-  const { s0, t0, cellM, columns, rows } = grid;
-  const outs = values.map(() => new Float32Array(columns * rows).fill(NaN));
-  const eps = 1e-9;
-  const count = triangleVertices.length / 3;
-  for (let k = 0; k < count; k++) {
-    const a = triangleVertices[3 * k], b = triangleVertices[3 * k + 1], c = triangleVertices[3 * k + 2];
-    const ax = (s[a] - s0) / cellM, ay = (t[a] - t0) / cellM;
-    const bx = (s[b] - s0) / cellM, by = (t[b] - t0) / cellM;
-    const cx = (s[c] - s0) / cellM, cy = (t[c] - t0) / cellM;
-    const det = (by - cy) * (ax - cx) + (cx - bx) * (ay - cy);
-    if (!(Math.abs(det) > 0)) continue;
-    const i0 = Math.max(0, Math.ceil(Math.min(ax, bx, cx) - eps));
-    const i1 = Math.min(columns - 1, Math.floor(Math.max(ax, bx, cx) + eps));
-    const j0 = Math.max(0, Math.ceil(Math.min(ay, by, cy) - eps));
-    const j1 = Math.min(rows - 1, Math.floor(Math.max(ay, by, cy) + eps));
-    const inv = 1 / det;
-    for (let j = j0; j <= j1; j++) {
-      for (let i = i0; i <= i1; i++) {
-        const l0 = ((by - cy) * (i - cx) + (cx - bx) * (j - cy)) * inv;
-        const l1 = ((cy - ay) * (i - cx) + (ax - cx) * (j - cy)) * inv;
-        const l2 = 1 - l0 - l1;
-        if (l0 < -eps || l1 < -eps || l2 < -eps) continue;
-        const node = j * columns + i;
-        for (let v = 0; v < values.length; v++) outs[v][node] = values[v][k];
-      }
-    }
-  }
-  return outs;
 }

@@ -1,8 +1,8 @@
 // GeoJSON (RFC 7946 structure) of a fault's contours, inferred tip lines and mapped limits in world coordinates
 // [x, y, z] (m, the pick file's map coordinates and elevation). The positions are projected map metres, not
 // longitude/latitude; the collection says so in its `coordinates` member.
+import { planeToWorld } from "@/lib/display/frame";
 import type { AnalysisReport } from "@/lib/engine/types";
-import { planePointToWorld } from "./profiles";
 
 type Position = [number, number, number];
 
@@ -32,7 +32,7 @@ export function faultGeoJson(faultName: string, report: AnalysisReport): FaultFe
     const base = { fault: faultName, segment: segment.id, units: "m" as const };
     for (const level of segment.contours) {
       for (const ring of level.rings) {
-        const coordinates = ring.map(([s, t]) => position(planePointToWorld(segment.plane, s, t)));
+        const coordinates = ring.map(([s, t]) => position(planeToWorld(segment.plane, s, t)));
         if (coordinates.length < 2) continue;
         features.push({
           type: "Feature",

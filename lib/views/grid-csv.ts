@@ -1,13 +1,13 @@
 // The grid export: every grid node with data, as CSV rows in plane and world coordinates. Pure, shared by the
 // export route and the command line.
-import type { PipelineResult } from "@/lib/engine/pipeline";
+import { planeToWorld } from "@/lib/display/frame";
+import type { ReportWithGrids } from "@/lib/engine/pipeline";
 import { toCsv, type CsvCell } from "./csv";
-import { planePointToWorld } from "./profiles";
 
 export const GRID_CSV_HEADER = ["segment", "s", "t", "x", "y", "z", "displacement", "throw"];
 
 /** Every grid node that has data, at the engine's full resolution (m). */
-export function gridCsv({ report, grids }: PipelineResult): string {
+export function gridCsv({ report, grids }: ReportWithGrids): string {
   function* rows(): Generator<CsvCell[]> {
     for (const segment of report.segments) {
       const grid = grids[segment.id];
@@ -19,7 +19,7 @@ export function gridCsv({ report, grids }: PipelineResult): string {
           if (Number.isNaN(d)) continue;
           const s = grid.s0 + column * grid.cellM;
           const t = grid.t0 + row * grid.cellM;
-          const [x, y, z] = planePointToWorld(segment.plane, s, t);
+          const [x, y, z] = planeToWorld(segment.plane, s, t);
           yield [segment.id, s, t, x, y, z, d, grid.throwM[k]];
         }
       }

@@ -1,7 +1,8 @@
 // Strike and down-dip profiles read off a segment's displacement grid, the fitted model profile, and profiles of
 // several segments placed in one common along-strike coordinate and summed (displacement transfer across a relay).
 // Pure: used by the browser views, the export routes and the tests.
-import { sampleGrid } from "@/lib/analysis/display";
+import { planeToWorld } from "@/lib/display/frame";
+import { EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
 import { PROFILE_LABELS, modelRadius, profileFunction } from "@/lib/engine/profiles";
 import type { SegmentResult } from "@/lib/engine/types";
 
@@ -40,8 +41,8 @@ export function profileAlongLine(grid: GridLike, a: [number, number], b: [number
     out.distanceM.push(f * length);
     out.s.push(s);
     out.t.push(t);
-    out.displacementM.push(sampleGrid(grid, grid.displacementM, s, t));
-    out.throwM.push(sampleGrid(grid, grid.throwM, s, t));
+    out.displacementM.push(sampleGrid(grid, grid.displacementM, s, t, EDGE_TOLERANT_BILINEAR));
+    out.throwM.push(sampleGrid(grid, grid.throwM, s, t, EDGE_TOLERANT_BILINEAR));
   }
   return out;
 }
@@ -246,14 +247,6 @@ export function commonStrikeFrame(segments: Pick<SegmentResult, "plane">[]): Str
   return { strike: [ex / length, ny / length], origin: [segments[0].plane.centroid[0], segments[0].plane.centroid[1]] };
 }
 
-/** World position of plane coordinates (s, t) of a segment. */
-export function planePointToWorld(plane: SegmentResult["plane"], s: number, t: number): [number, number, number] {
-  const [cx, cy, cz] = plane.centroid;
-  const [sx, sy, sz] = plane.strikeVector;
-  const [dx, dy, dz] = plane.dipVector;
-  return [cx + s * sx + t * dx, cy + s * sy + t * dy, cz + s * sz + t * dz];
-}
-
 export function alongStrike(frame: StrikeFrame, x: number, y: number): number {
   return (x - frame.origin[0]) * frame.strike[0] + (y - frame.origin[1]) * frame.strike[1];
 }
@@ -273,7 +266,7 @@ export interface CommonProfile {
 
 export function toCommonProfile(id: string, plane: SegmentResult["plane"], profile: Profile, frame: StrikeFrame): CommonProfile {
   const rows = profile.s.map((s, k) => {
-    const [x, y] = planePointToWorld(plane, s, Number.isFinite(profile.t[k]) ? profile.t[k] : 0);
+    const [x, y] = planeToWorld(plane, s, Number.isFinite(profile.t[k]) ? profile.t[k] : 0);
     return { u: alongStrike(frame, x, y), d: profile.displacementM[k], th: profile.throwM[k] };
   });
   rows.sort((p, q) => p.u - q.u);

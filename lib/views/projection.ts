@@ -2,8 +2,9 @@
 // vertical plane along the fault's mean strike, as distance along strike (m) against depth below datum (m). Several
 // segments then sit side by side as they do in the ground, instead of each in its own plane coordinates (common
 // practice for fault-zone displacement maps, no single source). Pure: report in, plot rows out.
+import { planeToWorld } from "@/lib/display/frame";
 import type { AnalysisReport } from "@/lib/engine/types";
-import { alongStrike, commonStrikeFrame, planePointToWorld, type StrikeFrame } from "./profiles";
+import { alongStrike, commonStrikeFrame, type StrikeFrame } from "./profiles";
 
 export interface ProjectedPoint {
   /** distance along the mean strike from the first segment's centre, m */
@@ -26,7 +27,7 @@ export interface StrikeProjection {
 export function strikeProjection(report: Pick<AnalysisReport, "segments">): StrikeProjection {
   const frame = commonStrikeFrame(report.segments);
   const project = (plane: AnalysisReport["segments"][number]["plane"], s: number, t: number): ProjectedPoint => {
-    const [x, y, z] = planePointToWorld(plane, s, t);
+    const [x, y, z] = planeToWorld(plane, s, t);
     return { u: alongStrike(frame, x, y), depthM: -z };
   };
   const out: StrikeProjection = { frame, strikeAzimuthDeg: (((Math.atan2(frame.strike[0], frame.strike[1]) * 180) / Math.PI) + 360) % 360, contours: [], tipLines: [], mappedLimits: [], peaks: [] };

@@ -1,9 +1,10 @@
 // Relay geometry in strike–normal coordinates for the relay view: tip lines and traces of two segments on their mean
 // strike (u along, v across), and the along-strike ramp dip from the throw transferred over the overlap.
-import { sampleGrid } from "@/lib/analysis/display";
+import { planeToWorld } from "@/lib/display/frame";
+import { EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
 import { rampDipDeg } from "@/lib/engine/relays";
 import type { SegmentResult } from "@/lib/engine/types";
-import { acrossStrike, alongStrike, commonStrikeFrame, overlapZone, planePointToWorld, tipExtent, type GridLike, type StrikeFrame } from "./profiles";
+import { acrossStrike, alongStrike, commonStrikeFrame, overlapZone, tipExtent, type GridLike, type StrikeFrame } from "./profiles";
 
 export interface RelaySketchSegment {
   id: string;
@@ -33,8 +34,8 @@ function traceOf(segment: SegmentResult, grid: GridLike | undefined, frame: Stri
     const s = centre.s - semiAxes.sM + (2 * semiAxes.sM * k) / (samples - 1);
     const t = (zRef - centroid[2] - s * strikeVector[2]) / dipVector[2];
     if (Math.hypot((s - centre.s) / semiAxes.sM, (t - centre.t) / semiAxes.tM) > 1) continue;
-    const [x, y] = planePointToWorld(segment.plane, s, t);
-    out.push({ u: alongStrike(frame, x, y), v: acrossStrike(frame, x, y), throwM: grid ? sampleGrid(grid, grid.throwM, s, t) : NaN });
+    const [x, y] = planeToWorld(segment.plane, s, t);
+    out.push({ u: alongStrike(frame, x, y), v: acrossStrike(frame, x, y), throwM: grid ? sampleGrid(grid, grid.throwM, s, t, EDGE_TOLERANT_BILINEAR) : NaN });
   }
   return out.sort((a, b) => a.u - b.u);
 }
@@ -112,7 +113,7 @@ export function horizonRampDips(
         .filter((bin) => bin.segment === segment.id && bin.horizon === horizon)
         .map((bin) => {
           const t = Math.abs(dipVector[2]) > 1e-9 ? (bin.z - centroid[2] - bin.s * strikeVector[2]) / dipVector[2] : 0;
-          const [x, y] = planePointToWorld(segment.plane, bin.s, t);
+          const [x, y] = planeToWorld(segment.plane, bin.s, t);
           return { u: alongStrike(frame, x, y), throwM: bin.throwM };
         });
       if (placed.length === 0) return;

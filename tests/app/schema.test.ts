@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { analyses, auditLog, faults, memberships, outbox, pickSets, pinReplies, pins, studies, users, viewpointLinks, viewpoints } from "@/db/schema";
-import { decodePicks, encodePicks, packPicks } from "@/lib/picks/codec";
+import { decodePicks, decodePickSet, encodePicks, packPicks } from "@/lib/picks/codec";
 import type { PickColumns } from "@/lib/engine/types";
 import { base64Bytes } from "@/db/schema";
 import { parsePickCsv } from "@/lib/engine/csv";
@@ -81,6 +81,12 @@ describe("schema round trip", () => {
       expect(Number.isNaN(decoded.quality[2])).toBe(true);
       expect(decoded.horizonNames).toEqual(["H1"]);
     }
+    // a pick set stored before the one codec (layout "SLP2", written here as that version wrote it) still reads
+    const legacy = legacyEncodedPicks(picks);
+    const fromLegacy = decodePickSet(legacy);
+    expect(Array.from(fromLegacy.picks.x)).toEqual(Array.from(picks.x));
+    expect(fromLegacy.picks.segmentNames).toEqual(picks.segmentNames);
+    expect(fromLegacy.planes).toBeNull();
     // basis: common practice, no source (float columns of real pick sets deflate to about a third)
     const { picks: many } = parsePickCsv(demoCsv("QG-1"));
     expect(packPicks(many).byteLength).toBeLessThan(encodePicks(many).byteLength / 2);
@@ -94,3 +100,29 @@ describe("schema round trip", () => {
     expect(await db.query.faults.findFirst({ where: eq(faults.id, fault.id) })).toBeUndefined();
   });
 });
+
+/** The layout pick sets had before the one codec: magic "SLP2", a JSON header of columns, 8-byte-aligned columns. */
+function legacyEncodedPicks(picks: ReturnType<typeof tinyPicks>): Uint8Array {
+  const header: { columns: { key: string; type: string; length: number }[]; plain: Record<string, unknown> } = { columns: [], plain: {} };
+  const bodies: ArrayBufferView[] = [];
+  for (const [key, value] of Object.entries(picks)) {
+    if (ArrayBuffer.isView(value)) {
+      header.columns.push({ key, type: value.constructor.name, length: (value as Float64Array).length });
+      bodies.push(value);
+    } else header.plain[key] = value;
+  }
+  const headerBytes = new TextEncoder().encode(JSON.stringify(header));
+  const align = (n: number) => Math.ceil(n / 8) * 8;
+  let total = align(8 + headerBytes.length);
+  for (const body of bodies) total += align(body.byteLength);
+  const bytes = new Uint8Array(total);
+  new DataView(bytes.buffer).setUint32(0, 0x534c5032, true);
+  new DataView(bytes.buffer).setUint32(4, headerBytes.length, true);
+  bytes.set(headerBytes, 8);
+  let offset = align(8 + headerBytes.length);
+  for (const body of bodies) {
+    bytes.set(new Uint8Array(body.buffer, body.byteOffset, body.byteLength), offset);
+    offset += align(body.byteLength);
+  }
+  return bytes;
+}

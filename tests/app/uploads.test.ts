@@ -10,7 +10,7 @@ import { analyses, pickSets } from "@/db/schema";
 import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import * as analysisRoute from "@/app/api/faults/[faultId]/analysis/route";
 import { runAnalysis } from "@/lib/analysis/runner";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";

@@ -20,7 +20,7 @@ import * as faultRoute from "@/app/api/faults/[faultId]/route";
 import * as studiesRoute from "@/app/api/studies/route";
 import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import { runAnalysis } from "@/lib/analysis/runner";
-import { decodeFaultDisplay } from "@/lib/analysis/display";
+import { decodeFaultDisplay } from "@/lib/display/payload";
 import { demoCsv } from "@/lib/demo";
 import { ROLE_PERMISSIONS } from "@/lib/contracts/roles";
 import { hashLinkToken, LINK_TOKEN_PATTERN, linkState, newLinkToken } from "@/lib/viewpoints";

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { displacementFromThrow, heaveFromThrow, dipFromThrowHeave, displacementColumn } from "@/lib/engine/displacement";
 import { DegeneratePlaneError, fitPlane, formatAzimuth, strikeVectorOf, dipVectorOf } from "@/lib/engine/plane";
 import { azimuth } from "@/components/workspace/format";
-import { projectToPlane, planeToWorld } from "@/lib/engine/project";
+import { projectToPlane, planeToWorld } from "@/lib/display/frame";
 
 const circularDiff = (a: number, b: number) => Math.abs(((a - b + 540) % 360) - 180);
 
@@ -83,7 +83,7 @@ describe("fault-plane coordinates", () => {
     expect(s[0]).toBeCloseTo(200, 3);
     expect(t[0]).toBeCloseTo(309.808, 3);
     expect(w[0]).toBeCloseTo(-63.397, 3);
-    const back = planeToWorld(s[0], t[0], frame);
+    const back = planeToWorld(frame, s[0], t[0]);
     expect(back[1]).toBeCloseTo(200, 9);
   });
 });

@@ -1,7 +1,7 @@
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { fitPlane } from "@/lib/engine/plane";
-import { projectToPlane } from "@/lib/engine/project";
+import { projectToPlane } from "@/lib/display/frame";
 import { triangulate } from "@/lib/engine/triangulate";
 import { gridSpecFor } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";

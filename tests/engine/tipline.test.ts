@@ -4,7 +4,7 @@ import { analyzePicks } from "@/lib/engine/pipeline";
 import { insidePolygon } from "@/lib/engine/tipline-inputs";
 import type { PickColumns, SegmentResult, TipEndSide } from "@/lib/engine/types";
 import { fitPlane } from "@/lib/engine/plane";
-import { projectToPlane } from "@/lib/engine/project";
+import { projectToPlane } from "@/lib/display/frame";
 import { truthBattery, truthHeight, truthLength, truthPicks, truthRadius, type TruthFault } from "./tipline-truth";
 
 // The truth of every fault below is generated in ./tipline-truth.ts, independently of the engine. Profiles and their

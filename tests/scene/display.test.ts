@@ -1,11 +1,6 @@
 import { describe, expect, it } from "vitest";
-import {
-  buildFaultDisplay,
-  decimateGrid,
-  decodeFaultDisplay,
-  encodeFaultDisplay,
-  selectDisplayPicks,
-} from "@/lib/analysis/display";
+import { buildFaultDisplay, decimateGrid, selectDisplayPicks } from "@/lib/display/build";
+import { decodeFaultDisplay, encodeFaultDisplay } from "@/lib/display/payload";
 import { analyzePicks } from "@/lib/engine/pipeline";
 import { generateSyntheticPicks, syntheticRelayOptions } from "@/lib/engine/synthetic";
 import { DIP_DEG, domeGrid, fixtureAnalysis, picksOnPlane, UTM_CENTROID } from "./fixture";

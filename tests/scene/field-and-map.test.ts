@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { interpolateViridis } from "d3-scale-chromatic";
-import { buildFaultDisplay } from "@/lib/analysis/display";
+import { buildFaultDisplay } from "@/lib/display/build";
 import { buildSurfaceMesh, linearToSrgb255, parseCssColor } from "@/scene/geometry";
 import { buildContourMap, toReferenceFrame } from "@/scene/map2d";
 import { domeGrid, fixtureAnalysis, picksOnPlane, UTM_CENTROID } from "./fixture";

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
-import { buildFaultDisplay, type FaultDisplay } from "@/lib/analysis/display";
+import { buildFaultDisplay } from "@/lib/display/build";
+import { worldToPlane } from "@/lib/display/frame";
+import type { FaultDisplay } from "@/lib/contracts/display";
 import {
   buildContourLines,
   buildMappedLimitLines,
@@ -12,7 +14,6 @@ import {
   contrastingLineColour,
   displayBounds,
   framingPoints,
-  frameCoordinates,
   lineLiftM,
   linearToSrgb255,
   niceTicks,
@@ -103,7 +104,7 @@ describe("buildSurfaceMesh", () => {
     const { grid, frame } = segment;
     const mesh = buildSurfaceMesh(segment, { ...options, exaggeration: 3 });
     for (const node of [0, 4 * grid.columns + 5, 2 * grid.columns + 7]) {
-      const [s, t, h] = frameCoordinates(frame, mesh.positions[node * 3], mesh.positions[node * 3 + 1], mesh.positions[node * 3 + 2]);
+      const [s, t, h] = worldToPlane(frame, mesh.positions[node * 3], mesh.positions[node * 3 + 1], mesh.positions[node * 3 + 2]);
       expect(s).toBeCloseTo(grid.s0 + (node % grid.columns) * grid.cellM, 3);
       expect(t).toBeCloseTo(grid.t0 + Math.floor(node / grid.columns) * grid.cellM, 3);
       expect(h).toBeCloseTo(grid.displacementM[node] * 3, 3);
@@ -125,7 +126,7 @@ describe("buildContourLines", () => {
       expect(pointCount).toBeGreaterThan(20);
       const levels = new Set<number>();
       for (let point = 0; point < pointCount; point++) {
-        const [s, t, h] = frameCoordinates(
+        const [s, t, h] = worldToPlane(
           segment.frame,
           lines.positions[point * 3],
           lines.positions[point * 3 + 1],
@@ -156,13 +157,13 @@ describe("tip line, mapped limit, peak", () => {
     // a closed polygon of n distinct vertices gives n segments
     expect(tip.length / 6).toBe(segment.tipLine.length - 1);
     for (let point = 0; point < tip.length / 3; point++) {
-      const [s, t, h] = frameCoordinates(segment.frame, tip[point * 3], tip[point * 3 + 1], tip[point * 3 + 2]);
+      const [s, t, h] = worldToPlane(segment.frame, tip[point * 3], tip[point * 3 + 1], tip[point * 3 + 2]);
       expect(h).toBeCloseTo(lift, 3);
       expect((s / segment.tipLine[0][0]) ** 2 + (t / segment.tipLine[6][1]) ** 2).toBeCloseTo(1, 4);
     }
     const mapped = buildMappedLimitLines(display, 2).positions;
     for (let point = 0; point < mapped.length / 3; point++) {
-      const [, , h] = frameCoordinates(segment.frame, mapped[point * 3], mapped[point * 3 + 1], mapped[point * 3 + 2]);
+      const [, , h] = worldToPlane(segment.frame, mapped[point * 3], mapped[point * 3 + 1], mapped[point * 3 + 2]);
       expect(h).toBeGreaterThan(lift);
     }
   });
@@ -172,7 +173,7 @@ describe("tip line, mapped limit, peak", () => {
     const display = singleSegmentDisplay();
     const segment = display.segments[0];
     const [x, y, z] = buildPeakPoints(display, 1).positions;
-    const [s, t, h] = frameCoordinates(segment.frame, x, y, z);
+    const [s, t, h] = worldToPlane(segment.frame, x, y, z);
     expect([s, t]).toEqual([expect.closeTo(0, 3), expect.closeTo(0, 3)]);
     expect(h).toBeCloseTo(50 + 2 * lineLiftM(display), 3);
   });

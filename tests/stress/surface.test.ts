@@ -1,3 +1,4 @@
+import { rasterizeTriangles } from "@/lib/engine/grid";
 import { describe, expect, it } from "vitest";
 import type { StressParameters } from "@/lib/contracts/stress";
 import { fitPlane } from "@/lib/engine/plane";
@@ -7,7 +8,6 @@ import { DEFAULT_STRESS_PARAMETERS, applyPreset, parseLengthScale } from "@/lib/
 import {
   defaultLengthScaleM,
   gridForLengthScale,
-  rasterizeTriangleValues,
   rawTriangleElements,
   screenElements,
   segmentSurface,
@@ -150,7 +150,7 @@ describe("screen of a triangulated surface", () => {
   it("rasterises per-triangle values onto the grid nodes inside each triangle, NaN elsewhere", () => {
     const s = [0, 10, 10, 0];
     const t = [0, 0, 10, 10];
-    const [out] = rasterizeTriangleValues(s, t, [0, 1, 2, 0, 2, 3], [[7, 9]], { s0: 0, t0: 0, cellM: 5, columns: 4, rows: 3 });
+    const [out] = rasterizeTriangles(s, t, [[7, 9]], [0, 1, 2, 0, 2, 3], { s0: 0, t0: 0, cellM: 5, columns: 4, rows: 3 }, true);
     // node (10, 0) lies only in the first triangle; (0, 10) only in the second; (15, *) outside
     expect(out[0 * 4 + 2]).toBe(7);
     expect(out[2 * 4 + 0]).toBe(9);

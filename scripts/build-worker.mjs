@@ -1,7 +1,7 @@
 // Bundles the two worker-thread entries: the analysis engine (dist/analysis-worker.mjs), so analyses run off the web
 // server's event loop, and the database thread (dist/database-worker.mjs), which runs PGlite; and the job worker
 // process (dist/job-worker.mjs, the bundled `npm run worker`: `node dist/job-worker.mjs` from the project folder).
-import { build } from "esbuild";
+import { build, context as esbuildContext } from "esbuild";
 import path from "node:path";
 
 const root = path.resolve(path.dirname(new URL(import.meta.url).pathname), "..");
@@ -24,7 +24,41 @@ const workers = [
     banner: { js: "import { createRequire } from 'node:module'; const require = createRequire(import.meta.url);" },
   },
 ];
-for (const { entry, outfile, ...options } of workers) {
-  await build({ entryPoints: [path.join(root, entry)], outfile: path.join(root, outfile), bundle: true, platform: "node", format: "esm", target: "node20", logLevel: "warning", ...options });
+const buildOptions = ({ entry, outfile, ...options }) => ({
+  entryPoints: [path.join(root, entry)],
+  outfile: path.join(root, outfile),
+  bundle: true,
+  platform: "node",
+  format: "esm",
+  target: "node20",
+  logLevel: "warning",
+  ...options,
+});
+
+/**
+ * Development: every bundle built now and rebuilt when a source it includes changes (esbuild's watch mode); the pool
+ * starts new threads from the rebuilt file. Returns the esbuild contexts (dispose them to stop watching).
+ */
+export async function watchWorkers() {
+  const contexts = [];
+  for (const worker of workers) {
+    const reported = {
+      name: "slipfield-report",
+      setup(buildApi) {
+        buildApi.onEnd((result) => {
+          if (result.errors.length === 0) console.log(`slipfield: rebuilt ${worker.outfile}`);
+        });
+      },
+    };
+    const context = await esbuildContext(buildOptions({ ...worker, plugins: [reported] }));
+    await context.rebuild();
+    await context.watch();
+    contexts.push(context);
+  }
+  return contexts;
 }
-console.log(`slipfield: built ${workers.map((worker) => worker.outfile).join(", ")}`);
+
+if (process.argv[1] && path.resolve(process.argv[1]) === path.resolve(new URL(import.meta.url).pathname)) {
+  for (const worker of workers) await build(buildOptions(worker));
+  console.log(`slipfield: built ${workers.map((worker) => worker.outfile).join(", ")}`);
+}

@@ -3,6 +3,7 @@
 // (the data stop while displacement is still high), and places just beyond the closed edges where nothing was picked.
 import type { ProfileModel, TipEndSide } from "./types";
 import { AUTOMATIC_CANDIDATES } from "./profiles";
+import { select } from "./optimize";
 
 /** At most this many picks enter the fits; neighbouring picks share interpretation error, so more add little. */
 export const MAX_FIT_POINTS = 900;
@@ -45,33 +46,11 @@ export interface TipLineInputs {
   spacing: { alongStrikeM: number; downDipM: number };
 }
 
-/** The value at a fraction of the way through the sorted values (nearest rank, on a copy, by quickselect). */
+/** The value at a fraction of the way through the sorted values (nearest rank, on a copy). */
 function quantileOf(values: ArrayLike<number>, fraction: number): number {
   const a = Float64Array.from(values);
   if (!a.length) return NaN;
-  const k = Math.min(a.length - 1, Math.max(0, Math.floor(fraction * (a.length - 1))));
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const tmp = a[i];
-        a[i] = a[j];
-        a[j] = tmp;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else break;
-  }
-  return a[k];
+  return select(a, Math.min(a.length - 1, Math.max(0, Math.floor(fraction * (a.length - 1)))));
 }
 
 /**

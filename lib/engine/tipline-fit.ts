@@ -434,7 +434,7 @@ function thinned(problem: Problem, k: number): Problem {
 }
 
 /** Observations in the quick first fit; the full sample then only polishes. */
-const QUICK_OBSERVATIONS = 300;
+const QUICK_OBSERVATIONS = 200;
 
 function fitCandidate(problem: Problem, model: ProfileModel, noiseGuess: number): { point: number[]; value: number } {
   const candidate = PROFILE_CANDIDATES[model];
@@ -465,16 +465,15 @@ function sandwichCovariance(problem: Problem, model: ProfileModel, point: number
     evaluate(problem, candidate.kind, shapeCount, p, g, null, false);
     return g;
   };
+  // forward differences of the analytic gradient (k + 1 gradients; symmetrised below)
   const H = new Matrix(k, k);
+  const g0 = gradientAt(Float64Array.from(point));
   for (let i = 0; i < k; i++) {
     const h = 1e-5 * Math.max(1, Math.abs(point[i]));
     const plus = Float64Array.from(point);
-    const minus = Float64Array.from(point);
     plus[i] += h;
-    minus[i] -= h;
     const gp = gradientAt(plus);
-    const gm = gradientAt(minus);
-    for (let j = 0; j < k; j++) H.set(i, j, (gp[j] - gm[j]) / (2 * h));
+    for (let j = 0; j < k; j++) H.set(i, j, (gp[j] - g0[j]) / h);
   }
   const symmetric = H.add(H.transpose()).mul(0.5);
   const scores = Array.from({ length: k }, () => new Float64Array(n));

@@ -66,19 +66,21 @@ export function estimateCutoffM(d: ArrayLike<number>): number {
  * seismic lines, sparse between them) have very different spacings in the two directions.
  */
 export function directionalSpacing(s: ArrayLike<number>, t: ArrayLike<number>, triangles: ArrayLike<number>, fallbackM: number): { alongStrikeM: number; downDipM: number } {
-  const along: number[] = [];
-  const down: number[] = [];
   const stride = Math.max(1, Math.floor(triangles.length / 60_000));
+  const capacity = Math.ceil(triangles.length / stride);
+  const along = new Float64Array(capacity);
+  const down = new Float64Array(capacity);
+  let na = 0, nd = 0;
   for (let e = 0; e < triangles.length; e += stride) {
     const a = triangles[e];
     const b = triangles[e % 3 === 2 ? e - 2 : e + 1];
     const ds = Math.abs(s[a] - s[b]);
     const dt = Math.abs(t[a] - t[b]);
-    if (ds >= dt) along.push(ds);
-    else down.push(dt);
+    if (ds >= dt) along[na++] = ds;
+    else down[nd++] = dt;
   }
-  const median = (v: number[]) => (v.length ? quantileOf(v, 0.5) : fallbackM);
-  return { alongStrikeM: median(along) || fallbackM, downDipM: median(down) || fallbackM };
+  const median = (v: Float64Array, count: number) => (count ? select(v.subarray(0, count), count >> 1) : fallbackM);
+  return { alongStrikeM: median(along, na) || fallbackM, downDipM: median(down, nd) || fallbackM };
 }
 
 /** Order-independent subsample: a pick is kept when a hash of its coordinates falls in the kept fraction. */

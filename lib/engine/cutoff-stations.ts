@@ -232,11 +232,15 @@ interface LinePoint {
   slope: number;
 }
 
-/** The point of the first piece covering s (linear between its vertices), or null where none does. */
-function pointAt(pieces: PlacedLine[], s: number): LinePoint | null {
+/**
+ * The point of the first piece covering s (linear between its vertices), or null where none does. A station within
+ * `toleranceM` beyond a line's end takes the end point: lines that end at the same northing can differ there by the
+ * rounding of their coordinates.
+ */
+function pointAt(pieces: PlacedLine[], s: number, toleranceM: number): LinePoint | null {
   for (const piece of pieces) {
     const n = piece.s.length;
-    if (s < piece.s[0] - 1e-9 || s > piece.s[n - 1] + 1e-9) continue;
+    if (s < piece.s[0] - toleranceM || s > piece.s[n - 1] + toleranceM) continue;
     let k = 0;
     while (k < n - 2 && piece.s[k + 1] < s) k++;
     const ds = piece.s[k + 1] - piece.s[k];
@@ -317,6 +321,7 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
     const first = Math.ceil(sMin / stationSpacingM - 1e-9);
     const last = Math.floor(sMax / stationSpacingM + 1e-9);
     if (last - first + 1 > MAX_STATIONS) throw new CutoffInputError(`a station spacing of ${stationSpacingM} m gives more than ${MAX_STATIONS.toLocaleString("en")} stations along segment "${segmentName}"; choose a larger spacing`, [{ row: 1, column: "station spacing", reason: "too many stations" }]);
+    const endToleranceM = 0.01 * stationSpacingM;
     const stationsS = Array.from({ length: Math.max(0, last - first + 1) }, (_, k) => (first + k) * stationSpacingM);
     const dipDirection: [number, number] = [Math.sin(frame.dipDirectionDeg * RAD), Math.cos(frame.dipDirectionDeg * RAD)];
     const horizonsHere = [...new Set(mine.map((p) => p.line.horizon))];
@@ -338,8 +343,8 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
       const stats = perHorizon.get(name) ?? { throws: [], missing: 0 };
       perHorizon.set(name, stats);
       for (const s of stationsS) {
-        const hw = pointAt(walls.hw, s);
-        const fw = pointAt(walls.fw, s);
+        const hw = pointAt(walls.hw, s, endToleranceM);
+        const fw = pointAt(walls.fw, s, endToleranceM);
         row.hwZ.push(hw ? rounded(hw.z) : null);
         row.fwZ.push(fw ? rounded(fw.z) : null);
         row.hwTwtMs?.push(hw ? rounded(hw.twt) : null);

@@ -5,7 +5,7 @@
 import Papa from "papaparse";
 // zod/mini, as the pick reader: the command line bundles this file
 import * as z from "zod/mini";
-import { MAX_REJECTED_LISTED, PickInputError } from "./csv";
+import { MAX_REJECTED_LISTED, PickInputError } from "./input-error";
 import { DegeneratePlaneError, fitPlane } from "./plane";
 import type { LengthUnit, RejectedRow } from "./types";
 
@@ -80,11 +80,13 @@ export function isCutoffCsv(text: string): boolean {
     .some((cell) => cell.trim().replace(/^"|"$/g, "").trim().toLowerCase() === "wall");
 }
 
-/** The file's vertical column: z or depth (m) or twt (ms); null when the header has none of them. */
+/** The file's vertical column: z or depth (m), else twt (ms); null when the header has none of them. */
 export function verticalColumnOf(text: string): "z" | "depth" | "twt" | null {
-  const header = Papa.parse<string[]>(text.slice(0, Math.max(0, text.indexOf("\n")) || text.length), { preview: 1 }).data[0] ?? [];
+  const start = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  const end = text.indexOf("\n", start);
+  const header = Papa.parse<string[]>(text.slice(start, end < 0 ? text.length : end), { preview: 1 }).data[0] ?? [];
   const names = header.map((h) => h.trim().toLowerCase());
-  return (["twt", "z", "depth"] as const).find((name) => names.includes(name)) ?? null;
+  return (["z", "depth", "twt"] as const).find((name) => names.includes(name)) ?? null;
 }
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).check(z.refine(Number.isFinite, { error: `${what} must be a finite number` }));

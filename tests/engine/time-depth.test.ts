@@ -111,3 +111,37 @@ describe("velocity models as given on the command line and in forms", () => {
     expect(velocityModelProblems({ kind: "linear", v0MPerS: 1800, kPerS: 9 })).toEqual(["k must be between −5 and 5 1/s (got 9)"]);
   });
 });
+
+describe("throw picks in two-way time: each wall converted on its own, never a time throw scaled by one velocity", () => {
+  it("linear model: the hanging wall at TWT + ΔTWT/2, the footwall at TWT − ΔTWT/2; the original times kept", async () => {
+    const { parsePickCsv } = await import("@/lib/engine/csv");
+    const text = "x,y,twt,throw\n0,0,1400,40\n100,0,1420,44\n0,100,1380,36\n100,100,1450,30\n";
+    const { picks } = parsePickCsv(text, { velocityModel: { kind: "linear", v0MPerS: 1800, kPerS: 0.6 } });
+    const hw = depthFromTwtLinear(1420, 1800, 0.6);
+    const fw = depthFromTwtLinear(1380, 1800, 0.6);
+    expect(picks.throwM[0]).toBeCloseTo(hw - fw, 9);
+    expect(picks.z[0]).toBeCloseTo(-(hw + fw) / 2, 9);
+    // a 40 ms throw at about 1 s one-way time is some 44 m here, not 40 × 1800 / 2000 = 36 m
+    expect(picks.throwM[0]).toBeGreaterThan(43);
+    expect(Array.from(picks.twtMs!)).toEqual([1400, 1420, 1380, 1450]);
+    expect(Array.from(picks.throwMs!)).toEqual([40, 44, 36, 30]);
+  });
+
+  it("without a velocity model a file in time is refused on its header", async () => {
+    const { parsePickCsv, PickInputError } = await import("@/lib/engine/csv");
+    expect(() => parsePickCsv("x,y,twt,throw\n0,0,1400,40\n")).toThrow(PickInputError);
+    expect(() => parsePickCsv("x,y,twt,throw\n0,0,1400,40\n")).toThrow(/two-way time \(twt, ms\): give a velocity model/);
+  });
+
+  it("interval velocities: picks of H1 and H2 along strike, H2 converted through H1's time on the same wall", async () => {
+    const { parsePickCsv } = await import("@/lib/engine/csv");
+    // H1 at 800 ms with a 40 ms throw (walls 820 / 780 ms), H2 at 1200 ms with a 50 ms throw (1225 / 1175 ms)
+    const rows = ["x,y,twt,throw,horizon"];
+    for (const y of [0, 500, 1000]) rows.push(`0,${y},800,40,H1`, `200,${y},1200,50,H2`);
+    const { picks } = parsePickCsv(rows.join("\n"), { velocityModel: { kind: "intervals", intervals: [{ horizon: "H1", velocityMPerS: 2000 }, { horizon: "H2", velocityMPerS: 2500 }] } });
+    // H1: 2000 × 0.41 − 2000 × 0.39 = 40 m. H2 hanging wall 820 + 2500 × 0.2025 = 1326.25 m; footwall 780 + 2500 × 0.1975 = 1273.75 m
+    expect(picks.throwM[0]).toBeCloseTo(40, 9);
+    expect(picks.throwM[1]).toBeCloseTo(52.5, 9);
+    expect(picks.z[1]).toBeCloseTo(-1300, 9);
+  });
+});

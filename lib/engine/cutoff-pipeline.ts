@@ -11,7 +11,11 @@ export type CutoffOptions = CutoffParseOptions & CutoffDeriveOptions;
 
 /** Reads a cut-off file and derives its pick set; throws CutoffInputError (every problem with its row) when it cannot. */
 export function deriveCutoffCsv(text: string, options: CutoffOptions = {}): { parsed: CutoffParseResult; derivation: CutoffDerivation } {
-  const parsed = parseCutoffCsv(text, options);
+  return deriveChecked(parseCutoffCsv(text, options), options);
+}
+
+/** Derives the pick set of a read cut-off file and checks that its picks span a surface in each segment. */
+export function deriveChecked(parsed: CutoffParseResult, options: CutoffDeriveOptions = {}): { parsed: CutoffParseResult; derivation: CutoffDerivation } {
   const derivation = deriveFromCutoffs(parsed, options);
   const problems = derivedPickProblems(derivation.picks);
   if (problems.length) {

@@ -3,8 +3,7 @@ import { mkdtempSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
-import { twtFromDepthLinear } from "@/lib/engine/time-depth";
-import { onFault } from "./cutoff-fixtures";
+import { onFault, timeCutoffCsv } from "./cutoff-fixtures";
 
 const root = path.resolve(__dirname, "../..");
 // exactly the command outside checks run
@@ -15,30 +14,10 @@ beforeAll(() => {
   dir = mkdtempSync(path.join(os.tmpdir(), "slipfield-cutoffs-"));
 });
 
-/**
- * Three horizons on the 60° fault of tests/engine/cutoff-fixtures.ts, written in two-way time with v(z) = 1800 + 0.6 z:
- * footwall depths 1500, 1800, 2100 m, thrown down 60, 70 and 80 m, vertices every 100 m of northing from 0 to 2000 m;
- * the hanging-wall cut-off of H3 stops at 1500 m.
- */
-function timeFile(): string {
-  const rows = ["x,y,twt,horizon,wall"];
-  const horizons: [string, number, number][] = [["H1", 1500, 60], ["H2", 1800, 70], ["H3", 2100, 80]];
-  for (const [name, depth, throwM] of horizons) {
-    for (const [wall, d] of [["fw", depth], ["hw", depth + throwM]] as const) {
-      const lastY = name === "H3" && wall === "hw" ? 1500 : 2000;
-      for (let y = 0; y <= lastY; y += 100) {
-        const [x] = onFault(y, -d);
-        rows.push(`${x.toFixed(3)},${y},${twtFromDepthLinear(d, 1800, 0.6).toFixed(4)},${name},${wall}`);
-      }
-    }
-  }
-  return `${rows.join("\n")}\n`;
-}
-
 describe("npm run --silent analyze -- cutoffs.csv --json --velocity \"v0=1800,k=0.6\"", () => {
   it("recognises the cut-off file by its wall column, converts the times, pairs the walls and analyses the derived picks", () => {
     const file = path.join(dir, "cutoffs.csv");
-    writeFileSync(file, timeFile());
+    writeFileSync(file, timeCutoffCsv());
     const r = analyze(file, "--json", "--velocity", "v0=1800,k=0.6");
     expect(r.status, r.stderr).toBe(0);
     const report = JSON.parse(r.stdout);
@@ -61,7 +40,7 @@ describe("npm run --silent analyze -- cutoffs.csv --json --velocity \"v0=1800,k=
 
   it("refuses a file in time without --velocity (exit 2, the reason on standard error), and a bad --velocity", () => {
     const file = path.join(dir, "cutoffs-time.csv");
-    writeFileSync(file, timeFile());
+    writeFileSync(file, timeCutoffCsv());
     const r = analyze(file, "--json");
     expect(r.status).toBe(2);
     expect(r.stdout).toBe("");

@@ -86,16 +86,44 @@ export function pairKind(a: Band["kind"], b: Band["kind"]): PairKind {
 
 const value = (v: number | null | undefined) => (v === null || v === undefined ? NaN : v);
 
-/** Bands of one wall: the undescribed band, then each placed unit down to the next one's top (the last to the bottom). */
-function bandsOf(wall: "hwZ" | "fwZ", placed: { unit: StratigraphyUnit; trace: JuxtapositionTraces["horizons"][number] }[], topZ: number[], bottomZ: number[]): Band[] {
+type Placed = { unit: StratigraphyUnit; trace: JuxtapositionTraces["horizons"][number] };
+
+/**
+ * The placed units whose top horizon has a cut-off on both walls at station k, when they run without a gap: [first,
+ * last] in table order; null when none does or one in between is missing (the column is then not known there).
+ */
+export function presentRange(placed: Placed[], k: number): [number, number] | null {
+  const present = placed.map(({ trace }) => trace.hwZ[k] !== null && trace.hwZ[k] !== undefined && trace.fwZ[k] !== null && trace.fwZ[k] !== undefined);
+  const first = present.indexOf(true);
+  if (first < 0) return null;
+  const last = present.lastIndexOf(true);
+  for (let i = first; i <= last; i++) if (!present[i]) return null;
+  return [first, last];
+}
+
+/**
+ * Bands of one wall at every station: within the diagram, the band above the first horizon present there belongs to
+ * the unit above it in the table (undescribed above the table's first horizon), each present unit reaches down to the
+ * next one's top, the last present one to the bottom. NaN where a band is not in the diagram at that station.
+ */
+function bandsOf(wall: "hwZ" | "fwZ", placed: Placed[], ranges: ([number, number] | null)[], topZ: number[], bottomZ: number[]): Band[] {
   const n = topZ.length;
-  const bands: Band[] = [{ unit: UNDESCRIBED, kind: "undescribed", topZ: topZ.slice(), baseZ: Array.from({ length: n }, (_, k) => value(placed[0].trace[wall][k])) }];
-  placed.forEach(({ unit }, i) => {
-    const top = Array.from({ length: n }, (_, k) => value(placed[i].trace[wall][k]));
-    const base = i + 1 < placed.length ? Array.from({ length: n }, (_, k) => value(placed[i + 1].trace[wall][k])) : bottomZ.slice();
-    bands.push({ unit: unit.name, kind: unit.kind, topZ: top, baseZ: base });
-  });
-  return bands;
+  const at = (i: number, k: number) => value(placed[i].trace[wall][k]);
+  const undescribed: Band = { unit: UNDESCRIBED, kind: "undescribed", topZ: new Array(n).fill(NaN), baseZ: new Array(n).fill(NaN) };
+  const units: Band[] = placed.map(({ unit }) => ({ unit: unit.name, kind: unit.kind, topZ: new Array(n).fill(NaN), baseZ: new Array(n).fill(NaN) }));
+  for (let k = 0; k < n; k++) {
+    const range = ranges[k];
+    if (!range) continue;
+    const [first, last] = range;
+    const above = first === 0 ? undescribed : units[first - 1];
+    above.topZ[k] = topZ[k];
+    above.baseZ[k] = at(first, k);
+    for (let i = first; i <= last; i++) {
+      units[i].topZ[k] = at(i, k);
+      units[i].baseZ[k] = i < last ? at(i + 1, k) : bottomZ[k];
+    }
+  }
+  return [undescribed, ...units];
 }
 
 /**
@@ -131,21 +159,22 @@ export function juxtapose(traces: JuxtapositionTraces, units: StratigraphyUnit[]
     .map((unit) => ({ unit, trace: traces.horizons.find((h) => h.name.trim().toLowerCase() === unit.topHorizon.trim().toLowerCase()) }))
     .filter((entry): entry is { unit: StratigraphyUnit; trace: JuxtapositionTraces["horizons"][number] } => Boolean(entry.trace));
   const unplaced = units.filter((unit) => !placed.some((entry) => entry.unit === unit)).map((unit) => unit.name);
+  const ranges = traces.stationsS.map((_, k) => presentRange(placed, k));
   const topZ: number[] = [];
   const bottomZ: number[] = [];
   for (let k = 0; k < n; k++) {
-    let top = -Infinity, bottom = Infinity, complete = placed.length > 0;
-    for (const { trace } of placed) {
-      for (const z of [trace.hwZ[k], trace.fwZ[k]]) {
-        if (z === null || z === undefined) complete = false;
-        else {
+    const range = ranges[k];
+    let top = -Infinity, bottom = Infinity;
+    if (range) {
+      for (let i = range[0]; i <= range[1]; i++) {
+        for (const z of [placed[i].trace.hwZ[k] as number, placed[i].trace.fwZ[k] as number]) {
           top = Math.max(top, z);
           bottom = Math.min(bottom, z);
         }
       }
     }
-    topZ.push(complete ? top : NaN);
-    bottomZ.push(complete ? bottom : NaN);
+    topZ.push(range ? top : NaN);
+    bottomZ.push(range ? bottom : NaN);
   }
   if (placed.length === 0) {
     notes.push("none of the stratigraphy table's top horizons has cut-offs on this segment");
@@ -153,14 +182,19 @@ export function juxtapose(traces: JuxtapositionTraces, units: StratigraphyUnit[]
   }
   const ordered = placed.every((entry, i) => i === 0 || meanOf(entry.trace.fwZ) <= meanOf(placed[i - 1].trace.fwZ));
   if (!ordered) notes.push("the table's order of units differs from the order of their footwall cut-offs in depth; the table's order is used");
-  const hw = bandsOf("hwZ", placed, topZ, bottomZ);
-  const fw = bandsOf("fwZ", placed, topZ, bottomZ);
+  if (ranges.some((range, k) => range && (range[0] > 0 || range[1] < placed.length - 1) && Number.isFinite(topZ[k]))) {
+    notes.push("where a horizon's cut-offs end, the diagram spans the horizons that remain, the unit above the first of them reaching to its top");
+  }
+  /** between stations k and k + 1 the same horizons are present: the diagram is drawn and measured there */
+  const spans = (k: number) => Boolean(ranges[k] && ranges[k + 1] && ranges[k]![0] === ranges[k + 1]![0] && ranges[k]![1] === ranges[k + 1]![1]);
+  const hw = bandsOf("hwZ", placed, ranges, topZ, bottomZ);
+  const fw = bandsOf("fwZ", placed, ranges, topZ, bottomZ);
   const sin = Math.sin((traces.dipDeg * Math.PI) / 180);
 
   let windowAreaM2 = 0;
   let coveredLengthM = 0;
   for (let k = 0; k + 1 < n; k++) {
-    if (!Number.isFinite(topZ[k]) || !Number.isFinite(topZ[k + 1])) continue;
+    if (!spans(k)) continue;
     const ds = traces.stationsS[k + 1] - traces.stationsS[k];
     coveredLengthM += ds;
     windowAreaM2 += (ds * (topZ[k] - bottomZ[k] + topZ[k + 1] - bottomZ[k + 1])) / 2;
@@ -182,7 +216,7 @@ export function juxtapose(traces: JuxtapositionTraces, units: StratigraphyUnit[]
         lowerRun = [];
       };
       for (let k = 0; k + 1 < n; k++) {
-        if (!Number.isFinite(topZ[k]) || !Number.isFinite(topZ[k + 1])) {
+        if (!spans(k) || ![a.topZ[k], a.topZ[k + 1], b.topZ[k], b.topZ[k + 1]].every(Number.isFinite)) {
           closeRun();
           continue;
         }

@@ -69,6 +69,21 @@ describe("juxtaposition areas on a two-unit fault, against areas computed by han
     expect(result.unplaced).toEqual(["Deep sand"]);
   });
 
+  it("where the top horizon's cut-offs end, the diagram spans the horizons left, the unit above reaching to the top", () => {
+    // H1 has no cut-offs at s = 1000 and 1500 m: there the diagram runs from H2's footwall (−1100 m) to its hanging
+    // wall (−1150 m), and the hanging wall's unit above H2 is sand A; the interval where H1 ends (500–1000 m) is left out
+    const traces = twoUnitFault([0, 500, 1000, 1500], () => 50);
+    traces.horizons[0].hwZ[2] = traces.horizons[0].hwZ[3] = null;
+    traces.horizons[0].fwZ[2] = traces.horizons[0].fwZ[3] = null;
+    const result = juxtapose(traces, units);
+    expect(result.coveredLengthM).toBe(1000);
+    expect(areaOf(result, "Sand A", "Shale B")).toBeCloseTo(25_000 + 25_000, 6);
+    expect(areaOf(result, "Sand A", "Sand A")).toBeCloseTo(25_000, 6);
+    expect(areaOf(result, "undescribed", "Sand A")).toBeCloseTo(25_000, 6);
+    expect(result.windowAreaM2).toBeCloseTo(150 * 500 + 50 * 500, 6);
+    expect(result.notes.join(" ")).toMatch(/where a horizon's cut-offs end/);
+  });
+
   it("what meets what, and the CSV of the areas", () => {
     expect(pairKind("reservoir", "reservoir")).toBe("reservoir-reservoir");
     expect(pairKind("seal", "reservoir")).toBe("reservoir-seal");

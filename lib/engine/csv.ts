@@ -4,7 +4,7 @@ import * as z from "zod/mini";
 import type { LengthUnit, ParseResult, PickColumns, RejectedRow } from "./types";
 import { DegeneratePlaneError, fitPlane } from "./plane";
 
-import { MAX_REJECTED_LISTED, PickInputError } from "./input-error";
+import { MAX_REJECTED_LISTED, PickInputError, problemList, summariseProblems } from "./input-error";
 import { picksToDepth } from "./time-picks";
 import type { VelocityModel } from "./time-depth";
 
@@ -58,12 +58,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   const units = options.units ?? "m";
   const scale = units === "ft" ? FEET_TO_M : 1;
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rejected: RejectedRow[] = [];
-  let rejectedCount = 0;
-  const reject = (r: RejectedRow) => {
-    rejectedCount++;
-    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
-  };
+  const problems = problemList();
+  const { rejected, reject } = problems;
   const warnings: string[] = [];
   // clean numeric files take a tight loop over the string; anything it cannot vouch for goes through papaparse + zod
   const table = readRowsFast(body, scale) ?? readRowsGeneral(body, scale, reject);
@@ -77,7 +73,7 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
   if (table.twt) {
     // two-way time: each wall converted to depth on its own (lib/engine/time-picks.ts), once every row is known good
-    if (rejectedCount > 0 && !options.dropBadRows) throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+    if (problems.count > 0 && !options.dropBadRows) throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
     if (picks.x.length > 0) {
       const converted = picksToDepth(picks, cut(table.twt), options.velocityModel);
       picks = converted.picks;
@@ -90,8 +86,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   picks = dup.picks;
   if (dup.merged > 0) warnings.push(`${dup.merged} duplicate picks averaged into the pick at the same position`);
 
-  if (rejectedCount > 0 && !options.dropBadRows) {
-    throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  if (problems.count > 0 && !options.dropBadRows) {
+    throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
   }
 
   const segmentProblems: RejectedRow[] = [];
@@ -112,10 +108,10 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   if (picks.x.length === 0) segmentProblems.push({ row: 2, column: "x", reason: "no usable picks" });
   if (segmentProblems.length) {
     const all = [...rejected, ...segmentProblems].slice(0, MAX_REJECTED_LISTED);
-    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
+    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, problems.count + segmentProblems.length > all.length);
   }
 
-  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: problems.count > rejected.length, warnings };
 }
 
 interface RowTable {
@@ -501,11 +497,7 @@ class NameTable {
   }
 }
 
-function summarise(list: RejectedRow[], total: number): string {
-  const shown = list.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
-  const more = total > shown.length ? `; and ${total - shown.length} more` : "";
-  return `${total} problem${total === 1 ? "" : "s"} in the pick file: ${shown.join("; ")}${more}`;
-}
+const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "pick file");
 
 export function indicesBySegment(picks: PickColumns): Uint32Array[] {
   const counts = new Uint32Array(picks.segmentNames.length);

@@ -5,7 +5,7 @@
 import Papa from "papaparse";
 // zod/mini, as the pick reader: the command line bundles this file
 import * as z from "zod/mini";
-import { MAX_REJECTED_LISTED, PickInputError } from "./input-error";
+import { MAX_REJECTED_LISTED, PickInputError, problemList, summariseProblems } from "./input-error";
 import { DegeneratePlaneError, fitPlane } from "./plane";
 import type { LengthUnit, RejectedRow } from "./types";
 
@@ -104,22 +104,14 @@ const cutoffRowSchema = z.object({
 const WALL_SPELLINGS: Record<string, Wall> = { hw: "hw", fw: "fw", "hanging wall": "hw", "hanging-wall": "hw", hangingwall: "hw", footwall: "fw", "foot wall": "fw", "foot-wall": "fw" };
 const KNOWN = new Set(["x", "y", "z", "depth", "twt", "horizon", "wall", "line", "segment"]);
 
-function summarise(list: RejectedRow[], total: number): string {
-  const shown = list.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
-  const more = total > shown.length ? `; and ${total - shown.length} more` : "";
-  return `${total} problem${total === 1 ? "" : "s"} in the cut-off file: ${shown.join("; ")}${more}`;
-}
+const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "cut-off file");
 
 /** Parse and check a cut-off line file (header row required, names case-insensitive). Lengths in metres. */
 export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): CutoffParseResult {
   const scale = options.units === "ft" ? FEET_TO_M : 1;
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rejected: RejectedRow[] = [];
-  let rejectedCount = 0;
-  const reject = (r: RejectedRow) => {
-    rejectedCount++;
-    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
-  };
+  const problems = problemList();
+  const { rejected, reject } = problems;
   const warnings: string[] = [];
 
   const table = Papa.parse<string[]>(body, { skipEmptyLines: true }).data;
@@ -214,7 +206,7 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
     segmentNames,
     sourceRow: src.slice(0, count),
   };
-  if (rejectedCount > 0 && !options.dropBadRows) throw new CutoffInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  if (problems.count > 0 && !options.dropBadRows) throw new CutoffInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
 
   // lines: the vertices of one (segment, horizon, wall, line id) in file order
   const groups = new Map<string, number[]>();
@@ -276,12 +268,12 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
       reason: `horizon "${columns.horizonNames[horizon]}"${segmentWords(columns, segment)} has a ${WALL_WORDS[present]} cut-off but no ${WALL_WORDS[absent]} cut-off; a throw needs both walls`,
     });
   }
-  const problems = [...lineProblems, ...horizonProblems].sort((a, b) => a.row - b.row);
-  if (problems.length && !options.dropBadRows) {
-    const all = [...rejected, ...problems].slice(0, MAX_REJECTED_LISTED);
-    throw new CutoffInputError(summarise(problems, problems.length), all, rejectedCount + problems.length > all.length);
+  const unusable = [...lineProblems, ...horizonProblems].sort((a, b) => a.row - b.row);
+  if (unusable.length && !options.dropBadRows) {
+    const all = [...rejected, ...unusable].slice(0, MAX_REJECTED_LISTED);
+    throw new CutoffInputError(summarise(unusable, unusable.length), all, problems.count + unusable.length > all.length);
   }
-  for (const problem of problems) reject({ ...problem, reason: `${problem.reason} (dropped)` });
+  for (const problem of unusable) reject({ ...problem, reason: `${problem.reason} (dropped)` });
   const kept = lines.filter((line) => usable.has(`${line.segment}\u0000${line.horizon}`));
   if (kept.length === 0) {
     const none = { row: 2, column: "horizon", reason: "no horizon has usable cut-off lines on both walls" };
@@ -289,7 +281,7 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
   }
   let accepted = 0;
   for (const line of kept) accepted += line.vertices.length;
-  return { columns, lines: kept, rows: n, accepted, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  return { columns, lines: kept, rows: n, accepted, rejected, rejectedTruncated: problems.count > rejected.length, warnings };
 }
 
 const segmentWords = (columns: CutoffColumns, segment: number) => (columns.segmentNames.length > 1 || columns.segmentNames[segment] !== "main" ? ` in segment "${columns.segmentNames[segment]}"` : "");

@@ -30,6 +30,9 @@ export interface PickColumns {
   /** optional hw_thickness / fw_thickness columns: interval thickness below the pick's horizon (m), NaN where blank */
   hwThicknessM?: Float64Array;
   fwThicknessM?: Float64Array;
+  /** picks read in two-way time: each pick's original time and time throw (ms), kept beside the depth-converted values */
+  twtMs?: Float64Array;
+  throwMs?: Float64Array;
 }
 
 export interface ParseResult {

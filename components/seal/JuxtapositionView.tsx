@@ -4,7 +4,7 @@
 // coloured by what meets what; reservoir against reservoir is drawn as a possible cross-fault pathway. Exports a PNG
 // of the diagram and a CSV of the areas.
 import { useMemo, useRef, useState } from "react";
-import { downloadDataUrl, downloadText, svgToPngDataUrl } from "@/components/analysis-views/download";
+import { downloadDataUrl, downloadText, figurePngDataUrl } from "@/components/analysis-views/download";
 import type { StationSegment } from "@/lib/engine/cutoff-stations";
 import { areasByPair, juxtapose, juxtapositionCsv, PAIR_WORDS, UNDESCRIBED, type Band, type Juxtaposition, type PairKind } from "@/lib/engine/juxtaposition";
 import { describeVelocityModel, DEPTH_CONVERSION_CAUTION } from "@/lib/engine/time-depth";
@@ -86,7 +86,11 @@ export function JuxtapositionView({ studyId, faultId, pickSetId, stem, canEdit }
           <button type="button" className="rounded border border-slate-300 px-2 py-0.5 hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800" disabled={result.areas.length === 0}
             onClick={() => downloadText(juxtapositionCsv(segment.name, result), `${fileStem}-areas.csv`)} data-testid="juxtaposition-csv">CSV of areas</button>
           <button type="button" className="rounded border border-slate-300 px-2 py-0.5 hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"
-            onClick={async () => svgRef.current && downloadDataUrl(await svgToPngDataUrl(svgRef.current, 2, "#ffffff"), `${fileStem}.png`)} data-testid="juxtaposition-png">PNG</button>
+            onClick={async () => {
+              const holder = svgRef.current?.parentElement;
+              const picture = holder ? await figurePngDataUrl(holder, `Juxtaposition diagram, ${segment.name}`, false) : null;
+              if (picture) downloadDataUrl(picture, `${fileStem}.png`);
+            }} data-testid="juxtaposition-png">PNG</button>
         </div>
       </div>
       <Diagram svgRef={svgRef} segment={segment} result={result} fill={fill} />

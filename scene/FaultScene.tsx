@@ -39,7 +39,7 @@ import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore } from "
 import type { CameraState } from "@/lib/contracts/camera";
 import { useLayerVisible, useSceneSettings } from "./sceneSettingsStore";
 import { useOverlayStore } from "./overlayStore";
-import { metres as formatMetres } from "@/components/workspace/format";
+import { metres as formatMetres } from "@/lib/format";
 
 export interface ScenePin {
   id: string;

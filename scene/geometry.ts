@@ -7,19 +7,6 @@ import { writePlaneToWorld } from "@/lib/display/frame";
 import { AS_DRAWN, EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
 
 
-/**
- * A value per display-grid node, per segment, for colouring the surface by something other than
- * displacement (e.g. slip tendency). Arrays match each segment's display grid (columns × rows, row-major).
- */
-export interface ScalarField {
-  key: string;
-  label: string;
-  unit: string;
-  bySegment: Record<string, Float32Array>;
-  range: [number, number];
-  /** reverse the colour scale so that "worse" reads warm (e.g. low pressure-to-failure) */
-  reversed?: boolean;
-}
 
 export interface MeshArrays {
   positions: Float32Array;
@@ -113,6 +100,10 @@ export function displayExtentM(display: FaultDisplay): number {
 
 // ---- surface ---------------------------------------------------------------------------------------------
 
+/** the colour of surface nodes where a colour field has no value (#b8bec6), linear RGB */
+export const NO_VALUE_COLOUR = "#b8bec6";
+const NO_VALUE_LINEAR = Float32Array.from(parseCssColor(NO_VALUE_COLOUR), srgbToLinear);
+
 export interface SurfaceOptions {
   colourMode: ColourMode;
   /** relief off the plane per metre of displacement (0 = flat on the plane) */
@@ -146,6 +137,11 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
       const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
       writePlaneToWorld(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
       const value = colorValues[node];
+      if (options.fieldValues && Number.isNaN(value)) {
+        // a field with no value where the surface has one (e.g. SGR outside the described column): neutral grey
+        colors.set(NO_VALUE_LINEAR, node * 3);
+        continue;
+      }
       const fraction = (value - low) / span;
       const entry = Number.isNaN(value) ? 0 : lutIndex(options.reversed ? 1 - fraction : fraction) * 3;
       colors[node * 3] = lut[entry];

@@ -2,7 +2,7 @@
 // viewpoint saves and restores these settings as they are (lib/contracts/scene-settings.ts): one shape, one spelling.
 import { create } from "zustand";
 import { LAYER_NAMES, MAX_EXAGGERATION, type ColourMode, type LayerName, type SceneSettings } from "@/lib/contracts/scene-settings";
-import type { ScalarField } from "./geometry";
+import type { ScalarField } from "@/lib/contracts/display";
 
 /** Displacement and throw are always there to colour by; other colour modes are fields registered by a panel. */
 export const isBuiltInColourMode = (mode: string) => mode === "displacement" || mode === "throw";

@@ -8,6 +8,10 @@ import { isMainThread, workerData } from "node:worker_threads";
 import { serveTipLineFits, threadedTipLineFitter } from "../lib/analysis/tipline-thread";
 import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
+import { isCutoffCsv, verticalColumnOf } from "../lib/engine/cutoffs";
+import { analyzeCutoffCsv, cutoffReport, depthConversionReport } from "../lib/engine/cutoff-pipeline";
+import type { CutoffSummary } from "../lib/engine/cutoff-stations";
+import { DEPTH_CONVERSION_CAUTION, describeVelocityModel, parseVelocityText, type VelocityModel } from "../lib/engine/time-depth";
 import { formatAzimuth } from "../lib/engine/plane";
 import type { AnalysisReport, ProfileModel, TipEndSide } from "../lib/engine/types";
 import { AUTOMATIC_CANDIDATES } from "../lib/engine/profiles";
@@ -33,7 +37,17 @@ const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [opti
   --profile P          tip-line profile: auto (default) or one of ${AUTOMATIC_CANDIDATES.join(", ")}
   --end SIDE=STATUS    an end's status, open or inferred (SIDE: strike-start, strike-end, up-dip, down-dip); repeatable
   --drop-bad-rows      analyse the good rows of a file that has bad ones (default: refuse the file)
+  --velocity MODEL     velocity model for a file in two-way time (twt column, ms): "v0=1800,k=0.6" for
+                       v(z) = v0 + k·z (v0 in m/s, k in 1/s), or interval velocities by horizon, shallow to deep,
+                       "H1=2000,H2=2400" (m/s above each horizon)
+  --spacing M          cut-off files: station spacing along strike in metres (default: from the vertex spacing)
+  --rake DEG           cut-off files: rake of the slip in the fault plane, from strike (default 90, dip slip)
+  --order-along-strike cut-off files: order each line's vertices along strike instead of taking the file's order
   -h, --help           this text
+
+A file with a "wall" column is a cut-off line file (x, y, z or depth or twt, horizon, wall hw/fw, optional line and
+segment): its hanging-wall and footwall cut-offs are paired at stations along strike into throw picks, which are then
+analysed; the JSON adds "cutoffs" (per horizon: stations, maxThrowM, meanThrowM; missingStations).
 
 Several files (or a glob) are analysed one after another; json and geojson then write one object per line with the
 file's name, csv adds a leading file column. Exit status: 0 done, 2 a file could not be used or bad options, 1 failure.`;
@@ -48,12 +62,16 @@ interface Options {
   profiles?: ProfileModel[];
   ends: Partial<Record<TipEndSide, "open" | "inferred">>;
   dropBadRows: boolean;
+  velocity?: VelocityModel;
+  stationSpacingM?: number;
+  rakeDeg?: number;
+  orderAlongStrike: boolean;
   help: boolean;
 }
 
 export function parseArgs(argv: string[]): Options {
   const args = argv[0] === "analyze" ? argv.slice(1) : argv;
-  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, dropBadRows: false, help: false };
+  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, dropBadRows: false, orderAlongStrike: false, help: false };
   let formatGiven: string | null = null;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -78,6 +96,21 @@ export function parseArgs(argv: string[]): Options {
     else if (a === "--format") setFormat(a, value());
     else if (a.startsWith("--format=")) setFormat("--format", a.slice("--format=".length));
     else if (a === "--drop-bad-rows") out.dropBadRows = true;
+    else if (a === "--order-along-strike") out.orderAlongStrike = true;
+    else if (a === "--velocity") {
+      const v = value();
+      try {
+        out.velocity = parseVelocityText(v);
+      } catch (e) {
+        throw new UsageError(`--velocity: ${(e as Error).message}`);
+      }
+    } else if (a === "--spacing") out.stationSpacingM = positive("--spacing", value());
+    else if (a === "--rake") {
+      const v = value();
+      const rake = Number(v);
+      if (!(rake > 0 && rake < 180)) throw new UsageError(`--rake must be between 0 and 180 degrees (90 is dip slip), got "${v}"`);
+      out.rakeDeg = rake;
+    }
     else if (a === "-h" || a === "--help") out.help = true;
     else if (a === "--units") {
       const v = value();
@@ -138,10 +171,25 @@ function inputList(inputs: string[]): string[] {
 
 const f = (v: number, digits = 1) => (Number.isFinite(v) ? v.toFixed(digits) : "n/a");
 
-function readable(report: AnalysisReport): string {
+interface Extras {
+  cutoffs?: CutoffSummary;
+  velocity?: VelocityModel;
+}
+
+function readable(report: AnalysisReport, extras: Extras = {}): string {
   const lines: string[] = [];
   lines.push(`Slipfield analysis (engine ${report.engineVersion})`);
-  lines.push(`Input: ${report.input.rows} rows, ${report.input.accepted} picks accepted, ${report.input.rejected.length} rejected (units ${report.input.units}).`);
+  const derived = extras.cutoffs ? `${report.input.accepted} throw picks derived from cut-off lines` : `${report.input.accepted} picks accepted`;
+  lines.push(`Input: ${report.input.rows} rows, ${derived}, ${report.input.rejected.length} rejected (units ${report.input.units}).`);
+  if (extras.velocity) {
+    lines.push(`Depth-converted from two-way time with ${describeVelocityModel(extras.velocity)}.`);
+    lines.push(`Caution: ${DEPTH_CONVERSION_CAUTION}`);
+  }
+  if (extras.cutoffs) {
+    const c = extras.cutoffs;
+    lines.push(`Cut-offs: stations every ${c.stationSpacingM} m along strike (${c.stationSpacingSource === "set" ? "set" : "from the vertex spacing"}), rake ${c.rakeDeg}°${c.rakeDeg === 90 ? " (dip slip)" : ""}; ${c.missingStations} station${c.missingStations === 1 ? "" : "s"} with one wall only (reported, not filled in).`);
+    for (const h of c.horizons) lines.push(`  ${h.name}: ${h.stations} stations, throw max ${f(h.maxThrowM)} m, mean ${f(h.meanThrowM)} m${h.missingStations ? `, ${h.missingStations} with one wall only` : ""}`);
+  }
   for (const r of report.input.rejected.slice(0, 20)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
   for (const s of report.segments) {
     const tl = s.tipLine;
@@ -185,10 +233,16 @@ const faultNameOf = (input: string) => (input === "-" ? "stdin" : path.basename(
  * One input's output in the chosen format. Several inputs: json and geojson carry the file's name, csv gets a file
  * column and its header only before the first file's rows.
  */
-function render(result: PipelineResult, input: string, format: Format, several: boolean, first: boolean): string {
+function render(result: PipelineResult, input: string, format: Format, several: boolean, first: boolean, extras: Extras = {}): string {
   switch (format) {
-    case "json":
-      return JSON.stringify(several ? { file: input, ...result.report } : result.report);
+    case "json": {
+      const report = {
+        ...result.report,
+        ...(extras.velocity ? { depthConversion: depthConversionReport(extras.velocity) } : {}),
+        ...(extras.cutoffs ? { cutoffs: cutoffReport(extras.cutoffs) } : {}),
+      };
+      return JSON.stringify(several ? { file: input, ...report } : report);
+    }
     case "geojson": {
       const collection = faultGeoJson(faultNameOf(input), result.report);
       return JSON.stringify(several ? { ...collection, file: input } : collection);
@@ -196,7 +250,7 @@ function render(result: PipelineResult, input: string, format: Format, several: 
     case "csv":
       return several ? withFileColumn(gridCsv(result), input, first) : gridCsv(result).trimEnd();
     case "text":
-      return several ? `== ${input}\n${readable(result.report)}\n` : readable(result.report);
+      return several ? `== ${input}\n${readable(result.report, extras)}\n` : readable(result.report, extras);
   }
 }
 
@@ -265,8 +319,16 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
-        write(render(result, input, options.format, several, written++ === 0));
+        const settings = { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, dropBadRows: options.dropBadRows, velocityModel: options.velocity, tipLineFitter: helper?.fitter };
+        const inTime = verticalColumnOf(text) === "twt";
+        const extras: Extras = { velocity: inTime ? options.velocity : undefined };
+        let result: PipelineResult;
+        if (isCutoffCsv(text)) {
+          const analysed = analyzeCutoffCsv(text, { ...settings, stationSpacingM: options.stationSpacingM, rakeDeg: options.rakeDeg, orderAlongStrike: options.orderAlongStrike });
+          result = analysed;
+          extras.cutoffs = analysed.cutoffs;
+        } else result = analyzeCsv(text, settings);
+        write(render(result, input, options.format, several, written++ === 0, extras));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;
         process.stderr.write(`${problemText(input, e)}\n`);

@@ -8,7 +8,7 @@ import type { FaultReportData } from "@/lib/exports/report";
 import { fileStem } from "@/lib/views/csv";
 import { strikeProjection } from "@/lib/views/projection";
 import { CautionNote } from "@/components/workspace/CautionNote";
-import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "@/components/workspace/format";
+import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "@/lib/format";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { REPORT_PICTURE_KEY } from "./download";
 import { useBrowserValue } from "@/components/hooks/useBrowserValue";

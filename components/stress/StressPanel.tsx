@@ -9,7 +9,7 @@ import { DEFAULT_STRESS_PARAMETERS, DEFAULT_THRESHOLDS_MPA, LENGTH_SCALE_LIMITS_
 import { STRESS_FIELD_KEYS, stressFields, type StressFieldPayload } from "@/lib/stress/fields";
 import type { ScreenSummary } from "@/lib/contracts/stress";
 import { useSceneSettings } from "@/scene/sceneSettingsStore";
-import { azimuth } from "@/components/workspace/format";
+import { azimuth } from "@/lib/format";
 import { MohrPlot, PressureHistogram, type MohrData } from "./StressCharts";
 import { StressForm, type StressFormValue } from "./StressForm";
 

@@ -5,7 +5,7 @@ import { useState } from "react";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
-import { metres as formatM } from "@/components/workspace/format";
+import { metres as formatM } from "@/lib/format";
 import { FAULT_SENSES, faultSenseLabel } from "@/lib/fault-types";
 import type { FaultSense } from "@/lib/contracts/roles";
 import { RoleBadge } from "./RoleBadge";

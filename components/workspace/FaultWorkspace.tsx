@@ -13,12 +13,12 @@ import { PinsPanel } from "@/components/collab/PinsPanel";
 import { StressPanel } from "@/components/stress/StressPanel";
 import { StressSheetSummary } from "@/components/stress/StressSheetSummary";
 import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
+import { SealFields } from "@/components/seal/SealFields";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
 import { UploadPanel } from "./UploadPanel";
 import { RunComparison } from "./RunComparison";
 import { RunsPanel } from "./RunsPanel";
-
 
 /** the analysis stages in words */
 const STAGE_WORDS: Record<string, string> = {
@@ -92,7 +92,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
           <h1 className="text-2xl font-semibold" data-testid="fault-title">{props.faultName}</h1>
           {current && (
             <p className="text-xs text-slate-500">
-              Pick set v{current.version} · {current.fileName} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
+              Pick set v{current.version} · {current.fileName}{current.derivedFrom ? " (derived from cut-off lines)" : ""} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
             </p>
           )}
         </div>
@@ -100,7 +100,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
           {pickSets.data && pickSets.data.pickSets.length > 1 && (
             <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => { setPickSetId(event.target.value || undefined); setRunId(undefined); setComparing(null); }} data-testid="pick-set-select">
               <option value="">Latest version</option>
-              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks)</option>)}
+              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks{set.derivedFrom ? " from cut-offs" : ""})</option>)}
             </select>
           )}
           {canEdit && current && (
@@ -153,6 +153,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       {comparing && <RunComparison faultId={faultId} ids={comparing} onClose={() => setComparing(null)} />}
       {report && (
         <>
+          <SealFields studyId={props.studyId} faultId={faultId} pickSetId={current!.pickSetId} display={display.data ?? null} />
           <div className="grid items-start gap-4 xl:grid-cols-[1fr_400px]">
             <div className="card overflow-hidden" data-testid="viewer-card">
               {display.data ? (
@@ -177,7 +178,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
                 ))}
               </div>
               <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
-                <FaultSheet report={report} />
+                <FaultSheet report={report} velocityModel={current!.velocityModel ?? null} derivedFrom={current!.derivedFrom ?? null} />
                 <StressSheetSummary faultId={faultId} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "runs"}>
@@ -202,7 +203,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             </aside>
           </div>
           <section className="mt-4" data-testid="analysis-views">
-            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} />
+            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} pickSetId={current!.pickSetId} canEdit={canEdit} />
           </section>
         </>
       )}

@@ -9,7 +9,7 @@ import { AUTOMATIC_CANDIDATES } from "@/lib/engine/profiles";
 import type { AnalysisRunsResponse } from "@/lib/contracts/analysis";
 import type { AnalysisSettings } from "@/lib/contracts/analysis-settings";
 import type { AnalysisReport, TipEndSide } from "@/lib/contracts/report";
-import { metres, metresWithRange, MODEL_NAMES } from "./format";
+import { metres, metresWithRange, MODEL_NAMES } from "@/lib/format";
 
 
 export function useRuns(faultId: string, pickSetId: string | undefined) {

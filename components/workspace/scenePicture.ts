@@ -6,7 +6,7 @@ import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { useSceneSettings } from "@/scene/sceneSettingsStore";
 import { svgImage } from "@/components/analysis-views/download";
-import { metres } from "./format";
+import { metres } from "@/lib/format";
 
 const HEADER_PX = 46;
 const FOOTER_PX = 64;

@@ -3,13 +3,15 @@ import { createHash } from "node:crypto";
 import { and, desc, eq, max } from "drizzle-orm";
 import type { UploadOptions } from "@/lib/contracts/analysis";
 import { getDb } from "@/db/client";
-import { analyses, faults, pickSets, segments } from "@/db/schema";
+import { analyses, cutoffSets, faults, pickSets, segments } from "@/db/schema";
+import type { PickSetProvenance } from "@/lib/contracts/seal";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { queueAnalysisJob, scheduleAnalysis } from "./runner";
 import { parseUploadOffThread } from "./worker-pool";
 import { checkUploadSize, UploadProblem, type UploadParseOutput } from "./upload-parse";
+import { MAX_MISSING_LISTED } from "@/lib/engine/cutoff-stations";
 
 export { MAX_ROWS, MAX_UPLOAD_BYTES } from "./upload-parse";
 
@@ -27,20 +29,35 @@ function checksumOf(bytes: Uint8Array) {
 }
 
 /** The file read in the worker pool (lib/analysis/upload-parse.ts); its problems come back as API errors. */
-async function parseUpload(file: UploadedFile, options: UploadOptions, encode = false): Promise<UploadParseOutput> {
+async function parseUpload(file: UploadedFile, options: UploadOptions, sense: "normal" | "reverse", encode = false): Promise<UploadParseOutput> {
   try {
     checkUploadSize(file.name, file.bytes);
-    return await parseUploadOffThread({ output: "parse", name: file.name, bytes: file.bytes, units: options.units, dropBadRows: options.dropBadRows, encode });
+    return await parseUploadOffThread({
+      output: "parse",
+      name: file.name,
+      bytes: file.bytes,
+      units: options.units,
+      dropBadRows: options.dropBadRows,
+      encode,
+      velocityModel: options.velocityModel,
+      cutoffs: { stationSpacingM: options.stationSpacingM, rakeDeg: options.rakeDeg, orderAlongStrike: options.orderAlongStrike, sense },
+    });
   } catch (error) {
     if (error instanceof UploadProblem) throw new ApiError(error.status, error.message, error.details);
     throw error;
   }
 }
 
+async function faultSense(faultId: string): Promise<"normal" | "reverse"> {
+  const db = await getDb();
+  const fault = await db.query.faults.findFirst({ where: eq(faults.id, faultId), columns: { sense: true } });
+  return fault?.sense ?? "normal";
+}
+
 /** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
 export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
   // The preview always lists every problem row next to the usable picks; the choice to drop them is made on confirm.
-  const { parsed } = await parseUpload(file, { ...options, dropBadRows: true });
+  const { parsed, kind, domain, cutoffs } = await parseUpload(file, { ...options, dropBadRows: true }, await faultSense(access.faultId));
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const sameFile = await db.query.pickSets.findFirst({
@@ -76,19 +93,39 @@ export async function previewUpload(access: StudyAccess & { faultId: string }, f
     problemPageSize: PROBLEM_PAGE_SIZE,
     warnings: parsed.warnings,
     duplicateOfVersion: sameFile?.version ?? null,
+    kind,
+    domain,
+    velocityModel: domain === "time" ? options.velocityModel : null,
+    cutoffs: cutoffs
+      ? {
+          rows: cutoffs.rows,
+          vertexCount: cutoffs.vertexCount,
+          stationSpacingM: cutoffs.summary.stationSpacingM,
+          stationSpacingSource: cutoffs.summary.stationSpacingSource,
+          rakeDeg: cutoffs.summary.rakeDeg,
+          horizons: cutoffs.summary.horizons,
+          missingStations: cutoffs.summary.missingStations,
+          missing: cutoffs.summary.missing.slice(0, 50),
+        }
+      : null,
   };
 }
 
 /** Saves the pick set, its segments, a queued analysis and its job in one transaction, then wakes the workers. */
 export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
-  const { parsed, encoded } = await parseUpload(file, options, true);
+  const { parsed, encoded, kind, domain, cutoffs } = await parseUpload(file, options, await faultSense(access.faultId), true);
   if (parsed.rejected.length > 0 && !options.dropBadRows) {
     throw new ApiError(422, `${parsed.rejected.length}${parsed.rejectedTruncated ? "+" : ""} rows have problems. Fix them, or choose to drop the bad rows.`, {
       rejected: parsed.rejected.slice(0, PROBLEM_PAGE_SIZE),
     });
   }
   const checksum = checksumOf(file.bytes);
+  const velocityModel = domain === "time" ? (options.velocityModel ?? null) : null;
+  const derivedFrom: PickSetProvenance | null = cutoffs
+    ? { kind: "cutoffs", fileName: file.name.slice(0, 255), checksum, stationSpacingM: cutoffs.summary.stationSpacingM, stationSpacingSource: cutoffs.summary.stationSpacingSource, rakeDeg: cutoffs.summary.rakeDeg }
+    : null;
   const db = await getDb();
+  // the pick set, its cut-off set (for a cut-off file), the analysis and its job land together or not at all
   const { pickSet, analysis } = await db.transaction(async (tx) => {
     // uploads to one fault take their version numbers one at a time (on a PostgreSQL server they arrive concurrently,
     // through several web processes)
@@ -111,9 +148,28 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
         segmentNames: parsed.picks.segmentNames,
         horizonNames: parsed.picks.horizonNames,
         picks: encoded!,
+        velocityModel,
+        derivedFrom,
         uploadedBy: access.user.id,
       })
       .returning({ id: pickSets.id, version: pickSets.version });
+    if (cutoffs) {
+      await tx.insert(cutoffSets).values({
+        faultId: access.faultId,
+        pickSetId: pickSet.id,
+        fileName: file.name.slice(0, 255),
+        checksum,
+        sizeBytes: file.bytes.byteLength,
+        vertexCount: cutoffs.vertexCount,
+        domain,
+        velocityModel,
+        stationSpacingM: cutoffs.summary.stationSpacingM,
+        rakeDeg: cutoffs.summary.rakeDeg,
+        vertices: cutoffs.encodedVertices!,
+        summary: { ...cutoffs.summary, missing: cutoffs.summary.missing.slice(0, MAX_MISSING_LISTED) },
+        uploadedBy: access.user.id,
+      });
+    }
     const [analysis] = await tx.insert(analyses).values({ pickSetId: pickSet.id }).returning({ id: analyses.id });
     await queueAnalysisJob(tx, analysis.id);
     return { pickSet, analysis };
@@ -123,7 +179,7 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
     userId: access.user.id,
     action: "pickset.upload",
     target: `${file.name} (v${pickSet.version})`,
-    details: { faultId: access.faultId, rows: parsed.accepted, dropped: parsed.rejected.length, checksum },
+    details: { faultId: access.faultId, rows: parsed.accepted, dropped: parsed.rejected.length, checksum, ...(kind === "cutoffs" ? { derivedFrom: "cutoffs" } : {}), ...(velocityModel ? { depthConverted: true } : {}) },
   });
   scheduleAnalysis(analysis.id);
   return { pickSetId: pickSet.id, version: pickSet.version, analysisId: analysis.id };
@@ -141,6 +197,8 @@ export async function listPickSets(faultId: string) {
       rowCount: pickSets.rowCount,
       droppedRows: pickSets.droppedRows,
       units: pickSets.units,
+      velocityModel: pickSets.velocityModel,
+      derivedFrom: pickSets.derivedFrom,
       uploadedAt: pickSets.uploadedAt,
       uploadedBy: pickSets.uploadedBy,
     })

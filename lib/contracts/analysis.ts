@@ -4,6 +4,7 @@ import { z } from "zod";
 import { analysisSettingsSchema } from "./analysis-settings";
 import { finite, isoTime, maybeNumber } from "./json";
 import { analysisReportSchema, lengthUnitSchema, rejectedRowSchema } from "./report";
+import { pickSetProvenanceSchema, rakeField, stationSpacingField, velocityModelField, velocityModelSchema } from "./seal";
 
 export const ANALYSIS_STATUSES = ["queued", "running", "done", "failed"] as const;
 export const analysisStatusSchema = z.enum(ANALYSIS_STATUSES);
@@ -28,6 +29,10 @@ export const analysisStateSchema = z.strictObject({
   fileName: z.string(),
   checksum: z.string(),
   uploadedAt: isoTime,
+  /** how the pick set's times were converted to depth (null for a file in depth) */
+  velocityModel: velocityModelSchema.nullable(),
+  /** set when the pick set was derived from a cut-off line file */
+  derivedFrom: pickSetProvenanceSchema.nullable(),
   result: analysisReportSchema.nullable(),
 });
 export type AnalysisState = z.infer<typeof analysisStateSchema>;
@@ -81,6 +86,7 @@ export const pickSetsResponseSchema = z.strictObject({
       units: lengthUnitSchema,
       uploadedAt: isoTime,
       uploadedBy: z.string().nullable(),
+      derivedFrom: pickSetProvenanceSchema.nullable(),
     }),
   ),
 });
@@ -96,25 +102,23 @@ export const uploadOptionsSchema = z.object({
     .default("false")
     .transform((value) => value === "true"),
   problemPage: z.coerce.number().int().min(0).max(10_000).default(0),
+  /** for a file in two-way time: the velocity model as JSON (./seal.ts) */
+  velocityModel: velocityModelField,
+  /** for a cut-off line file: how the walls are paired */
+  stationSpacingM: stationSpacingField,
+  rakeDeg: rakeField,
+  orderAlongStrike: z
+    .enum(["true", "false"])
+    .default("false")
+    .transform((value) => value === "true"),
 });
-export type UploadOptions = z.infer<typeof uploadOptionsSchema>;
+type ParsedUploadOptions = z.infer<typeof uploadOptionsSchema>;
+/** The options as the form gives them; the time and cut-off ones may be left out by callers in code (seed, tests). */
+export type UploadOptions = Omit<ParsedUploadOptions, "velocityModel" | "stationSpacingM" | "rakeDeg" | "orderAlongStrike"> &
+  Partial<Pick<ParsedUploadOptions, "velocityModel" | "stationSpacingM" | "rakeDeg" | "orderAlongStrike">>;
 
-/** POST /api/faults/:id/pick-sets?step=confirm with JSON: save the staged upload the preview made */
-export const stagedConfirmSchema = z.object({
-  uploadId: z.string().min(1, "Name the upload to save (its preview's uploadId)."),
-  dropBadRows: z.boolean().default(false),
-});
-
-/** GET /api/faults/:id/pick-sets/staged/:uploadId: another page of the problems */
-export const problemPageQuerySchema = z.object({ problemPage: z.coerce.number().int().min(0).max(10_000).default(0) });
-
-/**
- * What the interpreter needs to decide before saving: a sample, every problem (paged), duplicates. The file was read
- * once and staged under `uploadId` until `expiresAt`; paging and saving refer to it by that id.
- */
+/** What the interpreter needs to decide before saving: a sample, every problem (paged), duplicates. */
 export const uploadPreviewSchema = z.strictObject({
-  uploadId: z.string(),
-  expiresAt: isoTime,
   fileName: z.string(),
   sizeBytes: z.number().int(),
   checksum: z.string(),
@@ -133,6 +137,23 @@ export const uploadPreviewSchema = z.strictObject({
   problemPageSize: z.number().int(),
   warnings: z.array(z.string()),
   duplicateOfVersion: z.number().int().nullable(),
+  /** a pick file, or a cut-off line file whose derived picks are previewed */
+  kind: z.enum(["picks", "cutoffs"]),
+  domain: z.enum(["depth", "time"]),
+  velocityModel: velocityModelSchema.nullable(),
+  /** how a cut-off file's walls were paired, per horizon, and the stations where one wall is missing (first 50) */
+  cutoffs: z
+    .strictObject({
+      rows: z.number().int(),
+      vertexCount: z.number().int(),
+      stationSpacingM: finite,
+      stationSpacingSource: z.enum(["data", "set"]),
+      rakeDeg: finite,
+      horizons: z.array(z.strictObject({ name: z.string(), stations: z.number().int(), maxThrowM: finite, meanThrowM: finite, missingStations: z.number().int() })),
+      missingStations: z.number().int(),
+      missing: z.array(z.object({ segment: z.string(), horizon: z.string(), s: finite, present: z.enum(["hw", "fw"]) })),
+    })
+    .nullable(),
 });
 export type UploadPreview = z.infer<typeof uploadPreviewSchema>;
 

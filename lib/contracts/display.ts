@@ -3,19 +3,13 @@
 // x East, y North, z Up); grids and lines in each segment's fault-plane (s, t) frame.
 import { z } from "zod";
 import { finite, planePoint, vec3 } from "./json";
+import { planeFrameShape } from "./report";
 
 const float32 = z.instanceof(Float32Array);
 
 /** A segment's fault-plane frame; `centroid` relative to the payload's origin. */
-export const displayFrameSchema = z.object({
-  centroid: vec3,
-  strikeVector: vec3,
-  dipVector: vec3,
-  /** unit, pointing upward (hanging-wall side of a dipping plane) */
-  normal: vec3,
-  strikeDeg: finite,
-  dipDeg: finite,
-});
+/** the normal points upward (hanging-wall side of a dipping plane) */
+export const displayFrameSchema = z.object({ ...planeFrameShape, strikeDeg: finite, dipDeg: finite });
 export type DisplayFrame = z.infer<typeof displayFrameSchema>;
 
 /** Row-major grid in the segment's (s, t) frame; NaN outside the data. */
@@ -82,3 +76,21 @@ export const faultDisplaySchema = z.object({
   throwRangeM: z.tuple([finite, finite]),
 });
 export type FaultDisplay = z.infer<typeof faultDisplaySchema>;
+
+/**
+ * A value per display-grid node, per segment, for colouring the surface by something other than
+ * displacement (e.g. slip tendency). Arrays match each segment's display grid (columns × rows, row-major).
+ */
+export interface ScalarField {
+  key: string;
+  label: string;
+  unit: string;
+  bySegment: Record<string, Float32Array>;
+  range: [number, number];
+  /** reverse the colour scale so that "worse" reads warm (e.g. low pressure-to-failure) */
+  reversed?: boolean;
+  /** a value marked on the legend as a guide (e.g. a published threshold) */
+  guide?: { value: number; label: string };
+  /** what a reader must know beside this colouring (its source, its caution), shown under the view */
+  note?: string;
+}

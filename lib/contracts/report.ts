@@ -103,17 +103,16 @@ export type TipLine = z.infer<typeof tipLineSchema>;
 export const ringSchema = z.array(planePoint);
 export type Ring = z.infer<typeof ringSchema>;
 
+/** A plane's frame: its centroid and unit strike, dip and normal vectors (ENU, m); lib/display/frame.ts places points with it. */
+export const planeFrameShape = { centroid: vec3, strikeVector: vec3, dipVector: vec3, normal: vec3 };
+
 export const segmentPlaneSchema = z.strictObject({
   strikeDeg: finite,
   dipDeg: finite,
   dipDirectionDeg: finite,
   rmsM: finite,
   planarityWarning: z.string().nullable(),
-  centroid: vec3,
-  /** unit vectors, ENU */
-  strikeVector: vec3,
-  dipVector: vec3,
-  normal: vec3,
+  ...planeFrameShape,
 });
 export type SegmentPlane = z.infer<typeof segmentPlaneSchema>;
 

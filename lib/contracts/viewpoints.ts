@@ -55,17 +55,7 @@ export const viewpointsResponseSchema = z.strictObject({ viewpoints: z.array(vie
 export const viewpointCreatedSchema = z.strictObject({ viewpoint: viewpointSchema.extend({ createdBy: z.string().nullable() }) });
 /** PATCH /api/viewpoints/:id: the stored row */
 export const viewpointUpdatedSchema = z.strictObject({
-  viewpoint: z.strictObject({
-    id: z.string(),
-    faultId: z.string(),
-    createdBy: z.string().nullable(),
-    title: z.string(),
-    note: z.string(),
-    camera: cameraSchema,
-    settings: sceneSettingsSchema,
-    createdAt: isoTime,
-    updatedAt: isoTime,
-  }),
+  viewpoint: viewpointSchema.omit({ createdById: true, createdByName: true, canChange: true }).extend({ createdBy: z.string().nullable() }),
 });
 
 /** A link as its viewpoint's sharers see it: never its token (only a hash is stored). */

@@ -4,19 +4,12 @@ import * as z from "zod/mini";
 import type { LengthUnit, ParseResult, PickColumns, PlaneFit, RejectedRow } from "./types";
 import { DegeneratePlaneError, fitPlane } from "./plane";
 
-export const MAX_REJECTED_LISTED = 200;
-const FEET_TO_M = 0.3048;
+import { MAX_REJECTED_LISTED, PickInputError, problemList, summariseProblems } from "./input-error";
+import { picksToDepth } from "./time-picks";
+import type { VelocityModel } from "./time-depth";
 
-export class PickInputError extends Error {
-  readonly rejected: RejectedRow[];
-  readonly truncated: boolean;
-  constructor(message: string, rejected: RejectedRow[], truncated = false) {
-    super(message);
-    this.name = "PickInputError";
-    this.rejected = rejected;
-    this.truncated = truncated;
-  }
-}
+export { MAX_REJECTED_LISTED, PickInputError };
+const FEET_TO_M = 0.3048;
 
 export interface ParseOptions {
   units?: LengthUnit;
@@ -24,6 +17,8 @@ export interface ParseOptions {
   dropBadRows?: boolean;
   /** picks at the same position in a segment: reject them (default) or average them into one */
   dedupe?: "reject" | "average";
+  /** converts a file in two-way time (a `twt` column in ms, throw in ms) to depth; required for such a file */
+  velocityModel?: VelocityModel | null;
 }
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).check(z.refine(Number.isFinite, { error: `${what} must be a finite number` }));
@@ -35,6 +30,7 @@ export const pickRowSchema = z
     y: finite("y"),
     z: z.optional(finite("z")),
     depth: z.optional(finite("depth")),
+    twt: z.optional(finite("twt")),
     throw: finiteWhere("throw", (v) => v >= 0, "throw must be ≥ 0"),
     heave: z.optional(finiteWhere("heave", (v) => v >= 0, "heave must be ≥ 0")),
     quality: z.optional(finiteWhere("quality", (v) => v >= 0 && v <= 1, "quality must be between 0 and 1")),
@@ -43,12 +39,12 @@ export const pickRowSchema = z
     segment: z.optional(z.string()),
     horizon: z.optional(z.string()),
   })
-  .check(z.refine((r) => r.z !== undefined || r.depth !== undefined, { error: "z or depth is required", path: ["z"] }));
+  .check(z.refine((r) => r.z !== undefined || r.depth !== undefined || r.twt !== undefined, { error: "z or depth is required", path: ["z"] }));
 
 export type PickRow = z.infer<typeof pickRowSchema>;
 
 const NUMERIC = ["x", "y", "z", "depth", "throw", "heave", "quality", "hw_thickness", "fw_thickness"] as const;
-const KNOWN = new Set<string>([...NUMERIC, "segment", "horizon"]);
+const KNOWN = new Set<string>([...NUMERIC, "segment", "horizon", "twt"]);
 
 function toNumber(raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
@@ -62,12 +58,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   const units = options.units ?? "m";
   const scale = units === "ft" ? FEET_TO_M : 1;
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rejected: RejectedRow[] = [];
-  let rejectedCount = 0;
-  const reject = (r: RejectedRow) => {
-    rejectedCount++;
-    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
-  };
+  const problems = problemList();
+  const { rejected, reject } = problems;
   const warnings: string[] = [];
   // clean numeric files take a tight loop over the string; anything it cannot vouch for goes through papaparse + zod
   const table = readRowsFast(body, scale) ?? readRowsGeneral(body, scale, reject);
@@ -79,14 +71,23 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     segmentNames, horizonNames, sourceRow: cut(src),
   };
   if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
+  if (table.twt) {
+    // two-way time: each wall converted to depth on its own (lib/engine/time-picks.ts), once every row is known good
+    if (problems.count > 0 && !options.dropBadRows) throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
+    if (picks.x.length > 0) {
+      const converted = picksToDepth(picks, cut(table.twt), options.velocityModel);
+      picks = converted.picks;
+      warnings.push(...converted.warnings);
+    }
+  }
 
   const dedupe = options.dedupe ?? "reject";
   const dup = handleDuplicates(picks, dedupe, Boolean(options.dropBadRows), reject);
   picks = dup.picks;
   if (dup.merged > 0) warnings.push(`${dup.merged} duplicate picks averaged into the pick at the same position`);
 
-  if (rejectedCount > 0 && !options.dropBadRows) {
-    throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  if (problems.count > 0 && !options.dropBadRows) {
+    throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
   }
 
   const segmentProblems: RejectedRow[] = [];
@@ -109,10 +110,10 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   if (picks.x.length === 0) segmentProblems.push({ row: 2, column: "x", reason: "no usable picks" });
   if (segmentProblems.length) {
     const all = [...rejected, ...segmentProblems].slice(0, MAX_REJECTED_LISTED);
-    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
+    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, problems.count + segmentProblems.length > all.length);
   }
 
-  return { picks, planes, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  return { picks, planes, rows, accepted: picks.x.length, rejected, rejectedTruncated: problems.count > rejected.length, warnings };
 }
 
 interface RowTable {
@@ -134,6 +135,8 @@ interface RowTable {
   /** hanging-wall / footwall interval thickness (m), only when the file has those columns */
   hw?: Float64Array;
   fw?: Float64Array;
+  /** two-way time (ms) of each pick in a time file (z is then NaN and the throw is in ms until converted) */
+  twt?: Float64Array;
 }
 
 /** The general reader: papaparse for the CSV grammar (quotes, delimiters, line endings), zod for each row. */
@@ -148,7 +151,10 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   });
   const missing: RejectedRow[] = [];
   for (const need of ["x", "y", "throw"]) if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
-  if (!col.has("z") && !col.has("depth")) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth") is missing from the header' });
+  // a file in two-way time has a twt column (ms) and no z or depth; beside z or depth a twt column is not read
+  const timeFile = !col.has("z") && !col.has("depth") && col.has("twt");
+  if (!timeFile) col.delete("twt");
+  if (!col.has("z") && !col.has("depth") && !timeFile) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth", or "twt" in ms) is missing from the header' });
   if (missing.length) throw new PickInputError(`header row 1: ${missing.map((m) => m.reason).join("; ")}`, missing);
 
   const rows = table.length - 1;
@@ -158,6 +164,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   const thick = col.has("hw_thickness") || col.has("fw_thickness");
   const hw = thick ? new Float64Array(n) : undefined, fw = thick ? new Float64Array(n) : undefined;
   const seg = new Uint32Array(n), hor = new Int32Array(n), src = new Uint32Array(n);
+  const twt = timeFile ? new Float64Array(n) : undefined;
   const segmentNames: string[] = [];
   const segmentIndex = new Map<string, number>();
   const horizonNames: string[] = [];
@@ -169,7 +176,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     const rowNo = r + 1;
     if (cells.every((c) => c.trim() === "")) continue;
     const candidate: Record<string, unknown> = {};
-    for (const name of NUMERIC) {
+    for (const name of [...NUMERIC, "twt"]) {
       const i = idx(name);
       if (i === undefined) continue;
       const v = toNumber(cells[i]);
@@ -201,8 +208,15 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     const row = result.data;
     xs[count] = row.x * scale;
     ys[count] = row.y * scale;
-    zs[count] = (row.z !== undefined ? row.z : -(row.depth as number)) * scale;
-    ts[count] = row.throw * scale;
+    if (twt) {
+      // times and time throws are in ms whatever the length unit
+      zs[count] = NaN;
+      twt[count] = row.twt as number;
+      ts[count] = row.throw;
+    } else {
+      zs[count] = (row.z !== undefined ? row.z : -(row.depth as number)) * scale;
+      ts[count] = row.throw * scale;
+    }
     hs[count] = row.heave !== undefined ? row.heave * scale : NaN;
     qs[count] = row.quality ?? NaN;
     if (hw && fw) {
@@ -230,7 +244,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     count++;
   }
 
-  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw };
+  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw, twt };
 }
 
 // ---- fast reader for clean numeric files -------------------------------------------------------------------------
@@ -485,11 +499,7 @@ class NameTable {
   }
 }
 
-function summarise(list: RejectedRow[], total: number): string {
-  const shown = list.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
-  const more = total > shown.length ? `; and ${total - shown.length} more` : "";
-  return `${total} problem${total === 1 ? "" : "s"} in the pick file: ${shown.join("; ")}${more}`;
-}
+const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "pick file");
 
 export function indicesBySegment(picks: PickColumns): Uint32Array[] {
   const counts = new Uint32Array(picks.segmentNames.length);
@@ -569,6 +579,7 @@ function handleDuplicates(
   };
   const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
   if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
+  if (picks.twtMs && picks.throwMs) Object.assign(out, { twtMs: take(picks.twtMs), throwMs: take(picks.throwMs) });
   if (mode === "average") {
     ids.forEach((id, k) => {
       out.throwM[k] = sumT[id] / cnt[id];

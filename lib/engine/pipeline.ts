@@ -217,7 +217,7 @@ function asymmetryOf(maxS: number, maxT: number, polygon: [number, number][], ha
 /** Parse a pick CSV and analyse it; throws PickInputError when the input cannot be used. */
 export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult {
   options.onStage?.("parse", 0);
-  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe });
+  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, velocityModel: options.velocityModel });
   return analyzePicks(parsed.picks, {
     ...options,
     planes: parsed.planes,

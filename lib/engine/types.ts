@@ -38,12 +38,15 @@ export interface PickColumns {
   /** optional hw_thickness / fw_thickness columns: interval thickness below the pick's horizon (m), NaN where blank */
   hwThicknessM?: Float64Array;
   fwThicknessM?: Float64Array;
+  /** picks read in two-way time: each pick's original time and time throw (ms), kept beside the depth-converted values */
+  twtMs?: Float64Array;
+  throwMs?: Float64Array;
 }
 
 export interface ParseResult {
   picks: PickColumns;
   /** per segment (index into segmentNames): its plane, fitted without weights when the file was checked */
-  planes: (PlaneFit | null)[];
+  planes?: (PlaneFit | null)[];
   rows: number;
   accepted: number;
   rejected: RejectedRow[];

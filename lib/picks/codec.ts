@@ -1,10 +1,13 @@
 // Stored pick sets: the picks in flat columns and the fault plane of each segment fitted while the file was read (so the
 // analysis fits no plane twice, lib/engine/pipeline.ts), in the one typed-array codec (lib/display/codec.ts), deflated.
+// Other stored column records (a cut-off file's vertices) use the same codec and packing.
 import { deflateSync, inflateSync } from "node:zlib";
 import { decodeRecord, encodeRecord, recordMagic } from "@/lib/display/codec";
 import type { PickColumns, PlaneFit } from "@/lib/engine/types";
 
 const PICK_SET_MAGIC = "SLP3";
+/** any other record of columns (cut-off vertices) */
+const COLUMNS_MAGIC = "SLC3";
 /** the same bytes, deflated (fastest level): as pick sets are stored */
 const PACKED_MAGIC = 0x534c5a31; // "SLZ1"
 /** pick sets stored before the one codec: read, never written */
@@ -35,29 +38,50 @@ export function encodePicks(picks: PickColumns, planes: (PlaneFit | null)[] | nu
   return encodeRecord({ picks, planeValues, planeWords }, PICK_SET_MAGIC);
 }
 
-/**
- * `encodePicks`, deflated (fastest level) as stored in the database: a third of the size, and storing or reading it
- * holds the database a fraction of the time (10⁵ picks: 4.2 → 1.3 MB; insert 60–160 → 35–50 ms, read 53 → 10 ms in
- * PGlite, whose own compression of the raw bytes is slower and weaker). Runs in the worker pool, like the parsing.
- */
-export function packPicks(picks: PickColumns, planes: (PlaneFit | null)[] | null = null): Uint8Array {
-  const deflated = deflateSync(encodePicks(picks, planes), { level: 1 });
+/** Deflated (fastest level) behind its own magic: how pick sets and other column records are stored. */
+function pack(encoded: Uint8Array): Uint8Array {
+  const deflated = deflateSync(encoded, { level: 1 });
   const bytes = new Uint8Array(4 + deflated.byteLength);
   new DataView(bytes.buffer).setUint32(0, PACKED_MAGIC, true);
   bytes.set(deflated, 4);
   return bytes;
 }
 
-/** Reads what `packPicks` or `encodePicks` wrote, or a pick set stored before (columns only). */
-export function decodePickSet(stored: Uint8Array): StoredPickSet {
+function unpack(stored: Uint8Array): Uint8Array {
   const packed = stored.byteLength >= 4 && new DataView(stored.buffer, stored.byteOffset, 4).getUint32(0, true) === PACKED_MAGIC;
-  const plain = packed ? new Uint8Array(inflateSync(stored.subarray(4))) : stored;
+  return packed ? new Uint8Array(inflateSync(stored.subarray(4))) : stored;
+}
+
+/**
+ * The stored form of a pick set: `encodePicks` deflated. Packed columns hold the database a fraction of the time
+ * (10⁵ picks: 4.2 → 1.3 MB; insert 60–160 → 35–50 ms, read 53 → 10 ms in PGlite, whose own compression of the raw
+ * bytes is slower and weaker). Runs in the worker pool, like the parsing.
+ */
+export function packPicks(picks: PickColumns, planes: (PlaneFit | null)[] | null = null): Uint8Array {
+  return pack(encodePicks(picks, planes));
+}
+
+/** Any record of typed-array columns and plain JSON fields (e.g. cut-off vertices), stored as pick sets are. */
+export function packColumns(record: object): Uint8Array {
+  return pack(encodeRecord(record, COLUMNS_MAGIC));
+}
+
+/** Reads what `packColumns` wrote, or a record stored before the one codec. */
+export function decodeColumns<T>(stored: Uint8Array): T {
+  const plain = unpack(stored);
+  if (recordMagic(plain) === COLUMNS_MAGIC) return decodeRecord(plain, COLUMNS_MAGIC, "column record") as T;
+  return decodeLegacyColumns(plain) as T;
+}
+
+/** Reads what `packPicks` or `encodePicks` wrote, or a pick set stored before the one codec (columns only). */
+export function decodePickSet(stored: Uint8Array): StoredPickSet {
+  const plain = unpack(stored);
   if (recordMagic(plain) === PICK_SET_MAGIC) {
     const record = decodeRecord(plain, PICK_SET_MAGIC, "pick set") as { picks: PickColumns; planeValues: Float64Array | null; planeWords: ({ warning: string | null } | null)[] | null };
     const planes = record.planeWords ? record.planeWords.map((words, k) => (words ? planeFrom(record.planeValues!, k * PLANE_NUMBERS, words.warning) : null)) : null;
     return { picks: record.picks, planes };
   }
-  return { picks: decodeLegacyPicks(plain), planes: null };
+  return { picks: decodeLegacyColumns(plain) as unknown as PickColumns, planes: null };
 }
 
 /** The stored picks' columns (metres). */
@@ -65,8 +89,8 @@ export function decodePicks(stored: Uint8Array): PickColumns {
   return decodePickSet(stored).picks;
 }
 
-/** Pick sets stored before the one codec ("SLP2": a JSON header of column types, then 8-byte-aligned columns). */
-function decodeLegacyPicks(plain: Uint8Array): PickColumns {
+/** Records stored before the one codec ("SLP2": a JSON header of column types, then 8-byte-aligned columns). */
+function decodeLegacyColumns(plain: Uint8Array): Record<string, unknown> {
   const CONSTRUCTORS = { Float64Array, Float32Array, Uint32Array, Int32Array, Uint8Array } as const;
   // Copy into a fresh buffer: driver buffers may start at any offset, typed views need alignment.
   const bytes = new Uint8Array(plain.byteLength);
@@ -85,5 +109,5 @@ function decodeLegacyPicks(plain: Uint8Array): PickColumns {
     result[column.key] = new Constructor(bytes.buffer, offset, column.length);
     offset += Math.ceil((column.length * Constructor.BYTES_PER_ELEMENT) / 8) * 8;
   }
-  return result as unknown as PickColumns;
+  return result;
 }

@@ -1,6 +1,6 @@
 // Turns the screen's per-node arrays (base64 little-endian Float32 from the result route) into the 3D view's
 // colour fields. Pure; runs in the browser.
-import type { ScalarField } from "@/scene/geometry";
+import type { ScalarField } from "@/lib/contracts/display";
 
 export interface StressFieldPayload {
   segments: { segmentId: string; columns: number; rows: number; slip: string; dilation: string; dp: string }[];

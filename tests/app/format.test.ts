@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { degrees, inSentence, metres, plain } from "@/components/workspace/format";
+import { degrees, inSentence, metres, plain } from "@/lib/format";
 
 describe("numbers as the fault sheet prints them", () => {
   it("never prints a negative zero after rounding", () => {

@@ -95,7 +95,7 @@ test("QG-1: strike profile with both segments, the overlap and an honest legend;
   await expect(scaling).toContainText("Barnett et al. 1987");
   const scalingCsv = await download(page, page.getByTestId("scaling-chart-csv"));
   const scalingLines = scalingCsv.bytes.toString("utf8").trim().split("\n");
-  expect(scalingLines[0]).toBe("fault,length_m,length_uncertainty_m,dmax_m,d_over_l,segments");
+  expect(scalingLines[0]).toBe("fault,length_m,length_p05_m,length_p95_m,length_is_minimum,dmax_fitted_m,dmax_p05_m,dmax_p95_m,d_over_l,segments");
   expect(scalingLines).toHaveLength(faults + 1);
 });
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { displacementFromThrow, heaveFromThrow, dipFromThrowHeave, displacementColumn } from "@/lib/engine/displacement";
 import { DegeneratePlaneError, fitPlane, formatAzimuth, strikeVectorOf, dipVectorOf } from "@/lib/engine/plane";
-import { azimuth } from "@/components/workspace/format";
+import { azimuth } from "@/lib/format";
 import { projectToPlane, planeToWorld } from "@/lib/display/frame";
 
 const circularDiff = (a: number, b: number) => Math.abs(((a - b + 540) % 360) - 180);

@@ -1,3 +1,4 @@
+// Numbers and angles as the screens write them (units, signs, rounding): pure, used by components, the scene and exports.
 import { formatAzimuth } from "@/lib/engine/plane";
 /** A value that rounds to zero at `places` decimals loses its sign: "0.00", never "-0.00". */
 function unsignedZero(value: number, places: number): number {

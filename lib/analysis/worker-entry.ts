@@ -7,6 +7,7 @@ import { parentPort, workerData } from "node:worker_threads";
 import { computeAnalysis, computeFullResolution, type AnalysisJob } from "./compute";
 import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type UploadParseJob } from "./upload-parse";
 import { serveTipLineFits, threadedTipLineFitter } from "./tipline-thread";
+import { computeFaultScreen, type StressScreenJob } from "@/lib/stress/screen-compute";
 
 /**
  * Analyses yield the CPU to the web server: on Linux a thread has its own nice value, so this thread (and only it)
@@ -27,7 +28,7 @@ if (!serveTipLineFits(workerData)) serveAnalysisJobs();
 
 function serveAnalysisJobs() {
   const { fitter: tipLineFitter } = threadedTipLineFitter(new URL(import.meta.url));
-  parentPort!.on("message", (job: AnalysisJob | UploadParseJob | MultipartJob) => (job.output === "multipart" ? void takeFormApart(job) : runJob(job, tipLineFitter)));
+  parentPort!.on("message", (job: AnalysisJob | UploadParseJob | MultipartJob | StressScreenJob) => (job.output === "multipart" ? void takeFormApart(job) : runJob(job, tipLineFitter)));
 }
 
 function failed(error: unknown) {
@@ -44,11 +45,13 @@ async function takeFormApart(job: MultipartJob) {
   }
 }
 
-function runJob(job: AnalysisJob | UploadParseJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
+function runJob(job: AnalysisJob | UploadParseJob | StressScreenJob, tipLineFitter: ReturnType<typeof threadedTipLineFitter>["fitter"]) {
   try {
     if (job.output === "parse") {
       const output = parseUploadedFile(job);
       parentPort!.postMessage({ kind: "done", output }, output.encoded ? [output.encoded.buffer as ArrayBuffer] : []);
+    } else if (job.output === "stress") {
+      parentPort!.postMessage({ kind: "done", output: computeFaultScreen(job) });
     } else if (job.output === "grids") {
       parentPort!.postMessage({ kind: "done", output: computeFullResolution(job, { tipLineFitter }) });
     } else {

@@ -6,6 +6,7 @@ import type { PipelineResult } from "@/lib/engine/pipeline";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
 import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type MultipartOutput, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
 import { config } from "@/lib/config";
+import { computeFaultScreen, type FaultScreenResult, type StressScreenJob } from "@/lib/stress/screen-compute";
 
 /**
  * The worker pool: warm worker threads (dist/analysis-worker.mjs) that run analyses, export grids, upload parsing and
@@ -46,6 +47,11 @@ export function readMultipartOffThread(job: MultipartJob): Promise<MultipartOutp
 /** Full-resolution engine grids of a stored pick set (exports), computed off the event loop like an analysis. */
 export function computeGridsOffThread(job: AnalysisJob, signal?: AbortSignal): Promise<PipelineResult> {
   return runJob({ ...job, output: "grids" }, () => {}, () => computeFullResolution(job), analysisTimeLimitMs(), [], signal);
+}
+
+/** A fault's reactivation screen from its analysis' stored results, off the event loop like an analysis. */
+export function screenFaultOffThread(job: StressScreenJob): Promise<FaultScreenResult> {
+  return runJob(job, () => {}, () => computeFaultScreen(job), analysisTimeLimitMs());
 }
 
 /**
@@ -114,7 +120,7 @@ function discardIdle(worker: Worker) {
 }
 
 function runJob<T>(
-  job: AnalysisJob | UploadParseJob | MultipartJob,
+  job: AnalysisJob | UploadParseJob | MultipartJob | StressScreenJob,
   onStage: (stage: string, fraction: number) => void,
   inline: () => T | Promise<T>,
   limitMs: number,

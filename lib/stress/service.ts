@@ -2,26 +2,17 @@ import "server-only";
 // Stress states (versioned, per fault or study-wide) and the reactivation screen of a fault's latest analysis.
 import { and, desc, eq, isNull, max } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, base64Bytes, pickSets, stressStates, users } from "@/db/schema";
+import { analyses, analysisOutputs, base64Bytes, pickSets, stressStates, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
 import { latestAnalysisForFault } from "@/lib/analysis/reports";
 import { decodeFaultDisplay } from "@/lib/display/payload";
-import { indicesBySegment } from "@/lib/engine/csv";
-import { rasterizeTriangles } from "@/lib/engine/grid";
 import type { AnalysisReport } from "@/lib/engine/types";
-import { decodePicks } from "@/lib/picks/codec";
+import { screenFaultOffThread } from "@/lib/analysis/worker-pool";
+import type { GridSpec } from "@/lib/display/grid-sampler";
 import type { StressStateInput, StressStateView } from "@/lib/contracts/stress";
-import {
-  ORIENTATION_RANGE_STANDARD_ERRORS,
-  defaultLengthScaleM,
-  gridForLengthScale,
-  screenElements,
-  segmentSurface,
-  surfaceElements,
-  type SegmentSurface,
-  type TriangleScreen,
-} from "./surface";
+import type { FaultScreenResult } from "./screen-compute";
+import type { TriangleScreen } from "./surface";
 import { evenSubsample, summarizeScreen } from "./summary";
 import type { OrientationBasis, ScreenSummary } from "@/lib/contracts/stress";
 
@@ -76,31 +67,17 @@ export async function saveStressState(access: { studyId: string; faultId: string
   return saved;
 }
 
-export interface SegmentScreen {
-  segmentId: string;
-  screen: TriangleScreen;
-  /** three pick indices per screened triangle (rows of `screen`) */
-  triangleVertices: Uint32Array;
-  /** per display-grid node: slip tendency, dilation tendency, ΔP at the more critical end of the friction band */
-  nodes: { slip: Float32Array; dilation: Float32Array; dp: Float32Array; columns: number; rows: number };
-}
-
-
-export interface FaultScreen {
+export interface FaultScreen extends FaultScreenResult {
   analysisId: string;
   pickSetVersion: number;
   state: StressStateView;
-  orientation: OrientationBasis;
-  segments: SegmentScreen[];
-  combined: TriangleScreen;
-  /** pick coordinates (world, m) the triangles index into */
-  vertices: { x: Float64Array; y: Float64Array; z: Float64Array };
 }
 
 /**
  * Screens the fault surface of the latest finished analysis under the stress state that applies to it: every
  * triangle of the picks is an area element whose orientation and depth come from the surface smoothed at
- * `lengthScaleM` (default from the pick spacing; lib/stress/surface.ts).
+ * `lengthScaleM` (default from the pick spacing; lib/stress/surface.ts). The triangles are the analysis' own, stored
+ * with it (analysis_outputs); the screen itself runs in the worker pool, off the web server's thread.
  */
 export async function screenFault(studyId: string, faultId: string, lengthScaleM: number | null = null): Promise<FaultScreen> {
   const { current } = await stressStateForFault(studyId, faultId);
@@ -110,81 +87,26 @@ export async function screenFault(studyId: string, faultId: string, lengthScaleM
   if (latest.status !== "done") throw new ApiError(409, `The latest analysis is ${latest.status}; the screen runs once it is done.`);
   const db = await getDb();
   const [row] = await db
-    .select({ picks: base64Bytes(pickSets.picks), display: base64Bytes(analyses.display) })
+    .select({ picks: base64Bytes(pickSets.picks), display: base64Bytes(analyses.display), outputs: base64Bytes(analysisOutputs.body) })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
+    .leftJoin(analysisOutputs, eq(analysisOutputs.analysisId, analyses.id))
     .where(eq(analyses.id, latest.id));
   if (!row?.display) throw new ApiError(404, "No display data for the latest analysis yet.");
   const report = latest.result as AnalysisReport;
   const display = decodeFaultDisplay(row.display);
-  const picks = decodePicks(row.picks);
-  const bySegment = indicesBySegment(picks);
-  const surfaces: { segment: AnalysisReport["segments"][number]; surface: SegmentSurface; grid: (typeof display.segments)[number]["grid"] }[] = [];
-  for (const segment of report.segments) {
-    const nameIndex = picks.segmentNames.indexOf(segment.id);
-    const ids = nameIndex >= 0 ? bySegment[nameIndex] : null;
-    const displaySegment = display.segments.find((d) => d.id === segment.id);
-    if (!ids || ids.length < 3 || !displaySegment) continue;
-    surfaces.push({ segment, surface: segmentSurface(picks, ids, segment.plane), grid: displaySegment.grid });
-  }
-  const spacings = surfaces.map(({ surface }) => surface.medianEdgeM).filter(Number.isFinite);
-  const medianPickSpacingM = spacings.length ? Math.max(...spacings) : NaN;
-  const defaultLength = defaultLengthScaleM(medianPickSpacingM);
-  const length = lengthScaleM ?? defaultLength;
-  const segments: SegmentScreen[] = surfaces.map(({ segment, surface, grid }) => {
-    const screen = screenElements(surfaceElements(surface, segment.plane, gridForLengthScale(grid, length), length), current.parameters);
-    const local = new Uint32Array(screen.count * 3);
-    const kept = new Uint32Array(screen.count * 3);
-    for (let i = 0; i < screen.count; i++) {
-      local.set(surface.localTriangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
-      kept.set(surface.triangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
-    }
-    const [slip, dilation, dp] = rasterizeTriangles(surface.s, surface.t, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa], local, grid, true).map((values) => Float32Array.from(values));
-    return { segmentId: segment.id, screen, triangleVertices: kept, nodes: { slip, dilation, dp, columns: grid.columns, rows: grid.rows } };
+  const grids: Record<string, GridSpec> = {};
+  for (const { id, grid } of display.segments) grids[id] = { s0: grid.s0, t0: grid.t0, cellM: grid.cellM, columns: grid.columns, rows: grid.rows };
+  const screen = await screenFaultOffThread({
+    output: "stress",
+    picks: row.picks,
+    outputs: row.outputs ?? null,
+    segments: report.segments.map(({ id, plane }) => ({ id, plane })),
+    grids,
+    parameters: current.parameters,
+    lengthScaleM,
   });
-  return {
-    analysisId: latest.id,
-    pickSetVersion: latest.version,
-    state: current,
-    orientation: { lengthScaleM: length, defaultLengthScaleM: defaultLength, medianPickSpacingM, rangeStandardErrors: ORIENTATION_RANGE_STANDARD_ERRORS },
-    segments,
-    combined: concatScreens(segments.map((s) => s.screen)),
-    vertices: { x: picks.x, y: picks.y, z: picks.z },
-  };
-}
-
-const SCREEN_COLUMNS = [
-  "centroidX", "centroidY", "centroidZ", "normalX", "normalY", "normalZ", "areaM2", "orientationUncertaintyDeg", "slopeScatterDeg",
-  "depthM", "normalMPa", "shearMPa", "porePressureMPa", "effectiveNormalMPa", "slipTendency", "dilationTendency",
-  "pressureToFailureLowMPa", "pressureToFailureHighMPa", "pressureToFailureCriticalMPa", "pressureToFailureMinMPa", "pressureToFailureMaxMPa",
-  "slipTendencyMin", "slipTendencyMax", "dilationTendencyMin", "dilationTendencyMax",
-] as const satisfies readonly (keyof TriangleScreen)[];
-
-function concatScreens(screens: TriangleScreen[]): TriangleScreen {
-  const count = screens.reduce((n, s) => n + s.count, 0);
-  const join = (key: (typeof SCREEN_COLUMNS)[number]) => {
-    const out = new Float64Array(count);
-    let offset = 0;
-    for (const s of screens) {
-      out.set(s[key], offset);
-      offset += s.count;
-    }
-    return out;
-  };
-  const source = new Uint32Array(count);
-  let offset = 0;
-  for (const s of screens) {
-    source.set(s.source, offset);
-    offset += s.count;
-  }
-  const columns = Object.fromEntries(SCREEN_COLUMNS.map((key) => [key, join(key)])) as Record<(typeof SCREEN_COLUMNS)[number], Float64Array>;
-  return {
-    count,
-    source,
-    ...columns,
-    skippedDegenerate: screens.reduce((n, s) => n + s.skippedDegenerate, 0),
-    skippedAboveDatum: screens.reduce((n, s) => n + s.skippedAboveDatum, 0),
-  };
+  return { analysisId: latest.id, pickSetVersion: latest.version, state: current, ...screen };
 }
 
 const base64 = (array: Float32Array) => Buffer.from(array.buffer, array.byteOffset, array.byteLength).toString("base64");

@@ -174,10 +174,12 @@ export function segmentSurface(
   picks: { x: ArrayLike<number>; y: ArrayLike<number>; z: ArrayLike<number>; quality?: ArrayLike<number> },
   indices: ArrayLike<number>,
   frame: PlaneFrame,
+  /** the analysis' own triangulation of these picks in this frame, when it stored one (then nothing is triangulated) */
+  stored?: { triangles: Uint32Array; medianEdgeM: number },
 ): SegmentSurface {
   const { s, t, w } = projectToPlane(picks.x, picks.y, picks.z, frame, indices);
   if (s.length < 3) return { s, t, offPlaneM: w, localTriangles: new Uint32Array(0), triangles: new Uint32Array(0), medianEdgeM: NaN };
-  const { triangles: localTriangles, medianEdgeM } = triangulate(s, t);
+  const { triangles: localTriangles, medianEdgeM } = stored ?? triangulate(s, t);
   const weights = picks.quality ? pickWeights(picks.quality, indices) : null;
   const [offPlaneM] = weights && weightsMatter(weights) ? pullTowardNeighbours([w], weights, localTriangles) : [w];
   const triangles = new Uint32Array(localTriangles.length);

@@ -16,6 +16,8 @@ export default defineConfig({
   reporter: [["list"]],
   use: {
     baseURL: `http://localhost:${port}`,
+    // the one flag that installs the 3D scene's test hooks (scene/test-hooks.ts); every context, also browser.newContext()
+    storageState: { cookies: [], origins: [{ origin: `http://localhost:${port}`, localStorage: [{ name: "slipfield-test-hooks", value: "on" }] }] },
     viewport: { width: 1440, height: 900 },
     launchOptions: {
       executablePath: "/usr/bin/chromium",

@@ -1,6 +1,7 @@
 // 3D view cost in headless Debian chromium with software WebGL (SwiftShader): time to first frame and
 // frame times while orbiting, for the demo faults and a 10⁵-pick synthetic fault. Needs a running server
 // (`npm start`, or BENCH_URL) with the demo seeded; prints a table. A benchmark, not a test.
+import { TEST_HOOKS_KEY } from "../scene/test-hooks";
 import { chromium, type Page } from "@playwright/test";
 import { generateSyntheticPicks, toCsv } from "../lib/engine/synthetic";
 
@@ -78,6 +79,8 @@ async function measure(page: Page, studyId: string, fault: { id: string; name: s
 async function main() {
   const browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: CHROMIUM_ARGS });
   const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+  // the scene's frame timing is published only behind the test-hook flag (scene/test-hooks.ts)
+  await page.addInitScript((key) => window.localStorage.setItem(key, "on"), TEST_HOOKS_KEY);
   await signIn(page);
   const { studyId, faults } = await demoFaults(page);
   const targets = faults.map((fault) => ({ id: fault.id, name: `demo ${fault.name}` }));

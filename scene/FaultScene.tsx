@@ -3,7 +3,7 @@
 // from typed arrays, draw calls are few (per fault: one surface per segment, one contour set, one tip-line
 // set, one mapped-limit set, one pick set, one marker set each for peaks and pins), nothing sets React state
 // per frame.
-import { useCallback, useEffect, useMemo, useRef, type DependencyList } from "react";
+import { useCallback, useEffect, useMemo, useRef, useState, type DependencyList } from "react";
 import { Canvas, useFrame, useThree, type ThreeEvent } from "@react-three/fiber";
 import { AdaptiveDpr, Html, Line, OrbitControls } from "@react-three/drei";
 import * as THREE from "three";
@@ -35,6 +35,7 @@ import {
 import { placeLabels, type LabelRequest, type Rect } from "@/lib/views/labels";
 import type { ColourMode } from "@/lib/contracts/scene-settings";
 import { useDarkMode } from "./useDarkMode";
+import { testHooksEnabled } from "./test-hooks";
 import { copyCameraState, DEFAULT_FOV_DEG, presetCamera, useCameraStore } from "./cameraStore";
 import type { CameraState } from "@/lib/contracts/camera";
 import { useLayerVisible, useSceneSettings } from "./sceneSettingsStore";
@@ -70,7 +71,9 @@ export interface FaultSceneProps {
 
 declare global {
   interface Window {
+    /** the first frame is on screen (the scene picture waits on it) */
     __slipfieldSceneReady?: boolean;
+    // test hooks, installed only behind the flag in ./test-hooks.ts
     __slipfieldFirstFrameMs?: number;
     __slipfieldFrameCount?: number;
     /** performance.now() of recent frames (the last 600), for frame-time measurements */
@@ -670,6 +673,7 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
   }, [controls, request, applyCamera, presetFor]);
 
   useEffect(() => {
+    if (!testHooksEnabled()) return;
     window.__slipfieldCamera = () => useCameraStore.getState().camera;
     window.__slipfieldApplyCamera = (state) => useCameraStore.getState().applyCamera(state);
     return () => {
@@ -711,15 +715,18 @@ function screenAxesOf(camera: THREE.Camera) {
 /** Raises the readiness flag browser tests wait on, once the first frame is on screen. */
 function FrameProbe() {
   const frames = useRef(0);
+  const [timed] = useState(testHooksEnabled);
   useFrame(() => {
     frames.current += 1;
-    window.__slipfieldFrameCount = frames.current;
-    const times = (window.__slipfieldFrameTimes ??= []);
-    times.push(performance.now());
-    if (times.length > 600) times.splice(0, times.length - 600);
+    if (timed) {
+      window.__slipfieldFrameCount = frames.current;
+      const times = (window.__slipfieldFrameTimes ??= []);
+      times.push(performance.now());
+      if (times.length > 600) times.splice(0, times.length - 600);
+    }
     if (frames.current === 1) {
       requestAnimationFrame(() => {
-        window.__slipfieldFirstFrameMs = performance.now();
+        if (timed) window.__slipfieldFirstFrameMs = performance.now();
         window.__slipfieldSceneReady = true;
       });
     }

@@ -62,7 +62,7 @@ const CASES: MutatingCase[] = [
 
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];
 
-describe("role matrix (design.md) on every mutating route", () => {
+describe("role matrix (docs/design.md, Roles) on every mutating route", () => {
   beforeAll(async () => {
     await useFreshDatabase();
   });

@@ -88,7 +88,7 @@ const CASES: Case[] = [
   },
 ];
 
-describe("pins: role matrix (design.md) on every route", () => {
+describe("pins: role matrix (docs/design.md, Roles) on every route", () => {
   beforeAll(async () => {
     await useFreshDatabase();
   });

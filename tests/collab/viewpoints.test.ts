@@ -84,7 +84,7 @@ const CASES: Case[] = [
   },
 ];
 
-describe("viewpoint routes: role matrix (design.md), 401 signed out, 404 across studies", () => {
+describe("viewpoint routes: role matrix (docs/design.md, Roles), 401 signed out, 404 across studies", () => {
   beforeAll(async () => {
     await useFreshDatabase();
   });

@@ -91,7 +91,7 @@ describe("buildFaultDisplay", () => {
     expect(Array.from(display.picks.segmentIndex)).toEqual([0, 1]);
   });
 
-  // basis: design.md step 4, D = T / sin(dip) for dip-slip, D = sqrt(T² + H²) with heave
+  // basis: common practice, no source (dip-slip geometry: D = T / sin(dip), or D = sqrt(T² + H²) where heave is given)
   it("gives each pick its displacement and its residual against the surface", () => {
     const { report, grids } = twoSegmentFixture();
     // node (column 7, row 4) of "north": s = 20, t = 0

@@ -55,7 +55,7 @@ describe("buildSurfaceMesh", () => {
     expect(mesh.indices.length).toBe((grid.columns - 1) * (grid.rows - 1) * 2 * 3);
   });
 
-  // basis: d3-scale-chromatic interpolateViridis is the reference colour scale (design.md: viridis)
+  // basis: d3-scale-chromatic interpolateViridis is the reference colour scale (docs/design.md, Screens: viridis)
   it("colours nodes with viridis at known values, in three.js's linear space", () => {
     const display = singleSegmentDisplay();
     const segment = display.segments[0];

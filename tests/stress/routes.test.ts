@@ -41,7 +41,7 @@ const CASES: { name: string; action: StudyAction; call: (faultId: string) => Ret
   { name: "GET stress export geojson", action: "view", call: (faultId) => callRoute(exportRoute.GET, { path: "/x?format=geojson", params: { faultId } }) },
 ];
 
-describe("stress routes: session and role on every route (design.md role matrix)", () => {
+describe("stress routes: session and role on every route (docs/design.md, Roles)", () => {
   let fixture: Fixture;
   beforeAll(async () => {
     await useFreshDatabase();

@@ -1,4 +1,6 @@
-import { deflateSync, inflateSync } from "node:zlib";
+// fflate (pure JavaScript) rather than node:zlib: these run in analysis worker threads that a time limit may stop at
+// any moment, and Node aborts the whole process when a worker is stopped inside a native zlib call.
+import { unzlibSync, zlibSync } from "fflate";
 import type { PickColumns } from "@/lib/engine/types";
 
 const MAGIC = 0x534c5032; // "SLP2"
@@ -59,7 +61,7 @@ export function packPicks(picks: PickColumns): Uint8Array {
 
 /** `encodeColumns`, deflated as `packPicks` stores a pick set. */
 export function packColumns(record: object): Uint8Array {
-  const deflated = deflateSync(encodeColumns(record), { level: 1 });
+  const deflated = zlibSync(encodeColumns(record), { level: 1 });
   const bytes = new Uint8Array(4 + deflated.byteLength);
   new DataView(bytes.buffer).setUint32(0, PACKED_MAGIC, true);
   bytes.set(deflated, 4);
@@ -74,7 +76,7 @@ export function decodePicks(stored: Uint8Array): PickColumns {
 /** Reads what `packColumns`, `encodeColumns`, `packPicks` or `encodePicks` wrote. */
 export function decodeColumns<T>(stored: Uint8Array): T {
   const packed = stored.byteLength >= 4 && new DataView(stored.buffer, stored.byteOffset, 4).getUint32(0, true) === PACKED_MAGIC;
-  const plain = packed ? inflateSync(stored.subarray(4)) : stored;
+  const plain = packed ? unzlibSync(stored.subarray(4)) : stored;
   // Copy into a fresh buffer: driver buffers may start at any offset, typed views need alignment.
   const bytes = new Uint8Array(plain.byteLength);
   bytes.set(plain);

@@ -10,7 +10,7 @@ const workers = [
     entry: "lib/analysis/worker-entry.ts",
     outfile: "dist/analysis-worker.mjs",
     alias: { "@": root },
-    banner: { js: "import { createRequire } from 'node:module'; const require = createRequire(import.meta.url);" },
+    banner: { js: "import { createRequire as bannerCreateRequire } from 'node:module'; const require = bannerCreateRequire(import.meta.url);" },
   },
   // PGlite finds its .wasm and .data files next to its own module: load it from node_modules, not from the bundle
   { entry: "db/pglite-thread-entry.ts", outfile: "dist/database-worker.mjs", external: ["@electric-sql/pglite"] },
@@ -21,7 +21,7 @@ const workers = [
     // server-only modules are allowed here (this is a server process); pg's optional native binding is not used
     conditions: ["react-server"],
     external: ["@electric-sql/pglite", "pg-native"],
-    banner: { js: "import { createRequire } from 'node:module'; const require = createRequire(import.meta.url);" },
+    banner: { js: "import { createRequire as bannerCreateRequire } from 'node:module'; const require = bannerCreateRequire(import.meta.url);" },
   },
 ];
 const buildOptions = ({ entry, outfile, ...options }) => ({

@@ -1,7 +1,9 @@
 // Stored pick sets: the picks in flat columns and the fault plane of each segment fitted while the file was read (so the
 // analysis fits no plane twice, lib/engine/pipeline.ts), in the one typed-array codec (lib/display/codec.ts), deflated.
 // Other stored column records (a cut-off file's vertices) use the same codec and packing.
-import { deflateSync, inflateSync } from "node:zlib";
+// fflate (pure JavaScript) rather than node:zlib: these run in analysis worker threads that a time limit may stop at
+// any moment, and Node aborts the whole process when a worker is stopped inside a native zlib call.
+import { unzlibSync, zlibSync } from "fflate";
 import { decodeRecord, encodeRecord, recordMagic } from "@/lib/display/codec";
 import type { PickColumns, PlaneFit } from "@/lib/engine/types";
 
@@ -40,7 +42,7 @@ export function encodePicks(picks: PickColumns, planes: (PlaneFit | null)[] | nu
 
 /** Deflated (fastest level) behind its own magic: how pick sets and other column records are stored. */
 function pack(encoded: Uint8Array): Uint8Array {
-  const deflated = deflateSync(encoded, { level: 1 });
+  const deflated = zlibSync(encoded, { level: 1 });
   const bytes = new Uint8Array(4 + deflated.byteLength);
   new DataView(bytes.buffer).setUint32(0, PACKED_MAGIC, true);
   bytes.set(deflated, 4);
@@ -49,7 +51,7 @@ function pack(encoded: Uint8Array): Uint8Array {
 
 function unpack(stored: Uint8Array): Uint8Array {
   const packed = stored.byteLength >= 4 && new DataView(stored.buffer, stored.byteOffset, 4).getUint32(0, true) === PACKED_MAGIC;
-  return packed ? new Uint8Array(inflateSync(stored.subarray(4))) : stored;
+  return packed ? unzlibSync(stored.subarray(4)) : stored;
 }
 
 /**

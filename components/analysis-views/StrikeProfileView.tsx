@@ -18,11 +18,12 @@ import {
   toCommonProfile,
   type GridLike,
   type Profile,
+  type StrikeProfileMode,
 } from "@/lib/views/profiles";
 import { mainSvg } from "./download";
 import { CHART, PlotChart, X_AXIS_ROOM, X_LABEL_BELOW } from "./PlotChart";
 
-type Mode = "centre-line" | "column-max" | "line";
+type Mode = StrikeProfileMode;
 type Quantity = "displacement" | "throw";
 
 const MODE_LABELS: Record<Mode, string> = {

@@ -16,7 +16,7 @@ export const ACOCELLA_MEAN_OS = 3.5;
 
 export function overlapToSeparationNote(ratio: number): string {
   const band = ratio < 1 ? "low" : ratio > 10 ? "high" : "typical";
-  return `O/S = ${ratio.toFixed(2)} (${band}); published means: 4.2 globally (Long & Imber 2011), 3.5 for Icelandic rift relays (Acocella et al. 2000).`;
+  return `O/S = ${ratio.toFixed(2)} (${band}); published means: ${LONG_IMBER_MEAN_OS} globally (Long & Imber 2011), ${ACOCELLA_MEAN_OS} for Icelandic rift relays (Acocella et al. 2000).`;
 }
 
 interface Horizontal { ux: number; uy: number }

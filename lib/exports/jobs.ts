@@ -11,6 +11,7 @@ import { enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { LeaseLost, type JobContext, type JobHandler } from "@/lib/jobs/processor";
 import { fullResolution, loadExportSource, type ExportSource } from "./load";
 import { gridCsv, picksCsv, profilesCsv } from "./tables";
+import type { StrikeProfileMode } from "@/lib/views/profiles";
 
 /**
  * Exports that recompute the full-resolution grids (seconds on a large pick set) are jobs: a worker makes the file and
@@ -18,7 +19,7 @@ import { gridCsv, picksCsv, profilesCsv } from "./tables";
  */
 
 export type ComputedExportKind = "grid.csv" | "picks.csv" | "profiles.csv";
-export type ProfileMode = "centre-line" | "column-max";
+export type ProfileMode = Exclude<StrikeProfileMode, "line">;
 
 interface ExportPayload {
   faultId: string;

@@ -48,7 +48,7 @@ npx vitest run
 
 if [ -n "${TEST_DATABASE_URL:-}" ]; then
   echo "== database tests against PostgreSQL ($TEST_DATABASE_URL)"
-  npx vitest run tests/app tests/collab tests/stress tests/views tests/hardening --no-file-parallelism
+  npx vitest run tests/app tests/collab tests/lib/stress tests/lib/views tests/hardening --no-file-parallelism
 fi
 
 echo "== browser tests (Playwright, Debian chromium)"

@@ -190,7 +190,7 @@ export function segmentSurface(
 /**
  * The default smoothing length: 200 m, or 4 median pick spacings where picks are sparser, rounded up to 10 m. On
  * synthetic faults picked every 25 m × 12.5 m it keeps the minimum ΔP within 0.3 MPa of the noise-free value with up
- * to 5 m of pick jitter (tests/stress/surface.test.ts); a choice, not a published value.
+ * to 5 m of pick jitter (tests/lib/stress/surface.test.ts); a choice, not a published value.
  */
 export function defaultLengthScaleM(medianEdgeM: number): number {
   const raw = Math.max(200, 4 * (Number.isFinite(medianEdgeM) ? medianEdgeM : 0));

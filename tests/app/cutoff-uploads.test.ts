@@ -18,7 +18,7 @@ import * as stratigraphyRoute from "@/app/api/studies/[studyId]/stratigraphy/rou
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
 import { callRoute } from "../support/requests";
-import { timeCutoffCsv } from "../engine/cutoff-fixtures";
+import { timeCutoffCsv } from "../lib/engine/cutoff-fixtures";
 
 type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];

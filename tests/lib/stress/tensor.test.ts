@@ -6,7 +6,7 @@ import { mulberry32 } from "@/lib/engine/synthetic";
 import { DEFAULT_STRESS_PARAMETERS, REGIME_PRESETS, applyPreset } from "@/lib/stress/parameters";
 import { stressParametersSchema } from "@/lib/contracts/stress";
 import { rawTriangleElements, screenElements } from "@/lib/stress/surface";
-import { runPythonOracle } from "../support/python";
+import { runPythonOracle } from "../../support/python";
 import {
   coulombFailureFunction,
   dilationTendency,

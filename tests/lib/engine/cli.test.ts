@@ -9,7 +9,7 @@ import { generateSyntheticPicks, syntheticRelayOptions, toCsv } from "@/lib/engi
 import { faultGeoJson } from "@/lib/views/geojson";
 import { gridCsv } from "@/lib/views/grid-csv";
 
-const root = path.resolve(__dirname, "../..");
+const root = path.resolve(__dirname, "../../..");
 // the command as people run it: the bin entry, which runs the bundled dist/slipfield-cli.cjs
 const bin = path.join(root, "bin/slipfield.cjs");
 const run = (...args: string[]) => spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd: root });

@@ -7,7 +7,7 @@ import { gridSpecFor } from "@/lib/engine/grid";
 import { mulberry32 } from "@/lib/engine/synthetic";
 import { effectivePickCount, localPolynomialFit, offPlaneGrid, orientationOfNormal, slopeScatterDeg, smoothGrid, surfaceNormal } from "@/lib/engine/surface";
 import { planeNormal } from "@/lib/stress/tensor";
-import { runPythonOracle } from "../support/python";
+import { runPythonOracle } from "../../support/python";
 
 const RAD = Math.PI / 180;
 

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../support/session";
 
-vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../support/session")).getSessionUserMock }));
+vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../../support/session")).getSessionUserMock }));
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
 
 import { check } from "@placemarkio/check-geojson";
@@ -15,9 +15,9 @@ import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import * as stressRoute from "@/app/api/faults/[faultId]/stress/route";
 import * as resultRoute from "@/app/api/faults/[faultId]/stress/result/route";
 import * as exportRoute from "@/app/api/faults/[faultId]/stress/export/route";
-import { useFreshDatabase } from "../support/database";
-import { studyWithEveryRole } from "../support/fixtures";
-import { callRoute } from "../support/requests";
+import { useFreshDatabase } from "../../support/database";
+import { studyWithEveryRole } from "../../support/fixtures";
+import { callRoute } from "../../support/requests";
 
 type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];

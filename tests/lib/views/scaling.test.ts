@@ -3,8 +3,8 @@ import { describe, expect, it } from "vitest";
 import { fitPowerLaw, powerLawLine, studentTQuantile, faultScalingPoint } from "@/lib/views/scaling";
 import { analyzeCsv } from "@/lib/engine/pipeline";
 import { demoCsv } from "@/lib/demo";
-import { runPythonOracle } from "../support/python";
-import type { LooseJson } from "../support/requests";
+import { runPythonOracle } from "../../support/python";
+import type { LooseJson } from "../../support/requests";
 
 function mulberry32(seed: number) {
   return () => {
@@ -74,7 +74,7 @@ describe("D–L power-law fits", () => {
     expect(fit.correlationPValue).toBeGreaterThan(0.6);
   });
 
-  // Independent oracle (tests/views/line_fit_oracle.py, run with the resolved Python): scipy.stats.linregress for
+  // Independent oracle (tests/lib/views/line_fit_oracle.py, run with the resolved Python): scipy.stats.linregress for
   // OLS, and for RMA the published test inverted numerically (pearsonr p-value of residuals against the fitted axis,
   // brentq for the ends) — no closed form shared with lib/views/scaling.ts.
   it("agrees with scipy: OLS by linregress, RMA interval by numerically inverting the Pitman test (N = 3 to 120, r of both signs)", () => {

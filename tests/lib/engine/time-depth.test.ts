@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { depthFromTwtIntervals, depthFromTwtLinear, intervalVelocityLinear, parseVelocityText, twtFromDepthLinear, velocityModelProblems } from "@/lib/engine/time-depth";
 import { parseCutoffCsv } from "@/lib/engine/cutoffs";
 import { deriveFromCutoffs } from "@/lib/engine/cutoff-stations";
-import { runPythonOracle } from "../support/python";
+import { runPythonOracle } from "../../support/python";
 
 const ORACLE = path.join(__dirname, "time_depth_oracle.py");
 

@@ -5,7 +5,7 @@ import { triangulate } from "@/lib/engine/triangulate";
 import { rasterizeTriangles, gridSpecFor } from "@/lib/engine/grid";
 import { sampleGrid, STRICT_BILINEAR } from "@/lib/display/grid-sampler";
 import { mulberry32 } from "@/lib/engine/synthetic";
-import { runPythonOracle } from "../support/python";
+import { runPythonOracle } from "../../support/python";
 
 describe("linear interpolation on triangles", () => {
   // tiny exact case, by hand: two triangles over the unit square with v = 2s + 3t + 1 (a plane is reproduced exactly)

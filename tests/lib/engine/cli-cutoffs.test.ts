@@ -5,7 +5,7 @@ import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { onFault, timeCutoffCsv } from "./cutoff-fixtures";
 
-const root = path.resolve(__dirname, "../..");
+const root = path.resolve(__dirname, "../../..");
 // exactly the command outside checks run
 const analyze = (...args: string[]) => spawnSync("npm", ["run", "--silent", "analyze", "--", ...args], { encoding: "utf8", cwd: root });
 

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it, vi } from "vitest";
-import { signInAs } from "../support/session";
+import { signInAs } from "../../support/session";
 
-vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../support/session")).getSessionUserMock }));
+vi.mock("@/lib/auth/session", async () => ({ getSessionUser: (await import("../../support/session")).getSessionUserMock }));
 vi.mock("@/lib/analysis/runner", async (importOriginal) => ({ ...(await importOriginal<object>()), scheduleAnalysis: vi.fn() }));
 
 import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
@@ -10,9 +10,9 @@ import { runAnalysis } from "@/lib/analysis/runner";
 import { demoCsv } from "@/lib/demo";
 import { readCsv } from "@/lib/views/csv";
 import { parsePickCsv } from "@/lib/engine/csv";
-import { useFreshDatabase } from "../support/database";
-import { studyWithEveryRole } from "../support/fixtures";
-import { callRoute } from "../support/requests";
+import { useFreshDatabase } from "../../support/database";
+import { studyWithEveryRole } from "../../support/fixtures";
+import { callRoute } from "../../support/requests";
 
 type Fixture = Awaited<ReturnType<typeof studyWithEveryRole>>;
 const KINDS = ["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json"];

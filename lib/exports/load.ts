@@ -5,6 +5,7 @@ import { getDb } from "@/db/client";
 import { analyses, analysisOutputs, base64Bytes, faults, pickSets, pins, studies, users } from "@/db/schema";
 import { ApiError } from "@/lib/api/errors";
 import { unpackAnalysisOutputs } from "@/lib/analysis/outputs";
+import { decodeFaultDisplay, reportWithContourRings } from "@/lib/display/payload";
 import type { ReportWithGrids } from "@/lib/engine/pipeline";
 import { computeGridsOffThread } from "@/lib/analysis/worker-pool";
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
@@ -33,6 +34,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
       finishedAt: analyses.finishedAt,
       parameters: analyses.parameters,
       result: analyses.result,
+      display: base64Bytes(analyses.display),
       pickSetId: pickSets.id,
       version: pickSets.version,
       fileName: pickSets.fileName,
@@ -66,7 +68,8 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
       uploadedAt: row.uploadedAt,
       uploadedBy: row.uploaderName ? `${row.uploaderName} <${row.uploaderEmail}>` : null,
     },
-    report: row.result as AnalysisReport,
+    // the stored report keeps its contour levels; the rings live once, in the display payload
+    report: row.display ? reportWithContourRings(row.result, decodeFaultDisplay(row.display)) : row.result,
   };
 }
 

@@ -63,6 +63,9 @@ describe("export routes: session, view role, content", () => {
       const geo = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "contours.geojson" } });
       expect(geo.status, role).toBe(200);
       expect(geo.json.type).toBe("FeatureCollection");
+      // the contour rings come back from the display payload (the stored report keeps only the levels)
+      const kinds = new Set((geo.json.features as { properties: { kind: string } }[]).map((feature) => feature.properties.kind));
+      expect([...kinds].sort(), role).toEqual(["contour", "mapped-limit", "tip-line"]);
     }
     signInAs(fixture.people.viewer);
     const grid = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "grid.csv" } });

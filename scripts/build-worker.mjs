@@ -42,17 +42,23 @@ const buildOptions = ({ entry, outfile, ...options }) => ({
 export async function watchWorkers() {
   const contexts = [];
   for (const worker of workers) {
+    let builds = 0;
+    let firstBuilt;
+    const built = new Promise((resolve) => (firstBuilt = resolve));
     const reported = {
       name: "slipfield-report",
       setup(buildApi) {
         buildApi.onEnd((result) => {
-          if (result.errors.length === 0) console.log(`slipfield: rebuilt ${worker.outfile}`);
+          builds += 1;
+          if (result.errors.length === 0) console.log(`slipfield: ${builds === 1 ? "built" : "rebuilt"} ${worker.outfile}`);
+          firstBuilt();
         });
       },
     };
     const context = await esbuildContext(buildOptions({ ...worker, plugins: [reported] }));
-    await context.rebuild();
+    // watch mode builds once at the start, then after every change to a file the bundle includes
     await context.watch();
+    await built;
     contexts.push(context);
   }
   return contexts;

@@ -86,6 +86,7 @@ export const pickSetsResponseSchema = z.strictObject({
       units: lengthUnitSchema,
       uploadedAt: isoTime,
       uploadedBy: z.string().nullable(),
+      velocityModel: velocityModelSchema.nullable(),
       derivedFrom: pickSetProvenanceSchema.nullable(),
     }),
   ),

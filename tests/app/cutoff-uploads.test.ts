@@ -11,6 +11,7 @@ import { ROLE_PERMISSIONS, type StudyRole } from "@/lib/contracts/roles";
 import * as runner from "@/lib/analysis/runner";
 import { decodePicks } from "@/lib/picks/codec";
 import { depthFromTwtLinear } from "@/lib/engine/time-depth";
+import { uploadPreviewSchema } from "@/lib/contracts/analysis";
 import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import * as analysisRoute from "@/app/api/faults/[faultId]/analysis/route";
 import * as cutoffsRoute from "@/app/api/faults/[faultId]/cutoffs/route";
@@ -63,6 +64,7 @@ describe("cut-off line upload: a second kind of file beside pick CSVs", () => {
     signInAs(fixture.people.interpreter);
     const preview = await upload(fixture.fault.id, "preview", form(timeCutoffCsv(), { velocityModel: LINEAR }));
     expect(preview.status).toBe(200);
+    expect(uploadPreviewSchema.safeParse(preview.json).error).toBeUndefined();
     expect(preview.json).toMatchObject({ kind: "cutoffs", domain: "time", accepted: 55, velocityModel: { kind: "linear", v0MPerS: 1800, kPerS: 0.6 } });
     expect(preview.json.cutoffs.horizons.map((h: { name: string; stations: number }) => [h.name, h.stations])).toEqual([["H1", 20], ["H2", 20], ["H3", 15]]);
     expect(preview.json.cutoffs.horizons[2].maxThrowM).toBeCloseTo(80, 2);

@@ -11,6 +11,7 @@ import * as pickSetsRoute from "@/app/api/faults/[faultId]/pick-sets/route";
 import * as analysisRoute from "@/app/api/faults/[faultId]/analysis/route";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { decodeFaultDisplay } from "@/lib/display/payload";
+import { analysisResponseSchema, pickSetsResponseSchema, uploadPreviewSchema } from "@/lib/contracts/analysis";
 import { demoCsv } from "@/lib/demo";
 import { useFreshDatabase } from "../support/database";
 import { studyWithEveryRole } from "../support/fixtures";
@@ -38,6 +39,8 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     lines[7] = "oops,1,2,3,main";
     const preview = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=preview", params: { faultId: fixture.fault.id }, formData: form(lines.join("\n")) });
     expect(preview.status).toBe(200);
+    // the answer is what the contract says the workspace gets (lib/contracts/analysis.ts)
+    expect(uploadPreviewSchema.safeParse(preview.json).error).toBeUndefined();
     expect(preview.json.problemCount).toBe(2);
     expect(preview.json.problems.map((problem: { row: number; column: string }) => [problem.row, problem.column])).toEqual([
       [4, "throw"],
@@ -62,6 +65,7 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     const analysis = await db.query.analyses.findFirst({ where: eq(analyses.id, saved.json.analysisId) });
     expect(analysis?.status).toBe("done");
     const latest = await callRoute(analysisRoute.GET, { params: { faultId: fixture.fault.id } });
+    expect(analysisResponseSchema.safeParse(latest.json).error).toBeUndefined();
     const report = latest.json.analysis.result;
     expect(report.segments).toHaveLength(1);
     // QG-4 is drawn with a 1250 m half-length (lib/demo.ts): the inferred tip line should recover ~2500 m.
@@ -71,6 +75,7 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     expect(display.segments).toHaveLength(1);
     // the workspace's form: the same report with the contour rings left out (it draws them from the display)
     const sheet = await callRoute(analysisRoute.GET, { path: "/x?contours=0", params: { faultId: fixture.fault.id } });
+    expect(analysisResponseSchema.safeParse(sheet.json).error).toBeUndefined();
     const lean = sheet.json.analysis.result;
     expect(report.segments[0].contours.some((level: { rings: unknown[] }) => level.rings.length > 0)).toBe(true);
     expect(lean.segments[0].contours.map((level: { levelM: number }) => level.levelM)).toEqual(report.segments[0].contours.map((level: { levelM: number }) => level.levelM));
@@ -85,6 +90,7 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     const second = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=confirm", params: { faultId: fixture.fault.id }, formData: form(csv) });
     expect(second.json.version).toBe(2);
     const list = await callRoute(pickSetsRoute.GET, { params: { faultId: fixture.fault.id } });
+    expect(pickSetsResponseSchema.safeParse(list.json).error).toBeUndefined();
     expect(list.json.pickSets.map((set: { version: number }) => set.version)).toEqual([2, 1]);
   });
 

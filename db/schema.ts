@@ -89,9 +89,13 @@ export const faults = pgTable(
       .references(() => studies.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     description: text("description").notNull().default(""),
-    sense: text("sense", { enum: ["normal", "reverse"] })
+    sense: text("sense", { enum: ["normal", "reverse", "oblique"] })
       .notNull()
       .default("normal"),
+    /** rake of the slip (degrees from the strike, negative normal, positive reverse); oblique faults only */
+    rakeDeg: doublePrecision("rake_deg"),
+    /** negative throw (offset of the opposite sense) is expected: the fault was inverted */
+    inversion: boolean("inversion").notNull().default(false),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },

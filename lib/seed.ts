@@ -29,7 +29,7 @@ export async function seedDemo() {
   await db.insert(memberships).values(DEMO_ACCOUNTS.map((account) => ({ studyId: study.id, userId: byEmail.get(account.email)!.id, role: account.role })));
   const access = { user: { id: interpreter.id, email: interpreter.email, name: interpreter.name }, studyId: study.id, role: "interpreter" as const };
   for (const demo of DEMO_FAULTS) {
-    const fault = await createFault(access, { name: demo.name, description: demo.description, sense: "normal" });
+    const fault = await createFault(access, { name: demo.name, description: demo.description, sense: "normal", inversion: false });
     const bytes = new TextEncoder().encode(demoCsv(demo.name));
     const { analysisId } = await confirmUpload({ ...access, faultId: fault.id }, { name: demo.fileName, bytes }, { units: "m", dropBadRows: false, problemPage: 0 });
     await runAnalysis(analysisId);

@@ -9,7 +9,8 @@ import { serveTipLineFits, threadedTipLineFitter } from "../lib/analysis/tipline
 import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
 import { formatAzimuth } from "../lib/engine/plane";
-import type { AnalysisReport, ProfileModel, TipEndSide } from "../lib/engine/types";
+import type { AnalysisReport, FaultKinematics, FaultSense, ProfileModel, TipEndSide } from "../lib/engine/types";
+import { kinematicsProblems } from "../lib/engine/kinematics";
 import { AUTOMATIC_CANDIDATES } from "../lib/engine/profiles";
 import { faultGeoJson } from "../lib/views/geojson";
 import { gridCsv } from "../lib/views/grid-csv";
@@ -31,6 +32,10 @@ const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [opti
   --cutoff M           resolution cut-off as a throw in metres (default: estimated from the picks)
   --profile P          tip-line profile: auto (default) or one of ${AUTOMATIC_CANDIDATES.join(", ")}
   --end SIDE=STATUS    an end's status, open or inferred (SIDE: strike-start, strike-end, up-dip, down-dip); repeatable
+  --sense S            the fault's type: normal (default), reverse or oblique (reverse: hanging wall up)
+  --rake DEG           rake of an oblique fault's slip from the strike (negative normal-oblique, positive reverse-
+                       oblique; at least 20° from strike-slip); a rake column in the file overrides it per pick
+  --inversion          negative throw is expected (the fault was inverted): kept as offset of the opposite sense
   --drop-bad-rows      analyse the good rows of a file that has bad ones (default: refuse the file)
   -h, --help           this text
 
@@ -46,13 +51,14 @@ interface Options {
   throwCutoffM?: number;
   profiles?: ProfileModel[];
   ends: Partial<Record<TipEndSide, "open" | "inferred">>;
+  kinematics: FaultKinematics;
   dropBadRows: boolean;
   help: boolean;
 }
 
 export function parseArgs(argv: string[]): Options {
   const args = argv[0] === "analyze" ? argv.slice(1) : argv;
-  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, dropBadRows: false, help: false };
+  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, kinematics: { sense: "normal" }, dropBadRows: false, help: false };
   let formatGiven: string | null = null;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -94,9 +100,21 @@ export function parseArgs(argv: string[]): Options {
       if (!["strike-start", "strike-end", "up-dip", "down-dip"].includes(side) || (status !== "open" && status !== "inferred")) throw new UsageError(`--end takes SIDE=open or SIDE=inferred, SIDE one of strike-start, strike-end, up-dip, down-dip`);
       out.ends[side as TipEndSide] = status;
     }
+    else if (a === "--sense") {
+      const v = value();
+      if (v !== "normal" && v !== "reverse" && v !== "oblique") throw new UsageError(`--sense must be normal, reverse or oblique, got "${v}"`);
+      out.kinematics.sense = v as FaultSense;
+    } else if (a === "--rake") {
+      const v = Number(value());
+      if (!Number.isFinite(v)) throw new UsageError(`--rake must be a number of degrees, got "${args[i]}"`);
+      out.kinematics.rakeDeg = v;
+    } else if (a === "--inversion") out.kinematics.inversion = true;
     else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
     else out.inputs.push(a);
   }
+  if (out.kinematics.rakeDeg !== undefined && out.kinematics.sense !== "oblique") throw new UsageError("--rake is for an oblique fault: add --sense oblique (normal is −90°, reverse +90°)");
+  const typeProblems = kinematicsProblems(out.kinematics);
+  if (typeProblems.length) throw new UsageError(typeProblems.map((problem) => problem.replace(/^rake: /, "--rake: ")).join("; "));
   if (!out.help && out.inputs.length === 0) throw new UsageError("name a pick CSV to analyse (or - for standard input)");
   if (out.inputs.filter((input) => input === "-").length > 1) throw new UsageError("standard input (-) can be read only once");
   return out;
@@ -148,9 +166,10 @@ function readable(report: AnalysisReport): string {
     lines.push(`Segment ${s.id} (${s.pickCount} picks)`);
     lines.push(`  plane: strike ${formatAzimuth(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${formatAzimuth(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`);
     lines.push(`  maximum: displacement ${f(s.max.displacementM)} m observed (fitted ${f(s.max.fittedDisplacementM)} m, 5–95 % ${f(s.max.fittedDisplacementRangeM[0])}–${f(s.max.fittedDisplacementRangeM[1])} m), throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`);
-    lines.push(`  mapped limit: length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
+    if (s.surface) lines.push(`  surface: up to ${f(s.surface.maxOffsetM)} m from the plane (RMS ${f(s.surface.rmsOffsetM)} m), local dip ${f(s.surface.localDipRangeDeg[0])}–${f(s.surface.localDipRangeDeg[1])}° (5–95 %); ${s.surface.note}`);
+    lines.push(`  mapped limit (along the surface): length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
     const range = ([low, high]: [number, number | null]) => (high === null ? `from ${f(low, 0)} m, open above` : `${f(low, 0)}–${f(high, 0)} m`);
-    lines.push(`  inferred tip line: length ${tl.lengthIsMinimum ? "at least " : ""}${f(tl.lengthM, 0)} m (5–95 % ${range(tl.lengthRangeM)}), height ${tl.heightIsMinimum ? "at least " : ""}${f(tl.heightM, 0)} m (5–95 % ${range(tl.heightRangeM)}), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
+    lines.push(`  inferred tip line (along the surface): length ${tl.lengthIsMinimum ? "at least " : ""}${f(tl.lengthM, 0)} m (5–95 % ${range(tl.lengthRangeM)}), height ${tl.heightIsMinimum ? "at least " : ""}${f(tl.heightM, 0)} m (5–95 % ${range(tl.heightRangeM)}), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
     lines.push(`    ends: ${tl.ends.map((end) => `${end.side} ${end.status}`).join(", ")}; cut-off ${f(tl.cutoff.displacementM)} m displacement (${tl.cutoff.source})`);
     lines.push(`    ${tl.method}`);
     lines.push(`    ${tl.selection}`);
@@ -158,6 +177,10 @@ function readable(report: AnalysisReport): string {
     lines.push(`  asymmetry of Dmax: along strike ${f(s.asymmetry.alongStrike, 2)}, down dip ${f(s.asymmetry.downDip, 2)} (fraction of the semi-axis)`);
     lines.push(`  scaling: ${s.scaling.note}`);
     lines.push(`  contours: every ${s.contourIntervalM} m, ${s.contours.length} levels`);
+  }
+  if (report.kinematics) {
+    lines.push("");
+    lines.push(`Fault type: ${report.kinematics.note}`);
   }
   if (report.quality) {
     lines.push("");
@@ -265,7 +288,7 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
+        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, kinematics: options.kinematics, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
         write(render(result, input, options.format, several, written++ === 0));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;

@@ -132,8 +132,14 @@ function NewFault({ studyId }: { studyId: string }) {
   const [name, setName] = useState("");
   const [sense, setSense] = useState<FaultSense>("normal");
   const [description, setDescription] = useState("");
+  const [rake, setRake] = useState("");
+  const [inversion, setInversion] = useState(false);
   const create = useMutation({
-    mutationFn: () => apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, { method: "POST", json: { name, sense, description } }),
+    mutationFn: () =>
+      apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, {
+        method: "POST",
+        json: { name, sense, description, inversion, ...(sense === "oblique" ? { rakeDeg: rake.trim() === "" ? null : Number(rake) } : {}) },
+      }),
     onSuccess: ({ fault }) => router.push(`/studies/${studyId}/faults/${fault.id}`),
   });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
@@ -172,6 +178,18 @@ function NewFault({ studyId }: { studyId: string }) {
             ))}
           </div>
           <FieldError errors={fieldErrors?.sense} />
+          {sense === "oblique" && (
+            <div className="mt-2">
+              <label className="label" htmlFor="new-fault-rake">Rake (degrees from the strike)</label>
+              <input id="new-fault-rake" className="field w-32" inputMode="decimal" placeholder="e.g. −45" value={rake} onChange={(event) => setRake(event.target.value.replace("−", "-"))} data-testid="fault-rake" />
+              <p className="mt-1 text-xs text-slate-500">A <code>rake</code> column in the pick file overrides it pick by pick.</p>
+              <FieldError errors={fieldErrors?.rakeDeg} />
+            </div>
+          )}
+          <label className="mt-2 flex items-baseline gap-2 text-sm">
+            <input type="checkbox" checked={inversion} onChange={(event) => setInversion(event.target.checked)} data-testid="fault-inversion" />
+            <span><span className="font-medium">Inverted</span> <span className="text-slate-500">— negative throw (offset of the opposite sense) is expected in places</span></span>
+          </label>
         </fieldset>
         <div>
           <label className="label" htmlFor="new-fault-description">Description <span className="font-normal text-slate-500">(optional)</span></label>

@@ -1,7 +1,7 @@
 // Reading an uploaded pick file: pure (no I/O), so it runs in the analysis worker pool, off the web server's thread
 // (a 10⁵-pick file took 0.1–0.3 s of that thread, a 10⁶-pick one about a second).
 import { parsePickCsv } from "@/lib/engine/csv";
-import type { ParseResult, RejectedRow } from "@/lib/engine/types";
+import type { FaultKinematics, ParseResult, RejectedRow } from "@/lib/engine/types";
 import { packPicks } from "@/lib/picks/codec";
 
 export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
@@ -15,6 +15,8 @@ export interface UploadParseJob {
   dropBadRows: boolean;
   /** also return the picks packed for storage (lib/picks/codec.ts) */
   encode: boolean;
+  /** the fault's type: which throws and rakes it can use */
+  kinematics?: FaultKinematics;
 }
 
 /** A whole multipart upload body, taken apart off the web server's thread (a 10⁵-pick form cost it ~0.25 s). */
@@ -89,7 +91,7 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
   if (countRows(text) > MAX_ROWS + 1) throw new UploadProblem(413, `${job.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
   let parsed: ParseResult;
   try {
-    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows });
+    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows, kinematics: job.kinematics });
   } catch (error) {
     const rejected = (error as { rejected?: RejectedRow[] }).rejected;
     if (Array.isArray(rejected) || error instanceof Error) {

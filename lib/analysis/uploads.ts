@@ -4,6 +4,7 @@ import { and, desc, eq, max } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { analyses, faults, pickSets, segments } from "@/db/schema";
+import { faultKinematics } from "@/lib/fault-types";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -36,10 +37,13 @@ function checksumOf(bytes: Uint8Array) {
 }
 
 /** The file read in the worker pool (lib/analysis/upload-parse.ts); its problems come back as API errors. */
-async function parseUpload(file: UploadedFile, options: UploadOptions, encode = false): Promise<UploadParseOutput> {
+async function parseUpload(faultId: string, file: UploadedFile, options: UploadOptions, encode = false): Promise<UploadParseOutput> {
   try {
     checkUploadSize(file.name, file.bytes);
-    return await parseUploadOffThread({ output: "parse", name: file.name, bytes: file.bytes, units: options.units, dropBadRows: options.dropBadRows, encode });
+    // the fault's type decides which throws (negative only on an inverted fault) and rakes the file may hold
+    const fault = await (await getDb()).query.faults.findFirst({ where: eq(faults.id, faultId), columns: { sense: true, rakeDeg: true, inversion: true } });
+    const kinematics = fault ? faultKinematics(fault) : undefined;
+    return await parseUploadOffThread({ output: "parse", name: file.name, bytes: file.bytes, units: options.units, dropBadRows: options.dropBadRows, encode, kinematics });
   } catch (error) {
     if (error instanceof UploadProblem) throw new ApiError(error.status, error.message, error.details);
     throw error;
@@ -49,7 +53,7 @@ async function parseUpload(file: UploadedFile, options: UploadOptions, encode = 
 /** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
 export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
   // The preview always lists every problem row next to the usable picks; the choice to drop them is made on confirm.
-  const { parsed } = await parseUpload(file, { ...options, dropBadRows: true });
+  const { parsed } = await parseUpload(access.faultId, file, { ...options, dropBadRows: true });
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const sameFile = await db.query.pickSets.findFirst({
@@ -90,7 +94,7 @@ export async function previewUpload(access: StudyAccess & { faultId: string }, f
 
 /** Saves the pick set, its segments, a queued analysis and its job in one transaction, then wakes the workers. */
 export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
-  const { parsed, encoded } = await parseUpload(file, options, true);
+  const { parsed, encoded } = await parseUpload(access.faultId, file, options, true);
   if (parsed.rejected.length > 0 && !options.dropBadRows) {
     throw new ApiError(422, `${parsed.rejected.length}${parsed.rejectedTruncated ? "+" : ""} rows have problems. Fix them, or choose to drop the bad rows.`, {
       rejected: parsed.rejected.slice(0, PROBLEM_PAGE_SIZE),

@@ -91,7 +91,10 @@ export async function recomputeFullResolution(source: ExportSource, signal?: Abo
   if (cached) return cached;
   const bytes = await storedPickBytes(source);
   // seconds of work on a large pick set: off the web server's thread, like an analysis
-  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
+  // the fault type the analysis ran with, so the grids are the analysis' own
+  const used = source.report.kinematics;
+  const kinematics = used ? { sense: used.sense, rakeDeg: used.rakeDeg, inversion: used.inversion } : undefined;
+  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters), kinematics }, signal);
   const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
   return { picks, result };

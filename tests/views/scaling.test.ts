@@ -143,7 +143,8 @@ describe("D–L power-law fits", () => {
   it("one fault gives one (L, Dmax) pair; QG-1's length spans both segments' tip lines along strike", () => {
     const { report } = analyzeCsv(demoCsv("QG-1"));
     const point = faultScalingPoint("f", "QG-1", report)!;
-    expect(point.dMaxM).toBe(Math.max(...report.segments.map((s) => s.max.displacementM)));
+    // the scaling chart plots the fitted Dmax (the observed maximum is biased upward by noise)
+    expect(point.dMaxM).toBe(Math.max(...report.segments.map((s) => s.max.fittedDisplacementM)));
     // lib/demo.ts draws two 3800 m segments overlapping by 700 m: about 6900 m end to end
     expect(point.lengthM).toBeGreaterThan(Math.max(...report.segments.map((s) => s.tipLine.lengthM)));
     expect(point.lengthM).toBeGreaterThan(6900 * 0.9);

@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import type { CoordinateReference } from "@/lib/crs";
 import {
   type AnyPgColumn,
   boolean,
@@ -61,6 +62,8 @@ export const studies = pgTable("studies", {
   id: id(),
   name: text("name").notNull(),
   description: text("description").notNull().default(""),
+  /** the projected CRS of the pick files' x, y and the vertical reference of z, as checked (lib/crs.ts); null: not recorded */
+  coordinateReference: jsonb("coordinate_reference").$type<CoordinateReference>(),
   createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
   createdAt: createdAt(),
 });

@@ -72,6 +72,9 @@ export function demoCsv(name: (typeof DEMO_FAULTS)[number]["name"]) {
   return toCsv(demoPicks(name).picks);
 }
 
+/** The demo study's coordinate reference: WGS 84 / UTM zone 31N, z above mean sea level (MSL height). */
+export const DEMO_COORDINATE_REFERENCE = { epsg: 32631, verticalEpsg: 5714 };
+
 export const DEMO_PASSWORD = "quillon-demo-1";
 export const DEMO_ACCOUNTS = [
   { email: "owner@quillon.test", name: "Maren Ostby", role: "owner" },

@@ -5,7 +5,8 @@ import { confirmUpload } from "@/lib/analysis/uploads";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { hashPassword } from "@/lib/auth/password";
 import { createFault } from "@/lib/studies";
-import { DEMO_ACCOUNTS, DEMO_FAULTS, DEMO_PASSWORD, demoCsv } from "@/lib/demo";
+import { DEMO_ACCOUNTS, DEMO_COORDINATE_REFERENCE, DEMO_FAULTS, DEMO_PASSWORD, demoCsv } from "@/lib/demo";
+import { checkCoordinateReference } from "@/lib/crs";
 
 /** Seeds the Quillon Graben demo: four accounts (one per role), the study, both faults with analysed pick sets. */
 export async function seedDemo() {
@@ -24,6 +25,8 @@ export async function seedDemo() {
       name: "Quillon Graben CO2 screen",
       description: "Fictional offshore basin screened for CO2 storage: fault geometry, tip lines and relay integrity around the storage closure. Demo data.",
       createdBy: owner.id,
+      // the invented basin sits in UTM zone 31N offshore; z is elevation above mean sea level
+      coordinateReference: checkCoordinateReference(DEMO_COORDINATE_REFERENCE),
     })
     .returning();
   await db.insert(memberships).values(DEMO_ACCOUNTS.map((account) => ({ studyId: study.id, userId: byEmail.get(account.email)!.id, role: account.role })));

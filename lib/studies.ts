@@ -9,12 +9,22 @@ import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
 import { FAULT_SENSE_VALUES, faultTypeFieldErrors, type FaultSense } from "@/lib/fault-types";
 import { emailSchema, type SessionUser } from "@/lib/auth/users";
+import { checkCoordinateReference, CoordinateReferenceError, type CoordinateReference } from "@/lib/crs";
 
 export const studyInputSchema = z.object({
   name: z.string().trim().min(2, "Use at least 2 characters.").max(120, "Use at most 120 characters."),
   description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
 });
-export const studyPatchSchema = studyInputSchema.partial();
+const coordinateReferenceInputSchema = z.object({
+  epsg: z.number({ error: "The EPSG code must be a whole number, e.g. 32631." }).int("The EPSG code must be a whole number, e.g. 32631.").min(1024, "EPSG codes of coordinate systems start at 1024.").max(999_999, "That is not an EPSG code."),
+  verticalEpsg: z.number({ error: "The vertical EPSG code must be a whole number, e.g. 5714." }).int("The vertical EPSG code must be a whole number, e.g. 5714.").min(1024, "That is not an EPSG code of a vertical system.").max(999_999, "That is not an EPSG code.").nullable().optional(),
+  verticalDatum: z.string().trim().max(120, "Name the vertical datum in at most 120 characters.").optional(),
+});
+
+export const studyPatchSchema = studyInputSchema.partial().extend({
+  /** the study's coordinate reference (EPSG codes), or null to clear it */
+  coordinateReference: coordinateReferenceInputSchema.nullable().optional(),
+});
 
 const faultFields = z.object({
   name: z
@@ -88,7 +98,22 @@ export async function createStudy(user: SessionUser, input: z.infer<typeof study
 
 export async function updateStudy(access: StudyAccess, patch: z.infer<typeof studyPatchSchema>) {
   const db = await getDb();
-  const [updated] = await db.update(studies).set(patch).where(eq(studies.id, access.studyId)).returning();
+  const { coordinateReference: referenceInput, ...rest } = patch;
+  let coordinateReference: CoordinateReference | null | undefined = undefined;
+  if (referenceInput === null) coordinateReference = null;
+  else if (referenceInput) {
+    try {
+      coordinateReference = checkCoordinateReference(referenceInput);
+    } catch (error) {
+      if (!(error instanceof CoordinateReferenceError)) throw error;
+      throw new ApiError(400, error.message, { fieldErrors: { [`coordinateReference.${error.field}`]: [error.message] } });
+    }
+  }
+  const [updated] = await db
+    .update(studies)
+    .set({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) })
+    .where(eq(studies.id, access.studyId))
+    .returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
   return updated;
 }

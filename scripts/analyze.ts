@@ -10,22 +10,27 @@ import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
 import { formatAzimuth } from "../lib/engine/plane";
 import type { AnalysisReport, FaultKinematics, FaultSense, ProfileModel, TipEndSide } from "../lib/engine/types";
+import type { CoordinateReference } from "../lib/crs";
 import { kinematicsProblems } from "../lib/engine/kinematics";
+import { parseCrsText, type CoordinateReferenceInput } from "../lib/crs-text";
 import { AUTOMATIC_CANDIDATES } from "../lib/engine/profiles";
 import { faultGeoJson } from "../lib/views/geojson";
-import { gridCsv } from "../lib/views/grid-csv";
+import { coordinateComments, gridCsv } from "../lib/views/grid-csv";
 
 class UsageError extends Error {}
 
-type Format = "text" | "json" | "csv" | "geojson";
-const FORMATS: Format[] = ["text", "json", "csv", "geojson"];
+type Format = "text" | "json" | "csv" | "geojson" | "gltf";
+const FORMATS: Format[] = ["text", "json", "csv", "geojson", "gltf"];
 
 const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [options]
 
   -                    read the pick CSV from standard input
   --json               the analysis report as one JSON object (one per line for several files)
   --format F           text (default), json, csv (every grid node: segment, s, t, x, y, z, displacement, throw)
-                       or geojson (contours, inferred tip lines and mapped limits as 3D lines in map metres)
+                       or geojson (contours, inferred tip lines and mapped limits as 3D lines in map metres),
+                       or gltf (the displacement surface and tip lines as a glTF 2.0 binary model; one file only)
+  --crs EPSG:C[+V]     the coordinate reference of x, y (a projected EPSG code in metres) and of z (a vertical
+                       one, optional), e.g. EPSG:32631+5714: stated in csv, geojson and gltf output
   --units m|ft         units of the file (default m; feet are converted)
   --interval M         contour interval in metres (default: about 8-12 levels)
   --cell M             grid cell size in metres (default: from the pick spacing)
@@ -52,6 +57,7 @@ interface Options {
   profiles?: ProfileModel[];
   ends: Partial<Record<TipEndSide, "open" | "inferred">>;
   kinematics: FaultKinematics;
+  crs?: CoordinateReferenceInput;
   dropBadRows: boolean;
   help: boolean;
 }
@@ -109,6 +115,12 @@ export function parseArgs(argv: string[]): Options {
       if (!Number.isFinite(v)) throw new UsageError(`--rake must be a number of degrees, got "${args[i]}"`);
       out.kinematics.rakeDeg = v;
     } else if (a === "--inversion") out.kinematics.inversion = true;
+    else if (a === "--crs") {
+      const v = value();
+      const parsed = parseCrsText(v);
+      if (!parsed) throw new UsageError(`--crs takes EPSG codes as EPSG:32631 or EPSG:32631+5714 (horizontal+vertical), got "${v}"`);
+      out.crs = parsed;
+    }
     else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
     else out.inputs.push(a);
   }
@@ -207,16 +219,18 @@ const faultNameOf = (input: string) => (input === "-" ? "stdin" : path.basename(
  * One input's output in the chosen format. Several inputs: json and geojson carry the file's name, csv gets a file
  * column and its header only before the first file's rows.
  */
-function render(result: PipelineResult, input: string, format: Format, several: boolean, first: boolean): string {
+function render(result: PipelineResult, input: string, format: Exclude<Format, "gltf">, several: boolean, first: boolean, reference: CoordinateReference | null): string {
   switch (format) {
     case "json":
       return JSON.stringify(several ? { file: input, ...result.report } : result.report);
     case "geojson": {
-      const collection = faultGeoJson(faultNameOf(input), result.report);
+      const collection = faultGeoJson(faultNameOf(input), result.report, reference);
       return JSON.stringify(several ? { ...collection, file: input } : collection);
     }
-    case "csv":
-      return several ? withFileColumn(gridCsv(result), input, first) : gridCsv(result).trimEnd();
+    case "csv": {
+      const comments = coordinateComments(reference ? describeReference(reference) : null);
+      return several ? withFileColumn(gridCsv(result, first ? comments : []), input, first) : gridCsv(result, comments).trimEnd();
+    }
     case "text":
       return several ? `== ${input}\n${readable(result.report)}\n` : readable(result.report);
   }
@@ -225,9 +239,11 @@ function render(result: PipelineResult, input: string, format: Format, several: 
 /** A file column before every row of a CSV (header "file", kept only when `withHeader`); quoted when the name needs it. */
 function withFileColumn(csv: string, input: string, withHeader: boolean): string {
   const cell = /[",\n\r]/.test(input) ? `"${input.replace(/"/g, '""')}"` : input;
-  const lines = csv.trimEnd().split("\n");
+  const all = csv.trimEnd().split("\n");
+  const comments = all.filter((line) => line.startsWith("#"));
+  const lines = all.filter((line) => !line.startsWith("#"));
   const rows = lines.slice(1).map((line) => `${cell},${line}`);
-  return (withHeader ? [`file,${lines[0]}`, ...rows] : rows).join("\n");
+  return (withHeader ? [...comments, `file,${lines[0]}`, ...rows] : rows).join("\n");
 }
 
 function problemText(input: string, error: PickInputError): string {
@@ -245,6 +261,14 @@ function thisFile(): string {
 function readInput(input: string): string {
   // bytes first, then one decode: a little quicker in Node 20 than asking readFileSync for text
   return readFileSync(input === "-" ? 0 : input).toString("utf8");
+}
+
+let describeReference: (reference: CoordinateReference) => string = () => "";
+let longitudeLatitude: (x: number, y: number) => [number, number] = () => [NaN, NaN];
+
+/** Binary output (a glTF model) to stdout. */
+function writeBytes(bytes: Uint8Array) {
+  process.stdout.write(bytes);
 }
 
 /** Writes everything to stdout; a closed pipe (`| head`) ends the run quietly. */
@@ -268,6 +292,24 @@ export async function main(argv: string[]): Promise<number> {
     return 2;
   }
   const several = inputs.length > 1;
+  if (several && options.format === "gltf") {
+    process.stderr.write("analyze: --format gltf writes one model: name one pick file\n");
+    return 2;
+  }
+  // the coordinate reference and the glTF writer load only when asked for (they weigh on every start otherwise)
+  let reference: CoordinateReference | null = null;
+  if (options.crs) {
+    const crs = await import("../lib/crs");
+    try {
+      reference = crs.checkCoordinateReference(options.crs);
+    } catch (e) {
+      if (!(e instanceof crs.CoordinateReferenceError)) throw e;
+      process.stderr.write(`analyze: --crs: ${e.message}\n`);
+      return 2;
+    }
+    describeReference = crs.describeCoordinateReference;
+    longitudeLatitude = (x, y) => crs.toLongitudeLatitude(reference!, x, y);
+  }
   // SLIPFIELD_TIPLINE_THREAD=on: a helper thread fits the tip lines while this thread grids and contours (started now,
   // while this thread reads and parses). Off by default: in a fresh process the helper's own start-up and colder code
   // cost as much as the overlap saves, on 2,000 and on 100,000 picks alike (bench/cli.ts; the server's warm worker gains).
@@ -289,7 +331,13 @@ export async function main(argv: string[]): Promise<number> {
       }
       try {
         const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, kinematics: options.kinematics, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
-        write(render(result, input, options.format, several, written++ === 0));
+        if (options.format === "gltf") {
+          const [{ buildFaultDisplay }, { faultGltf }] = await Promise.all([import("../lib/analysis/display"), import("../lib/views/gltf")]);
+          // the full-resolution grid (at most 512 nodes a side), as the grid CSV has it
+          const display = buildFaultDisplay({ ...result, maxCells: 512, maxPicks: 0 });
+          writeBytes(faultGltf(display, { faultName: faultNameOf(input), coordinateReference: reference, originLongitudeLatitude: reference ? longitudeLatitude(display.origin[0], display.origin[1]) : null }));
+          written++;
+        } else write(render(result, input, options.format, several, written++ === 0, reference));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;
         process.stderr.write(`${problemText(input, e)}\n`);

@@ -157,6 +157,25 @@ function displaySegment(segment: SegmentResult, grid: RegularGrid, origin: Vec3,
   };
 }
 
+/**
+ * The surface's distance from the reference plane at (s, t) of a segment (m): the display grid's own where it has data
+ * around (s, t), else the coarse surface (which covers the tip lines), else 0 (payloads made before the true surface).
+ */
+export function surfaceOffsetAt(segment: DisplaySegment, s: number, t: number): number {
+  const { grid, surface } = segment;
+  if (grid.offPlaneM) {
+    const w = sampleGrid(grid, grid.offPlaneM, s, t);
+    if (!Number.isNaN(w)) return w;
+  }
+  if (surface) {
+    const u = Math.min(Math.max(s, surface.s0), surface.s0 + (surface.columns - 1) * surface.cellM);
+    const v = Math.min(Math.max(t, surface.t0), surface.t0 + (surface.rows - 1) * surface.cellM);
+    const w = sampleGrid(surface, surface.offPlaneM, u, v);
+    if (!Number.isNaN(w)) return w;
+  }
+  return 0;
+}
+
 function displaySurface({ s0, t0, cellM, columns, rows, offsetM }: NonNullable<SegmentResult["surface"]>["grid"]): DisplaySurface {
   return { s0, t0, cellM, columns, rows, offPlaneM: Float32Array.from(offsetM) };
 }

@@ -1,0 +1,1 @@
+ALTER TABLE "studies" ADD COLUMN "coordinate_reference" jsonb;

@@ -16,6 +16,9 @@ import {
   timestamp,
   uniqueIndex,
 } from "drizzle-orm/pg-core";
+import type { CutoffSummary } from "@/lib/engine/cutoff-stations";
+import type { StratigraphyUnit } from "@/lib/engine/juxtaposition";
+import type { VelocityModel } from "@/lib/engine/time-depth";
 
 /**
  * Binary columns are written as binary parameters (see db/pglite-options.ts: PGlite's default turns them into hex
@@ -137,6 +140,10 @@ export const pickSets = pgTable(
     horizonNames: jsonb("horizon_names").$type<string[]>().notNull(),
     /** picks in compact column-major binary (see lib/picks/codec.ts), metres */
     picks: bytea("picks").notNull(),
+    /** the velocity model the file's two-way times were converted to depth with; null for a file in depth */
+    velocityModel: jsonb("velocity_model").$type<VelocityModel>(),
+    /** set when the picks were derived from a cut-off line file (the cut-off set row holds the rest) */
+    derivedFrom: jsonb("derived_from").$type<PickSetProvenance>(),
     uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
     uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -145,6 +152,59 @@ export const pickSets = pgTable(
     index("pick_sets_checksum_idx").on(table.faultId, table.checksum),
   ],
 );
+
+/** Where a derived pick set came from: the cut-off file (name, checksum) and how its walls were paired. */
+export interface PickSetProvenance {
+  kind: "cutoffs";
+  fileName: string;
+  checksum: string;
+  stationSpacingM: number;
+  stationSpacingSource: "data" | "set";
+  rakeDeg: number;
+}
+
+/**
+ * One uploaded cut-off line file: its vertices as read (times kept for a file in two-way time), the stations where the
+ * walls were paired and the derived pick set they made, saved in the same transaction as that pick set.
+ */
+export const cutoffSets = pgTable(
+  "cutoff_sets",
+  {
+    id: id(),
+    faultId: text("fault_id")
+      .notNull()
+      .references(() => faults.id, { onDelete: "cascade" }),
+    pickSetId: text("pick_set_id")
+      .notNull()
+      .references(() => pickSets.id, { onDelete: "cascade" }),
+    fileName: text("file_name").notNull(),
+    checksum: text("checksum").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    vertexCount: integer("vertex_count").notNull(),
+    domain: text("domain", { enum: ["depth", "time"] }).notNull(),
+    velocityModel: jsonb("velocity_model").$type<VelocityModel>(),
+    stationSpacingM: doublePrecision("station_spacing_m").notNull(),
+    rakeDeg: doublePrecision("rake_deg").notNull().default(90),
+    /** the parsed vertices in compact column-major binary (lib/picks/codec.ts), as read: z in m, or TWT in ms */
+    vertices: bytea("vertices").notNull(),
+    /** stations, throws per horizon, missing-wall stations and the reference frames (lib/engine/cutoff-stations.ts) */
+    summary: jsonb("summary").$type<CutoffSummary>().notNull(),
+    uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (table) => [uniqueIndex("cutoff_sets_pick_set_idx").on(table.pickSetId), index("cutoff_sets_fault_idx").on(table.faultId)],
+);
+
+/** A study's stratigraphy: its units top to bottom, each with its top horizon, kind and shale fraction. */
+export const stratigraphyTables = pgTable("stratigraphy_tables", {
+  studyId: text("study_id")
+    .primaryKey()
+    .references(() => studies.id, { onDelete: "cascade" }),
+  units: jsonb("units").$type<StratigraphyUnit[]>().notNull(),
+  version: integer("version").notNull().default(1),
+  updatedBy: text("updated_by").references(() => users.id, { onDelete: "set null" }),
+  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+});
 
 export const analyses = pgTable(
   "analyses",
@@ -467,6 +527,8 @@ export type StudyRole = (typeof studyRole.enumValues)[number];
 export type Fault = typeof faults.$inferSelect;
 export type Segment = typeof segments.$inferSelect;
 export type PickSet = typeof pickSets.$inferSelect;
+export type CutoffSet = typeof cutoffSets.$inferSelect;
+export type StratigraphyTable = typeof stratigraphyTables.$inferSelect;
 export type Analysis = typeof analyses.$inferSelect;
 export type Pin = typeof pins.$inferSelect;
 export type PinReply = typeof pinReplies.$inferSelect;

@@ -1,4 +1,9 @@
 import { generateSyntheticPicks, toCsv, type SyntheticFaultOptions } from "@/lib/engine/synthetic";
+import { gaussian, mulberry32 } from "@/lib/engine/optimize";
+import { profileFunction } from "@/lib/engine/profiles";
+import { dipVectorOf, strikeVectorOf } from "@/lib/engine/plane";
+import type { StratigraphyUnit } from "@/lib/engine/juxtaposition";
+import { twtFromDepthLinear, type LinearVelocityModel } from "@/lib/engine/time-depth";
 
 /**
  * The invented Quillon Graben demo: a fictional offshore basin screened for CO2 storage.
@@ -49,7 +54,7 @@ function qg4(): SyntheticFaultOptions {
 export const DEMO_FAULTS = [
   {
     name: "QG-1",
-    description: "Graben-bounding normal fault: north and south segments overlapping across a relay ramp near the crest of the storage closure.",
+    description: "Graben-bounding normal fault: north and south segments overlapping across a relay ramp near the crest of the storage closure. Cut-off lines of four horizons, interpreted in two-way time, depth-converted with v(z) = 1800 + 0.6·z m/s.",
     fileName: "qg-1-throw-picks.csv",
     options: qg1Segments,
     seed: 1201,
@@ -74,6 +79,81 @@ export function demoCsv(name: (typeof DEMO_FAULTS)[number]["name"]) {
 
 /** The demo study's coordinate reference: WGS 84 / UTM zone 31N, z above mean sea level (MSL height). */
 export const DEMO_COORDINATE_REFERENCE = { epsg: 32631, verticalEpsg: 5714 };
+// ---- QG-1's cut-off lines, in two-way time ------------------------------------------------------------------------
+
+/** The velocity model the demo's interpreters state for the Quillon Graben: v(z) = 1800 + 0.6 z m/s (invented). */
+export const DEMO_VELOCITY: LinearVelocityModel = { kind: "linear", v0MPerS: 1800, kPerS: 0.6 };
+export const DEMO_CUTOFF_FILE = "qg-1-cutoff-lines.csv";
+
+/** The invented horizons, with the footwall depth of each at the basin centre (m) and the units below them. */
+const DEMO_HORIZONS = [
+  { name: "Top Vell Claystone", depthM: 1700 },
+  { name: "Top Quillon Sandstone", depthM: 2000 },
+  { name: "Top Harl Shale", depthM: 2090 },
+  { name: "Top Brack Sandstone", depthM: 2135 },
+] as const;
+
+/** The study's stratigraphy: a claystone seal over the Quillon Sandstone store, a thin shale, a deeper sandstone. */
+export const DEMO_STRATIGRAPHY: StratigraphyUnit[] = [
+  { name: "Vell Claystone", topHorizon: "Top Vell Claystone", kind: "seal", clayFraction: 0.65 },
+  { name: "Quillon Sandstone", topHorizon: "Top Quillon Sandstone", kind: "reservoir", clayFraction: 0.12 },
+  { name: "Harl Shale", topHorizon: "Top Harl Shale", kind: "seal", clayFraction: 0.55 },
+  { name: "Brack Sandstone", topHorizon: "Top Brack Sandstone", kind: "reservoir", clayFraction: 0.18 },
+];
+
+/**
+ * QG-1's cut-off lines from the same displacement model as its picks: on each segment's plane, the footwall cut-off
+ * of a horizon (dipping 1.5 % along strike) and the hanging-wall one moved down dip by the displacement there (found by
+ * fixed-point iteration, so the midpoint carries the model's throw); vertices every 50 m along strike where the throw
+ * is at least 10 m, written in two-way time with DEMO_VELOCITY, about 0.8 ms of picking noise. The hanging-wall cut-off
+ * of Top Harl Shale on the north segment stops 300 m short of its end (not interpretable there), so some stations
+ * have one wall only.
+ */
+export function demoCutoffCsv(): string {
+  const rand = mulberry32(1807);
+  const rows = ["x,y,twt,horizon,wall,segment"];
+  for (const segment of qg1Segments()) {
+    const strikeDeg = segment.strikeDeg!;
+    const dipDeg = segment.dipDeg!;
+    const a = segment.halfLengthM!;
+    const b = a / segment.aspectRatio!;
+    const f = profileFunction(segment.profile!);
+    const sv = strikeVectorOf(strikeDeg);
+    const dv = dipVectorOf((strikeDeg + 90) % 360, dipDeg);
+    const sinDip = Math.sin((dipDeg * Math.PI) / 180);
+    const centre = segment.centre!;
+    const displacement = (s: number, t: number) => {
+      const r = Math.hypot(s / a, t / b);
+      return r >= 1 ? 0 : segment.dmaxM! * f(r);
+    };
+    for (const horizon of DEMO_HORIZONS) {
+      const vertices: { s: number; tFw: number; tHw: number }[] = [];
+      for (let s = -a; s <= a; s += 50) {
+        const u = s + (centre[0] - BASIN_CENTRE[0]) * sv[0] + (centre[1] - BASIN_CENTRE[1]) * sv[1];
+        const zFw = -(horizon.depthM + 0.015 * u);
+        const tFw = (centre[2] - zFw) / sinDip;
+        let d = 0;
+        for (let k = 0; k < 30; k++) d = displacement(s, tFw + d / 2);
+        if (d * sinDip < 10) continue;
+        vertices.push({ s, tFw, tHw: tFw + d });
+      }
+      const shortHw = segment.segment === "north" && horizon.name === "Top Harl Shale";
+      for (const wall of ["fw", "hw"] as const) {
+        const lastS = shortHw && wall === "hw" ? vertices[vertices.length - 1].s - 300 : Infinity;
+        for (const vertex of vertices) {
+          if (vertex.s > lastS) continue;
+          const t = wall === "fw" ? vertex.tFw : vertex.tHw;
+          const x = centre[0] + vertex.s * sv[0] + t * dv[0] + gaussian(rand);
+          const y = centre[1] + vertex.s * sv[1] + t * dv[1] + gaussian(rand);
+          const z = centre[2] + t * dv[2];
+          const twtMs = twtFromDepthLinear(-z, DEMO_VELOCITY.v0MPerS, DEMO_VELOCITY.kPerS) + 0.8 * gaussian(rand);
+          rows.push(`${x.toFixed(2)},${y.toFixed(2)},${twtMs.toFixed(2)},${horizon.name},${wall},${segment.segment}`);
+        }
+      }
+    }
+  }
+  return `${rows.join("\n")}\n`;
+}
 
 export const DEMO_PASSWORD = "quillon-demo-1";
 export const DEMO_ACCOUNTS = [

@@ -5,10 +5,14 @@ import { confirmUpload } from "@/lib/analysis/uploads";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { hashPassword } from "@/lib/auth/password";
 import { createFault } from "@/lib/studies";
-import { DEMO_ACCOUNTS, DEMO_COORDINATE_REFERENCE, DEMO_FAULTS, DEMO_PASSWORD, demoCsv } from "@/lib/demo";
+import { DEMO_ACCOUNTS, DEMO_COORDINATE_REFERENCE, DEMO_CUTOFF_FILE, DEMO_FAULTS, DEMO_PASSWORD, DEMO_STRATIGRAPHY, DEMO_VELOCITY, demoCsv, demoCutoffCsv } from "@/lib/demo";
 import { checkCoordinateReference } from "@/lib/crs";
+import { saveStratigraphy } from "@/lib/seal/service";
 
-/** Seeds the Quillon Graben demo: four accounts (one per role), the study, both faults with analysed pick sets. */
+/**
+ * Seeds the Quillon Graben demo: four accounts (one per role), the study with its stratigraphy table, both faults with
+ * analysed pick sets. QG-1 first gets the pick set derived from its cut-off lines (version 1), then its denser picks.
+ */
 export async function seedDemo() {
   const db = await getDb();
   const passwordHash = await hashPassword(DEMO_PASSWORD);
@@ -31,8 +35,14 @@ export async function seedDemo() {
     .returning();
   await db.insert(memberships).values(DEMO_ACCOUNTS.map((account) => ({ studyId: study.id, userId: byEmail.get(account.email)!.id, role: account.role })));
   const access = { user: { id: interpreter.id, email: interpreter.email, name: interpreter.name }, studyId: study.id, role: "interpreter" as const };
+  await saveStratigraphy(access, { units: DEMO_STRATIGRAPHY });
   for (const demo of DEMO_FAULTS) {
     const fault = await createFault(access, { name: demo.name, description: demo.description, sense: "normal", inversion: false });
+    if (demo.name === "QG-1") {
+      const cutoffs = new TextEncoder().encode(demoCutoffCsv());
+      const derived = await confirmUpload({ ...access, faultId: fault.id }, { name: DEMO_CUTOFF_FILE, bytes: cutoffs }, { units: "m", dropBadRows: false, problemPage: 0, velocityModel: DEMO_VELOCITY });
+      await runAnalysis(derived.analysisId);
+    }
     const bytes = new TextEncoder().encode(demoCsv(demo.name));
     const { analysisId } = await confirmUpload({ ...access, faultId: fault.id }, { name: demo.fileName, bytes }, { units: "m", dropBadRows: false, problemPage: 0 });
     await runAnalysis(analysisId);

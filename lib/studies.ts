@@ -109,9 +109,11 @@ export async function updateStudy(access: StudyAccess, patch: z.infer<typeof stu
       throw new ApiError(400, error.message, { fieldErrors: { [`coordinateReference.${error.field}`]: [error.message] } });
     }
   }
+  const values = Object.fromEntries(Object.entries({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) }).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the study's name, description or coordinate reference.");
   const [updated] = await db
     .update(studies)
-    .set({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) })
+    .set(values)
     .where(eq(studies.id, access.studyId))
     .returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
@@ -246,7 +248,9 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: z
     if (problems.length) throw new ApiError(400, problems[0].message, { fieldErrors: { rakeDeg: problems.map((problem) => problem.message) } });
     patch = { ...patch, rakeDeg };
   }
-  const [updated] = await db.update(faults).set(patch).where(eq(faults.id, faultId)).returning();
+  const values = Object.fromEntries(Object.entries(patch).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the fault's name, description or type (sense, rakeDeg, inversion).");
+  const [updated] = await db.update(faults).set(values).where(eq(faults.id, faultId)).returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.update", target: updated.name, details: { ...patch, faultId } });
   // a new fault type changes how throw becomes displacement: the latest pick set is analysed again with it
   if (typeChanged) await reanalyseLatestPickSet(faultId);

@@ -92,24 +92,38 @@ const COLORS = {
   pinResolved: "#94a3b8",
 } as const;
 
+const GL_OPTIONS = { antialias: false, preserveDrawingBuffer: true };
+const PERFORMANCE = { min: 0.5 };
+
 export default function FaultScene({ display, pins, onSurfaceClick, initialCamera }: FaultSceneProps) {
   const extentM = displayExtentM(display);
+  // the same object between renders, so R3F never applies the starting camera options again
+  const cameraOptions = useMemo(
+    () => ({ fov: DEFAULT_FOV_DEG, near: extentM / 1000, far: extentM * 60, up: [0, 0, 1] as Vec3, position: [0, -extentM, extentM] as Vec3 }),
+    [extentM],
+  );
+  // the labels' own layer over the canvas: drei's Html otherwise attaches to whatever element the event system was
+  // connected to, which, when the view is switched off and on again, can still be the previous canvas's (its label lost)
+  const labelLayer = useRef<HTMLDivElement>(null);
   return (
+    <>
     <Canvas
       frameloop="demand"
       dpr={[1, 1.5]}
       flat
-      performance={{ min: 0.5 }}
-      gl={{ antialias: false, preserveDrawingBuffer: true }}
-      camera={{ fov: DEFAULT_FOV_DEG, near: extentM / 1000, far: extentM * 60, up: [0, 0, 1], position: [0, -extentM, extentM] }}
+      performance={PERFORMANCE}
+      gl={GL_OPTIONS}
+      camera={cameraOptions}
       data-testid="fault-scene-canvas"
     >
       <AdaptiveDpr pixelated />
       <SceneLights />
-      <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} />
+      <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} labelLayer={labelLayer} />
       <OrbitControlsRig display={display} initialCamera={initialCamera} />
       <FrameProbe />
     </Canvas>
+    <div ref={labelLayer} className="pointer-events-none absolute inset-0 overflow-hidden" data-scene-labels />
+    </>
   );
 }
 
@@ -122,7 +136,9 @@ function SceneLights() {
   );
 }
 
-function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "initialCamera">) {
+type LabelLayer = React.RefObject<HTMLDivElement | null>;
+
+function FaultLayers({ display, pins, onSurfaceClick, labelLayer }: Omit<FaultSceneProps, "initialCamera"> & { labelLayer: LabelLayer }) {
   const colorMode = useViewSettings((state) => state.colorMode);
   const exaggeration = useViewSettings((state) => state.exaggeration);
   const showSurface = useLayerVisible("surface");
@@ -157,8 +173,8 @@ function FaultLayers({ display, pins, onSurfaceClick }: Omit<FaultSceneProps, "i
       {showPicks && display.picks.count > 0 && <PickPoints display={display} exaggeration={exaggeration} />}
       {showPeak && <PeakMarkers display={display} exaggeration={exaggeration} />}
       {showPins && pins && pins.length > 0 && <PinMarkers display={display} pins={pins} />}
-      <SegmentLabels display={display} />
-      <DepthLabels display={display} />
+      <SegmentLabels display={display} labelLayer={labelLayer} />
+      <DepthLabels display={display} labelLayer={labelLayer} />
     </>
   );
 }
@@ -415,10 +431,11 @@ function PinMarkers({ display, pins }: { display: FaultDisplay; pins: ScenePin[]
 // ---- labels ---------------------------------------------------------------------------------------------
 
 const LABEL_Z_RANGE: [number, number] = [10, 0];
+const LABEL_STYLE = { pointerEvents: "none" } as const;
 /** room kept free at the left of a preset view for the colour legend and the depth labels beside the fault */
-const LEGEND_MARGIN_PX = 280;
+const LEGEND_MARGIN_PX = 210;
 /** room kept free at the right for the orientation marker */
-const MARKER_MARGIN_PX = 120;
+const MARKER_MARGIN_PX = 110;
 
 interface SceneLabel {
   key: string;
@@ -433,7 +450,7 @@ interface SceneLabel {
  * nearest spot where they cover no other label, peak marker or depth label: seen along strike, the segments' labels
  * would otherwise print over each other.
  */
-function SegmentLabels({ display }: { display: FaultDisplay }) {
+function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {
   const exaggeration = useViewSettings((state) => state.exaggeration);
   const showPeak = useLayerVisible("maxMarker");
   const lift = lineLiftM(display);
@@ -456,7 +473,7 @@ function SegmentLabels({ display }: { display: FaultDisplay }) {
   return (
     <>
       {labels.map((label) => (
-        <Html key={label.key} position={label.position} center zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+        <Html key={label.key} position={label.position} center zIndexRange={LABEL_Z_RANGE} style={LABEL_STYLE} portal={labelLayer as React.RefObject<HTMLElement>}>
           <div
             ref={(element) => {
               if (element) elements.current.set(label.key, element);
@@ -552,12 +569,12 @@ function planePointLocal(segment: DisplaySegment, s: number, t: number, h: numbe
   }
 }
 
-function DepthLabels({ display }: { display: FaultDisplay }) {
+function DepthLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {
   const labels = useMemo(() => depthLabels(display, display.origin[2]), [display]);
   return (
     <>
       {labels.map(({ position, depthM }) => (
-        <Html key={depthM} position={position} zIndexRange={LABEL_Z_RANGE} style={{ pointerEvents: "none" }}>
+        <Html key={depthM} position={position} zIndexRange={LABEL_Z_RANGE} style={LABEL_STYLE} portal={labelLayer as React.RefObject<HTMLElement>}>
           <div className="-translate-x-full -translate-y-1/2">
           <div data-scene-label="depth" className="flex items-center gap-1 whitespace-nowrap rounded bg-white/60 px-0.5 font-mono text-[10px] text-slate-600 dark:bg-slate-900/60 dark:text-slate-300">
             {formatMetres(depthM)} depth
@@ -581,6 +598,8 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
   const request = useCameraStore((state) => state.request);
   const handledRequest = useRef<number | null>(null);
   const initialised = useRef(false);
+  /** the view is still the automatic opening one: nobody has moved it, asked for a preset or restored a viewpoint */
+  const autoFramed = useRef(false);
   const [ox, oy, oz] = display.origin;
 
   const publishScale = useCallback(() => {
@@ -629,22 +648,29 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
         points: framingPoints(display, exaggeration),
         aspect: heightPx > 0 ? widthPx / heightPx : undefined,
         // the colour legend takes the left edge of the view and the orientation marker the right: the fault is framed between
-        leftInset: widthPx > 0 ? LEGEND_MARGIN_PX / widthPx : 0,
-        rightInset: widthPx > 0 ? MARKER_MARGIN_PX / widthPx : 0,
+        leftInset: widthPx > 2 * (LEGEND_MARGIN_PX + MARKER_MARGIN_PX) ? LEGEND_MARGIN_PX / widthPx : 0,
+        rightInset: widthPx > 2 * (LEGEND_MARGIN_PX + MARKER_MARGIN_PX) ? MARKER_MARGIN_PX / widthPx : 0,
       }),
     [display, exaggeration, heightPx, widthPx],
   );
 
   useEffect(() => {
-    if (!controls || initialised.current) return;
-    initialised.current = true;
-    handledRequest.current = useCameraStore.getState().request?.id ?? null;
-    applyCamera(initialCamera ?? presetFor("overview"));
+    if (!controls) return;
+    if (!initialised.current) {
+      initialised.current = true;
+      handledRequest.current = useCameraStore.getState().request?.id ?? null;
+      autoFramed.current = !initialCamera;
+      applyCamera(initialCamera ?? presetFor("overview"));
+    } else if (autoFramed.current) {
+      // the canvas settled on another size (or the relief changed) before anyone moved the view: frame the fault again
+      applyCamera(presetFor("overview"));
+    }
   }, [controls, applyCamera, initialCamera, presetFor]);
 
   useEffect(() => {
     if (!controls || !request || request.id === handledRequest.current) return;
     handledRequest.current = request.id;
+    autoFramed.current = false;
     applyCamera(request.kind === "state" ? request.state : presetFor(request.preset));
   }, [controls, request, applyCamera, presetFor]);
 
@@ -667,6 +693,7 @@ function OrbitControlsRig({ display, initialCamera }: { display: FaultDisplay; i
       zoomToCursor
       onStart={() => {
         cameraDragging = true;
+        autoFramed.current = false;
       }}
       onEnd={() => {
         cameraDragging = false;

@@ -18,6 +18,10 @@ export interface ScalarField {
   range: [number, number];
   /** reverse the colour scale so that "worse" reads warm (e.g. low pressure-to-failure) */
   reversed?: boolean;
+  /** a value marked on the legend as a guide (e.g. a published threshold) */
+  guide?: { value: number; label: string };
+  /** what a reader must know beside this colouring (its source, its caution), shown under the view */
+  note?: string;
 }
 
 export interface MeshArrays {
@@ -136,6 +140,10 @@ export function displayExtentM(display: FaultDisplay): number {
 
 // ---- surface ---------------------------------------------------------------------------------------------
 
+/** the colour of surface nodes where a colour field has no value (#b8bec6), linear RGB */
+export const NO_VALUE_COLOUR = "#b8bec6";
+const NO_VALUE_LINEAR = Float32Array.from(parseCssColor(NO_VALUE_COLOUR), srgbToLinear);
+
 export interface SurfaceOptions {
   colorMode: ColorMode;
   /** relief off the plane per metre of displacement (0 = flat on the plane) */
@@ -169,6 +177,11 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
       const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
       planePoint(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
       const value = colorValues[node];
+      if (options.fieldValues && Number.isNaN(value)) {
+        // a field with no value where the surface has one (e.g. SGR outside the described column): neutral grey
+        colors.set(NO_VALUE_LINEAR, node * 3);
+        continue;
+      }
       const fraction = (value - low) / span;
       const entry = Number.isNaN(value) ? 0 : lutIndex(options.reversed ? 1 - fraction : fraction) * 3;
       colors[node * 3] = lut[entry];

@@ -8,8 +8,12 @@ import { isMainThread, workerData } from "node:worker_threads";
 import { serveTipLineFits, threadedTipLineFitter } from "../lib/analysis/tipline-thread";
 import { analyzeCsv, type PipelineResult } from "../lib/engine/pipeline";
 import { PickInputError } from "../lib/engine/csv";
+import { isCutoffCsv, verticalColumnOf } from "../lib/engine/cutoffs";
+import { analyzeCutoffCsv, cutoffReport, depthConversionReport } from "../lib/engine/cutoff-pipeline";
+import type { CutoffSummary } from "../lib/engine/cutoff-stations";
+import { DEPTH_CONVERSION_CAUTION, describeVelocityModel, parseVelocityText, type VelocityModel } from "../lib/engine/time-depth";
 import { formatAzimuth } from "../lib/engine/plane";
-import type { AnalysisReport, FaultKinematics, FaultSense, ProfileModel, TipEndSide } from "../lib/engine/types";
+import type { AnalysisReport, FaultKinematics, FaultSense, PickColumns, ProfileModel, TipEndSide } from "../lib/engine/types";
 import type { CoordinateReference } from "../lib/crs";
 import { kinematicsProblems } from "../lib/engine/kinematics";
 import { parseCrsText, type CoordinateReferenceInput } from "../lib/crs-text";
@@ -38,11 +42,22 @@ const USAGE = `usage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [opti
   --profile P          tip-line profile: auto (default) or one of ${AUTOMATIC_CANDIDATES.join(", ")}
   --end SIDE=STATUS    an end's status, open or inferred (SIDE: strike-start, strike-end, up-dip, down-dip); repeatable
   --sense S            the fault's type: normal (default), reverse or oblique (reverse: hanging wall up)
-  --rake DEG           rake of an oblique fault's slip from the strike (negative normal-oblique, positive reverse-
-                       oblique; at least 20° from strike-slip); a rake column in the file overrides it per pick
+  --rake DEG           with --sense oblique: the fault's rake from the strike (negative normal-oblique, positive
+                       reverse-oblique; at least 20° from strike-slip; a rake column overrides it per pick), whose
+                       magnitude also pairs a cut-off file's walls; without it: a cut-off file's pairing rake (below)
   --inversion          negative throw is expected (the fault was inverted): kept as offset of the opposite sense
   --drop-bad-rows      analyse the good rows of a file that has bad ones (default: refuse the file)
+  --velocity MODEL     velocity model for a file in two-way time (twt column, ms): "v0=1800,k=0.6" for
+                       v(z) = v0 + k·z (v0 in m/s, k in 1/s), or interval velocities by horizon, shallow to deep,
+                       "H1=2000,H2=2400" (m/s above each horizon)
+  --spacing M          cut-off files: station spacing along strike in metres (default: from the vertex spacing)
+  --rake DEG           cut-off files: rake of the slip in the fault plane, from strike, 0-180 (default 90, dip slip)
+  --order-along-strike cut-off files: order each line's vertices along strike instead of taking the file's order
   -h, --help           this text
+
+A file with a "wall" column is a cut-off line file (x, y, z or depth or twt, horizon, wall hw/fw, optional line and
+segment): its hanging-wall and footwall cut-offs are paired at stations along strike into throw picks, which are then
+analysed; the JSON adds "cutoffs" (per horizon: stations, maxThrowM, meanThrowM; missingStations).
 
 Several files (or a glob) are analysed one after another; json and geojson then write one object per line with the
 file's name, csv adds a leading file column. Exit status: 0 done, 2 a file could not be used or bad options, 1 failure.`;
@@ -59,12 +74,18 @@ interface Options {
   kinematics: FaultKinematics;
   crs?: CoordinateReferenceInput;
   dropBadRows: boolean;
+  velocity?: VelocityModel;
+  stationSpacingM?: number;
+  rakeDeg?: number;
+  orderAlongStrike: boolean;
+  /** --sense was given (a cut-off file's sense is otherwise the commoner one among its stations) */
+  senseGiven: boolean;
   help: boolean;
 }
 
 export function parseArgs(argv: string[]): Options {
   const args = argv[0] === "analyze" ? argv.slice(1) : argv;
-  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, kinematics: { sense: "normal" }, dropBadRows: false, help: false };
+  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, kinematics: { sense: "normal" }, dropBadRows: false, orderAlongStrike: false, senseGiven: false, help: false };
   let formatGiven: string | null = null;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -89,6 +110,21 @@ export function parseArgs(argv: string[]): Options {
     else if (a === "--format") setFormat(a, value());
     else if (a.startsWith("--format=")) setFormat("--format", a.slice("--format=".length));
     else if (a === "--drop-bad-rows") out.dropBadRows = true;
+    else if (a === "--order-along-strike") out.orderAlongStrike = true;
+    else if (a === "--velocity") {
+      const v = value();
+      try {
+        out.velocity = parseVelocityText(v);
+      } catch (e) {
+        throw new UsageError(`--velocity: ${(e as Error).message}`);
+      }
+    } else if (a === "--spacing") out.stationSpacingM = positive("--spacing", value());
+    else if (a === "--rake") {
+      const v = value();
+      const rake = Number(v);
+      if (!Number.isFinite(rake)) throw new UsageError(`--rake must be a number of degrees, got "${v}"`);
+      out.rakeDeg = rake;
+    }
     else if (a === "-h" || a === "--help") out.help = true;
     else if (a === "--units") {
       const v = value();
@@ -110,10 +146,7 @@ export function parseArgs(argv: string[]): Options {
       const v = value();
       if (v !== "normal" && v !== "reverse" && v !== "oblique") throw new UsageError(`--sense must be normal, reverse or oblique, got "${v}"`);
       out.kinematics.sense = v as FaultSense;
-    } else if (a === "--rake") {
-      const v = Number(value());
-      if (!Number.isFinite(v)) throw new UsageError(`--rake must be a number of degrees, got "${args[i]}"`);
-      out.kinematics.rakeDeg = v;
+      out.senseGiven = true;
     } else if (a === "--inversion") out.kinematics.inversion = true;
     else if (a === "--crs") {
       const v = value();
@@ -124,12 +157,30 @@ export function parseArgs(argv: string[]): Options {
     else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
     else out.inputs.push(a);
   }
-  if (out.kinematics.rakeDeg !== undefined && out.kinematics.sense !== "oblique") throw new UsageError("--rake is for an oblique fault: add --sense oblique (normal is −90°, reverse +90°)");
+  // --rake: an oblique fault's rake (Aki & Richards 1980, signed), else a cut-off file's pairing rake (0–180°, 90 dip slip)
+  if (out.kinematics.sense === "oblique") {
+    if (out.rakeDeg !== undefined) out.kinematics.rakeDeg = out.rakeDeg;
+  } else if (out.rakeDeg !== undefined && !(out.rakeDeg > 0 && out.rakeDeg < 180)) {
+    throw new UsageError(`--rake without --sense oblique is a cut-off file's pairing rake, between 0 and 180 degrees (90 is dip slip), got "${out.rakeDeg}"; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)`);
+  }
   const typeProblems = kinematicsProblems(out.kinematics);
   if (typeProblems.length) throw new UsageError(typeProblems.map((problem) => problem.replace(/^rake: /, "--rake: ")).join("; "));
   if (!out.help && out.inputs.length === 0) throw new UsageError("name a pick CSV to analyse (or - for standard input)");
   if (out.inputs.filter((input) => input === "-").length > 1) throw new UsageError("standard input (-) can be read only once");
   return out;
+}
+
+/** A cut-off file's pairing rake: an oblique fault's own rake (its magnitude: the slip line's angle from the strike), else --rake. */
+function cutoffRakeOf(options: Options): number | undefined {
+  if (options.kinematics.sense === "oblique") return options.kinematics.rakeDeg !== undefined ? Math.abs(options.kinematics.rakeDeg) : undefined;
+  return options.rakeDeg;
+}
+
+/** A cut-off file's sense when --sense says it: reverse for reverse faults and reverse-oblique ones (positive rake). */
+function cutoffSenseOf(options: Options): "normal" | "reverse" | undefined {
+  if (!options.senseGiven) return undefined;
+  const { sense, rakeDeg } = options.kinematics;
+  return sense === "reverse" || (sense === "oblique" && (rakeDeg ?? -90) > 0) ? "reverse" : "normal";
 }
 
 /** A pattern's files, sorted: `*` and `?` in the last path part (for shells that pass globs through, and quoted globs). */
@@ -167,10 +218,25 @@ function inputList(inputs: string[]): string[] {
 
 const f = (v: number, digits = 1) => (Number.isFinite(v) ? v.toFixed(digits) : "n/a");
 
-function readable(report: AnalysisReport): string {
+interface Extras {
+  cutoffs?: CutoffSummary;
+  velocity?: VelocityModel;
+}
+
+function readable(report: AnalysisReport, extras: Extras = {}): string {
   const lines: string[] = [];
   lines.push(`Slipfield analysis (engine ${report.engineVersion})`);
-  lines.push(`Input: ${report.input.rows} rows, ${report.input.accepted} picks accepted, ${report.input.rejected.length} rejected (units ${report.input.units}).`);
+  const derived = extras.cutoffs ? `${report.input.accepted} throw picks derived from cut-off lines` : `${report.input.accepted} picks accepted`;
+  lines.push(`Input: ${report.input.rows} rows, ${derived}, ${report.input.rejected.length} rejected (units ${report.input.units}).`);
+  if (extras.velocity) {
+    lines.push(`Depth-converted from two-way time with ${describeVelocityModel(extras.velocity)}.`);
+    lines.push(`Caution: ${DEPTH_CONVERSION_CAUTION}`);
+  }
+  if (extras.cutoffs) {
+    const c = extras.cutoffs;
+    lines.push(`Cut-offs: stations every ${c.stationSpacingM} m along strike (${c.stationSpacingSource === "set" ? "set" : "from the vertex spacing"}), rake ${c.rakeDeg}°${c.rakeDeg === 90 ? " (dip slip)" : ""}; ${c.missingStations} station${c.missingStations === 1 ? "" : "s"} with one wall only (reported, not filled in).`);
+    for (const h of c.horizons) lines.push(`  ${h.name}: ${h.stations} stations, throw max ${f(h.maxThrowM)} m, mean ${f(h.meanThrowM)} m${h.missingStations ? `, ${h.missingStations} with one wall only` : ""}`);
+  }
   for (const r of report.input.rejected.slice(0, 20)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
   for (const s of report.segments) {
     const tl = s.tipLine;
@@ -219,10 +285,16 @@ const faultNameOf = (input: string) => (input === "-" ? "stdin" : path.basename(
  * One input's output in the chosen format. Several inputs: json and geojson carry the file's name, csv gets a file
  * column and its header only before the first file's rows.
  */
-function render(result: PipelineResult, input: string, format: Exclude<Format, "gltf">, several: boolean, first: boolean, reference: CoordinateReference | null): string {
+function render(result: PipelineResult, input: string, format: Exclude<Format, "gltf">, several: boolean, first: boolean, reference: CoordinateReference | null, extras: Extras = {}): string {
   switch (format) {
-    case "json":
-      return JSON.stringify(several ? { file: input, ...result.report } : result.report);
+    case "json": {
+      const report = {
+        ...result.report,
+        ...(extras.velocity ? { depthConversion: depthConversionReport(extras.velocity) } : {}),
+        ...(extras.cutoffs ? { cutoffs: cutoffReport(extras.cutoffs) } : {}),
+      };
+      return JSON.stringify(several ? { file: input, ...report } : report);
+    }
     case "geojson": {
       const collection = faultGeoJson(faultNameOf(input), result.report, reference);
       return JSON.stringify(several ? { ...collection, file: input } : collection);
@@ -232,7 +304,7 @@ function render(result: PipelineResult, input: string, format: Exclude<Format, "
       return several ? withFileColumn(gridCsv(result, first ? comments : []), input, first) : gridCsv(result, comments).trimEnd();
     }
     case "text":
-      return several ? `== ${input}\n${readable(result.report)}\n` : readable(result.report);
+      return several ? `== ${input}\n${readable(result.report, extras)}\n` : readable(result.report, extras);
   }
 }
 
@@ -330,14 +402,26 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const result = analyzeCsv(text, { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, kinematics: options.kinematics, dropBadRows: options.dropBadRows, tipLineFitter: helper?.fitter });
+        const settings = { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, kinematics: options.kinematics, dropBadRows: options.dropBadRows, velocityModel: options.velocity, tipLineFitter: helper?.fitter };
+        const inTime = verticalColumnOf(text) === "twt";
+        const extras: Extras = { velocity: inTime ? options.velocity : undefined };
+        let result: PipelineResult & { picks: PickColumns };
+        if (isCutoffCsv(text)) {
+          const analysed = analyzeCutoffCsv(text, { ...settings, stationSpacingM: options.stationSpacingM, rakeDeg: cutoffRakeOf(options), sense: cutoffSenseOf(options), orderAlongStrike: options.orderAlongStrike });
+          result = analysed;
+          extras.cutoffs = analysed.cutoffs;
+        } else if (options.rakeDeg !== undefined && options.kinematics.sense !== "oblique") {
+          process.stderr.write(`analyze: ${input}: --rake without --sense oblique is a cut-off file's pairing rake, and this is a pick file; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)\n`);
+          status = 2;
+          continue;
+        } else result = analyzeCsv(text, settings);
         if (options.format === "gltf") {
           const [{ buildFaultDisplay }, { faultGltf }] = await Promise.all([import("../lib/analysis/display"), import("../lib/views/gltf")]);
           // the full-resolution grid (at most 512 nodes a side), as the grid CSV has it
           const display = buildFaultDisplay({ ...result, maxCells: 512, maxPicks: 0 });
           writeBytes(faultGltf(display, { faultName: faultNameOf(input), coordinateReference: reference, originLongitudeLatitude: reference ? longitudeLatitude(display.origin[0], display.origin[1]) : null }));
           written++;
-        } else write(render(result, input, options.format, several, written++ === 0, reference));
+        } else write(render(result, input, options.format, several, written++ === 0, reference, extras));
       } catch (e) {
         if (!(e instanceof PickInputError)) throw e;
         process.stderr.write(`${problemText(input, e)}\n`);

@@ -5,6 +5,15 @@ import { listOutbox, mailStaysLocal, outboxEnabled, ownsAnyStudy } from "@/lib/o
 
 export const metadata: Metadata = { title: "Outbox" };
 
+/** what each kind of e-mail is, in words */
+const KIND_WORDS: Record<string, string> = {
+  invitation: "invitation",
+  "pin-reply": "reply to a note",
+  mention: "mention",
+  "pin-resolved": "note resolved",
+  digest: "digest",
+};
+
 /** The local mailbox: e-mail the app has written (kept here, and sent only when SMTP_URL is set), for study owners: their studies' e-mail and their own. */
 export default async function OutboxPage() {
   if (!outboxEnabled()) notFound();
@@ -35,7 +44,7 @@ export default async function OutboxPage() {
               </div>
               <p className="mt-1 text-sm text-slate-600 dark:text-slate-400">
                 To <span className="font-medium text-slate-800 dark:text-slate-200" data-testid="outbox-to">{message.to}</span>
-                <span className="ml-2 rounded bg-slate-100 px-1.5 py-0.5 text-xs dark:bg-slate-800">{message.kind}</span>
+                <span className="ml-2 rounded bg-slate-100 px-1.5 py-0.5 text-xs dark:bg-slate-800">{KIND_WORDS[message.kind] ?? "e-mail"}</span>
               </p>
               <pre className="mt-3 max-h-72 overflow-auto whitespace-pre-wrap rounded-lg bg-slate-50 p-3 font-mono text-xs text-slate-800 dark:bg-slate-950 dark:text-slate-200" data-testid="outbox-body">
                 {message.text}

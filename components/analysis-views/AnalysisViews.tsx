@@ -9,14 +9,16 @@ import { ExportView } from "./ExportView";
 import { RelayView } from "./RelayView";
 import { ScalingView } from "./ScalingView";
 import { StrikeProfileView } from "./StrikeProfileView";
+import { JuxtapositionView } from "@/components/seal/JuxtapositionView";
 
-type Tab = "strike" | "dip" | "scaling" | "relays" | "export";
+type Tab = "strike" | "juxtaposition" | "dip" | "scaling" | "relays" | "export";
 
-export function AnalysisViews({ studyId, faultId, faultName, report, display, analysisId }: { studyId: string; faultId: string; faultName: string; report: AnalysisReport; display: FaultDisplay | null; analysisId: string }) {
+export function AnalysisViews({ studyId, faultId, faultName, report, display, analysisId, pickSetId, canEdit }: { studyId: string; faultId: string; faultName: string; report: AnalysisReport; display: FaultDisplay | null; analysisId: string; pickSetId: string; canEdit: boolean }) {
   const [tab, setTab] = useState<Tab>("strike");
   const stem = fileStem(faultName);
   const tabs: [Tab, string][] = [
     ["strike", "Strike profile"],
+    ["juxtaposition", "Juxtaposition"],
     ["dip", "Down-dip & growth"],
     ["scaling", "Scaling (D–L)"],
     ...(report.segments.length >= 2 ? ([["relays", "Relays"]] as [Tab, string][]) : []),
@@ -36,6 +38,7 @@ export function AnalysisViews({ studyId, faultId, faultName, report, display, an
       <div className="p-4" role="tabpanel">
         {needsDisplay && !display && <p className="text-sm text-slate-500">Loading the displacement grids…</p>}
         {tab === "strike" && display && <StrikeProfileView report={report} display={display} stem={stem} />}
+        {tab === "juxtaposition" && <JuxtapositionView studyId={studyId} faultId={faultId} pickSetId={pickSetId} stem={stem} canEdit={canEdit} />}
         {tab === "dip" && display && <DipGrowthView faultId={faultId} report={report} display={display} stem={stem} />}
         {tab === "scaling" && <ScalingView faultId={faultId} stem={stem} />}
         {tab === "relays" && display && <RelayView faultId={faultId} report={report} display={display} stem={stem} />}

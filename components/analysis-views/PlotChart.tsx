@@ -1,6 +1,6 @@
 "use client";
 import { usePlotFigure } from "./usePlotFigure";
-import { downloadDataUrl, downloadText, mainSvg, svgToPngDataUrl } from "./download";
+import { downloadDataUrl, downloadText, figurePngDataUrl } from "./download";
 
 /**
  * One Observable Plot chart: built in an effect into a div, replaced (and the old one removed) whenever its inputs
@@ -20,11 +20,11 @@ export function PlotChart(props: {
 }) {
   const { holder, error } = usePlotFigure(props.build, props.deps, { onRendered: props.onRendered });
 
+  // the PNG stands alone: the chart's title and legends go with it
   async function png() {
-    const svg = holder.current && mainSvg(holder.current);
-    if (!svg) return;
-    const dark = document.documentElement.classList.contains("dark");
-    downloadDataUrl(await svgToPngDataUrl(svg, 2, dark ? "#0f172a" : "#ffffff"), `${props.fileStem}.png`);
+    if (!holder.current) return;
+    const url = await figurePngDataUrl(holder.current, props.title, document.documentElement.classList.contains("dark"));
+    if (url) downloadDataUrl(url, `${props.fileStem}.png`);
   }
 
   return (

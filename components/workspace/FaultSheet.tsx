@@ -2,6 +2,8 @@
 import type { AnalysisReport, SegmentResult } from "@/lib/engine/types";
 import { LINKAGE_BASIS } from "@/lib/engine/relays";
 import { CautionNote } from "./CautionNote";
+import type { PickSetProvenance } from "@/db/schema";
+import { describeVelocityModel, DEPTH_CONVERSION_CAUTION, type VelocityModel } from "@/lib/engine/time-depth";
 import { azimuth, degrees, endsSentence, metres, metresWithRange, MODEL_NAMES, plain, ratio } from "./format";
 
 function Row({ label, value, testId }: { label: string; value: string; testId?: string }) {
@@ -72,7 +74,29 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
   );
 }
 
-export function FaultSheet({ report }: { report: AnalysisReport }) {
+/** Where the picks came from when they were not picked in depth: the cut-off file, the velocity model, the caution. */
+function InputProvenance({ velocityModel, derivedFrom }: { velocityModel: VelocityModel | null; derivedFrom: PickSetProvenance | null }) {
+  if (!velocityModel && !derivedFrom) return null;
+  return (
+    <section className="space-y-1.5 rounded-lg bg-slate-50 p-3 text-xs leading-relaxed text-slate-600 dark:bg-slate-950 dark:text-slate-300" data-testid="sheet-input">
+      {derivedFrom && (
+        <p data-testid="sheet-derived">
+          <span className="font-medium text-slate-800 dark:text-slate-100">Picks derived from cut-off lines:</span> {derivedFrom.fileName} (checksum {derivedFrom.checksum.slice(0, 12)}…), hanging-wall and footwall cut-offs paired every {metres(derivedFrom.stationSpacingM, 0)} along strike ({derivedFrom.stationSpacingSource === "set" ? "spacing set at upload" : "spacing from the vertex spacing"}); throw is their vertical separation, heave their horizontal one{derivedFrom.rakeDeg === 90 ? ", displacement along the dip (dip slip assumed)" : `, displacement along a rake of ${derivedFrom.rakeDeg}°`}.
+        </p>
+      )}
+      {velocityModel && (
+        <>
+          <p data-testid="sheet-velocity">
+            <span className="font-medium text-slate-800 dark:text-slate-100">Depth-converted from two-way time</span> with {describeVelocityModel(velocityModel)}. Every length here is in depth; nothing was measured in time.
+          </p>
+          <p className="text-amber-800 dark:text-amber-200" data-testid="sheet-depth-caution">{DEPTH_CONVERSION_CAUTION}</p>
+        </>
+      )}
+    </section>
+  );
+}
+
+export function FaultSheet({ report, velocityModel = null, derivedFrom = null }: { report: AnalysisReport; velocityModel?: VelocityModel | null; derivedFrom?: PickSetProvenance | null }) {
   return (
     <div className="space-y-5">
       {report.kinematics && (
@@ -80,6 +104,7 @@ export function FaultSheet({ report }: { report: AnalysisReport }) {
           <span className="font-medium text-slate-800 dark:text-slate-100">Sense:</span> {report.kinematics.note}
         </p>
       )}
+      <InputProvenance velocityModel={velocityModel} derivedFrom={derivedFrom} />
       {report.segments.map((segment, index) => (
         <SegmentSheet key={segment.id} segment={segment} first={index === 0} />
       ))}

@@ -1,11 +1,44 @@
 "use client";
 // The flat contour map in fault-plane coordinates: the fallback when WebGL is missing, and a view of its own.
 import { useMemo } from "react";
-import type { FaultDisplay } from "@/lib/analysis/display";
-import { buildContourMap } from "@/scene/map2d";
-import { frameCoordinates, niceTicks, surfaceInterpolator } from "@/scene/geometry";
+import type { DisplaySegment, FaultDisplay } from "@/lib/analysis/display";
+import { buildContourMap, toReferenceFrame } from "@/scene/map2d";
+import { frameCoordinates, legendTicks, niceTicks, parseCssColor, surfaceInterpolator, type ScalarField } from "@/scene/geometry";
 import type { ScenePin } from "@/scene/FaultScene";
-import { metres } from "./format";
+import { useViewSettings } from "@/scene/viewSettingsStore";
+import { inSentence, metres } from "./format";
+
+/**
+ * A colour field (e.g. shale gouge ratio) of one segment as an image of one pixel per display-grid node, with the
+ * matrix that puts pixel (i, j) at node (i, j) in the map's frame: the segment's plane coordinates map affinely onto
+ * the reference segment's. Transparent where the field has no value.
+ */
+function fieldRaster(segment: DisplaySegment, field: ScalarField, reference: DisplaySegment["frame"]): { href: string; matrix: string; columns: number; rows: number } | null {
+  const values = field.bySegment[segment.id];
+  const { grid } = segment;
+  if (!values || typeof document === "undefined") return null;
+  const canvas = document.createElement("canvas");
+  canvas.width = grid.columns;
+  canvas.height = grid.rows;
+  const context = canvas.getContext("2d");
+  if (!context) return null;
+  const image = context.createImageData(grid.columns, grid.rows);
+  const [low, high] = field.range;
+  const span = high - low || 1;
+  for (let node = 0; node < values.length; node++) {
+    const value = values[node];
+    if (!Number.isFinite(value)) continue;
+    const fraction = Math.min(1, Math.max(0, (value - low) / span));
+    const [r, g, b] = parseCssColor(surfaceInterpolator(field.reversed ? 1 - fraction : fraction));
+    image.data.set([r, g, b, 235], node * 4);
+  }
+  context.putImageData(image, 0, 0);
+  const project = (s: number, t: number) => toReferenceFrame(segment.frame, reference, s, t);
+  const [ox, oy] = project(grid.s0, grid.t0);
+  const [sx, sy] = project(grid.s0 + grid.cellM, grid.t0);
+  const [tx, ty] = project(grid.s0, grid.t0 + grid.cellM);
+  return { href: canvas.toDataURL("image/png"), matrix: `matrix(${sx - ox} ${sy - oy} ${tx - ox} ${ty - oy} ${ox} ${oy})`, columns: grid.columns, rows: grid.rows };
+}
 
 const WIDTH = 900;
 const MARGIN = { left: 64, right: 20, top: 24, bottom: 48 };
@@ -13,6 +46,8 @@ const MARGIN = { left: 64, right: 20, top: 24, bottom: 48 };
 export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisplay; reason?: string; pins?: ScenePin[] }) {
   const map = useMemo(() => buildContourMap(display), [display]);
   const reference = display.segments[0].frame;
+  const field = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode));
+  const rasters = useMemo(() => (field ? display.segments.map((segment) => ({ id: segment.id, raster: fieldRaster(segment, field, reference) })) : []), [display, field, reference]);
   const pinPoints = pins.map((pin) => {
     const [s, t] = frameCoordinates(reference, pin.x - display.origin[0], pin.y - display.origin[1], pin.z - display.origin[2]);
     return { ...pin, s, t };
@@ -56,11 +91,16 @@ export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisp
         <text x={MARGIN.left + plotWidth / 2} y={height - 8} textAnchor="middle" fontSize={12} fill="currentColor">along strike s (m)</text>
         <text transform={`translate(16 ${MARGIN.top + plotHeight / 2}) rotate(-90)`} textAnchor="middle" fontSize={12} fill="currentColor">down dip t (m)</text>
         <g transform={transform} fill="none" strokeLinejoin="round">
+          {rasters.map(({ id, raster }) =>
+            raster ? (
+              <image key={`field-${id}`} href={raster.href} x={-0.5} y={-0.5} width={raster.columns} height={raster.rows} preserveAspectRatio="none" transform={raster.matrix} style={{ imageRendering: "pixelated" }} data-testid="map-field" />
+            ) : null,
+          )}
           {map.mappedLimits.map((path) => (
             <path key={`limit-${path.segmentId}`} d={path.d} stroke="#334155" strokeWidth={1.5} strokeDasharray="6 4" vectorEffect="non-scaling-stroke" data-testid="map-mapped-limit" />
           ))}
           {map.contours.map((contour, index) => (
-            <path key={index} d={contour.d} stroke={colourFor(contour.levelM)} strokeWidth={1.6} vectorEffect="non-scaling-stroke" data-testid="map-contour">
+            <path key={index} d={contour.d} stroke={field ? "#1e293b" : colourFor(contour.levelM)} strokeWidth={field ? 1 : 1.6} vectorEffect="non-scaling-stroke" data-testid="map-contour">
               <title>{`Segment ${contour.segmentId}: ${metres(contour.levelM)} displacement`}</title>
             </path>
           ))}
@@ -94,6 +134,10 @@ export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisp
         ))}
       </svg>
       <figcaption className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1 text-xs text-slate-600 dark:text-slate-300">
+        {field && <FieldScale field={field} />}
+        {field ? (
+          <span>Displacement contours: dark lines at {levels.join(", ")} m</span>
+        ) : (
         <span className="flex items-center gap-1">
           Contours:
           {levels.map((level) => (
@@ -104,10 +148,32 @@ export function FaultView2D({ display, reason, pins = [] }: { display: FaultDisp
           ))}
           <span>m</span>
         </span>
+        )}
         <span className="flex items-center gap-1"><span className="inline-block h-1 w-5 rounded bg-tip-500" /> inferred tip line</span>
         <span className="flex items-center gap-1"><span className="inline-block w-5 border-t-2 border-dashed border-slate-700 dark:border-slate-300" /> mapped limit</span>
         <span>Fault-plane coordinates of segment {display.segments[0].id}; 1:1 in metres.</span>
       </figcaption>
     </figure>
+  );
+}
+
+/** The colour scale of a field drawn on the map, with its guide value marked. */
+function FieldScale({ field }: { field: ScalarField }) {
+  const [low, high] = field.range;
+  const stops = Array.from({ length: 11 }, (_, i) => `${surfaceInterpolator(field.reversed ? 1 - i / 10 : i / 10)} ${i * 10}%`).join(", ");
+  const position = (value: number) => `${(100 * (value - low)) / (high - low || 1)}%`;
+  return (
+    <span className="flex basis-full items-center gap-2 pb-3" data-testid="map-field-scale">
+      <span>{inSentence(field.label)} ({field.unit}):</span>
+      <span className="num">{low}</span>
+      <span className="relative inline-block h-2.5 w-48 rounded-sm" style={{ background: `linear-gradient(to right, ${stops})` }}>
+        {legendTicks(low, high, 5).map((tick) => (
+          <span key={tick} className="absolute top-3 -translate-x-1/2 text-[10px]" style={{ left: position(tick) }}>{tick}</span>
+        ))}
+        {field.guide && <span className="absolute -top-1 border-l-2 border-dotted border-slate-900 dark:border-slate-100" style={{ left: position(field.guide.value), height: 18 }} title={field.guide.label} />}
+      </span>
+      <span className="num">{high}</span>
+      {field.guide && <span>dotted: {field.guide.label}</span>}
+    </span>
   );
 }

@@ -7,7 +7,7 @@ import type { FaultDisplay } from "@/lib/analysis/display";
 import type { AnalysisReport } from "@/lib/engine/types";
 import type { ScenePin, SurfaceHit } from "@/scene/FaultScene";
 import { useCameraStore, type CameraPreset, type CameraState } from "@/scene/cameraStore";
-import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
+import { legendTicks, NO_VALUE_COLOUR, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "@/scene/viewSettingsStore";
 import { FaultView2D } from "./FaultView2D";
@@ -87,7 +87,19 @@ export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, tool
           {hint && <div className="pointer-events-none absolute left-1/2 top-3 -translate-x-1/2 rounded bg-slip-700 px-3 py-1 text-xs font-medium text-white shadow" data-testid="viewer-hint">{hint}</div>}
         </div>
       )}
+      <FieldNote />
     </div>
+  );
+}
+
+/** What the active colour field needs said beside it (its source and caution), under the view. */
+function FieldNote() {
+  const note = useViewSettings((state) => state.fields.find((candidate) => candidate.key === state.colorMode)?.note);
+  if (!note) return null;
+  return (
+    <p className="border-t border-tip-400/60 bg-amber-50 px-3 py-2 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100" data-testid="field-note">
+      {note}
+    </p>
   );
 }
 
@@ -117,6 +129,16 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
           </button>
         ))}
       </div>
+      <label className="flex items-center gap-1.5">
+        <span className="text-slate-500">Colour by</span>
+        <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value)} data-testid="colour-mode">
+          <option value="displacement">displacement</option>
+          <option value="throw">throw</option>
+          {fields.map((field) => (
+            <option key={field.key} value={field.key}>{inSentence(field.label)}</option>
+          ))}
+        </select>
+      </label>
       {mode === "3d" && (
         <>
           <div className="flex flex-wrap items-center gap-1" role="group" aria-label="Camera">
@@ -126,16 +148,6 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
               </button>
             ))}
           </div>
-          <label className="flex items-center gap-1.5">
-            <span className="text-slate-500">Colour by</span>
-            <select className="field w-auto py-0.5 text-xs" value={colorMode} onChange={(event) => setColorMode(event.target.value)} data-testid="colour-mode">
-              <option value="displacement">displacement</option>
-              <option value="throw">throw</option>
-              {fields.map((field) => (
-                <option key={field.key} value={field.key}>{inSentence(field.label)}</option>
-              ))}
-            </select>
-          </label>
           <label className="flex items-center gap-1.5" title="Draw displacement as relief off the plane">
             <span className="text-slate-500">Relief ×{exaggeration.toFixed(1)}</span>
             <input type="range" min={0} max={MAX_EXAGGERATION} step={0.5} value={exaggeration} onChange={(event) => setExaggeration(Number(event.target.value))} data-testid="relief" />
@@ -183,8 +195,21 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
               — {level.toLocaleString("en", { maximumFractionDigits: 2 })}
             </span>
           ))}
+          {field?.guide && (
+            <span className="absolute -left-5 w-5 border-t-2 border-dotted border-slate-800 dark:border-slate-100" style={{ bottom: `${fraction(field.guide.value) * 100}%` }} />
+          )}
         </div>
       </div>
+      {field && (
+        <div className="mt-1 flex max-w-40 items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-no-value">
+          <span className="inline-block h-2.5 w-4 rounded-sm" style={{ background: NO_VALUE_COLOUR }} /> no value here
+        </div>
+      )}
+      {field?.guide && (
+        <div className="mt-1 flex max-w-40 items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-guide">
+          <span className="inline-block w-4 border-t-2 border-dotted border-slate-700 dark:border-slate-200" /> {field.guide.label}
+        </div>
+      )}
       {display.segments.length > 0 && <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">{contourNote(display)}</div>}
 
       <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>

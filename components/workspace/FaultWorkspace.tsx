@@ -13,6 +13,9 @@ import { PinsPanel } from "@/components/collab/PinsPanel";
 import { StressPanel } from "@/components/stress/StressPanel";
 import { StressSheetSummary } from "@/components/stress/StressSheetSummary";
 import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
+import { SealFields } from "@/components/seal/SealFields";
+import type { VelocityModel } from "@/lib/engine/time-depth";
+import type { PickSetProvenance } from "@/db/schema";
 import { FaultSheet } from "./FaultSheet";
 import { FaultViewer } from "./FaultViewer";
 import { UploadPanel } from "./UploadPanel";
@@ -32,11 +35,28 @@ interface AnalysisState {
   fileName: string;
   checksum: string;
   uploadedAt: string;
+  /** how the pick set's times were converted to depth (null for a file in depth) */
+  velocityModel: VelocityModel | null;
+  /** set when the pick set was derived from a cut-off line file */
+  derivedFrom: PickSetProvenance | null;
 }
 
-interface PickSetRow { id: string; version: number; fileName: string; rowCount: number; droppedRows: number; uploadedAt: string; units: string }
+interface PickSetRow { id: string; version: number; fileName: string; rowCount: number; droppedRows: number; uploadedAt: string; units: string; derivedFrom: PickSetProvenance | null }
 
 const STAGES = ["parse", "plane", "triangulate", "grid", "contours", "tipline", "metrics", "relays"];
+/** the analysis stages in words */
+const STAGE_WORDS: Record<string, string> = {
+  queued: "waiting to start",
+  parse: "reading the picks",
+  plane: "fitting the fault plane",
+  triangulate: "triangulating",
+  grid: "gridding",
+  contours: "contouring",
+  tipline: "inferring the tip line",
+  metrics: "measuring",
+  relays: "relays between segments",
+  done: "done",
+};
 
 type SideTab = "sheet" | "runs" | "pins" | "stress";
 
@@ -96,7 +116,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
           <h1 className="text-2xl font-semibold" data-testid="fault-title">{props.faultName}</h1>
           {current && (
             <p className="text-xs text-slate-500">
-              Pick set v{current.version} · {current.fileName} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
+              Pick set v{current.version} · {current.fileName}{current.derivedFrom ? " (derived from cut-off lines)" : ""} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
             </p>
           )}
         </div>
@@ -104,7 +124,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
           {pickSets.data && pickSets.data.pickSets.length > 1 && (
             <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => { setPickSetId(event.target.value || undefined); setRunId(undefined); setComparing(null); }} data-testid="pick-set-select">
               <option value="">Latest version</option>
-              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks)</option>)}
+              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks{set.derivedFrom ? " from cut-offs" : ""})</option>)}
             </select>
           )}
           {canEdit && current && (
@@ -124,14 +144,14 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       {current && (current.status === "queued" || current.status === "running") && (
         <div className="card mb-4 p-4" data-testid="analysis-progress">
           <div className="mb-2 flex justify-between text-sm">
-            <span>Analysing pick set v{current.version}: <span className="font-medium">{current.stage}</span></span>
+            <span>Analysing pick set v{current.version}: <span className="font-medium">{STAGE_WORDS[current.stage] ?? "working"}</span></span>
             <span className="num text-slate-500">{Math.round(current.progress * 100)}%</span>
           </div>
           <div className="h-2 overflow-hidden rounded bg-slate-200 dark:bg-slate-800">
             <div className="h-full bg-slip-500 transition-all" style={{ width: `${Math.max(3, current.progress * 100)}%` }} />
           </div>
           <ol className="mt-2 flex flex-wrap gap-2 text-xs text-slate-500">
-            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{stage}</li>)}
+            {STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{STAGE_WORDS[stage]}</li>)}
           </ol>
         </div>
       )}
@@ -157,6 +177,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       {comparing && <RunComparison faultId={faultId} ids={comparing} onClose={() => setComparing(null)} />}
       {report && (
         <>
+          <SealFields studyId={props.studyId} faultId={faultId} pickSetId={current!.pickSetId} display={display.data ?? null} />
           <div className="grid items-start gap-4 xl:grid-cols-[1fr_400px]">
             <div className="card overflow-hidden" data-testid="viewer-card">
               {display.data ? (
@@ -182,7 +203,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
                 ))}
               </div>
               <div className="p-4" data-testid="fault-sheet" hidden={sideTab !== "sheet"}>
-                <FaultSheet report={report} />
+                <FaultSheet report={report} velocityModel={current!.velocityModel ?? null} derivedFrom={current!.derivedFrom ?? null} />
                 <StressSheetSummary faultId={faultId} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "runs"}>
@@ -207,7 +228,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             </aside>
           </div>
           <section className="mt-4" data-testid="analysis-views">
-            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} />
+            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} pickSetId={current!.pickSetId} canEdit={canEdit} />
           </section>
         </>
       )}

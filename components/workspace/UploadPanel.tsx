@@ -2,6 +2,7 @@
 import { useRef, useState } from "react";
 import { ApiRequestError } from "@/lib/api/client";
 import { QUALITY_USE } from "@/lib/engine/quality";
+import { describeVelocityModel, DEPTH_CONVERSION_CAUTION, type VelocityModel } from "@/lib/engine/time-depth";
 import { metres } from "./format";
 
 interface Problem { row: number; column: string; reason: string }
@@ -20,6 +21,42 @@ interface Preview {
   problemPageSize: number;
   warnings: string[];
   duplicateOfVersion: number | null;
+  kind: "picks" | "cutoffs";
+  domain: "depth" | "time";
+  velocityModel: VelocityModel | null;
+  cutoffs: null | {
+    rows: number;
+    vertexCount: number;
+    stationSpacingM: number;
+    stationSpacingSource: "data" | "set";
+    rakeDeg: number;
+    horizons: { name: string; stations: number; maxThrowM: number; meanThrowM: number; missingStations: number }[];
+    missingStations: number;
+    missing: { segment: string; horizon: string; s: number; present: "hw" | "fw" }[];
+  };
+}
+
+/** The velocity model as typed in the form: a linear function, or interval velocities by horizon. */
+interface VelocityForm {
+  kind: "linear" | "intervals";
+  v0: string;
+  k: string;
+  intervals: { horizon: string; velocity: string }[];
+}
+
+/** The form's model, or a message naming what is missing. */
+function velocityModelOf(form: VelocityForm): VelocityModel | string {
+  if (form.kind === "linear") {
+    const v0 = Number(form.v0), k = Number(form.k);
+    if (form.v0.trim() === "" || !Number.isFinite(v0)) return "Give v0, the velocity at the datum (m/s).";
+    if (form.k.trim() === "" || !Number.isFinite(k)) return "Give k, the velocity gradient (1/s); 0 for a constant velocity.";
+    return { kind: "linear", v0MPerS: v0, kPerS: k };
+  }
+  const intervals = form.intervals.filter((row) => row.horizon.trim() || row.velocity.trim());
+  if (intervals.length === 0) return "Give at least one horizon with the interval velocity above it.";
+  const bad = intervals.find((row) => !row.horizon.trim() || !Number.isFinite(Number(row.velocity)) || row.velocity.trim() === "");
+  if (bad) return `Give a horizon and a velocity (m/s) on every row${bad.horizon ? ` (${bad.horizon})` : ""}.`;
+  return { kind: "intervals", intervals: intervals.map((row) => ({ horizon: row.horizon.trim(), velocityMPerS: Number(row.velocity) })) };
 }
 
 /** POST a multipart form with upload progress (fetch cannot report it). */
@@ -41,21 +78,22 @@ function postForm<T>(url: string, form: FormData, onProgress: (fraction: number)
   });
 }
 
-/** The demo study's pick files (public/demo), offered on an empty fault to try the upload with. */
-const EXAMPLE_FILES = [
+/** The demo study's files (public/demo), offered on an empty fault to try the upload with. */
+const EXAMPLE_FILES: { file: string; about: string; velocity?: VelocityForm }[] = [
   { file: "qg-1-throw-picks.csv", about: "two overlapping segments with a relay, 3,338 picks" },
   { file: "qg-4-throw-picks.csv", about: "one blind fault with an elliptical tip line, 2,205 picks" },
+  { file: "qg-1-cutoff-lines.csv", about: "cut-off lines of four horizons on both walls, in two-way time (v0 = 1800 m/s, k = 0.6 1/s)", velocity: { kind: "linear", v0: "1800", k: "0.6", intervals: [] } },
 ];
 
 /** The pick CSV format in brief, with the example files to download or to try at once. */
-function ExampleFiles({ onUse, busy }: { onUse: (file: File) => void; busy: boolean }) {
+function ExampleFiles({ onUse, busy }: { onUse: (file: File, velocity?: VelocityForm) => void; busy: boolean }) {
   const [error, setError] = useState<string | null>(null);
   async function use(name: string) {
     setError(null);
     try {
       const response = await fetch(`/demo/${name}`);
       if (!response.ok) throw new Error(`The example file could not be fetched (${response.status}).`);
-      onUse(new File([await response.blob()], name, { type: "text/csv" }));
+      onUse(new File([await response.blob()], name, { type: "text/csv" }), EXAMPLE_FILES.find((example) => example.file === name)?.velocity);
     } catch (caught) {
       setError(caught instanceof Error ? caught.message : String(caught));
     }
@@ -71,6 +109,12 @@ function ExampleFiles({ onUse, busy }: { onUse: (file: File) => void; busy: bool
           <code className="font-mono">hw_thickness</code>, <code className="font-mono">fw_thickness</code>. Feet are converted when you choose them.
         </p>
         <pre className="mt-2 overflow-x-auto rounded bg-slate-50 p-2 font-mono text-[11px] leading-snug text-slate-700 dark:bg-slate-950 dark:text-slate-300">{"x,y,z,throw,segment\n461880.3,6733605.6,-1527.8,11.6,north\n461910.0,6733550.7,-1527.1,11.0,north"}</pre>
+        <h3 className="mt-3 font-semibold">Or cut-off lines</h3>
+        <p className="mt-1 text-xs text-slate-600 dark:text-slate-300" data-testid="cutoff-help">
+          For each horizon, the line where it meets the fault on each wall: <code className="font-mono">x</code>, <code className="font-mono">y</code>, <code className="font-mono">z</code> (or <code className="font-mono">depth</code>, or <code className="font-mono">twt</code> in ms),{" "}
+          <code className="font-mono">horizon</code>, <code className="font-mono">wall</code> (<code className="font-mono">hw</code> or <code className="font-mono">fw</code>), optional <code className="font-mono">line</code> (pieces of one cut-off) and <code className="font-mono">segment</code>; vertices in order along each line.
+          Slipfield pairs the walls at stations along strike and derives the throw picks. Picks or cut-offs in two-way time need a velocity model.
+        </p>
       </div>
       <div>
         <h3 className="font-semibold">No file at hand? Try an example</h3>
@@ -92,6 +136,13 @@ function ExampleFiles({ onUse, busy }: { onUse: (file: File) => void; busy: bool
 
 export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultId: string; onSaved: (analysisId: string) => void; withExamples?: boolean }) {
   const [file, setFile] = useState<File | null>(null);
+  // a file in two-way time: the velocity model (shown once the server says the file is in time)
+  const [velocity, setVelocity] = useState<VelocityForm | null>(null);
+  const [fileHorizons, setFileHorizons] = useState<string[]>([]);
+  // a cut-off file: how the walls are paired
+  const [spacing, setSpacing] = useState("");
+  const [rake, setRake] = useState("");
+  const [orderAlongStrike, setOrderAlongStrike] = useState(false);
   const [units, setUnits] = useState<"m" | "ft">("m");
   const [dropBadRows, setDropBadRows] = useState(false);
   const [preview, setPreview] = useState<Preview | null>(null);
@@ -102,26 +153,38 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
   const [dragging, setDragging] = useState(false);
   const inputRef = useRef<HTMLInputElement>(null);
 
-  function formFor(selected: File, page = 0, drop = dropBadRows, unit = units) {
+  const model = velocity ? velocityModelOf(velocity) : null;
+
+  function formFor(selected: File, page = 0, drop = dropBadRows, unit = units, velocityForm = velocity) {
     const form = new FormData();
     form.set("file", selected);
     form.set("units", unit);
     form.set("dropBadRows", String(drop));
     form.set("problemPage", String(page));
+    const given = velocityForm ? velocityModelOf(velocityForm) : null;
+    if (given && typeof given !== "string") form.set("velocityModel", JSON.stringify(given));
+    if (spacing.trim()) form.set("stationSpacingM", spacing.trim());
+    if (rake.trim()) form.set("rakeDeg", rake.trim());
+    form.set("orderAlongStrike", String(orderAlongStrike));
     return form;
   }
 
-  async function runPreview(selected: File, page = 0, unit = units) {
+  async function runPreview(selected: File, page = 0, unit = units, velocityForm = velocity) {
     setBusy("preview");
     setError(null);
     setErrorRows([]);
     setUploadFraction(0);
     try {
-      setPreview(await postForm<Preview>(`/api/faults/${faultId}/pick-sets?step=preview`, formFor(selected, page, dropBadRows, unit), setUploadFraction));
+      setPreview(await postForm<Preview>(`/api/faults/${faultId}/pick-sets?step=preview`, formFor(selected, page, dropBadRows, unit, velocityForm), setUploadFraction));
     } catch (caught) {
       setPreview(null);
       setError(caught instanceof Error ? caught.message : String(caught));
       if (caught instanceof ApiRequestError && Array.isArray(caught.details?.rejected)) setErrorRows(caught.details.rejected as Problem[]);
+      if (caught instanceof ApiRequestError && caught.details?.needsVelocityModel) {
+        const horizons = Array.isArray(caught.details.horizons) ? (caught.details.horizons as string[]) : [];
+        setFileHorizons(horizons);
+        setVelocity((current) => current ?? { kind: "linear", v0: "", k: "", intervals: horizons.map((horizon) => ({ horizon, velocity: "" })) });
+      }
     } finally {
       setBusy(null);
     }
@@ -143,14 +206,17 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
     }
   }
 
-  function choose(selected: File | undefined) {
+  function choose(selected: File | undefined, velocityForm?: VelocityForm) {
     if (!selected) return;
     setFile(selected);
-    void runPreview(selected);
+    setVelocity(velocityForm ?? null);
+    setFileHorizons([]);
+    void runPreview(selected, 0, units, velocityForm ?? null);
   }
 
   const problemPages = preview ? Math.ceil(preview.problemCount / preview.problemPageSize) : 0;
   const canConfirm = preview && preview.accepted > 0 && (preview.problemCount === 0 || dropBadRows);
+  const cutoffs = preview?.kind === "cutoffs" ? preview.cutoffs : null;
 
   return (
     <div className="space-y-4" data-testid="upload-panel">
@@ -160,8 +226,8 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
         onDragLeave={() => setDragging(false)}
         onDrop={(event) => { event.preventDefault(); setDragging(false); choose(event.dataTransfer.files[0]); }}
       >
-        <p className="font-medium">Drop a pick CSV here</p>
-        <p className="text-xs text-slate-500">Columns x, y, z (or depth), throw; optional segment, horizon, heave, quality. Up to 2,000,000 rows, 100 MB.</p>
+        <p className="font-medium">Drop a pick CSV or a cut-off line file here</p>
+        <p className="text-xs text-slate-500">Picks: x, y, z (or depth, or twt), throw; optional segment, horizon, heave, quality. Cut-off lines: x, y, z (or depth, or twt), horizon, wall. Up to 2,000,000 rows, 100 MB.</p>
         <p className="max-w-md text-xs text-slate-500" data-testid="quality-use">{QUALITY_USE}</p>
         <div className="mt-1 flex items-center gap-2">
           <button type="button" className="btn-quiet py-1.5" onClick={() => inputRef.current?.click()}>Choose file</button>
@@ -177,6 +243,17 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
       </div>
 
       {withExamples && !preview && <ExampleFiles onUse={choose} busy={busy !== null} />}
+
+      {velocity && file && (
+        <VelocityFields
+          value={velocity}
+          horizons={fileHorizons}
+          problem={typeof model === "string" ? model : null}
+          busy={busy !== null}
+          onChange={setVelocity}
+          onApply={() => void runPreview(file)}
+        />
+      )}
 
       {busy && (
         <div className="space-y-1" data-testid="upload-progress">
@@ -210,6 +287,26 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
             <span className="num text-slate-500">{preview.accepted.toLocaleString("en")} usable</span>
             <span className="text-slate-500">segments: {preview.segments.join(", ") || "—"}</span>
           </div>
+          {preview.domain === "time" && preview.velocityModel && (
+            <div className="space-y-1 rounded-lg bg-slate-50 px-3 py-2 text-xs text-slate-700 dark:bg-slate-950 dark:text-slate-300" data-testid="upload-depth-conversion">
+              <p>Two-way time converted to depth with {describeVelocityModel(preview.velocityModel)}; the original times are kept with the {preview.kind === "cutoffs" ? "cut-offs" : "picks"}.</p>
+              <p className="text-amber-800 dark:text-amber-200">{DEPTH_CONVERSION_CAUTION}</p>
+            </div>
+          )}
+          {cutoffs && (
+            <CutoffSummaryBox
+              cutoffs={cutoffs}
+              picks={preview.accepted}
+              spacing={spacing}
+              rake={rake}
+              orderAlongStrike={orderAlongStrike}
+              busy={busy !== null}
+              onSpacing={setSpacing}
+              onRake={setRake}
+              onOrder={setOrderAlongStrike}
+              onApply={() => file && void runPreview(file)}
+            />
+          )}
           {preview.duplicateOfVersion !== null && (
             <p className="rounded-lg bg-amber-50 px-3 py-2 text-xs text-amber-900 dark:bg-amber-950/40 dark:text-amber-100" data-testid="duplicate-note">
               This exact file was already uploaded as version {preview.duplicateOfVersion}. Saving it again makes a new version with the same picks.
@@ -219,17 +316,18 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
           <div className="max-h-48 overflow-auto rounded-lg border border-slate-200 dark:border-slate-800">
             <table className="w-full text-xs">
               <thead className="sticky top-0 bg-slate-50 text-left text-slate-500 dark:bg-slate-950">
-                <tr>{["Row", "x", "y", "z", "Throw", "Segment"].map((heading) => <th key={heading} className="px-2 py-1 font-medium">{heading}</th>)}</tr>
+                <tr>{["Row", "x", "y", "z", "Throw", "Segment", ...(preview.horizons.length ? ["Horizon"] : [])].map((heading) => <th key={heading} className="px-2 py-1 font-medium">{heading}</th>)}</tr>
               </thead>
               <tbody className="num">
-                {preview.sample.map((pick) => (
-                  <tr key={pick.row} className="border-t border-slate-100 dark:border-slate-800">
+                {preview.sample.map((pick, index) => (
+                  <tr key={`${pick.row}-${index}`} className="border-t border-slate-100 dark:border-slate-800">
                     <td className="px-2 py-0.5">{pick.row}</td>
                     <td className="px-2 py-0.5">{pick.x.toFixed(1)}</td>
                     <td className="px-2 py-0.5">{pick.y.toFixed(1)}</td>
                     <td className="px-2 py-0.5">{pick.z.toFixed(1)}</td>
                     <td className="px-2 py-0.5">{metres(pick.throwM)}</td>
                     <td className="px-2 py-0.5">{pick.segment}</td>
+                    {preview.horizons.length > 0 && <td className="px-2 py-0.5">{pick.horizon ?? ""}</td>}
                   </tr>
                 ))}
               </tbody>
@@ -261,11 +359,108 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
             </div>
           )}
           <div className="flex gap-2">
-            <button className="btn-primary" disabled={!canConfirm || busy !== null} onClick={confirm} data-testid="confirm-upload">Save pick set and analyse</button>
-            <button className="btn-quiet" onClick={() => { setPreview(null); setFile(null); }}>Discard</button>
+            <button className="btn-primary" disabled={!canConfirm || busy !== null} onClick={confirm} data-testid="confirm-upload">{cutoffs ? "Save the derived pick set and analyse" : "Save pick set and analyse"}</button>
+            <button className="btn-quiet" onClick={() => { setPreview(null); setFile(null); setVelocity(null); }}>Discard</button>
           </div>
         </div>
       )}
+    </div>
+  );
+}
+
+/** The velocity model of a file in two-way time: v(z) = v0 + k·z, or interval velocities by horizon. */
+function VelocityFields(props: { value: VelocityForm; horizons: string[]; problem: string | null; busy: boolean; onChange: (value: VelocityForm) => void; onApply: () => void }) {
+  const { value, onChange } = props;
+  const rows = value.intervals.length ? value.intervals : [{ horizon: "", velocity: "" }];
+  return (
+    <fieldset className="space-y-2 rounded-lg border border-slate-200 p-3 text-xs dark:border-slate-800" data-testid="velocity-fields">
+      <legend className="px-1 font-semibold">Velocity model (the file is in two-way time)</legend>
+      <p className="text-slate-600 dark:text-slate-300">Each wall is converted to depth on its own; throws, heaves and every metric are then in depth. The model is stored with the pick set and shown on the fault sheet.</p>
+      <div className="flex gap-4">
+        <label className="flex items-center gap-1"><input type="radio" checked={value.kind === "linear"} onChange={() => onChange({ ...value, kind: "linear" })} data-testid="velocity-kind-linear" /> linear, v(z) = v0 + k·z</label>
+        <label className="flex items-center gap-1"><input type="radio" checked={value.kind === "intervals"} onChange={() => onChange({ ...value, kind: "intervals" })} data-testid="velocity-kind-intervals" /> interval velocities by horizon</label>
+      </div>
+      {value.kind === "linear" ? (
+        <div className="flex flex-wrap gap-3">
+          <label className="flex items-center gap-1.5">v0 (m/s) <input className="field w-24 py-0.5 text-xs" inputMode="decimal" value={value.v0} onChange={(event) => onChange({ ...value, v0: event.target.value })} data-testid="velocity-v0" /></label>
+          <label className="flex items-center gap-1.5">k (1/s) <input className="field w-20 py-0.5 text-xs" inputMode="decimal" value={value.k} onChange={(event) => onChange({ ...value, k: event.target.value })} data-testid="velocity-k" /></label>
+        </div>
+      ) : (
+        <div className="space-y-1">
+          <p className="text-slate-500">Shallow to deep: the velocity of the interval above each horizon (from the horizon before it, or from time zero).</p>
+          {rows.map((row, index) => (
+            <div key={index} className="flex gap-2">
+              <input className="field w-40 py-0.5 text-xs" aria-label={`Horizon ${index + 1}`} list="velocity-horizons" value={row.horizon} onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, horizon: event.target.value } : r)) })} />
+              <input className="field w-24 py-0.5 text-xs" aria-label={`Velocity above horizon ${index + 1} (m/s)`} inputMode="decimal" placeholder="m/s" value={row.velocity} onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, velocity: event.target.value } : r)) })} />
+            </div>
+          ))}
+          <datalist id="velocity-horizons">{props.horizons.map((horizon) => <option key={horizon} value={horizon} />)}</datalist>
+          <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => onChange({ ...value, intervals: [...rows, { horizon: "", velocity: "" }] })}>Add a horizon</button>
+        </div>
+      )}
+      {props.problem && <p className="text-amber-700 dark:text-amber-300">{props.problem}</p>}
+      <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={props.busy || props.problem !== null} onClick={props.onApply} data-testid="velocity-apply">Convert and check</button>
+    </fieldset>
+  );
+}
+
+/** What pairing the cut-offs gave, per horizon, with the settings that can be changed before saving. */
+function CutoffSummaryBox(props: {
+  cutoffs: NonNullable<Preview["cutoffs"]>;
+  picks: number;
+  spacing: string;
+  rake: string;
+  orderAlongStrike: boolean;
+  busy: boolean;
+  onSpacing: (value: string) => void;
+  onRake: (value: string) => void;
+  onOrder: (value: boolean) => void;
+  onApply: () => void;
+}) {
+  const { cutoffs } = props;
+  return (
+    <div className="space-y-2 rounded-lg border border-slate-200 p-3 text-xs dark:border-slate-800" data-testid="cutoff-preview">
+      <p>
+        <span className="font-medium">Cut-off lines:</span> {cutoffs.vertexCount.toLocaleString("en")} vertices; the walls paired every {metres(cutoffs.stationSpacingM, 0)} along strike
+        ({cutoffs.stationSpacingSource === "set" ? "as set" : "from the vertex spacing"}) give <span className="font-medium" data-testid="cutoff-derived-count">{props.picks.toLocaleString("en")} throw picks</span>.
+      </p>
+      <table className="w-full" data-testid="cutoff-horizons">
+        <thead className="text-left text-slate-500">
+          <tr><th className="py-0.5 font-medium">Horizon</th><th className="py-0.5 text-right font-medium">Stations</th><th className="py-0.5 text-right font-medium">Max throw</th><th className="py-0.5 text-right font-medium">Mean throw</th><th className="py-0.5 text-right font-medium">One wall only</th></tr>
+        </thead>
+        <tbody className="num">
+          {cutoffs.horizons.map((horizon) => (
+            <tr key={horizon.name} className="border-t border-slate-100 dark:border-slate-800">
+              <td className="py-0.5">{horizon.name}</td>
+              <td className="py-0.5 text-right">{horizon.stations}</td>
+              <td className="py-0.5 text-right">{metres(horizon.maxThrowM)}</td>
+              <td className="py-0.5 text-right">{metres(horizon.meanThrowM)}</td>
+              <td className="py-0.5 text-right">{horizon.missingStations}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {cutoffs.missingStations > 0 && (
+        <p className="text-amber-700 dark:text-amber-300" data-testid="cutoff-missing">
+          {cutoffs.missingStations} station{cutoffs.missingStations === 1 ? "" : "s"} with a cut-off on one wall only (reported, not filled in), e.g.{" "}
+          {cutoffs.missing.slice(0, 3).map((m) => `${m.horizon} at s = ${metres(m.s, 0)} (${m.present === "hw" ? "hanging wall" : "footwall"} only)`).join("; ")}.
+        </p>
+      )}
+      <div className="flex flex-wrap items-end gap-3">
+        <label className="flex flex-col gap-0.5">
+          <span className="text-slate-500">Station spacing (m)</span>
+          <input className="field w-24 py-0.5 text-xs" inputMode="decimal" placeholder={String(cutoffs.stationSpacingM)} value={props.spacing} onChange={(event) => props.onSpacing(event.target.value)} data-testid="cutoff-spacing" />
+        </label>
+        <label className="flex flex-col gap-0.5" title="Angle in the fault plane from the strike direction to the slip; 90° is pure dip slip">
+          <span className="text-slate-500">Rake (°)</span>
+          <input className="field w-20 py-0.5 text-xs" inputMode="decimal" placeholder="90" value={props.rake} onChange={(event) => props.onRake(event.target.value)} data-testid="cutoff-rake" />
+        </label>
+        <label className="flex items-center gap-1.5">
+          <input type="checkbox" checked={props.orderAlongStrike} onChange={(event) => props.onOrder(event.target.checked)} data-testid="cutoff-order" />
+          order each line&apos;s vertices along strike
+        </label>
+        <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={props.busy} onClick={props.onApply} data-testid="cutoff-apply">Pair again</button>
+      </div>
     </div>
   );
 }

@@ -5,6 +5,7 @@
 import { legendTicks, niceStep, surfaceInterpolator } from "@/scene/geometry";
 import { useOverlayStore } from "@/scene/overlayStore";
 import { useViewSettings } from "@/scene/viewSettingsStore";
+import { svgImage } from "@/components/analysis-views/download";
 import { metres } from "./format";
 
 const HEADER_PX = 46;
@@ -21,15 +22,6 @@ const fontFamily = (element: Element, fallback: string) => getComputedStyle(elem
 function roundedRect(context: CanvasRenderingContext2D, x: number, y: number, width: number, height: number, radius: number) {
   context.beginPath();
   context.roundRect(x, y, width, height, radius);
-}
-
-async function svgImage(svg: SVGSVGElement): Promise<HTMLImageElement> {
-  const clone = svg.cloneNode(true) as SVGSVGElement;
-  clone.setAttribute("xmlns", "http://www.w3.org/2000/svg");
-  const image = new Image();
-  image.src = `data:image/svg+xml;charset=utf-8,${encodeURIComponent(new XMLSerializer().serializeToString(clone))}`;
-  await image.decode();
-  return image;
 }
 
 const nextFrame = () => new Promise((resolve) => requestAnimationFrame(resolve));

@@ -88,8 +88,15 @@ export function activitySentence(entry: ActivityEntry, lookups: ActivityLookups)
       return end([text(`removed the fault ${entry.target || "(unnamed)"}`)]);
     case "pickset.upload": {
       const rows = num(details.rows);
-      const file = entry.target ? `pick set ${entry.target}` : "a pick set";
-      return end([text(`uploaded ${file} to `), fault(str(details.faultId)), ...(rows !== undefined ? [text(` (${rows.toLocaleString("en")} picks)`)] : [])]);
+      const derived = details.derivedFrom === "cutoffs";
+      const file = entry.target ? `${derived ? "cut-off lines" : "pick set"} ${entry.target}` : derived ? "cut-off lines" : "a pick set";
+      const count = rows !== undefined ? `${rows.toLocaleString("en")} ${derived ? "throw picks derived" : "picks"}` : "";
+      const about = [count, details.depthConverted ? "depth-converted from two-way time" : ""].filter(Boolean).join(", ");
+      return end([text(`uploaded ${file} to `), fault(str(details.faultId)), ...(about ? [text(` (${about})`)] : [])]);
+    }
+    case "stratigraphy.set": {
+      const units = num(details.units);
+      return end([text(`set the study’s stratigraphy table${units !== undefined ? ` (${units} unit${units === 1 ? "" : "s"})` : ""}`)]);
     }
     case "member.invite":
       return end([text(`invited ${entry.target}${str(details.role) ? ` as ${details.role}` : ""}`)]);

@@ -38,6 +38,8 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
       fileName: pickSets.fileName,
       checksum: pickSets.checksum,
       uploadedAt: pickSets.uploadedAt,
+      velocityModel: pickSets.velocityModel,
+      derivedFrom: pickSets.derivedFrom,
     })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))

@@ -1,8 +1,12 @@
 // Reading an uploaded pick file: pure (no I/O), so it runs in the analysis worker pool, off the web server's thread
 // (a 10⁵-pick file took 0.1–0.3 s of that thread, a 10⁶-pick one about a second).
 import { parsePickCsv } from "@/lib/engine/csv";
+import { isCutoffCsv, parseCutoffCsv, verticalColumnOf, type CutoffParseResult } from "@/lib/engine/cutoffs";
+import { deriveChecked } from "@/lib/engine/cutoff-pipeline";
+import type { CutoffSummary } from "@/lib/engine/cutoff-stations";
+import type { VelocityModel } from "@/lib/engine/time-depth";
 import type { FaultKinematics, ParseResult, RejectedRow } from "@/lib/engine/types";
-import { packPicks } from "@/lib/picks/codec";
+import { packColumns, packPicks } from "@/lib/picks/codec";
 
 export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
 export const MAX_ROWS = 2_000_000;
@@ -17,6 +21,10 @@ export interface UploadParseJob {
   encode: boolean;
   /** the fault's type: which throws and rakes it can use */
   kinematics?: FaultKinematics;
+  /** converts a file in two-way time to depth */
+  velocityModel?: VelocityModel | null;
+  /** how a cut-off file's walls are paired */
+  cutoffs?: { stationSpacingM?: number; rakeDeg?: number; orderAlongStrike?: boolean; sense?: "normal" | "reverse" };
 }
 
 /** A whole multipart upload body, taken apart off the web server's thread (a 10⁵-pick form cost it ~0.25 s). */
@@ -50,8 +58,20 @@ export async function readMultipart(job: MultipartJob): Promise<MultipartOutput>
 }
 
 export interface UploadParseOutput {
+  /** a pick file, or a cut-off line file whose derived picks are `parsed` */
+  kind: "picks" | "cutoffs";
+  domain: "depth" | "time";
   parsed: ParseResult;
   encoded: Uint8Array | null;
+  cutoffs?: { summary: CutoffSummary; vertexCount: number; rows: number; encodedVertices: Uint8Array | null };
+}
+
+export interface UploadProblemDetails {
+  rejected: RejectedRow[];
+  /** the file is in two-way time and no velocity model was given: the form asks for one */
+  needsVelocityModel?: boolean;
+  kind?: "picks" | "cutoffs";
+  horizons?: string[];
 }
 
 /** A file that cannot be used, with the HTTP status and details the upload answers with. */
@@ -59,7 +79,7 @@ export class UploadProblem extends Error {
   constructor(
     readonly status: number,
     message: string,
-    readonly details?: { rejected: RejectedRow[] },
+    readonly details?: UploadProblemDetails,
   ) {
     super(message);
   }
@@ -89,15 +109,67 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
   checkUploadSize(job.name, job.bytes);
   const text = decodeText(job.name, job.bytes);
   if (countRows(text) > MAX_ROWS + 1) throw new UploadProblem(413, `${job.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
+  const domain = verticalColumnOf(text) === "twt" ? "time" : "depth";
+  if (isCutoffCsv(text)) return parseCutoffUpload(job, text, domain);
   let parsed: ParseResult;
   try {
-    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows, kinematics: job.kinematics });
+    if (domain === "time" && !job.velocityModel) throw needsVelocityModel(job.name, "picks", horizonsOfTimePicks(text));
+    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows, velocityModel: job.velocityModel, kinematics: job.kinematics });
   } catch (error) {
-    const rejected = (error as { rejected?: RejectedRow[] }).rejected;
-    if (Array.isArray(rejected) || error instanceof Error) {
-      throw new UploadProblem(422, error instanceof Error ? error.message : "The picks cannot be used.", { rejected: rejected ?? [] });
-    }
-    throw error;
+    throw asUploadProblem(error, "The picks cannot be used.");
   }
-  return { parsed, encoded: job.encode ? packPicks(parsed.picks) : null };
+  return { kind: "picks", domain, parsed, encoded: job.encode ? packPicks(parsed.picks) : null };
+}
+
+function asUploadProblem(error: unknown, fallback: string): unknown {
+  if (error instanceof UploadProblem) return error;
+  const rejected = (error as { rejected?: RejectedRow[] }).rejected;
+  if (Array.isArray(rejected) || error instanceof Error) return new UploadProblem(422, error instanceof Error ? error.message : fallback, { rejected: rejected ?? [] });
+  return error;
+}
+
+function needsVelocityModel(name: string, kind: "picks" | "cutoffs", horizons: string[]) {
+  const what = kind === "cutoffs" ? "its cut-offs" : "its picks";
+  return new UploadProblem(422, `${name} is in two-way time (twt, ms). Give a velocity model to convert ${what} to depth: throws, heaves and every metric are computed in depth only.`, {
+    rejected: [],
+    needsVelocityModel: true,
+    kind,
+    horizons,
+  });
+}
+
+/** The horizons named in a pick file in time (for the interval-velocity table), read with the bad rows set aside. */
+function horizonsOfTimePicks(text: string): string[] {
+  try {
+    return parsePickCsv(text, { dropBadRows: true, velocityModel: { kind: "linear", v0MPerS: 2000, kPerS: 0 } }).picks.horizonNames;
+  } catch {
+    return [];
+  }
+}
+
+/** A cut-off line file: checked, converted, its walls paired into the derived pick set that will be stored and analysed. */
+function parseCutoffUpload(job: UploadParseJob, text: string, domain: "depth" | "time"): UploadParseOutput {
+  let lines: CutoffParseResult;
+  try {
+    lines = parseCutoffCsv(text, { units: job.units, dropBadRows: job.dropBadRows, orderAlongStrike: job.cutoffs?.orderAlongStrike });
+    if (domain === "time" && !job.velocityModel) throw needsVelocityModel(job.name, "cutoffs", lines.columns.horizonNames);
+    const { derivation } = deriveChecked(lines, { ...job.cutoffs, velocityModel: job.velocityModel });
+    const parsed: ParseResult = {
+      picks: derivation.picks,
+      rows: lines.rows,
+      accepted: derivation.picks.x.length,
+      rejected: lines.rejected,
+      rejectedTruncated: lines.rejectedTruncated,
+      warnings: derivation.summary.warnings,
+    };
+    return {
+      kind: "cutoffs",
+      domain,
+      parsed,
+      encoded: job.encode ? packPicks(derivation.picks) : null,
+      cutoffs: { summary: derivation.summary, vertexCount: lines.accepted, rows: lines.rows, encodedVertices: job.encode ? packColumns(lines.columns) : null },
+    };
+  } catch (error) {
+    throw asUploadProblem(error, "The cut-off lines cannot be used.");
+  }
 }

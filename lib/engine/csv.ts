@@ -5,19 +5,12 @@ import type { FaultKinematics, LengthUnit, ParseResult, PickColumns, RejectedRow
 import { DegeneratePlaneError, fitPlane } from "./plane";
 import { kinematicRowProblems } from "./kinematics";
 
-export const MAX_REJECTED_LISTED = 200;
-const FEET_TO_M = 0.3048;
+import { MAX_REJECTED_LISTED, PickInputError, problemList, summariseProblems } from "./input-error";
+import { picksToDepth } from "./time-picks";
+import type { VelocityModel } from "./time-depth";
 
-export class PickInputError extends Error {
-  readonly rejected: RejectedRow[];
-  readonly truncated: boolean;
-  constructor(message: string, rejected: RejectedRow[], truncated = false) {
-    super(message);
-    this.name = "PickInputError";
-    this.rejected = rejected;
-    this.truncated = truncated;
-  }
-}
+export { MAX_REJECTED_LISTED, PickInputError };
+const FEET_TO_M = 0.3048;
 
 export interface ParseOptions {
   units?: LengthUnit;
@@ -27,6 +20,8 @@ export interface ParseOptions {
   dedupe?: "reject" | "average";
   /** the fault's type: which throws and rakes it can use (default normal, no inversion) */
   kinematics?: FaultKinematics;
+  /** converts a file in two-way time (a `twt` column in ms, throw in ms) to depth; required for such a file */
+  velocityModel?: VelocityModel | null;
 }
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).check(z.refine(Number.isFinite, { error: `${what} must be a finite number` }));
@@ -38,6 +33,7 @@ export const pickRowSchema = z
     y: finite("y"),
     z: z.optional(finite("z")),
     depth: z.optional(finite("depth")),
+    twt: z.optional(finite("twt")),
     // the sign of throw is checked against the fault's type (lib/engine/kinematics.ts): negative only on an inverted fault
     throw: finite("throw"),
     heave: z.optional(finiteWhere("heave", (v) => v >= 0, "heave must be ≥ 0")),
@@ -48,12 +44,12 @@ export const pickRowSchema = z
     segment: z.optional(z.string()),
     horizon: z.optional(z.string()),
   })
-  .check(z.refine((r) => r.z !== undefined || r.depth !== undefined, { error: "z or depth is required", path: ["z"] }));
+  .check(z.refine((r) => r.z !== undefined || r.depth !== undefined || r.twt !== undefined, { error: "z or depth is required", path: ["z"] }));
 
 export type PickRow = z.infer<typeof pickRowSchema>;
 
 const NUMERIC = ["x", "y", "z", "depth", "throw", "heave", "quality", "hw_thickness", "fw_thickness", "rake"] as const;
-const KNOWN = new Set<string>([...NUMERIC, "segment", "horizon"]);
+const KNOWN = new Set<string>([...NUMERIC, "segment", "horizon", "twt"]);
 
 function toNumber(raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
@@ -67,12 +63,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   const units = options.units ?? "m";
   const scale = units === "ft" ? FEET_TO_M : 1;
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rejected: RejectedRow[] = [];
-  let rejectedCount = 0;
-  const reject = (r: RejectedRow) => {
-    rejectedCount++;
-    if (rejected.length < MAX_REJECTED_LISTED) rejected.push(r);
-  };
+  const problems = problemList();
+  const { rejected, reject } = problems;
   const warnings: string[] = [];
   // clean numeric files take a tight loop over the string; anything it cannot vouch for goes through papaparse + zod
   const table = readRowsFast(body, scale) ?? readRowsGeneral(body, scale, reject);
@@ -85,6 +77,7 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   };
   if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
   if (table.rake) picks = { ...picks, rakeDeg: cut(table.rake) };
+  let twtColumn = table.twt ? cut(table.twt) : undefined;
 
   // throws and rakes the fault's type cannot use
   const kinematic = kinematicRowProblems(picks, options.kinematics ?? { sense: "normal" });
@@ -96,6 +89,19 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     const kept: number[] = [];
     for (let i = 0; i < picks.x.length; i++) if (!bad.has(picks.sourceRow[i])) kept.push(i);
     picks = selectPicks(picks, kept);
+    if (twtColumn) {
+      const times = twtColumn;
+      twtColumn = Float64Array.from(kept, (i) => times[i]);
+    }
+  }
+  if (twtColumn) {
+    // two-way time: each wall converted to depth on its own (lib/engine/time-picks.ts), once every row is known good
+    if (problems.count > 0 && !options.dropBadRows) throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
+    if (picks.x.length > 0) {
+      const converted = picksToDepth(picks, twtColumn, options.velocityModel);
+      picks = converted.picks;
+      warnings.push(...converted.warnings);
+    }
   }
 
   const dedupe = options.dedupe ?? "reject";
@@ -103,8 +109,8 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   picks = dup.picks;
   if (dup.merged > 0) warnings.push(`${dup.merged} duplicate picks averaged into the pick at the same position`);
 
-  if (rejectedCount > 0 && !options.dropBadRows) {
-    throw new PickInputError(summarise(rejected, rejectedCount), rejected, rejectedCount > rejected.length);
+  if (problems.count > 0 && !options.dropBadRows) {
+    throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
   }
 
   const segmentProblems: RejectedRow[] = [];
@@ -125,10 +131,10 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   if (picks.x.length === 0) segmentProblems.push({ row: 2, column: "x", reason: "no usable picks" });
   if (segmentProblems.length) {
     const all = [...rejected, ...segmentProblems].slice(0, MAX_REJECTED_LISTED);
-    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, rejectedCount + segmentProblems.length > all.length);
+    throw new PickInputError(summarise(segmentProblems, segmentProblems.length), all, problems.count + segmentProblems.length > all.length);
   }
 
-  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: rejectedCount > rejected.length, warnings };
+  return { picks, rows, accepted: picks.x.length, rejected, rejectedTruncated: problems.count > rejected.length, warnings };
 }
 
 interface RowTable {
@@ -152,6 +158,8 @@ interface RowTable {
   fw?: Float64Array;
   /** rake (degrees), only when the file has that column */
   rake?: Float64Array;
+  /** two-way time (ms) of each pick in a time file (z is then NaN and the throw is in ms until converted) */
+  twt?: Float64Array;
 }
 
 /** The general reader: papaparse for the CSV grammar (quotes, delimiters, line endings), zod for each row. */
@@ -166,7 +174,10 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   });
   const missing: RejectedRow[] = [];
   for (const need of ["x", "y", "throw"]) if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
-  if (!col.has("z") && !col.has("depth")) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth") is missing from the header' });
+  // a file in two-way time has a twt column (ms) and no z or depth; beside z or depth a twt column is not read
+  const timeFile = !col.has("z") && !col.has("depth") && col.has("twt");
+  if (!timeFile) col.delete("twt");
+  if (!col.has("z") && !col.has("depth") && !timeFile) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth", or "twt" in ms) is missing from the header' });
   if (missing.length) throw new PickInputError(`header row 1: ${missing.map((m) => m.reason).join("; ")}`, missing);
 
   const rows = table.length - 1;
@@ -177,6 +188,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   const hw = thick ? new Float64Array(n) : undefined, fw = thick ? new Float64Array(n) : undefined;
   const rake = col.has("rake") ? new Float64Array(n) : undefined;
   const seg = new Uint32Array(n), hor = new Int32Array(n), src = new Uint32Array(n);
+  const twt = timeFile ? new Float64Array(n) : undefined;
   const segmentNames: string[] = [];
   const segmentIndex = new Map<string, number>();
   const horizonNames: string[] = [];
@@ -188,7 +200,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     const rowNo = r + 1;
     if (cells.every((c) => c.trim() === "")) continue;
     const candidate: Record<string, unknown> = {};
-    for (const name of NUMERIC) {
+    for (const name of [...NUMERIC, "twt"]) {
       const i = idx(name);
       if (i === undefined) continue;
       const v = toNumber(cells[i]);
@@ -220,8 +232,15 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     const row = result.data;
     xs[count] = row.x * scale;
     ys[count] = row.y * scale;
-    zs[count] = (row.z !== undefined ? row.z : -(row.depth as number)) * scale;
-    ts[count] = row.throw * scale;
+    if (twt) {
+      // times and time throws are in ms whatever the length unit
+      zs[count] = NaN;
+      twt[count] = row.twt as number;
+      ts[count] = row.throw;
+    } else {
+      zs[count] = (row.z !== undefined ? row.z : -(row.depth as number)) * scale;
+      ts[count] = row.throw * scale;
+    }
     hs[count] = row.heave !== undefined ? row.heave * scale : NaN;
     qs[count] = row.quality ?? NaN;
     if (hw && fw) {
@@ -250,7 +269,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     count++;
   }
 
-  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw, rake };
+  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw, rake, twt };
 }
 
 // ---- fast reader for clean numeric files -------------------------------------------------------------------------
@@ -506,11 +525,7 @@ class NameTable {
   }
 }
 
-function summarise(list: RejectedRow[], total: number): string {
-  const shown = list.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
-  const more = total > shown.length ? `; and ${total - shown.length} more` : "";
-  return `${total} problem${total === 1 ? "" : "s"} in the pick file: ${shown.join("; ")}${more}`;
-}
+const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "pick file");
 
 /** The picks `ids` (in that order): every column, optional ones included. */
 export function selectPicks(picks: PickColumns, ids: number[]): PickColumns {
@@ -522,6 +537,7 @@ export function selectPicks(picks: PickColumns, ids: number[]): PickColumns {
   const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
   if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
   if (picks.rakeDeg) out.rakeDeg = take(picks.rakeDeg);
+  if (picks.twtMs && picks.throwMs) Object.assign(out, { twtMs: take(picks.twtMs), throwMs: take(picks.throwMs) });
   return out;
 }
 

@@ -136,3 +136,29 @@ export function weightedQuantiles(values: ArrayLike<number>, weightings: ArrayLi
 export function weightedQuantile(values: ArrayLike<number>, weights: ArrayLike<number>, fraction: number): number {
   return weightedQuantiles(values, [weights], [fraction])[0][0];
 }
+
+/** The k-th smallest value (0-based) by Hoare's quickselect, in place, O(n) on average — sort()[k] without the sort. */
+export function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const tmp = a[i];
+        a[i] = a[j];
+        a[j] = tmp;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return a[k];
+}

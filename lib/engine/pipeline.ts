@@ -225,7 +225,7 @@ function settingsOf(options: AnalysisOptions): AnalysisSettings {
 /** Parse a pick CSV and analyse it (the parsed picks come back too); throws PickInputError when the input cannot be used. */
 export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult & { picks: PickColumns } {
   options.onStage?.("parse", 0);
-  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, kinematics: options.kinematics });
+  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, kinematics: options.kinematics, velocityModel: options.velocityModel });
   const result = analyzePicks(parsed.picks, {
     ...options,
     input: { rows: parsed.rows, accepted: parsed.accepted, rejected: parsed.rejected, units: options.units ?? "m" },

@@ -60,7 +60,7 @@ const exponentSlope = (x: number) => {
 };
 /** the unbounded number of an ellipse (exponent 2) */
 const ELLIPSE = -Math.log((EXPONENT_HIGH - 2) / (2 - EXPONENT_LOW));
-const DRAWS = 200;
+const DRAWS = 150;
 
 interface Problem {
   /** observations in scaled units: picks first, then places beyond the edges */
@@ -277,12 +277,19 @@ function evaluate(problem: Problem, kind: number, shapeCount: number, p: ArrayLi
 }
 
 /** Quasi-Newton minimisation (BFGS, Nocedal & Wright 2006, with a backtracking Armijo line search). */
-export function bfgs(f: (x: Float64Array, gradient: Float64Array) => number, start: ArrayLike<number>, maxIterations = 300, settled = 1e-9): { point: Float64Array; value: number; iterations: number } {
+export function bfgs(
+  f: (x: Float64Array, gradient: Float64Array) => number,
+  start: ArrayLike<number>,
+  maxIterations = 300,
+  settled = 1e-9,
+  inverseHessian: Float64Array | null = null,
+): { point: Float64Array; value: number; iterations: number; inverseHessian: Float64Array | null } {
   const k = start.length;
   let x = Float64Array.from(start);
   let g = new Float64Array(k);
   let fx = f(x, g);
-  let H: Float64Array | null = null; // inverse Hessian, row-major
+  // inverse Hessian, row-major: from an earlier fit of nearly the same objective when given
+  let H: Float64Array | null = inverseHessian ? Float64Array.from(inverseHessian) : null;
   const trial = new Float64Array(k);
   const gTrial = new Float64Array(k);
   const direction = new Float64Array(k);
@@ -366,7 +373,7 @@ export function bfgs(f: (x: Float64Array, gradient: Float64Array) => number, sta
     if (stalled >= 2) break;
   }
 
-  return { point: x, value: fx, iterations: it };
+  return { point: x, value: fx, iterations: it, inverseHessian: H };
 }
 
 function toModel(problem: Problem, model: ProfileModel, p: ArrayLike<number>): TipModel {
@@ -427,15 +434,18 @@ function thinned(problem: Problem, k: number): Problem {
 }
 
 /** Observations in the quick first fit; the full sample then only polishes. */
-const QUICK_OBSERVATIONS = 300;
+const QUICK_OBSERVATIONS = 200;
 
 function fitCandidate(problem: Problem, model: ProfileModel, noiseGuess: number): { point: number[]; value: number } {
   const candidate = PROFILE_CANDIDATES[model];
   const objectiveOf = (target: Problem) => (x: Float64Array, gradient: Float64Array) => evaluate(target, candidate.kind, candidate.shapeParameters, x, gradient);
+  const quickProblem = thinned(problem, Math.floor(problem.u.length / QUICK_OBSERVATIONS));
+  const quickObjective = objectiveOf(quickProblem);
   const start = startOf(problem, model, noiseGuess);
   // a change of 0.001 in −log likelihood moves the parameters by a negligible fraction of their standard error
-  const quick = bfgs(objectiveOf(thinned(problem, Math.floor(problem.u.length / QUICK_OBSERVATIONS))), start, 300, 1e-3);
-  const best = bfgs(objectiveOf(problem), quick.point, 300, 1e-3);
+  const quick = bfgs(quickObjective, start, 300, 1e-3);
+  // the thinned picks weigh k-fold, so its curvature is the whole sample's: the polish starts from it
+  const best = bfgs(objectiveOf(problem), quick.point, 300, 1e-3, quick.inverseHessian);
   return { point: Array.from(best.point), value: best.value };
 }
 
@@ -455,16 +465,15 @@ function sandwichCovariance(problem: Problem, model: ProfileModel, point: number
     evaluate(problem, candidate.kind, shapeCount, p, g, null, false);
     return g;
   };
+  // forward differences of the analytic gradient (k + 1 gradients; symmetrised below)
   const H = new Matrix(k, k);
+  const g0 = gradientAt(Float64Array.from(point));
   for (let i = 0; i < k; i++) {
     const h = 1e-5 * Math.max(1, Math.abs(point[i]));
     const plus = Float64Array.from(point);
-    const minus = Float64Array.from(point);
     plus[i] += h;
-    minus[i] -= h;
     const gp = gradientAt(plus);
-    const gm = gradientAt(minus);
-    for (let j = 0; j < k; j++) H.set(i, j, (gp[j] - gm[j]) / (2 * h));
+    for (let j = 0; j < k; j++) H.set(i, j, (gp[j] - g0[j]) / h);
   }
   const symmetric = H.add(H.transpose()).mul(0.5);
   const scores = Array.from({ length: k }, () => new Float64Array(n));
@@ -546,7 +555,7 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     const weight = raw[index] / total;
     const draws: TipModel[] = [];
     const centralWeight = centralRaw[index] / centralTotal;
-    if (weight >= 0.005 || centralWeight >= 0.05) {
+    if (weight >= 0.02 || centralWeight >= 0.05) {
       const covariance = sandwichCovariance(problem, f.model, f.point);
       const root = covariance ? symmetricRoot(covariance) : null;
       if (root) {

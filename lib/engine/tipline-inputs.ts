@@ -3,6 +3,7 @@
 // (the data stop while displacement is still high), and places just beyond the closed edges where nothing was picked.
 import type { ProfileModel, TipEndSide } from "./types";
 import { AUTOMATIC_CANDIDATES } from "./profiles";
+import { select } from "./optimize";
 
 /** At most this many picks enter the fits; neighbouring picks share interpretation error, so more add little. */
 export const MAX_FIT_POINTS = 900;
@@ -45,33 +46,11 @@ export interface TipLineInputs {
   spacing: { alongStrikeM: number; downDipM: number };
 }
 
-/** The value at a fraction of the way through the sorted values (nearest rank, on a copy, by quickselect). */
+/** The value at a fraction of the way through the sorted values (nearest rank, on a copy). */
 function quantileOf(values: ArrayLike<number>, fraction: number): number {
   const a = Float64Array.from(values);
   if (!a.length) return NaN;
-  const k = Math.min(a.length - 1, Math.max(0, Math.floor(fraction * (a.length - 1))));
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const tmp = a[i];
-        a[i] = a[j];
-        a[j] = tmp;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else break;
-  }
-  return a[k];
+  return select(a, Math.min(a.length - 1, Math.max(0, Math.floor(fraction * (a.length - 1)))));
 }
 
 /**
@@ -87,19 +66,21 @@ export function estimateCutoffM(d: ArrayLike<number>): number {
  * seismic lines, sparse between them) have very different spacings in the two directions.
  */
 export function directionalSpacing(s: ArrayLike<number>, t: ArrayLike<number>, triangles: ArrayLike<number>, fallbackM: number): { alongStrikeM: number; downDipM: number } {
-  const along: number[] = [];
-  const down: number[] = [];
   const stride = Math.max(1, Math.floor(triangles.length / 60_000));
+  const capacity = Math.ceil(triangles.length / stride);
+  const along = new Float64Array(capacity);
+  const down = new Float64Array(capacity);
+  let na = 0, nd = 0;
   for (let e = 0; e < triangles.length; e += stride) {
     const a = triangles[e];
     const b = triangles[e % 3 === 2 ? e - 2 : e + 1];
     const ds = Math.abs(s[a] - s[b]);
     const dt = Math.abs(t[a] - t[b]);
-    if (ds >= dt) along.push(ds);
-    else down.push(dt);
+    if (ds >= dt) along[na++] = ds;
+    else down[nd++] = dt;
   }
-  const median = (v: number[]) => (v.length ? quantileOf(v, 0.5) : fallbackM);
-  return { alongStrikeM: median(along) || fallbackM, downDipM: median(down) || fallbackM };
+  const median = (v: Float64Array, count: number) => (count ? select(v.subarray(0, count), count >> 1) : fallbackM);
+  return { alongStrikeM: median(along, na) || fallbackM, downDipM: median(down, nd) || fallbackM };
 }
 
 /** Order-independent subsample: a pick is kept when a hash of its coordinates falls in the kept fraction. */

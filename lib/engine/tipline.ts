@@ -4,7 +4,7 @@
 // the fits' uncertainty. The tip line never crosses the data, and where the data stop while displacement is still
 // high (a survey edge, a gap) that end stays open instead of getting an invented tip.
 import type { PlaneFit, ProfileModel, TipEnd, TipEndSide, TipLine, TipProfileModel } from "./types";
-import { PROFILE_CANDIDATES, PROFILE_LABELS, extrapolateTipLinear, modelRadius, modelTipPolygon } from "./profiles";
+import { PROFILE_CANDIDATES, PROFILE_LABELS, extrapolateTipLinear, modelRadius } from "./profiles";
 import { planeToWorld } from "./project";
 import { weightedQuantiles } from "./optimize";
 import type { TipLineFits, TipModel } from "./tipline-fit";
@@ -20,6 +20,11 @@ const END_ANGLE: Record<TipEndSide, number> = { "strike-start": Math.PI, "strike
 /** Rays within this angle of an end's direction decide whether the end is open. */
 const END_HALF_ANGLE = (20 * Math.PI) / 180;
 
+/** Points on a model's tip line used to find where rays cross it, and their angles' cosines and sines. */
+const TIP_VERTICES = 160;
+const UNIT_COS = Float64Array.from({ length: TIP_VERTICES }, (_, k) => Math.cos((2 * Math.PI * k) / TIP_VERTICES));
+const UNIT_SIN = Float64Array.from({ length: TIP_VERTICES }, (_, k) => Math.sin((2 * Math.PI * k) / TIP_VERTICES));
+
 /**
  * Distances from (cs, ct) to a model's tip line along each ray angle (ascending from −π): the tip line as a fine
  * polygon, walked in angle order round the centre (the tip line is convex, so every ray from inside crosses it once).
@@ -28,12 +33,16 @@ const END_HALF_ANGLE = (20 * Math.PI) / 180;
 export function modelReachAlongRays(m: Pick<TipProfileModel, "centre" | "reach" | "exponent">, cs: number, ct: number, angles: Float64Array): Float64Array {
   const out = new Float64Array(angles.length);
   if (modelRadius(m, cs, ct) >= 1) return out;
-  const polygon = modelTipPolygon(m, 240);
-  const n = polygon.length - 1;
+  // the tip line as TIP_VERTICES points (straight in typed arrays: this runs for every drawn model)
+  const n = TIP_VERTICES;
   const ps = new Float64Array(n), pt = new Float64Array(n), pa = new Float64Array(n);
+  const power = 2 / m.exponent;
   for (let k = 0; k < n; k++) {
-    ps[k] = polygon[k][0] - cs;
-    pt[k] = polygon[k][1] - ct;
+    const c = UNIT_COS[k], s = UNIT_SIN[k];
+    const a = c < 0 ? m.reach.strikeStartM : m.reach.strikeEndM;
+    const b = s < 0 ? m.reach.upDipM : m.reach.downDipM;
+    ps[k] = m.centre.s + a * Math.sign(c) * Math.pow(Math.abs(c), power) - cs;
+    pt[k] = m.centre.t + b * Math.sign(s) * Math.pow(Math.abs(s), power) - ct;
     pa[k] = Math.atan2(pt[k], ps[k]);
   }
   // vertices in angle order from the smallest, unwrapped so the angles rise through one turn (and back to the first)
@@ -260,7 +269,7 @@ export interface TipLineSummary {
  */
 export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const { candidates, inputs } = fits;
-  const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM } = inputs;
+  const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM, spacing } = inputs;
   // the centre and central line come from the published profiles (the flexible family only widens the range)
   const centralWeights = candidates.map((c) => c.centralWeight);
   let cs = 0, ct = 0;
@@ -329,8 +338,11 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   for (let q = 0; q < RAY_COUNT; q++) {
     for (let k = 0; k < drawRadii.length; k++) column[k] = drawRadii[k][q];
     const [low, high] = bounds(column);
-    inner[q] = Math.max(floor[q], Math.min(central[q], Number.isFinite(low) ? low : central[q]));
-    outer[q] = Math.max(central[q], Number.isFinite(high) ? high : central[q]);
+    // the picks sample the fault at their spacing: no tip is placed finer than half a spacing along the ray, so the
+    // band is at least that wide either side of the central line
+    const halfSpacing = 0.5 * Math.hypot(cosines[q] * spacing.alongStrikeM, sines[q] * spacing.downDipM);
+    inner[q] = Math.max(floor[q], Math.min(central[q] - halfSpacing, Number.isFinite(low) ? low : central[q]));
+    outer[q] = Math.max(central[q] + halfSpacing, Number.isFinite(high) ? high : central[q]);
     if (exits.open[q]) inner[q] = outer[q] = central[q];
   }
 
@@ -366,7 +378,8 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
     outer,
     open: exits.open,
     steepGradientPerM,
-    drawn: { lengthM: bounds(drawLengths), heightM: bounds(drawHeights), dmaxM: bounds(drawDmax) },
+    // each end of a length or height is placed no finer than half a pick spacing: the range is at least one spacing wide
+    drawn: { lengthM: atLeast(bounds(drawLengths), spacing.alongStrikeM), heightM: atLeast(bounds(drawHeights), spacing.downDipM), dmaxM: bounds(drawDmax) },
     dmaxM,
     ends,
     best: { model: best.model, shape: best.shape, centre: best.centre, reach: best.reach, exponent: best.exponent, dmaxM: best.dmaxM },
@@ -384,6 +397,12 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
     noiseM: inputs.noiseM,
     selection,
   };
+}
+
+/** A range at least `width` wide, widened evenly about its middle where narrower (NaN stays NaN). */
+function atLeast([low, high]: [number, number], width: number): [number, number] {
+  const short = width - (high - low);
+  return short > 0 ? [low - short / 2, high + short / 2] : [low, high];
 }
 
 /** The rays' directions, from −π round. */

@@ -1,4 +1,5 @@
 import Delaunator from "delaunator";
+import { select } from "./optimize";
 
 export interface Triangulation {
   /** vertex indices, three per kept triangle */
@@ -162,30 +163,4 @@ function boundaryEdges(tri: Uint32Array, half: Int32Array, removed: Uint8Array, 
     targets[first[a] + count[a]++] = tri[e % 3 === 2 ? e - 2 : e + 1];
   }
   return { first, count, targets, starts };
-}
-
-/** The k-th smallest value (0-based) by Hoare's quickselect, in place, O(n) on average — sort()[k] without the sort. */
-function select(a: Float64Array, k: number): number {
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const tmp = a[i];
-        a[i] = a[j];
-        a[j] = tmp;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else break;
-  }
-  return a[k];
 }

@@ -32,6 +32,9 @@ export interface PickColumns {
   fwThicknessM?: Float64Array;
   /** optional rake column: rake of the slip in the fault surface from its strike (degrees, −180…180), NaN where blank */
   rakeDeg?: Float64Array;
+  /** picks read in two-way time: each pick's original time and time throw (ms), kept beside the depth-converted values */
+  twtMs?: Float64Array;
+  throwMs?: Float64Array;
 }
 
 /** The kind of fault: the sense of its offset and, for oblique slip, the rake. */

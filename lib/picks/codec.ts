@@ -17,9 +17,14 @@ interface Header {
  * Every typed-array field of PickColumns is stored as is; other fields (names) go into the header.
  */
 export function encodePicks(picks: PickColumns): Uint8Array {
+  return encodeColumns(picks);
+}
+
+/** The same layout for any record of typed-array columns and plain JSON fields (e.g. cut-off vertices). */
+export function encodeColumns(record: object): Uint8Array {
   const header: Header = { columns: [], plain: {} };
   const bodies: TypedColumn[] = [];
-  for (const [key, value] of Object.entries(picks)) {
+  for (const [key, value] of Object.entries(record)) {
     if (ArrayBuffer.isView(value)) {
       const column = value as TypedColumn;
       header.columns.push({ key, type: column.constructor.name as ColumnType, length: column.length });
@@ -49,7 +54,12 @@ export function encodePicks(picks: PickColumns): Uint8Array {
  * PGlite, whose own compression of the raw bytes is slower and weaker). Runs in the worker pool, like the parsing.
  */
 export function packPicks(picks: PickColumns): Uint8Array {
-  const deflated = deflateSync(encodePicks(picks), { level: 1 });
+  return packColumns(picks);
+}
+
+/** `encodeColumns`, deflated as `packPicks` stores a pick set. */
+export function packColumns(record: object): Uint8Array {
+  const deflated = deflateSync(encodeColumns(record), { level: 1 });
   const bytes = new Uint8Array(4 + deflated.byteLength);
   new DataView(bytes.buffer).setUint32(0, PACKED_MAGIC, true);
   bytes.set(deflated, 4);
@@ -58,6 +68,11 @@ export function packPicks(picks: PickColumns): Uint8Array {
 
 /** Reads what `packPicks` or `encodePicks` wrote (pick sets stored before packing are plain). */
 export function decodePicks(stored: Uint8Array): PickColumns {
+  return decodeColumns<PickColumns>(stored);
+}
+
+/** Reads what `packColumns`, `encodeColumns`, `packPicks` or `encodePicks` wrote. */
+export function decodeColumns<T>(stored: Uint8Array): T {
   const packed = stored.byteLength >= 4 && new DataView(stored.buffer, stored.byteOffset, 4).getUint32(0, true) === PACKED_MAGIC;
   const plain = packed ? inflateSync(stored.subarray(4)) : stored;
   // Copy into a fresh buffer: driver buffers may start at any offset, typed views need alignment.
@@ -74,5 +89,5 @@ export function decodePicks(stored: Uint8Array): PickColumns {
     result[column.key] = new Constructor(bytes.buffer, offset, column.length);
     offset += Math.ceil((column.length * Constructor.BYTES_PER_ELEMENT) / 8) * 8;
   }
-  return result as unknown as PickColumns;
+  return result as T;
 }

@@ -171,6 +171,13 @@ test("3D view: along strike the fault fills the view and its labels keep apart; 
   expect(segmentLabels).toHaveLength(4);
   expectNoOverlap(segmentLabels, "scene label");
 
+  // switched to the plane map and back, the view keeps every label
+  await page.getByTestId("view-mode-map").click();
+  await page.getByTestId("view-mode-3d").click();
+  await sceneReady(page);
+  await expect(page.locator("[data-scene-label='segment']")).toHaveCount(2);
+  await expect(page.locator("[data-scene-label='peak']")).toHaveCount(2);
+
   const marker = page.getByTestId("orientation-marker");
   await expect(marker).toBeVisible();
   const axisLabels = marker.locator("[data-axis-label]");
@@ -181,4 +188,11 @@ test("3D view: along strike the fault fills the view and its labels keep apart; 
   // the scale bar sits on its own plate
   const plate = await page.getByTestId("scale-bar").evaluate((element) => getComputedStyle(element).backgroundColor);
   expect(plate).not.toBe("rgba(0, 0, 0, 0)");
+});
+
+test("without a mail server the owner reads the product's e-mail on the outbox page", async ({ page }) => {
+  await signIn(page, "owner@quillon.test");
+  await page.getByTestId("nav-outbox").click();
+  await expect(page).toHaveURL(/\/outbox$/);
+  await expect(page.getByTestId("outbox-intro")).toContainText("No mail server is configured (SMTP_URL is not set)");
 });

@@ -52,7 +52,12 @@ test("an interpreter uploads picks, sees the planted bad row, confirms, and gets
   // lib/demo.ts draws QG-4 dipping 52° from its picks exactly (0.01°: the CSV's millimetres)
   expect(Math.abs(segment.plane.dipDeg - 52)).toBeLessThan(0.01);
   // length: the tip line's, as the API reports it, and longer than the picks' own extent (it lies beyond them)
-  await expect(page.getByTestId("sheet-length")).toHaveText(sheetMetres(segment.tipLine.lengthM));
+  // with its 5–95 % range in brackets
+  const [lengthLow, lengthHigh] = segment.tipLine.lengthRangeM;
+  expect(lengthHigh).not.toBeNull();
+  await expect(page.getByTestId("sheet-length")).toHaveText(
+    `${sheetMetres(segment.tipLine.lengthM)} (${sheetMetres(lengthLow).replace(" m", "")}–${sheetMetres(lengthHigh as number)})`,
+  );
   expect(segment.tipLine.lengthM).toBeGreaterThan(segment.mappedLimit.lengthM);
   await expect(page.getByTestId("sheet-quality")).toContainText("No pick has a quality below 1");
   await expect(page.getByTestId("caution")).toContainText("Screening only");

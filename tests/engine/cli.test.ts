@@ -218,7 +218,10 @@ describe("analyze command line", () => {
     const strikeSlip = run(file, "--sense", "oblique", "--rake", "175");
     expect(strikeSlip.status).toBe(2);
     expect(strikeSlip.stderr).toContain("--rake: rake 175° is within 20° of pure strike-slip");
-    expect(run(file, "--rake", "-45").stderr).toContain("--rake is for an oblique fault");
+    expect(run(file, "--rake", "-45").stderr).toContain("for a fault whose slip is oblique add --sense oblique");
+    const pairingRake = run(file, "--rake", "45");
+    expect(pairingRake.status).toBe(2);
+    expect(pairingRake.stderr).toContain("--rake without --sense oblique is a cut-off file's pairing rake, and this is a pick file");
     const negative = path.join(dir, "negative.csv");
     writeFileSync(negative, toCsv(picks).replace(/,(\d+\.\d+),main\n/, ",-$1,main\n"));
     const refused = run(negative, "--json");

@@ -4,7 +4,8 @@ import path from "node:path";
 import { analyzePicks } from "@/lib/engine/pipeline";
 import { PLANE_CASES, regressionSummary } from "./plane-regression-cases";
 
-// Reports saved by engine 2.0.0, before the analysis read the true fault surface (tests/engine/fixtures/plane-reports.json).
+// Reports saved by engine 2.0.0 (with its faster tip-line fits), before the analysis read the true fault surface
+// (tests/engine/fixtures/plane-reports.json).
 // These picks lie exactly on their planes, so the surface is the plane and every number must come back unchanged apart
 // from floating-point noise: relative 1e-6 on lengths, areas and displacements, absolute 1e-6 on the dimensionless
 // asymmetry and 1e-3 m on the centroid (a weighted mean over ~10⁵ nodes).

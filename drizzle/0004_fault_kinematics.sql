@@ -1,2 +1,0 @@
-ALTER TABLE "faults" ADD COLUMN "rake_deg" double precision;--> statement-breakpoint
-ALTER TABLE "faults" ADD COLUMN "inversion" boolean DEFAULT false NOT NULL;

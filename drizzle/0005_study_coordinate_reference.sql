@@ -1,1 +1,0 @@
-ALTER TABLE "studies" ADD COLUMN "coordinate_reference" jsonb;

@@ -2,7 +2,7 @@
 // anywhere. All positions are in world-local metres: world position minus FaultDisplay.origin.
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
 import { sampleGrid, surfaceOffsetAt, type DisplayFrame, type DisplayGrid, type DisplaySegment, type FaultDisplay } from "@/lib/analysis/display";
-import { orientationOfNormal } from "@/lib/engine/surface";
+import { orientationOfNormal, surfaceNormal } from "@/lib/engine/surface";
 
 /** "displacement", "throw", or the key of a registered ScalarField */
 export type ColorMode = string;
@@ -146,9 +146,7 @@ export function surfaceFrameAt(segment: DisplaySegment, s: number, t: number): S
   const step = segment.grid.cellM;
   const slopeS = (surfaceOffsetAt(segment, s + step, t) - surfaceOffsetAt(segment, s - step, t)) / (2 * step);
   const slopeT = (surfaceOffsetAt(segment, s, t + step) - surfaceOffsetAt(segment, s, t - step)) / (2 * step);
-  const n = [0, 1, 2].map((axis) => frame.normal[axis] - slopeS * frame.strikeVector[axis] - slopeT * frame.dipVector[axis]);
-  const length = Math.hypot(n[0], n[1], n[2]) || 1;
-  return { offPlaneM, normal: [n[0] / length, n[1] / length, n[2] / length] };
+  return { offPlaneM, normal: surfaceNormal(slopeS, slopeT, frame) };
 }
 
 /** The surface point at (s, t), moved h along the local normal, written into out[offset..offset+2] (world-local). */

@@ -201,15 +201,9 @@ export function localOrientation(model: SurfaceModel, frame: Frame, s: number, t
   return orientationOfNormal(surfaceNormal(gradientS, gradientT, frame));
 }
 
-/** Dip (degrees) of the surface whose slopes over the frame's plane are (∂w/∂s, ∂w/∂t): the normal n̂ − w_s·ŝ − w_t·d̂. */
+/** Dip (degrees) of the surface whose slopes over the frame's plane are (∂w/∂s, ∂w/∂t). */
 function dipOfSlopes(gradientS: number, gradientT: number, frame: Frame): number {
-  const [sx, sy, sz] = frame.strikeVector;
-  const [dx, dy, dz] = frame.dipVector;
-  const [nx, ny, nz] = frame.normal;
-  const x = nx - gradientS * sx - gradientT * dx;
-  const y = ny - gradientS * sy - gradientT * dy;
-  const z = nz - gradientS * sz - gradientT * dz;
-  return (Math.acos(Math.min(1, Math.abs(z) / Math.sqrt(x * x + y * y + z * z))) * 180) / Math.PI;
+  return orientationOfNormal(surfaceNormal(gradientS, gradientT, frame)).dipDeg;
 }
 
 /** Local dip (degrees) at each point. */

@@ -4,26 +4,13 @@
 import type { GridSpec } from "./grid";
 import { extentAlongSurface, alongSurface, meanAreaStretch, reportSurfaceGrid, surfacePoint, type SurfaceModel } from "./fault-surface";
 import type { PlaneFit, SurfaceSummary, TipLine } from "./types";
+import { extents, ringArea } from "./tipline";
 
 type Frame = Pick<PlaneFit, "centroid" | "strikeVector" | "dipVector" | "normal">;
 
 /** Above this change of displacement or size, the surface's departure from its plane is said to matter (common practice, no source). */
 export const SURFACE_MATTERS_FRACTION = 0.05;
 
-function planarExtents(polygon: [number, number][]) {
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
-  for (const [s, t] of polygon) {
-    minS = Math.min(minS, s); maxS = Math.max(maxS, s);
-    minT = Math.min(minT, t); maxT = Math.max(maxT, t);
-  }
-  return { lengthM: maxS - minS, heightM: maxT - minT, minS, maxS, minT, maxT };
-}
-
-function ringArea(polygon: [number, number][]): number {
-  let area = 0;
-  for (let k = 0; k + 1 < polygon.length; k++) area += polygon[k][0] * polygon[k + 1][1] - polygon[k + 1][0] * polygon[k][1];
-  return Math.abs(area) / 2;
-}
 
 /**
  * The tip line with its size measured along the surface: length and height are the arc-length extents of the central
@@ -37,7 +24,7 @@ export function tipLineOnSurface(tip: TipLine, model: SurfaceModel, frame: Frame
   const central = along(tip.polygon);
   const inner = along(tip.innerPolygon);
   const outer = along(tip.outerPolygon);
-  const projected = planarExtents(tip.polygon);
+  const projected = extents(tip.polygon);
   const lengthScale = projected.lengthM > 0 ? central.lengthM / projected.lengthM : 1;
   const heightScale = projected.heightM > 0 ? central.heightM / projected.heightM : 1;
   const range = ([low, high]: [number, number | null], scale: number, c: number, i: number, o: number): [number, number | null] => [

@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import type { CoordinateReference } from "@/lib/crs";
 import {
   type AnyPgColumn,
   boolean,
@@ -64,6 +65,8 @@ export const studies = pgTable("studies", {
   id: id(),
   name: text("name").notNull(),
   description: text("description").notNull().default(""),
+  /** the projected CRS of the pick files' x, y and the vertical reference of z, as checked (lib/crs.ts); null: not recorded */
+  coordinateReference: jsonb("coordinate_reference").$type<CoordinateReference>(),
   createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
   createdAt: createdAt(),
 });
@@ -92,9 +95,13 @@ export const faults = pgTable(
       .references(() => studies.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     description: text("description").notNull().default(""),
-    sense: text("sense", { enum: ["normal", "reverse"] })
+    sense: text("sense", { enum: ["normal", "reverse", "oblique"] })
       .notNull()
       .default("normal"),
+    /** rake of the slip (degrees from the strike, negative normal, positive reverse); oblique faults only */
+    rakeDeg: doublePrecision("rake_deg"),
+    /** negative throw (offset of the opposite sense) is expected: the fault was inverted */
+    inversion: boolean("inversion").notNull().default(false),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },

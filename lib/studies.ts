@@ -7,26 +7,48 @@ import { changingRoles, type StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
-import { FAULT_SENSE_VALUES } from "@/lib/fault-types";
+import { FAULT_SENSE_VALUES, faultTypeFieldErrors, type FaultSense } from "@/lib/fault-types";
 import { emailSchema, type SessionUser } from "@/lib/auth/users";
+import { checkCoordinateReference, CoordinateReferenceError, type CoordinateReference } from "@/lib/crs";
 
 export const studyInputSchema = z.object({
   name: z.string().trim().min(2, "Use at least 2 characters.").max(120, "Use at most 120 characters."),
   description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
 });
-export const studyPatchSchema = studyInputSchema.partial();
+const coordinateReferenceInputSchema = z.object({
+  epsg: z.number({ error: "The EPSG code must be a whole number, e.g. 32631." }).int("The EPSG code must be a whole number, e.g. 32631.").min(1024, "EPSG codes of coordinate systems start at 1024.").max(999_999, "That is not an EPSG code."),
+  verticalEpsg: z.number({ error: "The vertical EPSG code must be a whole number, e.g. 5714." }).int("The vertical EPSG code must be a whole number, e.g. 5714.").min(1024, "That is not an EPSG code of a vertical system.").max(999_999, "That is not an EPSG code.").nullable().optional(),
+  verticalDatum: z.string().trim().max(120, "Name the vertical datum in at most 120 characters.").optional(),
+});
 
-export const faultInputSchema = z.object({
+export const studyPatchSchema = studyInputSchema.partial().extend({
+  /** the study's coordinate reference (EPSG codes), or null to clear it */
+  coordinateReference: coordinateReferenceInputSchema.nullable().optional(),
+});
+
+const faultFields = z.object({
   name: z
     .string()
     .trim()
     .min(1, "Enter a name.")
     .max(80, "Use at most 80 characters.")
     .regex(/^[\w .\-/()]+$/, "Use letters, digits, spaces and . - / ( ) only."),
-  description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
-  sense: z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(" or ")}.` }).default("normal"),
+  description: z.string().trim().max(2000, "Use at most 2000 characters."),
+  sense: z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(", ")}.` }),
+  rakeDeg: z.number({ error: "The rake must be a number of degrees." }).finite().min(-180, "The rake lies between −180° and 180°.").max(180, "The rake lies between −180° and 180°.").nullable().optional(),
+  inversion: z.boolean({ error: "Inversion is true or false." }),
 });
-export const faultPatchSchema = faultInputSchema.partial();
+
+/** The fault type's own rules (an oblique fault needs its rake, not near strike-slip), as field errors. */
+function checkFaultType(value: { sense?: FaultSense; rakeDeg?: number | null }, context: z.RefinementCtx) {
+  for (const { field, message } of faultTypeFieldErrors({ sense: value.sense ?? "normal", rakeDeg: value.rakeDeg })) context.addIssue({ code: "custom", path: [field], message });
+}
+
+export const faultInputSchema = faultFields
+  .extend({ description: faultFields.shape.description.default(""), sense: faultFields.shape.sense.default("normal"), inversion: faultFields.shape.inversion.default(false) })
+  .superRefine(checkFaultType);
+// no defaults: a patch changes only the fields it names
+export const faultPatchSchema = faultFields.partial();
 
 export const memberInputSchema = z.object({
   email: emailSchema,
@@ -76,7 +98,24 @@ export async function createStudy(user: SessionUser, input: z.infer<typeof study
 
 export async function updateStudy(access: StudyAccess, patch: z.infer<typeof studyPatchSchema>) {
   const db = await getDb();
-  const [updated] = await db.update(studies).set(patch).where(eq(studies.id, access.studyId)).returning();
+  const { coordinateReference: referenceInput, ...rest } = patch;
+  let coordinateReference: CoordinateReference | null | undefined = undefined;
+  if (referenceInput === null) coordinateReference = null;
+  else if (referenceInput) {
+    try {
+      coordinateReference = checkCoordinateReference(referenceInput);
+    } catch (error) {
+      if (!(error instanceof CoordinateReferenceError)) throw error;
+      throw new ApiError(400, error.message, { fieldErrors: { [`coordinateReference.${error.field}`]: [error.message] } });
+    }
+  }
+  const values = Object.fromEntries(Object.entries({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) }).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the study's name, description or coordinate reference.");
+  const [updated] = await db
+    .update(studies)
+    .set(values)
+    .where(eq(studies.id, access.studyId))
+    .returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
   return updated;
 }
@@ -178,6 +217,7 @@ async function latestAnalysisSummaries(faultIds: string[]): Promise<Map<string, 
 
 export async function createFault(access: StudyAccess, input: z.infer<typeof faultInputSchema>) {
   const db = await getDb();
+  if (input.sense !== "oblique") input = { ...input, rakeDeg: null };
   const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, input.name)) });
   if (clash) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   const [fault] = await db.insert(faults).values({ ...input, studyId: access.studyId, createdBy: access.user.id }).returning();
@@ -198,9 +238,45 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: z
     const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, patch.name)) });
     if (clash && clash.id !== faultId) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   }
-  const [updated] = await db.update(faults).set(patch).where(eq(faults.id, faultId)).returning();
+  const current = await getFault(faultId);
+  const typeChanged = (["sense", "rakeDeg", "inversion"] as const).some((key) => patch[key] !== undefined && patch[key] !== current[key]);
+  if (typeChanged) {
+    const sense = patch.sense ?? current.sense;
+    // an oblique fault keeps its rake unless a new one is given; another type takes none (one given is an error below)
+    const rakeDeg = sense === "oblique" ? (patch.rakeDeg !== undefined ? patch.rakeDeg : current.rakeDeg) : (patch.rakeDeg ?? null);
+    const problems = faultTypeFieldErrors({ sense, rakeDeg });
+    if (problems.length) throw new ApiError(400, problems[0].message, { fieldErrors: { rakeDeg: problems.map((problem) => problem.message) } });
+    patch = { ...patch, rakeDeg };
+  }
+  const values = Object.fromEntries(Object.entries(patch).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the fault's name, description or type (sense, rakeDeg, inversion).");
+  const [updated] = await db.update(faults).set(values).where(eq(faults.id, faultId)).returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.update", target: updated.name, details: { ...patch, faultId } });
+  // a new fault type changes how throw becomes displacement: the latest pick set is analysed again with it
+  if (typeChanged) await reanalyseLatestPickSet(faultId);
   return updated;
+}
+
+/** Queues a run of the fault's newest pick set with the settings of its latest run (none when it has no picks yet). */
+async function reanalyseLatestPickSet(faultId: string) {
+  const db = await getDb();
+  const [latest] = await db
+    .select({ pickSetId: pickSets.id, parameters: analyses.parameters })
+    .from(pickSets)
+    .leftJoin(analyses, eq(analyses.pickSetId, pickSets.id))
+    .where(eq(pickSets.faultId, faultId))
+    .orderBy(desc(pickSets.version), desc(analyses.createdAt))
+    .limit(1);
+  if (!latest) return;
+  const { rerunAnalysis } = await import("@/lib/analysis/runner");
+  const { parseAnalysisSettings } = await import("@/lib/analysis/settings");
+  let settings = {};
+  try {
+    settings = parseAnalysisSettings(latest.parameters ?? {});
+  } catch {
+    // settings stored by an older version that no longer parse: the defaults
+  }
+  await rerunAnalysis(faultId, latest.pickSetId, settings);
 }
 
 export async function deleteFault(access: StudyAccess, faultId: string) {

@@ -13,7 +13,7 @@ import { LAYER_NAMES, MAX_EXAGGERATION, useViewSettings, type LayerName } from "
 import { FaultView2D } from "./FaultView2D";
 import { placeLabels } from "@/lib/views/labels";
 import { useDarkMode } from "@/scene/useDarkMode";
-import { inSentence, metres } from "./format";
+import { azimuth, degrees, inSentence, metres } from "./format";
 
 const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
   ssr: false,
@@ -240,6 +240,12 @@ function HoverReadout() {
     ["x", metres(readout.x, 0)],
     ["y", metres(readout.y, 0)],
     ["z", metres(readout.z, 0)],
+    ...(readout.localDipDeg !== undefined && readout.localStrikeDeg !== undefined
+      ? ([
+          ["local strike", azimuth(readout.localStrikeDeg)],
+          ["local dip", degrees(readout.localDipDeg)],
+        ] as [string, string][])
+      : []),
     ["throw", metres(readout.throwM)],
     ["displacement", metres(readout.displacementM)],
   ];

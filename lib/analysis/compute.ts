@@ -1,5 +1,5 @@
 import { analyzePicks, type PipelineResult, type TipLineFitter } from "@/lib/engine/pipeline";
-import type { AnalysisReport, AnalysisSettings } from "@/lib/engine/types";
+import type { AnalysisReport, AnalysisSettings, FaultKinematics } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { buildFaultDisplay, encodeFaultDisplay } from "./display";
 
@@ -8,6 +8,8 @@ export interface AnalysisJob {
   units: "m" | "ft";
   /** the run's settings (contour interval, cell, cut-off, profiles, ends, smoothing) */
   settings?: AnalysisSettings;
+  /** the fault's type (default normal) */
+  kinematics?: FaultKinematics;
   /** "display" (default): the report and the display payload; "grids": the engine's full-resolution result (exports) */
   output?: "display" | "grids";
 }
@@ -20,12 +22,12 @@ export interface AnalysisOutput {
 /** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
 export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}, threads: { tipLineFitter?: TipLineFitter } = {}): AnalysisOutput {
   const picks = decodePicks(job.picks);
-  const { report, grids } = analyzePicks(picks, { ...job.settings, units: job.units, onStage, ...threads });
+  const { report, grids, surfaces, pickDisplacementM } = analyzePicks(picks, { ...job.settings, kinematics: job.kinematics, units: job.units, onStage, ...threads });
   onStage("display", 0.98);
-  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks })) };
+  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks, surfaces, pickDisplacementM })) };
 }
 
 /** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */
 export function computeFullResolution(job: AnalysisJob, threads: { tipLineFitter?: TipLineFitter } = {}): PipelineResult {
-  return analyzePicks(decodePicks(job.picks), { ...job.settings, units: job.units, ...threads });
+  return analyzePicks(decodePicks(job.picks), { ...job.settings, kinematics: job.kinematics, units: job.units, ...threads });
 }

@@ -25,6 +25,18 @@ export interface DisplayGrid {
   rows: number;
   displacementM: Float32Array;
   throwM: Float32Array;
+  /** the fault surface's distance from the reference plane along its normal (m), NaN outside (absent in older payloads) */
+  offPlaneM?: Float32Array;
+}
+
+/** The fault surface on a coarse grid covering the data and the tip lines, w everywhere (m): to place lines and pins on it. */
+export interface DisplaySurface {
+  s0: number;
+  t0: number;
+  cellM: number;
+  columns: number;
+  rows: number;
+  offPlaneM: Float32Array;
 }
 
 /** Contour rings flattened: ring r spans points[2*ringStarts[r] .. 2*ringStarts[r+1]) as (s, t) pairs. */
@@ -49,6 +61,8 @@ export interface DisplaySegment {
   /** per tipLine vertex, 1 where the line follows an open data edge (no tip inferred there) */
   tipOpen?: number[];
   max: { displacementM: number; throwM: number; s: number; t: number };
+  /** the surface beyond the grid's data (absent in payloads made before the true surface: the plane) */
+  surface?: DisplaySurface;
 }
 
 /** Picks for display, possibly a deterministic subsample. Positions relative to FaultDisplay.origin. */
@@ -78,6 +92,10 @@ export interface BuildFaultDisplayInput {
   /** engine grids keyed by segment id */
   grids: Record<string, RegularGrid>;
   picks: PickColumns;
+  /** displacement of every pick as the analysis computed it (local dip, rake); from the plane's dip when absent */
+  pickDisplacementM?: Float64Array;
+  /** unused here; accepted so the pipeline's result can be passed whole */
+  surfaces?: unknown;
   /** most grid nodes per side in the display */
   maxCells?: number;
   maxPicks?: number;
@@ -92,6 +110,7 @@ export function buildFaultDisplay({
   report,
   grids,
   picks,
+  pickDisplacementM,
   maxCells = DEFAULT_DISPLAY_CELLS,
   maxPicks = DEFAULT_DISPLAY_PICKS,
 }: BuildFaultDisplayInput): FaultDisplay {
@@ -102,7 +121,7 @@ export function buildFaultDisplay({
     if (!grid) throw new Error(`No grid for segment "${segment.id}".`);
     return displaySegment(segment, grid, origin, maxCells);
   });
-  const displayPicks = buildDisplayPicks(report, grids, picks, origin, maxPicks);
+  const displayPicks = buildDisplayPicks(report, grids, picks, origin, maxPicks, pickDisplacementM);
   return {
     version: 1,
     origin,
@@ -134,7 +153,31 @@ function displaySegment(segment: SegmentResult, grid: RegularGrid, origin: Vec3,
     tipOpen: [...segment.tipLine.openRays, segment.tipLine.openRays[0] ?? 0],
     mappedLimit: segment.mappedLimit.polygon.map(([s, t]) => [s, t]),
     max: { displacementM: segment.max.displacementM, throwM: segment.max.throwM, s: segment.max.s, t: segment.max.t },
+    ...(segment.surface ? { surface: displaySurface(segment.surface.grid) } : {}),
   };
+}
+
+/**
+ * The surface's distance from the reference plane at (s, t) of a segment (m): the display grid's own where it has data
+ * around (s, t), else the coarse surface (which covers the tip lines), else 0 (payloads made before the true surface).
+ */
+export function surfaceOffsetAt(segment: DisplaySegment, s: number, t: number): number {
+  const { grid, surface } = segment;
+  if (grid.offPlaneM) {
+    const w = sampleGrid(grid, grid.offPlaneM, s, t);
+    if (!Number.isNaN(w)) return w;
+  }
+  if (surface) {
+    const u = Math.min(Math.max(s, surface.s0), surface.s0 + (surface.columns - 1) * surface.cellM);
+    const v = Math.min(Math.max(t, surface.t0), surface.t0 + (surface.rows - 1) * surface.cellM);
+    const w = sampleGrid(surface, surface.offPlaneM, u, v);
+    if (!Number.isNaN(w)) return w;
+  }
+  return 0;
+}
+
+function displaySurface({ s0, t0, cellM, columns, rows, offsetM }: NonNullable<SegmentResult["surface"]>["grid"]): DisplaySurface {
+  return { s0, t0, cellM, columns, rows, offPlaneM: Float32Array.from(offsetM) };
 }
 
 /**
@@ -153,12 +196,14 @@ export function decimateGrid(grid: RegularGrid, maxCells: number): DisplayGrid {
   const rows = Math.floor((grid.rows - 1 - firstRow) / stride) + 1;
   const displacementM = new Float32Array(columns * rows);
   const throwM = new Float32Array(columns * rows);
+  const offPlaneM = grid.offPlaneM ? new Float32Array(columns * rows) : undefined;
   for (let row = 0; row < rows; row++) {
     const sourceRow = firstRow + row * stride;
     for (let column = 0; column < columns; column++) {
       const source = sourceRow * grid.columns + firstColumn + column * stride;
       displacementM[row * columns + column] = grid.displacementM[source];
       throwM[row * columns + column] = grid.throwM[source];
+      if (offPlaneM) offPlaneM[row * columns + column] = grid.offPlaneM![source];
     }
   }
   return {
@@ -169,6 +214,7 @@ export function decimateGrid(grid: RegularGrid, maxCells: number): DisplayGrid {
     rows,
     displacementM,
     throwM,
+    ...(offPlaneM ? { offPlaneM } : {}),
   };
 }
 
@@ -259,6 +305,7 @@ function buildDisplayPicks(
   picks: PickColumns,
   origin: Vec3,
   maxPicks: number,
+  pickDisplacementM?: Float64Array,
 ): DisplayPicks {
   const total = picks.x.length;
   const segmentIndexByName = picks.segmentNames.map((name) => report.segments.findIndex((s) => s.id === name));
@@ -274,9 +321,11 @@ function buildDisplayPicks(
     }
     const { centroid, strikeVector, dipVector, dipDeg } = segment.plane;
     const heave = picks.heaveM[i];
-    displacementM[i] = Number.isNaN(heave)
-      ? picks.throwM[i] / Math.sin((dipDeg * Math.PI) / 180)
-      : Math.hypot(picks.throwM[i], heave);
+    displacementM[i] = pickDisplacementM
+      ? pickDisplacementM[i]
+      : Number.isNaN(heave)
+        ? picks.throwM[i] / Math.sin((dipDeg * Math.PI) / 180)
+        : Math.hypot(picks.throwM[i], heave);
     const dx = picks.x[i] - centroid[0];
     const dy = picks.y[i] - centroid[1];
     const dz = picks.z[i] - centroid[2];

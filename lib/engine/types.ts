@@ -30,9 +30,26 @@ export interface PickColumns {
   /** optional hw_thickness / fw_thickness columns: interval thickness below the pick's horizon (m), NaN where blank */
   hwThicknessM?: Float64Array;
   fwThicknessM?: Float64Array;
+  /** optional rake column: rake of the slip in the fault surface from its strike (degrees, −180…180), NaN where blank */
+  rakeDeg?: Float64Array;
   /** picks read in two-way time: each pick's original time and time throw (ms), kept beside the depth-converted values */
   twtMs?: Float64Array;
   throwMs?: Float64Array;
+}
+
+/** The kind of fault: the sense of its offset and, for oblique slip, the rake. */
+export type FaultSense = "normal" | "reverse" | "oblique";
+
+export interface FaultKinematics {
+  sense: FaultSense;
+  /**
+   * Rake of the slip vector in the fault surface, measured from the strike direction (degrees, −180…180; negative for
+   * normal slip, positive for reverse: Aki & Richards 1980). Required for oblique faults; normal is −90 and reverse +90
+   * when absent. A pick's own `rake` column overrides it.
+   */
+  rakeDeg?: number;
+  /** throw of the opposite sense (negative throw in the file) is expected in places: the fault was inverted */
+  inversion?: boolean;
 }
 
 export interface ParseResult {
@@ -96,7 +113,7 @@ export interface TipProfileModel {
 }
 
 export interface TipLine {
-  /** central estimate, along strike and down dip (m) */
+  /** central estimate, along strike and down dip, measured along the fault surface (arc length, m) */
   lengthM: number;
   heightM: number;
   /** 5–95 % range; the upper end is null where an end is open (the length or height is then a minimum) */
@@ -105,6 +122,7 @@ export interface TipLine {
   lengthIsMinimum: boolean;
   heightIsMinimum: boolean;
   aspectRatio: number;
+  /** area inside the central tip line, on the fault surface (m²) */
   areaM2: number;
   /** where the weighted fits put the displacement maximum; the tip lines are built around it */
   centre: { s: number; t: number };
@@ -149,8 +167,47 @@ export interface RegularGrid {
   /** row-major, NaN outside the data */
   displacementM: Float64Array;
   throwM: Float64Array;
-  /** off-plane distance w of the fault surface from the segment's reference plane (m, along its normal), NaN outside */
+  /**
+   * The fault surface's distance w from the segment's reference plane (m, along its normal), NaN outside the data: the
+   * picks' w interpolated on the same triangles, then smoothed at the surface's length scale (lib/engine/fault-surface.ts)
+   */
   offPlaneM?: Float64Array;
+  /** local dip and strike (right-hand rule) of the smoothed surface at each node (degrees), NaN outside the data */
+  localDipDeg?: Float64Array;
+  localStrikeDeg?: Float64Array;
+}
+
+/** A smoothed fault surface resampled on a coarse grid that covers the tip lines: w everywhere (no NaN), m. */
+export interface SurfaceOffsetGrid {
+  s0: number;
+  t0: number;
+  cellM: number;
+  columns: number;
+  rows: number;
+  /** row-major w (m), continued beyond the data along the tangent plane of the data's edge */
+  offsetM: number[];
+}
+
+/** How far the fault surface departs from its reference plane, and what that changes. */
+export interface SurfaceSummary {
+  /** largest and RMS distance of the surface from the reference plane within the mapped area (m) */
+  maxOffsetM: number;
+  rmsOffsetM: number;
+  /** the Gaussian length scale at which the surface was smoothed to read its local dip (m) */
+  lengthScaleM: number;
+  /** 5th and 95th percentile of the local dip over the mapped area (degrees) */
+  localDipRangeDeg: [number, number];
+  /** displacement from the local dip against displacement from the plane's dip: 5th and 95th percentile of the ratio */
+  displacementRatioRange: [number, number];
+  /** length and height of the tip line measured on the reference plane (projection), for comparison (m) */
+  projectedLengthM: number;
+  projectedHeightM: number;
+  /** true when the surface departs from the plane enough to change displacement or size by more than the threshold */
+  matters: boolean;
+  /** one sentence for the fault sheet */
+  note: string;
+  /** the surface itself, coarse, for positions anywhere on it (exports, views) */
+  grid: SurfaceOffsetGrid;
 }
 
 export interface SegmentResult {
@@ -186,8 +243,12 @@ export interface SegmentResult {
       downDipPerM: number;
     };
   };
+  /** displacement-weighted centroid (s, t), weighted by surface area */
   centroidOfDisplacement: { s: number; t: number };
+  /** where Dmax sits between the tip line's ends, measured along the surface: 0 in the middle, ±1 at an end */
   asymmetry: { alongStrike: number; downDip: number };
+  /** the fault surface against its reference plane (absent in reports made before the surface was read) */
+  surface?: SurfaceSummary;
   scaling: { dOverL: number; note: string; plausible: boolean };
   contourIntervalM: number;
   contours: { levelM: number; rings: Ring[] }[];
@@ -226,13 +287,29 @@ export interface AnalysisReport {
   quality?: { picksBelowOne: number; note: string };
   /** the interpreter's settings this analysis ran with (absent: every default) */
   settings?: AnalysisSettings;
+  /** the fault's type as the analysis used it (absent in reports made before fault types: normal) */
+  kinematics?: KinematicsSummary;
   segments: SegmentResult[];
   relays: RelayResult[];
   warnings: string[];
 }
 
+export interface KinematicsSummary extends FaultKinematics {
+  /** the rake used where a pick has none (degrees) */
+  rakeDeg: number;
+  hangingWall: "down" | "up";
+  /** picks with their own rake */
+  picksWithRake: number;
+  /** picks with throw of the opposite sense (inversion) */
+  oppositeSensePicks: number;
+  /** how throw became displacement, in a sentence for the fault sheet */
+  note: string;
+}
+
 export interface AnalysisOptions {
   units?: LengthUnit;
+  /** the fault's type (default: normal, dip-slip) */
+  kinematics?: FaultKinematics;
   /** contour interval in metres; default a "nice" interval giving ~8-12 levels */
   intervalM?: number;
   /** grid cell size in metres; default from point spacing */

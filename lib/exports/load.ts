@@ -10,9 +10,12 @@ import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import { decodePicks } from "@/lib/picks/codec";
 import { lruCache } from "@/lib/lru";
 import { faultScalingPoint, type FaultScalingPoint } from "@/lib/views/scaling";
+import type { CoordinateReference } from "@/lib/crs";
 
 export interface ExportSource {
   fault: { id: string; name: string; studyId: string; studyName: string };
+  /** the study's coordinate reference (null: not recorded) */
+  coordinateReference: CoordinateReference | null;
   analysis: { id: string; engineVersion: string | null; finishedAt: Date | null; parameters: Record<string, unknown> };
   pickSet: { id: string; version: number; fileName: string; checksum: string; units: "m" | "ft"; rowCount: number; uploadedAt: Date; uploadedBy: string | null };
   report: AnalysisReport;
@@ -26,6 +29,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
       faultName: faults.name,
       studyId: faults.studyId,
       studyName: studies.name,
+      coordinateReference: studies.coordinateReference,
       analysisId: analyses.id,
       engineVersion: analyses.engineVersion,
       finishedAt: analyses.finishedAt,
@@ -53,6 +57,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
   if (!row || !row.result) throw new ApiError(404, analysisId ? "That analysis of this fault is not finished or does not exist." : "This fault has no finished analysis to export yet.");
   return {
     fault: { id: faultId, name: row.faultName, studyId: row.studyId, studyName: row.studyName },
+    coordinateReference: row.coordinateReference ?? null,
     analysis: { id: row.analysisId, engineVersion: row.engineVersion, finishedAt: row.finishedAt, parameters: row.parameters },
     pickSet: {
       id: row.pickSetId,
@@ -91,7 +96,10 @@ export async function recomputeFullResolution(source: ExportSource, signal?: Abo
   if (cached) return cached;
   const bytes = await storedPickBytes(source);
   // seconds of work on a large pick set: off the web server's thread, like an analysis
-  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
+  // the fault type the analysis ran with, so the grids are the analysis' own
+  const used = source.report.kinematics;
+  const kinematics = used ? { sense: used.sense, rakeDeg: used.rakeDeg, inversion: used.inversion } : undefined;
+  const result = await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters), kinematics }, signal);
   const picks = decodePicks(bytes);
   recomputed.set(source.analysis.id, { picks, result });
   return { picks, result };

@@ -3,14 +3,14 @@ import { sampleGrid } from "@/lib/analysis/display";
 import type { PipelineResult } from "@/lib/engine/pipeline";
 import type { PickColumns } from "@/lib/engine/types";
 import { toCsv, type CsvCell } from "@/lib/views/csv";
-import { columnMaxProfile, planePointToWorld, strikeProfileAtT } from "@/lib/views/profiles";
+import { columnMaxProfile, strikeProfileAtT, surfacePointToWorld } from "@/lib/views/profiles";
 
 export { GRID_CSV_HEADER, gridCsv } from "@/lib/views/grid-csv";
 
 export const PICKS_CSV_HEADER = ["row", "segment", "horizon", "x", "y", "z", "throw", "heave", "s", "t", "displacement", "surface_displacement", "residual"];
 
 /** Picks with their plane coordinates, displacement, the surface value at the pick and the residual (pick − surface), m. */
-export function picksCsv(picks: PickColumns, { report, grids }: PipelineResult): string {
+export function picksCsv(picks: PickColumns, { report, grids, pickDisplacementM }: PipelineResult, comments: string[] = []): string {
   const bySegmentName = new Map(report.segments.map((segment) => [segment.id, segment]));
   function* rows(): Generator<CsvCell[]> {
     for (let i = 0; i < picks.x.length; i++) {
@@ -22,35 +22,36 @@ export function picksCsv(picks: PickColumns, { report, grids }: PipelineResult):
         yield [picks.sourceRow[i], name, horizon, picks.x[i], picks.y[i], picks.z[i], picks.throwM[i], heave, NaN, NaN, NaN, NaN, NaN];
         continue;
       }
-      const { centroid, strikeVector, dipVector, dipDeg } = segment.plane;
+      const { centroid, strikeVector, dipVector } = segment.plane;
       const dx = picks.x[i] - centroid[0];
       const dy = picks.y[i] - centroid[1];
       const dz = picks.z[i] - centroid[2];
       const s = dx * strikeVector[0] + dy * strikeVector[1] + dz * strikeVector[2];
       const t = dx * dipVector[0] + dy * dipVector[1] + dz * dipVector[2];
-      const displacement = Number.isNaN(heave) ? picks.throwM[i] / Math.sin((dipDeg * Math.PI) / 180) : Math.hypot(picks.throwM[i], heave);
+      // from the local dip and the rake, as the analysis computed it
+      const displacement = pickDisplacementM[i];
       const grid = grids[segment.id];
       const surface = grid ? sampleGrid(grid, grid.displacementM, s, t) : NaN;
       yield [picks.sourceRow[i], name, horizon, picks.x[i], picks.y[i], picks.z[i], picks.throwM[i], heave, s, t, displacement, surface, displacement - surface];
     }
   }
-  return toCsv(PICKS_CSV_HEADER, rows());
+  return toCsv(PICKS_CSV_HEADER, rows(), comments);
 }
 
 export const PROFILE_CSV_HEADER = ["segment", "mode", "s", "t", "x", "y", "z", "displacement", "throw"];
 
 /** Strike profiles of every segment at full resolution: the centre line through Dmax, or the maximum per column. */
-export function profilesCsv({ report, grids }: PipelineResult, mode: "centre-line" | "column-max"): string {
+export function profilesCsv({ report, grids }: PipelineResult, mode: "centre-line" | "column-max", comments: string[] = []): string {
   function* rows(): Generator<CsvCell[]> {
     for (const segment of report.segments) {
       const grid = grids[segment.id];
       if (!grid) continue;
       const profile = mode === "column-max" ? columnMaxProfile(grid) : strikeProfileAtT(grid, segment.max.t);
       for (let k = 0; k < profile.s.length; k++) {
-        const [x, y, z] = Number.isFinite(profile.t[k]) ? planePointToWorld(segment.plane, profile.s[k], profile.t[k]) : [NaN, NaN, NaN];
+        const [x, y, z] = Number.isFinite(profile.t[k]) ? surfacePointToWorld(segment, profile.s[k], profile.t[k]) : [NaN, NaN, NaN];
         yield [segment.id, mode, profile.s[k], profile.t[k], x, y, z, profile.displacementM[k], profile.throwM[k]];
       }
     }
   }
-  return toCsv(PROFILE_CSV_HEADER, rows());
+  return toCsv(PROFILE_CSV_HEADER, rows(), comments);
 }

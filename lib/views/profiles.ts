@@ -4,6 +4,7 @@
 import { sampleGrid } from "@/lib/analysis/display";
 import { PROFILE_LABELS, modelRadius, profileFunction } from "@/lib/engine/profiles";
 import type { SegmentResult } from "@/lib/engine/types";
+import { offsetFromReportGrid } from "@/lib/engine/fault-surface";
 
 export interface GridLike {
   s0: number;
@@ -252,6 +253,19 @@ export function planePointToWorld(plane: SegmentResult["plane"], s: number, t: n
   const [sx, sy, sz] = plane.strikeVector;
   const [dx, dy, dz] = plane.dipVector;
   return [cx + s * sx + t * dx, cy + s * sy + t * dy, cz + s * sz + t * dz];
+}
+
+/**
+ * World position of the fault surface over plane coordinates (s, t) of a segment: the plane point moved along the
+ * plane's normal by the surface's offset there (the report's coarse copy of the surface); the plane point for reports
+ * made before the true surface was read.
+ */
+export function surfacePointToWorld(segment: Pick<SegmentResult, "plane" | "surface">, s: number, t: number): [number, number, number] {
+  const [x, y, z] = planePointToWorld(segment.plane, s, t);
+  if (!segment.surface) return [x, y, z];
+  const w = offsetFromReportGrid(segment.surface.grid, s, t);
+  const [nx, ny, nz] = segment.plane.normal;
+  return [x + w * nx, y + w * ny, z + w * nz];
 }
 
 export function alongStrike(frame: StrikeFrame, x: number, y: number): number {

@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import type { CoordinateReference } from "@/lib/crs";
 import {
   type AnyPgColumn,
   boolean,
@@ -72,6 +73,8 @@ export const studies = pgTable("studies", {
   id: id(),
   name: text("name").notNull(),
   description: text("description").notNull().default(""),
+  /** the projected CRS of the pick files' x, y and the vertical reference of z, as checked (lib/crs.ts); null: not recorded */
+  coordinateReference: jsonb("coordinate_reference").$type<CoordinateReference>(),
   createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
   createdAt: createdAt(),
 });
@@ -103,6 +106,10 @@ export const faults = pgTable(
     sense: text("sense", { enum: FAULT_SENSE_VALUES })
       .notNull()
       .default("normal"),
+    /** rake of the slip (degrees from the strike, negative normal, positive reverse); oblique faults only */
+    rakeDeg: doublePrecision("rake_deg"),
+    /** negative throw (offset of the opposite sense) is expected: the fault was inverted */
+    inversion: boolean("inversion").notNull().default(false),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
@@ -211,7 +218,7 @@ export const analyses = pgTable(
     parameters: jsonb("parameters").$type<AnalysisSettings>().notNull().default(sql`'{}'::jsonb`),
     /** the engine's report, its contour levels without rings (the display payload holds them) */
     result: jsonb("result").$type<AnalysisReport>(),
-    /** decimated display grids for the 3D view (see lib/analysis/display.ts) */
+    /** decimated display grids for the 3D view (see lib/display/payload.ts) */
     display: bytea("display"),
     engineVersion: text("engine_version"),
     errorMessage: text("error_message"),

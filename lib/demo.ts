@@ -8,8 +8,9 @@ import { twtFromDepthLinear, type LinearVelocityModel } from "@/lib/engine/time-
 /**
  * The invented Quillon Graben demo: a fictional offshore basin screened for CO2 storage.
  * QG-1: two overlapping normal-fault segments (north and south) with a relay ramp between them.
- * QG-4: an isolated blind normal fault with an elliptical tip line.
- * Picks are drawn from published displacement models with noise and a 10 m resolution cut-off.
+ * QG-4: an isolated blind normal fault with an elliptical tip line, gently listric (dip 60° at its top to 44° at its base).
+ * Picks are drawn from published displacement models with noise and a 10 m resolution cut-off, and scattered off the
+ * fault surface by a few metres (as picks made on seismic are).
  */
 const BASIN_CENTRE: [number, number, number] = [462_400, 6_731_800, -2_150];
 
@@ -26,7 +27,7 @@ function qg1Segments(): SyntheticFaultOptions[] {
   const along = strikeUnit(strikeDeg);
   const across = strikeUnit(strikeDeg + 90);
   const shift = 2 * halfLengthM - overlapM;
-  const common = { strikeDeg, dipDeg: 58, halfLengthM, aspectRatio: 2.1, noiseM: 2, throwCutoffM: 10, pickCount: 2600, profile: "walsh-watterson-1987" as const };
+  const common = { strikeDeg, dipDeg: 58, halfLengthM, aspectRatio: 2.1, noiseM: 2, scatterM: 2, throwCutoffM: 10, pickCount: 2600, profile: "walsh-watterson-1987" as const };
   const north: [number, number, number] = [BASIN_CENTRE[0] - (shift / 2) * along[0], BASIN_CENTRE[1] - (shift / 2) * along[1], BASIN_CENTRE[2]];
   const south: [number, number, number] = [north[0] + shift * along[0] + separationM * across[0], north[1] + shift * along[1] + separationM * across[1], BASIN_CENTRE[2] - 40];
   return [
@@ -40,6 +41,8 @@ function qg4(): SyntheticFaultOptions {
     segment: "main",
     strikeDeg: 318,
     dipDeg: 52,
+    listric: { dipTopDeg: 60, dipBaseDeg: 44 },
+    scatterM: 3,
     halfLengthM: 1250,
     aspectRatio: 2.3,
     dmaxM: 46,
@@ -61,7 +64,7 @@ export const DEMO_FAULTS = [
   },
   {
     name: "QG-4",
-    description: "Isolated blind normal fault below the top-seal horizon, east of the closure.",
+    description: "Isolated blind normal fault below the top-seal horizon, east of the closure; gently listric, flattening from about 60° to 44° with depth.",
     fileName: "qg-4-throw-picks.csv",
     options: () => [qg4()],
     seed: 4402,
@@ -77,6 +80,8 @@ export function demoCsv(name: (typeof DEMO_FAULTS)[number]["name"]) {
   return toCsv(demoPicks(name).picks);
 }
 
+/** The demo study's coordinate reference: WGS 84 / UTM zone 31N, z above mean sea level (MSL height). */
+export const DEMO_COORDINATE_REFERENCE = { epsg: 32631, verticalEpsg: 5714 };
 // ---- QG-1's cut-off lines, in two-way time ------------------------------------------------------------------------
 
 /** The velocity model the demo's interpreters state for the Quillon Graben: v(z) = 1800 + 0.6 z m/s (invented). */

@@ -8,7 +8,9 @@ import { ApiError } from "@/lib/api/errors";
 import { studyActivity } from "@/lib/activity/load";
 import { recordAudit } from "@/lib/audit";
 import type { SessionUser } from "@/lib/auth/users";
-import type { FaultInput, StudyInput } from "@/lib/contracts/studies";
+import type { FaultInput, StudyInput, StudyPatch } from "@/lib/contracts/studies";
+import { faultTypeFieldErrors } from "@/lib/fault-types";
+import { checkCoordinateReference, CoordinateReferenceError, type CoordinateReference } from "@/lib/crs";
 
 
 export async function listStudiesFor(user: SessionUser) {
@@ -51,9 +53,26 @@ export async function createStudy(user: SessionUser, input: StudyInput) {
   return study;
 }
 
-export async function updateStudy(access: StudyAccess, patch: Partial<StudyInput>) {
+export async function updateStudy(access: StudyAccess, patch: StudyPatch) {
   const db = await getDb();
-  const [updated] = await db.update(studies).set(patch).where(eq(studies.id, access.studyId)).returning();
+  const { coordinateReference: referenceInput, ...rest } = patch;
+  let coordinateReference: CoordinateReference | null | undefined = undefined;
+  if (referenceInput === null) coordinateReference = null;
+  else if (referenceInput) {
+    try {
+      coordinateReference = checkCoordinateReference(referenceInput);
+    } catch (error) {
+      if (!(error instanceof CoordinateReferenceError)) throw error;
+      throw new ApiError(400, error.message, { fieldErrors: { [`coordinateReference.${error.field}`]: [error.message] } });
+    }
+  }
+  const values = Object.fromEntries(Object.entries({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) }).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the study's name, description or coordinate reference.");
+  const [updated] = await db
+    .update(studies)
+    .set(values)
+    .where(eq(studies.id, access.studyId))
+    .returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
   return updated;
 }
@@ -155,6 +174,7 @@ async function latestAnalysisSummaries(faultIds: string[]): Promise<Map<string, 
 
 export async function createFault(access: StudyAccess, input: FaultInput) {
   const db = await getDb();
+  if (input.sense !== "oblique") input = { ...input, rakeDeg: null };
   const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, input.name)) });
   if (clash) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   const [fault] = await db.insert(faults).values({ ...input, studyId: access.studyId, createdBy: access.user.id }).returning();
@@ -175,9 +195,45 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: P
     const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, patch.name)) });
     if (clash && clash.id !== faultId) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   }
-  const [updated] = await db.update(faults).set(patch).where(eq(faults.id, faultId)).returning();
+  const current = await getFault(faultId);
+  const typeChanged = (["sense", "rakeDeg", "inversion"] as const).some((key) => patch[key] !== undefined && patch[key] !== current[key]);
+  if (typeChanged) {
+    const sense = patch.sense ?? current.sense;
+    // an oblique fault keeps its rake unless a new one is given; another type takes none (one given is an error below)
+    const rakeDeg = sense === "oblique" ? (patch.rakeDeg !== undefined ? patch.rakeDeg : current.rakeDeg) : (patch.rakeDeg ?? null);
+    const problems = faultTypeFieldErrors({ sense, rakeDeg });
+    if (problems.length) throw new ApiError(400, problems[0].message, { fieldErrors: { rakeDeg: problems.map((problem) => problem.message) } });
+    patch = { ...patch, rakeDeg };
+  }
+  const values = Object.fromEntries(Object.entries(patch).filter(([, value]) => value !== undefined));
+  if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the fault's name, description or type (sense, rakeDeg, inversion).");
+  const [updated] = await db.update(faults).set(values).where(eq(faults.id, faultId)).returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.update", target: updated.name, details: { ...patch, faultId } });
+  // a new fault type changes how throw becomes displacement: the latest pick set is analysed again with it
+  if (typeChanged) await reanalyseLatestPickSet(faultId);
   return updated;
+}
+
+/** Queues a run of the fault's newest pick set with the settings of its latest run (none when it has no picks yet). */
+async function reanalyseLatestPickSet(faultId: string) {
+  const db = await getDb();
+  const [latest] = await db
+    .select({ pickSetId: pickSets.id, parameters: analyses.parameters })
+    .from(pickSets)
+    .leftJoin(analyses, eq(analyses.pickSetId, pickSets.id))
+    .where(eq(pickSets.faultId, faultId))
+    .orderBy(desc(pickSets.version), desc(analyses.createdAt))
+    .limit(1);
+  if (!latest) return;
+  const { rerunAnalysis } = await import("@/lib/analysis/runner");
+  const { parseAnalysisSettings } = await import("@/lib/contracts/analysis-settings");
+  let settings = {};
+  try {
+    settings = parseAnalysisSettings(latest.parameters ?? {});
+  } catch {
+    // settings stored by an older version that no longer parse: the defaults
+  }
+  await rerunAnalysis(faultId, latest.pickSetId, settings);
 }
 
 export async function deleteFault(access: StudyAccess, faultId: string) {

@@ -10,7 +10,8 @@ import * as THREE from "three";
 import type { OrbitControls as OrbitControlsImpl } from "three-stdlib";
 import type { DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
 import type { Vec3 } from "@/lib/contracts/json";
-import { planeToWorld, shiftedFrame, worldToPlane, writePlaneToWorld } from "@/lib/display/frame";
+import { worldToPlane } from "@/lib/display/frame";
+import { surfaceOffsetAt } from "@/lib/display/surface";
 import {
   buildContourLines,
   buildMappedLimitLines,
@@ -21,7 +22,10 @@ import {
   displayBounds,
   displayExtentM,
   lineLiftM,
+  localOrientationAt,
   residualRangeM,
+  surfaceCoordinates,
+  surfacePoint,
   surfaceValueAt,
   buildOpenTipLines,
   buildTipBandLines,
@@ -52,7 +56,7 @@ export interface ScenePin {
 }
 
 export interface SurfaceHit {
-  /** world coordinates of the point on the fault plane, m */
+  /** world coordinates of the point on the fault surface (the true surface, without relief), m */
   x: number;
   y: number;
   z: number;
@@ -80,7 +84,40 @@ declare global {
     __slipfieldFrameTimes?: number[];
     __slipfieldCamera?: () => CameraState | null;
     __slipfieldApplyCamera?: (camera: CameraState) => void;
+    /** the drawn surfaces' vertices read back: their distance from each segment's reference plane (test hook) */
+    __slipfieldSurfaceProbe?: () => SurfaceProbe[];
   }
+}
+
+/** What the test hook reads back from one segment's drawn surface mesh. */
+export interface SurfaceProbe {
+  segmentId: string;
+  vertexCount: number;
+  exaggeration: number;
+  /** largest and RMS distance of the drawn vertices from the segment's reference plane (m) */
+  maxPlaneDistanceM: number;
+  rmsPlaneDistanceM: number;
+}
+
+const surfaceProbes = new Map<string, () => SurfaceProbe>();
+
+/** The drawn vertices' distances from the reference plane, from the geometry the GPU was given. */
+function probeSurface(segment: DisplaySegment, geometry: THREE.BufferGeometry, exaggeration: number): SurfaceProbe {
+  const positions = geometry.getAttribute("position").array as Float32Array;
+  const index = geometry.getIndex();
+  const used = new Uint8Array(positions.length / 3);
+  if (index) for (let k = 0; k < index.count; k++) used[index.getX(k)] = 1;
+  else used.fill(1);
+  const { centroid, normal } = segment.frame;
+  let count = 0, sumSquares = 0, largest = 0;
+  for (let vertex = 0; vertex < used.length; vertex++) {
+    if (!used[vertex]) continue;
+    const distance = Math.abs((positions[vertex * 3] - centroid[0]) * normal[0] + (positions[vertex * 3 + 1] - centroid[1]) * normal[1] + (positions[vertex * 3 + 2] - centroid[2]) * normal[2]);
+    count++;
+    sumSquares += distance * distance;
+    largest = Math.max(largest, distance);
+  }
+  return { segmentId: segment.id, vertexCount: count, exaggeration, maxPlaneDistanceM: largest, rmsPlaneDistanceM: count ? Math.sqrt(sumSquares / count) : 0 };
 }
 
 const COLORS = {
@@ -247,17 +284,32 @@ function SegmentSurface({
   colorHighM: number;
   onSurfaceClick?: (hit: SurfaceHit) => void;
 }) {
+  // shaded where there is relief or the surface bends away from its plane; flat colours (the legend's exactly) otherwise
+  const shaded = exaggeration > 0 || surfaceBends(segment);
   const geometry = useDisposable(() => {
     const built = bufferGeometry(buildSurfaceMesh(segment, { colourMode, exaggeration, colorRangeM: [colorLowM, colorHighM], fieldValues, reversed }));
-    if (exaggeration > 0) built.computeVertexNormals();
+    if (shaded) built.computeVertexNormals();
     return built;
-  }, [segment, colourMode, exaggeration, colorLowM, colorHighM, fieldValues, reversed]);
+  }, [segment, colourMode, exaggeration, colorLowM, colorHighM, fieldValues, reversed, shaded]);
+  useEffect(() => {
+    if (!testHooksEnabled()) return;
+    surfaceProbes.set(segment.id, () => probeSurface(segment, geometry, exaggeration));
+    window.__slipfieldSurfaceProbe = () => [...surfaceProbes.values()].map((probe) => probe());
+    return () => {
+      surfaceProbes.delete(segment.id);
+    };
+  }, [segment, geometry, exaggeration]);
   const publishReadout = useReadoutPublisher();
 
   const hitAt = (point: THREE.Vector3) => {
-    const [s, t] = worldToPlane(segment.frame, point.x, point.y, point.z);
-    const [x, y, z] = planeToWorld(shiftedFrame(segment.frame, origin), s, t);
-    return { s, t, x, y, z };
+    // the point on the drawn surface back to (s, t), then the true surface point there (the relief taken off)
+    const [s, t] = surfaceCoordinates(segment, point.x, point.y, point.z, (u, v) => {
+      const displacement = surfaceValueAt(segment.grid, segment.grid.displacementM, u, v);
+      return Number.isNaN(displacement) ? 0 : displacement * exaggeration;
+    });
+    const local = new Float64Array(3);
+    surfacePoint(segment, s, t, 0, local, 0);
+    return { s, t, x: origin[0] + local[0], y: origin[1] + local[1], z: origin[2] + local[2] };
   };
 
   return (
@@ -267,9 +319,12 @@ function SegmentSurface({
       onPointerMove={(event: ThreeEvent<PointerEvent>) => {
         event.stopPropagation();
         const hit = hitAt(event.point);
+        const { strikeDeg, dipDeg } = localOrientationAt(segment, hit.s, hit.t);
         publishReadout({
           segmentId: segment.id,
           ...hit,
+          localStrikeDeg: strikeDeg,
+          localDipDeg: dipDeg,
           displacementM: surfaceValueAt(segment.grid, segment.grid.displacementM, hit.s, hit.t),
           throwM: surfaceValueAt(segment.grid, segment.grid.throwM, hit.s, hit.t),
           fieldValue: fieldValues ? surfaceValueAt(segment.grid, fieldValues, hit.s, hit.t) : undefined,
@@ -282,7 +337,7 @@ function SegmentSurface({
         onSurfaceClick({ ...hitAt(event.point), segmentId: segment.id });
       }}
     >
-      {exaggeration > 0 ? (
+      {shaded ? (
         <meshLambertMaterial vertexColors side={THREE.DoubleSide} />
       ) : (
         // flat on the plane there is no relief to shade: show the legend's colours exactly
@@ -290,6 +345,19 @@ function SegmentSurface({
       )}
     </mesh>
   );
+}
+
+/** Whether the segment's surface departs from its plane by more than a few cells' worth of slope (shading shows it). */
+function surfaceBends(segment: DisplaySegment): boolean {
+  const offsets = segment.grid.offPlaneM;
+  if (!offsets) return false;
+  let low = Infinity, high = -Infinity;
+  for (const value of offsets) {
+    if (Number.isNaN(value)) continue;
+    low = Math.min(low, value);
+    high = Math.max(high, value);
+  }
+  return high - low > 0.25 * segment.grid.cellM;
 }
 
 // ---- lines ----------------------------------------------------------------------------------------------
@@ -412,19 +480,42 @@ function PeakMarkers({ display, exaggeration }: { display: FaultDisplay; exagger
   );
 }
 
+/**
+ * Where a pin is drawn (world-local): on the drawn surface of the segment it lies on (the one whose surface it is
+ * nearest), with the relief there, so a pin sits on the surface at any exaggeration; its stored point when off every grid.
+ */
+function pinOnSurface(display: FaultDisplay, pin: ScenePin, exaggeration: number): [number, number, number] {
+  const x = pin.x - display.origin[0], y = pin.y - display.origin[1], z = pin.z - display.origin[2];
+  let best: { segment: DisplaySegment; s: number; t: number; distance: number } | null = null;
+  for (const segment of display.segments) {
+    const [s, t, h] = worldToPlane(segment.frame, x, y, z);
+    const { grid } = segment;
+    if (s < grid.s0 || t < grid.t0 || s > grid.s0 + (grid.columns - 1) * grid.cellM || t > grid.t0 + (grid.rows - 1) * grid.cellM) continue;
+    const distance = Math.abs(h - surfaceOffsetAt(segment, s, t));
+    if (!best || distance < best.distance) best = { segment, s, t, distance };
+  }
+  if (!best) return [x, y, z];
+  const displacement = surfaceValueAt(best.segment.grid, best.segment.grid.displacementM, best.s, best.t);
+  const point = new Float64Array(3);
+  surfacePoint(best.segment, best.s, best.t, (Number.isNaN(displacement) ? 0 : displacement * exaggeration) + lineLiftM(display), point, 0);
+  return [point[0], point[1], point[2]];
+}
+
 function PinMarkers({ display, pins }: { display: FaultDisplay; pins: ScenePin[] }) {
+  const exaggeration = useSceneSettings((state) => state.exaggeration);
   const geometry = useDisposable(() => {
     const positions = new Float32Array(pins.length * 3);
     const colors = new Float32Array(pins.length * 3);
     const color = new THREE.Color();
     pins.forEach((pin, i) => {
-      positions[i * 3] = pin.x - display.origin[0];
-      positions[i * 3 + 1] = pin.y - display.origin[1];
-      positions[i * 3 + 2] = pin.z - display.origin[2];
+      const local = pinOnSurface(display, pin, exaggeration);
+      positions[i * 3] = local[0];
+      positions[i * 3 + 1] = local[1];
+      positions[i * 3 + 2] = local[2];
       color.set(pin.resolved ? COLORS.pinResolved : COLORS.pinOpen).toArray(colors, i * 3);
     });
     return bufferGeometry({ positions, colors });
-  }, [display, pins]);
+  }, [display, pins, exaggeration]);
   const texture = useMarkerTexture("pin");
   return (
     <points geometry={geometry} renderOrder={5}>
@@ -464,10 +555,10 @@ function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLa
     for (const segment of display.segments) {
       const top = segment.tipLine.reduce((best, point) => (point[1] < best[1] ? point : best), segment.tipLine[0] ?? [0, 0]);
       const point = new Float32Array(3);
-      writePlaneToWorld(segment.frame, top[0], top[1], lift, point, 0);
+      surfacePoint(segment, top[0], top[1], lift, point, 0);
       out.push({ key: `${segment.id}:segment`, kind: "segment", text: `Segment ${segment.id}`, position: [point[0], point[1], point[2]] });
       if (showPeak) {
-        writePlaneToWorld(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point, 0);
+        surfacePoint(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point, 0);
         out.push({ key: `${segment.id}:peak`, kind: "peak", text: `Peak ${formatMetres(segment.max.displacementM)}`, position: [point[0], point[1], point[2]] });
       }
     }
@@ -566,6 +657,7 @@ function useLabelDeclutter(labels: SceneLabel[], elements: React.RefObject<Map<s
     });
   });
 }
+
 
 function DepthLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {
   const labels = useMemo(() => depthLabels(display, display.origin[2]), [display]);

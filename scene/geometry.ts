@@ -2,9 +2,11 @@
 // anywhere. All positions are in world-local metres: world position minus FaultDisplay.origin.
 import { interpolateRdBu, interpolateViridis } from "d3-scale-chromatic";
 import type { ColourMode } from "@/lib/contracts/scene-settings";
-import type { DisplayGrid, DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
-import { writePlaneToWorld } from "@/lib/display/frame";
+import type { DisplayFrame, DisplayGrid, DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
+import { planeToWorld, worldToPlane, writePlaneToWorld } from "@/lib/display/frame";
 import { AS_DRAWN, EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
+import { surfaceOffsetAt } from "@/lib/display/surface";
+import { orientationOfNormal, surfaceNormal } from "@/lib/engine/surface";
 
 
 
@@ -84,6 +86,68 @@ export const residualColorLut = () => (residualLut ??= colorLut(residualInterpol
 
 // ---- the plane frame -------------------------------------------------------------------------------------
 
+/** (s, t, h) of a world-local point in a segment's frame (lib/display/frame.ts) */
+export function frameCoordinates(frame: DisplayFrame, x: number, y: number, z: number): [number, number, number] {
+  return worldToPlane(frame, x, y, z);
+}
+
+// ---- the true fault surface -------------------------------------------------------------------------------
+// P(s, t) = c + s·ŝ + t·d̂ + w(s, t)·n̂: the reference plane moved along its normal by the surface's offset w (the
+// display grid's, or the coarse surface beyond it). Relief (displacement × exaggeration) and line lifts go along the
+// surface's own local normal, n̂ − ∂w/∂s·ŝ − ∂w/∂t·d̂ normalised, so they stand off the surface where it curves.
+// Displays made before the true surface have no offsets: w = 0, and everything lies on the plane as before.
+
+export interface SurfaceFrame {
+  /** offset from the reference plane along its normal (m) */
+  offPlaneM: number;
+  /** unit local normal, upward (hanging-wall side) */
+  normal: [number, number, number];
+}
+
+/** Offset and local normal of a segment's surface at (s, t) (central differences one display cell apart). */
+export function surfaceFrameAt(segment: DisplaySegment, s: number, t: number): SurfaceFrame {
+  const { frame } = segment;
+  const offPlaneM = surfaceOffsetAt(segment, s, t);
+  if (!segment.grid.offPlaneM && !segment.surface) return { offPlaneM, normal: [...frame.normal] };
+  const step = segment.grid.cellM;
+  const slopeS = (surfaceOffsetAt(segment, s + step, t) - surfaceOffsetAt(segment, s - step, t)) / (2 * step);
+  const slopeT = (surfaceOffsetAt(segment, s, t + step) - surfaceOffsetAt(segment, s, t - step)) / (2 * step);
+  return { offPlaneM, normal: surfaceNormal(slopeS, slopeT, frame) };
+}
+
+/** The surface point at (s, t), moved h along the local normal, written into out[offset..offset+2] (world-local). */
+export function surfacePoint(segment: DisplaySegment, s: number, t: number, h: number, out: Float32Array | Float64Array, offset: number) {
+  const { frame } = segment;
+  const { offPlaneM, normal } = h === 0 ? { offPlaneM: surfaceOffsetAt(segment, s, t), normal: frame.normal } : surfaceFrameAt(segment, s, t);
+  // the plane point raised by the surface's offset along the plane's normal, then h along the surface's own normal
+  const onSurface = planeToWorld(frame, s, t, offPlaneM);
+  for (let axis = 0; axis < 3; axis++) out[offset + axis] = onSurface[axis] + h * normal[axis];
+}
+
+/** Local strike and dip of the surface at (s, t) (degrees; strike by the right-hand rule, as the plane's). */
+export function localOrientationAt(segment: DisplaySegment, s: number, t: number): { strikeDeg: number; dipDeg: number } {
+  const { strikeDeg, dipDeg } = orientationOfNormal(surfaceFrameAt(segment, s, t).normal);
+  return { strikeDeg, dipDeg };
+}
+
+/**
+ * (s, t) of a world-local point on the drawn surface (relief `reliefAt(s, t)` along the local normal): the point
+ * projected on the plane, then corrected for the surface's offset and relief a few times (they move it by a small
+ * fraction of themselves where the surface is tilted from the plane).
+ */
+export function surfaceCoordinates(segment: DisplaySegment, x: number, y: number, z: number, reliefAt: (s: number, t: number) => number = () => 0): [number, number] {
+  let [s, t] = frameCoordinates(segment.frame, x, y, z);
+  const point = new Float64Array(3);
+  for (let k = 0; k < 12; k++) {
+    surfacePoint(segment, s, t, reliefAt(s, t), point, 0);
+    const [ds, dt] = frameCoordinates(segment.frame, x - point[0] + segment.frame.centroid[0], y - point[1] + segment.frame.centroid[1], z - point[2] + segment.frame.centroid[2]);
+    s += ds;
+    t += dt;
+    if (Math.abs(ds) + Math.abs(dt) < 1e-3) break;
+  }
+  return [s, t];
+}
+
 /** lines sit this far off the surface along the normal so they are not hidden in it */
 export function lineLiftM(display: FaultDisplay): number {
   return Math.max(0.5, displayExtentM(display) * 0.002);
@@ -121,7 +185,7 @@ export interface SurfaceOptions {
  * Cells split along the (column, row)–(column+1, row+1) diagonal, as `surfaceValueAt` assumes.
  */
 export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOptions): MeshArrays {
-  const { grid, frame } = segment;
+  const { grid } = segment;
   const { columns, rows } = grid;
   const nodeCount = columns * rows;
   const positions = new Float32Array(nodeCount * 3);
@@ -135,7 +199,7 @@ export function buildSurfaceMesh(segment: DisplaySegment, options: SurfaceOption
       const node = row * columns + column;
       const displacement = grid.displacementM[node];
       const height = Number.isNaN(displacement) ? 0 : displacement * options.exaggeration;
-      writePlaneToWorld(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
+      surfacePoint(segment, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, height, positions, node * 3);
       const value = colorValues[node];
       if (options.fieldValues && Number.isNaN(value)) {
         // a field with no value where the surface has one (e.g. SGR outside the described column): neutral grey
@@ -174,7 +238,7 @@ export function surfaceValueAt(grid: DisplayGrid, values: Float32Array, s: numbe
 
 /**
  * All contour rings of all segments as one segment list. A contour at level L sits where the surface shows
- * L, so its height off the plane is L·exaggeration, plus the lift.
+ * L, so its height off the surface is L·exaggeration, plus the lift.
  */
 /**
  * Every contour ring of every segment as one line-segment list. With `colourOf`, each line gets a vertex colour
@@ -191,14 +255,18 @@ export function buildContourLines(display: FaultDisplay, exaggeration: number, c
   const positions = new Float32Array(segmentCount * 6);
   const colors = colourOf ? new Float32Array(segmentCount * 6) : undefined;
   let offset = 0;
-  for (const { contours, frame } of display.segments) {
+  for (const segment of display.segments) {
+    const { contours } = segment;
     for (let ring = 0; ring < contours.ringLevelIndex.length; ring++) {
       const levelM = contours.levelsM[contours.ringLevelIndex[ring]];
       const height = levelM * exaggeration + lift;
       const colour = colourOf?.(levelM);
       for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1] - 1; point++) {
-        writePlaneToWorld(frame, contours.points[point * 2], contours.points[point * 2 + 1], height, positions, offset);
-        writePlaneToWorld(frame, contours.points[point * 2 + 2], contours.points[point * 2 + 3], height, positions, offset + 3);
+        // ring points at the view's float32 precision (payloads since version 2 hold them at the engine's): a point on
+        // the data's edge then reads the surface as it always did
+        const at = (k: number) => Math.fround(contours.points[point * 2 + k]);
+        surfacePoint(segment, at(0), at(1), height, positions, offset);
+        surfacePoint(segment, at(2), at(3), height, positions, offset + 3);
         if (colors && colour) colors.set([...colour, ...colour], offset);
         offset += 6;
       }
@@ -242,7 +310,7 @@ function polygonSegments(
   );
 }
 
-/** Line pairs along polylines in (s, t) of each segment, each point raised by heightAt along the normal. */
+/** Line pairs along polylines in (s, t) of each segment, on the surface, each point raised by heightAt along its normal. */
 function polygonPieces(
   display: FaultDisplay,
   piecesOf: (segment: DisplaySegment) => [number, number][][],
@@ -255,8 +323,8 @@ function polygonPieces(
       for (let i = 0; i + 1 < piece.length; i++) {
         const [s0, t0] = piece[i];
         const [s1, t1] = piece[i + 1];
-        writePlaneToWorld(segment.frame, s0, t0, heightAt(segment, s0, t0), scratch, 0);
-        writePlaneToWorld(segment.frame, s1, t1, heightAt(segment, s1, t1), scratch, 3);
+        surfacePoint(segment, s0, t0, heightAt(segment, s0, t0), scratch, 0);
+        surfacePoint(segment, s1, t1, heightAt(segment, s1, t1), scratch, 3);
         for (const value of scratch) pairs.push(value);
       }
     }
@@ -274,7 +342,7 @@ function flaggedEdges(polygon: [number, number][], flags: number[] | undefined, 
   return runs;
 }
 
-/** The inferred tip line is where displacement falls to zero: on the plane, lifted. Open parts are left out. */
+/** The inferred tip line is where displacement falls to zero: on the surface, lifted. Open parts are left out. */
 export function buildTipLines(display: FaultDisplay): LineArrays {
   const lift = lineLiftM(display);
   return polygonPieces(display, (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 0), () => lift);
@@ -320,7 +388,7 @@ export function residualRangeM(residualM: Float32Array): number {
 }
 
 /**
- * Picks at their true position, raised along their segment's normal by displacement·exaggeration like the
+ * Picks at their true position, raised along the surface's local normal by displacement·exaggeration like the
  * surface, coloured by residual on a diverging scale (white = on the surface, grey = no surface there).
  */
 export function buildPickPoints(display: FaultDisplay, exaggeration: number, rangeM: number): PointArrays {
@@ -330,8 +398,13 @@ export function buildPickPoints(display: FaultDisplay, exaggeration: number, ran
   const lut = residualColorLut();
   const noSurface = srgbToLinear(150);
   for (let i = 0; i < picks.count; i++) {
-    const { normal } = (display.segments[picks.segmentIndex[i]] ?? display.segments[0]).frame;
     const height = (picks.displacementM[i] || 0) * exaggeration;
+    let normal: readonly number[] = [0, 0, 0];
+    if (height !== 0) {
+      const segment = display.segments[picks.segmentIndex[i]] ?? display.segments[0];
+      const [s, t] = frameCoordinates(segment.frame, picks.position[i * 3], picks.position[i * 3 + 1], picks.position[i * 3 + 2]);
+      normal = surfaceFrameAt(segment, s, t).normal;
+    }
     for (let axis = 0; axis < 3; axis++) positions[i * 3 + axis] = picks.position[i * 3 + axis] + normal[axis] * height;
     const residual = picks.residualM[i];
     if (Number.isNaN(residual)) {
@@ -349,7 +422,7 @@ export function buildPickPoints(display: FaultDisplay, exaggeration: number, ran
 /** Where each segment's peak marker sits: its maximum displacement, on the surface, lifted twice. */
 export function peakPosition(segment: DisplaySegment, exaggeration: number, liftM: number): [number, number, number] {
   const point = new Float32Array(3);
-  writePlaneToWorld(segment.frame, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + liftM * 2, point, 0);
+  surfacePoint(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + liftM * 2, point, 0);
   return [point[0], point[1], point[2]];
 }
 
@@ -367,14 +440,14 @@ export interface Bounds {
 
 /**
  * Points that outline the fault for framing the camera, flat x, y, z world-local: every segment's inferred tip line
- * and mapped limit on the plane, and its peak lifted by the relief.
+ * and mapped limit on the surface, and its peak lifted by the relief.
  */
 export function framingPoints(display: FaultDisplay, exaggeration: number): Float32Array {
   const out: number[] = [];
   const point = new Float32Array(3);
   for (const segment of display.segments) {
     for (const [s, t] of [...segment.tipLine, ...segment.mappedLimit]) {
-      writePlaneToWorld(segment.frame, s, t, 0, point, 0);
+      surfacePoint(segment, s, t, 0, point, 0);
       out.push(point[0], point[1], point[2]);
     }
     out.push(...peakPosition(segment, exaggeration, 0));
@@ -393,17 +466,18 @@ export function displayBounds(display: FaultDisplay, exaggeration: number): Boun
       max[axis] = Math.max(max[axis], point[axis]);
     }
   };
-  for (const { grid, frame, tipLine } of display.segments) {
+  for (const segment of display.segments) {
+    const { grid, tipLine } = segment;
     for (let row = 0; row < grid.rows; row++) {
       for (let column = 0; column < grid.columns; column++) {
         const displacement = grid.displacementM[row * grid.columns + column];
         if (Number.isNaN(displacement)) continue;
-        writePlaneToWorld(frame, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, displacement * exaggeration, point, 0);
+        surfacePoint(segment, grid.s0 + column * grid.cellM, grid.t0 + row * grid.cellM, displacement * exaggeration, point, 0);
         include();
       }
     }
     for (const [s, t] of tipLine) {
-      writePlaneToWorld(frame, s, t, 0, point, 0);
+      surfacePoint(segment, s, t, 0, point, 0);
       include();
     }
   }

@@ -6,10 +6,13 @@ export interface SurfaceReadout {
   segmentId: string;
   s: number;
   t: number;
-  /** world coordinates of the point on the fault plane, m */
+  /** world coordinates of the point on the fault surface, m */
   x: number;
   y: number;
   z: number;
+  /** the surface's local strike (right-hand rule) and dip there, degrees */
+  localStrikeDeg?: number;
+  localDipDeg?: number;
   displacementM: number;
   throwM: number;
   /** the shown scalar field's value here, when colouring by one */

@@ -23,6 +23,8 @@ export async function buildCli() {
     metafile: true,
     logLevel: "warning",
     alias: { "@": root },
+    // loaded from node_modules only when --crs or --format gltf asks for them, so they cost nothing on other runs
+    external: ["proj4", "d3-scale-chromatic"],
   });
   const inputs = Object.keys(result.metafile.inputs).filter((file) => !file.startsWith("node_modules/"));
   writeFileSync(CLI_INPUTS, JSON.stringify({ inputs: [...inputs, "package-lock.json"] }));

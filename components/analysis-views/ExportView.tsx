@@ -4,11 +4,12 @@ import { composeScenePicture } from "@/components/workspace/scenePicture";
 import { downloadDataUrl, REPORT_PICTURE_KEY } from "./download";
 
 const EXPORTS = [
-  { kind: "grid.csv", label: "Grid CSV", detail: "segment, s, t, x, y, z, displacement, throw — every node with data, full resolution (recomputed on the server)" },
+  { kind: "grid.csv", label: "Grid CSV", detail: "segment, s, t, x, y, z (on the fault surface), displacement, throw, offset from the plane, local dip and strike — every node with data, full resolution (recomputed on the server); the study's coordinate reference in a comment line" },
   { kind: "picks.csv", label: "Picks CSV", detail: "each pick with s, t, displacement, the surface value there and the residual" },
   { kind: "profiles.csv?mode=centre-line", label: "Strike profiles CSV (centre line)", detail: "full-resolution row through each segment's Dmax" },
   { kind: "profiles.csv?mode=column-max", label: "Strike profiles CSV (column maximum)", detail: "maximum displacement in each grid column" },
-  { kind: "contours.geojson", label: "GeoJSON", detail: "contours, inferred tip lines and mapped limits as 3D lines [x, y, z] in map metres, with level, kind and units" },
+  { kind: "contours.geojson", label: "GeoJSON", detail: "contours, inferred tip lines and mapped limits as 3D lines [x, y, z] on the fault surface in map metres, with level, kind, units and the study's coordinate reference" },
+  { kind: "surface.glb", label: "3D model (glTF)", detail: "the displacement surface with viridis vertex colours and the tip lines, glTF 2.0 binary in world coordinates (origin, axes and coordinate reference in its extras)" },
 ];
 
 /** The 3D view with its labels, legend, title and scale bar, or null when the viewer is not on the page. */

@@ -6,9 +6,10 @@ import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { FieldError } from "@/components/ui/FieldError";
 import { metres as formatM } from "@/lib/format";
-import { FAULT_SENSES, faultSenseLabel } from "@/lib/fault-types";
-import type { FaultSense } from "@/lib/contracts/roles";
+import { faultSenseLabel } from "@/lib/fault-types";
+import { FaultTypeFields, faultTypeJson, type FaultTypeValues } from "@/components/faults/FaultTypeFields";
 import { RoleBadge } from "./RoleBadge";
+import { CoordinateReferenceEditor } from "./CoordinateReferenceEditor";
 import { STUDY_ROLES, type StudyRole } from "@/lib/contracts/roles";
 import type { StudyOverview as StudyOverviewData } from "@/lib/contracts/studies";
 
@@ -27,6 +28,7 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
           <RoleBadge role={role} />
         </div>
         {study.description && <p className="mt-2 max-w-3xl text-slate-600 dark:text-slate-300">{study.description}</p>}
+        <CoordinateReferenceEditor studyId={studyId} reference={study.coordinateReference ?? null} canAdmin={canAdmin} />
       </div>
       <div className="grid gap-6 lg:grid-cols-[2fr_1fr]">
         <section className="card overflow-hidden">
@@ -114,10 +116,14 @@ function NewFault({ studyId }: { studyId: string }) {
   const router = useRouter();
   const [open, setOpen] = useState(false);
   const [name, setName] = useState("");
-  const [sense, setSense] = useState<FaultSense>("normal");
+  const [type, setType] = useState<FaultTypeValues>({ sense: "normal", rake: "", inversion: false });
   const [description, setDescription] = useState("");
   const create = useMutation({
-    mutationFn: () => apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, { method: "POST", json: { name, sense, description } }),
+    mutationFn: () =>
+      apiFetch<{ fault: { id: string } }>(`/api/studies/${studyId}/faults`, {
+        method: "POST",
+        json: { name, description, ...faultTypeJson(type) },
+      }),
     onSuccess: ({ fault }) => router.push(`/studies/${studyId}/faults/${fault.id}`),
   });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
@@ -145,18 +151,7 @@ function NewFault({ studyId }: { studyId: string }) {
           <input id="new-fault-name" className="field" placeholder="e.g. QG-7" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
           <FieldError errors={fieldErrors?.name} />
         </div>
-        <fieldset>
-          <legend className="label">Type</legend>
-          <div className="space-y-1.5">
-            {FAULT_SENSES.map((option) => (
-              <label key={option.value} className="flex items-baseline gap-2 text-sm">
-                <input type="radio" name="fault-sense" value={option.value} checked={sense === option.value} onChange={() => setSense(option.value)} data-testid={`fault-sense-${option.value}`} />
-                <span><span className="font-medium">{option.label}</span> <span className="text-slate-500">— {option.hint}</span></span>
-              </label>
-            ))}
-          </div>
-          <FieldError errors={fieldErrors?.sense} />
-        </fieldset>
+        <FaultTypeFields idPrefix="new-fault" values={type} onChange={setType} fieldErrors={fieldErrors} />
         <div>
           <label className="label" htmlFor="new-fault-description">Description <span className="font-normal text-slate-500">(optional)</span></label>
           <textarea id="new-fault-description" className="field" rows={2} placeholder="Where it is, what it bounds" value={description} onChange={(event) => setDescription(event.target.value)} />

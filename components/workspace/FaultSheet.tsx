@@ -29,15 +29,21 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
           <Row label="Dmax, fitted (5–95 %)" value={metresWithRange(segment.max.fittedDisplacementM, segment.max.fittedDisplacementRangeM)} testId={first ? "sheet-dmax-fitted" : undefined} />
         )}
         <Row label="Max throw" value={metres(segment.max.throwM)} />
-        <Row label="Length L (tip line, 5–95 %)" value={metresWithRange(tip.lengthM, tip.lengthRangeM)} testId={first ? "sheet-length" : undefined} />
-        <Row label="Height H (tip line, 5–95 %)" value={metresWithRange(tip.heightM, tip.heightRangeM)} testId={first ? "sheet-height" : undefined} />
+        <Row label="Length L (tip line along the surface, 5–95 %)" value={metresWithRange(tip.lengthM, tip.lengthRangeM)} testId={first ? "sheet-length" : undefined} />
+        <Row label="Height H (tip line along the surface, 5–95 %)" value={metresWithRange(tip.heightM, tip.heightRangeM)} testId={first ? "sheet-height" : undefined} />
         {tip.cutoff && <Row label={`Resolution cut-off (${tip.cutoff.source === "set" ? "set" : "estimated"})`} value={`${metres(tip.cutoff.displacementM)} displacement`} testId={first ? "sheet-cutoff" : undefined} />}
         <Row label="Aspect ratio L/H" value={plain(tip.aspectRatio)} />
         <Row label="Area" value={`${(tip.areaM2 / 1e6).toFixed(2)} km²`} />
         <Row label="Dmax/L" value={ratio(segment.scaling.dOverL)} />
         <Row label="Mapped length / height" value={`${metres(segment.mappedLimit.lengthM, 0)} / ${metres(segment.mappedLimit.heightM, 0)}`} />
-        <Row label="Strike / dip" value={`${azimuth(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
+        <Row label="Strike / dip (reference plane)" value={`${azimuth(segment.plane.strikeDeg)} / ${degrees(segment.plane.dipDeg)}`} />
         <Row label="Plane misfit (RMS)" value={metres(segment.plane.rmsM)} />
+        {segment.surface && (
+          <>
+            <Row label="Surface off the plane, max / RMS" value={`${metres(segment.surface.maxOffsetM)} / ${metres(segment.surface.rmsOffsetM)}`} testId={first ? "sheet-surface-offset" : undefined} />
+            <Row label="Local dip (5–95 %)" value={`${degrees(segment.surface.localDipRangeDeg[0])} – ${degrees(segment.surface.localDipRangeDeg[1])}`} testId={first ? "sheet-local-dip" : undefined} />
+          </>
+        )}
         <Row label="Mean / max gradient (m/m)" value={`${plain(segment.gradients.meanPerM, 3)} / ${plain(segment.gradients.maxPerM, 3)}`} />
         <Row label="Tip gradients, strike ends (m/m)" value={`${plain(segment.gradients.tips.strikeStartPerM, 3)} / ${plain(segment.gradients.tips.strikeEndPerM, 3)}`} />
         <Row label="Tip gradients, up / down dip (m/m)" value={`${plain(segment.gradients.tips.upDipPerM, 3)} / ${plain(segment.gradients.tips.downDipPerM, 3)}`} />
@@ -52,6 +58,11 @@ function SegmentSheet({ segment, first }: { segment: SegmentResult; first: boole
           <p className="mt-1.5" data-testid={first ? "sheet-ends" : undefined}>
             <span className="font-medium text-slate-800 dark:text-slate-100">Ends:</span> {endsSentence(tip.ends)}.
             {tip.ends.some((end) => end.status === "open") && " Where an end is open the picks stop while displacement is still high (a survey edge, a crossing fault, a gap): the fault goes on beyond it, so the length or height is a minimum."}
+          </p>
+        )}
+        {segment.surface && (
+          <p className={`mt-1.5 ${segment.surface.matters ? "text-amber-800 dark:text-amber-200" : ""}`} data-testid={first ? "sheet-surface-note" : undefined}>
+            <span className="font-medium text-slate-800 dark:text-slate-100">Surface:</span> {segment.surface.note}
           </p>
         )}
         <p className="mt-1.5">
@@ -88,6 +99,11 @@ function InputProvenance({ velocityModel, derivedFrom }: { velocityModel: Veloci
 export function FaultSheet({ report, velocityModel = null, derivedFrom = null }: { report: AnalysisReport; velocityModel?: VelocityModel | null; derivedFrom?: PickSetProvenance | null }) {
   return (
     <div className="space-y-5">
+      {report.kinematics && (
+        <p className="text-xs leading-relaxed text-slate-600 dark:text-slate-300" data-testid="sheet-sense">
+          <span className="font-medium text-slate-800 dark:text-slate-100">Sense:</span> {report.kinematics.note}
+        </p>
+      )}
       <InputProvenance velocityModel={velocityModel} derivedFrom={derivedFrom} />
       {report.segments.map((segment, index) => (
         <SegmentSheet key={segment.id} segment={segment} first={index === 0} />

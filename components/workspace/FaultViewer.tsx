@@ -14,7 +14,7 @@ import { useSceneSettings } from "@/scene/sceneSettingsStore";
 import { FaultView2D } from "./FaultView2D";
 import { placeLabels } from "@/lib/views/labels";
 import { useDarkMode } from "@/scene/useDarkMode";
-import { inSentence, metres } from "@/lib/format";
+import { azimuth, degrees, inSentence, metres } from "@/lib/format";
 import { useBrowserValue } from "@/components/hooks/useBrowserValue";
 
 const FaultScene = dynamic(() => import("@/scene/FaultScene"), {
@@ -246,6 +246,12 @@ function HoverReadout() {
     ["x", metres(readout.x, 0)],
     ["y", metres(readout.y, 0)],
     ["z", metres(readout.z, 0)],
+    ...(readout.localDipDeg !== undefined && readout.localStrikeDeg !== undefined
+      ? ([
+          ["local strike", azimuth(readout.localStrikeDeg)],
+          ["local dip", degrees(readout.localDipDeg)],
+        ] as [string, string][])
+      : []),
     ["throw", metres(readout.throwM)],
     ["displacement", metres(readout.displacementM)],
   ];

@@ -15,6 +15,7 @@ import { StressSheetSummary } from "@/components/stress/StressSheetSummary";
 import { ViewpointsBar } from "@/components/collab/ViewpointsBar";
 import { SealFields } from "@/components/seal/SealFields";
 import { FaultSheet } from "./FaultSheet";
+import { FaultTypeEditor } from "./FaultTypeEditor";
 import { FaultViewer } from "./FaultViewer";
 import { UploadPanel } from "./UploadPanel";
 import { RunComparison } from "./RunComparison";
@@ -90,6 +91,7 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
             <Link href="/studies" className="hover:underline">Studies</Link> / <Link href={`/studies/${props.studyId}`} className="hover:underline">{props.studyName}</Link>
           </nav>
           <h1 className="text-2xl font-semibold" data-testid="fault-title">{props.faultName}</h1>
+          <FaultTypeEditor faultId={faultId} canEdit={canEdit} />
           {current && (
             <p className="text-xs text-slate-500">
               Pick set v{current.version} · {current.fileName}{current.derivedFrom ? " (derived from cut-off lines)" : ""} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}

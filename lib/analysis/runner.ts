@@ -1,7 +1,8 @@
 import "server-only";
 import { and, DrizzleQueryError, eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { analyses, analysisOutputs, base64Bytes, jobs, pickSets } from "@/db/schema";
+import { analyses, analysisOutputs, base64Bytes, faults, jobs, pickSets } from "@/db/schema";
+import { faultKinematics } from "@/lib/fault-types";
 import { ENGINE_VERSION } from "@/lib/engine/pipeline";
 import { claimJobOf, enqueueJob, finishJob } from "@/lib/jobs/queue";
 import { holdWhileRunning, LeaseLost, newWorkerId, type JobContext, type JobHandler } from "@/lib/jobs/processor";
@@ -44,7 +45,11 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
     .where(and(eq(analyses.id, analysisId), inArray(analyses.status, ["queued", "running"]), heldBy(job.id, owner)))
     .returning();
   const [pickSet] = analysis
-    ? await db.select({ picks: base64Bytes(pickSets.picks), units: pickSets.units }).from(pickSets).where(eq(pickSets.id, analysis.pickSetId))
+    ? await db
+        .select({ picks: base64Bytes(pickSets.picks), units: pickSets.units, sense: faults.sense, rakeDeg: faults.rakeDeg, inversion: faults.inversion })
+        .from(pickSets)
+        .innerJoin(faults, eq(faults.id, pickSets.faultId))
+        .where(eq(pickSets.id, analysis.pickSetId))
     : [];
   if (!analysis || !pickSet) {
     // the analysis was deleted with its fault, or already ended: nothing left to do
@@ -56,7 +61,7 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
   let lastWrite = 0;
   const stageWrites: Promise<unknown>[] = [];
   try {
-    const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, settings: parseAnalysisSettings(analysis.parameters) };
+    const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, settings: parseAnalysisSettings(analysis.parameters), kinematics: faultKinematics(pickSet) };
     const { report, display, outputs } = await computeAnalysisOffThread(
       input,
       (stage, fraction) => {

@@ -5,7 +5,7 @@ import { isCutoffCsv, parseCutoffCsv, verticalColumnOf, type CutoffParseResult }
 import { deriveChecked } from "@/lib/engine/cutoff-pipeline";
 import type { CutoffSummary } from "@/lib/engine/cutoff-stations";
 import type { VelocityModel } from "@/lib/engine/time-depth";
-import type { ParseResult, RejectedRow } from "@/lib/engine/types";
+import type { FaultKinematics, ParseResult, RejectedRow } from "@/lib/engine/types";
 import { packColumns, packPicks } from "@/lib/picks/codec";
 
 export const MAX_UPLOAD_BYTES = 100 * 1024 * 1024;
@@ -19,6 +19,8 @@ export interface UploadParseJob {
   dropBadRows: boolean;
   /** also return the picks packed for storage (lib/picks/codec.ts) */
   encode: boolean;
+  /** the fault's type: which throws and rakes it can use */
+  kinematics?: FaultKinematics;
   /** converts a file in two-way time to depth */
   velocityModel?: VelocityModel | null;
   /** how a cut-off file's walls are paired */
@@ -112,7 +114,7 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
   let parsed: ParseResult;
   try {
     if (domain === "time" && !job.velocityModel) throw needsVelocityModel(job.name, "picks", horizonsOfTimePicks(text));
-    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows, velocityModel: job.velocityModel });
+    parsed = parsePickCsv(text, { units: job.units, dropBadRows: job.dropBadRows, velocityModel: job.velocityModel, kinematics: job.kinematics });
   } catch (error) {
     throw asUploadProblem(error, "The picks cannot be used.");
   }

@@ -5,6 +5,8 @@ import type { UploadOptions } from "@/lib/contracts/analysis";
 import { getDb } from "@/db/client";
 import { analyses, cutoffSets, faults, pickSets, segments } from "@/db/schema";
 import type { PickSetProvenance } from "@/lib/contracts/seal";
+import { faultKinematics } from "@/lib/fault-types";
+import type { FaultKinematics } from "@/lib/engine/types";
 import type { StudyAccess } from "@/lib/access";
 import { ApiError } from "@/lib/api/errors";
 import { recordAudit } from "@/lib/audit";
@@ -29,9 +31,11 @@ function checksumOf(bytes: Uint8Array) {
 }
 
 /** The file read in the worker pool (lib/analysis/upload-parse.ts); its problems come back as API errors. */
-async function parseUpload(file: UploadedFile, options: UploadOptions, sense: "normal" | "reverse", encode = false): Promise<UploadParseOutput> {
+async function parseUpload(file: UploadedFile, options: UploadOptions, kinematics: FaultKinematics, encode = false): Promise<UploadParseOutput> {
   try {
     checkUploadSize(file.name, file.bytes);
+    // an oblique fault's cut-offs are paired along its own slip line unless the upload sets a rake
+    const rakeDeg = options.rakeDeg ?? (kinematics.sense === "oblique" && kinematics.rakeDeg !== undefined ? Math.abs(kinematics.rakeDeg) : undefined);
     return await parseUploadOffThread({
       output: "parse",
       name: file.name,
@@ -39,8 +43,9 @@ async function parseUpload(file: UploadedFile, options: UploadOptions, sense: "n
       units: options.units,
       dropBadRows: options.dropBadRows,
       encode,
+      kinematics,
       velocityModel: options.velocityModel,
-      cutoffs: { stationSpacingM: options.stationSpacingM, rakeDeg: options.rakeDeg, orderAlongStrike: options.orderAlongStrike, sense },
+      cutoffs: { stationSpacingM: options.stationSpacingM, rakeDeg, orderAlongStrike: options.orderAlongStrike, sense: cutoffSense(kinematics) },
     });
   } catch (error) {
     if (error instanceof UploadProblem) throw new ApiError(error.status, error.message, error.details);
@@ -48,16 +53,22 @@ async function parseUpload(file: UploadedFile, options: UploadOptions, sense: "n
   }
 }
 
-async function faultSense(faultId: string): Promise<"normal" | "reverse"> {
+/** The fault's type: it decides which throws (negative only on an inverted fault) and rakes a file may hold. */
+async function faultTypeOf(faultId: string): Promise<FaultKinematics> {
   const db = await getDb();
-  const fault = await db.query.faults.findFirst({ where: eq(faults.id, faultId), columns: { sense: true } });
-  return fault?.sense ?? "normal";
+  const fault = await db.query.faults.findFirst({ where: eq(faults.id, faultId), columns: { sense: true, rakeDeg: true, inversion: true } });
+  return fault ? faultKinematics(fault) : { sense: "normal" };
+}
+
+/** Which wall a cut-off file's hanging wall moved: up on a reverse fault and a reverse-oblique one (positive rake). */
+function cutoffSense(kinematics: FaultKinematics): "normal" | "reverse" {
+  return kinematics.sense === "reverse" || (kinematics.sense === "oblique" && (kinematics.rakeDeg ?? -90) > 0) ? "reverse" : "normal";
 }
 
 /** Parses without saving and returns what the interpreter needs to decide: a sample, every problem (paged), duplicates. */
 export async function previewUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
   // The preview always lists every problem row next to the usable picks; the choice to drop them is made on confirm.
-  const { parsed, kind, domain, cutoffs } = await parseUpload(file, { ...options, dropBadRows: true }, await faultSense(access.faultId));
+  const { parsed, kind, domain, cutoffs } = await parseUpload(file, { ...options, dropBadRows: true }, await faultTypeOf(access.faultId));
   const checksum = checksumOf(file.bytes);
   const db = await getDb();
   const sameFile = await db.query.pickSets.findFirst({
@@ -113,7 +124,7 @@ export async function previewUpload(access: StudyAccess & { faultId: string }, f
 
 /** Saves the pick set, its segments, a queued analysis and its job in one transaction, then wakes the workers. */
 export async function confirmUpload(access: StudyAccess & { faultId: string }, file: UploadedFile, options: UploadOptions) {
-  const { parsed, encoded, kind, domain, cutoffs } = await parseUpload(file, options, await faultSense(access.faultId), true);
+  const { parsed, encoded, kind, domain, cutoffs } = await parseUpload(file, options, await faultTypeOf(access.faultId), true);
   if (parsed.rejected.length > 0 && !options.dropBadRows) {
     throw new ApiError(422, `${parsed.rejected.length}${parsed.rejectedTruncated ? "+" : ""} rows have problems. Fix them, or choose to drop the bad rows.`, {
       rejected: parsed.rejected.slice(0, PROBLEM_PAGE_SIZE),

@@ -21,8 +21,21 @@ export const displayGridSchema = z.object({
   rows: z.number().int().positive(),
   displacementM: float32,
   throwM: float32,
+  /** the fault surface's distance from the reference plane along its normal (m), NaN outside (absent in older payloads) */
+  offPlaneM: float32.optional(),
 });
 export type DisplayGrid = z.infer<typeof displayGridSchema>;
+
+/** The fault surface on a coarse grid covering the data and the tip lines, w everywhere (m): to place lines and pins on it. */
+export const displaySurfaceSchema = z.object({
+  s0: finite,
+  t0: finite,
+  cellM: finite,
+  columns: z.number().int().positive(),
+  rows: z.number().int().positive(),
+  offPlaneM: float32,
+});
+export type DisplaySurface = z.infer<typeof displaySurfaceSchema>;
 
 /**
  * Contour rings flattened: ring r spans points[2·ringStarts[r] .. 2·ringStarts[r+1]) as (s, t) pairs. The points are the
@@ -50,6 +63,8 @@ export const displaySegmentSchema = z.object({
   /** per tipLine vertex, 1 where the line follows an open data edge (no tip inferred there) */
   tipOpen: z.array(z.number().int()).optional(),
   max: z.object({ displacementM: finite, throwM: finite, s: finite, t: finite }),
+  /** the surface beyond the grid's data (absent in payloads made before the true surface: the plane) */
+  surface: displaySurfaceSchema.optional(),
 });
 export type DisplaySegment = z.infer<typeof displaySegmentSchema>;
 

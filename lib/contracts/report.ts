@@ -116,6 +116,41 @@ export const segmentPlaneSchema = z.strictObject({
 });
 export type SegmentPlane = z.infer<typeof segmentPlaneSchema>;
 
+/** A smoothed fault surface resampled on a coarse grid that covers the tip lines: w everywhere (no NaN), m. */
+export const surfaceOffsetGridSchema = z.strictObject({
+  s0: finite,
+  t0: finite,
+  cellM: finite,
+  columns: z.number().int(),
+  rows: z.number().int(),
+  /** row-major w (m), continued beyond the data along the tangent plane of the data's edge */
+  offsetM: z.array(finite),
+});
+export type SurfaceOffsetGrid = z.infer<typeof surfaceOffsetGridSchema>;
+
+/** How far the fault surface departs from its reference plane, and what that changes. */
+export const surfaceSummarySchema = z.strictObject({
+  /** largest and RMS distance of the surface from the reference plane within the mapped area (m) */
+  maxOffsetM: maybeNumber,
+  rmsOffsetM: maybeNumber,
+  /** the Gaussian length scale at which the surface was smoothed to read its local dip (m) */
+  lengthScaleM: maybeNumber,
+  /** 5th and 95th percentile of the local dip over the mapped area (degrees) */
+  localDipRangeDeg: z.tuple([maybeNumber, maybeNumber]),
+  /** displacement from the local dip against displacement from the plane's dip: 5th and 95th percentile of the ratio */
+  displacementRatioRange: z.tuple([maybeNumber, maybeNumber]),
+  /** length and height of the tip line measured on the reference plane (projection), for comparison (m) */
+  projectedLengthM: maybeNumber,
+  projectedHeightM: maybeNumber,
+  /** true when the surface departs from the plane enough to change displacement or size by more than the threshold */
+  matters: z.boolean(),
+  /** one sentence for the fault sheet */
+  note: z.string(),
+  /** the surface itself, coarse, for positions anywhere on it (exports, views) */
+  grid: surfaceOffsetGridSchema,
+});
+export type SurfaceSummary = z.infer<typeof surfaceSummarySchema>;
+
 export const segmentResultSchema = z.strictObject({
   id: z.string(),
   pickCount: z.number().int(),
@@ -139,8 +174,12 @@ export const segmentResultSchema = z.strictObject({
     maxPerM: maybeNumber,
     tips: z.strictObject({ strikeStartPerM: maybeNumber, strikeEndPerM: maybeNumber, upDipPerM: maybeNumber, downDipPerM: maybeNumber }),
   }),
+  /** displacement-weighted centroid (s, t), weighted by surface area */
   centroidOfDisplacement: z.strictObject({ s: maybeNumber, t: maybeNumber }),
+  /** where Dmax sits between the tip line's ends, measured along the surface: 0 in the middle, ±1 at an end */
   asymmetry: z.strictObject({ alongStrike: maybeNumber, downDip: maybeNumber }),
+  /** the fault surface against its reference plane (absent in reports made before the surface was read) */
+  surface: surfaceSummarySchema.optional(),
   scaling: z.strictObject({ dOverL: maybeNumber, note: z.string(), plausible: z.boolean() }),
   contourIntervalM: finite,
   /**
@@ -190,6 +229,35 @@ const reportSettingsSchema = z.strictObject({
   smoothingM: finite.optional(),
 });
 
+/** The kind of fault: the sense of its offset and, for oblique slip, the rake. */
+export const FAULT_KINDS = ["normal", "reverse", "oblique"] as const;
+export const faultKinematicsShape = {
+  sense: z.enum(FAULT_KINDS),
+  /**
+   * Rake of the slip vector in the fault surface, measured from the strike direction (degrees, −180…180; negative for
+   * normal slip, positive for reverse: Aki & Richards 1980). Required for oblique faults; normal is −90 and reverse +90
+   * when absent. A pick's own `rake` column overrides it.
+   */
+  rakeDeg: finite.optional(),
+  /** throw of the opposite sense (negative throw in the file) is expected in places: the fault was inverted */
+  inversion: z.boolean().optional(),
+};
+
+/** The fault's type as an analysis used it. */
+export const kinematicsSummarySchema = z.strictObject({
+  ...faultKinematicsShape,
+  /** the rake used where a pick has none (degrees) */
+  rakeDeg: finite,
+  hangingWall: z.enum(["down", "up"]),
+  /** picks with their own rake */
+  picksWithRake: z.number().int(),
+  /** picks with throw of the opposite sense (inversion) */
+  oppositeSensePicks: z.number().int(),
+  /** how throw became displacement, in a sentence for the fault sheet */
+  note: z.string(),
+});
+export type KinematicsSummary = z.infer<typeof kinematicsSummarySchema>;
+
 export const analysisReportSchema = z.strictObject({
   engineVersion: z.string(),
   input: z.strictObject({ rows: z.number().int(), accepted: z.number().int(), rejected: z.array(rejectedRowSchema), units: lengthUnitSchema }),
@@ -197,6 +265,8 @@ export const analysisReportSchema = z.strictObject({
   quality: z.strictObject({ picksBelowOne: z.number().int(), note: z.string() }).optional(),
   /** the interpreter's settings this analysis ran with (absent: every default) */
   settings: reportSettingsSchema.optional(),
+  /** the fault's type as the analysis used it (absent in reports made before fault types: normal) */
+  kinematics: kinematicsSummarySchema.optional(),
   segments: z.array(segmentResultSchema),
   relays: z.array(relayResultSchema),
   warnings: z.array(z.string()),

@@ -22,6 +22,6 @@ export function roleAllows(role: StudyRole, action: StudyAction): boolean {
 }
 
 /** The kinds of fault a study holds (the faults.sense column). */
-export const FAULT_SENSE_VALUES = ["normal", "reverse"] as const;
+export const FAULT_SENSE_VALUES = ["normal", "reverse", "oblique"] as const;
 export const faultSenseSchema = z.enum(FAULT_SENSE_VALUES, { error: `Choose the fault type: ${FAULT_SENSE_VALUES.join(" or ")}.` });
 export type FaultSense = z.infer<typeof faultSenseSchema>;

@@ -1,6 +1,6 @@
 // Making the display payload from an engine result: the grids decimated, the contour rings flattened, a deterministic
 // subsample of the picks with their residual against the surface. Runs in the analysis worker beside the engine.
-import type { DisplayContours, DisplayGrid, DisplayPicks, DisplaySegment, FaultDisplay } from "@/lib/contracts/display";
+import type { DisplayContours, DisplayGrid, DisplayPicks, DisplaySegment, DisplaySurface, FaultDisplay } from "@/lib/contracts/display";
 import { pickDisplacement, sinOfDip } from "@/lib/engine/displacement";
 import type { AnalysisReport, PickColumns, RegularGrid, SegmentResult } from "@/lib/engine/types";
 import { worldToPlane } from "./frame";
@@ -14,6 +14,10 @@ export interface BuildFaultDisplayInput {
   /** engine grids keyed by segment id */
   grids: Record<string, RegularGrid>;
   picks: PickColumns;
+  /** displacement of every pick as the analysis computed it (local dip, rake); from the plane's dip when absent */
+  pickDisplacementM?: Float64Array;
+  /** unused here; accepted so the pipeline's result can be passed whole */
+  surfaces?: unknown;
   /** most grid nodes per side in the display */
   maxCells?: number;
   maxPicks?: number;
@@ -24,7 +28,7 @@ export const DEFAULT_DISPLAY_PICKS = 20_000;
 /** share of the pick budget reserved for the largest residuals, so outliers always show */
 const OUTLIER_SHARE = 0.05;
 
-export function buildFaultDisplay({ report, grids, picks, maxCells = DEFAULT_DISPLAY_CELLS, maxPicks = DEFAULT_DISPLAY_PICKS }: BuildFaultDisplayInput): FaultDisplay {
+export function buildFaultDisplay({ report, grids, picks, pickDisplacementM, maxCells = DEFAULT_DISPLAY_CELLS, maxPicks = DEFAULT_DISPLAY_PICKS }: BuildFaultDisplayInput): FaultDisplay {
   if (report.segments.length === 0) throw new Error("The analysis has no segments to display.");
   const origin: Vec3 = [...report.segments[0].plane.centroid];
   const segments = report.segments.map((segment) => {
@@ -36,7 +40,7 @@ export function buildFaultDisplay({ report, grids, picks, maxCells = DEFAULT_DIS
     version: 2,
     origin,
     segments,
-    picks: buildDisplayPicks(report, grids, picks, origin, maxPicks),
+    picks: buildDisplayPicks(report, grids, picks, origin, maxPicks, pickDisplacementM),
     displacementRangeM: [0, Math.max(...report.segments.map((s) => s.max.displacementM))],
     throwRangeM: [0, Math.max(...report.segments.map((s) => s.max.throwM))],
   };
@@ -63,7 +67,12 @@ function displaySegment(segment: SegmentResult, grid: RegularGrid, origin: Vec3,
     tipOpen: [...segment.tipLine.openRays, segment.tipLine.openRays[0] ?? 0],
     mappedLimit: segment.mappedLimit.polygon.map(([s, t]) => [s, t]),
     max: { displacementM: segment.max.displacementM, throwM: segment.max.throwM, s: segment.max.s, t: segment.max.t },
+    ...(segment.surface ? { surface: displaySurface(segment.surface.grid) } : {}),
   };
+}
+
+function displaySurface({ s0, t0, cellM, columns, rows, offsetM }: NonNullable<SegmentResult["surface"]>["grid"]): DisplaySurface {
+  return { s0, t0, cellM, columns, rows, offPlaneM: Float32Array.from(offsetM) };
 }
 
 /**
@@ -82,15 +91,17 @@ export function decimateGrid(grid: RegularGrid, maxCells: number): DisplayGrid {
   const rows = Math.floor((grid.rows - 1 - firstRow) / stride) + 1;
   const displacementM = new Float32Array(columns * rows);
   const throwM = new Float32Array(columns * rows);
+  const offPlaneM = grid.offPlaneM ? new Float32Array(columns * rows) : undefined;
   for (let row = 0; row < rows; row++) {
     const sourceRow = firstRow + row * stride;
     for (let column = 0; column < columns; column++) {
       const source = sourceRow * grid.columns + firstColumn + column * stride;
       displacementM[row * columns + column] = grid.displacementM[source];
       throwM[row * columns + column] = grid.throwM[source];
+      if (offPlaneM) offPlaneM[row * columns + column] = grid.offPlaneM![source];
     }
   }
-  return { s0: grid.s0 + firstColumn * grid.cellM, t0: grid.t0 + firstRow * grid.cellM, cellM: grid.cellM * stride, columns, rows, displacementM, throwM };
+  return { s0: grid.s0 + firstColumn * grid.cellM, t0: grid.t0 + firstRow * grid.cellM, cellM: grid.cellM * stride, columns, rows, displacementM, throwM, ...(offPlaneM ? { offPlaneM } : {}) };
 }
 
 function argMaxIgnoringNaN(values: ArrayLike<number>): number {
@@ -137,7 +148,14 @@ function flattenContours(segment: SegmentResult): DisplayContours {
   return { intervalM: segment.contourIntervalM, levelsM, points, ringStarts, ringLevelIndex };
 }
 
-function buildDisplayPicks(report: AnalysisReport, grids: Record<string, RegularGrid>, picks: PickColumns, origin: Vec3, maxPicks: number): DisplayPicks {
+function buildDisplayPicks(
+  report: AnalysisReport,
+  grids: Record<string, RegularGrid>,
+  picks: PickColumns,
+  origin: Vec3,
+  maxPicks: number,
+  pickDisplacementM?: Float64Array,
+): DisplayPicks {
   const total = picks.x.length;
   const segmentIndexByName = picks.segmentNames.map((name) => report.segments.findIndex((s) => s.id === name));
   const sinDipOf = report.segments.map((segment) => sinOfDip(segment.plane.dipDeg));
@@ -151,7 +169,7 @@ function buildDisplayPicks(report: AnalysisReport, grids: Record<string, Regular
       residualM[i] = NaN;
       continue;
     }
-    displacementM[i] = pickDisplacement(picks.throwM[i], picks.heaveM[i], sinDipOf[segmentIndex]);
+    displacementM[i] = pickDisplacementM ? pickDisplacementM[i] : pickDisplacement(picks.throwM[i], picks.heaveM[i], sinDipOf[segmentIndex]);
     const [s, t] = worldToPlane(segment.plane, picks.x[i], picks.y[i], picks.z[i]);
     const grid = grids[segment.id];
     residualM[i] = displacementM[i] - (grid ? sampleGrid(grid, grid.displacementM, s, t, EDGE_TOLERANT_BILINEAR) : NaN);

@@ -1,8 +1,9 @@
 import Papa from "papaparse";
 // zod/mini: the same validation without loading zod's full API (about 50 ms of every command-line start)
 import * as z from "zod/mini";
-import type { LengthUnit, ParseResult, PickColumns, PlaneFit, RejectedRow } from "./types";
+import type { FaultKinematics, LengthUnit, ParseResult, PickColumns, PlaneFit, RejectedRow } from "./types";
 import { DegeneratePlaneError, fitPlane } from "./plane";
+import { kinematicRowProblems } from "./kinematics";
 
 import { MAX_REJECTED_LISTED, PickInputError, problemList, summariseProblems } from "./input-error";
 import { picksToDepth } from "./time-picks";
@@ -17,6 +18,8 @@ export interface ParseOptions {
   dropBadRows?: boolean;
   /** picks at the same position in a segment: reject them (default) or average them into one */
   dedupe?: "reject" | "average";
+  /** the fault's type: which throws and rakes it can use (default normal, no inversion) */
+  kinematics?: FaultKinematics;
   /** converts a file in two-way time (a `twt` column in ms, throw in ms) to depth; required for such a file */
   velocityModel?: VelocityModel | null;
 }
@@ -31,11 +34,13 @@ export const pickRowSchema = z
     z: z.optional(finite("z")),
     depth: z.optional(finite("depth")),
     twt: z.optional(finite("twt")),
-    throw: finiteWhere("throw", (v) => v >= 0, "throw must be ≥ 0"),
+    // the sign of throw is checked against the fault's type (lib/engine/kinematics.ts): negative only on an inverted fault
+    throw: finite("throw"),
     heave: z.optional(finiteWhere("heave", (v) => v >= 0, "heave must be ≥ 0")),
     quality: z.optional(finiteWhere("quality", (v) => v >= 0 && v <= 1, "quality must be between 0 and 1")),
     hw_thickness: z.optional(finite("hw_thickness")),
     fw_thickness: z.optional(finite("fw_thickness")),
+    rake: z.optional(finiteWhere("rake", (v) => v >= -180 && v <= 180, "rake must be between −180° and 180°")),
     segment: z.optional(z.string()),
     horizon: z.optional(z.string()),
   })
@@ -43,7 +48,7 @@ export const pickRowSchema = z
 
 export type PickRow = z.infer<typeof pickRowSchema>;
 
-const NUMERIC = ["x", "y", "z", "depth", "throw", "heave", "quality", "hw_thickness", "fw_thickness"] as const;
+const NUMERIC = ["x", "y", "z", "depth", "throw", "heave", "quality", "hw_thickness", "fw_thickness", "rake"] as const;
 const KNOWN = new Set<string>([...NUMERIC, "segment", "horizon", "twt"]);
 
 function toNumber(raw: string | undefined): number | undefined {
@@ -71,11 +76,29 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
     segmentNames, horizonNames, sourceRow: cut(src),
   };
   if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
-  if (table.twt) {
+  if (table.rake) picks = { ...picks, rakeDeg: cut(table.rake) };
+  let twtColumn = table.twt ? cut(table.twt) : undefined;
+
+  // throws and rakes the fault's type cannot use
+  const kinematic = kinematicRowProblems(picks, options.kinematics ?? { sense: "normal" });
+  if (kinematic.length) {
+    const bad = new Set(kinematic.map((problem) => problem.row));
+    for (const problem of kinematic) reject(problem);
+    // listed in row order, like the rows the reader rejected
+    rejected.sort((a, b) => a.row - b.row);
+    const kept: number[] = [];
+    for (let i = 0; i < picks.x.length; i++) if (!bad.has(picks.sourceRow[i])) kept.push(i);
+    picks = selectPicks(picks, kept);
+    if (twtColumn) {
+      const times = twtColumn;
+      twtColumn = Float64Array.from(kept, (i) => times[i]);
+    }
+  }
+  if (twtColumn) {
     // two-way time: each wall converted to depth on its own (lib/engine/time-picks.ts), once every row is known good
     if (problems.count > 0 && !options.dropBadRows) throw new PickInputError(summarise(rejected, problems.count), rejected, problems.count > rejected.length);
     if (picks.x.length > 0) {
-      const converted = picksToDepth(picks, cut(table.twt), options.velocityModel);
+      const converted = picksToDepth(picks, twtColumn, options.velocityModel);
       picks = converted.picks;
       warnings.push(...converted.warnings);
     }
@@ -135,6 +158,8 @@ interface RowTable {
   /** hanging-wall / footwall interval thickness (m), only when the file has those columns */
   hw?: Float64Array;
   fw?: Float64Array;
+  /** rake (degrees), only when the file has that column */
+  rake?: Float64Array;
   /** two-way time (ms) of each pick in a time file (z is then NaN and the throw is in ms until converted) */
   twt?: Float64Array;
 }
@@ -163,6 +188,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
   const hs = new Float64Array(n), qs = new Float64Array(n);
   const thick = col.has("hw_thickness") || col.has("fw_thickness");
   const hw = thick ? new Float64Array(n) : undefined, fw = thick ? new Float64Array(n) : undefined;
+  const rake = col.has("rake") ? new Float64Array(n) : undefined;
   const seg = new Uint32Array(n), hor = new Int32Array(n), src = new Uint32Array(n);
   const twt = timeFile ? new Float64Array(n) : undefined;
   const segmentNames: string[] = [];
@@ -223,6 +249,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
       hw[count] = row.hw_thickness !== undefined ? row.hw_thickness * scale : NaN;
       fw[count] = row.fw_thickness !== undefined ? row.fw_thickness * scale : NaN;
     }
+    if (rake) rake[count] = row.rake ?? NaN;
     const segName = row.segment ?? "main";
     let si = segmentIndex.get(segName);
     if (si === undefined) {
@@ -244,7 +271,7 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     count++;
   }
 
-  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw, twt };
+  return { rows, count, xs, ys, zs, ts, hs, qs, seg, hor, src, segmentNames, horizonNames, hw, fw, rake, twt };
 }
 
 // ---- fast reader for clean numeric files -------------------------------------------------------------------------
@@ -376,7 +403,8 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     roles[i] = h === "segment" ? ROLE_SEGMENT : h === "horizon" ? ROLE_HORIZON : (NUMERIC as readonly string[]).indexOf(h);
   });
   if (!seen.has("x") || !seen.has("y") || !seen.has("throw") || (!seen.has("z") && !seen.has("depth"))) return null;
-  if (seen.has("hw_thickness") || seen.has("fw_thickness")) return null; // interval thicknesses: the general reader keeps them
+  // interval thicknesses and rakes: the general reader keeps them
+  if (seen.has("hw_thickness") || seen.has("fw_thickness") || seen.has("rake")) return null;
   const [X, Y, Z, DEPTH, THROW, HEAVE, QUALITY] = [0, 1, 2, 3, 4, 5, 6];
   const roleCount = roles.length;
 
@@ -501,6 +529,20 @@ class NameTable {
 
 const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "pick file");
 
+/** The picks `ids` (in that order): every column, optional ones included. */
+export function selectPicks(picks: PickColumns, ids: number[]): PickColumns {
+  const take = <T extends Float64Array | Uint32Array | Int32Array>(a: T): T => {
+    const out = new (a.constructor as new (len: number) => T)(ids.length);
+    ids.forEach((id, k) => (out[k] = a[id]));
+    return out;
+  };
+  const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
+  if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
+  if (picks.rakeDeg) out.rakeDeg = take(picks.rakeDeg);
+  if (picks.twtMs && picks.throwMs) Object.assign(out, { twtMs: take(picks.twtMs), throwMs: take(picks.throwMs) });
+  return out;
+}
+
 export function indicesBySegment(picks: PickColumns): Uint32Array[] {
   const counts = new Uint32Array(picks.segmentNames.length);
   for (let i = 0; i < picks.segment.length; i++) counts[picks.segment[i]]++;
@@ -572,14 +614,7 @@ function handleDuplicates(
   }
   const ids: number[] = [];
   for (let i = 0; i < n; i++) if (keep[i]) ids.push(i);
-  const take = <T extends Float64Array | Uint32Array | Int32Array>(a: T): T => {
-    const out = new (a.constructor as new (len: number) => T)(ids.length);
-    ids.forEach((id, k) => (out[k] = a[id]));
-    return out;
-  };
-  const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
-  if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
-  if (picks.twtMs && picks.throwMs) Object.assign(out, { twtMs: take(picks.twtMs), throwMs: take(picks.throwMs) });
+  const out = selectPicks(picks, ids);
   if (mode === "average") {
     ids.forEach((id, k) => {
       out.throwM[k] = sumT[id] / cnt[id];

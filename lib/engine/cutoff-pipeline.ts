@@ -6,6 +6,7 @@ import { deriveFromCutoffs, derivedPickProblems, type CutoffDeriveOptions, type 
 import { MAX_REJECTED_LISTED } from "./input-error";
 import { analyzePicks, type PipelineOptions, type PipelineResult } from "./pipeline";
 import { describeVelocityModel, DEPTH_CONVERSION_CAUTION, type VelocityModel } from "./time-depth";
+import type { PickColumns } from "./types";
 
 export type CutoffOptions = CutoffParseOptions & CutoffDeriveOptions;
 
@@ -42,7 +43,7 @@ export function depthConversionReport(model: VelocityModel) {
 }
 
 /** Reads, derives and analyses a cut-off file. */
-export function analyzeCutoffCsv(text: string, options: PipelineOptions & CutoffOptions = {}): PipelineResult & { cutoffs: CutoffSummary; parsed: CutoffParseResult } {
+export function analyzeCutoffCsv(text: string, options: PipelineOptions & CutoffOptions = {}): PipelineResult & { cutoffs: CutoffSummary; parsed: CutoffParseResult; picks: PickColumns } {
   options.onStage?.("parse", 0);
   const { parsed, derivation } = deriveCutoffCsv(text, options);
   const result = analyzePicks(derivation.picks, {
@@ -50,5 +51,5 @@ export function analyzeCutoffCsv(text: string, options: PipelineOptions & Cutoff
     input: { rows: parsed.rows, accepted: derivation.picks.x.length, rejected: parsed.rejected, units: options.units ?? "m" },
     warnings: derivation.summary.warnings,
   });
-  return { ...result, cutoffs: derivation.summary, parsed };
+  return { ...result, cutoffs: derivation.summary, parsed, picks: derivation.picks };
 }

@@ -1,22 +1,25 @@
-import type { AnalysisOptions, AnalysisReport, AnalysisSettings, PickColumns, PlaneFit, RegularGrid, SegmentResult } from "./types";
-import { indicesBySegment, parsePickCsv, type ParseOptions } from "./csv";
+import type { AnalysisOptions, AnalysisReport, AnalysisSettings, FaultKinematics, PickColumns, PlaneFit, RegularGrid, SegmentResult } from "./types";
+import { indicesBySegment, parsePickCsv, PickInputError, type ParseOptions } from "./csv";
 import { fitPlane } from "./plane";
-import { planeToWorld, projectToPlane } from "@/lib/display/frame";
+import { projectToPlane } from "@/lib/display/frame";
 import { displacementColumn } from "./displacement";
+import { kinematicRowProblems, kinematicsProblems, kinematicsSummary, rakeColumn } from "./kinematics";
+import { buildSurfaceModel, extentAlongSurface, localDipColumn, surfaceOnGrid, surfacePoint, type SurfaceModel } from "./fault-surface";
+import { asymmetryAlongSurface, surfaceCentroid, surfaceSummary, tipLineOnSurface } from "./surface-measures";
 import { triangulate } from "./triangulate";
 import { buildGrid, gridSpecFor } from "./grid";
 import { contourGrid, contourLevels, niceInterval } from "./contours";
 import { summariseTipLine, tipLineFromFits, type TipLineSummary } from "./tipline";
 import { fitTipLine } from "./tipline-fit";
 import { tipLineInputs, type TipLineInputs } from "./tipline-inputs";
-import { aspectRatioNote, displacementCentroid, gridGradients, scalingNote } from "./metrics";
+import { aspectRatioNote, gridGradients, scalingNote } from "./metrics";
 import { analyzeRelays } from "./relays";
 import { pickWeights, pullTowardNeighbours, qualityNote, weightsMatter } from "./quality";
 import { smoothGrid } from "./surface";
 
-export const ENGINE_VERSION = "2.0.0";
+export const ENGINE_VERSION = "2.1.0";
 
-export type Stage = "parse" | "plane" | "triangulate" | "grid" | "contours" | "tipline" | "metrics" | "relays" | "done";
+export type Stage = "parse" | "plane" | "triangulate" | "surface" | "grid" | "contours" | "tipline" | "metrics" | "relays" | "done";
 
 /**
  * Starts the tip-line profile fits of one segment and returns a function that waits for their result. The pipeline
@@ -50,10 +53,14 @@ export interface SegmentTriangulation {
   medianEdgeM: number;
 }
 
-/** A report with the full-resolution grids it was made with: what the grid, picks and profile exports are made from. */
+/**
+ * A report with the full-resolution grids it was made with (and each pick's displacement, from its local dip and rake):
+ * what the grid, picks and profile exports are made from.
+ */
 export interface ReportWithGrids {
   report: AnalysisReport;
-  grids: Record<string, Pick<RegularGrid, "s0" | "t0" | "cellM" | "columns" | "rows" | "displacementM" | "throwM">>;
+  grids: Record<string, RegularGrid>;
+  pickDisplacementM: Float64Array;
 }
 
 export interface PipelineResult {
@@ -61,6 +68,10 @@ export interface PipelineResult {
   grids: Record<string, RegularGrid>;
   /** per segment id, the triangulation the grids were made on (the stress screen reuses it) */
   triangulations: Record<string, SegmentTriangulation>;
+  /** each segment's fault surface (keyed like grids) */
+  surfaces: Record<string, SurfaceModel>;
+  /** displacement of every pick from its local dip and rake (input order; NaN for picks of skipped segments) */
+  pickDisplacementM: Float64Array;
 }
 
 /** Analyse parsed picks: every segment, then relays between overlapping segments. */
@@ -70,9 +81,19 @@ export function analyzePicks(
 ): PipelineResult {
   const stage = (s: Stage, segIndex: number, within: number) => options.onStage?.(s, (segIndex + within) / Math.max(1, picks.segmentNames.length));
   const warnings = [...(options.warnings ?? [])];
+  const kinematics: FaultKinematics = options.kinematics ?? { sense: "normal" };
+  const typeProblems = kinematicsProblems(kinematics);
+  if (typeProblems.length) throw new Error(`The fault's type cannot be used: ${typeProblems.join("; ")}.`);
+  const rowProblems = kinematicRowProblems(picks, kinematics, 200);
+  if (rowProblems.length) {
+    const shown = rowProblems.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
+    throw new PickInputError(`${rowProblems.length}${rowProblems.length >= 200 ? "+" : ""} picks do not fit the fault's type: ${shown.join("; ")}`, rowProblems, rowProblems.length >= 200);
+  }
   const segments: SegmentResult[] = [];
   const grids: Record<string, RegularGrid> = {};
   const triangulations: Record<string, SegmentTriangulation> = {};
+  const surfaces: Record<string, SurfaceModel> = {};
+  const pickDisplacementM = new Float64Array(picks.x.length).fill(NaN);
   const bySegment = indicesBySegment(picks);
   let picksBelowOne = 0;
   bySegment.forEach((ids, k) => {
@@ -95,13 +116,21 @@ export function analyzePicks(
       throwM[i] = picks.throwM[ids[i]];
       heaveM[i] = picks.heaveM[ids[i]];
     }
-    const displacementM = displacementColumn(throwM, heaveM, plane.dipDeg);
     stage("triangulate", k, 0.15);
     const tri = triangulate(s, t);
     triangulations[id] = { triangles: tri.triangles, medianEdgeM: tri.medianEdgeM };
     const outline: [number, number][] = tri.outline.map((v) => [s[v], t[v]]);
     if (outline.length) outline.push(outline[0]);
-    const sinDip = Math.sin((plane.dipDeg * Math.PI) / 180);
+
+    // the true surface: the picks' distance from the plane, smoothed; its local dip turns throw into displacement
+    stage("surface", k, 0.2);
+    const [surfaceW] = weighted ? pullTowardNeighbours([w], weights, tri.triangles) : [w];
+    const surface = buildSurfaceModel(s, t, surfaceW, tri.triangles, tri.medianEdgeM);
+    surfaces[id] = surface;
+    const localDipDeg = localDipColumn(surface, plane, s, t);
+    const displacementM = displacementColumn(throwM, heaveM, localDipDeg, rakeColumn(picks, ids, kinematics));
+    for (let i = 0; i < ids.length; i++) pickDisplacementM[ids[i]] = displacementM[i];
+
     if (options.throwCutoffM !== undefined) {
       let below = 0;
       for (let i = 0; i < throwM.length; i++) if (throwM[i] < options.throwCutoffM) below++;
@@ -111,15 +140,19 @@ export function analyzePicks(
         );
     }
     const fitInputs = tipLineInputs(s, t, displacementM, tri.outline, tri.triangles, tri.medianEdgeM, {
-      cutoffM: options.throwCutoffM !== undefined && sinDip > 0 ? options.throwCutoffM / sinDip : undefined,
+      cutoffM: options.throwCutoffM !== undefined ? options.throwCutoffM * displacementPerThrow(throwM, displacementM) : undefined,
       models: options.profiles,
       ends: options.ends,
     }, weighted ? weights : undefined);
     const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(fitInputs);
     stage("grid", k, 0.35);
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
-    const [griddedDisplacementM, griddedThrowM, griddedOffPlaneM] = weighted ? pullTowardNeighbours([displacementM, throwM, w], weights, tri.triangles) : [displacementM, throwM, w];
-    const grid = buildGrid(s, t, griddedDisplacementM, griddedThrowM, tri.triangles, spec, griddedOffPlaneM);
+    const [griddedDisplacementM, griddedThrowM] = weighted ? pullTowardNeighbours([displacementM, throwM], weights, tri.triangles) : [displacementM, throwM];
+    const grid = buildGrid(s, t, griddedDisplacementM, griddedThrowM, tri.triangles, spec);
+    const onGrid = surfaceOnGrid(surface, plane, spec, grid.displacementM);
+    grid.offPlaneM = onGrid.offPlaneM;
+    grid.localDipDeg = onGrid.localDipDeg;
+    grid.localStrikeDeg = onGrid.localStrikeDeg;
     if (options.smoothingM && options.smoothingM > 0) {
       // the interpreter's smoothing: contours and views read the smoothed grids; picks, maximum and tip line do not
       grid.displacementM = smoothGrid(grid.displacementM, spec, options.smoothingM);
@@ -129,25 +162,24 @@ export function analyzePicks(
 
     let maxIndex = 0;
     for (let i = 1; i < ids.length; i++) if (griddedDisplacementM[i] > griddedDisplacementM[maxIndex]) maxIndex = i;
-    const maxWorld = planeToWorld(plane, s[maxIndex], t[maxIndex]);
+    const maxWorld = surfacePoint(surface, plane, s[maxIndex], t[maxIndex]);
 
     stage("contours", k, 0.5);
     const intervalM = options.intervalM && options.intervalM > 0 ? options.intervalM : niceInterval(griddedDisplacementM[maxIndex]);
     const contours = contourGrid(spec, grid.displacementM, contourLevels(griddedDisplacementM[maxIndex], intervalM));
 
     stage("tipline", k, 0.7);
-    let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
-    for (let i = 0; i < s.length; i++) {
-      minS = Math.min(minS, s[i]); maxS = Math.max(maxS, s[i]);
-      minT = Math.min(minT, t[i]); maxT = Math.max(maxT, t[i]);
-    }
-    const { tipLine, fittedDmax, gradientTips: tips } = tipLineFromFits(s, t, displacementM, plane, waitForFits());
+    const fitted = tipLineFromFits(s, t, displacementM, plane, waitForFits());
+    // the fits run on the reference plane; their lines are measured and placed on the surface
+    const { tipLine, projected } = tipLineOnSurface(fitted.tipLine, surface, plane);
+    const { fittedDmax, gradientTips: tips } = fitted;
     const aspectWarning = aspectRatioNote(tipLine.aspectRatio);
     if (aspectWarning) warnings.push(`segment "${id}": ${aspectWarning}`);
 
     stage("metrics", k, 0.9);
     const gradients = gridGradients(grid);
-    const half = tipLine.semiAxes;
+    const mapped = extentAlongSurface(surface, outline, 0, 0);
+    const summary = surfaceSummary(surface, { ...spec, displacementM: grid.displacementM, offPlaneM: onGrid.offPlaneM, localDipDeg: onGrid.localDipDeg }, plane.dipDeg, tipLine, projected);
     segments.push({
       id,
       pickCount: ids.length,
@@ -160,15 +192,16 @@ export function analyzePicks(
         displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2],
         fittedDisplacementM: fittedDmax.displacementM, fittedDisplacementRangeM: fittedDmax.rangeM,
       },
-      mappedLimit: { lengthM: maxS - minS, heightM: maxT - minT, polygon: outline, worldPolygon: outline.map(([ps, pt]) => planeToWorld(plane, ps, pt)) },
+      mappedLimit: { lengthM: mapped.lengthM, heightM: mapped.heightM, polygon: outline, worldPolygon: outline.map(([ps, pt]) => surfacePoint(surface, plane, ps, pt)) },
       tipLine,
       gradients: {
         meanPerM: gradients.meanPerM,
         maxPerM: gradients.maxPerM,
         tips: { strikeStartPerM: tips.strikeStartPerM, strikeEndPerM: tips.strikeEndPerM, upDipPerM: tips.upDipPerM, downDipPerM: tips.downDipPerM },
       },
-      centroidOfDisplacement: displacementCentroid(grid),
-      asymmetry: asymmetryOf(s[maxIndex], t[maxIndex], tipLine.polygon, half),
+      centroidOfDisplacement: surfaceCentroid(spec, grid.displacementM, onGrid.areaStretch),
+      asymmetry: asymmetryAlongSurface(surface, tipLine.polygon, tipLine.centre, s[maxIndex], t[maxIndex]),
+      surface: summary,
       scaling: scalingNote(fittedDmax.displacementM, tipLine.lengthM),
       contourIntervalM: intervalM,
       contours: contours.map((c) => ({ levelM: c.levelM, rings: c.rings })),
@@ -183,13 +216,25 @@ export function analyzePicks(
       input: { rows: picks.x.length, accepted: picks.x.length, rejected: [], units: options.units ?? "m", ...options.input },
       quality: { picksBelowOne, note: qualityNote(picksBelowOne) },
       settings: settingsOf(options),
+      kinematics: kinematicsSummary(kinematics, picks),
       segments,
       relays,
       warnings,
     },
     grids,
     triangulations,
+    surfaces,
+    pickDisplacementM,
   };
+}
+
+/** Median displacement per metre of throw over the picks with throw: turns a cut-off given as throw into displacement. */
+function displacementPerThrow(throwM: ArrayLike<number>, displacementM: ArrayLike<number>): number {
+  const ratios: number[] = [];
+  for (let i = 0; i < throwM.length; i++) if (throwM[i] > 0 && displacementM[i] > 0) ratios.push(displacementM[i] / throwM[i]);
+  if (!ratios.length) return 1;
+  ratios.sort((a, b) => a - b);
+  return ratios[ratios.length >> 1];
 }
 
 /** The settings given, without the ones left to their defaults. */
@@ -204,24 +249,15 @@ function settingsOf(options: AnalysisOptions): AnalysisSettings {
   return settings;
 }
 
-/** Where the maximum sits between the tip line's ends: 0 in the middle, ±1 at an end (along strike, down dip). */
-function asymmetryOf(maxS: number, maxT: number, polygon: [number, number][], half: { sM: number; tM: number }): { alongStrike: number; downDip: number } {
-  let minS = Infinity, maxS2 = -Infinity, minT = Infinity, maxT2 = -Infinity;
-  for (const [ps, pt] of polygon) {
-    minS = Math.min(minS, ps); maxS2 = Math.max(maxS2, ps);
-    minT = Math.min(minT, pt); maxT2 = Math.max(maxT2, pt);
-  }
-  return { alongStrike: (maxS - (minS + maxS2) / 2) / half.sM, downDip: (maxT - (minT + maxT2) / 2) / half.tM };
-}
-
-/** Parse a pick CSV and analyse it; throws PickInputError when the input cannot be used. */
-export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult {
+/** Parse a pick CSV and analyse it (the parsed picks come back too); throws PickInputError when the input cannot be used. */
+export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult & { picks: PickColumns } {
   options.onStage?.("parse", 0);
-  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, velocityModel: options.velocityModel });
-  return analyzePicks(parsed.picks, {
+  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, kinematics: options.kinematics, velocityModel: options.velocityModel });
+  const result = analyzePicks(parsed.picks, {
     ...options,
     planes: parsed.planes,
     input: { rows: parsed.rows, accepted: parsed.accepted, rejected: parsed.rejected, units: options.units ?? "m" },
     warnings: parsed.warnings,
   });
+  return { ...result, picks: parsed.picks };
 }

@@ -1,5 +1,8 @@
 // Synthetic fault picks from published isolated-fault models: elliptical tip line (Barnett et al. 1987) with a
 // Walsh & Watterson (1989) or elliptical-crack (Pollard & Segall 1987) profile, truncated at a throw cut-off.
+// Optionally listric (the dip falling linearly with distance down the fault: a circular-arc profile, straight along
+// strike; common practice, no source), with s and t then arc lengths on the surface, and with the picks scattered off
+// the surface along its normal (geometric picking scatter).
 import type { PickColumns, ProfileModel } from "./types";
 import { profileFunction } from "./profiles";
 import { gaussian, mulberry32 } from "./optimize";
@@ -27,6 +30,10 @@ export interface SyntheticFaultOptions {
   pickCount?: number;
   /** tip-line centre in world coordinates (x East, y North, z Up) */
   centre?: [number, number, number];
+  /** listric: the dip at the top and at the base of the tip line (degrees); dipDeg is then unused */
+  listric?: { dipTopDeg: number; dipBaseDeg: number };
+  /** standard deviation of Gaussian scatter of the picks off the surface, along its normal (m) */
+  scatterM?: number;
 }
 
 export interface SyntheticTruth {
@@ -60,8 +67,19 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumn
   const segment = o.segment ?? "main";
   const sv = strikeVectorOf(strikeDeg);
   const dv = dipVectorOf((strikeDeg + 90) % 360, dipDeg);
-  const sinDip = Math.sin((dipDeg * Math.PI) / 180);
   const h = Math.sqrt((Math.PI * a * b) / n);
+  const rad = Math.PI / 180;
+  // the surface down the dip at arc length t from the centre: horizontal (along the dip direction) and vertical offsets,
+  // and the dip there; a plane unless listric (δ(t) = δ0 − κ·t, integrated in closed form)
+  const across = strikeVectorOf(strikeDeg + 90);
+  const dip0 = o.listric ? ((o.listric.dipTopDeg + o.listric.dipBaseDeg) / 2) * rad : (dipDeg * Math.PI) / 180;
+  const kappa = o.listric ? ((o.listric.dipTopDeg - o.listric.dipBaseDeg) * rad) / (2 * b) : 0;
+  const downDip = (t: number): { horizontal: number; vertical: number; dip: number } => {
+    const dip = dip0 - kappa * t;
+    if (kappa === 0) return { horizontal: t * Math.cos(dip0), vertical: -t * Math.sin(dip0), dip };
+    return { horizontal: (Math.sin(dip0) - Math.sin(dip)) / kappa, vertical: (Math.cos(dip) - Math.cos(dip0)) / kappa, dip };
+  };
+  const scatterM = o.scatterM ?? 0;
   let count = 0;
   for (let j = 0; j * h < 2 * b; j++) {
     for (let i = 0; i * h < 2 * a; i++) {
@@ -69,18 +87,27 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumn
       const t = -b + (j + 0.5 + 0.6 * (rand() - 0.5)) * h;
       const r = Math.hypot(s / a, t / b);
       if (r >= 1) continue;
-      const throwM = dmaxM * f(r) * sinDip + noiseM * gaussian(rand);
+      const { horizontal, vertical, dip } = o.listric ? downDip(t) : { horizontal: 0, vertical: 0, dip: dip0 };
+      const throwM = dmaxM * f(r) * Math.sin(dip) + noiseM * gaussian(rand);
       if (throwM < cutoff || throwM < 0) continue;
-      out.x.push(centre[0] + s * sv[0] + t * dv[0]);
-      out.y.push(centre[1] + s * sv[1] + t * dv[1]);
-      out.z.push(centre[2] + s * sv[2] + t * dv[2]);
+      // scatter along the upward normal: sin δ toward the dip direction, cos δ up
+      const off = scatterM > 0 ? scatterM * gaussian(rand) : 0;
+      if (o.listric) {
+        out.x.push(centre[0] + s * sv[0] + horizontal * across[0] + off * Math.sin(dip) * across[0]);
+        out.y.push(centre[1] + s * sv[1] + horizontal * across[1] + off * Math.sin(dip) * across[1]);
+        out.z.push(centre[2] + vertical + off * Math.cos(dip));
+      } else {
+        out.x.push(centre[0] + s * sv[0] + t * dv[0] + off * Math.sin(dip) * across[0]);
+        out.y.push(centre[1] + s * sv[1] + t * dv[1] + off * Math.sin(dip) * across[1]);
+        out.z.push(centre[2] + s * sv[2] + t * dv[2] + off * Math.cos(dip));
+      }
       out.throwM.push(throwM);
       count++;
     }
   }
   return {
     count,
-    truth: { segment, lengthM: 2 * a, heightM: 2 * b, halfLengthM: a, halfHeightM: b, dmaxM, strikeDeg, dipDeg, profile, centre },
+    truth: { segment, lengthM: 2 * a, heightM: 2 * b, halfLengthM: a, halfHeightM: b, dmaxM, strikeDeg, dipDeg: o.listric ? dip0 / rad : dipDeg, profile, centre },
   };
 }
 

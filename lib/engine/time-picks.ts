@@ -71,7 +71,8 @@ export function picksToDepth(picks: PickColumns, twtMs: Float64Array, model: Vel
   const out: PickColumns = { ...picks, z: new Float64Array(n), throwM: new Float64Array(n), twtMs: Float64Array.from(twtMs), throwMs: Float64Array.from(throwMs) };
   for (let k = 0; k < n; k++) {
     out.z[k] = (z[k] + z[n + k]) / 2;
-    out.throwM[k] = Math.abs(z[n + k] - z[k]);
+    // a negative time throw (offset of the opposite sense, on an inverted fault) stays negative in depth
+    out.throwM[k] = (throwMs[k] < 0 ? -1 : 1) * Math.abs(z[n + k] - z[k]);
   }
   return { picks: out, warnings };
 }

@@ -127,7 +127,8 @@ function polygonOf(cs: number, ct: number, angles: Float64Array, radii: Float64A
   return out;
 }
 
-function extents(polygon: [number, number][]): { lengthM: number; heightM: number; minS: number; maxS: number; minT: number; maxT: number } {
+/** Extent of a polygon in (s, t): its length along strike, height down dip and bounds (m). */
+export function extents(polygon: [number, number][]): { lengthM: number; heightM: number; minS: number; maxS: number; minT: number; maxT: number } {
   let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
   for (const [s, t] of polygon) {
     minS = Math.min(minS, s); maxS = Math.max(maxS, s);
@@ -136,7 +137,8 @@ function extents(polygon: [number, number][]): { lengthM: number; heightM: numbe
   return { lengthM: maxS - minS, heightM: maxT - minT, minS, maxS, minT, maxT };
 }
 
-function ringArea(polygon: [number, number][]): number {
+/** Area of a closed (s, t) polygon (shoelace formula), m². */
+export function ringArea(polygon: [number, number][]): number {
   let area = 0;
   for (let k = 0; k + 1 < polygon.length; k++) area += polygon[k][0] * polygon[k + 1][1] - polygon[k + 1][0] * polygon[k][1];
   return Math.abs(area) / 2;

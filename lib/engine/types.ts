@@ -2,10 +2,13 @@
 // report and its parts) is the contract in lib/contracts/report.ts, re-exported here for the engine's modules.
 // Coordinates: x East, y North, z Up (m); fault-plane coordinates per segment: s along strike, t down dip.
 
-import type { LengthUnit, ProfileModel, RejectedRow, Ring, TipEndSide } from "@/lib/contracts/report";
+import type { FAULT_KINDS, LengthUnit, ProfileModel, RejectedRow, Ring, TipEndSide } from "@/lib/contracts/report";
 
 export type {
   AnalysisReport,
+  KinematicsSummary,
+  SurfaceOffsetGrid,
+  SurfaceSummary,
   LengthUnit,
   ProfileModel,
   RejectedRow,
@@ -38,9 +41,26 @@ export interface PickColumns {
   /** optional hw_thickness / fw_thickness columns: interval thickness below the pick's horizon (m), NaN where blank */
   hwThicknessM?: Float64Array;
   fwThicknessM?: Float64Array;
+  /** optional rake column: rake of the slip in the fault surface from its strike (degrees, −180…180), NaN where blank */
+  rakeDeg?: Float64Array;
   /** picks read in two-way time: each pick's original time and time throw (ms), kept beside the depth-converted values */
   twtMs?: Float64Array;
   throwMs?: Float64Array;
+}
+
+/** The kind of fault: the sense of its offset and, for oblique slip, the rake (lib/contracts/report.ts). */
+export type FaultSense = (typeof FAULT_KINDS)[number];
+
+export interface FaultKinematics {
+  sense: FaultSense;
+  /**
+   * Rake of the slip vector in the fault surface, measured from the strike direction (degrees, −180…180; negative for
+   * normal slip, positive for reverse: Aki & Richards 1980). Required for oblique faults; normal is −90 and reverse +90
+   * when absent. A pick's own `rake` column overrides it.
+   */
+  rakeDeg?: number;
+  /** throw of the opposite sense (negative throw in the file) is expected in places: the fault was inverted */
+  inversion?: boolean;
 }
 
 export interface ParseResult {
@@ -88,12 +108,20 @@ export interface RegularGrid {
   /** row-major, NaN outside the data */
   displacementM: Float64Array;
   throwM: Float64Array;
-  /** off-plane distance w of the fault surface from the segment's reference plane (m, along its normal), NaN outside */
+  /**
+   * The fault surface's distance w from the segment's reference plane (m, along its normal), NaN outside the data: the
+   * picks' w interpolated on the same triangles, then smoothed at the surface's length scale (lib/engine/fault-surface.ts)
+   */
   offPlaneM?: Float64Array;
+  /** local dip and strike (right-hand rule) of the smoothed surface at each node (degrees), NaN outside the data */
+  localDipDeg?: Float64Array;
+  localStrikeDeg?: Float64Array;
 }
 
 export interface AnalysisOptions {
   units?: LengthUnit;
+  /** the fault's type (default: normal, dip-slip) */
+  kinematics?: FaultKinematics;
   /** contour interval in metres; default a "nice" interval giving ~8-12 levels */
   intervalM?: number;
   /** grid cell size in metres; default from point spacing */

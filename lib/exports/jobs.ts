@@ -12,6 +12,8 @@ import { LeaseLost, type JobContext, type JobHandler } from "@/lib/jobs/processo
 import { fullResolution, loadExportSource, type ExportSource } from "./load";
 import { gridCsv, picksCsv, profilesCsv } from "./tables";
 import type { StrikeProfileMode } from "@/lib/views/profiles";
+import { coordinateComments } from "@/lib/views/grid-csv";
+import { describeCoordinateReference } from "@/lib/crs";
 
 /**
  * Exports that recompute the full-resolution grids (seconds on a large pick set) are jobs: a worker makes the file and
@@ -34,8 +36,11 @@ const POLL_MS = 1000;
 const gzipAsync = promisify(gzip);
 const gunzipAsync = promisify(gunzip);
 
-function exportKey(analysisId: string, kind: ComputedExportKind, mode: ProfileMode) {
-  return kind === "profiles.csv" ? `${analysisId}:${kind}:${mode}` : `${analysisId}:${kind}`;
+/** The stored file's key: the analysis, the kind (and mode), and the study's coordinate reference its header states. */
+function exportKey(analysisId: string, kind: ComputedExportKind, mode: ProfileMode, reference: ExportSource["coordinateReference"]) {
+  const base = kind === "profiles.csv" ? `${analysisId}:${kind}:${mode}` : `${analysisId}:${kind}`;
+  if (!reference) return base;
+  return `${base}:EPSG:${reference.horizontal.epsg}+${reference.vertical.epsg ?? encodeURIComponent(reference.vertical.name)}`;
 }
 
 async function storedFile(key: string) {
@@ -60,7 +65,7 @@ async function exportWorkerAlive() {
 
 /** The export file's text: stored already, or made by a worker now (this request waits for it). */
 export async function computedExport(source: ExportSource, kind: ComputedExportKind, mode: ProfileMode, fileName: string): Promise<string> {
-  const key = exportKey(source.analysis.id, kind, mode);
+  const key = exportKey(source.analysis.id, kind, mode, source.coordinateReference);
   const stored = await storedFile(key);
   if (stored !== null) return stored;
   const db = await getDb();
@@ -112,7 +117,8 @@ async function makeExport({ job, owner, signal }: JobContext) {
   try {
     const source = await loadExportSource(payload.faultId, payload.analysisId);
     const { picks, result } = await fullResolution(source, signal);
-    text = payload.kind === "grid.csv" ? gridCsv(result) : payload.kind === "picks.csv" ? picksCsv(picks, result) : profilesCsv(result, payload.mode);
+    const comments = coordinateComments(source.coordinateReference ? describeCoordinateReference(source.coordinateReference) : null);
+    text = payload.kind === "grid.csv" ? gridCsv(result, comments) : payload.kind === "picks.csv" ? picksCsv(picks, result, comments) : profilesCsv(result, payload.mode, comments);
   } catch (error) {
     if (signal.aborted || !(error instanceof ApiError)) throw error;
     // the analysis is gone or unfinished: a lasting answer, not worth retrying

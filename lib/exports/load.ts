@@ -13,9 +13,12 @@ import { decodePicks } from "@/lib/picks/codec";
 import { lruCache } from "@/lib/lru";
 import { faultScalingPoint } from "@/lib/views/scaling";
 import type { FaultScalingPoint } from "@/lib/contracts/analysis";
+import type { CoordinateReference } from "@/lib/crs";
 
 export interface ExportSource {
   fault: { id: string; name: string; studyId: string; studyName: string };
+  /** the study's coordinate reference (null: not recorded) */
+  coordinateReference: CoordinateReference | null;
   analysis: { id: string; engineVersion: string | null; finishedAt: Date | null; parameters: Record<string, unknown> };
   pickSet: { id: string; version: number; fileName: string; checksum: string; units: "m" | "ft"; rowCount: number; uploadedAt: Date; uploadedBy: string | null };
   report: AnalysisReport;
@@ -29,6 +32,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
       faultName: faults.name,
       studyId: faults.studyId,
       studyName: studies.name,
+      coordinateReference: studies.coordinateReference,
       analysisId: analyses.id,
       engineVersion: analyses.engineVersion,
       finishedAt: analyses.finishedAt,
@@ -57,6 +61,7 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
   if (!row || !row.result) throw new ApiError(404, analysisId ? "That analysis of this fault is not finished or does not exist." : "This fault has no finished analysis to export yet.");
   return {
     fault: { id: faultId, name: row.faultName, studyId: row.studyId, studyName: row.studyName },
+    coordinateReference: row.coordinateReference ?? null,
     analysis: { id: row.analysisId, engineVersion: row.engineVersion, finishedAt: row.finishedAt, parameters: row.parameters },
     pickSet: {
       id: row.pickSetId,
@@ -102,9 +107,15 @@ export async function fullResolution(source: ExportSource, signal?: AbortSignal)
     storedPickBytes(source),
     db.select({ body: base64Bytes(analysisOutputs.body) }).from(analysisOutputs).where(eq(analysisOutputs.analysisId, source.analysis.id)),
   ]);
-  const result: ReportWithGrids = stored
-    ? { report: source.report, grids: unpackAnalysisOutputs(stored.body).grids }
-    : await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters) }, signal);
+  const outputs = stored ? unpackAnalysisOutputs(stored.body) : null;
+  // the fault type the analysis ran with, so recomputed grids are the analysis' own
+  const used = source.report.kinematics;
+  const kinematics = used ? { sense: used.sense, rakeDeg: used.rakeDeg, inversion: used.inversion } : undefined;
+  const result: ReportWithGrids =
+    outputs?.pickDisplacementM
+      ? { report: source.report, grids: outputs.grids, pickDisplacementM: outputs.pickDisplacementM }
+      : // an analysis stored before its outputs were: seconds of work on a large pick set, off the web server's thread
+        await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters), kinematics }, signal);
   const loaded = { picks: decodePicks(bytes), result };
   fullResolutionCache.set(source.analysis.id, loaded);
   return loaded;

@@ -5,9 +5,14 @@ import { fileStem } from "@/lib/views/csv";
 import { faultGeoJson } from "@/lib/views/geojson";
 import { horizonThrowBins } from "@/lib/views/growth";
 import { computedExport } from "./jobs";
+import { ApiError } from "@/lib/api/errors";
+import { analysisDisplay } from "@/lib/analysis/reports";
+import { decodeFaultDisplay } from "@/lib/display/payload";
+import { toLongitudeLatitude } from "@/lib/crs";
+import { faultGltf } from "@/lib/views/gltf";
 import { loadExportSource, loadPicks, studyScalingPoints } from "./load";
 
-export const exportKindSchema = z.enum(["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "scaling.json", "horizons.json"]);
+export const exportKindSchema = z.enum(["grid.csv", "picks.csv", "profiles.csv", "contours.geojson", "surface.glb", "scaling.json", "horizons.json"]);
 export type ExportKind = z.infer<typeof exportKindSchema>;
 
 const querySchema = z.object({
@@ -15,10 +20,10 @@ const querySchema = z.object({
   mode: z.enum(["centre-line", "column-max"]).default("centre-line"),
 });
 
-function attachment(body: string, type: string, fileName: string) {
-  return new Response(body, {
+function attachment(body: string | Uint8Array, type: string, fileName: string) {
+  return new Response(body as BodyInit, {
     headers: {
-      "content-type": `${type}; charset=utf-8`,
+      "content-type": typeof body === "string" ? `${type}; charset=utf-8` : type,
       "content-disposition": `attachment; filename="${fileName}"`,
       "cache-control": "private, no-store",
     },
@@ -33,7 +38,16 @@ export async function exportResponse(faultId: string, kindParam: string, url: UR
   const stem = `${fileStem(source.fault.name)}-v${source.pickSet.version}`;
   switch (kind) {
     case "contours.geojson":
-      return attachment(JSON.stringify(faultGeoJson(source.fault.name, source.report)), "application/geo+json", `${stem}-contours.geojson`);
+      return attachment(JSON.stringify(faultGeoJson(source.fault.name, source.report, source.coordinateReference)), "application/geo+json", `${stem}-contours.geojson`);
+    case "surface.glb": {
+      // the stored display payload (decimated grid, surface, tip lines) is what the 3D view draws: the same model
+      const payload = await analysisDisplay(faultId, source.analysis.id);
+      if (!payload) throw new ApiError(404, "This analysis has no 3D surface to export; run it again.");
+      const display = decodeFaultDisplay(payload);
+      const reference = source.coordinateReference;
+      const bytes = faultGltf(display, { faultName: source.fault.name, coordinateReference: reference, originLongitudeLatitude: reference ? toLongitudeLatitude(reference, display.origin[0], display.origin[1]) : null });
+      return attachment(bytes, "model/gltf-binary", `${stem}-surface.glb`);
+    }
     case "scaling.json":
       return new Response(JSON.stringify({ studyId: source.fault.studyId, faults: await studyScalingPoints(source.fault.studyId) }), {
         headers: { "content-type": "application/json", "cache-control": "private, no-store" },

@@ -9,14 +9,19 @@ function cell(value: CsvCell): string {
   return /[",\n\r]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-export function toCsv(header: string[], rows: Iterable<CsvCell[]>): string {
-  const lines = [header.map(cell).join(",")];
+/** CSV text; `comments` go first, each on a line of its own starting with "# " (e.g. the coordinate reference). */
+export function toCsv(header: string[], rows: Iterable<CsvCell[]>, comments: string[] = []): string {
+  const lines = [...comments.map((comment) => `# ${comment.replace(/[\r\n]+/g, " ")}`), header.map(cell).join(",")];
   for (const row of rows) lines.push(row.map(cell).join(","));
   return lines.join("\n") + "\n";
 }
 
-/** Reads a CSV written by toCsv (quoted cells allowed): header and rows of strings. */
+/** Reads a CSV written by toCsv (quoted cells allowed; leading "#" comment lines skipped): header and rows of strings. */
 export function readCsv(text: string): { header: string[]; rows: string[][] } {
+  while (text.startsWith("#")) {
+    const end = text.indexOf("\n");
+    text = end < 0 ? "" : text.slice(end + 1);
+  }
   const records: string[][] = [];
   let row: string[] = [];
   let field = "";

@@ -1,8 +1,10 @@
 // GeoJSON (RFC 7946 structure) of a fault's contours, inferred tip lines and mapped limits in world coordinates
-// [x, y, z] (m, the pick file's map coordinates and elevation). The positions are projected map metres, not
-// longitude/latitude; the collection says so in its `coordinates` member.
-import { planeToWorld } from "@/lib/display/frame";
+// [x, y, z] (m, the pick file's map coordinates and elevation), on the true fault surface. The positions are projected
+// map metres, not longitude/latitude: with the study's coordinate reference the collection states it in a `crs` member
+// (the named-CRS form of the 2008 GeoJSON specification, which GIS software still reads) and in words in `coordinateReference`.
 import type { AnalysisReport } from "@/lib/engine/types";
+import type { CoordinateReference } from "@/lib/crs";
+import { surfacePointToWorld } from "./profiles";
 
 type Position = [number, number, number];
 
@@ -15,6 +17,8 @@ export interface LineFeature {
 export interface FaultFeatureCollection {
   type: "FeatureCollection";
   features: LineFeature[];
+  crs?: { type: "name"; properties: { name: string } };
+  coordinateReference?: string;
 }
 
 const round = (v: number) => Math.round(v * 1000) / 1000;
@@ -26,13 +30,13 @@ function closed(ring: Position[]): Position[] {
   return a[0] === b[0] && a[1] === b[1] && a[2] === b[2] ? ring : [...ring, a];
 }
 
-export function faultGeoJson(faultName: string, report: AnalysisReport): FaultFeatureCollection {
+export function faultGeoJson(faultName: string, report: AnalysisReport, reference?: CoordinateReference | null): FaultFeatureCollection {
   const features: LineFeature[] = [];
   for (const segment of report.segments) {
     const base = { fault: faultName, segment: segment.id, units: "m" as const };
     for (const level of segment.contours) {
       for (const ring of level.rings) {
-        const coordinates = ring.map(([s, t]) => position(planeToWorld(segment.plane, s, t)));
+        const coordinates = ring.map(([s, t]) => position(surfacePointToWorld(segment, s, t)));
         if (coordinates.length < 2) continue;
         features.push({
           type: "Feature",
@@ -58,5 +62,12 @@ export function faultGeoJson(faultName: string, report: AnalysisReport): FaultFe
       });
     }
   }
-  return { type: "FeatureCollection", features };
+  if (!reference) return { type: "FeatureCollection", features };
+  const vertical = reference.vertical.epsg ? `EPSG:${reference.vertical.epsg} (${reference.vertical.name})` : `datum ${reference.vertical.name}`;
+  return {
+    type: "FeatureCollection",
+    crs: { type: "name", properties: { name: `urn:ogc:def:crs:EPSG::${reference.horizontal.epsg}` } },
+    coordinateReference: `x, y: EPSG:${reference.horizontal.epsg} (${reference.horizontal.name}), metres; z: elevation above ${vertical}, metres, positive up`,
+    features,
+  };
 }

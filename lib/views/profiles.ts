@@ -5,6 +5,7 @@ import { planeToWorld } from "@/lib/display/frame";
 import { EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid-sampler";
 import { PROFILE_LABELS, modelRadius, profileFunction } from "@/lib/engine/profiles";
 import type { SegmentResult } from "@/lib/engine/types";
+import { offsetFromReportGrid } from "@/lib/engine/fault-surface";
 
 export interface GridLike {
   s0: number;
@@ -245,6 +246,15 @@ export function commonStrikeFrame(segments: Pick<SegmentResult, "plane">[]): Str
   }
   const length = Math.hypot(ex, ny) || 1;
   return { strike: [ex / length, ny / length], origin: [segments[0].plane.centroid[0], segments[0].plane.centroid[1]] };
+}
+
+/**
+ * World position of the fault surface over plane coordinates (s, t) of a segment: the plane point moved along the
+ * plane's normal by the surface's offset there (the report's coarse copy of the surface); the plane point for reports
+ * made before the true surface was read.
+ */
+export function surfacePointToWorld(segment: Pick<SegmentResult, "plane" | "surface">, s: number, t: number): [number, number, number] {
+  return planeToWorld(segment.plane, s, t, segment.surface ? offsetFromReportGrid(segment.surface.grid, s, t) : 0);
 }
 
 export function alongStrike(frame: StrikeFrame, x: number, y: number): number {

@@ -37,10 +37,10 @@ test("QG-1: strike profile with both segments, the overlap and an honest legend;
   expect(await axisLabels(chart)).toMatch(/Displacement \(m\)/);
   await expect(chart).toContainText("overlap (relay)");
   await expect(chart).toContainText("fitted model");
-  // QG-1's segments have no resolvable data at the same place along strike: no sum line, so the legend does not list
-  // one, and the note says why (the CSV still carries the sum)
-  await expect(chart).not.toContainText("sum of segments");
-  await expect(page.getByTestId("no-sum-note")).toContainText("no separate sum is drawn");
+  // QG-1's segments both have resolvable data at some places along strike within the relay: the legend lists the sum
+  // line drawn there, and no note says it is missing
+  await expect(chart).toContainText("sum of segments");
+  await expect(page.getByTestId("no-sum-note")).toHaveCount(0);
 
   await page.getByTestId("profile-mode").selectOption("column-max");
   await expect(chart).toHaveAttribute("data-points", /\d+/);
@@ -115,20 +115,23 @@ test("QG-4: single-segment views, down-dip profile, no relay tab, and every expo
 
   await page.getByTestId("view-tab-export").click();
   const grid = await download(page, page.getByTestId("export-grid.csv"));
-  const gridLines = grid.bytes.toString("utf8").trim().split("\n");
-  expect(gridLines[0]).toBe("segment,s,t,x,y,z,displacement,throw");
+  // the demo study's coordinate reference heads every CSV export as comment lines
+  const gridText = grid.bytes.toString("utf8").trim().split("\n");
+  expect(gridText[0]).toBe("# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up");
+  const gridLines = gridText.filter((line) => !line.startsWith("#"));
+  expect(gridLines[0]).toBe("segment,s,t,x,y,z,displacement,throw,offset,local_dip,local_strike");
   expect(gridLines.length).toBeGreaterThan(1000);
   const maxDisplacement = Math.max(...gridLines.slice(1).map((line) => Number(line.split(",")[6])));
   expect(maxDisplacement).toBeGreaterThan(30);
   expect(maxDisplacement).toBeLessThan(120);
 
   const picks = await download(page, page.getByTestId("export-picks.csv"));
-  const pickLines = picks.bytes.toString("utf8").trim().split("\n");
+  const pickLines = picks.bytes.toString("utf8").trim().split("\n").filter((line) => !line.startsWith("#"));
   expect(pickLines[0]).toBe("row,segment,horizon,x,y,z,throw,heave,s,t,displacement,surface_displacement,residual");
   expect(pickLines.length).toBeGreaterThan(2000);
 
   const profiles = await download(page, page.getByTestId("export-profiles.csv-mode-centre-line"));
-  expect(profiles.bytes.toString("utf8").split("\n")[0]).toBe("segment,mode,s,t,x,y,z,displacement,throw");
+  expect(profiles.bytes.toString("utf8").split("\n").find((line) => !line.startsWith("#"))).toBe("segment,mode,s,t,x,y,z,displacement,throw");
 
   const geo = await download(page, page.getByTestId("export-contours.geojson"));
   const collection = JSON.parse(geo.bytes.toString("utf8"));
@@ -136,6 +139,13 @@ test("QG-4: single-segment views, down-dip profile, no relay tab, and every expo
   const kinds = new Set(collection.features.map((feature: { properties: { kind: string } }) => feature.properties.kind));
   expect([...kinds].sort()).toEqual(["contour", "mapped-limit", "tip-line"]);
   expect(collection.features[0].geometry.coordinates[0]).toHaveLength(3);
+  expect(collection.crs.properties.name).toBe("urn:ogc:def:crs:EPSG::32631");
+
+  // the 3D model: a glTF 2.0 binary whose extras state the coordinate reference
+  const model = await download(page, page.getByTestId("export-surface.glb"));
+  expect(model.bytes.readUInt32LE(0)).toBe(0x46546c67);
+  const gltf = JSON.parse(model.bytes.subarray(20, 20 + model.bytes.readUInt32LE(12)).toString("utf8"));
+  expect(gltf.asset.extras.coordinateReference.horizontal).toBe("EPSG:32631");
 
   const scene = await download(page, page.getByTestId("export-3d-png"));
   expect(isPng(scene.bytes)).toBe(true);

@@ -8,6 +8,8 @@ import { analyzeCsv } from "@/lib/engine/pipeline";
 import { generateSyntheticPicks, syntheticRelayOptions, toCsv } from "@/lib/engine/synthetic";
 import { faultGeoJson } from "@/lib/views/geojson";
 import { gridCsv } from "@/lib/views/grid-csv";
+import { createRequire } from "node:module";
+import { LISTRIC, curvedFaultPicks } from "./curved-faults";
 
 const root = path.resolve(__dirname, "../../..");
 // the command as people run it: the bin entry, which runs the bundled dist/slipfield-cli.cjs
@@ -37,9 +39,13 @@ describe("analyze command line", () => {
     expect(Math.abs(seg.plane.strikeDeg - truth[0].strikeDeg)).toBeLessThan(0.01);
     expect(Math.abs(seg.plane.dipDeg - truth[0].dipDeg)).toBeLessThan(0.01);
     expect(seg.plane.rmsM).toBeLessThan(0.01);
-    // Dmax is the largest pick displacement, throw / sin(dip) (Groshong 2006), computed here from the CSV's throws
+    // Dmax is the largest pick displacement, throw / sin(dip) (Groshong 2006), computed here from the CSV's throws; the
+    // local dip of the surface read from millimetre-rounded positions differs from the plane's by under 1e-4°
     const csvThrows = toCsv(picks).trim().split("\n").slice(1).map((line) => Number(line.split(",")[3]));
-    expect(seg.max.displacementM).toBeCloseTo(Math.max(...csvThrows) / Math.sin((seg.plane.dipDeg * Math.PI) / 180), 6);
+    expect(seg.max.displacementM).toBeCloseTo(Math.max(...csvThrows) / Math.sin((seg.plane.dipDeg * Math.PI) / 180), 4);
+    // the surface is the plane: it stays within a centimetre of it
+    expect(seg.surface.maxOffsetM).toBeLessThan(0.01);
+    expect(seg.surface.matters).toBe(false);
     expect(seg.max.throwM).toBe(Math.max(...csvThrows));
     // --interval 10: every level is a multiple of 10 m below Dmax, none missing
     const levels = seg.contours.map((c: { levelM: number }) => c.levelM);
@@ -112,7 +118,7 @@ describe("analyze command line", () => {
     const csv = runIn(dir, text, "-", "--format", "csv");
     expect(csv.status, csv.stderr).toBe(0);
     expect(csv.stdout).toBe(`${gridCsv(result).trimEnd()}\n`);
-    expect(csv.stdout.split("\n")[0]).toBe("segment,s,t,x,y,z,displacement,throw");
+    expect(csv.stdout.split("\n")[0]).toBe("segment,s,t,x,y,z,displacement,throw,offset,local_dip,local_strike");
     const geojson = runIn(dir, text, "-", "--format=geojson");
     expect(geojson.status, geojson.stderr).toBe(0);
     const collection = JSON.parse(geojson.stdout);
@@ -146,12 +152,12 @@ describe("analyze command line", () => {
     const csv = runIn(dir, undefined, "batch/f21.csv", "batch/f22.csv", "--format", "csv");
     expect(csv.status, csv.stderr).toBe(0);
     const rows = csv.stdout.trim().split("\n");
-    expect(rows[0]).toBe("file,segment,s,t,x,y,z,displacement,throw");
+    expect(rows[0]).toBe("file,segment,s,t,x,y,z,displacement,throw,offset,local_dip,local_strike");
     expect(new Set(rows.slice(1).map((row) => row.split(",")[0]))).toEqual(new Set(["batch/f21.csv", "batch/f22.csv"]));
   });
 
   it("refuses unknown options, formats and missing files with exit 2 and a message", () => {
-    expect(run("--format", "xml", "a.csv").stderr).toContain('--format must be one of text, json, csv, geojson, got "xml"');
+    expect(run("--format", "xml", "a.csv").stderr).toContain('--format must be one of text, json, csv, geojson, gltf, got "xml"');
     expect(run("--json", "--format", "csv", "a.csv").stderr).toContain("choose one output format");
     expect(run("--frobnicate", "a.csv").status).toBe(2);
     const missing = run(path.join(dir, "no-such.csv"));
@@ -161,5 +167,68 @@ describe("analyze command line", () => {
     const help = run("--help");
     expect(help.status).toBe(0);
     expect(help.stdout).toContain("--format F");
+  });
+
+  it("the true surface per segment in the JSON, --format gltf passes the Khronos validator, --crs is stated in csv, geojson and gltf", async () => {
+    const file = path.join(dir, "listric.csv");
+    const { picks } = curvedFaultPicks(LISTRIC);
+    writeFileSync(file, toCsv(picks));
+    const json = run(file, "--json");
+    expect(json.status, json.stderr).toBe(0);
+    const [segment] = JSON.parse(json.stdout).segments;
+    // the names outside checks read: surface offsets, tip-line size along the surface, asymmetry from local-dip displacement
+    expect(segment.surface.maxOffsetM).toBeGreaterThan(40);
+    expect(segment.surface.rmsOffsetM).toBeGreaterThan(10);
+    expect(Math.abs(segment.tipLine.lengthM / (2 * LISTRIC.a) - 1)).toBeLessThan(0.03);
+    expect(Math.abs(segment.tipLine.heightM / (2 * LISTRIC.b) - 1)).toBeLessThan(0.03);
+    expect(Math.abs(segment.asymmetry.downDip)).toBeLessThan(0.2);
+
+    // the full-resolution model is over a megabyte: room for it on the pipe
+    const model = spawnSync(process.execPath, [bin, "analyze", file, "--format", "gltf", "--crs", "EPSG:32631+5714"], { cwd: root, maxBuffer: 64 * 1024 * 1024 });
+    expect(model.status, model.stderr.toString()).toBe(0);
+    const bytes = new Uint8Array(model.stdout);
+    const validator = createRequire(import.meta.url)("gltf-validator") as { validateBytes(data: Uint8Array): Promise<{ issues: { numErrors: number } }> };
+    expect((await validator.validateBytes(bytes)).issues.numErrors).toBe(0);
+    const jsonLength = new DataView(bytes.buffer, bytes.byteOffset).getUint32(12, true);
+    const gltf = JSON.parse(new TextDecoder().decode(bytes.subarray(20, 20 + jsonLength)));
+    expect(gltf.asset.extras.coordinateReference.horizontal).toBe("EPSG:32631");
+
+    const csv = run(file, "--format", "csv", "--crs", "EPSG:32631+5714");
+    expect(csv.stdout.split("\n")[0]).toBe("# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up");
+    const geojson = JSON.parse(run(file, "--format", "geojson", "--crs", "EPSG:32631").stdout);
+    expect(geojson.crs.properties.name).toBe("urn:ogc:def:crs:EPSG::32631");
+    expect(checkGeoJson(JSON.stringify(geojson)).type).toBe("FeatureCollection");
+
+    const feet = run(file, "--format", "csv", "--crs", "EPSG:2277");
+    expect(feet.status).toBe(2);
+    expect(feet.stderr).toContain("measures in US survey foot");
+    expect(run(file, "--format", "gltf", file).stderr).toContain("--format gltf writes one model");
+  });
+
+  it("fault types: --sense reverse and oblique --rake, refusals near strike-slip and of negative throw without --inversion", () => {
+    const file = path.join(dir, "plane.csv");
+    const { picks } = generateSyntheticPicks({ seed: 5, pickCount: 600, dipDeg: 40 });
+    writeFileSync(file, toCsv(picks));
+    const normal = JSON.parse(run(file, "--json").stdout);
+    const oblique = JSON.parse(run(file, "--json", "--sense", "oblique", "--rake", "-30").stdout);
+    expect(oblique.kinematics).toMatchObject({ sense: "oblique", rakeDeg: -30, hangingWall: "down" });
+    // D = T / (sin δ · |sin r|): at r = −30° every displacement doubles
+    expect(oblique.segments[0].max.displacementM / normal.segments[0].max.displacementM).toBeCloseTo(2, 9);
+    expect(JSON.parse(run(file, "--json", "--sense", "reverse").stdout).kinematics.hangingWall).toBe("up");
+    const strikeSlip = run(file, "--sense", "oblique", "--rake", "175");
+    expect(strikeSlip.status).toBe(2);
+    expect(strikeSlip.stderr).toContain("--rake: rake 175° is within 20° of pure strike-slip");
+    expect(run(file, "--rake", "-45").stderr).toContain("for a fault whose slip is oblique add --sense oblique");
+    const pairingRake = run(file, "--rake", "45");
+    expect(pairingRake.status).toBe(2);
+    expect(pairingRake.stderr).toContain("--rake without --sense oblique is a cut-off file's pairing rake, and this is a pick file");
+    const negative = path.join(dir, "negative.csv");
+    writeFileSync(negative, toCsv(picks).replace(/,(\d+\.\d+),main\n/, ",-$1,main\n"));
+    const refused = run(negative, "--json");
+    expect(refused.status).toBe(2);
+    expect(refused.stderr).toContain("negative throw is offset opposite to the fault's normal sense");
+    const inverted = run(negative, "--json", "--inversion");
+    expect(inverted.status, inverted.stderr).toBe(0);
+    expect(JSON.parse(inverted.stdout).kinematics.oppositeSensePicks).toBe(1);
   });
 });

@@ -40,7 +40,8 @@ describe("analysis pipeline", () => {
     let maxThrow = 0;
     for (const value of picks.throwM) maxThrow = Math.max(maxThrow, value);
     expect(Math.abs(seg.max.displacementM - maxThrow / Math.sin((55 * Math.PI) / 180))).toBeLessThan(1e-3 / Math.sin((55 * Math.PI) / 180));
-    expect(seg.max.throwM).toBeCloseTo(seg.max.displacementM * Math.sin((seg.plane.dipDeg * Math.PI) / 180), 6);
+    // with the local dip, which the millimetre rounding of the positions tilts by under 1e-4° here
+    expect(seg.max.throwM).toBeCloseTo(seg.max.displacementM * Math.sin((seg.plane.dipDeg * Math.PI) / 180), 4);
     // and it cannot exceed the model's Dmax by more than 4 standard deviations of the throw noise (1.5 m / sin 55°)
     expect(seg.max.displacementM).toBeLessThan(truth[0].dmaxM + (4 * 1.5) / Math.sin((55 * Math.PI) / 180));
     // the grid holds data exactly inside the mapped outline: every node further than one cell from the outline is

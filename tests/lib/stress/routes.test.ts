@@ -159,8 +159,10 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
     expect(summary.minPressureToFailureMPa.low).toBeLessThanOrEqual(summary.minPressureToFailureMPa.high);
     expect(summary.minPressureToFailureMPa.criticalRange[0]).toBeLessThanOrEqual(summary.minPressureToFailureMPa.critical);
     expect(summary.minPressureToFailureMPa.criticalRange[1]).toBeGreaterThanOrEqual(summary.minPressureToFailureMPa.critical);
-    // the demo picks lie exactly on planes (lib/demo.ts), so the smoothed surface is that plane and nothing scatters
-    expect(summary.orientation.medianSlopeScatterDeg).toBeLessThan(0.01);
+    // the demo picks scatter 2 m off their planes (lib/demo.ts): at the smoothing length that reads as a few degrees of
+    // orientation scatter, never the tens of degrees of a bent surface (common practice, no source)
+    expect(summary.orientation.medianSlopeScatterDeg).toBeGreaterThan(0.1);
+    expect(summary.orientation.medianSlopeScatterDeg).toBeLessThan(5);
     // the default length: 200 m or 4 median pick spacings; QG-1's picks are about 60 m apart
     expect(json.orientation.lengthScaleM).toBe(json.orientation.defaultLengthScaleM);
     expect(json.orientation.defaultLengthScaleM).toBe(Math.max(200, Math.ceil((4 * json.orientation.medianPickSpacingM) / 10) * 10));

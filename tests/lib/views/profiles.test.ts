@@ -157,14 +157,15 @@ describe("relay sketch (strike–normal coordinates)", () => {
     expect(sketch.overlap![1] - sketch.overlap![0]).toBeCloseTo(report.relays[0].overlapM, 6);
     // lib/demo.ts centres the south plane 260 m across strike (toward the dip direction, 242°) and 40 m below the north
     // one, dipping 61° against 58°. At the reference elevation z_ref a plane's trace lies (z_C − z_ref)/tan δ across
-    // from its centre, so the expected separation follows from the two planes alone; both hold their picks exactly.
+    // from its centre, so the expected separation follows from the two planes alone. The picks scatter 2 m off their
+    // planes, which moves the fitted planes, and so the separation, by a fraction of a metre: within 1 m.
     const [north, south] = [a, b];
     const zRef = (north.plane.centroid[2] + south.plane.centroid[2]) / 2;
     const centreZ = { north: -2150, south: -2190 };
     const offset = (zCentre: number, dipDeg: number) => (zCentre - zRef) / Math.tan((dipDeg * Math.PI) / 180);
     const expected = 260 + offset(centreZ.south, 61) - offset(centreZ.north, 58);
-    expect(Math.abs(sketch.separationAtMiddleM - expected)).toBeLessThan(0.01);
-    expect(Math.abs(report.relays[0].separationM - expected)).toBeLessThan(0.01);
+    expect(Math.abs(sketch.separationAtMiddleM - expected)).toBeLessThan(1);
+    expect(Math.abs(report.relays[0].separationM - expected)).toBeLessThan(1);
     // ΔT is a difference of two throws along one segment, each between 0 and that segment's maximum throw; the far end
     // of the overlap lies inside the other segment's picks, every one at or above the 10 m resolution cut-off
     const transfer = Math.max(...sketch.throwTransferM);

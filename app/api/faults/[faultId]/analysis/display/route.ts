@@ -5,7 +5,7 @@ import { analysisDisplay } from "@/lib/analysis/reports";
 
 type Params = { faultId: string };
 
-/** The decimated display grid as compact binary (see lib/analysis/display.ts). */
+/** The decimated display grid as compact binary (see lib/display/payload.ts). */
 export const GET = route<Params>(async (request, { faultId }) => {
   await requireFaultRole(faultId, "view");
   const analysisId = new URL(request.url).searchParams.get("analysis");

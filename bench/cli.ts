@@ -42,7 +42,12 @@ function syntheticFile(dir: string, target: number) {
   const { s, t } = projectToPlane(parsed.x, parsed.y, parsed.z, plane);
   const d = displacementColumn(parsed.throwM, parsed.heaveM, plane.dipDeg);
   const prefix = path.join(dir, `points-${target}`);
-  for (const [suffix, column] of [[".s", s], [".t", t], [".v", d]] as const) writeFileSync(prefix + suffix, Buffer.from(column.buffer, column.byteOffset, column.byteLength));
+  for (const [suffix, column] of [
+    [".s", s],
+    [".t", t],
+    [".v", d],
+  ] as const)
+    writeFileSync(prefix + suffix, Buffer.from(column.buffer, column.byteOffset, column.byteLength));
   let [sMin, sMax, tMin, tMax] = [Infinity, -Infinity, Infinity, -Infinity];
   for (let i = 0; i < s.length; i++) {
     sMin = Math.min(sMin, s[i]);
@@ -58,7 +63,11 @@ function syntheticFile(dir: string, target: number) {
 /** scipy's griddata alone: the first call of a fresh Python process and the best of three in it, ms. */
 function timeScipy(input: ReturnType<typeof syntheticFile>) {
   const { s0, t0, cell, columns, rows } = input.grid;
-  const r = spawnSync(PYTHON, [path.join(__dirname, "griddata_time.py"), input.prefix, String(s0), String(t0), String(cell), String(columns), String(rows), "3"], { encoding: "utf8" });
+  const r = spawnSync(
+    PYTHON,
+    [path.join(__dirname, "griddata_time.py"), input.prefix, String(s0), String(t0), String(cell), String(columns), String(rows), "3"],
+    { encoding: "utf8" },
+  );
   if (r.status !== 0) throw new Error(`scipy: ${r.stderr}`);
   const out = JSON.parse(r.stdout) as { seconds: number; runs: number[] };
   return { first: out.runs[0] * 1000, best: out.seconds * 1000 };
@@ -72,7 +81,12 @@ function main() {
     const out = path.join(dir, "out.json");
     // once before timing, so the bundle is built and the files are in the page cache
     timeCommand([BIN, "analyze", small.file, "--json"], out);
-    const bare: number[] = [], help: number[] = [], smallRuns: number[] = [], largeRuns: number[] = [], scipyFirst: number[] = [], scipyBest: number[] = [];
+    const bare: number[] = [],
+      help: number[] = [],
+      smallRuns: number[] = [],
+      largeRuns: number[] = [],
+      scipyFirst: number[] = [],
+      scipyBest: number[] = [];
     for (let run = 0; run < RUNS; run++) {
       bare.push(timeCommand(["-e", "0"], out));
       help.push(timeCommand([BIN, "analyze", "--help"], out));
@@ -83,16 +97,27 @@ function main() {
       scipyBest.push(scipy.best);
     }
     const f = (ms: number) => ms.toFixed(0);
-    console.log(`machine: ${os.cpus().length} cores, Node ${process.version}, load average ${os.loadavg().map((v) => v.toFixed(2)).join(" ")}; ${RUNS} alternating runs; scipy via ${PYTHON}`);
+    console.log(
+      `machine: ${os.cpus().length} cores, Node ${process.version}, load average ${os
+        .loadavg()
+        .map((v) => v.toFixed(2))
+        .join(" ")}; ${RUNS} alternating runs; scipy via ${PYTHON}`,
+    );
     console.log("| what | picks | CSV MB | median ms | best ms |");
     console.log("|---|---:|---:|---:|---:|");
     console.log(`| node -e 0 (bare start-up) | — | — | ${f(median(bare))} | ${f(best(bare))} |`);
     console.log(`| slipfield analyze --help (launcher + bundle loaded) | — | — | ${f(median(help))} | ${f(best(help))} |`);
     console.log(`| slipfield analyze --json, whole command | ${small.picks} | ${small.mb.toFixed(2)} | ${f(median(smallRuns))} | ${f(best(smallRuns))} |`);
     console.log(`| slipfield analyze --json, whole command | ${large.picks} | ${large.mb.toFixed(1)} | ${f(median(largeRuns))} | ${f(best(largeRuns))} |`);
-    console.log(`| scipy griddata(linear) alone, 500 × 250 nodes, first call in its process | ${large.picks} | — | ${f(median(scipyFirst))} | ${f(best(scipyFirst))} |`);
-    console.log(`| scipy griddata(linear) alone, 500 × 250 nodes, best of 3 calls in its process | ${large.picks} | — | ${f(median(scipyBest))} | ${f(best(scipyBest))} |`);
-    console.log(`whole command ÷ scipy best (medians): ${(median(largeRuns) / median(scipyBest)).toFixed(2)} (target under 0.5); 2,000 picks: ${f(median(smallRuns))} ms (target under 300 ms)`);
+    console.log(
+      `| scipy griddata(linear) alone, 500 × 250 nodes, first call in its process | ${large.picks} | — | ${f(median(scipyFirst))} | ${f(best(scipyFirst))} |`,
+    );
+    console.log(
+      `| scipy griddata(linear) alone, 500 × 250 nodes, best of 3 calls in its process | ${large.picks} | — | ${f(median(scipyBest))} | ${f(best(scipyBest))} |`,
+    );
+    console.log(
+      `whole command ÷ scipy best (medians): ${(median(largeRuns) / median(scipyBest)).toFixed(2)} (target under 0.5); 2,000 picks: ${f(median(smallRuns))} ms (target under 300 ms)`,
+    );
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

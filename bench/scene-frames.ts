@@ -7,8 +7,16 @@ import { generateSyntheticPicks, toCsv } from "../lib/engine/synthetic";
 
 const BASE = process.env.BENCH_URL ?? "http://localhost:3000";
 const CHROMIUM_ARGS = [
-  "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
-  "--disable-component-update", "--disable-sync", "--use-angle=swiftshader", "--enable-unsafe-swiftshader",
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+  "--use-angle=swiftshader",
+  "--enable-unsafe-swiftshader",
 ];
 const ORBIT_STEPS = 90;
 

@@ -18,7 +18,7 @@ const RUNS = 5;
 const { picks } = generateSyntheticPicks({ seed: 1, pickCount: Math.round(target / 0.72), halfLengthM: 4000, dmaxM: 120, throwCutoffM: 12, noiseM: 2 });
 // geometric scatter of 3 m off the plane, so the local fit has something to smooth
 let state = 42;
-const uniform = () => ((state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296);
+const uniform = () => (state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296;
 for (let i = 0; i < picks.z.length; i++) picks.z[i] += 3 * (uniform() + uniform() + uniform() - 1.5) * 2;
 const n = picks.x.length;
 const plane = fitPlane(picks.x, picks.y, picks.z);
@@ -53,7 +53,13 @@ for (let run = 0; run < RUNS; run++) {
   const { tipLine, projected } = tipLineOnSurface(segment.tipLine, model, plane);
   extentAlongSurface(model, segment.mappedLimit.polygon, 0, 0);
   asymmetryAlongSurface(model, tipLine.polygon, tipLine.centre, segment.max.s, segment.max.t);
-  surfaceSummary(model, { ...spec, displacementM: grid.displacementM, offPlaneM: onGrid.offPlaneM, localDipDeg: onGrid.localDipDeg }, plane.dipDeg, tipLine, projected);
+  surfaceSummary(
+    model,
+    { ...spec, displacementM: grid.displacementM, offPlaneM: onGrid.offPlaneM, localDipDeg: onGrid.localDipDeg },
+    plane.dipDeg,
+    tipLine,
+    projected,
+  );
   lap("measures along the surface");
 }
 const total = Object.values(best).reduce((a, b) => a + b, 0);

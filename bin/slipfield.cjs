@@ -27,12 +27,12 @@ function bundleIsCurrent() {
 
 const [command] = process.argv.slice(2);
 if (command !== "analyze" && command !== "-h" && command !== "--help") {
-  process.stderr.write(`slipfield: unknown command ${command ? `"${command}"` : "(none)"}\nusage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [--json | --format text|json|csv|geojson] (slipfield analyze --help for the options)\n`);
+  process.stderr.write(
+    `slipfield: unknown command ${command ? `"${command}"` : "(none)"}\nusage: slipfield analyze <file.csv | - | 'folder/*.csv'>... [--json | --format text|json|csv|geojson] (slipfield analyze --help for the options)\n`,
+  );
   process.exit(2);
 }
 if (bundleIsCurrent()) require(bundle);
 else {
-  import(pathToFileURL(path.join(root, "scripts/build-cli.mjs")).href)
-    .then(({ buildCli }) => buildCli())
-    .then(() => require(bundle));
+  import(pathToFileURL(path.join(root, "scripts/build-cli.mjs")).href).then(({ buildCli }) => buildCli()).then(() => require(bundle));
 }

@@ -25,7 +25,12 @@ export async function SiteHeader() {
               E-mail settings
             </Link>
             {showOutbox && (
-              <Link href="/outbox" className={navLink} data-testid="nav-outbox" title="E-mail Slipfield has written (kept on this machine when no mail server is configured)">
+              <Link
+                href="/outbox"
+                className={navLink}
+                data-testid="nav-outbox"
+                title="E-mail Slipfield has written (kept on this machine when no mail server is configured)"
+              >
                 Outbox
               </Link>
             )}

@@ -68,7 +68,11 @@ async function end(transaction: number, commit: boolean) {
 async function handle(pg: PGlite, request: DatabaseRequest): Promise<unknown> {
   switch (request.op) {
     case "query": {
-      const { rows, fields, affectedRows } = await target(pg, request.transaction).query(request.sql, request.params, queryOptions(request.rowMode, request.rawTypes));
+      const { rows, fields, affectedRows } = await target(pg, request.transaction).query(
+        request.sql,
+        request.params,
+        queryOptions(request.rowMode, request.rawTypes),
+      );
       return { rows, fields, affectedRows };
     }
     case "exec":

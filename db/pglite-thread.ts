@@ -3,13 +3,7 @@ import { existsSync } from "node:fs";
 import path from "node:path";
 import { Worker } from "node:worker_threads";
 import type { QueryOptions, Results } from "@electric-sql/pglite";
-import {
-  errorFromData,
-  type DatabaseReply,
-  type DatabaseRequest,
-  type DatabaseThreadData,
-  type DatabaseThreadReady,
-} from "./pglite-thread-protocol";
+import { errorFromData, type DatabaseReply, type DatabaseRequest, type DatabaseThreadData, type DatabaseThreadReady } from "./pglite-thread-protocol";
 
 const WORKER_FILE = path.join(/*turbopackIgnore: true*/ process.cwd(), "dist", "database-worker.mjs");
 

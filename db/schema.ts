@@ -103,9 +103,7 @@ export const faults = pgTable(
       .references(() => studies.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     description: text("description").notNull().default(""),
-    sense: text("sense", { enum: FAULT_SENSE_VALUES })
-      .notNull()
-      .default("normal"),
+    sense: text("sense", { enum: FAULT_SENSE_VALUES }).notNull().default("normal"),
     /** rake of the slip (degrees from the strike, negative normal, positive reverse); oblique faults only */
     rakeDeg: doublePrecision("rake_deg"),
     /** negative throw (offset of the opposite sense) is expected: the fault was inverted */
@@ -155,10 +153,7 @@ export const pickSets = pgTable(
     uploadedBy: text("uploaded_by").references(() => users.id, { onDelete: "set null" }),
     uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (table) => [
-    uniqueIndex("pick_sets_fault_version_idx").on(table.faultId, table.version),
-    index("pick_sets_checksum_idx").on(table.faultId, table.checksum),
-  ],
+  (table) => [uniqueIndex("pick_sets_fault_version_idx").on(table.faultId, table.version), index("pick_sets_checksum_idx").on(table.faultId, table.checksum)],
 );
 
 /**
@@ -215,7 +210,10 @@ export const analyses = pgTable(
     stage: text("stage").notNull().default("queued"),
     progress: real("progress").notNull().default(0),
     /** the interpreter's settings for this run (lib/contracts/analysis-settings.ts) */
-    parameters: jsonb("parameters").$type<AnalysisSettings>().notNull().default(sql`'{}'::jsonb`),
+    parameters: jsonb("parameters")
+      .$type<AnalysisSettings>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     /** the engine's report, its contour levels without rings (the display payload holds them) */
     result: jsonb("result").$type<AnalysisReport>(),
     /** decimated display grids for the 3D view (see lib/display/payload.ts) */
@@ -387,7 +385,10 @@ export const auditLog = pgTable(
     userId: text("user_id"),
     action: text("action").notNull(),
     target: text("target").notNull().default(""),
-    details: jsonb("details").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    details: jsonb("details")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     createdAt: createdAt(),
   },
   (table) => [index("audit_log_study_idx").on(table.studyId, table.createdAt)],
@@ -428,7 +429,10 @@ export const jobs = pgTable(
     /** "analysis" (subject: the analysis id) or "export" (subject: the export file's key) */
     kind: text("kind").notNull(),
     subjectId: text("subject_id").notNull(),
-    payload: jsonb("payload").$type<Record<string, unknown>>().notNull().default(sql`'{}'::jsonb`),
+    payload: jsonb("payload")
+      .$type<Record<string, unknown>>()
+      .notNull()
+      .default(sql`'{}'::jsonb`),
     state: jobState("state").notNull().default("queued"),
     /** claims so far (a claim whose worker died counts) */
     attempts: integer("attempts").notNull().default(0),
@@ -446,9 +450,15 @@ export const jobs = pgTable(
   },
   (table) => [
     // one live job per subject: a second request for the same export joins the first
-    uniqueIndex("jobs_live_subject_idx").on(table.kind, table.subjectId).where(sql`${table.state} in ('queued', 'running')`),
-    index("jobs_queued_idx").on(table.kind, table.runAfter).where(sql`${table.state} = 'queued'`),
-    index("jobs_lease_idx").on(table.leaseUntil).where(sql`${table.state} = 'running'`),
+    uniqueIndex("jobs_live_subject_idx")
+      .on(table.kind, table.subjectId)
+      .where(sql`${table.state} in ('queued', 'running')`),
+    index("jobs_queued_idx")
+      .on(table.kind, table.runAfter)
+      .where(sql`${table.state} = 'queued'`),
+    index("jobs_lease_idx")
+      .on(table.leaseUntil)
+      .where(sql`${table.state} = 'running'`),
   ],
 );
 

@@ -9,7 +9,6 @@ import type { SessionUser } from "@/lib/auth/users";
 import { ApiError, forbidden, unauthorized } from "@/lib/api/errors";
 import { lruCache } from "@/lib/lru";
 
-
 const ACTION_WORDS: Record<StudyAction, string> = {
   view: "view this study",
   edit: "upload picks or edit faults",
@@ -83,7 +82,9 @@ export async function changingRoles<T>(write: () => Promise<T>): Promise<T> {
     return await write();
   } finally {
     forgetRoles();
-    await publish("slipfield_roles", "", { echo: true }).catch((error) => console.error("slipfield: could not tell the other processes about a role change:", error));
+    await publish("slipfield_roles", "", { echo: true }).catch((error) =>
+      console.error("slipfield: could not tell the other processes about a role change:", error),
+    );
   }
 }
 

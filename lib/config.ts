@@ -21,7 +21,10 @@ const text = () => z.optional(z.string().check(z.minLength(1)));
  */
 export const APP_VARIABLES = {
   PORT: { schema: count(1, 65_535, 3000), meaning: "HTTP port of the web server" },
-  SLIPFIELD_URL: { schema: z.optional(z.url({ error: "must be an absolute http(s) address" })), meaning: "public address used in e-mail links (default http://localhost:$PORT)" },
+  SLIPFIELD_URL: {
+    schema: z.optional(z.url({ error: "must be an absolute http(s) address" })),
+    meaning: "public address used in e-mail links (default http://localhost:$PORT)",
+  },
   SLIPFIELD_DATA_DIR: { schema: text(), meaning: "PGlite data folder and the generated auth secret (default ./data)" },
   DATABASE_URL: { schema: text(), meaning: "use this PostgreSQL server instead of the embedded PGlite (same schema and migrations)" },
   SLIPFIELD_DB_POOL: { schema: count(1, 1000, 10), meaning: "PostgreSQL connections per process (plus one that listens for other processes' notifications)" },
@@ -29,19 +32,40 @@ export const APP_VARIABLES = {
   AUTH_SECRET: { schema: text(), meaning: "session signing secret (default: generated on first run into <data>/auth-secret)" },
   SMTP_URL: { schema: text(), meaning: "send e-mail through this SMTP server; without it mail stays in the outbox table on this machine" },
   MAIL_FROM: { schema: z._default(z.string().check(z.minLength(3)), "Slipfield <no-reply@slipfield.local>"), meaning: "sender of Slipfield's e-mail" },
-  SLIPFIELD_OUTBOX: { schema: z.optional(z.enum(["on", "off"], { error: "must be on or off" })), meaning: "the outbox page: shown without SMTP_URL and in development; on keeps it with SMTP_URL in production, off hides it" },
+  SLIPFIELD_OUTBOX: {
+    schema: z.optional(z.enum(["on", "off"], { error: "must be on or off" })),
+    meaning: "the outbox page: shown without SMTP_URL and in development; on keeps it with SMTP_URL in production, off hides it",
+  },
   SLIPFIELD_DIGEST_SECRET: { schema: text(), meaning: "lets a scheduler call POST /api/digest with the header x-slipfield-digest-secret" },
   SLIPFIELD_SEED: { schema: onOff("on"), meaning: "off skips the demo seed on an empty database" },
-  SLIPFIELD_ANALYSIS_WORKERS: { schema: count(0, 64, 1), meaning: "analyses this process runs at once, each in a warm worker thread; 0 leaves them to job workers (npm run worker)" },
+  SLIPFIELD_ANALYSIS_WORKERS: {
+    schema: count(0, 64, 1),
+    meaning: "analyses this process runs at once, each in a warm worker thread; 0 leaves them to job workers (npm run worker)",
+  },
   SLIPFIELD_ANALYSIS_TIMEOUT_MS: { schema: count(1, 24 * 3600_000, 600_000), meaning: "an analysis running longer is stopped and marked failed" },
-  SLIPFIELD_INLINE_ANALYSIS: { schema: z._default(z.enum(["0", "1"], { error: "must be 0 or 1" }), "0"), meaning: "1 runs analyses and upload parsing in this thread instead of a worker thread (the unit tests)" },
-  SLIPFIELD_JOB_LEASE_SECONDS: { schema: seconds(2, 3600, 30), meaning: "a worker holds a job by a lease it renews every third of this; a silent worker's job is taken back after it" },
-  SLIPFIELD_JOB_RETRY_SECONDS: { schema: seconds(0, 3600, 5), meaning: "back-off before an interrupted job is tried again, doubled at each attempt (at most 5 minutes)" },
+  SLIPFIELD_INLINE_ANALYSIS: {
+    schema: z._default(z.enum(["0", "1"], { error: "must be 0 or 1" }), "0"),
+    meaning: "1 runs analyses and upload parsing in this thread instead of a worker thread (the unit tests)",
+  },
+  SLIPFIELD_JOB_LEASE_SECONDS: {
+    schema: seconds(2, 3600, 30),
+    meaning: "a worker holds a job by a lease it renews every third of this; a silent worker's job is taken back after it",
+  },
+  SLIPFIELD_JOB_RETRY_SECONDS: {
+    schema: seconds(0, 3600, 5),
+    meaning: "back-off before an interrupted job is tried again, doubled at each attempt (at most 5 minutes)",
+  },
   SLIPFIELD_JOB_ATTEMPTS: { schema: count(1, 100, 3), meaning: "claims of a job before it is given up" },
-  SLIPFIELD_DRAIN_SECONDS: { schema: seconds(0, 3600, 8), meaning: "on SIGTERM or SIGINT, how long running jobs get to finish before they go back to the queue" },
+  SLIPFIELD_DRAIN_SECONDS: {
+    schema: seconds(0, 3600, 8),
+    meaning: "on SIGTERM or SIGINT, how long running jobs get to finish before they go back to the queue",
+  },
   SLIPFIELD_TIPLINE_THREAD: { schema: onOff("off"), meaning: "command line: fit the tip lines on a helper thread while the main thread grids and contours" },
   SLIPFIELD_DIST_DIR: { schema: text(), meaning: "Next's build folder instead of .next (the real-process tests build apart)" },
-  NODE_ENV: { schema: z._default(z.enum(["development", "production", "test"], { error: "must be development, production or test" }), "development"), meaning: "set by Next.js and the test runner: production turns on the production headers and hides development pages" },
+  NODE_ENV: {
+    schema: z._default(z.enum(["development", "production", "test"], { error: "must be development, production or test" }), "development"),
+    meaning: "set by Next.js and the test runner: production turns on the production headers and hides development pages",
+  },
 } as const;
 
 /**
@@ -75,7 +99,11 @@ export const TOOLING_VARIABLES: Record<string, string> = {
   __NEXT_PRIVATE_ORIGIN: "set by Next.js: the server's own origin (proxy.ts)",
 };
 
-const appSchema = z.object(Object.fromEntries(Object.entries(APP_VARIABLES).map(([name, { schema }]) => [name, schema])) as { [K in keyof typeof APP_VARIABLES]: (typeof APP_VARIABLES)[K]["schema"] });
+const appSchema = z.object(
+  Object.fromEntries(Object.entries(APP_VARIABLES).map(([name, { schema }]) => [name, schema])) as {
+    [K in keyof typeof APP_VARIABLES]: (typeof APP_VARIABLES)[K]["schema"];
+  },
+);
 
 export type Config = z.infer<typeof appSchema>;
 

@@ -70,11 +70,22 @@ export function checkCoordinateReference(input: CoordinateReferenceInput): Coord
   const entry = epsgEntry(input.epsg);
   if (!entry) throw new CoordinateReferenceError("epsg", `EPSG:${input.epsg} is not in the EPSG index; check the code (e.g. 32631 is WGS 84 / UTM zone 31N).`);
   if (entry.kind !== "CRS-PROJCRS") {
-    const kind = entry.kind === "CRS-GEOGCRS" ? "a geographic (longitude/latitude) system" : entry.kind === "CRS-VERTCRS" ? "a vertical system" : `not a projected system (${entry.kind})`;
-    throw new CoordinateReferenceError("epsg", `EPSG:${input.epsg} (${entry.name}) is ${kind}; pick files hold projected map coordinates in metres, so give the projected CRS they are in.`);
+    const kind =
+      entry.kind === "CRS-GEOGCRS"
+        ? "a geographic (longitude/latitude) system"
+        : entry.kind === "CRS-VERTCRS"
+          ? "a vertical system"
+          : `not a projected system (${entry.kind})`;
+    throw new CoordinateReferenceError(
+      "epsg",
+      `EPSG:${input.epsg} (${entry.name}) is ${kind}; pick files hold projected map coordinates in metres, so give the projected CRS they are in.`,
+    );
   }
   if (!isMetre(entry.unit)) {
-    throw new CoordinateReferenceError("epsg", `EPSG:${input.epsg} (${entry.name}) measures in ${entry.unit}; Slipfield keeps map coordinates in metres, so give the metre version of that projection.`);
+    throw new CoordinateReferenceError(
+      "epsg",
+      `EPSG:${input.epsg} (${entry.name}) measures in ${entry.unit}; Slipfield keeps map coordinates in metres, so give the metre version of that projection.`,
+    );
   }
   try {
     // the projection itself (no datum shift, which may need grids not shipped): inverse and forward must round-trip
@@ -90,11 +101,20 @@ export function checkCoordinateReference(input: CoordinateReferenceInput): Coord
     return { horizontal, vertical: { epsg: null, name: input.verticalDatum?.trim() || "not stated", unit: "metre" } };
   }
   const vertical = epsgEntry(input.verticalEpsg);
-  if (!vertical) throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} is not in the EPSG index; check the code (e.g. 5714 is MSL height).`);
-  if (vertical.kind !== "CRS-VERTCRS") throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} (${vertical.name}) is not a vertical system.`);
-  if (!isMetre(vertical.unit)) throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} (${vertical.name}) measures in ${vertical.unit}; Slipfield keeps elevations in metres, so give the metre version.`);
+  if (!vertical)
+    throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} is not in the EPSG index; check the code (e.g. 5714 is MSL height).`);
+  if (vertical.kind !== "CRS-VERTCRS")
+    throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} (${vertical.name}) is not a vertical system.`);
+  if (!isMetre(vertical.unit))
+    throw new CoordinateReferenceError(
+      "verticalEpsg",
+      `EPSG:${input.verticalEpsg} (${vertical.name}) measures in ${vertical.unit}; Slipfield keeps elevations in metres, so give the metre version.`,
+    );
   if (/AXIS\[[^\]]*,\s*DOWN\]/i.test(vertical.wkt)) {
-    throw new CoordinateReferenceError("verticalEpsg", `EPSG:${input.verticalEpsg} (${vertical.name}) measures depth (positive down); z in Slipfield is elevation, positive up, so give the height system of that datum (e.g. 5714 MSL height rather than 5715 MSL depth).`);
+    throw new CoordinateReferenceError(
+      "verticalEpsg",
+      `EPSG:${input.verticalEpsg} (${vertical.name}) measures depth (positive down); z in Slipfield is elevation, positive up, so give the height system of that datum (e.g. 5714 MSL height rather than 5715 MSL depth).`,
+    );
   }
   return { horizontal, vertical: { epsg: input.verticalEpsg, name: vertical.name, unit: "metre" } };
 }

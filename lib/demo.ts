@@ -27,9 +27,23 @@ function qg1Segments(): SyntheticFaultOptions[] {
   const along = strikeUnit(strikeDeg);
   const across = strikeUnit(strikeDeg + 90);
   const shift = 2 * halfLengthM - overlapM;
-  const common = { strikeDeg, dipDeg: 58, halfLengthM, aspectRatio: 2.1, noiseM: 2, scatterM: 2, throwCutoffM: 10, pickCount: 2600, profile: "walsh-watterson-1987" as const };
+  const common = {
+    strikeDeg,
+    dipDeg: 58,
+    halfLengthM,
+    aspectRatio: 2.1,
+    noiseM: 2,
+    scatterM: 2,
+    throwCutoffM: 10,
+    pickCount: 2600,
+    profile: "walsh-watterson-1987" as const,
+  };
   const north: [number, number, number] = [BASIN_CENTRE[0] - (shift / 2) * along[0], BASIN_CENTRE[1] - (shift / 2) * along[1], BASIN_CENTRE[2]];
-  const south: [number, number, number] = [north[0] + shift * along[0] + separationM * across[0], north[1] + shift * along[1] + separationM * across[1], BASIN_CENTRE[2] - 40];
+  const south: [number, number, number] = [
+    north[0] + shift * along[0] + separationM * across[0],
+    north[1] + shift * along[1] + separationM * across[1],
+    BASIN_CENTRE[2] - 40,
+  ];
   return [
     { ...common, segment: "north", dmaxM: 78, centre: north },
     { ...common, segment: "south", dmaxM: 64, dipDeg: 61, centre: south },
@@ -57,7 +71,8 @@ function qg4(): SyntheticFaultOptions {
 export const DEMO_FAULTS = [
   {
     name: "QG-1",
-    description: "Graben-bounding normal fault: north and south segments overlapping across a relay ramp near the crest of the storage closure. Cut-off lines of four horizons, interpreted in two-way time, depth-converted with v(z) = 1800 + 0.6·z m/s.",
+    description:
+      "Graben-bounding normal fault: north and south segments overlapping across a relay ramp near the crest of the storage closure. Cut-off lines of four horizons, interpreted in two-way time, depth-converted with v(z) = 1800 + 0.6·z m/s.",
     fileName: "qg-1-throw-picks.csv",
     options: qg1Segments,
     seed: 1201,

@@ -26,7 +26,11 @@ export function faultSenseLabel(value: string): string {
 /** A fault row's type as the engine takes it. */
 export function faultKinematics(fault: { sense: string; rakeDeg?: number | null; inversion?: boolean | null }): FaultKinematics {
   const sense = (FAULT_SENSE_VALUES as readonly string[]).includes(fault.sense) ? (fault.sense as FaultSense) : "normal";
-  return { sense, ...(sense === "oblique" && fault.rakeDeg !== null && fault.rakeDeg !== undefined ? { rakeDeg: fault.rakeDeg } : {}), inversion: Boolean(fault.inversion) };
+  return {
+    sense,
+    ...(sense === "oblique" && fault.rakeDeg !== null && fault.rakeDeg !== undefined ? { rakeDeg: fault.rakeDeg } : {}),
+    inversion: Boolean(fault.inversion),
+  };
 }
 
 /** The fault type in a few words: "normal", "oblique, rake −45°", "reverse, inversion expected". */
@@ -39,7 +43,8 @@ export function describeFaultType(fault: { sense: string; rakeDeg?: number | nul
 
 /** Messages for the fault-type fields (sense, rakeDeg), keyed by field; empty when the type can be used. */
 export function faultTypeFieldErrors(input: { sense: FaultSense; rakeDeg?: number | null }): { field: "rakeDeg"; message: string }[] {
-  if (input.sense !== "oblique" && input.rakeDeg !== undefined && input.rakeDeg !== null) return [{ field: "rakeDeg", message: "Only an oblique fault takes a rake; normal is −90° and reverse +90°." }];
+  if (input.sense !== "oblique" && input.rakeDeg !== undefined && input.rakeDeg !== null)
+    return [{ field: "rakeDeg", message: "Only an oblique fault takes a rake; normal is −90° and reverse +90°." }];
   return kinematicsProblems({ sense: input.sense, rakeDeg: input.rakeDeg ?? undefined }).map((problem) => ({
     field: "rakeDeg",
     message: `${problem.replace(/^rake: /, "").replace(/^./, (c) => c.toUpperCase())}.`,

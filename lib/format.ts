@@ -11,7 +11,6 @@ export function metres(value: number | null | undefined, digits?: number): strin
   return `${unsignedZero(value, places).toLocaleString("en", { minimumFractionDigits: places, maximumFractionDigits: places })} m`;
 }
 
-
 /** An angle such as a dip, one decimal. */
 export function degrees(value: number | null | undefined): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";

@@ -8,7 +8,6 @@ import type { HealthStatus } from "@/lib/contracts/health";
 /** A worker is counted live while its heartbeat is younger than a lease (it beats every third of one). */
 const liveWithinSeconds = () => leaseSeconds();
 
-
 /** The database, the job queue's depth and the workers' heartbeats (public: no ids of studies, users or jobs). */
 export async function healthStatus(): Promise<HealthStatus> {
   let database = "unavailable";

@@ -36,7 +36,15 @@ export async function lookupInvitation(token: string, now = new Date()): Promise
     .where(eq(invitations.tokenHash, hashToken(token)));
   if (!row) return { state: "not-found" };
   const state = row.acceptedAt ? "used" : row.expiresAt.getTime() <= now.getTime() ? "expired" : "open";
-  return { state, studyId: row.studyId, studyName: row.studyName, email: row.email, role: row.role, invitedByName: row.invitedByName, expiresAt: row.expiresAt };
+  return {
+    state,
+    studyId: row.studyId,
+    studyName: row.studyName,
+    email: row.email,
+    role: row.role,
+    invitedByName: row.invitedByName,
+    expiresAt: row.expiresAt,
+  };
 }
 
 export type AcceptResult =
@@ -59,7 +67,11 @@ export async function acceptInvitation(user: SessionUser, token: string): Promis
   if (found.state === "not-found") return { ok: false, reason: "not-found", message: MESSAGES["not-found"] };
   if (found.state !== "open") return { ok: false, reason: found.state, message: MESSAGES[found.state] };
   if (found.email.trim().toLowerCase() !== user.email.trim().toLowerCase()) {
-    return { ok: false, reason: "wrong-email", message: `This invitation was sent to ${found.email}; you are signed in as ${user.email}. Sign in with the invited address.` };
+    return {
+      ok: false,
+      reason: "wrong-email",
+      message: `This invitation was sent to ${found.email}; you are signed in as ${user.email}. Sign in with the invited address.`,
+    };
   }
   const db = await getDb();
   const result = await changingRoles(() =>
@@ -77,6 +89,12 @@ export async function acceptInvitation(user: SessionUser, token: string): Promis
     }),
   );
   if (!result) return { ok: false, reason: "used", message: MESSAGES.used };
-  await recordAudit({ studyId: result.studyId, userId: user.id, action: "member.accept-invitation", target: user.email, details: { role: result.role, alreadyMember: result.alreadyMember } });
+  await recordAudit({
+    studyId: result.studyId,
+    userId: user.id,
+    action: "member.accept-invitation",
+    target: user.email,
+    details: { role: result.role, alreadyMember: result.alreadyMember },
+  });
   return { ok: true, ...result };
 }

@@ -18,9 +18,7 @@ export interface MailMessage {
 function transport() {
   const globalForMail = globalThis as unknown as { slipfieldMail?: nodemailer.Transporter };
   const { SMTP_URL } = config();
-  globalForMail.slipfieldMail ??= SMTP_URL
-    ? nodemailer.createTransport(SMTP_URL)
-    : nodemailer.createTransport({ jsonTransport: true });
+  globalForMail.slipfieldMail ??= SMTP_URL ? nodemailer.createTransport(SMTP_URL) : nodemailer.createTransport({ jsonTransport: true });
   return globalForMail.slipfieldMail;
 }
 

@@ -24,7 +24,9 @@ export function outboxEnabled(settings: Pick<Config, "SMTP_URL" | "SLIPFIELD_OUT
 
 export async function ownsAnyStudy(userId: string) {
   const db = await getDb();
-  return Boolean(await db.query.memberships.findFirst({ where: and(eq(memberships.userId, userId), eq(memberships.role, "owner")), columns: { studyId: true } }));
+  return Boolean(
+    await db.query.memberships.findFirst({ where: and(eq(memberships.userId, userId), eq(memberships.role, "owner")), columns: { studyId: true } }),
+  );
 }
 
 /**
@@ -33,7 +35,10 @@ export async function ownsAnyStudy(userId: string) {
  */
 export async function listOutbox(user: Pick<SessionUser, "id" | "email">, limit = 200) {
   const db = await getDb();
-  const owned = db.select({ studyId: memberships.studyId }).from(memberships).where(and(eq(memberships.userId, user.id), eq(memberships.role, "owner")));
+  const owned = db
+    .select({ studyId: memberships.studyId })
+    .from(memberships)
+    .where(and(eq(memberships.userId, user.id), eq(memberships.role, "owner")));
   return db
     .select()
     .from(outbox)

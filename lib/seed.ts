@@ -5,7 +5,17 @@ import { confirmUpload } from "@/lib/analysis/uploads";
 import { runAnalysis } from "@/lib/analysis/runner";
 import { hashPassword } from "@/lib/auth/password";
 import { createFault } from "@/lib/studies";
-import { DEMO_ACCOUNTS, DEMO_COORDINATE_REFERENCE, DEMO_CUTOFF_FILE, DEMO_FAULTS, DEMO_PASSWORD, DEMO_STRATIGRAPHY, DEMO_VELOCITY, demoCsv, demoCutoffCsv } from "@/lib/demo";
+import {
+  DEMO_ACCOUNTS,
+  DEMO_COORDINATE_REFERENCE,
+  DEMO_CUTOFF_FILE,
+  DEMO_FAULTS,
+  DEMO_PASSWORD,
+  DEMO_STRATIGRAPHY,
+  DEMO_VELOCITY,
+  demoCsv,
+  demoCutoffCsv,
+} from "@/lib/demo";
 import { checkCoordinateReference } from "@/lib/crs";
 import { saveStratigraphy } from "@/lib/seal/service";
 
@@ -40,11 +50,19 @@ export async function seedDemo() {
     const fault = await createFault(access, { name: demo.name, description: demo.description, sense: "normal", inversion: false });
     if (demo.name === "QG-1") {
       const cutoffs = new TextEncoder().encode(demoCutoffCsv());
-      const derived = await confirmUpload({ ...access, faultId: fault.id }, { name: DEMO_CUTOFF_FILE, bytes: cutoffs }, { units: "m", dropBadRows: false, problemPage: 0, velocityModel: DEMO_VELOCITY });
+      const derived = await confirmUpload(
+        { ...access, faultId: fault.id },
+        { name: DEMO_CUTOFF_FILE, bytes: cutoffs },
+        { units: "m", dropBadRows: false, problemPage: 0, velocityModel: DEMO_VELOCITY },
+      );
       await runAnalysis(derived.analysisId);
     }
     const bytes = new TextEncoder().encode(demoCsv(demo.name));
-    const { analysisId } = await confirmUpload({ ...access, faultId: fault.id }, { name: demo.fileName, bytes }, { units: "m", dropBadRows: false, problemPage: 0 });
+    const { analysisId } = await confirmUpload(
+      { ...access, faultId: fault.id },
+      { name: demo.fileName, bytes },
+      { units: "m", dropBadRows: false, problemPage: 0 },
+    );
     await runAnalysis(analysisId);
   }
   return { studyId: study.id };

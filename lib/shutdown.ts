@@ -25,7 +25,9 @@ export function drainOnSignals(processor: JobProcessor | null) {
   const onSignal = (signal: NodeJS.Signals) => {
     if (state.slipfieldDraining) return;
     state.slipfieldDraining = true;
-    console.log(`slipfield: ${signal}: draining (no new jobs${processor?.runningCount ? `; ${processor.runningCount} running get ${drainDeadlineMs() / 1000} s to finish` : ""})`);
+    console.log(
+      `slipfield: ${signal}: draining (no new jobs${processor?.runningCount ? `; ${processor.runningCount} running get ${drainDeadlineMs() / 1000} s to finish` : ""})`,
+    );
     const drained = (processor ? processor.drain(drainDeadlineMs()) : Promise.resolve())
       .catch((error) => console.error("slipfield: draining failed:", error))
       .then(() => stopListening());

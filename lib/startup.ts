@@ -26,13 +26,18 @@ export async function prepareServer() {
     const adopted = await queueAnalysesWithoutJobs();
     if (adopted > 0) console.log(`slipfield: queued ${adopted} unfinished analyses from before the job queue`);
     const { startListening } = await import("@/db/notifications");
-    if (kind === "postgres" && !(await startListening())) console.warn("slipfield: not listening for changes from other processes yet (roles and sessions are read afresh until then)");
+    if (kind === "postgres" && !(await startListening()))
+      console.warn("slipfield: not listening for changes from other processes yet (roles and sessions are read afresh until then)");
     const { startLocalJobs } = await import("./jobs/local");
     const processor = await startLocalJobs((line) => console.log(`slipfield jobs: ${line}`));
     const { drainOnSignals } = await import("./shutdown");
     drainOnSignals(processor);
     console.log(`slipfield: database ready (${kind}${threaded ? ", on its own thread" : ""}) in ${Date.now() - started} ms`);
-    console.log(processor ? `slipfield: this process runs analyses and exports (${processor.id})` : "slipfield: this process runs no analyses or exports (SLIPFIELD_ANALYSIS_WORKERS=0): `npm run worker` processes do");
+    console.log(
+      processor
+        ? `slipfield: this process runs analyses and exports (${processor.id})`
+        : "slipfield: this process runs no analyses or exports (SLIPFIELD_ANALYSIS_WORKERS=0): `npm run worker` processes do",
+    );
   } catch (error) {
     if (error instanceof ConfigError) {
       console.error(`slipfield: ${error.message}`);

@@ -12,7 +12,6 @@ import type { FaultInput, StudyInput, StudyPatch } from "@/lib/contracts/studies
 import { faultTypeFieldErrors } from "@/lib/fault-types";
 import { checkCoordinateReference, CoordinateReferenceError, type CoordinateReference } from "@/lib/crs";
 
-
 export async function listStudiesFor(user: SessionUser) {
   const db = await getDb();
   const rows = await db
@@ -31,10 +30,12 @@ export async function listStudiesFor(user: SessionUser) {
   const faultCounts = await db
     .select({ studyId: faults.studyId, faultCount: count() })
     .from(faults)
-    .where(inArray(
-      faults.studyId,
-      rows.map((row) => row.id),
-    ))
+    .where(
+      inArray(
+        faults.studyId,
+        rows.map((row) => row.id),
+      ),
+    )
     .groupBy(faults.studyId);
   const countByStudy = new Map(faultCounts.map((row) => [row.studyId, row.faultCount]));
   return rows.map((row) => ({ ...row, faultCount: countByStudy.get(row.id) ?? 0 }));
@@ -44,7 +45,10 @@ export async function createStudy(user: SessionUser, input: StudyInput) {
   const db = await getDb();
   const study = await changingRoles(() =>
     db.transaction(async (tx) => {
-      const [created] = await tx.insert(studies).values({ ...input, createdBy: user.id }).returning();
+      const [created] = await tx
+        .insert(studies)
+        .values({ ...input, createdBy: user.id })
+        .returning();
       await tx.insert(memberships).values({ studyId: created.id, userId: user.id, role: "owner" });
       return created;
     }),
@@ -66,13 +70,11 @@ export async function updateStudy(access: StudyAccess, patch: StudyPatch) {
       throw new ApiError(400, error.message, { fieldErrors: { [`coordinateReference.${error.field}`]: [error.message] } });
     }
   }
-  const values = Object.fromEntries(Object.entries({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) }).filter(([, value]) => value !== undefined));
+  const values = Object.fromEntries(
+    Object.entries({ ...rest, ...(coordinateReference !== undefined ? { coordinateReference } : {}) }).filter(([, value]) => value !== undefined),
+  );
   if (Object.keys(values).length === 0) throw new ApiError(400, "Nothing to change: give the study's name, description or coordinate reference.");
-  const [updated] = await db
-    .update(studies)
-    .set(values)
-    .where(eq(studies.id, access.studyId))
-    .returning();
+  const [updated] = await db.update(studies).set(values).where(eq(studies.id, access.studyId)).returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "study.update", details: patch });
   return updated;
 }
@@ -177,7 +179,10 @@ export async function createFault(access: StudyAccess, input: FaultInput) {
   if (input.sense !== "oblique") input = { ...input, rakeDeg: null };
   const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, input.name)) });
   if (clash) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
-  const [fault] = await db.insert(faults).values({ ...input, studyId: access.studyId, createdBy: access.user.id }).returning();
+  const [fault] = await db
+    .insert(faults)
+    .values({ ...input, studyId: access.studyId, createdBy: access.user.id })
+    .returning();
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "fault.create", target: fault.name, details: { faultId: fault.id } });
   return fault;
 }
@@ -193,7 +198,8 @@ export async function updateFault(access: StudyAccess, faultId: string, patch: P
   const db = await getDb();
   if (patch.name) {
     const clash = await db.query.faults.findFirst({ where: and(eq(faults.studyId, access.studyId), eq(faults.name, patch.name)) });
-    if (clash && clash.id !== faultId) throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
+    if (clash && clash.id !== faultId)
+      throw new ApiError(409, "A fault with this name already exists in the study.", { fieldErrors: { name: ["Name already used in this study."] } });
   }
   const current = await getFault(faultId);
   const typeChanged = (["sense", "rakeDeg", "inversion"] as const).some((key) => patch[key] !== undefined && patch[key] !== current[key]);
@@ -249,7 +255,10 @@ export async function changeRole(access: StudyAccess, userId: string, role: Stud
       const current = await tx.query.memberships.findFirst({ where: and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)) });
       if (!current) throw new ApiError(404, "That person is not a member of this study.");
       if (current.role === "owner" && role !== "owner") await assertAnotherOwner(tx, access.studyId);
-      await tx.update(memberships).set({ role }).where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
+      await tx
+        .update(memberships)
+        .set({ role })
+        .where(and(eq(memberships.studyId, access.studyId), eq(memberships.userId, userId)));
     }),
   );
   await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "member.role", target: userId, details: { role } });

@@ -11,7 +11,6 @@ import { recordAudit } from "@/lib/audit";
 import { createRateLimiter } from "@/lib/rate-limit";
 import type { AnalysisReport } from "@/lib/engine/types";
 
-
 // ---- tokens ------------------------------------------------------------------------------------------------
 
 const TOKEN_BYTES = 32;
@@ -118,7 +117,13 @@ export async function deleteViewpoint({ access, viewpoint }: ViewpointAccess) {
   assertMayChange(access, viewpoint.createdBy, "delete it");
   const db = await getDb();
   await db.delete(viewpoints).where(eq(viewpoints.id, viewpointId));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint.delete", target: viewpointId, details: { title: viewpoint.title, faultId: viewpoint.faultId } });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "viewpoint.delete",
+    target: viewpointId,
+    details: { title: viewpoint.title, faultId: viewpoint.faultId },
+  });
 }
 
 // ---- links ---------------------------------------------------------------------------------------------------
@@ -192,7 +197,13 @@ export async function revokeViewpointLink(linkId: string) {
     .set({ revokedAt: new Date() })
     .where(and(eq(viewpointLinks.id, linkId), isNull(viewpointLinks.revokedAt)))
     .returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "viewpoint-link.revoke", target: linkId, details: { viewpointId: link.viewpointId } });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "viewpoint-link.revoke",
+    target: linkId,
+    details: { viewpointId: link.viewpointId },
+  });
   return describeLink(revoked ?? link, true);
 }
 
@@ -263,7 +274,6 @@ export function publicReport(report: AnalysisReport): AnalysisReport {
   };
 }
 
-
 /** Everything the link page shows, and only that: one fault's name, the saved view, the surface's report, pins if included. */
 export async function publicViewpoint(token: string): Promise<PublicViewpoint> {
   const { link, viewpoint, fault } = await activeLink(token);
@@ -273,7 +283,16 @@ export async function publicViewpoint(token: string): Promise<PublicViewpoint> {
   let pinRows: PublicViewpoint["pins"] = null;
   if (link.includePins) {
     const rows = await db
-      .select({ id: pins.id, x: pins.x, y: pins.y, z: pins.z, body: pins.body, state: pins.state, pickSetVersion: pins.pickSetVersion, createdAt: pins.createdAt })
+      .select({
+        id: pins.id,
+        x: pins.x,
+        y: pins.y,
+        z: pins.z,
+        body: pins.body,
+        state: pins.state,
+        pickSetVersion: pins.pickSetVersion,
+        createdAt: pins.createdAt,
+      })
       .from(pins)
       .where(and(eq(pins.faultId, fault.id), isNull(pins.deletedAt)))
       .orderBy(asc(pins.createdAt));
@@ -281,7 +300,15 @@ export async function publicViewpoint(token: string): Promise<PublicViewpoint> {
       ? await db
           .select({ pinId: pinReplies.pinId, body: pinReplies.body, createdAt: pinReplies.createdAt })
           .from(pinReplies)
-          .where(and(inArray(pinReplies.pinId, rows.map((row) => row.id)), isNull(pinReplies.deletedAt)))
+          .where(
+            and(
+              inArray(
+                pinReplies.pinId,
+                rows.map((row) => row.id),
+              ),
+              isNull(pinReplies.deletedAt),
+            ),
+          )
           .orderBy(asc(pinReplies.createdAt))
       : [];
     pinRows = rows.map((row) => ({
@@ -304,7 +331,12 @@ export async function publicDisplay(token: string) {
   const { fault } = await activeLink(token);
   const latest = await latestFinishedAnalysis(fault.id);
   const db = await getDb();
-  const [analysis] = latest ? await db.select({ display: base64Bytes(analyses.display) }).from(analyses).where(eq(analyses.id, latest.id)) : [];
+  const [analysis] = latest
+    ? await db
+        .select({ display: base64Bytes(analyses.display) })
+        .from(analyses)
+        .where(eq(analyses.id, latest.id))
+    : [];
   if (!analysis?.display) throw new ApiError(404, "This fault has no surface to show yet.");
   return analysis.display;
 }

@@ -109,10 +109,16 @@ function probeSurface(segment: DisplaySegment, geometry: THREE.BufferGeometry, e
   if (index) for (let k = 0; k < index.count; k++) used[index.getX(k)] = 1;
   else used.fill(1);
   const { centroid, normal } = segment.frame;
-  let count = 0, sumSquares = 0, largest = 0;
+  let count = 0,
+    sumSquares = 0,
+    largest = 0;
   for (let vertex = 0; vertex < used.length; vertex++) {
     if (!used[vertex]) continue;
-    const distance = Math.abs((positions[vertex * 3] - centroid[0]) * normal[0] + (positions[vertex * 3 + 1] - centroid[1]) * normal[1] + (positions[vertex * 3 + 2] - centroid[2]) * normal[2]);
+    const distance = Math.abs(
+      (positions[vertex * 3] - centroid[0]) * normal[0] +
+        (positions[vertex * 3 + 1] - centroid[1]) * normal[1] +
+        (positions[vertex * 3 + 2] - centroid[2]) * normal[2],
+    );
     count++;
     sumSquares += distance * distance;
     largest = Math.max(largest, distance);
@@ -148,22 +154,14 @@ export default function FaultScene({ display, pins, onSurfaceClick, initialCamer
   const labelLayer = useRef<HTMLDivElement>(null);
   return (
     <>
-    <Canvas
-      frameloop="demand"
-      dpr={[1, 1.5]}
-      flat
-      performance={PERFORMANCE}
-      gl={GL_OPTIONS}
-      camera={cameraOptions}
-      data-testid="fault-scene-canvas"
-    >
-      <AdaptiveDpr pixelated />
-      <SceneLights />
-      <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} labelLayer={labelLayer} />
-      <OrbitControlsRig display={display} initialCamera={initialCamera} />
-      <FrameProbe />
-    </Canvas>
-    <div ref={labelLayer} className="pointer-events-none absolute inset-0 overflow-hidden" data-scene-labels />
+      <Canvas frameloop="demand" dpr={[1, 1.5]} flat performance={PERFORMANCE} gl={GL_OPTIONS} camera={cameraOptions} data-testid="fault-scene-canvas">
+        <AdaptiveDpr pixelated />
+        <SceneLights />
+        <FaultLayers display={display} pins={pins} onSurfaceClick={onSurfaceClick} labelLayer={labelLayer} />
+        <OrbitControlsRig display={display} initialCamera={initialCamera} />
+        <FrameProbe />
+      </Canvas>
+      <div ref={labelLayer} className="pointer-events-none absolute inset-0 overflow-hidden" data-scene-labels />
     </>
   );
 }
@@ -351,7 +349,8 @@ function SegmentSurface({
 function surfaceBends(segment: DisplaySegment): boolean {
   const offsets = segment.grid.offPlaneM;
   if (!offsets) return false;
-  let low = Infinity, high = -Infinity;
+  let low = Infinity,
+    high = -Infinity;
   for (const value of offsets) {
     if (Number.isNaN(value)) continue;
     low = Math.min(low, value);
@@ -374,7 +373,9 @@ function ContourLines({ display, exaggeration, onDisplacementColours }: { displa
     const colour = new THREE.Color();
     const themeLine = dark ? LIGHT_LINE : DARK_LINE;
     const colourOf = (levelM: number): [number, number, number] => {
-      const css = onDisplacementColours ? contrastingLineColour(surfaceInterpolator(high > low ? Math.min(1, Math.max(0, (levelM - low) / (high - low))) : 0.5)) : themeLine;
+      const css = onDisplacementColours
+        ? contrastingLineColour(surfaceInterpolator(high > low ? Math.min(1, Math.max(0, (levelM - low) / (high - low))) : 0.5))
+        : themeLine;
       colour.set(css);
       return [colour.r, colour.g, colour.b];
     };
@@ -399,7 +400,16 @@ function TipLines({ display }: { display: FaultDisplay }) {
       {central.length > 0 && <Line segments points={central} color={COLORS.tipLine} lineWidth={4} renderOrder={2} />}
       {band.length > 0 && <Line segments points={band} color={COLORS.tipBand} lineWidth={1.5} transparent opacity={0.85} renderOrder={2} />}
       {open.length > 0 && (
-        <Line segments dashed dashSize={dashM} gapSize={dashM * 0.8} points={open} color={dark ? COLORS.openEdge.dark : COLORS.openEdge.light} lineWidth={3} renderOrder={2} />
+        <Line
+          segments
+          dashed
+          dashSize={dashM}
+          gapSize={dashM * 0.8}
+          points={open}
+          color={dark ? COLORS.openEdge.dark : COLORS.openEdge.light}
+          lineWidth={3}
+          renderOrder={2}
+        />
       )}
     </>
   );
@@ -485,7 +495,9 @@ function PeakMarkers({ display, exaggeration }: { display: FaultDisplay; exagger
  * nearest), with the relief there, so a pin sits on the surface at any exaggeration; its stored point when off every grid.
  */
 function pinOnSurface(display: FaultDisplay, pin: ScenePin, exaggeration: number): [number, number, number] {
-  const x = pin.x - display.origin[0], y = pin.y - display.origin[1], z = pin.z - display.origin[2];
+  const x = pin.x - display.origin[0],
+    y = pin.y - display.origin[1],
+    z = pin.z - display.origin[2];
   let best: { segment: DisplaySegment; s: number; t: number; distance: number } | null = null;
   for (const segment of display.segments) {
     const [s, t, h] = worldToPlane(segment.frame, x, y, z);
@@ -559,7 +571,12 @@ function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLa
       out.push({ key: `${segment.id}:segment`, kind: "segment", text: `Segment ${segment.id}`, position: [point[0], point[1], point[2]] });
       if (showPeak) {
         surfacePoint(segment, segment.max.s, segment.max.t, segment.max.displacementM * exaggeration + lift * 2, point, 0);
-        out.push({ key: `${segment.id}:peak`, kind: "peak", text: `Peak ${formatMetres(segment.max.displacementM)}`, position: [point[0], point[1], point[2]] });
+        out.push({
+          key: `${segment.id}:peak`,
+          kind: "peak",
+          text: `Peak ${formatMetres(segment.max.displacementM)}`,
+          position: [point[0], point[1], point[2]],
+        });
       }
     }
     return out;
@@ -569,7 +586,14 @@ function SegmentLabels({ display, labelLayer }: { display: FaultDisplay; labelLa
   return (
     <>
       {labels.map((label) => (
-        <Html key={label.key} position={label.position} center zIndexRange={LABEL_Z_RANGE} style={LABEL_STYLE} portal={labelLayer as React.RefObject<HTMLElement>}>
+        <Html
+          key={label.key}
+          position={label.position}
+          center
+          zIndexRange={LABEL_Z_RANGE}
+          style={LABEL_STYLE}
+          portal={labelLayer as React.RefObject<HTMLElement>}
+        >
           <div
             ref={(element) => {
               if (element) elements.current.set(label.key, element);
@@ -658,7 +682,6 @@ function useLabelDeclutter(labels: SceneLabel[], elements: React.RefObject<Map<s
   });
 }
 
-
 function DepthLabels({ display, labelLayer }: { display: FaultDisplay; labelLayer: LabelLayer }) {
   const labels = useMemo(() => depthLabels(display, display.origin[2]), [display]);
   return (
@@ -666,10 +689,13 @@ function DepthLabels({ display, labelLayer }: { display: FaultDisplay; labelLaye
       {labels.map(({ position, depthM }) => (
         <Html key={depthM} position={position} zIndexRange={LABEL_Z_RANGE} style={LABEL_STYLE} portal={labelLayer as React.RefObject<HTMLElement>}>
           <div className="-translate-x-full -translate-y-1/2">
-          <div data-scene-label="depth" className="flex items-center gap-1 whitespace-nowrap rounded bg-white/60 px-0.5 font-mono text-[10px] text-slate-600 dark:bg-slate-900/60 dark:text-slate-300">
-            {formatMetres(depthM)} depth
-            <span className="inline-block h-px w-2 bg-slate-500" />
-          </div>
+            <div
+              data-scene-label="depth"
+              className="flex items-center gap-1 whitespace-nowrap rounded bg-white/60 px-0.5 font-mono text-[10px] text-slate-600 dark:bg-slate-900/60 dark:text-slate-300"
+            >
+              {formatMetres(depthM)} depth
+              <span className="inline-block h-px w-2 bg-slate-500" />
+            </div>
           </div>
         </Html>
       ))}

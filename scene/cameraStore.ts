@@ -7,14 +7,9 @@ import type { Vec3 } from "@/lib/contracts/json";
 import type { Bounds } from "./geometry";
 import type { CameraState } from "@/lib/contracts/camera";
 
-
-
 export type CameraPreset = "overview" | "map" | "faceOn" | "alongStrike";
 
-export type CameraRequest = { id: number } & (
-  | { kind: "state"; state: CameraState }
-  | { kind: "preset"; preset: CameraPreset }
-);
+export type CameraRequest = { id: number } & ({ kind: "state"; state: CameraState } | { kind: "preset"; preset: CameraPreset });
 
 interface CameraStore {
   /** the camera as last shown; null before the scene's first frame */
@@ -115,10 +110,19 @@ export function screenAxes(direction: Vec3): { right: Vec3; screenUp: Vec3 } {
  * Target and position that frame every point (perspective, vertical field of view `fovDeg`) in the part of the view
  * between `leftInset` and `rightInset` (fractions of its width).
  */
-function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number, aspect: number, leftInset: number, rightInset: number): { target: Vec3; position: Vec3 } | null {
+function fitToPoints(
+  points: ArrayLike<number>,
+  direction: Vec3,
+  fovDeg: number,
+  aspect: number,
+  leftInset: number,
+  rightInset: number,
+): { target: Vec3; position: Vec3 } | null {
   const { right, screenUp } = screenAxes(direction);
   const count = Math.floor(points.length / 3);
-  const xs = new Float64Array(count), ys = new Float64Array(count), zs = new Float64Array(count);
+  const xs = new Float64Array(count),
+    ys = new Float64Array(count),
+    zs = new Float64Array(count);
   for (let i = 0; i < count; i++) {
     const p: Vec3 = [points[i * 3], points[i * 3 + 1], points[i * 3 + 2]];
     xs[i] = dot(p, right);
@@ -126,7 +130,8 @@ function fitToPoints(points: ArrayLike<number>, direction: Vec3, fovDeg: number,
     zs[i] = dot(p, direction);
   }
   const mid = (values: Float64Array) => {
-    let low = Infinity, high = -Infinity;
+    let low = Infinity,
+      high = -Infinity;
     for (const value of values) {
       low = Math.min(low, value);
       high = Math.max(high, value);

@@ -8,8 +8,6 @@ import { AS_DRAWN, EDGE_TOLERANT_BILINEAR, sampleGrid } from "@/lib/display/grid
 import { surfaceOffsetAt } from "@/lib/display/surface";
 import { orientationOfNormal, surfaceNormal } from "@/lib/engine/surface";
 
-
-
 export interface MeshArrays {
   positions: Float32Array;
   colors: Float32Array;
@@ -135,12 +133,23 @@ export function localOrientationAt(segment: DisplaySegment, s: number, t: number
  * projected on the plane, then corrected for the surface's offset and relief a few times (they move it by a small
  * fraction of themselves where the surface is tilted from the plane).
  */
-export function surfaceCoordinates(segment: DisplaySegment, x: number, y: number, z: number, reliefAt: (s: number, t: number) => number = () => 0): [number, number] {
+export function surfaceCoordinates(
+  segment: DisplaySegment,
+  x: number,
+  y: number,
+  z: number,
+  reliefAt: (s: number, t: number) => number = () => 0,
+): [number, number] {
   let [s, t] = frameCoordinates(segment.frame, x, y, z);
   const point = new Float64Array(3);
   for (let k = 0; k < 12; k++) {
     surfacePoint(segment, s, t, reliefAt(s, t), point, 0);
-    const [ds, dt] = frameCoordinates(segment.frame, x - point[0] + segment.frame.centroid[0], y - point[1] + segment.frame.centroid[1], z - point[2] + segment.frame.centroid[2]);
+    const [ds, dt] = frameCoordinates(
+      segment.frame,
+      x - point[0] + segment.frame.centroid[0],
+      y - point[1] + segment.frame.centroid[1],
+      z - point[2] + segment.frame.centroid[2],
+    );
     s += ds;
     t += dt;
     if (Math.abs(ds) + Math.abs(dt) < 1e-3) break;
@@ -244,7 +253,11 @@ export function surfaceValueAt(grid: DisplayGrid, values: Float32Array, s: numbe
  * Every contour ring of every segment as one line-segment list. With `colourOf`, each line gets a vertex colour
  * (linear RGB) chosen from its level, e.g. one that stands out on the surface colour at that level.
  */
-export function buildContourLines(display: FaultDisplay, exaggeration: number, colourOf?: (levelM: number) => [number, number, number]): LineArrays & { colors?: Float32Array } {
+export function buildContourLines(
+  display: FaultDisplay,
+  exaggeration: number,
+  colourOf?: (levelM: number) => [number, number, number],
+): LineArrays & { colors?: Float32Array } {
   const lift = lineLiftM(display);
   let segmentCount = 0;
   for (const { contours } of display.segments) {
@@ -345,13 +358,21 @@ function flaggedEdges(polygon: [number, number][], flags: number[] | undefined, 
 /** The inferred tip line is where displacement falls to zero: on the surface, lifted. Open parts are left out. */
 export function buildTipLines(display: FaultDisplay): LineArrays {
   const lift = lineLiftM(display);
-  return polygonPieces(display, (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 0), () => lift);
+  return polygonPieces(
+    display,
+    (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 0),
+    () => lift,
+  );
 }
 
 /** Where the tip line follows an open data edge: drawn apart, since no tip was inferred there. */
 export function buildOpenTipLines(display: FaultDisplay): LineArrays {
   const lift = lineLiftM(display);
-  return polygonPieces(display, (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 1), () => lift);
+  return polygonPieces(
+    display,
+    (segment) => flaggedEdges(segment.tipLine, segment.tipOpen, 1),
+    () => lift,
+  );
 }
 
 /** The inner (5 %) and outer (95 %) tip lines: the band the tip lies in. */
@@ -359,7 +380,8 @@ export function buildTipBandLines(display: FaultDisplay): LineArrays {
   const lift = lineLiftM(display);
   return polygonPieces(
     display,
-    (segment) => (segment.tipBand ? [...flaggedEdges(segment.tipBand.inner, segment.tipOpen, 0), ...flaggedEdges(segment.tipBand.outer, segment.tipOpen, 0)] : []),
+    (segment) =>
+      segment.tipBand ? [...flaggedEdges(segment.tipBand.inner, segment.tipOpen, 0), ...flaggedEdges(segment.tipBand.outer, segment.tipOpen, 0)] : [],
     () => lift,
   );
 }

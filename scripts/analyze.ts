@@ -86,7 +86,17 @@ interface Options {
 
 export function parseArgs(argv: string[]): Options {
   const args = argv[0] === "analyze" ? argv.slice(1) : argv;
-  const out: Options = { inputs: [], format: "text", units: "m", ends: {}, kinematics: { sense: "normal" }, dropBadRows: false, orderAlongStrike: false, senseGiven: false, help: false };
+  const out: Options = {
+    inputs: [],
+    format: "text",
+    units: "m",
+    ends: {},
+    kinematics: { sense: "normal" },
+    dropBadRows: false,
+    orderAlongStrike: false,
+    senseGiven: false,
+    help: false,
+  };
   let formatGiven: string | null = null;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -125,8 +135,7 @@ export function parseArgs(argv: string[]): Options {
       const rake = Number(v);
       if (!Number.isFinite(rake)) throw new UsageError(`--rake must be a number of degrees, got "${v}"`);
       out.rakeDeg = rake;
-    }
-    else if (a === "-h" || a === "--help") out.help = true;
+    } else if (a === "-h" || a === "--help") out.help = true;
     else if (a === "--units") {
       const v = value();
       if (v !== "m" && v !== "ft") throw new UsageError(`--units must be m or ft, got "${v}"`);
@@ -136,14 +145,15 @@ export function parseArgs(argv: string[]): Options {
     else if (a === "--cutoff") out.throwCutoffM = positive("--cutoff", value());
     else if (a === "--profile") {
       const v = value();
-      if (v !== "auto" && !AUTOMATIC_CANDIDATES.includes(v as ProfileModel)) throw new UsageError(`--profile must be auto or one of ${AUTOMATIC_CANDIDATES.join(", ")}, got "${v}"`);
+      if (v !== "auto" && !AUTOMATIC_CANDIDATES.includes(v as ProfileModel))
+        throw new UsageError(`--profile must be auto or one of ${AUTOMATIC_CANDIDATES.join(", ")}, got "${v}"`);
       out.profiles = v === "auto" ? undefined : [v as ProfileModel];
     } else if (a === "--end") {
       const [side, status] = value().split("=");
-      if (!["strike-start", "strike-end", "up-dip", "down-dip"].includes(side) || (status !== "open" && status !== "inferred")) throw new UsageError(`--end takes SIDE=open or SIDE=inferred, SIDE one of strike-start, strike-end, up-dip, down-dip`);
+      if (!["strike-start", "strike-end", "up-dip", "down-dip"].includes(side) || (status !== "open" && status !== "inferred"))
+        throw new UsageError(`--end takes SIDE=open or SIDE=inferred, SIDE one of strike-start, strike-end, up-dip, down-dip`);
       out.ends[side as TipEndSide] = status;
-    }
-    else if (a === "--sense") {
+    } else if (a === "--sense") {
       const v = value();
       if (v !== "normal" && v !== "reverse" && v !== "oblique") throw new UsageError(`--sense must be normal, reverse or oblique, got "${v}"`);
       out.kinematics.sense = v as FaultSense;
@@ -154,15 +164,16 @@ export function parseArgs(argv: string[]): Options {
       const parsed = parseCrsText(v);
       if (!parsed) throw new UsageError(`--crs takes EPSG codes as EPSG:32631 or EPSG:32631+5714 (horizontal+vertical), got "${v}"`);
       out.crs = parsed;
-    }
-    else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
+    } else if (a.startsWith("-") && a !== "-") throw new UsageError(`unknown option ${a}`);
     else out.inputs.push(a);
   }
   // --rake: an oblique fault's rake (Aki & Richards 1980, signed), else a cut-off file's pairing rake (0–180°, 90 dip slip)
   if (out.kinematics.sense === "oblique") {
     if (out.rakeDeg !== undefined) out.kinematics.rakeDeg = out.rakeDeg;
   } else if (out.rakeDeg !== undefined && !(out.rakeDeg > 0 && out.rakeDeg < 180)) {
-    throw new UsageError(`--rake without --sense oblique is a cut-off file's pairing rake, between 0 and 180 degrees (90 is dip slip), got "${out.rakeDeg}"; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)`);
+    throw new UsageError(
+      `--rake without --sense oblique is a cut-off file's pairing rake, between 0 and 180 degrees (90 is dip slip), got "${out.rakeDeg}"; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)`,
+    );
   }
   const typeProblems = kinematicsProblems(out.kinematics);
   if (typeProblems.length) throw new UsageError(typeProblems.map((problem) => problem.replace(/^rake: /, "--rake: ")).join("; "));
@@ -189,7 +200,12 @@ function expandGlob(pattern: string): string[] {
   const folder = path.dirname(pattern);
   const namePattern = path.basename(pattern);
   if (/[*?[]/.test(folder)) throw new UsageError(`wildcards are only understood in the file name, not in the folder: "${pattern}"`);
-  const expression = new RegExp(`^${namePattern.replace(/[.+^${}()|\\]/g, "\\$&").replace(/\*/g, "[^/]*").replace(/\?/g, "[^/]")}$`);
+  const expression = new RegExp(
+    `^${namePattern
+      .replace(/[.+^${}()|\\]/g, "\\$&")
+      .replace(/\*/g, "[^/]*")
+      .replace(/\?/g, "[^/]")}$`,
+  );
   let names: string[];
   try {
     names = readdirSync(folder);
@@ -235,24 +251,42 @@ function readable(report: AnalysisReport, extras: Extras = {}): string {
   }
   if (extras.cutoffs) {
     const c = extras.cutoffs;
-    lines.push(`Cut-offs: stations every ${c.stationSpacingM} m along strike (${c.stationSpacingSource === "set" ? "set" : "from the vertex spacing"}), rake ${c.rakeDeg}°${c.rakeDeg === 90 ? " (dip slip)" : ""}; ${c.missingStations} station${c.missingStations === 1 ? "" : "s"} with one wall only (reported, not filled in).`);
-    for (const h of c.horizons) lines.push(`  ${h.name}: ${h.stations} stations, throw max ${f(h.maxThrowM)} m, mean ${f(h.meanThrowM)} m${h.missingStations ? `, ${h.missingStations} with one wall only` : ""}`);
+    lines.push(
+      `Cut-offs: stations every ${c.stationSpacingM} m along strike (${c.stationSpacingSource === "set" ? "set" : "from the vertex spacing"}), rake ${c.rakeDeg}°${c.rakeDeg === 90 ? " (dip slip)" : ""}; ${c.missingStations} station${c.missingStations === 1 ? "" : "s"} with one wall only (reported, not filled in).`,
+    );
+    for (const h of c.horizons)
+      lines.push(
+        `  ${h.name}: ${h.stations} stations, throw max ${f(h.maxThrowM)} m, mean ${f(h.meanThrowM)} m${h.missingStations ? `, ${h.missingStations} with one wall only` : ""}`,
+      );
   }
   for (const r of report.input.rejected.slice(0, 20)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
   for (const s of report.segments) {
     const tl = s.tipLine;
     lines.push("");
     lines.push(`Segment ${s.id} (${s.pickCount} picks)`);
-    lines.push(`  plane: strike ${formatAzimuth(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${formatAzimuth(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`);
-    lines.push(`  maximum: displacement ${f(s.max.displacementM)} m observed (fitted ${f(s.max.fittedDisplacementM)} m, 5–95 % ${f(s.max.fittedDisplacementRangeM[0])}–${f(s.max.fittedDisplacementRangeM[1])} m), throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`);
-    if (s.surface) lines.push(`  surface: up to ${f(s.surface.maxOffsetM)} m from the plane (RMS ${f(s.surface.rmsOffsetM)} m), local dip ${f(s.surface.localDipRangeDeg[0])}–${f(s.surface.localDipRangeDeg[1])}° (5–95 %); ${s.surface.note}`);
+    lines.push(
+      `  plane: strike ${formatAzimuth(s.plane.strikeDeg)}°, dip ${f(s.plane.dipDeg)}° toward ${formatAzimuth(s.plane.dipDirectionDeg)}°, RMS misfit ${f(s.plane.rmsM, 2)} m`,
+    );
+    lines.push(
+      `  maximum: displacement ${f(s.max.displacementM)} m observed (fitted ${f(s.max.fittedDisplacementM)} m, 5–95 % ${f(s.max.fittedDisplacementRangeM[0])}–${f(s.max.fittedDisplacementRangeM[1])} m), throw ${f(s.max.throwM)} m at s ${f(s.max.s, 0)} m, t ${f(s.max.t, 0)} m`,
+    );
+    if (s.surface)
+      lines.push(
+        `  surface: up to ${f(s.surface.maxOffsetM)} m from the plane (RMS ${f(s.surface.rmsOffsetM)} m), local dip ${f(s.surface.localDipRangeDeg[0])}–${f(s.surface.localDipRangeDeg[1])}° (5–95 %); ${s.surface.note}`,
+      );
     lines.push(`  mapped limit (along the surface): length ${f(s.mappedLimit.lengthM, 0)} m, height ${f(s.mappedLimit.heightM, 0)} m`);
     const range = ([low, high]: [number, number | null]) => (high === null ? `from ${f(low, 0)} m, open above` : `${f(low, 0)}–${f(high, 0)} m`);
-    lines.push(`  inferred tip line (along the surface): length ${tl.lengthIsMinimum ? "at least " : ""}${f(tl.lengthM, 0)} m (5–95 % ${range(tl.lengthRangeM)}), height ${tl.heightIsMinimum ? "at least " : ""}${f(tl.heightM, 0)} m (5–95 % ${range(tl.heightRangeM)}), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`);
-    lines.push(`    ends: ${tl.ends.map((end) => `${end.side} ${end.status}`).join(", ")}; cut-off ${f(tl.cutoff.displacementM)} m displacement (${tl.cutoff.source})`);
+    lines.push(
+      `  inferred tip line (along the surface): length ${tl.lengthIsMinimum ? "at least " : ""}${f(tl.lengthM, 0)} m (5–95 % ${range(tl.lengthRangeM)}), height ${tl.heightIsMinimum ? "at least " : ""}${f(tl.heightM, 0)} m (5–95 % ${range(tl.heightRangeM)}), aspect ${f(tl.aspectRatio, 2)}, area ${(tl.areaM2 / 1e6).toFixed(3)} km²`,
+    );
+    lines.push(
+      `    ends: ${tl.ends.map((end) => `${end.side} ${end.status}`).join(", ")}; cut-off ${f(tl.cutoff.displacementM)} m displacement (${tl.cutoff.source})`,
+    );
     lines.push(`    ${tl.method}`);
     lines.push(`    ${tl.selection}`);
-    lines.push(`  gradients (m/m): mean ${f(s.gradients.meanPerM, 4)}, max ${f(s.gradients.maxPerM, 4)}; near tips: strike start ${f(s.gradients.tips.strikeStartPerM, 4)}, strike end ${f(s.gradients.tips.strikeEndPerM, 4)}, up dip ${f(s.gradients.tips.upDipPerM, 4)}, down dip ${f(s.gradients.tips.downDipPerM, 4)}`);
+    lines.push(
+      `  gradients (m/m): mean ${f(s.gradients.meanPerM, 4)}, max ${f(s.gradients.maxPerM, 4)}; near tips: strike start ${f(s.gradients.tips.strikeStartPerM, 4)}, strike end ${f(s.gradients.tips.strikeEndPerM, 4)}, up dip ${f(s.gradients.tips.upDipPerM, 4)}, down dip ${f(s.gradients.tips.downDipPerM, 4)}`,
+    );
     lines.push(`  asymmetry of Dmax: along strike ${f(s.asymmetry.alongStrike, 2)}, down dip ${f(s.asymmetry.downDip, 2)} (fraction of the semi-axis)`);
     lines.push(`  scaling: ${s.scaling.note}`);
     lines.push(`  contours: every ${s.contourIntervalM} m, ${s.contours.length} levels`);
@@ -286,7 +320,15 @@ const faultNameOf = (input: string) => (input === "-" ? "stdin" : path.basename(
  * One input's output in the chosen format. Several inputs: json and geojson carry the file's name, csv gets a file
  * column and its header only before the first file's rows.
  */
-function render(result: PipelineResult, input: string, format: Exclude<Format, "gltf">, several: boolean, first: boolean, reference: CoordinateReference | null, extras: Extras = {}): string {
+function render(
+  result: PipelineResult,
+  input: string,
+  format: Exclude<Format, "gltf">,
+  several: boolean,
+  first: boolean,
+  reference: CoordinateReference | null,
+  extras: Extras = {},
+): string {
   switch (format) {
     case "json": {
       const report = {
@@ -320,7 +362,9 @@ function withFileColumn(csv: string, input: string, withHeader: boolean): string
 }
 
 function problemText(input: string, error: PickInputError): string {
-  const lines = [`analyze: ${input === "-" ? "the pick data on standard input" : input} cannot be used (${error.rejected.length}${error.truncated ? "+" : ""} problem${error.rejected.length === 1 ? "" : "s"}):`];
+  const lines = [
+    `analyze: ${input === "-" ? "the pick data on standard input" : input} cannot be used (${error.rejected.length}${error.truncated ? "+" : ""} problem${error.rejected.length === 1 ? "" : "s"}):`,
+  ];
   for (const r of error.rejected.slice(0, 50)) lines.push(`  row ${r.row}, column ${r.column}: ${r.reason}`);
   if (error.rejected.length > 50 || error.truncated) lines.push("  … more problems not shown");
   return lines.join("\n");
@@ -402,16 +446,35 @@ export async function main(argv: string[]): Promise<number> {
         continue;
       }
       try {
-        const settings = { units: options.units, intervalM: options.intervalM, cellM: options.cellM, throwCutoffM: options.throwCutoffM, profiles: options.profiles, ends: options.ends, kinematics: options.kinematics, dropBadRows: options.dropBadRows, velocityModel: options.velocity, tipLineFitter: helper?.fitter };
+        const settings = {
+          units: options.units,
+          intervalM: options.intervalM,
+          cellM: options.cellM,
+          throwCutoffM: options.throwCutoffM,
+          profiles: options.profiles,
+          ends: options.ends,
+          kinematics: options.kinematics,
+          dropBadRows: options.dropBadRows,
+          velocityModel: options.velocity,
+          tipLineFitter: helper?.fitter,
+        };
         const inTime = verticalColumnOf(text) === "twt";
         const extras: Extras = { velocity: inTime ? options.velocity : undefined };
         let result: PipelineResult & { picks: PickColumns };
         if (isCutoffCsv(text)) {
-          const analysed = analyzeCutoffCsv(text, { ...settings, stationSpacingM: options.stationSpacingM, rakeDeg: cutoffRakeOf(options), sense: cutoffSenseOf(options), orderAlongStrike: options.orderAlongStrike });
+          const analysed = analyzeCutoffCsv(text, {
+            ...settings,
+            stationSpacingM: options.stationSpacingM,
+            rakeDeg: cutoffRakeOf(options),
+            sense: cutoffSenseOf(options),
+            orderAlongStrike: options.orderAlongStrike,
+          });
           result = analysed;
           extras.cutoffs = analysed.cutoffs;
         } else if (options.rakeDeg !== undefined && options.kinematics.sense !== "oblique") {
-          process.stderr.write(`analyze: ${input}: --rake without --sense oblique is a cut-off file's pairing rake, and this is a pick file; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)\n`);
+          process.stderr.write(
+            `analyze: ${input}: --rake without --sense oblique is a cut-off file's pairing rake, and this is a pick file; for a fault whose slip is oblique add --sense oblique (normal is −90°, reverse +90°)\n`,
+          );
           status = 2;
           continue;
         } else result = analyzeCsv(text, settings);
@@ -419,7 +482,13 @@ export async function main(argv: string[]): Promise<number> {
           const [{ buildFaultDisplay }, { faultGltf }] = await Promise.all([import("../lib/display/build"), import("../lib/views/gltf")]);
           // the full-resolution grid (at most 512 nodes a side), as the grid CSV has it
           const display = buildFaultDisplay({ ...result, maxCells: 512, maxPicks: 0 });
-          writeBytes(faultGltf(display, { faultName: faultNameOf(input), coordinateReference: reference, originLongitudeLatitude: reference ? longitudeLatitude(display.origin[0], display.origin[1]) : null }));
+          writeBytes(
+            faultGltf(display, {
+              faultName: faultNameOf(input),
+              coordinateReference: reference,
+              originLongitudeLatitude: reference ? longitudeLatitude(display.origin[0], display.origin[1]) : null,
+            }),
+          );
           written++;
         } else write(render(result, input, options.format, several, written++ === 0, reference, extras));
       } catch (e) {
@@ -436,7 +505,8 @@ export async function main(argv: string[]): Promise<number> {
     return 1;
   } finally {
     const counts = helper?.counts();
-    if (helper && counts && counts.inThisThread > 0) process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
+    if (helper && counts && counts.inThisThread > 0)
+      process.stderr.write(`analyze: the tip-line helper thread could not be used; ${counts.inThisThread} fit(s) ran in the main thread\n`);
     void helper?.close();
   }
   return status;

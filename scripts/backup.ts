@@ -35,7 +35,9 @@ async function main() {
   await client.close();
   const bytes = new Uint8Array(await (dump as Blob).arrayBuffer());
   writeFileSync(target, bytes);
-  console.log(`backup: wrote ${target} (${(bytes.byteLength / 1048576).toFixed(1)} MB, ${counts.rows.length} tables) in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  console.log(
+    `backup: wrote ${target} (${(bytes.byteLength / 1048576).toFixed(1)} MB, ${counts.rows.length} tables) in ${((Date.now() - started) / 1000).toFixed(1)} s`,
+  );
   console.log(`backup: restore with  npm run restore ${path.relative(process.cwd(), target)}`);
 }
 

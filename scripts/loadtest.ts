@@ -87,7 +87,11 @@ function procStat(file: string) {
   try {
     const text = readFileSync(file, "utf8");
     const fields = text.slice(text.lastIndexOf(")") + 2).split(" "); // the fields after the name, from the state on
-    return { name: text.slice(text.indexOf("(") + 1, text.lastIndexOf(")")), parent: Number(fields[1]), seconds: (Number(fields[11]) + Number(fields[12])) / 100 };
+    return {
+      name: text.slice(text.indexOf("(") + 1, text.lastIndexOf(")")),
+      parent: Number(fields[1]),
+      seconds: (Number(fields[11]) + Number(fields[12])) / 100,
+    };
   } catch {
     return null;
   }
@@ -147,13 +151,19 @@ async function faultsOf(client: Client, studyId: string) {
 /** What is loaded: web processes started here (embedded, or on a PostgreSQL database with job workers), or given URLs. */
 async function startTargets(): Promise<{ targets: string[]; servers: RunningServer[]; workers: RunningWorker[]; description: string }> {
   const given = [...process.argv.slice(2), ...(process.env.LOADTEST_TARGETS ?? "").split(",")].map((url) => url.trim().replace(/\/$/, "")).filter(Boolean);
-  if (given.length > 0) return { targets: given, servers: [], workers: [], description: `${given.length} web process(es) already running (${given.join(", ")})` };
+  if (given.length > 0)
+    return { targets: given, servers: [], workers: [], description: `${given.length} web process(es) already running (${given.join(", ")})` };
   ensureBuild(log);
   const databaseUrl = process.env.LOADTEST_DATABASE_URL;
   if (!databaseUrl) {
     // analyses run as in production: one worker thread (SLIPFIELD_ANALYSIS_WORKERS, default 1), further ones queued
     const server = await startServer();
-    return { targets: [server.url], servers: [server], workers: [], description: "one web process on the embedded database (PGlite), running the analyses itself" };
+    return {
+      targets: [server.url],
+      servers: [server],
+      workers: [],
+      description: "one web process on the embedded database (PGlite), running the analyses itself",
+    };
   }
   const webCount = Number(process.env.LOADTEST_WEB_PROCESSES ?? 1);
   const workerCount = Number(process.env.LOADTEST_WORKERS ?? 1);
@@ -235,7 +245,12 @@ async function main() {
     const samples: Sample[] = [];
     const warmupSamples: Sample[] = [];
     const errors: string[] = [];
-    const acknowledged = { pins: [] as { faultId: string; id: string; reader: Client }[], replies: [] as { faultId: string; pinId: string; id: string; reader: Client }[], viewpoints: [] as { faultId: string; id: string; reader: Client }[], faults: [] as { studyId: string; id: string; reader: Client }[] };
+    const acknowledged = {
+      pins: [] as { faultId: string; id: string; reader: Client }[],
+      replies: [] as { faultId: string; pinId: string; id: string; reader: Client }[],
+      viewpoints: [] as { faultId: string; id: string; reader: Client }[],
+      faults: [] as { studyId: string; id: string; reader: Client }[],
+    };
     let writeCounter = 0;
     const windowStart = Date.now() + WARMUP_SECONDS * 1000;
     const windowStartPerf = performance.now() + WARMUP_SECONDS * 1000;
@@ -265,8 +280,12 @@ async function main() {
       if (random < 0.8 || !actor.canComment) {
         const which = Math.floor(Math.random() * 4);
         if (which === 0) await timed(scheduledAt, "read", "GET fault", () => actor.client.send("GET", `/api/faults/${fault.id}`));
-        else if (which === 1) await timed(scheduledAt, "read", "GET analysis", () => actor.client.send("GET", `/api/faults/${fault.id}/analysis?contours=0`)); // as the fault page asks
-        else if (which === 2) await timed(scheduledAt, "read", "GET display grid", () => actor.client.send("GET", `/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`));
+        else if (which === 1)
+          await timed(scheduledAt, "read", "GET analysis", () => actor.client.send("GET", `/api/faults/${fault.id}/analysis?contours=0`)); // as the fault page asks
+        else if (which === 2)
+          await timed(scheduledAt, "read", "GET display grid", () =>
+            actor.client.send("GET", `/api/faults/${fault.id}/analysis/display?analysis=${fault.analysisId}`),
+          );
         else await timed(scheduledAt, "read", "GET pins", () => actor.client.send("GET", `/api/faults/${fault.id}/pins`));
         return;
       }
@@ -274,7 +293,9 @@ async function main() {
       const choice = Math.random();
       if (actor.pinBudget > 0 && (choice < 0.3 || (choice < 0.45 && actor.ownPins.length === 0))) {
         actor.pinBudget--;
-        const result = await timed(scheduledAt, "write", "POST pin", () => actor.client.send("POST", `/api/faults/${fault.id}/pins`, pinBody(fault.segmentId, index)));
+        const result = await timed(scheduledAt, "write", "POST pin", () =>
+          actor.client.send("POST", `/api/faults/${fault.id}/pins`, pinBody(fault.segmentId, index)),
+        );
         if (result?.status === 201) {
           const id = idOf(result, "pin");
           actor.ownPins.push(id);
@@ -284,13 +305,19 @@ async function main() {
         actor.pinBudget--;
         const pinId = actor.ownPins[Math.floor(Math.random() * actor.ownPins.length)];
         const pinFault = acknowledged.pins.find((pin) => pin.id === pinId)!.faultId;
-        const result = await timed(scheduledAt, "write", "POST reply", () => actor.client.send("POST", `/api/pins/${pinId}/replies`, { body: `Reply ${index}: agreed, check the next line.` }));
+        const result = await timed(scheduledAt, "write", "POST reply", () =>
+          actor.client.send("POST", `/api/pins/${pinId}/replies`, { body: `Reply ${index}: agreed, check the next line.` }),
+        );
         if (result?.status === 201) acknowledged.replies.push({ faultId: pinFault, pinId, id: idOf(result, "reply"), reader: actor.client });
       } else if (actor.canShare && choice < 0.8) {
-        const result = await timed(scheduledAt, "write", "POST viewpoint", () => actor.client.send("POST", `/api/faults/${fault.id}/viewpoints`, viewpointBody(index)));
+        const result = await timed(scheduledAt, "write", "POST viewpoint", () =>
+          actor.client.send("POST", `/api/faults/${fault.id}/viewpoints`, viewpointBody(index)),
+        );
         if (result?.status === 201) acknowledged.viewpoints.push({ faultId: fault.id, id: idOf(result, "viewpoint"), reader: actor.client });
       } else if (actor.canEdit) {
-        const result = await timed(scheduledAt, "write", "POST fault", () => actor.client.send("POST", `/api/studies/${actor.studyId}/faults`, { name: `Load ${runId} ${index}` }));
+        const result = await timed(scheduledAt, "write", "POST fault", () =>
+          actor.client.send("POST", `/api/studies/${actor.studyId}/faults`, { name: `Load ${runId} ${index}` }),
+        );
         if (result?.status === 201) acknowledged.faults.push({ studyId: actor.studyId, id: idOf(result, "fault"), reader: actor.client });
       } else {
         await timed(scheduledAt, "read", "GET pins", () => actor.client.send("GET", `/api/faults/${fault.id}/pins`));
@@ -320,7 +347,9 @@ async function main() {
       return Promise.all(
         bigFiles.map(async (file, index) => {
           // a fault of its own, so the pins written meanwhile on the demo faults keep their segments
-          const { fault } = await jsonOf<{ fault: { id: string } }>(await interpreter.client.json(`/api/studies/${demoStudyId}/faults`, "POST", { name: `Big ${runId} ${index + 1}` }));
+          const { fault } = await jsonOf<{ fault: { id: string } }>(
+            await interpreter.client.json(`/api/studies/${demoStudyId}/faults`, "POST", { name: `Big ${runId} ${index + 1}` }),
+          );
           const faultId = fault.id;
           const t0 = performance.now();
           const response = await interpreter.client.upload(faultId, `load-${index + 1}.csv`, file.csv);
@@ -341,7 +370,9 @@ async function main() {
     })();
 
     const loadBefore = (await import("node:os")).loadavg()[0];
-    log(`${WARMUP_SECONDS} s of warm-up, then measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`);
+    log(
+      `${WARMUP_SECONDS} s of warm-up, then measuring for ${SECONDS} s at ${CONNECTIONS} connections, ${RATE > 0 ? `offering ${RATE} requests/s` : "closed loop (next request as soon as the answer is in)"}…`,
+    );
     const loops = Promise.all(Array.from({ length: CONNECTIONS }, (_, slot) => connection(slot)));
     await new Promise((resolve) => setTimeout(resolve, Math.max(0, windowStart - Date.now())));
     const clientCpuBefore = process.cpuUsage();
@@ -357,7 +388,10 @@ async function main() {
     const machineAfter = machineCpuTicks();
     const machineTotal = machineAfter.busy + machineAfter.idle + machineAfter.steal - (machineBefore.busy + machineBefore.idle + machineBefore.steal);
     const machineShare = (kind: "busy" | "idle" | "steal") => ((100 * (machineAfter[kind] - machineBefore[kind])) / machineTotal).toFixed(0);
-    const threadCpu = threadCpuBefore.size > 0 ? [...cpuSecondsByThread(serverPids[0])].map(([thread, seconds]) => [thread, seconds - (threadCpuBefore.get(thread) ?? 0)] as const) : [];
+    const threadCpu =
+      threadCpuBefore.size > 0
+        ? [...cpuSecondsByThread(serverPids[0])].map(([thread, seconds]) => [thread, seconds - (threadCpuBefore.get(thread) ?? 0)] as const)
+        : [];
     const runs = await analysisRuns;
 
     // ---- every acknowledged write is stored ------------------------------------------------------------------
@@ -397,44 +431,93 @@ async function main() {
     const describe = (label: string, list: Sample[]) => {
       const sorted = list.map((sample) => sample.ms).sort((a, b) => a - b);
       const failed = list.filter((sample) => sample.status >= 400).length;
-      row([label, list.length, (list.length / (windowMs / 1000)).toFixed(1), percentile(sorted, 50).toFixed(1), percentile(sorted, 95).toFixed(1), percentile(sorted, 99).toFixed(1), (sorted.at(-1) ?? NaN).toFixed(1), failed]);
+      row([
+        label,
+        list.length,
+        (list.length / (windowMs / 1000)).toFixed(1),
+        percentile(sorted, 50).toFixed(1),
+        percentile(sorted, 95).toFixed(1),
+        percentile(sorted, 99).toFixed(1),
+        (sorted.at(-1) ?? NaN).toFixed(1),
+        failed,
+      ]);
     };
     describe("all", samples);
-    describe("reads", samples.filter((sample) => sample.kind === "read"));
-    describe("writes", samples.filter((sample) => sample.kind === "write"));
-    for (const name of [...new Set(samples.map((sample) => sample.name))].sort()) describe(`· ${name}`, samples.filter((sample) => sample.name === name));
+    describe(
+      "reads",
+      samples.filter((sample) => sample.kind === "read"),
+    );
+    describe(
+      "writes",
+      samples.filter((sample) => sample.kind === "write"),
+    );
+    for (const name of [...new Set(samples.map((sample) => sample.name))].sort())
+      describe(
+        `· ${name}`,
+        samples.filter((sample) => sample.name === name),
+      );
 
     console.log("");
-    console.log(`Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, Node ${process.version}, ${(await import("node:os")).cpus().length} cores`);
+    console.log(
+      `Load test: ${(windowMs / 1000).toFixed(1)} s, ${CONNECTIONS} connections, ${RATE > 0 ? `paced at ${RATE} requests/s offered` : "closed loop"}, ${actors.length} users, ${BIG_UPLOADS} uploads of 10⁵ picks analysed during the window, Node ${process.version}, ${(await import("node:os")).cpus().length} cores`,
+    );
     console.log(`target: ${description}`);
-    const warmupReads = warmupSamples.filter((sample) => sample.kind === "read").map((sample) => sample.ms).sort((a, b) => a - b);
-    if (WARMUP_SECONDS > 0) console.log(`warm-up: the same load for ${WARMUP_SECONDS} s after start-up before the window, not in the figures below (${warmupSamples.length} requests, reads p95 ${percentile(warmupReads, 95).toFixed(0)} ms)`);
-    console.log(`machine load average (1 min) before the ${WARMUP_SECONDS > 0 ? "warm-up" : "window"} ${loadBefore.toFixed(1)}, after the window ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`);
+    const warmupReads = warmupSamples
+      .filter((sample) => sample.kind === "read")
+      .map((sample) => sample.ms)
+      .sort((a, b) => a - b);
+    if (WARMUP_SECONDS > 0)
+      console.log(
+        `warm-up: the same load for ${WARMUP_SECONDS} s after start-up before the window, not in the figures below (${warmupSamples.length} requests, reads p95 ${percentile(warmupReads, 95).toFixed(0)} ms)`,
+      );
+    console.log(
+      `machine load average (1 min) before the ${WARMUP_SECONDS > 0 ? "warm-up" : "window"} ${loadBefore.toFixed(1)}, after the window ${(await import("node:os")).loadavg()[0].toFixed(1)} — other processes on these cores count too`,
+    );
     const percentOfCore = (seconds: number) => `${((100 * seconds) / (windowMs / 1000)).toFixed(0)} %`;
     if (serverPids.length > 0) {
-      const each = serverCpuEach.map((seconds, index) => `${index < servers.length ? `web ${index + 1}` : `worker ${index - servers.length + 1}`} ${percentOfCore(seconds)}`).join(", ");
-      console.log(`CPU during the window: servers ${serverCpuSeconds.toFixed(1)} s (${percentOfCore(serverCpuSeconds)} of one core, every thread: ${each}), load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)})`);
-    } else console.log(`CPU during the window: load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)}); the targets' CPU is not measured (they were not started here)`);
+      const each = serverCpuEach
+        .map((seconds, index) => `${index < servers.length ? `web ${index + 1}` : `worker ${index - servers.length + 1}`} ${percentOfCore(seconds)}`)
+        .join(", ");
+      console.log(
+        `CPU during the window: servers ${serverCpuSeconds.toFixed(1)} s (${percentOfCore(serverCpuSeconds)} of one core, every thread: ${each}), load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)})`,
+      );
+    } else
+      console.log(
+        `CPU during the window: load generator ${clientCpuSeconds.toFixed(1)} s (${percentOfCore(clientCpuSeconds)}); the targets' CPU is not measured (they were not started here)`,
+      );
     const busiest = threadCpu.filter(([, seconds]) => seconds >= 0.5).sort((a, b) => b[1] - a[1]);
-    console.log(`machine CPU during the window (both cores): ${machineShare("busy")} % busy, ${machineShare("idle")} % idle, ${machineShare("steal")} % taken by the host (steal)`);
-    if (busiest.length > 0) console.log(`server threads: ${busiest.map(([thread, seconds]) => `${thread === `${serverPids[0]} ${thread.split(" ").slice(1).join(" ")}` ? "main" : thread} ${percentOfCore(seconds)}`).join(", ")}`);
+    console.log(
+      `machine CPU during the window (both cores): ${machineShare("busy")} % busy, ${machineShare("idle")} % idle, ${machineShare("steal")} % taken by the host (steal)`,
+    );
+    if (busiest.length > 0)
+      console.log(
+        `server threads: ${busiest.map(([thread, seconds]) => `${thread === `${serverPids[0]} ${thread.split(" ").slice(1).join(" ")}` ? "main" : thread} ${percentOfCore(seconds)}`).join(", ")}`,
+      );
     console.log(table.join("\n"));
     console.log("");
     // where in the window the slow answers were: reads by the 5-second slice they were sent in
     const slices: string[] = [];
     for (let from = 0; from < windowMs; from += 5000) {
-      const sorted = samples.filter((sample) => sample.kind === "read" && sample.sentAt >= from && sample.sentAt < from + 5000).map((sample) => sample.ms).sort((a, b) => a - b);
+      const sorted = samples
+        .filter((sample) => sample.kind === "read" && sample.sentAt >= from && sample.sentAt < from + 5000)
+        .map((sample) => sample.ms)
+        .sort((a, b) => a - b);
       if (sorted.length) slices.push(`${from / 1000}–${(from + 5000) / 1000} s: ${sorted.length} reads, p95 ${percentile(sorted, 95).toFixed(0)} ms`);
     }
     console.log(`reads by send time: ${slices.join("; ")}`);
     console.log("");
     for (const [index, run] of runs.entries()) {
-      console.log(`analysis ${index + 1}: ${run.rows} picks, upload answered in ${(run.uploadMs / 1000).toFixed(1)} s, ${run.status}${run.error ? ` (${run.error})` : ""} at ${(run.doneAt / 1000).toFixed(1)} s into the window`);
+      console.log(
+        `analysis ${index + 1}: ${run.rows} picks, upload answered in ${(run.uploadMs / 1000).toFixed(1)} s, ${run.status}${run.error ? ` (${run.error})` : ""} at ${(run.doneAt / 1000).toFixed(1)} s into the window`,
+      );
     }
     const writes = acknowledged.pins.length + acknowledged.replies.length + acknowledged.viewpoints.length + acknowledged.faults.length;
-    console.log(`acknowledged writes (warm-up included): ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`);
+    console.log(
+      `acknowledged writes (warm-up included): ${writes} (${acknowledged.pins.length} pins, ${acknowledged.replies.length} replies, ${acknowledged.viewpoints.length} viewpoints, ${acknowledged.faults.length} faults); missing afterwards: ${missing.length}`,
+    );
     console.log(`errors: ${errors.length}`);
-    for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))]) console.log(`  ${error}`);
+    for (const error of [...errors.slice(0, 10), ...(errors.length > 20 ? ["…"] : []), ...errors.slice(Math.max(10, errors.length - 10))])
+      console.log(`  ${error}`);
     if (process.env.LOADTEST_SERVER_OUTPUT === "1") console.log(`server output:\n${output()}`);
     else if (errors.length > 0) console.log(`server output (last lines):\n${output().split("\n").slice(-40).join("\n")}`);
     const failedAnalyses = runs.filter((run) => run.status !== "done").length;

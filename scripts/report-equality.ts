@@ -14,11 +14,21 @@ async function reportsOfThisTree(): Promise<Record<string, Json>> {
   const demo = await load("lib/demo.ts");
   const { parseUploadedFile } = await load("lib/analysis/upload-parse.ts");
   const { computeAnalysis } = await load("lib/analysis/compute.ts");
-  const files: { name: string; text: string; velocityModel?: unknown }[] = demo.DEMO_FAULTS.map((fault: { name: string; fileName: string }) => ({ name: fault.fileName, text: demo.demoCsv(fault.name) }));
+  const files: { name: string; text: string; velocityModel?: unknown }[] = demo.DEMO_FAULTS.map((fault: { name: string; fileName: string }) => ({
+    name: fault.fileName,
+    text: demo.demoCsv(fault.name),
+  }));
   if (demo.demoCutoffCsv) files.push({ name: demo.DEMO_CUTOFF_FILE, text: demo.demoCutoffCsv(), velocityModel: demo.DEMO_VELOCITY });
   const reports: Record<string, Json> = {};
   for (const file of files) {
-    const parsed = parseUploadedFile({ name: file.name, bytes: new TextEncoder().encode(file.text), units: "m", dropBadRows: false, encode: true, velocityModel: file.velocityModel ?? null });
+    const parsed = parseUploadedFile({
+      name: file.name,
+      bytes: new TextEncoder().encode(file.text),
+      units: "m",
+      dropBadRows: false,
+      encode: true,
+      velocityModel: file.velocityModel ?? null,
+    });
     const { report } = computeAnalysis({ picks: parsed.encoded, units: "m", settings: {} });
     reports[file.name] = JSON.parse(JSON.stringify(report, (_key, value) => (typeof value === "number" && !Number.isFinite(value) ? String(value) : value)));
   }

@@ -23,7 +23,9 @@ try {
 function authSecret() {
   if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
   if (process.env.DATABASE_URL) {
-    console.warn("slipfield: AUTH_SECRET is not set: this process signs sessions with a secret of its own data folder, so a session made here is refused by every other web process on the same database. Give all of them the same AUTH_SECRET.");
+    console.warn(
+      "slipfield: AUTH_SECRET is not set: this process signs sessions with a secret of its own data folder, so a session made here is refused by every other web process on the same database. Give all of them the same AUTH_SECRET.",
+    );
   }
   const file = path.join(dataDir, "auth-secret");
   if (existsSync(file)) return readFileSync(file, "utf8").trim();
@@ -45,7 +47,18 @@ function newestSourceTime() {
       for (const child of readdirSync(entry)) visit(path.join(entry, child));
     } else newest = Math.max(newest, stats.mtimeMs);
   };
-  for (const entry of ["app", "components", "scene", "lib", "db", "public", "package-lock.json", "next.config.ts", "tailwind.config.ts", "instrumentation.ts"]) {
+  for (const entry of [
+    "app",
+    "components",
+    "scene",
+    "lib",
+    "db",
+    "public",
+    "package-lock.json",
+    "next.config.ts",
+    "tailwind.config.ts",
+    "instrumentation.ts",
+  ]) {
     const full = path.join(root, entry);
     if (existsSync(full)) visit(full);
   }
@@ -62,7 +75,11 @@ if (needsBuild) {
   if (worker.status !== 0) fail("building the analysis worker failed (see above).");
   const cli = spawnSync(process.execPath, [path.join(root, "scripts/build-cli.mjs")], { cwd: root, stdio: "inherit" });
   if (cli.status !== 0) fail("building the command line failed (see above).");
-  const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  const build = spawnSync(process.execPath, [path.join(root, "node_modules/next/dist/bin/next"), "build"], {
+    cwd: root,
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
   if (build.status !== 0) fail("the build failed (see above).");
 }
 

@@ -15,7 +15,9 @@ const log = (line: string) => console.log(`slipfield worker: ${line}`);
 
 async function main() {
   if (!config().DATABASE_URL) {
-    console.error("slipfield worker: DATABASE_URL is not set. A worker shares a PostgreSQL server with the web processes; the embedded database is opened by `npm start` alone, which runs analyses itself.");
+    console.error(
+      "slipfield worker: DATABASE_URL is not set. A worker shares a PostgreSQL server with the web processes; the embedded database is opened by `npm start` alone, which runs analyses itself.",
+    );
     process.exit(2);
   }
   const slots = configuredSlots();

@@ -27,7 +27,8 @@ export async function signInAction(_previous: AuthFormState, formData: FormData)
     if (error instanceof AuthError) {
       const code = (error as AuthError & { code?: string }).code;
       return {
-        message: code === "too_many_attempts" ? "Too many sign-in attempts for this address. Wait five minutes and try again." : "E-mail or password is not right.",
+        message:
+          code === "too_many_attempts" ? "Too many sign-in attempts for this address. Wait five minutes and try again." : "E-mail or password is not right.",
         values,
       };
     }

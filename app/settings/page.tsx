@@ -10,7 +10,9 @@ export default async function SettingsPage() {
   const mode = await getNotifyMode(user.id);
   return (
     <main className="mx-auto max-w-2xl px-6 py-10">
-      <p className="text-xs text-slate-500">Signed in as <span className="font-medium text-slate-700 dark:text-slate-300">{user.email}</span></p>
+      <p className="text-xs text-slate-500">
+        Signed in as <span className="font-medium text-slate-700 dark:text-slate-300">{user.email}</span>
+      </p>
       <h1 className="mt-1 text-2xl font-semibold">Settings</h1>
       <section className="card mt-6 p-6">
         <h2 className="font-semibold">E-mail about pinned notes</h2>

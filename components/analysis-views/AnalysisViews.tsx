@@ -13,7 +13,25 @@ import { JuxtapositionView } from "@/components/seal/JuxtapositionView";
 
 type Tab = "strike" | "juxtaposition" | "dip" | "scaling" | "relays" | "export";
 
-export function AnalysisViews({ studyId, faultId, faultName, report, display, analysisId, pickSetId, canEdit }: { studyId: string; faultId: string; faultName: string; report: AnalysisReport; display: FaultDisplay | null; analysisId: string; pickSetId: string; canEdit: boolean }) {
+export function AnalysisViews({
+  studyId,
+  faultId,
+  faultName,
+  report,
+  display,
+  analysisId,
+  pickSetId,
+  canEdit,
+}: {
+  studyId: string;
+  faultId: string;
+  faultName: string;
+  report: AnalysisReport;
+  display: FaultDisplay | null;
+  analysisId: string;
+  pickSetId: string;
+  canEdit: boolean;
+}) {
   const [tab, setTab] = useState<Tab>("strike");
   const stem = fileStem(faultName);
   const tabs: [Tab, string][] = [
@@ -29,8 +47,14 @@ export function AnalysisViews({ studyId, faultId, faultName, report, display, an
     <div className="card" data-testid="analysis-views-panel">
       <div className="flex flex-wrap border-b border-slate-200 dark:border-slate-800" role="tablist" aria-label="Analysis views">
         {tabs.map(([key, label]) => (
-          <button key={key} role="tab" aria-selected={tab === key} onClick={() => setTab(key)} data-testid={`view-tab-${key}`}
-            className={`px-4 py-2 text-sm font-medium ${tab === key ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
+          <button
+            key={key}
+            role="tab"
+            aria-selected={tab === key}
+            onClick={() => setTab(key)}
+            data-testid={`view-tab-${key}`}
+            className={`px-4 py-2 text-sm font-medium ${tab === key ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}
+          >
             {label}
           </button>
         ))}

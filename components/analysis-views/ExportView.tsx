@@ -4,12 +4,27 @@ import { composeScenePicture } from "@/components/workspace/scenePicture";
 import { downloadDataUrl, REPORT_PICTURE_KEY } from "./download";
 
 const EXPORTS = [
-  { kind: "grid.csv", label: "Grid CSV", detail: "segment, s, t, x, y, z (on the fault surface), displacement, throw, offset from the plane, local dip and strike — every node with data, full resolution (recomputed on the server); the study's coordinate reference in a comment line" },
+  {
+    kind: "grid.csv",
+    label: "Grid CSV",
+    detail:
+      "segment, s, t, x, y, z (on the fault surface), displacement, throw, offset from the plane, local dip and strike — every node with data, full resolution (recomputed on the server); the study's coordinate reference in a comment line",
+  },
   { kind: "picks.csv", label: "Picks CSV", detail: "each pick with s, t, displacement, the surface value there and the residual" },
   { kind: "profiles.csv?mode=centre-line", label: "Strike profiles CSV (centre line)", detail: "full-resolution row through each segment's Dmax" },
   { kind: "profiles.csv?mode=column-max", label: "Strike profiles CSV (column maximum)", detail: "maximum displacement in each grid column" },
-  { kind: "contours.geojson", label: "GeoJSON", detail: "contours, inferred tip lines and mapped limits as 3D lines [x, y, z] on the fault surface in map metres, with level, kind, units and the study's coordinate reference" },
-  { kind: "surface.glb", label: "3D model (glTF)", detail: "the displacement surface with viridis vertex colours and the tip lines, glTF 2.0 binary in world coordinates (origin, axes and coordinate reference in its extras)" },
+  {
+    kind: "contours.geojson",
+    label: "GeoJSON",
+    detail:
+      "contours, inferred tip lines and mapped limits as 3D lines [x, y, z] on the fault surface in map metres, with level, kind, units and the study's coordinate reference",
+  },
+  {
+    kind: "surface.glb",
+    label: "3D model (glTF)",
+    detail:
+      "the displacement surface with viridis vertex colours and the tip lines, glTF 2.0 binary in world coordinates (origin, axes and coordinate reference in its extras)",
+  },
 ];
 
 /** The 3D view with its labels, legend, title and scale bar, or null when the viewer is not on the page. */
@@ -18,7 +33,19 @@ async function scenePicture(faultName: string): Promise<string | null> {
   return frame ? composeScenePicture(frame, `${faultName}: displacement surface`) : null;
 }
 
-export function ExportView({ studyId, faultId, faultName, stem, analysisId }: { studyId: string; faultId: string; faultName: string; stem: string; analysisId: string }) {
+export function ExportView({
+  studyId,
+  faultId,
+  faultName,
+  stem,
+  analysisId,
+}: {
+  studyId: string;
+  faultId: string;
+  faultName: string;
+  stem: string;
+  analysisId: string;
+}) {
   const [message, setMessage] = useState<string | null>(null);
   const withAnalysis = (kind: string) => `/api/faults/${faultId}/export/${kind}${kind.includes("?") ? "&" : "?"}analysis=${encodeURIComponent(analysisId)}`;
 
@@ -49,17 +76,25 @@ export function ExportView({ studyId, faultId, faultName, stem, analysisId }: { 
       <ul className="space-y-2 text-sm">
         {EXPORTS.map((item) => (
           <li key={item.kind} className="flex flex-wrap items-baseline gap-2">
-            <a className="btn-quiet px-2 py-1 text-sm" href={withAnalysis(item.kind)} download data-testid={`export-${item.kind.replace(/[?=]/g, "-")}`}>{item.label}</a>
+            <a className="btn-quiet px-2 py-1 text-sm" href={withAnalysis(item.kind)} download data-testid={`export-${item.kind.replace(/[?=]/g, "-")}`}>
+              {item.label}
+            </a>
             <span className="text-xs text-slate-500">{item.detail}</span>
           </li>
         ))}
         <li className="flex flex-wrap items-baseline gap-2">
-          <button type="button" className="btn-quiet px-2 py-1 text-sm" onClick={() => void scenePng()} data-testid="export-3d-png">3D view PNG</button>
+          <button type="button" className="btn-quiet px-2 py-1 text-sm" onClick={() => void scenePng()} data-testid="export-3d-png">
+            3D view PNG
+          </button>
           <span className="text-xs text-slate-500">the 3D view as it is on screen now, with its labels, a title, the colour legend and the scale bar</span>
         </li>
         <li className="flex flex-wrap items-baseline gap-2">
-          <button type="button" className="btn-primary px-2 py-1 text-sm" onClick={() => void openReport()} data-testid="open-report">Printable fault report</button>
-          <span className="text-xs text-slate-500">fault sheet, contour map, the current 3D picture, strike profile, scaling chart, relays, pins, caution and data provenance</span>
+          <button type="button" className="btn-primary px-2 py-1 text-sm" onClick={() => void openReport()} data-testid="open-report">
+            Printable fault report
+          </button>
+          <span className="text-xs text-slate-500">
+            fault sheet, contour map, the current 3D picture, strike profile, scaling chart, relays, pins, caution and data provenance
+          </span>
         </li>
       </ul>
       {message && <p className="text-sm text-amber-800 dark:text-amber-200">{message}</p>}

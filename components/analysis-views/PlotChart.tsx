@@ -33,11 +33,21 @@ export function PlotChart(props: {
         <figcaption className="text-sm font-medium text-slate-700 dark:text-slate-200">{props.title}</figcaption>
         <div className="flex gap-1">
           {props.csv && (
-            <button type="button" className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800" onClick={() => downloadText(props.csv!(), `${props.fileStem}.csv`)} data-testid={`${props.testId}-csv`}>
+            <button
+              type="button"
+              className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"
+              onClick={() => downloadText(props.csv!(), `${props.fileStem}.csv`)}
+              data-testid={`${props.testId}-csv`}
+            >
               CSV
             </button>
           )}
-          <button type="button" className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800" onClick={() => void png()} data-testid={`${props.testId}-png`}>
+          <button
+            type="button"
+            className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"
+            onClick={() => void png()}
+            data-testid={`${props.testId}-png`}
+          >
             PNG
           </button>
         </div>

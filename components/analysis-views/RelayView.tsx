@@ -18,7 +18,13 @@ export function RelayTable({ report }: { report: AnalysisReport }) {
   return (
     <table className="w-full text-left text-xs" data-testid="relay-table">
       <thead className="text-slate-500">
-        <tr><th className="py-1 pr-2">Segments</th><th className="pr-2">Overlap O</th><th className="pr-2">Separation S</th><th className="pr-2">O/S</th><th>Linkage</th></tr>
+        <tr>
+          <th className="py-1 pr-2">Segments</th>
+          <th className="pr-2">Overlap O</th>
+          <th className="pr-2">Separation S</th>
+          <th className="pr-2">O/S</th>
+          <th>Linkage</th>
+        </tr>
       </thead>
       <tbody className="num">
         {report.relays.map((relay) => (
@@ -36,16 +42,33 @@ export function RelayTable({ report }: { report: AnalysisReport }) {
 }
 
 export function RelayView({ faultId, report, display, stem }: { faultId: string; report: AnalysisReport; display: FaultDisplay; stem: string }) {
-  const horizons = useQuery({ queryKey: ["horizons", faultId, report.engineVersion, report.input.rows], queryFn: () => apiFetch<HorizonBinsResponse>(`/api/faults/${faultId}/export/horizons.json`) });
+  const horizons = useQuery({
+    queryKey: ["horizons", faultId, report.engineVersion, report.input.rows],
+    queryFn: () => apiFetch<HorizonBinsResponse>(`/api/faults/${faultId}/export/horizons.json`),
+  });
   return (
     <div className="space-y-6" data-testid="relay-view">
       <RelayTable report={report} />
-      {report.relays.map((relay) => <RelayPanel key={relay.segments.join("-")} relay={relay} report={report} display={display} stem={stem} bins={horizons.data?.bins ?? []} />)}
+      {report.relays.map((relay) => (
+        <RelayPanel key={relay.segments.join("-")} relay={relay} report={report} display={display} stem={stem} bins={horizons.data?.bins ?? []} />
+      ))}
     </div>
   );
 }
 
-function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult; report: AnalysisReport; display: FaultDisplay; stem: string; bins: HorizonBin[] }) {
+function RelayPanel({
+  relay,
+  report,
+  display,
+  stem,
+  bins,
+}: {
+  relay: RelayResult;
+  report: AnalysisReport;
+  display: FaultDisplay;
+  stem: string;
+  bins: HorizonBin[];
+}) {
   const [a, b] = relay.segments.map((id) => report.segments.find((segment) => segment.id === id)!);
   const [ga, gb] = relay.segments.map((id) => display.segments.find((segment) => segment.id === id)?.grid);
   const sketch = useMemo(() => relaySketch(a, b, ga, gb), [a, b, ga, gb]);
@@ -55,7 +78,9 @@ function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult
   const lines = sketch.segments.flatMap((segment, i) => [
     ...segment.tipLine.map((p) => ({ ...p, series: `${segment.id} inferred tip line`, kind: "tip", index: i })),
   ]);
-  const traces = sketch.segments.flatMap((segment) => segment.trace.map((p) => ({ ...p, series: `${segment.id} trace at ${Math.round(sketch.referenceElevationM)} m` })));
+  const traces = sketch.segments.flatMap((segment) =>
+    segment.trace.map((p) => ({ ...p, series: `${segment.id} trace at ${Math.round(sketch.referenceElevationM)} m` })),
+  );
   const vTop = Math.min(...lines.map((p) => p.v)) - 40;
   const middle = sketch.overlap ? (sketch.overlap[0] + sketch.overlap[1]) / 2 : NaN;
   const traceV = (i: number) => {
@@ -82,32 +107,104 @@ function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult
             style: { fontSize: "12px", background: "transparent" },
             x: { ...X_LABEL_BELOW, label: "Along mean strike (m)", grid: true },
             y: { label: "Across strike, toward dip (m)", grid: true, reverse: true },
-            color: { legend: true, domain: series, range: series.map((name) => (name.includes("tip line") ? CHART.tip : name.startsWith(relay.segments[0]) ? CHART.segments[0] : CHART.segments[1])) },
+            color: {
+              legend: true,
+              domain: series,
+              range: series.map((name) => (name.includes("tip line") ? CHART.tip : name.startsWith(relay.segments[0]) ? CHART.segments[0] : CHART.segments[1])),
+            },
             marks: [
-              sketch.overlap ? Plot.rect([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.12 }) : null,
+              sketch.overlap
+                ? Plot.rect([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.12 })
+                : null,
               Plot.line(lines, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2 }),
               Plot.line(traces, { x: "u", y: "v", z: "series", stroke: "series", strokeWidth: 2.5 }),
-              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], y1: () => vTop, y2: () => vTop, stroke: "currentColor", headLength: 6, bend: false }) : null,
-              sketch.overlap ? Plot.arrow([sketch.overlap], { x1: (d: [number, number]) => d[1], x2: (d: [number, number]) => d[0], y1: () => vTop, y2: () => vTop, stroke: "currentColor", headLength: 6, bend: false }) : null,
-              sketch.overlap ? Plot.text([sketch.overlap], { x: () => middle, y: () => vTop, dy: -9, text: () => `overlap O = ${relay.overlapM.toFixed(0)} m` }) : null,
-              sketch.overlap ? Plot.link([0], { x1: () => middle, x2: () => middle, y1: () => traceV(0), y2: () => traceV(1), stroke: "currentColor", markerStart: "tick", markerEnd: "tick" }) : null,
-              sketch.overlap ? Plot.text([0], { x: () => middle, y: () => (traceV(0) + traceV(1)) / 2, dx: 8, textAnchor: "start", text: () => `separation S = ${relay.separationM.toFixed(0)} m` }) : null,
-              Plot.tip(traces, Plot.pointer({ x: "u", y: "v", title: (p: { series: string; u: number; v: number; throwM: number }) => `${p.series}\nalong ${p.u.toFixed(0)} m, across ${p.v.toFixed(0)} m\nthrow ${Number.isFinite(p.throwM) ? p.throwM.toFixed(1) + " m" : "—"}` })),
+              sketch.overlap
+                ? Plot.arrow([sketch.overlap], {
+                    x1: (d: [number, number]) => d[0],
+                    x2: (d: [number, number]) => d[1],
+                    y1: () => vTop,
+                    y2: () => vTop,
+                    stroke: "currentColor",
+                    headLength: 6,
+                    bend: false,
+                  })
+                : null,
+              sketch.overlap
+                ? Plot.arrow([sketch.overlap], {
+                    x1: (d: [number, number]) => d[1],
+                    x2: (d: [number, number]) => d[0],
+                    y1: () => vTop,
+                    y2: () => vTop,
+                    stroke: "currentColor",
+                    headLength: 6,
+                    bend: false,
+                  })
+                : null,
+              sketch.overlap
+                ? Plot.text([sketch.overlap], { x: () => middle, y: () => vTop, dy: -9, text: () => `overlap O = ${relay.overlapM.toFixed(0)} m` })
+                : null,
+              sketch.overlap
+                ? Plot.link([0], {
+                    x1: () => middle,
+                    x2: () => middle,
+                    y1: () => traceV(0),
+                    y2: () => traceV(1),
+                    stroke: "currentColor",
+                    markerStart: "tick",
+                    markerEnd: "tick",
+                  })
+                : null,
+              sketch.overlap
+                ? Plot.text([0], {
+                    x: () => middle,
+                    y: () => (traceV(0) + traceV(1)) / 2,
+                    dx: 8,
+                    textAnchor: "start",
+                    text: () => `separation S = ${relay.separationM.toFixed(0)} m`,
+                  })
+                : null,
+              Plot.tip(
+                traces,
+                Plot.pointer({
+                  x: "u",
+                  y: "v",
+                  title: (p: { series: string; u: number; v: number; throwM: number }) =>
+                    `${p.series}\nalong ${p.u.toFixed(0)} m, across ${p.v.toFixed(0)} m\nthrow ${Number.isFinite(p.throwM) ? p.throwM.toFixed(1) + " m" : "—"}`,
+                }),
+              ),
             ],
           });
         }}
         note="Traces: each segment's plane at the mean centroid elevation, inside its inferred tip line. Shaded: overlap along strike."
       />
       <dl className="space-y-2 text-sm" data-testid="relay-facts">
-        <div><dt className="text-xs text-slate-500">Overlap / separation</dt><dd className="num">O/S = {relay.overlapToSeparation.toFixed(2)}</dd><dd className="text-xs text-slate-500">{relay.comparison}</dd></div>
-        <div><dt className="text-xs text-slate-500">Linkage</dt><dd className="font-medium" data-testid="relay-linkage">{LINKAGE_WORDS[relay.linkage]}</dd><dd className="text-xs text-slate-500" data-testid="relay-evidence">Evidence: {relay.evidence}</dd><dd className="text-xs text-slate-500">{relay.basis ?? LINKAGE_BASIS}</dd></div>
+        <div>
+          <dt className="text-xs text-slate-500">Overlap / separation</dt>
+          <dd className="num">O/S = {relay.overlapToSeparation.toFixed(2)}</dd>
+          <dd className="text-xs text-slate-500">{relay.comparison}</dd>
+        </div>
+        <div>
+          <dt className="text-xs text-slate-500">Linkage</dt>
+          <dd className="font-medium" data-testid="relay-linkage">
+            {LINKAGE_WORDS[relay.linkage]}
+          </dd>
+          <dd className="text-xs text-slate-500" data-testid="relay-evidence">
+            Evidence: {relay.evidence}
+          </dd>
+          <dd className="text-xs text-slate-500">{relay.basis ?? LINKAGE_BASIS}</dd>
+        </div>
         <div>
           <dt className="text-xs text-slate-500">Relay ramp dip (along strike)</dt>
           {ramp ? (
             <>
-              <dd className="num" data-testid="relay-ramp">ψ ≈ {ramp.dipDeg.toFixed(1)}° ({ramp.flag})</dd>
+              <dd className="num" data-testid="relay-ramp">
+                ψ ≈ {ramp.dipDeg.toFixed(1)}° ({ramp.flag})
+              </dd>
               <dd className="text-xs text-slate-500">
-                ψ = atan(ΔT/O) with ΔT = {Math.max(...transfer).toFixed(1)} m, the throw change along the bounding segment across the overlap (geometry after Peacock &amp; Sanderson 1991), zero at the segment&apos;s own inferred tip and read from the gridded throw at {Math.round(sketch.referenceElevationM)} m elevation — not from horizon picks; regional dip is not included. Breaching is common once ramps reach about 10–15° (Fossen &amp; Rotevatn 2016).
+                ψ = atan(ΔT/O) with ΔT = {Math.max(...transfer).toFixed(1)} m, the throw change along the bounding segment across the overlap (geometry after
+                Peacock &amp; Sanderson 1991), zero at the segment&apos;s own inferred tip and read from the gridded throw at{" "}
+                {Math.round(sketch.referenceElevationM)} m elevation — not from horizon picks; regional dip is not included. Breaching is common once ramps
+                reach about 10–15° (Fossen &amp; Rotevatn 2016).
               </dd>
             </>
           ) : (
@@ -119,9 +216,15 @@ function RelayPanel({ relay, report, display, stem, bins }: { relay: RelayResult
           {horizonDips.length ? (
             <dd>
               <ul className="num text-xs">
-                {horizonDips.map((dip) => <li key={dip.horizon}>{dip.horizon}: ψ ≈ {dip.dipDeg.toFixed(1)}° (ΔT {dip.throwTransferM.toFixed(1)} m, {dip.flag})</li>)}
+                {horizonDips.map((dip) => (
+                  <li key={dip.horizon}>
+                    {dip.horizon}: ψ ≈ {dip.dipDeg.toFixed(1)}° (ΔT {dip.throwTransferM.toFixed(1)} m, {dip.flag})
+                  </li>
+                ))}
               </ul>
-              <p className="text-xs text-slate-500">From the horizon picks on both segments; 10–15° is the common onset of breaching (Fossen &amp; Rotevatn 2016).</p>
+              <p className="text-xs text-slate-500">
+                From the horizon picks on both segments; 10–15° is the common onset of breaching (Fossen &amp; Rotevatn 2016).
+              </p>
             </dd>
           ) : (
             <dd className="text-xs text-slate-500">No horizon picked on both segments: the estimate above (gridded throw) is all there is.</dd>

@@ -54,7 +54,10 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
     const tips: { series: string; x: number }[] = [];
     const openEnds: { series: string; x: number }[] = [];
     const bands: { series: string; x1: number; x2: number }[] = [];
-    const segmentPairs = report.segments.map((segment, index) => ({ segment, grid: display.segments.find((s) => s.id === segment.id)?.grid ?? display.segments[index].grid }));
+    const segmentPairs = report.segments.map((segment, index) => ({
+      segment,
+      grid: display.segments.find((s) => s.id === segment.id)?.grid ?? display.segments[index].grid,
+    }));
     const used = mode === "line" ? [segmentPairs[Math.min(lineSegment, segmentPairs.length - 1)]] : segmentPairs;
     const commons = [];
     for (const { segment, grid } of used) {
@@ -99,7 +102,17 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
     // the sum is drawn only where two or more segments have data: elsewhere it is the one segment's own line
     const sumLine = sum.map((r) => ({ x: r.x, value: r.contributors >= 2 ? r.value : NaN }));
     const sumVisible = sumLine.some((r) => Number.isFinite(r.value));
-    return { rows: rows.filter((r) => Number.isFinite(r.value)), allRows: rows, modelRows, tips, openEnds, bands, sum, sumLine: sumVisible ? sumLine : [], overlap };
+    return {
+      rows: rows.filter((r) => Number.isFinite(r.value)),
+      allRows: rows,
+      modelRows,
+      tips,
+      openEnds,
+      bands,
+      sum,
+      sumLine: sumVisible ? sumLine : [],
+      overlap,
+    };
   }, [report, display, mode, quantity, lineSegment, line, multi, frame]);
 
   const xLabel = mode === "line" ? "Distance along the drawn line (m)" : multi ? "Along strike, common mean-strike coordinate (m)" : "Along strike, s (m)";
@@ -112,12 +125,21 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
         <label className="flex items-center gap-1">
           Profile
           <select className="field w-auto py-1 text-sm" value={mode} onChange={(event) => setMode(event.target.value as Mode)} data-testid="profile-mode">
-            {(Object.keys(MODE_LABELS) as Mode[]).map((key) => <option key={key} value={key}>{MODE_LABELS[key]}</option>)}
+            {(Object.keys(MODE_LABELS) as Mode[]).map((key) => (
+              <option key={key} value={key}>
+                {MODE_LABELS[key]}
+              </option>
+            ))}
           </select>
         </label>
         <label className="flex items-center gap-1">
           Quantity
-          <select className="field w-auto py-1 text-sm" value={quantity} onChange={(event) => setQuantity(event.target.value as Quantity)} data-testid="profile-quantity">
+          <select
+            className="field w-auto py-1 text-sm"
+            value={quantity}
+            onChange={(event) => setQuantity(event.target.value as Quantity)}
+            data-testid="profile-quantity"
+          >
             <option value="displacement">Displacement</option>
             <option value="throw">Throw</option>
           </select>
@@ -125,15 +147,31 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
         {mode === "line" && multi && (
           <label className="flex items-center gap-1">
             Segment
-            <select className="field w-auto py-1 text-sm" value={lineSegment} onChange={(event) => { setLineSegment(Number(event.target.value)); setLine(null); }}>
-              {report.segments.map((segment, index) => <option key={segment.id} value={index}>{segment.id}</option>)}
+            <select
+              className="field w-auto py-1 text-sm"
+              value={lineSegment}
+              onChange={(event) => {
+                setLineSegment(Number(event.target.value));
+                setLine(null);
+              }}
+            >
+              {report.segments.map((segment, index) => (
+                <option key={segment.id} value={index}>
+                  {segment.id}
+                </option>
+              ))}
             </select>
           </label>
         )}
       </div>
       <div className={mode === "line" ? "grid gap-4 lg:grid-cols-[minmax(260px,340px)_1fr]" : ""}>
         {mode === "line" && (
-          <LineMap segment={report.segments[Math.min(lineSegment, report.segments.length - 1)]} displaySegment={display.segments[Math.min(lineSegment, display.segments.length - 1)]} line={line} onLine={setLine} />
+          <LineMap
+            segment={report.segments[Math.min(lineSegment, report.segments.length - 1)]}
+            displaySegment={display.segments[Math.min(lineSegment, display.segments.length - 1)]}
+            line={line}
+            onLine={setLine}
+          />
         )}
         <PlotChart
           testId="strike-profile-chart"
@@ -155,7 +193,11 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
             if (chart.rows.length === 0) return null;
             const series = [...new Set(chart.rows.map((r) => r.series))];
             const domain = [...series, ...(chart.sumLine.length ? ["sum of segments"] : []), ...(chart.modelRows.length ? ["fitted model"] : [])];
-            const range = [...series.map((_, i) => CHART.segments[i % CHART.segments.length]), ...(chart.sumLine.length ? [CHART.sum] : []), ...(chart.modelRows.length ? [CHART.model] : [])];
+            const range = [
+              ...series.map((_, i) => CHART.segments[i % CHART.segments.length]),
+              ...(chart.sumLine.length ? [CHART.sum] : []),
+              ...(chart.modelRows.length ? [CHART.model] : []),
+            ];
             return Plot.plot({
               ...X_AXIS_ROOM,
               width,
@@ -166,36 +208,88 @@ export function StrikeProfileView({ report, display, stem }: { report: AnalysisR
               y: { label: yLabel, grid: true, zero: true },
               color: { legend: true, domain, range },
               marks: [
-                chart.overlap ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 }) : null,
-                chart.overlap ? Plot.text([chart.overlap], { x: (d: [number, number]) => (d[0] + d[1]) / 2, frameAnchor: "top", dy: 6, text: () => "overlap (relay)", fill: CHART.tip }) : null,
+                chart.overlap
+                  ? Plot.rect([chart.overlap], { x1: (d: [number, number]) => d[0], x2: (d: [number, number]) => d[1], fill: CHART.overlap, fillOpacity: 0.15 })
+                  : null,
+                chart.overlap
+                  ? Plot.text([chart.overlap], {
+                      x: (d: [number, number]) => (d[0] + d[1]) / 2,
+                      frameAnchor: "top",
+                      dy: 6,
+                      text: () => "overlap (relay)",
+                      fill: CHART.tip,
+                    })
+                  : null,
                 Plot.rect(chart.bands, {
                   x1: "x1",
                   x2: "x2",
                   fill: CHART.tip,
                   fillOpacity: 0.22,
                   className: "tip-band",
-                  title: (d: { series: string; x1: number; x2: number }) => `${d.series}: the tip lies between ${Math.min(d.x1, d.x2).toFixed(0)} and ${Math.max(d.x1, d.x2).toFixed(0)} m (5–95 %)`,
+                  title: (d: { series: string; x1: number; x2: number }) =>
+                    `${d.series}: the tip lies between ${Math.min(d.x1, d.x2).toFixed(0)} and ${Math.max(d.x1, d.x2).toFixed(0)} m (5–95 %)`,
                 }),
                 Plot.ruleY([0]),
-                chart.sumLine.length ? Plot.line(chart.sumLine, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 }) : null,
+                chart.sumLine.length
+                  ? Plot.line(chart.sumLine, { x: "x", y: "value", stroke: () => "sum of segments", strokeWidth: 4, strokeOpacity: 0.5 })
+                  : null,
                 Plot.line(chart.modelRows, { x: "x", y: "value", z: "series", stroke: () => "fitted model", strokeDasharray: "6 4", strokeWidth: 1.5 }),
                 Plot.line(chart.rows, { x: "x", y: "value", z: "series", stroke: "series", strokeWidth: 1.5 }),
                 Plot.dot(chart.rows, { x: "x", y: "value", fill: "series", r: 1.8, className: "profile-point" }),
-                Plot.dot(chart.tips, { x: "x", y: () => 0, symbol: "diamond", r: 5, fill: CHART.tip, stroke: "white", title: (d: { series: string; x: number }) => `inferred tip of ${d.series} at ${d.x.toFixed(0)} m` }),
-                Plot.dot(chart.openEnds, { x: "x", y: () => 0, symbol: "square", r: 5, fill: CHART.open, stroke: "white", className: "open-end", title: (d: { series: string; x: number }) => `open end of ${d.series} at ${d.x.toFixed(0)} m: the picks stop while displacement is still high, no tip inferred` }),
-                Plot.tip([...chart.rows, ...chart.sumLine.filter((r) => Number.isFinite(r.value)).map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN }))], Plot.pointerX({ x: "x", y: "value", title: (r: Row) => `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m` })),
+                Plot.dot(chart.tips, {
+                  x: "x",
+                  y: () => 0,
+                  symbol: "diamond",
+                  r: 5,
+                  fill: CHART.tip,
+                  stroke: "white",
+                  title: (d: { series: string; x: number }) => `inferred tip of ${d.series} at ${d.x.toFixed(0)} m`,
+                }),
+                Plot.dot(chart.openEnds, {
+                  x: "x",
+                  y: () => 0,
+                  symbol: "square",
+                  r: 5,
+                  fill: CHART.open,
+                  stroke: "white",
+                  className: "open-end",
+                  title: (d: { series: string; x: number }) =>
+                    `open end of ${d.series} at ${d.x.toFixed(0)} m: the picks stop while displacement is still high, no tip inferred`,
+                }),
+                Plot.tip(
+                  [
+                    ...chart.rows,
+                    ...chart.sumLine
+                      .filter((r) => Number.isFinite(r.value))
+                      .map((r) => ({ series: "sum of segments", x: r.x, value: r.value, s: NaN, t: NaN })),
+                  ],
+                  Plot.pointerX({
+                    x: "x",
+                    y: "value",
+                    title: (r: Row) =>
+                      `${r.series}\n${xLabel.replace(/ \(m\)$/, "")}: ${r.x.toFixed(0)} m\n${yLabel.replace(/ \(m\)$/, "")}: ${r.value.toFixed(1)} m`,
+                  }),
+                ),
               ],
             });
           }}
           note={
             <>
               Inferred tip positions marked ◆ at zero (amber); the shaded strip at each end is where the tip lies with 5–95 % confidence.
-              {chart.openEnds.length > 0 && " ■ (blue) marks an open end: the picks stop there while displacement is still high, so no tip is inferred."} Dashed: {modelName}, at its fitted Dmax.
-              {multi && mode !== "line" && chart.sumLine.length > 0 && " Broad grey: the sum of the segments where two or more have resolvable data (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
+              {chart.openEnds.length > 0 && " ■ (blue) marks an open end: the picks stop there while displacement is still high, so no tip is inferred."}{" "}
+              Dashed: {modelName}, at its fitted Dmax.
+              {multi &&
+                mode !== "line" &&
+                chart.sumLine.length > 0 &&
+                " Broad grey: the sum of the segments where two or more have resolvable data (displacement transfer across the relay); the overlap of the inferred tip lines is shaded."}
               {multi && mode !== "line" && chart.sumLine.length === 0 && (
-                <span data-testid="no-sum-note"> No position along strike has resolvable data on two segments at once, so their sum is each segment&apos;s own line (no separate sum is drawn; the CSV has it). The overlap of the inferred tip lines is shaded.</span>
-              )}
-              {" "}Values from the display grid; the Export tab gives the full-resolution profile.
+                <span data-testid="no-sum-note">
+                  {" "}
+                  No position along strike has resolvable data on two segments at once, so their sum is each segment&apos;s own line (no separate sum is drawn;
+                  the CSV has it). The overlap of the inferred tip lines is shaded.
+                </span>
+              )}{" "}
+              Values from the display grid; the Export tab gives the full-resolution profile.
             </>
           }
         />
@@ -211,7 +305,10 @@ function modelStrikeProfileName(segments: SegmentResult[]): string {
 
 /** [sMin, sMax, tMin, tMax] of points in the plane, widened by `margin` of the span on each side. */
 function planExtent(points: ArrayLike<number>[], margin: number): [number, number, number, number] {
-  let sMin = Infinity, sMax = -Infinity, tMin = Infinity, tMax = -Infinity;
+  let sMin = Infinity,
+    sMax = -Infinity,
+    tMin = Infinity,
+    tMax = -Infinity;
   for (const point of points) {
     if (!Number.isFinite(point[0]) || !Number.isFinite(point[1])) continue;
     sMin = Math.min(sMin, point[0]);
@@ -231,7 +328,17 @@ function profileFor(mode: Mode, segment: SegmentResult, grid: GridLike, line: [[
 }
 
 /** Small plan of the segment in (s, t): displacement raster, tip line, mapped limit; drag to draw the profile line. */
-function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentResult; displaySegment: DisplaySegment; line: [[number, number], [number, number]] | null; onLine: (line: [[number, number], [number, number]] | null) => void }) {
+function LineMap({
+  segment,
+  displaySegment,
+  line,
+  onLine,
+}: {
+  segment: SegmentResult;
+  displaySegment: DisplaySegment;
+  line: [[number, number], [number, number]] | null;
+  onLine: (line: [[number, number], [number, number]] | null) => void;
+}) {
   const dragStart = useRef<[number, number] | null>(null);
   const grid = displaySegment.grid;
   const drawn = line;
@@ -258,11 +365,43 @@ function LineMap({ segment, displaySegment, line, onLine }: { segment: SegmentRe
           y: { label: "t down dip (m)", domain: [tHigh, tLow] },
           color: { scheme: "viridis", label: "Displacement (m)", legend: true },
           marks: [
-            Plot.raster(Array.from(grid.displacementM, (v) => (Number.isNaN(v) ? undefined : v)), { width: grid.columns, height: grid.rows, x1: grid.s0, x2: s1, y1: grid.t0, y2: t1, fill: (v: number | undefined) => v, imageRendering: "pixelated" }),
+            Plot.raster(
+              Array.from(grid.displacementM, (v) => (Number.isNaN(v) ? undefined : v)),
+              {
+                width: grid.columns,
+                height: grid.rows,
+                x1: grid.s0,
+                x2: s1,
+                y1: grid.t0,
+                y2: t1,
+                fill: (v: number | undefined) => v,
+                imageRendering: "pixelated",
+              },
+            ),
             Plot.line(displaySegment.tipLine, { x: "0", y: "1", stroke: CHART.tip, strokeWidth: 2 }),
             Plot.line(displaySegment.mappedLimit, { x: "0", y: "1", stroke: "currentColor", strokeDasharray: "3 3" }),
-            drawn ? Plot.link([drawn], { x1: (d: typeof drawn) => d[0][0], y1: (d: typeof drawn) => d[0][1], x2: (d: typeof drawn) => d[1][0], y2: (d: typeof drawn) => d[1][1], stroke: "white", strokeWidth: 3, markerEnd: "arrow" }) : null,
-            drawn ? Plot.link([drawn], { x1: (d: typeof drawn) => d[0][0], y1: (d: typeof drawn) => d[0][1], x2: (d: typeof drawn) => d[1][0], y2: (d: typeof drawn) => d[1][1], stroke: "#0f172a", strokeWidth: 1.5, markerEnd: "arrow" }) : null,
+            drawn
+              ? Plot.link([drawn], {
+                  x1: (d: typeof drawn) => d[0][0],
+                  y1: (d: typeof drawn) => d[0][1],
+                  x2: (d: typeof drawn) => d[1][0],
+                  y2: (d: typeof drawn) => d[1][1],
+                  stroke: "white",
+                  strokeWidth: 3,
+                  markerEnd: "arrow",
+                })
+              : null,
+            drawn
+              ? Plot.link([drawn], {
+                  x1: (d: typeof drawn) => d[0][0],
+                  y1: (d: typeof drawn) => d[0][1],
+                  x2: (d: typeof drawn) => d[1][0],
+                  y2: (d: typeof drawn) => d[1][1],
+                  stroke: "#0f172a",
+                  strokeWidth: 1.5,
+                  markerEnd: "arrow",
+                })
+              : null,
           ],
         });
         const x = chart.scale("x")!;

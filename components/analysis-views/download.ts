@@ -49,7 +49,10 @@ export async function svgImage(svg: SVGSVGElement, color?: string): Promise<HTML
   return image;
 }
 
-const svgSize = (svg: SVGSVGElement) => ({ width: Number(svg.getAttribute("width")) || svg.clientWidth, height: Number(svg.getAttribute("height")) || svg.clientHeight });
+const svgSize = (svg: SVGSVGElement) => ({
+  width: Number(svg.getAttribute("width")) || svg.clientWidth,
+  height: Number(svg.getAttribute("height")) || svg.clientHeight,
+});
 
 /**
  * A chart as a picture that stands alone: its title, its legends (colour ramps, and swatches with their labels) and the

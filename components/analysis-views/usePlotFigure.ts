@@ -7,7 +7,11 @@ type Figure = SVGSVGElement | HTMLElement;
  * Draws an Observable Plot figure into the returned holder div at the holder's width, and replaces it (removing
  * the old one) whenever the width or `deps` change. Returns the holder ref and the last drawing error, if any.
  */
-export function usePlotFigure(build: (width: number) => Figure | null, deps: unknown[], options: { minWidth?: number; onRendered?: (figure: Figure) => void } = {}) {
+export function usePlotFigure(
+  build: (width: number) => Figure | null,
+  deps: unknown[],
+  options: { minWidth?: number; onRendered?: (figure: Figure) => void } = {},
+) {
   const holder = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(0);
   const [error, setError] = useState<string | null>(null);

@@ -23,25 +23,49 @@ export function AuthForm({ mode, action, next, email }: Props) {
     <form action={formAction} className="space-y-4" noValidate>
       {next && <input type="hidden" name="next" value={next} />}
       {state.message && (
-        <div className="rounded-lg border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200" data-testid="form-message">
+        <div
+          className="rounded-lg border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200"
+          data-testid="form-message"
+        >
           {state.message}
         </div>
       )}
       {signUp && (
         <div>
-          <label htmlFor="name" className="label">Name</label>
+          <label htmlFor="name" className="label">
+            Name
+          </label>
           <input id="name" name="name" className="field" autoComplete="name" defaultValue={state.values?.name} aria-invalid={!!errors.name} />
           <FieldError errors={errors.name} />
         </div>
       )}
       <div>
-        <label htmlFor="email" className="label">E-mail</label>
-        <input id="email" name="email" type="email" className="field" autoComplete="email" defaultValue={state.values?.email ?? email} aria-invalid={!!errors.email} />
+        <label htmlFor="email" className="label">
+          E-mail
+        </label>
+        <input
+          id="email"
+          name="email"
+          type="email"
+          className="field"
+          autoComplete="email"
+          defaultValue={state.values?.email ?? email}
+          aria-invalid={!!errors.email}
+        />
         <FieldError errors={errors.email} />
       </div>
       <div>
-        <label htmlFor="password" className="label">Password</label>
-        <input id="password" name="password" type="password" className="field" autoComplete={signUp ? "new-password" : "current-password"} aria-invalid={!!errors.password} />
+        <label htmlFor="password" className="label">
+          Password
+        </label>
+        <input
+          id="password"
+          name="password"
+          type="password"
+          className="field"
+          autoComplete={signUp ? "new-password" : "current-password"}
+          aria-invalid={!!errors.password}
+        />
         {signUp && !errors.password && <p className="mt-1 text-xs text-slate-500">At least 10 characters, with a letter and a digit.</p>}
         <FieldError errors={errors.password} />
       </div>
@@ -50,9 +74,19 @@ export function AuthForm({ mode, action, next, email }: Props) {
       </button>
       <p className="text-center text-sm text-slate-600 dark:text-slate-400">
         {signUp ? (
-          <>Already have an account? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-in${suffix}`}>Sign in</Link></>
+          <>
+            Already have an account?{" "}
+            <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-in${suffix}`}>
+              Sign in
+            </Link>
+          </>
         ) : (
-          <>New to Slipfield? <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-up${suffix}`}>Create an account</Link></>
+          <>
+            New to Slipfield?{" "}
+            <Link className="font-medium text-slip-700 hover:underline dark:text-slip-300" href={`/sign-up${suffix}`}>
+              Create an account
+            </Link>
+          </>
         )}
       </p>
     </form>

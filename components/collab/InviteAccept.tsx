@@ -8,7 +8,11 @@ export function InviteAccept({ token, studyName }: { token: string; studyName: s
     <form action={formAction} className="mt-6 space-y-3">
       <input type="hidden" name="token" value={token} />
       {state.message && (
-        <p className="rounded-lg border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200" role="alert" data-testid="invite-error">
+        <p
+          className="rounded-lg border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200"
+          role="alert"
+          data-testid="invite-error"
+        >
           {state.message}
         </p>
       )}

@@ -80,7 +80,13 @@ export function MentionTextarea({ value, onValueChange, mentionable, onKeyDown, 
         }}
       />
       {open && (
-        <ul id={listId} role="listbox" aria-label="People to mention" className="absolute left-0 right-0 z-20 mt-1 max-h-48 overflow-auto rounded-lg border border-slate-200 bg-white py-1 text-sm shadow-lg dark:border-slate-700 dark:bg-slate-900" data-testid="mention-list">
+        <ul
+          id={listId}
+          role="listbox"
+          aria-label="People to mention"
+          className="absolute left-0 right-0 z-20 mt-1 max-h-48 overflow-auto rounded-lg border border-slate-200 bg-white py-1 text-sm shadow-lg dark:border-slate-700 dark:bg-slate-900"
+          data-testid="mention-list"
+        >
           {suggestions.map((person, index) => (
             <li
               key={person.handle}

@@ -48,7 +48,13 @@ export function flyToPin(pin: { x: number; y: number; z: number }) {
   });
 }
 
-export function PinsPanel({ faultId, role, currentPickSetVersion, display, linkedPinId = null }: {
+export function PinsPanel({
+  faultId,
+  role,
+  currentPickSetVersion,
+  display,
+  linkedPinId = null,
+}: {
   studyId: string;
   faultId: string;
   role: StudyRole;
@@ -117,7 +123,11 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display, linke
   }, [linkedPinId, pins.data, display]);
 
   const list = (pins.data?.pins ?? []).filter((pin) => (filter === "mine" ? pin.mine : filter === "open" ? pin.state === "open" : true));
-  const counts = { all: pins.data?.pins.length ?? 0, mine: pins.data?.pins.filter((pin) => pin.mine).length ?? 0, open: pins.data?.pins.filter((pin) => pin.state === "open").length ?? 0 };
+  const counts = {
+    all: pins.data?.pins.length ?? 0,
+    mine: pins.data?.pins.filter((pin) => pin.mine).length ?? 0,
+    open: pins.data?.pins.filter((pin) => pin.state === "open").length ?? 0,
+  };
   const invalidate = () => queryClient.invalidateQueries({ queryKey: key });
 
   return (
@@ -126,7 +136,9 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display, linke
         <h2 className="font-semibold">Pinned notes</h2>
         {canComment &&
           (placing ? (
-            <button className="btn-quiet py-1.5" onClick={() => setPlacing(false)} data-testid="pin-cancel-placing">Cancel</button>
+            <button className="btn-quiet py-1.5" onClick={() => setPlacing(false)} data-testid="pin-cancel-placing">
+              Cancel
+            </button>
           ) : (
             <button className="btn-primary py-1.5" onClick={() => setPlacing(true)} disabled={!display || Boolean(pendingHit)} data-testid="pin-a-note">
               Pin a note
@@ -153,18 +165,33 @@ export function PinsPanel({ faultId, role, currentPickSetVersion, display, linke
 
       <div className="flex gap-1 rounded-lg bg-slate-100 p-1 text-sm dark:bg-slate-800" role="group" aria-label="Show">
         {(["all", "mine", "open"] as const).map((value) => (
-          <button key={value} onClick={() => setFilter(value)} aria-pressed={filter === value} data-testid={`pin-filter-${value}`}
-            className={`flex-1 rounded-md px-2 py-1 ${filter === value ? "bg-white font-medium shadow-sm dark:bg-slate-900" : "text-slate-600 hover:text-slate-900 dark:text-slate-400"}`}>
+          <button
+            key={value}
+            onClick={() => setFilter(value)}
+            aria-pressed={filter === value}
+            data-testid={`pin-filter-${value}`}
+            className={`flex-1 rounded-md px-2 py-1 ${filter === value ? "bg-white font-medium shadow-sm dark:bg-slate-900" : "text-slate-600 hover:text-slate-900 dark:text-slate-400"}`}
+          >
             {value === "all" ? "All" : value === "mine" ? "Mine" : "Open"} <span className="num text-xs text-slate-500">{counts[value]}</span>
           </button>
         ))}
       </div>
 
       {pins.isPending && <p className="text-sm text-slate-500">Loading notes…</p>}
-      {pins.isError && <p className="field-error" role="alert">{errorText(pins.error)}</p>}
+      {pins.isError && (
+        <p className="field-error" role="alert">
+          {errorText(pins.error)}
+        </p>
+      )}
       {pins.data && list.length === 0 && (
         <p className="text-sm text-slate-500" data-testid="pins-empty">
-          {filter === "all" ? (canComment ? "No notes yet. Use “Pin a note” and click the surface." : "No notes on this fault yet.") : filter === "mine" ? "You have not pinned a note here." : "No open notes."}
+          {filter === "all"
+            ? canComment
+              ? "No notes yet. Use “Pin a note” and click the surface."
+              : "No notes on this fault yet."
+            : filter === "mine"
+              ? "You have not pinned a note here."
+              : "No open notes."}
         </p>
       )}
       <ol className="space-y-2">
@@ -199,14 +226,27 @@ function MentionHint({ mentionable }: { mentionable: Mentionable[] }) {
   if (mentionable.length === 0) return null;
   return (
     <p className="text-xs text-slate-500">
-      **bold**, `code`, links. Type @ to mention someone: {mentionable.slice(0, 6).map((person, index) => (
-        <span key={person.handle}>{index > 0 && ", "}<span className="font-mono" title={person.name}>@{person.handle}</span></span>
-      ))}.
+      **bold**, `code`, links. Type @ to mention someone:{" "}
+      {mentionable.slice(0, 6).map((person, index) => (
+        <span key={person.handle}>
+          {index > 0 && ", "}
+          <span className="font-mono" title={person.name}>
+            @{person.handle}
+          </span>
+        </span>
+      ))}
+      .
     </p>
   );
 }
 
-function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
+function NewPinForm({
+  faultId,
+  hit,
+  mentionable,
+  onDone,
+  onSaved,
+}: {
   faultId: string;
   hit: { x: number; y: number; z: number; s: number; t: number; segmentId: string };
   mentionable: Mentionable[];
@@ -223,9 +263,26 @@ function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
       const previous = queryClient.getQueryData<PinList>(key);
       if (previous) {
         const optimistic: PinView = {
-          id: `pending-${Date.now()}`, x: hit.x, y: hit.y, z: hit.z, s: hit.s, t: hit.t, segmentName: hit.segmentId, pickSetVersion: null, body, state: "open",
-          author: { id: "me", name: "You" }, createdAt: new Date().toISOString(), edited: false, resolvedBy: null, resolvedAt: null, unread: false, mine: true,
-          editableUntil: new Date().toISOString(), can: { edit: false, resolve: false, delete: false, reply: false }, replies: [],
+          id: `pending-${Date.now()}`,
+          x: hit.x,
+          y: hit.y,
+          z: hit.z,
+          s: hit.s,
+          t: hit.t,
+          segmentName: hit.segmentId,
+          pickSetVersion: null,
+          body,
+          state: "open",
+          author: { id: "me", name: "You" },
+          createdAt: new Date().toISOString(),
+          edited: false,
+          resolvedBy: null,
+          resolvedAt: null,
+          unread: false,
+          mine: true,
+          editableUntil: new Date().toISOString(),
+          can: { edit: false, resolve: false, delete: false, reply: false },
+          replies: [],
         };
         queryClient.setQueryData<PinList>(key, { ...previous, pins: [optimistic, ...previous.pins] });
       }
@@ -247,22 +304,52 @@ function NewPinForm({ faultId, hit, mentionable, onDone, onSaved }: {
       }}
     >
       <p className="text-xs text-slate-500">
-        New note on segment <span className="font-medium">{hit.segmentId}</span> at along-strike <span className="num">{Math.round(hit.s)} m</span>, down-dip <span className="num">{Math.round(hit.t)} m</span>
+        New note on segment <span className="font-medium">{hit.segmentId}</span> at along-strike <span className="num">{Math.round(hit.s)} m</span>, down-dip{" "}
+        <span className="num">{Math.round(hit.t)} m</span>
       </p>
-      <label className="label" htmlFor="pin-body">Note</label>
-      <MentionTextarea id="pin-body" className="field min-h-[84px]" value={body} onValueChange={setBody} mentionable={mentionable} maxLength={4000} autoFocus
-        placeholder="Throw jumps here — mis-pick?" data-testid="pin-body-input" />
+      <label className="label" htmlFor="pin-body">
+        Note
+      </label>
+      <MentionTextarea
+        id="pin-body"
+        className="field min-h-[84px]"
+        value={body}
+        onValueChange={setBody}
+        mentionable={mentionable}
+        maxLength={4000}
+        autoFocus
+        placeholder="Throw jumps here — mis-pick?"
+        data-testid="pin-body-input"
+      />
       <MentionHint mentionable={mentionable} />
-      {create.isError && <p className="field-error" role="alert" data-testid="pin-form-error">{errorText(create.error)}</p>}
+      {create.isError && (
+        <p className="field-error" role="alert" data-testid="pin-form-error">
+          {errorText(create.error)}
+        </p>
+      )}
       <div className="flex gap-2">
-        <button className="btn-primary" disabled={create.isPending || body.trim() === ""} data-testid="pin-save">{create.isPending ? "Saving…" : "Save note"}</button>
-        <button type="button" className="btn-quiet" onClick={() => onDone(null)} data-testid="pin-form-cancel">Cancel</button>
+        <button className="btn-primary" disabled={create.isPending || body.trim() === ""} data-testid="pin-save">
+          {create.isPending ? "Saving…" : "Save note"}
+        </button>
+        <button type="button" className="btn-quiet" onClick={() => onDone(null)} data-testid="pin-form-cancel">
+          Cancel
+        </button>
       </div>
     </form>
   );
 }
 
-function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWindowMinutes, mentionable, onSelect, onChanged }: {
+function PinCard({
+  pin,
+  faultId,
+  expanded,
+  unread,
+  currentPickSetVersion,
+  editWindowMinutes,
+  mentionable,
+  onSelect,
+  onChanged,
+}: {
   pin: PinView;
   mentionable: Mentionable[];
   faultId: string;
@@ -287,39 +374,97 @@ function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWi
   const otherVersion = pin.pickSetVersion !== null && currentPickSetVersion !== null && pin.pickSetVersion !== currentPickSetVersion;
   const left = minutesLeft(pin.editableUntil);
   return (
-    <li className={`card overflow-hidden ${pin.state === "resolved" ? "opacity-80" : ""} ${expanded ? "ring-2 ring-slip-300 dark:ring-slip-800" : ""}`}
-      data-testid="pin-item" data-pin-id={pin.id} data-state={pin.state}>
-      <div role="button" tabIndex={pending ? -1 : 0} aria-disabled={pending} aria-expanded={expanded}
+    <li
+      className={`card overflow-hidden ${pin.state === "resolved" ? "opacity-80" : ""} ${expanded ? "ring-2 ring-slip-300 dark:ring-slip-800" : ""}`}
+      data-testid="pin-item"
+      data-pin-id={pin.id}
+      data-state={pin.state}
+    >
+      <div
+        role="button"
+        tabIndex={pending ? -1 : 0}
+        aria-disabled={pending}
+        aria-expanded={expanded}
         className="block w-full cursor-pointer p-3 text-left hover:bg-slate-50 focus:outline-none focus-visible:ring-2 focus-visible:ring-slip-400 dark:hover:bg-slate-800/60"
-        onClick={() => { if (!pending) onSelect(); }}
-        onKeyDown={(event) => { if (!pending && (event.key === "Enter" || event.key === " ") && event.target === event.currentTarget) { event.preventDefault(); onSelect(); } }}
-        data-testid="pin-goto" title="Show this place in the 3D view and open the thread">
+        onClick={() => {
+          if (!pending) onSelect();
+        }}
+        onKeyDown={(event) => {
+          if (!pending && (event.key === "Enter" || event.key === " ") && event.target === event.currentTarget) {
+            event.preventDefault();
+            onSelect();
+          }
+        }}
+        data-testid="pin-goto"
+        title="Show this place in the 3D view and open the thread"
+      >
         <div className="flex items-center gap-2 text-xs text-slate-500">
           {unread && <span className="h-2 w-2 shrink-0 rounded-full bg-slip-500" aria-label="unread" data-testid="pin-unread" />}
           <span className="font-medium text-slate-800 dark:text-slate-200">{pin.author?.name ?? "Former member"}</span>
           <span>·</span>
           <time dateTime={pin.createdAt}>{when(pin.createdAt)}</time>
           {pin.edited && <span>(edited)</span>}
-          <span className={`ml-auto rounded px-1.5 py-0.5 font-medium ${pin.state === "resolved" ? "bg-slate-100 text-slate-600 dark:bg-slate-800 dark:text-slate-300" : "bg-slip-50 text-slip-800 dark:bg-slip-950 dark:text-slip-200"}`} data-testid="pin-state">
+          <span
+            className={`ml-auto rounded px-1.5 py-0.5 font-medium ${pin.state === "resolved" ? "bg-slate-100 text-slate-600 dark:bg-slate-800 dark:text-slate-300" : "bg-slip-50 text-slip-800 dark:bg-slip-950 dark:text-slip-200"}`}
+            data-testid="pin-state"
+          >
             {pin.state === "resolved" ? "Resolved" : "Open"}
           </span>
         </div>
-        {!editing && <div className="mt-1.5 text-slate-800 dark:text-slate-100"><PinText text={pin.body} /></div>}
+        {!editing && (
+          <div className="mt-1.5 text-slate-800 dark:text-slate-100">
+            <PinText text={pin.body} />
+          </div>
+        )}
         <div className="mt-1.5 flex flex-wrap gap-x-3 text-xs text-slate-500">
           {pin.segmentName && <span>Segment {pin.segmentName}</span>}
-          {otherVersion && <span className="text-amber-700 dark:text-amber-400" data-testid="pin-version">made on pick set v{pin.pickSetVersion}</span>}
-          {pin.replies.length > 0 && <span>{pin.replies.length} repl{pin.replies.length === 1 ? "y" : "ies"}</span>}
+          {otherVersion && (
+            <span className="text-amber-700 dark:text-amber-400" data-testid="pin-version">
+              made on pick set v{pin.pickSetVersion}
+            </span>
+          )}
+          {pin.replies.length > 0 && (
+            <span>
+              {pin.replies.length} repl{pin.replies.length === 1 ? "y" : "ies"}
+            </span>
+          )}
           {pin.state === "resolved" && pin.resolvedBy && <span>resolved by {pin.resolvedBy.name}</span>}
         </div>
       </div>
 
       {editing && (
-        <form className="space-y-2 px-3 pb-3" onSubmit={(event) => { event.preventDefault(); act.mutate({ method: "PATCH", json: { action: "edit", body: draft } }); }}>
-          <textarea className="field min-h-[72px]" value={draft} onChange={(event) => setDraft(event.target.value)} maxLength={4000} aria-label="Edit note" data-testid="pin-edit-input" />
-          <p className="text-xs text-slate-500">You can edit for {left} more minute{left === 1 ? "" : "s"} ({editWindowMinutes} minutes after writing).</p>
+        <form
+          className="space-y-2 px-3 pb-3"
+          onSubmit={(event) => {
+            event.preventDefault();
+            act.mutate({ method: "PATCH", json: { action: "edit", body: draft } });
+          }}
+        >
+          <textarea
+            className="field min-h-[72px]"
+            value={draft}
+            onChange={(event) => setDraft(event.target.value)}
+            maxLength={4000}
+            aria-label="Edit note"
+            data-testid="pin-edit-input"
+          />
+          <p className="text-xs text-slate-500">
+            You can edit for {left} more minute{left === 1 ? "" : "s"} ({editWindowMinutes} minutes after writing).
+          </p>
           <div className="flex gap-2">
-            <button className="btn-primary py-1.5" disabled={act.isPending || draft.trim() === ""} data-testid="pin-edit-save">Save</button>
-            <button type="button" className="btn-quiet py-1.5" onClick={() => { setEditing(false); setDraft(pin.body); }}>Cancel</button>
+            <button className="btn-primary py-1.5" disabled={act.isPending || draft.trim() === ""} data-testid="pin-edit-save">
+              Save
+            </button>
+            <button
+              type="button"
+              className="btn-quiet py-1.5"
+              onClick={() => {
+                setEditing(false);
+                setDraft(pin.body);
+              }}
+            >
+              Cancel
+            </button>
           </div>
         </form>
       )}
@@ -330,25 +475,59 @@ function PinCard({ pin, faultId, expanded, unread, currentPickSetVersion, editWi
             <div className="flex flex-wrap gap-2">
               {pin.can.resolve &&
                 (pin.state === "open" ? (
-                  <button className="btn-quiet py-1 text-xs" disabled={act.isPending} onClick={() => act.mutate({ method: "PATCH", json: { action: "resolve" } })} data-testid="pin-resolve">Resolve</button>
+                  <button
+                    className="btn-quiet py-1 text-xs"
+                    disabled={act.isPending}
+                    onClick={() => act.mutate({ method: "PATCH", json: { action: "resolve" } })}
+                    data-testid="pin-resolve"
+                  >
+                    Resolve
+                  </button>
                 ) : (
-                  <button className="btn-quiet py-1 text-xs" disabled={act.isPending} onClick={() => act.mutate({ method: "PATCH", json: { action: "reopen" } })} data-testid="pin-reopen">Reopen</button>
+                  <button
+                    className="btn-quiet py-1 text-xs"
+                    disabled={act.isPending}
+                    onClick={() => act.mutate({ method: "PATCH", json: { action: "reopen" } })}
+                    data-testid="pin-reopen"
+                  >
+                    Reopen
+                  </button>
                 ))}
               {pin.can.edit && !editing && (
-                <button className="btn-quiet py-1 text-xs" onClick={() => { setDraft(pin.body); setEditing(true); }} title={`Editable for ${left} more minutes`} data-testid="pin-edit">
+                <button
+                  className="btn-quiet py-1 text-xs"
+                  onClick={() => {
+                    setDraft(pin.body);
+                    setEditing(true);
+                  }}
+                  title={`Editable for ${left} more minutes`}
+                  data-testid="pin-edit"
+                >
                   Edit ({left} min left)
                 </button>
               )}
               {pin.can.delete && (
-                <button className="btn-danger py-1 text-xs" disabled={act.isPending}
-                  onClick={() => { if (window.confirm("Delete this note and its thread?")) act.mutate({ method: "DELETE" }); }} data-testid="pin-delete">
+                <button
+                  className="btn-danger py-1 text-xs"
+                  disabled={act.isPending}
+                  onClick={() => {
+                    if (window.confirm("Delete this note and its thread?")) act.mutate({ method: "DELETE" });
+                  }}
+                  data-testid="pin-delete"
+                >
                   Delete
                 </button>
               )}
             </div>
           )}
-          {pin.mine && !pin.can.edit && pin.can.delete && <p className="text-xs text-slate-500">Notes can be edited only in the first {editWindowMinutes} minutes; reply to add to it.</p>}
-          {error && <p className="field-error mt-0" role="alert" data-testid="pin-error">{error}</p>}
+          {pin.mine && !pin.can.edit && pin.can.delete && (
+            <p className="text-xs text-slate-500">Notes can be edited only in the first {editWindowMinutes} minutes; reply to add to it.</p>
+          )}
+          {error && (
+            <p className="field-error mt-0" role="alert" data-testid="pin-error">
+              {error}
+            </p>
+          )}
           <ol className="space-y-2">
             {pin.replies.map((reply) => (
               <ReplyItem key={reply.id} reply={reply} pinId={pin.id} editWindowMinutes={editWindowMinutes} onChanged={onChanged} />
@@ -366,7 +545,8 @@ function ReplyItem({ reply, pinId, editWindowMinutes, onChanged }: { reply: Repl
   const [draft, setDraft] = useState(reply.body);
   const [error, setError] = useState<string | null>(null);
   const act = useMutation({
-    mutationFn: (request: { method: "PATCH" | "DELETE"; json?: unknown }) => apiFetch(`/api/pins/${pinId}/replies/${reply.id}`, { method: request.method, json: request.json }),
+    mutationFn: (request: { method: "PATCH" | "DELETE"; json?: unknown }) =>
+      apiFetch(`/api/pins/${pinId}/replies/${reply.id}`, { method: request.method, json: request.json }),
     onMutate: () => setError(null),
     onError: (failure) => setError(errorText(failure)),
     onSuccess: () => setEditing(false),
@@ -381,23 +561,56 @@ function ReplyItem({ reply, pinId, editWindowMinutes, onChanged }: { reply: Repl
         <time dateTime={reply.createdAt}>{when(reply.createdAt)}</time>
         {reply.edited && <span>(edited)</span>}
         <span className="ml-auto flex gap-2">
-          {reply.can.edit && !editing && <button className="hover:text-slip-700" onClick={() => setEditing(true)} title={`Editable for ${left} more minutes (${editWindowMinutes} minutes after writing)`}>Edit</button>}
-          {reply.can.delete && <button className="hover:text-red-700" onClick={() => { if (window.confirm("Delete this reply?")) act.mutate({ method: "DELETE" }); }}>Delete</button>}
+          {reply.can.edit && !editing && (
+            <button
+              className="hover:text-slip-700"
+              onClick={() => setEditing(true)}
+              title={`Editable for ${left} more minutes (${editWindowMinutes} minutes after writing)`}
+            >
+              Edit
+            </button>
+          )}
+          {reply.can.delete && (
+            <button
+              className="hover:text-red-700"
+              onClick={() => {
+                if (window.confirm("Delete this reply?")) act.mutate({ method: "DELETE" });
+              }}
+            >
+              Delete
+            </button>
+          )}
         </span>
       </div>
       {editing ? (
-        <form className="mt-1 space-y-1" onSubmit={(event) => { event.preventDefault(); act.mutate({ method: "PATCH", json: { body: draft } }); }}>
+        <form
+          className="mt-1 space-y-1"
+          onSubmit={(event) => {
+            event.preventDefault();
+            act.mutate({ method: "PATCH", json: { body: draft } });
+          }}
+        >
           <textarea className="field min-h-[56px]" value={draft} onChange={(event) => setDraft(event.target.value)} maxLength={4000} aria-label="Edit reply" />
           <div className="flex gap-2 text-xs">
-            <button className="btn-primary py-1" disabled={act.isPending || draft.trim() === ""}>Save</button>
-            <button type="button" className="btn-quiet py-1" onClick={() => setEditing(false)}>Cancel</button>
+            <button className="btn-primary py-1" disabled={act.isPending || draft.trim() === ""}>
+              Save
+            </button>
+            <button type="button" className="btn-quiet py-1" onClick={() => setEditing(false)}>
+              Cancel
+            </button>
             <span className="self-center text-slate-500">{left} min left to edit</span>
           </div>
         </form>
       ) : (
-        <div className="mt-1"><PinText text={reply.body} /></div>
+        <div className="mt-1">
+          <PinText text={reply.body} />
+        </div>
       )}
-      {error && <p className="field-error mt-1" role="alert">{error}</p>}
+      {error && (
+        <p className="field-error mt-1" role="alert">
+          {error}
+        </p>
+      )}
     </li>
   );
 }
@@ -413,10 +626,20 @@ function ReplyBox({ pinId, faultId, mentionable, onChanged }: { pinId: string; f
       const previous = queryClient.getQueryData<PinList>(key);
       if (previous) {
         const optimistic: ReplyView = {
-          id: `pending-${Date.now()}`, author: { id: "me", name: "You" }, body: text, createdAt: new Date().toISOString(), edited: false, unread: false, mine: true,
-          editableUntil: new Date().toISOString(), can: { edit: false, delete: false },
+          id: `pending-${Date.now()}`,
+          author: { id: "me", name: "You" },
+          body: text,
+          createdAt: new Date().toISOString(),
+          edited: false,
+          unread: false,
+          mine: true,
+          editableUntil: new Date().toISOString(),
+          can: { edit: false, delete: false },
         };
-        queryClient.setQueryData<PinList>(key, { ...previous, pins: previous.pins.map((pin) => (pin.id === pinId ? { ...pin, replies: [...pin.replies, optimistic] } : pin)) });
+        queryClient.setQueryData<PinList>(key, {
+          ...previous,
+          pins: previous.pins.map((pin) => (pin.id === pinId ? { ...pin, replies: [...pin.replies, optimistic] } : pin)),
+        });
       }
       setBody("");
       return { previous, text };
@@ -428,11 +651,34 @@ function ReplyBox({ pinId, faultId, mentionable, onChanged }: { pinId: string; f
     onSettled: onChanged,
   });
   return (
-    <form className="space-y-1" onSubmit={(event) => { event.preventDefault(); if (body.trim()) send.mutate(body); }}>
-      <label className="sr-only" htmlFor={`reply-${pinId}`}>Reply</label>
-      <MentionTextarea id={`reply-${pinId}`} className="field min-h-[56px]" placeholder="Reply… (@ to mention)" value={body} onValueChange={setBody} mentionable={mentionable} maxLength={4000} data-testid="reply-input" />
-      {send.isError && <p className="field-error mt-0" role="alert" data-testid="reply-error">{errorText(send.error)}</p>}
-      <button className="btn-primary py-1.5" disabled={send.isPending || body.trim() === ""} data-testid="reply-send">{send.isPending ? "Sending…" : "Reply"}</button>
+    <form
+      className="space-y-1"
+      onSubmit={(event) => {
+        event.preventDefault();
+        if (body.trim()) send.mutate(body);
+      }}
+    >
+      <label className="sr-only" htmlFor={`reply-${pinId}`}>
+        Reply
+      </label>
+      <MentionTextarea
+        id={`reply-${pinId}`}
+        className="field min-h-[56px]"
+        placeholder="Reply… (@ to mention)"
+        value={body}
+        onValueChange={setBody}
+        mentionable={mentionable}
+        maxLength={4000}
+        data-testid="reply-input"
+      />
+      {send.isError && (
+        <p className="field-error mt-0" role="alert" data-testid="reply-error">
+          {errorText(send.error)}
+        </p>
+      )}
+      <button className="btn-primary py-1.5" disabled={send.isPending || body.trim() === ""} data-testid="reply-send">
+        {send.isPending ? "Sending…" : "Reply"}
+      </button>
     </form>
   );
 }

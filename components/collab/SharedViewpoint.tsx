@@ -11,7 +11,10 @@ import { PinText } from "./PinText";
 import { applySceneSettings, isBuiltInColourMode, useSceneSettings } from "@/scene/sceneSettingsStore";
 
 class DisplayError extends Error {
-  constructor(readonly status: number, message: string) {
+  constructor(
+    readonly status: number,
+    message: string,
+  ) {
     super(message);
   }
 }
@@ -50,20 +53,33 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
     <main className="mx-auto max-w-[1600px] px-4 py-5" data-testid="shared-viewpoint">
       <div className="mb-4">
         <p className="eyebrow">Shared view · read-only</p>
-        <h1 className="text-2xl font-semibold" data-testid="shared-fault-name">{data.fault.name}</h1>
-        <p className="text-sm text-slate-600 dark:text-slate-300" data-testid="shared-viewpoint-title">{data.viewpoint.title}</p>
-        {data.viewpoint.note && <p className="mt-1 max-w-3xl whitespace-pre-line text-sm text-slate-500" data-testid="shared-viewpoint-note">{data.viewpoint.note}</p>}
+        <h1 className="text-2xl font-semibold" data-testid="shared-fault-name">
+          {data.fault.name}
+        </h1>
+        <p className="text-sm text-slate-600 dark:text-slate-300" data-testid="shared-viewpoint-title">
+          {data.viewpoint.title}
+        </p>
+        {data.viewpoint.note && (
+          <p className="mt-1 max-w-3xl whitespace-pre-line text-sm text-slate-500" data-testid="shared-viewpoint-note">
+            {data.viewpoint.note}
+          </p>
+        )}
         {colourNote && <p className="mt-1 text-xs text-slate-500">{colourNote}</p>}
       </div>
       {!data.analysis ? (
-        <div className="card p-10 text-center text-sm text-slate-500" data-testid="shared-no-surface">This fault has no finished analysis to show yet.</div>
+        <div className="card p-10 text-center text-sm text-slate-500" data-testid="shared-no-surface">
+          This fault has no finished analysis to show yet.
+        </div>
       ) : (
         <div className="grid items-start gap-4 xl:grid-cols-[1fr_380px]">
           <div className="card overflow-hidden" data-testid="viewer-card">
             {display.data && settingsApplied ? (
               <FaultViewer display={display.data} pins={pins} initialCamera={data.viewpoint.camera} />
             ) : (
-              <div className="flex h-[600px] items-center justify-center px-6 text-center text-sm text-slate-500" data-testid={display.isError ? "shared-display-error" : undefined}>
+              <div
+                className="flex h-[600px] items-center justify-center px-6 text-center text-sm text-slate-500"
+                data-testid={display.isError ? "shared-display-error" : undefined}
+              >
                 {display.isError
                   ? display.error instanceof DisplayError && display.error.status === 410
                     ? `${display.error.message} Reload the page for details.`
@@ -73,7 +89,10 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
             )}
           </div>
           <aside className="card space-y-4 p-4" data-testid="shared-side">
-            <p className="text-xs text-slate-500">Pick set v{data.analysis.pickSetVersion}{data.link.expiresAt ? ` · this link expires ${new Date(data.link.expiresAt).toUTCString()}` : ""}</p>
+            <p className="text-xs text-slate-500">
+              Pick set v{data.analysis.pickSetVersion}
+              {data.link.expiresAt ? ` · this link expires ${new Date(data.link.expiresAt).toUTCString()}` : ""}
+            </p>
             <FaultSheet report={data.analysis.report} />
             {data.pins && (
               <section data-testid="shared-pins">
@@ -86,14 +105,18 @@ export function SharedViewpoint({ token, data }: { token: string; data: PublicVi
                       <li key={pin.id} className="rounded-md bg-slate-50 p-2 dark:bg-slate-800/60" data-testid="shared-pin">
                         <div className="mb-0.5 flex items-baseline justify-between gap-2 text-xs">
                           <span className={`font-medium ${pin.state === "resolved" ? "text-slate-400" : "text-slip-700 dark:text-slip-300"}`}>{pin.state}</span>
-                          <time className="text-slate-500" dateTime={pin.createdAt}>{new Date(pin.createdAt).toLocaleDateString()}</time>
+                          <time className="text-slate-500" dateTime={pin.createdAt}>
+                            {new Date(pin.createdAt).toLocaleDateString()}
+                          </time>
                         </div>
                         <PinText text={pin.body} />
                         {pin.replies.length > 0 && (
                           <ol className="mt-2 space-y-1.5 border-l-2 border-slate-200 pl-2 dark:border-slate-700" aria-label="Replies">
                             {pin.replies.map((reply, index) => (
                               <li key={index} data-testid="shared-reply">
-                                <time className="block text-[11px] text-slate-500" dateTime={reply.createdAt}>reply · {new Date(reply.createdAt).toLocaleDateString()}</time>
+                                <time className="block text-[11px] text-slate-500" dateTime={reply.createdAt}>
+                                  reply · {new Date(reply.createdAt).toLocaleDateString()}
+                                </time>
                                 <PinText text={reply.body} />
                               </li>
                             ))}

@@ -9,8 +9,6 @@ import { apiFetch, ApiRequestError } from "@/lib/api/client";
 import { copyCameraState, useCameraStore } from "@/scene/cameraStore";
 import { applySceneSettings, currentSceneSettings } from "@/scene/sceneSettingsStore";
 
-
-
 const EXPIRY_CHOICES: { value: string; label: string }[] = [
   { value: "1", label: "1 day" },
   { value: "7", label: "7 days" },
@@ -31,7 +29,9 @@ function errorText(error: unknown) {
 export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyRole }) {
   const canShare = roleAllows(role, "share");
   const [open, setOpen] = useState(false);
-  const [mode, setMode] = useState<{ kind: "list" } | { kind: "save" } | { kind: "edit"; viewpoint: Viewpoint } | { kind: "share"; viewpoint: Viewpoint }>({ kind: "list" });
+  const [mode, setMode] = useState<{ kind: "list" } | { kind: "save" } | { kind: "edit"; viewpoint: Viewpoint } | { kind: "share"; viewpoint: Viewpoint }>({
+    kind: "list",
+  });
   const [restoredId, setRestoredId] = useState<string | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const panel = useRef<HTMLDivElement>(null);
@@ -64,7 +64,9 @@ export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyR
     const { colourFellBack } = applySceneSettings(viewpoint.settings);
     useCameraStore.getState().applyCamera(viewpoint.camera);
     setRestoredId(viewpoint.id);
-    setNotice(colourFellBack ? `Restored “${viewpoint.title}”; its colouring (${viewpoint.settings.colourMode}) is not loaded, so displacement is shown.` : null);
+    setNotice(
+      colourFellBack ? `Restored “${viewpoint.title}”; its colouring (${viewpoint.settings.colourMode}) is not loaded, so displacement is shown.` : null,
+    );
   }
 
   return (
@@ -102,16 +104,32 @@ export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyR
                   </button>
                 )}
               </div>
-              {notice && <p className="mb-2 text-slate-500" data-testid="viewpoint-notice">{notice}</p>}
+              {notice && (
+                <p className="mb-2 text-slate-500" data-testid="viewpoint-notice">
+                  {notice}
+                </p>
+              )}
               {list.isError && <p className="text-red-700 dark:text-red-300">{errorText(list.error)}</p>}
               {remove.isError && <p className="mb-2 text-red-700 dark:text-red-300">{errorText(remove.error)}</p>}
               {list.isSuccess && viewpoints.length === 0 && (
-                <p className="text-slate-500">{canShare ? "No viewpoints yet. Move the camera, then save the view." : "No viewpoints saved for this fault yet."}</p>
+                <p className="text-slate-500">
+                  {canShare ? "No viewpoints yet. Move the camera, then save the view." : "No viewpoints saved for this fault yet."}
+                </p>
               )}
               <ul className="max-h-80 space-y-1 overflow-auto" data-testid="viewpoint-list">
                 {viewpoints.map((viewpoint) => (
-                  <li key={viewpoint.id} className={`rounded px-2 py-1.5 ${restoredId === viewpoint.id ? "bg-slip-50 dark:bg-slip-900/40" : "hover:bg-slate-50 dark:hover:bg-slate-800"}`} data-testid="viewpoint-item">
-                    <button type="button" className="block w-full text-left" title="Restore this view" onClick={() => restore(viewpoint)} data-testid="viewpoint-restore">
+                  <li
+                    key={viewpoint.id}
+                    className={`rounded px-2 py-1.5 ${restoredId === viewpoint.id ? "bg-slip-50 dark:bg-slip-900/40" : "hover:bg-slate-50 dark:hover:bg-slate-800"}`}
+                    data-testid="viewpoint-item"
+                  >
+                    <button
+                      type="button"
+                      className="block w-full text-left"
+                      title="Restore this view"
+                      onClick={() => restore(viewpoint)}
+                      data-testid="viewpoint-restore"
+                    >
                       <span className="font-medium">{viewpoint.title}</span>
                       {viewpoint.note && <span className="mt-0.5 line-clamp-2 block text-slate-500">{viewpoint.note}</span>}
                       <span className="mt-0.5 block text-[11px] text-slate-400">
@@ -120,12 +138,22 @@ export function ViewpointsBar({ faultId, role }: { faultId: string; role: StudyR
                     </button>
                     {canShare && (
                       <div className="mt-1 flex gap-2 text-[11px]">
-                        <button type="button" className="text-slip-700 hover:underline dark:text-slip-300" onClick={() => setMode({ kind: "share", viewpoint })} data-testid="viewpoint-share">
+                        <button
+                          type="button"
+                          className="text-slip-700 hover:underline dark:text-slip-300"
+                          onClick={() => setMode({ kind: "share", viewpoint })}
+                          data-testid="viewpoint-share"
+                        >
                           Share link
                         </button>
                         {viewpoint.canChange && (
                           <>
-                            <button type="button" className="text-slate-600 hover:underline dark:text-slate-300" onClick={() => setMode({ kind: "edit", viewpoint })} data-testid="viewpoint-edit">
+                            <button
+                              type="button"
+                              className="text-slate-600 hover:underline dark:text-slate-300"
+                              onClick={() => setMode({ kind: "edit", viewpoint })}
+                              data-testid="viewpoint-edit"
+                            >
                               Rename
                             </button>
                             <button
@@ -184,15 +212,36 @@ function SaveForm({ faultId, onDone }: { faultId: string; onDone: () => void }) 
       <p className="text-slate-500">Keeps the camera, the visible layers, the colouring and the relief.</p>
       <label className="block">
         <span className="text-slate-600 dark:text-slate-300">Title</span>
-        <input className="field mt-0.5 py-1 text-xs" value={title} maxLength={120} required autoFocus onChange={(event) => setTitle(event.target.value)} data-testid="viewpoint-title" />
+        <input
+          className="field mt-0.5 py-1 text-xs"
+          value={title}
+          maxLength={120}
+          required
+          autoFocus
+          onChange={(event) => setTitle(event.target.value)}
+          data-testid="viewpoint-title"
+        />
       </label>
       <label className="block">
         <span className="text-slate-600 dark:text-slate-300">Note (optional)</span>
-        <textarea className="field mt-0.5 py-1 text-xs" rows={3} value={note} maxLength={2000} onChange={(event) => setNote(event.target.value)} data-testid="viewpoint-note" />
+        <textarea
+          className="field mt-0.5 py-1 text-xs"
+          rows={3}
+          value={note}
+          maxLength={2000}
+          onChange={(event) => setNote(event.target.value)}
+          data-testid="viewpoint-note"
+        />
       </label>
-      {save.isError && <p className="text-red-700 dark:text-red-300" role="alert">{errorText(save.error)}</p>}
+      {save.isError && (
+        <p className="text-red-700 dark:text-red-300" role="alert">
+          {errorText(save.error)}
+        </p>
+      )}
       <div className="flex justify-end gap-2">
-        <button type="button" className="btn-quiet px-2 py-1 text-xs" onClick={onDone}>Cancel</button>
+        <button type="button" className="btn-quiet px-2 py-1 text-xs" onClick={onDone}>
+          Cancel
+        </button>
         <button type="submit" className="btn-primary px-2 py-1 text-xs" disabled={save.isPending || !title.trim()} data-testid="viewpoint-save">
           {save.isPending ? "Saving…" : "Save"}
         </button>
@@ -223,15 +272,36 @@ function EditForm({ viewpoint, faultId, onDone }: { viewpoint: Viewpoint; faultI
       <p className="font-semibold">Rename viewpoint</p>
       <label className="block">
         <span className="text-slate-600 dark:text-slate-300">Title</span>
-        <input className="field mt-0.5 py-1 text-xs" value={title} maxLength={120} required autoFocus onChange={(event) => setTitle(event.target.value)} data-testid="viewpoint-edit-title" />
+        <input
+          className="field mt-0.5 py-1 text-xs"
+          value={title}
+          maxLength={120}
+          required
+          autoFocus
+          onChange={(event) => setTitle(event.target.value)}
+          data-testid="viewpoint-edit-title"
+        />
       </label>
       <label className="block">
         <span className="text-slate-600 dark:text-slate-300">Note</span>
-        <textarea className="field mt-0.5 py-1 text-xs" rows={3} value={note} maxLength={2000} onChange={(event) => setNote(event.target.value)} data-testid="viewpoint-edit-note" />
+        <textarea
+          className="field mt-0.5 py-1 text-xs"
+          rows={3}
+          value={note}
+          maxLength={2000}
+          onChange={(event) => setNote(event.target.value)}
+          data-testid="viewpoint-edit-note"
+        />
       </label>
-      {update.isError && <p className="text-red-700 dark:text-red-300" role="alert">{errorText(update.error)}</p>}
+      {update.isError && (
+        <p className="text-red-700 dark:text-red-300" role="alert">
+          {errorText(update.error)}
+        </p>
+      )}
       <div className="flex justify-end gap-2">
-        <button type="button" className="btn-quiet px-2 py-1 text-xs" onClick={onDone}>Cancel</button>
+        <button type="button" className="btn-quiet px-2 py-1 text-xs" onClick={onDone}>
+          Cancel
+        </button>
         <button type="submit" className="btn-primary px-2 py-1 text-xs" disabled={update.isPending || !title.trim()} data-testid="viewpoint-edit-save">
           {update.isPending ? "Saving…" : "Save"}
         </button>
@@ -267,25 +337,41 @@ function SharePanel({ viewpoint, onBack }: { viewpoint: Viewpoint; onBack: () =>
     <div className="space-y-3" data-testid="share-panel">
       <div className="flex items-center justify-between">
         <span className="font-semibold">Share “{viewpoint.title}”</span>
-        <button type="button" className="text-slate-500 hover:underline" onClick={onBack}>Back</button>
+        <button type="button" className="text-slate-500 hover:underline" onClick={onBack}>
+          Back
+        </button>
       </div>
       <p className="text-slate-500">Anyone with the link sees this fault read-only, in this view, without signing in. Nothing else in the study is shown.</p>
       <div className="flex flex-wrap items-center gap-3">
         <label className="flex items-center gap-1.5">
           <span className="text-slate-600 dark:text-slate-300">Lasts</span>
           <select className="field w-auto py-0.5 text-xs" value={expiry} onChange={(event) => setExpiry(event.target.value)} data-testid="link-expiry">
-            {EXPIRY_CHOICES.map((choice) => <option key={choice.value} value={choice.value}>{choice.label}</option>)}
+            {EXPIRY_CHOICES.map((choice) => (
+              <option key={choice.value} value={choice.value}>
+                {choice.label}
+              </option>
+            ))}
           </select>
         </label>
         <label className="flex items-center gap-1.5">
           <input type="checkbox" checked={includePins} onChange={(event) => setIncludePins(event.target.checked)} data-testid="link-include-pins" />
           include pins
         </label>
-        <button type="button" className="btn-primary ml-auto px-2 py-1 text-xs" disabled={make.isPending} onClick={() => make.mutate()} data-testid="link-create">
+        <button
+          type="button"
+          className="btn-primary ml-auto px-2 py-1 text-xs"
+          disabled={make.isPending}
+          onClick={() => make.mutate()}
+          data-testid="link-create"
+        >
           {make.isPending ? "Making…" : "Make link"}
         </button>
       </div>
-      {make.isError && <p className="text-red-700 dark:text-red-300" role="alert">{errorText(make.error)}</p>}
+      {make.isError && (
+        <p className="text-red-700 dark:text-red-300" role="alert">
+          {errorText(make.error)}
+        </p>
+      )}
       {madeUrl && <CopyableUrl url={madeUrl} />}
       <div>
         <p className="mb-1 font-medium">Links of this viewpoint</p>
@@ -294,13 +380,30 @@ function SharePanel({ viewpoint, onBack }: { viewpoint: Viewpoint; onBack: () =>
         {links.isSuccess && links.data.links.length === 0 && <p className="text-slate-500">None yet.</p>}
         <ul className="max-h-40 space-y-1 overflow-auto" data-testid="link-list">
           {links.data?.links.map((link) => (
-            <li key={link.id} className="flex items-center justify-between gap-2 rounded bg-slate-50 px-2 py-1 dark:bg-slate-800/60" data-testid="link-item" data-state={link.state}>
+            <li
+              key={link.id}
+              className="flex items-center justify-between gap-2 rounded bg-slate-50 px-2 py-1 dark:bg-slate-800/60"
+              data-testid="link-item"
+              data-state={link.state}
+            >
               <span>
                 made {new Date(link.createdAt).toLocaleDateString()} · {link.includePins ? "with pins" : "no pins"} ·{" "}
-                {link.state === "revoked" ? "revoked" : link.state === "expired" ? "expired" : link.expiresAt ? `until ${new Date(link.expiresAt).toLocaleDateString()}` : "until revoked"}
+                {link.state === "revoked"
+                  ? "revoked"
+                  : link.state === "expired"
+                    ? "expired"
+                    : link.expiresAt
+                      ? `until ${new Date(link.expiresAt).toLocaleDateString()}`
+                      : "until revoked"}
               </span>
               {link.state === "active" && link.canRevoke && (
-                <button type="button" className="text-red-700 hover:underline dark:text-red-300" disabled={revoke.isPending} onClick={() => revoke.mutate(link.id)} data-testid="link-revoke">
+                <button
+                  type="button"
+                  className="text-red-700 hover:underline dark:text-red-300"
+                  disabled={revoke.isPending}
+                  onClick={() => revoke.mutate(link.id)}
+                  data-testid="link-revoke"
+                >
                   Revoke
                 </button>
               )}
@@ -331,11 +434,29 @@ function CopyableUrl({ url }: { url: string }) {
   return (
     <div className="rounded border border-slip-200 bg-slip-50 p-2 dark:border-slip-800 dark:bg-slip-900/30" data-testid="link-made">
       <div className="flex gap-1.5">
-        <input ref={input} readOnly className="field num flex-1 py-0.5 text-[11px]" value={url} onFocus={(event) => event.target.select()} data-testid="link-url" aria-label="Link address" />
-        <button type="button" className="btn-primary px-2 py-0.5 text-xs" onClick={copy} data-testid="link-copy">Copy</button>
+        <input
+          ref={input}
+          readOnly
+          className="field num flex-1 py-0.5 text-[11px]"
+          value={url}
+          onFocus={(event) => event.target.select()}
+          data-testid="link-url"
+          aria-label="Link address"
+        />
+        <button type="button" className="btn-primary px-2 py-0.5 text-xs" onClick={copy} data-testid="link-copy">
+          Copy
+        </button>
       </div>
-      {copied === "yes" && <p className="mt-1 text-slip-700 dark:text-slip-300" role="status">Copied to the clipboard.</p>}
-      {copied === "select" && <p className="mt-1 text-slate-600 dark:text-slate-300" role="status">The address is selected: press Ctrl+C (⌘C) to copy it.</p>}
+      {copied === "yes" && (
+        <p className="mt-1 text-slip-700 dark:text-slip-300" role="status">
+          Copied to the clipboard.
+        </p>
+      )}
+      {copied === "select" && (
+        <p className="mt-1 text-slate-600 dark:text-slate-300" role="status">
+          The address is selected: press Ctrl+C (⌘C) to copy it.
+        </p>
+      )}
     </div>
   );
 }

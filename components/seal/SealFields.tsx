@@ -19,7 +19,18 @@ export function SealFields({ studyId, faultId, pickSetId, display }: { studyId: 
     if (!display || !cutoffSet || !units?.some((unit) => unit.clayFraction !== null)) return [];
     const field = sgrField(display, cutoffSet.summary, units);
     if (field.computed === 0) return [];
-    return [{ key: SGR_FIELD_KEY, label: "Shale gouge ratio", unit: "%", bySegment: field.bySegment, range: field.range, reversed: true, guide: { value: SGR_GUIDE_PERCENT, label: "~20 % guide (Yielding et al. 1997)" }, note: SGR_NOTE }];
+    return [
+      {
+        key: SGR_FIELD_KEY,
+        label: "Shale gouge ratio",
+        unit: "%",
+        bySegment: field.bySegment,
+        range: field.range,
+        reversed: true,
+        guide: { value: SGR_GUIDE_PERCENT, label: "~20 % guide (Yielding et al. 1997)" },
+        note: SGR_NOTE,
+      },
+    ];
   }, [display, cutoffSet, units]);
   useEffect(() => {
     setFields("seal:", fields);

@@ -16,7 +16,8 @@ interface Row {
   clay: string;
 }
 
-const toRows = (units: StratigraphyUnit[]): Row[] => units.map((unit) => ({ name: unit.name, topHorizon: unit.topHorizon, kind: unit.kind, clay: unit.clayFraction === null ? "" : String(unit.clayFraction) }));
+const toRows = (units: StratigraphyUnit[]): Row[] =>
+  units.map((unit) => ({ name: unit.name, topHorizon: unit.topHorizon, kind: unit.kind, clay: unit.clayFraction === null ? "" : String(unit.clayFraction) }));
 
 export function StratigraphyEditor({ studyId, table, horizons, canEdit }: { studyId: string; table: StratigraphyView; horizons: string[]; canEdit: boolean }) {
   const queryClient = useQueryClient();
@@ -38,13 +39,20 @@ export function StratigraphyEditor({ studyId, table, horizons, canEdit }: { stud
 
   function start() {
     // a first table: one unit below each horizon of the cut-offs, to be named and marked
-    setRows(table.units.length ? toRows(table.units) : horizons.map((horizon) => ({ name: `Unit below ${horizon}`, topHorizon: horizon, kind: "other", clay: "" })));
+    setRows(
+      table.units.length ? toRows(table.units) : horizons.map((horizon) => ({ name: `Unit below ${horizon}`, topHorizon: horizon, kind: "other", clay: "" })),
+    );
     setProblems([]);
     setEditing(true);
   }
 
   function submit() {
-    const units = rows.map((row) => ({ name: row.name, topHorizon: row.topHorizon, kind: row.kind, clayFraction: row.clay.trim() === "" ? null : Number(row.clay) }));
+    const units = rows.map((row) => ({
+      name: row.name,
+      topHorizon: row.topHorizon,
+      kind: row.kind,
+      clayFraction: row.clay.trim() === "" ? null : Number(row.clay),
+    }));
     const checked = stratigraphySchema.safeParse({ units });
     if (!checked.success) {
       setProblems(checked.error.issues.map((issue) => (issue.path.length > 2 ? `Unit ${Number(issue.path[1]) + 1}: ${issue.message}` : issue.message)));
@@ -71,13 +79,21 @@ export function StratigraphyEditor({ studyId, table, horizons, canEdit }: { stud
           {table.version > 0 ? `version ${table.version}${table.updatedBy ? `, set by ${table.updatedBy.name}` : ""}` : "not set yet"}
         </span>
       </div>
-      <p className="text-xs text-slate-500">Units from top to bottom; each reaches from the horizon at its top down to the next unit&apos;s top. The clay (shale) fraction, 0 to 1, feeds the shale gouge ratio.</p>
+      <p className="text-xs text-slate-500">
+        Units from top to bottom; each reaches from the horizon at its top down to the next unit&apos;s top. The clay (shale) fraction, 0 to 1, feeds the shale
+        gouge ratio.
+      </p>
       {!editing ? (
         <>
           {table.units.length > 0 ? (
             <table className="w-full text-xs" data-testid="stratigraphy-table">
               <thead className="text-left text-slate-500">
-                <tr><th className="py-1 font-medium">Unit</th><th className="py-1 font-medium">Top horizon</th><th className="py-1 font-medium">Kind</th><th className="py-1 text-right font-medium">Clay fraction</th></tr>
+                <tr>
+                  <th className="py-1 font-medium">Unit</th>
+                  <th className="py-1 font-medium">Top horizon</th>
+                  <th className="py-1 font-medium">Kind</th>
+                  <th className="py-1 text-right font-medium">Clay fraction</th>
+                </tr>
               </thead>
               <tbody>
                 {table.units.map((unit) => (
@@ -91,7 +107,9 @@ export function StratigraphyEditor({ studyId, table, horizons, canEdit }: { stud
               </tbody>
             </table>
           ) : (
-            <p className="text-xs text-slate-500" data-testid="stratigraphy-empty">No units yet: the diagram shows the horizon traces only.</p>
+            <p className="text-xs text-slate-500" data-testid="stratigraphy-empty">
+              No units yet: the diagram shows the horizon traces only.
+            </p>
           )}
           {canEdit && (
             <button type="button" className="btn-quiet px-2 py-1 text-xs" onClick={start} data-testid="stratigraphy-edit">
@@ -107,40 +125,118 @@ export function StratigraphyEditor({ studyId, table, horizons, canEdit }: { stud
             submit();
           }}
         >
-          <datalist id="stratigraphy-horizons">{horizons.map((horizon) => <option key={horizon} value={horizon} />)}</datalist>
+          <datalist id="stratigraphy-horizons">
+            {horizons.map((horizon) => (
+              <option key={horizon} value={horizon} />
+            ))}
+          </datalist>
           <table className="w-full text-xs">
             <thead className="text-left text-slate-500">
-              <tr><th className="py-1 font-medium">Unit</th><th className="py-1 font-medium">Top horizon</th><th className="py-1 font-medium">Kind</th><th className="py-1 font-medium">Clay fraction</th><th /></tr>
+              <tr>
+                <th className="py-1 font-medium">Unit</th>
+                <th className="py-1 font-medium">Top horizon</th>
+                <th className="py-1 font-medium">Kind</th>
+                <th className="py-1 font-medium">Clay fraction</th>
+                <th />
+              </tr>
             </thead>
             <tbody>
               {rows.map((row, index) => (
                 <tr key={index} className="border-t border-slate-100 align-top dark:border-slate-800" data-testid="stratigraphy-row">
-                  <td className="py-1 pr-1"><input className="field py-0.5 text-xs" aria-label={`Unit ${index + 1} name`} value={row.name} onChange={(event) => update(index, { name: event.target.value })} /></td>
-                  <td className="py-1 pr-1"><input className="field py-0.5 text-xs" aria-label={`Unit ${index + 1} top horizon`} list="stratigraphy-horizons" value={row.topHorizon} onChange={(event) => update(index, { topHorizon: event.target.value })} /></td>
                   <td className="py-1 pr-1">
-                    <select className="field py-0.5 text-xs" aria-label={`Unit ${index + 1} kind`} value={row.kind} onChange={(event) => update(index, { kind: event.target.value as UnitKind })}>
-                      {UNIT_KINDS.map((kind) => <option key={kind} value={kind}>{kind}</option>)}
+                    <input
+                      className="field py-0.5 text-xs"
+                      aria-label={`Unit ${index + 1} name`}
+                      value={row.name}
+                      onChange={(event) => update(index, { name: event.target.value })}
+                    />
+                  </td>
+                  <td className="py-1 pr-1">
+                    <input
+                      className="field py-0.5 text-xs"
+                      aria-label={`Unit ${index + 1} top horizon`}
+                      list="stratigraphy-horizons"
+                      value={row.topHorizon}
+                      onChange={(event) => update(index, { topHorizon: event.target.value })}
+                    />
+                  </td>
+                  <td className="py-1 pr-1">
+                    <select
+                      className="field py-0.5 text-xs"
+                      aria-label={`Unit ${index + 1} kind`}
+                      value={row.kind}
+                      onChange={(event) => update(index, { kind: event.target.value as UnitKind })}
+                    >
+                      {UNIT_KINDS.map((kind) => (
+                        <option key={kind} value={kind}>
+                          {kind}
+                        </option>
+                      ))}
                     </select>
                   </td>
-                  <td className="py-1 pr-1"><input className="field w-20 py-0.5 text-xs" inputMode="decimal" aria-label={`Unit ${index + 1} clay fraction`} placeholder="unknown" value={row.clay} onChange={(event) => update(index, { clay: event.target.value })} /></td>
+                  <td className="py-1 pr-1">
+                    <input
+                      className="field w-20 py-0.5 text-xs"
+                      inputMode="decimal"
+                      aria-label={`Unit ${index + 1} clay fraction`}
+                      placeholder="unknown"
+                      value={row.clay}
+                      onChange={(event) => update(index, { clay: event.target.value })}
+                    />
+                  </td>
                   <td className="whitespace-nowrap py-1">
-                    <button type="button" className="px-1 text-slate-500 hover:text-slate-900 disabled:opacity-30" aria-label="Move up" disabled={index === 0} onClick={() => move(index, -1)}>↑</button>
-                    <button type="button" className="px-1 text-slate-500 hover:text-slate-900 disabled:opacity-30" aria-label="Move down" disabled={index === rows.length - 1} onClick={() => move(index, 1)}>↓</button>
-                    <button type="button" className="px-1 text-slate-500 hover:text-red-700" aria-label="Remove unit" onClick={() => setRows((current) => current.filter((_, i) => i !== index))}>×</button>
+                    <button
+                      type="button"
+                      className="px-1 text-slate-500 hover:text-slate-900 disabled:opacity-30"
+                      aria-label="Move up"
+                      disabled={index === 0}
+                      onClick={() => move(index, -1)}
+                    >
+                      ↑
+                    </button>
+                    <button
+                      type="button"
+                      className="px-1 text-slate-500 hover:text-slate-900 disabled:opacity-30"
+                      aria-label="Move down"
+                      disabled={index === rows.length - 1}
+                      onClick={() => move(index, 1)}
+                    >
+                      ↓
+                    </button>
+                    <button
+                      type="button"
+                      className="px-1 text-slate-500 hover:text-red-700"
+                      aria-label="Remove unit"
+                      onClick={() => setRows((current) => current.filter((_, i) => i !== index))}
+                    >
+                      ×
+                    </button>
                   </td>
                 </tr>
               ))}
             </tbody>
           </table>
-          <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setRows((current) => [...current, { name: "", topHorizon: "", kind: "other", clay: "" }])}>Add a unit</button>
+          <button
+            type="button"
+            className="btn-quiet px-2 py-0.5 text-xs"
+            onClick={() => setRows((current) => [...current, { name: "", topHorizon: "", kind: "other", clay: "" }])}
+          >
+            Add a unit
+          </button>
           {problems.length > 0 && (
             <ul className="list-disc pl-5 text-xs text-red-700 dark:text-red-300" data-testid="stratigraphy-problems">
-              {problems.map((problem) => <li key={problem}>{problem}</li>)}
+              {problems.map((problem) => (
+                <li key={problem}>{problem}</li>
+              ))}
             </ul>
           )}
           <div className="flex gap-2">
-            <button type="submit" className="btn-primary py-1 text-xs" disabled={save.isPending} data-testid="stratigraphy-save">{save.isPending ? "Saving…" : "Save the table"}</button>
-            <button type="button" className="btn-quiet py-1 text-xs" onClick={() => setEditing(false)}>Cancel</button>
+            <button type="submit" className="btn-primary py-1 text-xs" disabled={save.isPending} data-testid="stratigraphy-save">
+              {save.isPending ? "Saving…" : "Save the table"}
+            </button>
+            <button type="button" className="btn-quiet py-1 text-xs" onClick={() => setEditing(false)}>
+              Cancel
+            </button>
           </div>
         </form>
       )}

@@ -35,7 +35,8 @@ export const stratigraphyKey = (studyId: string) => ["stratigraphy", studyId];
 export function useCutoffSet(faultId: string, pickSetId: string | undefined) {
   return useQuery({
     queryKey: ["cutoff-set", faultId, pickSetId ?? "newest"],
-    queryFn: () => apiFetch<{ cutoffSet: CutoffSetView | null }>(`/api/faults/${faultId}/cutoffs${pickSetId ? `?pickSet=${encodeURIComponent(pickSetId)}` : ""}`),
+    queryFn: () =>
+      apiFetch<{ cutoffSet: CutoffSetView | null }>(`/api/faults/${faultId}/cutoffs${pickSetId ? `?pickSet=${encodeURIComponent(pickSetId)}` : ""}`),
     staleTime: 60_000,
   });
 }

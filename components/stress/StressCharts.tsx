@@ -7,7 +7,17 @@ import { X_AXIS_ROOM, X_LABEL_BELOW } from "@/components/analysis-views/PlotChar
 const COLOURS = { low: "#c2410c", high: "#247a75", guide: "#94a3b8", circle: "#7c3aed" };
 
 /** Builds an Observable Plot figure into a div and replaces it when its inputs or the width change. */
-function PlotHolder({ build, deps, testId, points }: { build: (width: number) => SVGSVGElement | HTMLElement; deps: unknown[]; testId: string; points: number }) {
+function PlotHolder({
+  build,
+  deps,
+  testId,
+  points,
+}: {
+  build: (width: number) => SVGSVGElement | HTMLElement;
+  deps: unknown[];
+  testId: string;
+  points: number;
+}) {
   const { holder, error } = usePlotFigure(build, deps, { minWidth: 280 });
   return (
     <div data-testid={testId} data-points={points}>
@@ -24,8 +34,23 @@ export interface HistogramData {
 }
 
 /** Area-weighted histogram of ΔP to failure, both ends of the friction band, with the thresholds marked. */
-export function PressureHistogram({ histogram, parameters, thresholdsMPa, height = 220 }: { histogram: HistogramData; parameters: StressParameters; thresholdsMPa: number[]; height?: number }) {
-  const bins = histogram.fractionLow.map((_, i) => ({ x1: histogram.edgesMPa[i], x2: histogram.edgesMPa[i + 1], low: 100 * histogram.fractionLow[i], high: 100 * histogram.fractionHigh[i] }));
+export function PressureHistogram({
+  histogram,
+  parameters,
+  thresholdsMPa,
+  height = 220,
+}: {
+  histogram: HistogramData;
+  parameters: StressParameters;
+  thresholdsMPa: number[];
+  height?: number;
+}) {
+  const bins = histogram.fractionLow.map((_, i) => ({
+    x1: histogram.edgesMPa[i],
+    x2: histogram.edgesMPa[i + 1],
+    low: 100 * histogram.fractionLow[i],
+    high: 100 * histogram.fractionHigh[i],
+  }));
   const lowLabel = `μ = ${parameters.frictionLow}`;
   const highLabel = `μ = ${parameters.frictionHigh}`;
   return (
@@ -67,7 +92,12 @@ export interface MohrData {
  * σn′–τ plot: every screened triangle a point (deterministic subsample above 20 000), Coulomb envelopes τ = C + μσn′
  * for both ends of the friction band, and the three Mohr circles of the effective stresses at the reference depth.
  */
-export function MohrPlot({ mohr, parameters, reference, height = 300 }: {
+export function MohrPlot({
+  mohr,
+  parameters,
+  reference,
+  height = 300,
+}: {
   mohr: MohrData;
   parameters: StressParameters;
   reference: { sigma1MPa: number; sigma2MPa: number; sigma3MPa: number; porePressureMPa: number; depthM: number };
@@ -77,14 +107,20 @@ export function MohrPlot({ mohr, parameters, reference, height = 300 }: {
   const s1 = reference.sigma1MPa - reference.porePressureMPa;
   const s2 = reference.sigma2MPa - reference.porePressureMPa;
   const s3 = reference.sigma3MPa - reference.porePressureMPa;
-  let xMin = 0, xMaxData = s1, yMaxData = (s1 - s3) / 2;
+  let xMin = 0,
+    xMaxData = s1,
+    yMaxData = (s1 - s3) / 2;
   for (let i = 0; i < points.length; i++) {
     xMin = Math.min(xMin, points[i].x);
     xMaxData = Math.max(xMaxData, points[i].x);
     yMaxData = Math.max(yMaxData, points[i].y);
   }
   const xMax = xMaxData * 1.05 || 1;
-  const circles = [[s3, s1], [s3, s2], [s2, s1]].flatMap(([a, b], k) =>
+  const circles = [
+    [s3, s1],
+    [s3, s2],
+    [s2, s1],
+  ].flatMap(([a, b], k) =>
     Array.from({ length: 73 }, (_, j) => {
       const angle = (Math.PI * j) / 72;
       return { circle: k, x: (a + b) / 2 + ((b - a) / 2) * Math.cos(angle), y: ((b - a) / 2) * Math.sin(angle) };

@@ -41,8 +41,29 @@ export function StressForm(props: {
     // a preset replaces the gradients only; azimuth, friction, cohesion and depth keep what the user typed
     setParameters((current) => {
       if (regime === "custom") return { ...current, regime };
-      const preset = applyPreset({ regime, verticalGradient: 0, maxHorizontalGradient: 0, minHorizontalGradient: 0, porePressureGradient: 0, maxHorizontalAzimuthDeg: 0, frictionLow: 0, frictionHigh: 0, cohesionMPa: 0, referenceDepthM: 0 }, regime);
-      return { ...current, regime, verticalGradient: String(preset.verticalGradient), maxHorizontalGradient: String(preset.maxHorizontalGradient), minHorizontalGradient: String(preset.minHorizontalGradient), porePressureGradient: String(preset.porePressureGradient) };
+      const preset = applyPreset(
+        {
+          regime,
+          verticalGradient: 0,
+          maxHorizontalGradient: 0,
+          minHorizontalGradient: 0,
+          porePressureGradient: 0,
+          maxHorizontalAzimuthDeg: 0,
+          frictionLow: 0,
+          frictionHigh: 0,
+          cohesionMPa: 0,
+          referenceDepthM: 0,
+        },
+        regime,
+      );
+      return {
+        ...current,
+        regime,
+        verticalGradient: String(preset.verticalGradient),
+        maxHorizontalGradient: String(preset.maxHorizontalGradient),
+        minHorizontalGradient: String(preset.minHorizontalGradient),
+        porePressureGradient: String(preset.porePressureGradient),
+      };
     });
   }
 
@@ -71,10 +92,16 @@ export function StressForm(props: {
         Regime (Andersonian preset, editable)
         <select className="field mt-1" value={parameters.regime} onChange={(e) => choose(e.target.value as StressRegime)} data-testid="stress-regime">
           {(Object.keys(REGIME_LABELS) as StressRegime[]).map((regime) => (
-            <option key={regime} value={regime}>{REGIME_LABELS[regime]}</option>
+            <option key={regime} value={regime}>
+              {REGIME_LABELS[regime]}
+            </option>
           ))}
         </select>
-        {errors.regime?.map((m) => <span key={m} className="field-error block">{m}</span>)}
+        {errors.regime?.map((m) => (
+          <span key={m} className="field-error block">
+            {m}
+          </span>
+        ))}
       </label>
       <div className="grid grid-cols-2 gap-x-3 gap-y-2">
         {FIELDS.map((field) => (
@@ -90,13 +117,25 @@ export function StressForm(props: {
               data-testid={`stress-${field.key}`}
             />
             {field.hint && !errors[field.key] && <span className="block font-normal text-slate-500">{field.hint}</span>}
-            {errors[field.key]?.map((m) => <span key={m} className="field-error block">{m}</span>)}
+            {errors[field.key]?.map((m) => (
+              <span key={m} className="field-error block">
+                {m}
+              </span>
+            ))}
           </label>
         ))}
       </div>
       <label className="block text-xs font-medium">
         Source of the numbers
-        <textarea className="field mt-1" rows={2} maxLength={2000} placeholder="e.g. leak-off tests and image logs, well QG-A" value={source} onChange={(e) => setSource(e.target.value)} data-testid="stress-source" />
+        <textarea
+          className="field mt-1"
+          rows={2}
+          maxLength={2000}
+          placeholder="e.g. leak-off tests and image logs, well QG-A"
+          value={source}
+          onChange={(e) => setSource(e.target.value)}
+          data-testid="stress-source"
+        />
       </label>
       <label className="flex items-center gap-2 text-xs">
         <input type="checkbox" checked={studyWide} onChange={(e) => setStudyWide(e.target.checked)} data-testid="stress-study-wide" />
@@ -105,14 +144,22 @@ export function StressForm(props: {
       {server && (
         <div className="field-error" role="alert">
           {server.message}
-          {serverMessages.map((m) => <span key={m} className="block">{m}</span>)}
+          {serverMessages.map((m) => (
+            <span key={m} className="block">
+              {m}
+            </span>
+          ))}
         </div>
       )}
       <div className="flex gap-2">
         <button type="submit" className="btn-primary" disabled={props.saving} data-testid="stress-save">
           {props.saving ? "Saving…" : "Save stress state"}
         </button>
-        {props.onCancel && <button type="button" className="btn-quiet" onClick={props.onCancel}>Cancel</button>}
+        {props.onCancel && (
+          <button type="button" className="btn-quiet" onClick={props.onCancel}>
+            Cancel
+          </button>
+        )}
       </div>
     </form>
   );

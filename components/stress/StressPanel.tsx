@@ -36,7 +36,18 @@ const fmt = (value: number | null | undefined, digits = 1) => (value === null ||
 const pct = (fraction: number) => (Number.isFinite(fraction) ? `${(fraction * 100).toFixed(1)} %` : "—");
 
 /** The reactivation screen: stress state (form, versions), results, charts, 3D colour modes, exports, caution. */
-export function StressPanel({ faultId, role, display, analysisId }: { studyId: string; faultId: string; role: StudyRole; display: FaultDisplay | null; analysisId: string }) {
+export function StressPanel({
+  faultId,
+  role,
+  display,
+  analysisId,
+}: {
+  studyId: string;
+  faultId: string;
+  role: StudyRole;
+  display: FaultDisplay | null;
+  analysisId: string;
+}) {
   const queryClient = useQueryClient();
   const canEdit = roleAllows(role, "edit");
   const [editing, setEditing] = useState(false);
@@ -70,7 +81,10 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
   const setColourMode = useSceneSettings((s) => s.setColourMode);
   const colourMode = useSceneSettings((s) => s.colourMode);
   const fields = useMemo(
-    () => (result.data && display ? stressFields(result.data, { low: result.data.state.parameters.frictionLow, high: result.data.state.parameters.frictionHigh }) : null),
+    () =>
+      result.data && display
+        ? stressFields(result.data, { low: result.data.state.parameters.frictionLow, high: result.data.state.parameters.frictionHigh })
+        : null,
     [result.data, display],
   );
   useEffect(() => {
@@ -97,11 +111,20 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
           )}
         </div>
         {showForm ? (
-          <StressForm key={current?.id ?? "new"} initial={initial} saving={save.isPending} serverError={save.error} onSubmit={(value) => save.mutate(value)} onCancel={current ? () => setEditing(false) : undefined} />
+          <StressForm
+            key={current?.id ?? "new"}
+            initial={initial}
+            saving={save.isPending}
+            serverError={save.error}
+            onSubmit={(value) => save.mutate(value)}
+            onCancel={current ? () => setEditing(false) : undefined}
+          />
         ) : current ? (
           <StateSummary state={current} />
         ) : (
-          <p className="text-slate-500" data-testid="stress-none">No stress state has been set for this fault or its study yet. An owner or interpreter can enter one.</p>
+          <p className="text-slate-500" data-testid="stress-none">
+            No stress state has been set for this fault or its study yet. An owner or interpreter can enter one.
+          </p>
         )}
       </section>
 
@@ -110,7 +133,11 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
           <h3 className="font-semibold">Screening result</h3>
           <StressCaution />
           {result.isPending && <p className="text-slate-500">Screening the fault surface…</p>}
-          {result.isError && <p className="text-red-700 dark:text-red-300" role="alert">{result.error.message}</p>}
+          {result.isError && (
+            <p className="text-red-700 dark:text-red-300" role="alert">
+              {result.error.message}
+            </p>
+          )}
           {result.data && (
             <ResultBody
               data={result.data}
@@ -138,12 +165,21 @@ export function StressPanel({ faultId, role, display, analysisId }: { studyId: s
 /** Always visible beside the results: what the screen is, and what it cannot see. */
 function StressCaution() {
   return (
-    <aside className="rounded-lg border border-tip-400/60 bg-amber-50 px-3 py-2.5 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100" data-testid="stress-caution">
+    <aside
+      className="rounded-lg border border-tip-400/60 bg-amber-50 px-3 py-2.5 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100"
+      data-testid="stress-caution"
+    >
       <p>
-        <strong className="font-semibold">Screening only.</strong> Slip tendency, dilation tendency and ΔP to failure here come from a generic stress state you enter and the interpreted fault surface. They are not a probability of an earthquake and not a site-specific engineering, safety or regulatory assessment. Decisions on injection, CO2 storage, geothermal operations or drilling need site-specific stress and pore-pressure data, geomechanical modelling, monitoring plans, compliance with local regulation and permits, and review by qualified, where required licensed, professionals.
+        <strong className="font-semibold">Screening only.</strong> Slip tendency, dilation tendency and ΔP to failure here come from a generic stress state you
+        enter and the interpreted fault surface. They are not a probability of an earthquake and not a site-specific engineering, safety or regulatory
+        assessment. Decisions on injection, CO2 storage, geothermal operations or drilling need site-specific stress and pore-pressure data, geomechanical
+        modelling, monitoring plans, compliance with local regulation and permits, and review by qualified, where required licensed, professionals.
       </p>
       <p className="mt-1.5" data-testid="stress-blind-spots">
-        <strong className="font-semibold">What this screen cannot see:</strong> orientation below the smoothing length (bends, steps and roughness smaller than it are averaged away, and pick noise at that scale is what the orientation range measures, not removes); uncertainty in the stress state and pore pressure (they are taken as exact; only friction is given as a band); and faults that are not mapped — smaller faults below seismic resolution and parts beyond the picks may be better oriented for slip than this surface.
+        <strong className="font-semibold">What this screen cannot see:</strong> orientation below the smoothing length (bends, steps and roughness smaller than
+        it are averaged away, and pick noise at that scale is what the orientation range measures, not removes); uncertainty in the stress state and pore
+        pressure (they are taken as exact; only friction is given as a band); and faults that are not mapped — smaller faults below seismic resolution and parts
+        beyond the picks may be better oriented for slip than this surface.
       </p>
     </aside>
   );
@@ -164,7 +200,8 @@ function StateSummary({ state }: { state: StressStateView }) {
   return (
     <div data-testid="stress-state">
       <p className="mb-1 text-xs text-slate-500">
-        {state.scope === "study" ? "Study-wide default" : "This fault"}, version {state.version}, set by {state.setBy?.name || state.setBy?.email || "a former member"} on {new Date(state.createdAt).toLocaleString()}
+        {state.scope === "study" ? "Study-wide default" : "This fault"}, version {state.version}, set by{" "}
+        {state.setBy?.name || state.setBy?.email || "a former member"} on {new Date(state.createdAt).toLocaleString()}
       </p>
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-xs">
         {rows.map(([k, v]) => (
@@ -205,11 +242,17 @@ function ResultBody(props: {
     <>
       <figure>
         <figcaption className="text-xs font-medium">ΔP to failure over the fault area (area-weighted; dashed: thresholds)</figcaption>
-        <PressureHistogram histogram={summary.histogram} parameters={p} thresholdsMPa={summary.thresholds.map((t) => t.thresholdMPa)} height={enlarged ? 320 : 220} />
+        <PressureHistogram
+          histogram={summary.histogram}
+          parameters={p}
+          thresholdsMPa={summary.thresholds.map((t) => t.thresholdMPa)}
+          height={enlarged ? 320 : 220}
+        />
       </figure>
       <figure>
         <figcaption className="text-xs font-medium">
-          Mohr plot: {props.data.mohr.effectiveNormalMPa.length.toLocaleString()} of {props.data.mohr.total.toLocaleString()} triangles, Coulomb envelopes for μ {p.frictionLow} and {p.frictionHigh}, Mohr circles at {summary.reference.depthM} m
+          Mohr plot: {props.data.mohr.effectiveNormalMPa.length.toLocaleString()} of {props.data.mohr.total.toLocaleString()} triangles, Coulomb envelopes for μ{" "}
+          {p.frictionLow} and {p.frictionHigh}, Mohr circles at {summary.reference.depthM} m
         </figcaption>
         <MohrPlot mohr={props.data.mohr} parameters={p} reference={summary.reference} height={enlarged ? 440 : 300} />
       </figure>
@@ -218,31 +261,54 @@ function ResultBody(props: {
   return (
     <>
       <LengthScaleControl key={orientation.lengthScaleM} orientation={orientation} refreshing={props.refreshing} onLength={props.onLength} />
-      <p data-testid="stress-summary" className="leading-relaxed">{summary.sentence}</p>
+      <p data-testid="stress-summary" className="leading-relaxed">
+        {summary.sentence}
+      </p>
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-xs" data-testid="stress-figures">
         <dt className="text-slate-500">Minimum ΔP to failure</dt>
         <dd className="font-mono" data-testid="stress-min-dp">
-          {fmt(dp.critical, 2)} MPa at the more critical μ ({fmt(dp.criticalRange[0], 2)} to {fmt(dp.criticalRange[1], 2)} MPa within the orientation range); {fmt(dp.low, 2)} MPa at μ {p.frictionLow}, {fmt(dp.high, 2)} MPa at μ {p.frictionHigh}
+          {fmt(dp.critical, 2)} MPa at the more critical μ ({fmt(dp.criticalRange[0], 2)} to {fmt(dp.criticalRange[1], 2)} MPa within the orientation range);{" "}
+          {fmt(dp.low, 2)} MPa at μ {p.frictionLow}, {fmt(dp.high, 2)} MPa at μ {p.frictionHigh}
         </dd>
         {summary.thresholds.map((t) => (
           <div key={t.thresholdMPa} className="contents">
             <dt className="text-slate-500">Area with ΔP &lt; {t.thresholdMPa} MPa</dt>
-            <dd className="font-mono">{pct(t.fractionBothEnds)} (both μ) – {pct(t.fractionCritical)} (more critical μ)</dd>
+            <dd className="font-mono">
+              {pct(t.fractionBothEnds)} (both μ) – {pct(t.fractionCritical)} (more critical μ)
+            </dd>
           </div>
         ))}
         <dt className="text-slate-500">Max. slip tendency τ/σn′</dt>
-        <dd className="font-mono">{fmt(summary.slipTendency.max, 3)}, up to {fmt(summary.slipTendency.maxWithinOrientationRange, 3)} within the orientation range (any plane at {summary.reference.depthM} m: ≤ {fmt(summary.reference.maxPossibleSlipTendency, 3)})</dd>
+        <dd className="font-mono">
+          {fmt(summary.slipTendency.max, 3)}, up to {fmt(summary.slipTendency.maxWithinOrientationRange, 3)} within the orientation range (any plane at{" "}
+          {summary.reference.depthM} m: ≤ {fmt(summary.reference.maxPossibleSlipTendency, 3)})
+        </dd>
         <dt className="text-slate-500">Max. dilation tendency</dt>
         <dd className="font-mono">{fmt(summary.dilationTendency.max, 3)}</dd>
         <dt className="text-slate-500">Orientation range</dt>
-        <dd className="font-mono" data-testid="stress-orientation-range">±{fmt(summary.orientation.medianUncertaintyDeg, 2)}° (median; {orientation.rangeStandardErrors} standard errors); unsmoothed slopes scatter {fmt(summary.orientation.medianSlopeScatterDeg, 1)}° within a window</dd>
+        <dd className="font-mono" data-testid="stress-orientation-range">
+          ±{fmt(summary.orientation.medianUncertaintyDeg, 2)}° (median; {orientation.rangeStandardErrors} standard errors); unsmoothed slopes scatter{" "}
+          {fmt(summary.orientation.medianSlopeScatterDeg, 1)}° within a window
+        </dd>
         <dt className="text-slate-500">At {summary.reference.depthM} m</dt>
-        <dd className="font-mono">σ1 {fmt(summary.reference.sigma1MPa)}, σ2 {fmt(summary.reference.sigma2MPa)}, σ3 {fmt(summary.reference.sigma3MPa)}, Pp {fmt(summary.reference.porePressureMPa)} MPa</dd>
+        <dd className="font-mono">
+          σ1 {fmt(summary.reference.sigma1MPa)}, σ2 {fmt(summary.reference.sigma2MPa)}, σ3 {fmt(summary.reference.sigma3MPa)}, Pp{" "}
+          {fmt(summary.reference.porePressureMPa)} MPa
+        </dd>
         <dt className="text-slate-500">Triangles</dt>
-        <dd className="font-mono">{summary.triangleCount.toLocaleString()} screened{props.data.skipped.degenerate + props.data.skipped.aboveDatum > 0 ? `, ${props.data.skipped.degenerate} slivers and ${props.data.skipped.aboveDatum} above the datum left out` : ""}; pick set v{props.data.pickSetVersion}, stress v{state.version}</dd>
+        <dd className="font-mono">
+          {summary.triangleCount.toLocaleString()} screened
+          {props.data.skipped.degenerate + props.data.skipped.aboveDatum > 0
+            ? `, ${props.data.skipped.degenerate} slivers and ${props.data.skipped.aboveDatum} above the datum left out`
+            : ""}
+          ; pick set v{props.data.pickSetVersion}, stress v{state.version}
+        </dd>
       </dl>
       {(summary.failingFraction.critical > 0 || summary.failingFraction.withinOrientationRange > 0 || summary.slipTendency.max >= 0.6) && (
-        <p className="rounded border border-red-300 bg-red-50 px-2 py-1 text-xs text-red-800 dark:border-red-800 dark:bg-red-950/40 dark:text-red-200" data-testid="stress-warning">
+        <p
+          className="rounded border border-red-300 bg-red-50 px-2 py-1 text-xs text-red-800 dark:border-red-800 dark:bg-red-950/40 dark:text-red-200"
+          data-testid="stress-warning"
+        >
           {summary.failingFraction.critical > 0
             ? `Under these inputs failure is already predicted on ${pct(summary.failingFraction.critical)} of the area at the more critical end of μ ${p.frictionLow}–${p.frictionHigh} (${pct(summary.failingFraction.bothEnds)} at both ends).`
             : summary.failingFraction.withinOrientationRange > 0
@@ -254,35 +320,68 @@ function ResultBody(props: {
       <div className="flex flex-wrap items-end gap-2 text-xs">
         <label className="font-medium">
           Thresholds (MPa, comma-separated)
-          <input className="field mt-1 w-40 font-mono" value={props.thresholdText} onChange={(e) => props.onThresholdText(e.target.value)} aria-invalid={!props.thresholdsValid} data-testid="stress-thresholds" />
+          <input
+            className="field mt-1 w-40 font-mono"
+            value={props.thresholdText}
+            onChange={(e) => props.onThresholdText(e.target.value)}
+            aria-invalid={!props.thresholdsValid}
+            data-testid="stress-thresholds"
+          />
         </label>
-        <button type="button" className="btn-quiet px-2 py-1" disabled={!props.thresholdsValid} onClick={props.onApplyThresholds}>Apply</button>
+        <button type="button" className="btn-quiet px-2 py-1" disabled={!props.thresholdsValid} onClick={props.onApplyThresholds}>
+          Apply
+        </button>
         {!props.thresholdsValid && <span className="field-error">Up to 10 numbers in MPa, e.g. 1, 2, 5</span>}
       </div>
       <div>
         <p className="mb-1 text-xs font-medium">Colour the 3D surface by</p>
         <div className="flex flex-wrap gap-1">
           {colourButtons.map(([key, label]) => (
-            <button key={key} type="button" disabled={!props.canColour} aria-pressed={props.colourMode === key}
+            <button
+              key={key}
+              type="button"
+              disabled={!props.canColour}
+              aria-pressed={props.colourMode === key}
               className={`rounded border px-2 py-0.5 text-xs ${props.colourMode === key ? "border-slip-600 bg-slip-50 text-slip-800 dark:bg-slip-950 dark:text-slip-200" : "border-slate-300 hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"}`}
-              onClick={() => props.onColour(key)} data-testid={`stress-colour-${key.slice("stress:".length)}`}>
+              onClick={() => props.onColour(key)}
+              data-testid={`stress-colour-${key.slice("stress:".length)}`}
+            >
               {label}
             </button>
           ))}
-          <button type="button" className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800" onClick={() => props.onColour("displacement")}>Displacement</button>
+          <button
+            type="button"
+            className="rounded border border-slate-300 px-2 py-0.5 text-xs hover:bg-slate-100 dark:border-slate-700 dark:hover:bg-slate-800"
+            onClick={() => props.onColour("displacement")}
+          >
+            Displacement
+          </button>
         </div>
       </div>
       <div className="flex items-center justify-between">
         <span className="text-xs font-medium">Charts</span>
-        <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setEnlarged(true)} data-testid="stress-enlarge">Enlarge</button>
+        <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setEnlarged(true)} data-testid="stress-enlarge">
+          Enlarge
+        </button>
       </div>
       {!enlarged && charts}
       {enlarged && (
-        <div className="fixed inset-0 flex items-center justify-center bg-slate-900/50 p-4" style={{ zIndex: DIALOG_Z_INDEX }} role="dialog" aria-modal="true" aria-label="Reactivation screen charts" onClick={() => setEnlarged(false)}>
+        <div
+          className="fixed inset-0 flex items-center justify-center bg-slate-900/50 p-4"
+          style={{ zIndex: DIALOG_Z_INDEX }}
+          role="dialog"
+          aria-modal="true"
+          aria-label="Reactivation screen charts"
+          onClick={() => setEnlarged(false)}
+        >
           <div className="card max-h-full w-full max-w-4xl space-y-4 overflow-auto p-4" onClick={(e) => e.stopPropagation()}>
             <div className="flex items-center justify-between">
-              <h3 className="font-semibold">Reactivation screen — pick set v{props.data.pickSetVersion}, stress v{state.version}, smoothing {orientation.lengthScaleM} m</h3>
-              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setEnlarged(false)}>Close</button>
+              <h3 className="font-semibold">
+                Reactivation screen — pick set v{props.data.pickSetVersion}, stress v{state.version}, smoothing {orientation.lengthScaleM} m
+              </h3>
+              <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => setEnlarged(false)}>
+                Close
+              </button>
             </div>
             <StressCaution />
             {charts}
@@ -290,18 +389,40 @@ function ResultBody(props: {
         </div>
       )}
       <div className="flex flex-wrap gap-3 text-xs">
-        <a className="underline" href={`/api/faults/${props.faultId}/stress/export?format=csv${props.lengthQuery}`} download data-testid="stress-export-csv">Per-triangle values (CSV)</a>
-        <a className="underline" href={`/api/faults/${props.faultId}/stress/export?format=geojson${props.lengthQuery}`} download data-testid="stress-export-geojson">Triangles (GeoJSON)</a>
+        <a className="underline" href={`/api/faults/${props.faultId}/stress/export?format=csv${props.lengthQuery}`} download data-testid="stress-export-csv">
+          Per-triangle values (CSV)
+        </a>
+        <a
+          className="underline"
+          href={`/api/faults/${props.faultId}/stress/export?format=geojson${props.lengthQuery}`}
+          download
+          data-testid="stress-export-geojson"
+        >
+          Triangles (GeoJSON)
+        </a>
       </div>
       <p className="text-xs text-slate-500">
-        Per triangle of the picks&apos; triangulation, with the orientation and depth of the fault surface smoothed at {orientation.lengthScaleM} m (a local quadratic fitted with Gaussian weights to the picks&apos; distance from the segment&apos;s plane; Cleveland &amp; Devlin 1988), not the triangle&apos;s own corners, whose normal mostly follows pick noise: Cauchy traction, slip tendency τ/σn′ (Morris et al. 1996), dilation tendency (σ1 − σn)/(σ1 − σ3) (Ferrill et al. 1999), ΔP = σn′ − (τ − C)/μ (Coulomb) at both ends of the friction band, the smaller counted per triangle. Ranges: the same for orientations {orientation.rangeStandardErrors} standard errors of the smoothed normal away (the scatter of the unsmoothed slopes over √(picks in the window)). Stresses grow linearly from zero at the datum.
+        Per triangle of the picks&apos; triangulation, with the orientation and depth of the fault surface smoothed at {orientation.lengthScaleM} m (a local
+        quadratic fitted with Gaussian weights to the picks&apos; distance from the segment&apos;s plane; Cleveland &amp; Devlin 1988), not the triangle&apos;s
+        own corners, whose normal mostly follows pick noise: Cauchy traction, slip tendency τ/σn′ (Morris et al. 1996), dilation tendency (σ1 − σn)/(σ1 − σ3)
+        (Ferrill et al. 1999), ΔP = σn′ − (τ − C)/μ (Coulomb) at both ends of the friction band, the smaller counted per triangle. Ranges: the same for
+        orientations {orientation.rangeStandardErrors} standard errors of the smoothed normal away (the scatter of the unsmoothed slopes over √(picks in the
+        window)). Stresses grow linearly from zero at the datum.
       </p>
     </>
   );
 }
 
 /** The stated, adjustable smoothing length of the surface orientation the screen uses. */
-function LengthScaleControl({ orientation, refreshing, onLength }: { orientation: ResultResponse["orientation"]; refreshing: boolean; onLength: (lengthM: number | null) => void }) {
+function LengthScaleControl({
+  orientation,
+  refreshing,
+  onLength,
+}: {
+  orientation: ResultResponse["orientation"];
+  refreshing: boolean;
+  onLength: (lengthM: number | null) => void;
+}) {
   // the field starts from the length in use; a new length in use remounts it (keyed by the caller)
   const [text, setText] = useState(String(orientation.lengthScaleM));
   const parsed = parseLengthScale(text);
@@ -312,20 +433,40 @@ function LengthScaleControl({ orientation, refreshing, onLength }: { orientation
     <div className="rounded border border-slate-200 px-2 py-1.5 text-xs dark:border-slate-700" data-testid="stress-length-scale">
       <p>
         Orientation from the fault surface smoothed at <strong data-testid="stress-length-value">{orientation.lengthScaleM} m</strong>
-        {isDefault ? " (the default" : ` (default ${orientation.defaultLengthScaleM} m`}: 200 m, or 4 median pick spacings where picks are sparser; median spacing here {Number.isFinite(spacing) ? `${spacing.toFixed(0)} m` : "—"}).
+        {isDefault ? " (the default" : ` (default ${orientation.defaultLengthScaleM} m`}: 200 m, or 4 median pick spacings where picks are sparser; median
+        spacing here {Number.isFinite(spacing) ? `${spacing.toFixed(0)} m` : "—"}).
         {refreshing && <span className="ml-1 text-slate-500">Updating…</span>}
       </p>
       <div className="mt-1 flex flex-wrap items-end gap-2">
         <label className="font-medium">
           Smoothing length (m)
-          <input className="field mt-1 w-24 font-mono" inputMode="decimal" value={text} onChange={(e) => setText(e.target.value)} aria-invalid={!valid} data-testid="stress-length-input" />
+          <input
+            className="field mt-1 w-24 font-mono"
+            inputMode="decimal"
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+            aria-invalid={!valid}
+            data-testid="stress-length-input"
+          />
         </label>
-        <button type="button" className="btn-quiet px-2 py-1" disabled={!valid} onClick={() => valid && onLength(parsed)} data-testid="stress-length-apply">Apply</button>
-        {!isDefault && <button type="button" className="btn-quiet px-2 py-1" onClick={() => onLength(null)} data-testid="stress-length-default">Default</button>}
-        {!valid && <span className="field-error">A length in metres between {LENGTH_SCALE_LIMITS_M[0]} and {LENGTH_SCALE_LIMITS_M[1]}</span>}
+        <button type="button" className="btn-quiet px-2 py-1" disabled={!valid} onClick={() => valid && onLength(parsed)} data-testid="stress-length-apply">
+          Apply
+        </button>
+        {!isDefault && (
+          <button type="button" className="btn-quiet px-2 py-1" onClick={() => onLength(null)} data-testid="stress-length-default">
+            Default
+          </button>
+        )}
+        {!valid && (
+          <span className="field-error">
+            A length in metres between {LENGTH_SCALE_LIMITS_M[0]} and {LENGTH_SCALE_LIMITS_M[1]}
+          </span>
+        )}
       </div>
       {Number.isFinite(spacing) && orientation.lengthScaleM < 2 * spacing && (
-        <p className="mt-1 text-amber-700 dark:text-amber-300" data-testid="stress-length-short">Shorter than two pick spacings: the orientation follows single picks and their noise.</p>
+        <p className="mt-1 text-amber-700 dark:text-amber-300" data-testid="stress-length-short">
+          Shorter than two pick spacings: the orientation follows single picks and their noise.
+        </p>
       )}
     </div>
   );
@@ -339,7 +480,8 @@ function VersionHistory({ data }: { data: StateResponse }) {
       <ul className="mt-1 space-y-1">
         {rows.map((v) => (
           <li key={v.id} className={v.id === data.current?.id ? "font-medium" : ""}>
-            {v.scope === "study" ? "Study" : "Fault"} v{v.version} · {REGIME_LABELS[v.parameters.regime].split(" (")[0]} · μ {v.parameters.frictionLow}–{v.parameters.frictionHigh} · {v.setBy?.name || v.setBy?.email || "former member"}, {new Date(v.createdAt).toLocaleString()}
+            {v.scope === "study" ? "Study" : "Fault"} v{v.version} · {REGIME_LABELS[v.parameters.regime].split(" (")[0]} · μ {v.parameters.frictionLow}–
+            {v.parameters.frictionHigh} · {v.setBy?.name || v.setBy?.email || "former member"}, {new Date(v.createdAt).toLocaleString()}
             {v.source && <span className="block text-slate-500">Source: {v.source}</span>}
             {v.id === data.current?.id && <span className="text-slip-700"> (in use)</span>}
           </li>

@@ -21,7 +21,10 @@ export function StressSheetSummary({ faultId, analysisId }: { faultId: string; a
   const result = useQuery({
     // the same key as the Stress screen tab at its default smoothing length (null), so both share one request
     queryKey: ["stress-result", faultId, analysisId, current?.id, THRESHOLDS, null],
-    queryFn: () => apiFetch<{ summary: ScreenSummary; state: StressStateView; orientation: { lengthScaleM: number } }>(`/api/faults/${faultId}/stress/result?thresholds=${THRESHOLDS}`),
+    queryFn: () =>
+      apiFetch<{ summary: ScreenSummary; state: StressStateView; orientation: { lengthScaleM: number } }>(
+        `/api/faults/${faultId}/stress/result?thresholds=${THRESHOLDS}`,
+      ),
     enabled: Boolean(current),
   });
   return (
@@ -33,19 +36,28 @@ export function StressSheetSummary({ faultId, analysisId }: { faultId: string; a
         <p className="text-xs text-slate-500">{result.isError ? result.error.message : "Screening…"}</p>
       ) : (
         <dl className="grid grid-cols-[1fr_auto] gap-x-3 gap-y-1 text-sm">
-          <dt className="text-slate-600 dark:text-slate-300">Min. ΔP to failure (more critical of μ {result.data.state.parameters.frictionLow}–{result.data.state.parameters.frictionHigh})</dt>
+          <dt className="text-slate-600 dark:text-slate-300">
+            Min. ΔP to failure (more critical of μ {result.data.state.parameters.frictionLow}–{result.data.state.parameters.frictionHigh})
+          </dt>
           <dd className="num text-right" data-testid="sheet-min-dp">
             {mpa(result.data.summary.minPressureToFailureMPa.critical)}
           </dd>
           {result.data.summary.thresholds.map((threshold) => (
             <div key={threshold.thresholdMPa} className="contents">
               <dt className="text-slate-600 dark:text-slate-300">Area with ΔP below {threshold.thresholdMPa} MPa</dt>
-              <dd className="num text-right">{pct(threshold.fractionBothEnds)} – {pct(threshold.fractionCritical)}</dd>
+              <dd className="num text-right">
+                {pct(threshold.fractionBothEnds)} – {pct(threshold.fractionCritical)}
+              </dd>
             </div>
           ))}
         </dl>
       )}
-      {current && <p className="mt-2 text-xs text-slate-500">Stress state version {current.version}{result.data ? `; orientation smoothed at ${result.data.orientation.lengthScaleM} m` : ""}; screening only, see the caution in the Stress screen tab.</p>}
+      {current && (
+        <p className="mt-2 text-xs text-slate-500">
+          Stress state version {current.version}
+          {result.data ? `; orientation smoothed at ${result.data.orientation.lengthScaleM} m` : ""}; screening only, see the caution in the Stress screen tab.
+        </p>
+      )}
     </section>
   );
 }

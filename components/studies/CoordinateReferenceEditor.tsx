@@ -18,7 +18,15 @@ function describe(reference: StudyCoordinateReference | null): string {
   return `EPSG:${reference.horizontal.epsg} ${reference.horizontal.name}; z above ${vertical}, metres`;
 }
 
-export function CoordinateReferenceEditor({ studyId, reference, canAdmin }: { studyId: string; reference: StudyCoordinateReference | null; canAdmin: boolean }) {
+export function CoordinateReferenceEditor({
+  studyId,
+  reference,
+  canAdmin,
+}: {
+  studyId: string;
+  reference: StudyCoordinateReference | null;
+  canAdmin: boolean;
+}) {
   const queryClient = useQueryClient();
   const [form, setForm] = useState<{ epsg: string; vertical: string } | null>(null);
   const save = useMutation({
@@ -46,7 +54,12 @@ export function CoordinateReferenceEditor({ studyId, reference, canAdmin }: { st
       {canAdmin && !form && (
         <button
           className="ml-2 text-slip-700 underline-offset-2 hover:underline dark:text-slip-300"
-          onClick={() => setForm({ epsg: reference ? String(reference.horizontal.epsg) : "", vertical: reference ? (reference.vertical.epsg ? String(reference.vertical.epsg) : reference.vertical.name) : "" })}
+          onClick={() =>
+            setForm({
+              epsg: reference ? String(reference.horizontal.epsg) : "",
+              vertical: reference ? (reference.vertical.epsg ? String(reference.vertical.epsg) : reference.vertical.name) : "",
+            })
+          }
           data-testid="edit-study-crs"
         >
           {reference ? "Change" : "Set"}
@@ -62,19 +75,46 @@ export function CoordinateReferenceEditor({ studyId, reference, canAdmin }: { st
           }}
         >
           <div>
-            <label className="label" htmlFor="crs-epsg">Projected CRS of x, y (EPSG code, metres)</label>
-            <input id="crs-epsg" className="field w-40" inputMode="numeric" placeholder="e.g. 32631" value={form.epsg} onChange={(event) => setForm({ ...form, epsg: event.target.value })} data-testid="crs-epsg" />
+            <label className="label" htmlFor="crs-epsg">
+              Projected CRS of x, y (EPSG code, metres)
+            </label>
+            <input
+              id="crs-epsg"
+              className="field w-40"
+              inputMode="numeric"
+              placeholder="e.g. 32631"
+              value={form.epsg}
+              onChange={(event) => setForm({ ...form, epsg: event.target.value })}
+              data-testid="crs-epsg"
+            />
             <FieldError errors={fieldErrors?.["coordinateReference.epsg"] ?? fieldErrors?.epsg} />
           </div>
           <div>
-            <label className="label" htmlFor="crs-vertical">Vertical reference of z (EPSG code of a height system, or the datum&apos;s name)</label>
-            <input id="crs-vertical" className="field w-64" placeholder="e.g. 5714 (MSL height)" value={form.vertical} onChange={(event) => setForm({ ...form, vertical: event.target.value })} data-testid="crs-vertical" />
+            <label className="label" htmlFor="crs-vertical">
+              Vertical reference of z (EPSG code of a height system, or the datum&apos;s name)
+            </label>
+            <input
+              id="crs-vertical"
+              className="field w-64"
+              placeholder="e.g. 5714 (MSL height)"
+              value={form.vertical}
+              onChange={(event) => setForm({ ...form, vertical: event.target.value })}
+              data-testid="crs-vertical"
+            />
             <FieldError errors={fieldErrors?.["coordinateReference.verticalEpsg"] ?? fieldErrors?.verticalEpsg} />
           </div>
-          {save.error && <p className="field-error" data-testid="study-crs-error">{save.error.message}</p>}
+          {save.error && (
+            <p className="field-error" data-testid="study-crs-error">
+              {save.error.message}
+            </p>
+          )}
           <div className="flex justify-end gap-2">
-            <button type="button" className="btn-quiet" onClick={() => setForm(null)}>Cancel</button>
-            <button className="btn-primary" disabled={save.isPending} data-testid="study-crs-save">{save.isPending ? "Checking…" : "Save"}</button>
+            <button type="button" className="btn-quiet" onClick={() => setForm(null)}>
+              Cancel
+            </button>
+            <button className="btn-primary" disabled={save.isPending} data-testid="study-crs-save">
+              {save.isPending ? "Checking…" : "Save"}
+            </button>
           </div>
         </form>
       )}

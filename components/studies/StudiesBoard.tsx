@@ -7,7 +7,6 @@ import { FieldError } from "@/components/ui/FieldError";
 import { RoleBadge } from "./RoleBadge";
 import type { StudiesResponse } from "@/lib/contracts/studies";
 
-
 export function StudiesBoard() {
   const queryClient = useQueryClient();
   const studies = useQuery({ queryKey: ["studies"], queryFn: () => apiFetch<StudiesResponse>("/api/studies") });
@@ -20,7 +19,14 @@ export function StudiesBoard() {
           New study
         </button>
       </div>
-      {creating && <NewStudyForm onDone={() => { setCreating(false); queryClient.invalidateQueries({ queryKey: ["studies"] }); }} />}
+      {creating && (
+        <NewStudyForm
+          onDone={() => {
+            setCreating(false);
+            queryClient.invalidateQueries({ queryKey: ["studies"] });
+          }}
+        />
+      )}
       {studies.isPending && <p className="text-sm text-slate-500">Loading studies…</p>}
       {studies.isError && <p className="text-sm text-red-600">Could not load studies: {studies.error.message}</p>}
       {studies.data && studies.data.studies.length === 0 && (
@@ -60,21 +66,42 @@ function NewStudyForm({ onDone }: { onDone: () => void }) {
   });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
   return (
-    <form className="card space-y-4 p-5" onSubmit={(event) => { event.preventDefault(); create.mutate(); }} noValidate>
+    <form
+      className="card space-y-4 p-5"
+      onSubmit={(event) => {
+        event.preventDefault();
+        create.mutate();
+      }}
+      noValidate
+    >
       <div>
-        <label className="label" htmlFor="study-name">Study name</label>
-        <input id="study-name" className="field" value={name} onChange={(event) => setName(event.target.value)} placeholder="e.g. Northern margin storage screen" />
+        <label className="label" htmlFor="study-name">
+          Study name
+        </label>
+        <input
+          id="study-name"
+          className="field"
+          value={name}
+          onChange={(event) => setName(event.target.value)}
+          placeholder="e.g. Northern margin storage screen"
+        />
         <FieldError errors={fieldErrors?.name} />
       </div>
       <div>
-        <label className="label" htmlFor="study-description">Description</label>
+        <label className="label" htmlFor="study-description">
+          Description
+        </label>
         <textarea id="study-description" className="field" rows={2} value={description} onChange={(event) => setDescription(event.target.value)} />
         <FieldError errors={fieldErrors?.description} />
       </div>
       {create.error && !fieldErrors && <p className="field-error">{create.error.message}</p>}
       <div className="flex gap-2">
-        <button type="submit" className="btn-primary" disabled={create.isPending}>Create study</button>
-        <button type="button" className="btn-quiet" onClick={onDone}>Cancel</button>
+        <button type="submit" className="btn-primary" disabled={create.isPending}>
+          Create study
+        </button>
+        <button type="button" className="btn-quiet" onClick={onDone}>
+          Cancel
+        </button>
       </div>
     </form>
   );

@@ -13,7 +13,6 @@ import { CoordinateReferenceEditor } from "./CoordinateReferenceEditor";
 import { STUDY_ROLES, type StudyRole } from "@/lib/contracts/roles";
 import type { StudyOverview as StudyOverviewData } from "@/lib/contracts/studies";
 
-
 export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { studyId: string; currentUserId: string; canEdit: boolean; canAdmin: boolean }) {
   const overview = useQuery({ queryKey: ["study", studyId], queryFn: () => apiFetch<StudyOverviewData>(`/api/studies/${studyId}`) });
   if (overview.isPending) return <p className="text-sm text-slate-500">Loading study…</p>;
@@ -22,9 +21,13 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
   return (
     <div className="space-y-8">
       <div>
-        <Link href="/studies" className="text-sm text-slip-700 hover:underline dark:text-slip-300">← Studies</Link>
+        <Link href="/studies" className="text-sm text-slip-700 hover:underline dark:text-slip-300">
+          ← Studies
+        </Link>
         <div className="mt-2 flex flex-wrap items-center gap-3">
-          <h1 className="text-2xl font-semibold" data-testid="study-title">{study.name}</h1>
+          <h1 className="text-2xl font-semibold" data-testid="study-title">
+            {study.name}
+          </h1>
           <RoleBadge role={role} />
         </div>
         {study.description && <p className="mt-2 max-w-3xl text-slate-600 dark:text-slate-300">{study.description}</p>}
@@ -53,14 +56,24 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                 {faults.map((fault) => (
                   <tr key={fault.id} className="hover:bg-slate-50 dark:hover:bg-slate-800/50">
                     <td className="px-5 py-3">
-                      <Link href={`/studies/${studyId}/faults/${fault.id}`} className="font-medium text-slip-700 hover:underline dark:text-slip-300">{fault.name}</Link>
-                      <div className="text-xs text-slate-500">{faultSenseLabel(fault.sense)} fault{fault.description ? ` · ${fault.description}` : ""}</div>
+                      <Link href={`/studies/${studyId}/faults/${fault.id}`} className="font-medium text-slip-700 hover:underline dark:text-slip-300">
+                        {fault.name}
+                      </Link>
+                      <div className="text-xs text-slate-500">
+                        {faultSenseLabel(fault.sense)} fault{fault.description ? ` · ${fault.description}` : ""}
+                      </div>
                     </td>
                     <td className="num px-3 py-3">{fault.analysis?.segmentCount ?? "—"}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.dMaxM)}</td>
                     <td className="num whitespace-nowrap px-3 py-3 text-right">{formatM(fault.analysis?.lengthM)}</td>
                     <td className="whitespace-nowrap px-5 py-3 text-right text-xs text-slate-500">
-                      {fault.latestVersion ? <>v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}</> : "none yet"}
+                      {fault.latestVersion ? (
+                        <>
+                          v{fault.latestVersion} · {fault.analysis?.status ?? "not analysed"}
+                        </>
+                      ) : (
+                        "none yet"
+                      )}
                     </td>
                   </tr>
                 ))}
@@ -93,10 +106,18 @@ export function StudyOverview({ studyId, currentUserId, canEdit, canAdmin }: { s
                 <span>
                   <span className="font-medium">{entry.actor}</span>{" "}
                   {entry.parts.map((part, index) =>
-                    part.href ? <Link key={index} href={part.href} className="text-slip-700 hover:underline dark:text-slip-300">{part.text}</Link> : <span key={index}>{part.text}</span>,
+                    part.href ? (
+                      <Link key={index} href={part.href} className="text-slip-700 hover:underline dark:text-slip-300">
+                        {part.text}
+                      </Link>
+                    ) : (
+                      <span key={index}>{part.text}</span>
+                    ),
                   )}
                 </span>
-                <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>{new Date(entry.createdAt).toLocaleString()}</time>
+                <time className="shrink-0 text-xs text-slate-500" dateTime={entry.createdAt}>
+                  {new Date(entry.createdAt).toLocaleString()}
+                </time>
               </li>
             ))}
           </ul>
@@ -127,7 +148,12 @@ function NewFault({ studyId }: { studyId: string }) {
     onSuccess: ({ fault }) => router.push(`/studies/${studyId}/faults/${fault.id}`),
   });
   const fieldErrors = create.error instanceof ApiRequestError ? create.error.details?.fieldErrors : undefined;
-  if (!open) return <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">Add fault</button>;
+  if (!open)
+    return (
+      <button className="btn-quiet" onClick={() => setOpen(true)} data-testid="new-fault">
+        Add fault
+      </button>
+    );
   return (
     <div
       className="fixed inset-0 z-40 flex items-start justify-center bg-slate-900/40 px-4 pt-24"
@@ -145,23 +171,40 @@ function NewFault({ studyId }: { studyId: string }) {
           create.mutate();
         }}
       >
-        <h3 id="new-fault-title" className="font-semibold">Add a fault</h3>
+        <h3 id="new-fault-title" className="font-semibold">
+          Add a fault
+        </h3>
         <div>
-          <label className="label" htmlFor="new-fault-name">Name</label>
+          <label className="label" htmlFor="new-fault-name">
+            Name
+          </label>
           <input id="new-fault-name" className="field" placeholder="e.g. QG-7" value={name} onChange={(event) => setName(event.target.value)} autoFocus />
           <FieldError errors={fieldErrors?.name} />
         </div>
         <FaultTypeFields idPrefix="new-fault" values={type} onChange={setType} fieldErrors={fieldErrors} />
         <div>
-          <label className="label" htmlFor="new-fault-description">Description <span className="font-normal text-slate-500">(optional)</span></label>
-          <textarea id="new-fault-description" className="field" rows={2} placeholder="Where it is, what it bounds" value={description} onChange={(event) => setDescription(event.target.value)} />
+          <label className="label" htmlFor="new-fault-description">
+            Description <span className="font-normal text-slate-500">(optional)</span>
+          </label>
+          <textarea
+            id="new-fault-description"
+            className="field"
+            rows={2}
+            placeholder="Where it is, what it bounds"
+            value={description}
+            onChange={(event) => setDescription(event.target.value)}
+          />
           <FieldError errors={fieldErrors?.description} />
         </div>
         {create.error && !fieldErrors && <p className="field-error">{create.error.message}</p>}
         <p className="text-xs text-slate-500">Next you upload its throw picks (a CSV) on the fault&apos;s page.</p>
         <div className="flex justify-end gap-2">
-          <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>Cancel</button>
-          <button className="btn-primary" disabled={create.isPending} data-testid="new-fault-submit">{create.isPending ? "Adding…" : "Add fault"}</button>
+          <button type="button" className="btn-quiet" onClick={() => setOpen(false)}>
+            Cancel
+          </button>
+          <button className="btn-primary" disabled={create.isPending} data-testid="new-fault-submit">
+            {create.isPending ? "Adding…" : "Add fault"}
+          </button>
         </div>
       </form>
     </div>
@@ -169,11 +212,17 @@ function NewFault({ studyId }: { studyId: string }) {
 }
 
 function RoleSelect({ studyId, userId, role }: { studyId: string; userId: string; role: StudyRole }) {
-  const change = useStudyMutation(studyId, (next: StudyRole) => apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "PATCH", json: { role: next } }));
+  const change = useStudyMutation(studyId, (next: StudyRole) =>
+    apiFetch(`/api/studies/${studyId}/members/${userId}`, { method: "PATCH", json: { role: next } }),
+  );
   return (
     <div className="text-right">
       <select className="field w-auto py-1 text-xs" aria-label="StudyRole" value={role} onChange={(event) => change.mutate(event.target.value as StudyRole)}>
-        {STUDY_ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+        {STUDY_ROLES.map((option) => (
+          <option key={option} value={option}>
+            {option}
+          </option>
+        ))}
       </select>
       {change.error && <p className="field-error text-xs">{change.error.message}</p>}
     </div>
@@ -189,14 +238,22 @@ function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; pers
     <li className="px-5 py-2.5 text-sm" data-user-id={person.userId}>
       <div className="flex items-center justify-between gap-2">
         <div className="min-w-0">
-          <div className="truncate font-medium">{person.name}{isYou && <span className="text-slate-400"> (you)</span>}</div>
+          <div className="truncate font-medium">
+            {person.name}
+            {isYou && <span className="text-slate-400"> (you)</span>}
+          </div>
           <div className="truncate text-xs text-slate-500">{person.email}</div>
         </div>
         {canAdmin ? (
           <div className="flex flex-col items-end gap-1">
             <RoleSelect studyId={studyId} userId={person.userId} role={person.role} />
             {!isYou && !askingToRemove && (
-              <button type="button" className="text-xs text-slate-500 hover:text-red-700 dark:hover:text-red-300" onClick={() => setAskingToRemove(true)} data-testid="remove-member">
+              <button
+                type="button"
+                className="text-xs text-slate-500 hover:text-red-700 dark:hover:text-red-300"
+                onClick={() => setAskingToRemove(true)}
+                data-testid="remove-member"
+              >
                 Remove
               </button>
             )}
@@ -208,7 +265,13 @@ function PersonRow({ studyId, person, isYou, canAdmin }: { studyId: string; pers
       {askingToRemove && (
         <div className="mt-2 flex flex-wrap items-center justify-end gap-x-3 gap-y-1 text-xs" data-testid="remove-member-confirm">
           <span className="text-slate-600 dark:text-slate-300">Remove {person.name} from this study?</span>
-          <button type="button" className="font-medium text-red-700 hover:underline dark:text-red-300" disabled={remove.isPending} onClick={() => remove.mutate(undefined)} data-testid="remove-member-yes">
+          <button
+            type="button"
+            className="font-medium text-red-700 hover:underline dark:text-red-300"
+            disabled={remove.isPending}
+            onClick={() => remove.mutate(undefined)}
+            data-testid="remove-member-yes"
+          >
             Remove
           </button>
           <button type="button" className="text-slate-500 hover:underline" onClick={() => setAskingToRemove(false)}>
@@ -230,19 +293,35 @@ function InviteForm({ studyId }: { studyId: string }) {
     <form
       className="space-y-2 border-t border-slate-200 px-5 py-4 dark:border-slate-800"
       data-testid="invite-form"
-      onSubmit={(event) => { event.preventDefault(); invite.mutate(undefined, { onSuccess: () => setEmail("") }); }}
+      onSubmit={(event) => {
+        event.preventDefault();
+        invite.mutate(undefined, { onSuccess: () => setEmail("") });
+      }}
       noValidate
     >
       <h3 className="text-sm font-semibold">Invite someone</h3>
       <div className="flex gap-2">
-        <input className="field" type="email" placeholder="name@company.com" aria-label="E-mail to invite" value={email} onChange={(event) => setEmail(event.target.value)} />
+        <input
+          className="field"
+          type="email"
+          placeholder="name@company.com"
+          aria-label="E-mail to invite"
+          value={email}
+          onChange={(event) => setEmail(event.target.value)}
+        />
         <select className="field w-auto" aria-label="StudyRole for the invitation" value={role} onChange={(event) => setRole(event.target.value as StudyRole)}>
-          {STUDY_ROLES.map((option) => <option key={option} value={option}>{option}</option>)}
+          {STUDY_ROLES.map((option) => (
+            <option key={option} value={option}>
+              {option}
+            </option>
+          ))}
         </select>
       </div>
       <FieldError errors={fieldErrors?.email ?? (invite.error && !fieldErrors ? [invite.error.message] : undefined)} />
       {invite.isSuccess && <p className="text-sm text-slip-700 dark:text-slip-300">Invitation sent.</p>}
-      <button className="btn-primary" disabled={invite.isPending}>Send invitation</button>
+      <button className="btn-primary" disabled={invite.isPending}>
+        Send invitation
+      </button>
     </form>
   );
 }

@@ -33,7 +33,10 @@ export function FaultTypeEditor({ faultId, canEdit }: { faultId: string; canEdit
   return (
     <div className="text-xs text-slate-500" data-testid="fault-type">
       <span>
-        Type: <span className="font-medium text-slate-700 dark:text-slate-200" data-testid="fault-type-text">{describeFaultType(current)}</span>
+        Type:{" "}
+        <span className="font-medium text-slate-700 dark:text-slate-200" data-testid="fault-type-text">
+          {describeFaultType(current)}
+        </span>
       </span>
       {canEdit && !editing && (
         <button
@@ -57,8 +60,12 @@ export function FaultTypeEditor({ faultId, canEdit }: { faultId: string; canEdit
           {save.error && !fieldErrors && <p className="field-error">{save.error.message}</p>}
           <p className="text-xs text-slate-500">Saving runs the analysis of the newest pick set again with this type.</p>
           <div className="flex justify-end gap-2">
-            <button type="button" className="btn-quiet" onClick={() => setEditing(null)}>Cancel</button>
-            <button className="btn-primary" disabled={save.isPending} data-testid="fault-type-save">{save.isPending ? "Saving…" : "Save type"}</button>
+            <button type="button" className="btn-quiet" onClick={() => setEditing(null)}>
+              Cancel
+            </button>
+            <button className="btn-primary" disabled={save.isPending} data-testid="fault-type-save">
+              {save.isPending ? "Saving…" : "Save type"}
+            </button>
           </div>
         </form>
       )}

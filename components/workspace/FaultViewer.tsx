@@ -81,16 +81,29 @@ export function FaultViewer({ display, pins, onSurfaceClick, initialCamera, tool
         <FaultView2D
           display={display}
           pins={pins}
-          reason={webgl === false ? "3D graphics (WebGL) are not available in this browser, so the surface is shown as a contour map on the fault plane." : undefined}
+          reason={
+            webgl === false ? "3D graphics (WebGL) are not available in this browser, so the surface is shown as a contour map on the fault plane." : undefined
+          }
         />
       ) : (
-        <div className="relative h-[600px] bg-gradient-to-b from-slate-100 to-slate-200 dark:from-slate-900 dark:to-slate-950" data-testid="fault-scene" data-scene-frame>
+        <div
+          className="relative h-[600px] bg-gradient-to-b from-slate-100 to-slate-200 dark:from-slate-900 dark:to-slate-950"
+          data-testid="fault-scene"
+          data-scene-frame
+        >
           <FaultScene display={display} pins={pins} onSurfaceClick={onSurfaceClick} initialCamera={initialCamera} />
           <DisplacementLegend display={display} />
           <HoverReadout />
           <ScaleBar />
           <OrientationMarker />
-          {hint && <div className="pointer-events-none absolute left-1/2 top-3 -translate-x-1/2 rounded bg-slip-700 px-3 py-1 text-xs font-medium text-white shadow" data-testid="viewer-hint">{hint}</div>}
+          {hint && (
+            <div
+              className="pointer-events-none absolute left-1/2 top-3 -translate-x-1/2 rounded bg-slip-700 px-3 py-1 text-xs font-medium text-white shadow"
+              data-testid="viewer-hint"
+            >
+              {hint}
+            </div>
+          )}
         </div>
       )}
       <FieldNote />
@@ -103,7 +116,10 @@ function FieldNote() {
   const note = useSceneSettings((state) => state.fields.find((candidate) => candidate.key === state.colourMode)?.note);
   if (!note) return null;
   return (
-    <p className="border-t border-tip-400/60 bg-amber-50 px-3 py-2 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100" data-testid="field-note">
+    <p
+      className="border-t border-tip-400/60 bg-amber-50 px-3 py-2 text-xs leading-relaxed text-amber-900 dark:border-tip-600/60 dark:bg-amber-950/40 dark:text-amber-100"
+      data-testid="field-note"
+    >
       {note}
     </p>
   );
@@ -141,7 +157,9 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
           <option value="displacement">displacement</option>
           <option value="throw">throw</option>
           {fields.map((field) => (
-            <option key={field.key} value={field.key}>{inSentence(field.label)}</option>
+            <option key={field.key} value={field.key}>
+              {inSentence(field.label)}
+            </option>
           ))}
         </select>
       </label>
@@ -149,14 +167,29 @@ function ViewBar({ mode, webgl, onMode, extra }: { mode: ViewMode; webgl: boolea
         <>
           <div className="flex flex-wrap items-center gap-1" role="group" aria-label="Camera">
             {PRESETS.map(({ preset, label, title }) => (
-              <button key={preset} type="button" className="btn-quiet px-2 py-1 text-xs" title={title} onClick={() => applyPreset(preset)} data-testid={`camera-${preset}`}>
+              <button
+                key={preset}
+                type="button"
+                className="btn-quiet px-2 py-1 text-xs"
+                title={title}
+                onClick={() => applyPreset(preset)}
+                data-testid={`camera-${preset}`}
+              >
                 {label}
               </button>
             ))}
           </div>
           <label className="flex items-center gap-1.5" title="Draw displacement as relief off the plane">
             <span className="text-slate-500">Relief ×{exaggeration.toFixed(1)}</span>
-            <input type="range" min={0} max={MAX_EXAGGERATION} step={0.5} value={exaggeration} onChange={(event) => setExaggeration(Number(event.target.value))} data-testid="relief" />
+            <input
+              type="range"
+              min={0}
+              max={MAX_EXAGGERATION}
+              step={0.5}
+              value={exaggeration}
+              onChange={(event) => setExaggeration(Number(event.target.value))}
+              data-testid="relief"
+            />
           </label>
           <details className="relative">
             <summary className="cursor-pointer select-none text-slate-600 dark:text-slate-300">Layers</summary>
@@ -190,9 +223,19 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
   const fraction = (value: number) => (high > low ? (value - low) / (high - low) : 0.5);
   const title = field ? `${field.label} (${field.unit})` : `${colourMode === "throw" ? "Throw" : "Displacement"} (m)`;
   return (
-    <div className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="legend" data-scene-overlay
-      data-low={low} data-high={high} data-reversed={reversed ? "1" : "0"} data-title={title} data-contours={display.segments.length > 0 ? contourNote(display) : ""}>
-      <div className="mb-1 max-w-40 font-semibold" data-testid="legend-title">{title}</div>
+    <div
+      className="pointer-events-none absolute left-3 top-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700"
+      data-testid="legend"
+      data-scene-overlay
+      data-low={low}
+      data-high={high}
+      data-reversed={reversed ? "1" : "0"}
+      data-title={title}
+      data-contours={display.segments.length > 0 ? contourNote(display) : ""}
+    >
+      <div className="mb-1 max-w-40 font-semibold" data-testid="legend-title">
+        {title}
+      </div>
       <div className="mt-2 flex gap-1.5">
         <div className="h-40 w-3 rounded-sm" style={{ background: gradient }} />
         <div className="relative h-40 w-12">
@@ -202,7 +245,10 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
             </span>
           ))}
           {field?.guide && (
-            <span className="absolute -left-5 w-5 border-t-2 border-dotted border-slate-800 dark:border-slate-100" style={{ bottom: `${fraction(field.guide.value) * 100}%` }} />
+            <span
+              className="absolute -left-5 w-5 border-t-2 border-dotted border-slate-800 dark:border-slate-100"
+              style={{ bottom: `${fraction(field.guide.value) * 100}%` }}
+            />
           )}
         </div>
       </div>
@@ -216,14 +262,26 @@ function DisplacementLegend({ display }: { display: FaultDisplay }) {
           <span className="inline-block w-4 border-t-2 border-dotted border-slate-700 dark:border-slate-200" /> {field.guide.label}
         </div>
       )}
-      {display.segments.length > 0 && <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">{contourNote(display)}</div>}
-
-      <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line</div>
-      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-tip-band"><span className="inline-block w-4 border-t border-[#f7b955]" /> its 5–95 % range</div>
-      {display.segments.some((segment) => segment.tipOpen?.includes(1)) && (
-        <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-open-edge"><span className="inline-block w-4 border-t-2 border-dashed border-cyan-700 dark:border-cyan-300" /> open edge, no tip inferred</div>
+      {display.segments.length > 0 && (
+        <div className="mt-1 max-w-40 text-slate-500" data-testid="legend-contours">
+          {contourNote(display)}
+        </div>
       )}
-      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300"><span className="inline-block w-4 border-t-2 border-dashed border-slate-600 dark:border-slate-300" /> mapped limit</div>
+
+      <div className="mt-1 flex items-center gap-1 text-slate-600 dark:text-slate-300">
+        <span className="inline-block h-1 w-4 rounded bg-tip-500" /> inferred tip line
+      </div>
+      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-tip-band">
+        <span className="inline-block w-4 border-t border-[#f7b955]" /> its 5–95 % range
+      </div>
+      {display.segments.some((segment) => segment.tipOpen?.includes(1)) && (
+        <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300" data-testid="legend-open-edge">
+          <span className="inline-block w-4 border-t-2 border-dashed border-cyan-700 dark:border-cyan-300" /> open edge, no tip inferred
+        </div>
+      )}
+      <div className="flex items-center gap-1 text-slate-600 dark:text-slate-300">
+        <span className="inline-block w-4 border-t-2 border-dashed border-slate-600 dark:border-slate-300" /> mapped limit
+      </div>
     </div>
   );
 }
@@ -259,7 +317,10 @@ function HoverReadout() {
     rows.push([inSentence(field.label), Number.isFinite(readout.fieldValue) ? `${readout.fieldValue.toFixed(2)} ${field.unit}` : "—"]);
   }
   return (
-    <dl className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700" data-testid="hover-readout">
+    <dl
+      className="pointer-events-none absolute right-3 top-3 grid grid-cols-[auto_auto] gap-x-3 rounded-md bg-white/90 p-2 text-[11px] shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:ring-slate-700"
+      data-testid="hover-readout"
+    >
       {rows.map(([label, value]) => (
         <div key={label} className="contents">
           <dt className="text-slate-500">{label}</dt>
@@ -277,7 +338,11 @@ function ScaleBar() {
   const widthPx = lengthM / metresPerPixel;
   // on a plate of its own, so it reads over the surface at any zoom
   return (
-    <div className="pointer-events-none absolute bottom-3 left-3 rounded-md bg-white/90 px-2 py-1.5 text-[11px] text-slate-800 shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:text-slate-100 dark:ring-slate-700" data-testid="scale-bar" data-scene-overlay>
+    <div
+      className="pointer-events-none absolute bottom-3 left-3 rounded-md bg-white/90 px-2 py-1.5 text-[11px] text-slate-800 shadow ring-1 ring-slate-200 dark:bg-slate-900/90 dark:text-slate-100 dark:ring-slate-700"
+      data-testid="scale-bar"
+      data-scene-overlay
+    >
       <div className="h-1.5 border-x-2 border-b-2 border-slate-700 dark:border-slate-200" style={{ width: widthPx }} />
       <div className="num mt-0.5">{metres(lengthM, 0)} at the centre of view</div>
     </div>
@@ -332,9 +397,29 @@ function OrientationMarker() {
         const box = placed[index].box;
         return (
           <g key={item.name} data-axis={item.name}>
-            {!item.endOn && <line x1={centre} y1={centre} x2={item.tip.x} y2={item.tip.y} stroke={item.colour} strokeWidth={2.5} strokeLinecap="round" opacity={item.z < -0.5 ? 0.55 : 1} />}
+            {!item.endOn && (
+              <line
+                x1={centre}
+                y1={centre}
+                x2={item.tip.x}
+                y2={item.tip.y}
+                stroke={item.colour}
+                strokeWidth={2.5}
+                strokeLinecap="round"
+                opacity={item.z < -0.5 ? 0.55 : 1}
+              />
+            )}
             <rect data-axis-label={item.name} x={box.x0} y={box.y0} width={box.x1 - box.x0} height={box.y1 - box.y0} rx={4} fill={item.colour} />
-            <text x={(box.x0 + box.x1) / 2} y={(box.y0 + box.y1) / 2} dy="0.35em" textAnchor="middle" fontSize={10.5} fontWeight={700} fill="#ffffff" style={{ fontFamily: "var(--font-sans, sans-serif)" }}>
+            <text
+              x={(box.x0 + box.x1) / 2}
+              y={(box.y0 + box.y1) / 2}
+              dy="0.35em"
+              textAnchor="middle"
+              fontSize={10.5}
+              fontWeight={700}
+              fill="#ffffff"
+              style={{ fontFamily: "var(--font-sans, sans-serif)" }}
+            >
               {item.label}
             </text>
           </g>

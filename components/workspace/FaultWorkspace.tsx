@@ -54,7 +54,8 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
 
   const analysis = useQuery({
     queryKey: ["analysis", faultId, pickSetId ?? "latest", runId ?? "newest"],
-    queryFn: () => apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}${runId ? `&analysis=${runId}` : ""}`),
+    queryFn: () =>
+      apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0${pickSetId ? `&pickSet=${pickSetId}` : ""}${runId ? `&analysis=${runId}` : ""}`),
     refetchInterval: (query) => {
       const status = query.state.data?.analysis?.status;
       return status === "queued" || status === "running" ? 700 : false;
@@ -88,21 +89,45 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       <div className="mb-4 flex flex-wrap items-end justify-between gap-3">
         <div>
           <nav className="text-sm text-slate-500">
-            <Link href="/studies" className="hover:underline">Studies</Link> / <Link href={`/studies/${props.studyId}`} className="hover:underline">{props.studyName}</Link>
+            <Link href="/studies" className="hover:underline">
+              Studies
+            </Link>{" "}
+            /{" "}
+            <Link href={`/studies/${props.studyId}`} className="hover:underline">
+              {props.studyName}
+            </Link>
           </nav>
-          <h1 className="text-2xl font-semibold" data-testid="fault-title">{props.faultName}</h1>
+          <h1 className="text-2xl font-semibold" data-testid="fault-title">
+            {props.faultName}
+          </h1>
           <FaultTypeEditor faultId={faultId} canEdit={canEdit} />
           {current && (
             <p className="text-xs text-slate-500">
-              Pick set v{current.version} · {current.fileName}{current.derivedFrom ? " (derived from cut-off lines)" : ""} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine {current.engineVersion ?? "—"}
+              Pick set v{current.version} · {current.fileName}
+              {current.derivedFrom ? " (derived from cut-off lines)" : ""} · uploaded {new Date(current.uploadedAt).toLocaleString()} · engine{" "}
+              {current.engineVersion ?? "—"}
             </p>
           )}
         </div>
         <div className="flex items-center gap-2">
           {pickSets.data && pickSets.data.pickSets.length > 1 && (
-            <select className="field w-auto py-1.5 text-sm" aria-label="Pick set version" value={pickSetId ?? ""} onChange={(event) => { setPickSetId(event.target.value || undefined); setRunId(undefined); setComparing(null); }} data-testid="pick-set-select">
+            <select
+              className="field w-auto py-1.5 text-sm"
+              aria-label="Pick set version"
+              value={pickSetId ?? ""}
+              onChange={(event) => {
+                setPickSetId(event.target.value || undefined);
+                setRunId(undefined);
+                setComparing(null);
+              }}
+              data-testid="pick-set-select"
+            >
               <option value="">Latest version</option>
-              {pickSets.data.pickSets.map((set) => <option key={set.id} value={set.id}>v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks{set.derivedFrom ? " from cut-offs" : ""})</option>)}
+              {pickSets.data.pickSets.map((set) => (
+                <option key={set.id} value={set.id}>
+                  v{set.version} · {set.fileName} ({set.rowCount.toLocaleString("en")} picks{set.derivedFrom ? " from cut-offs" : ""})
+                </option>
+              ))}
             </select>
           )}
           {canEdit && current && (
@@ -122,14 +147,20 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
       {current && (current.status === "queued" || current.status === "running") && (
         <div className="card mb-4 p-4" data-testid="analysis-progress">
           <div className="mb-2 flex justify-between text-sm">
-            <span>Analysing pick set v{current.version}: <span className="font-medium">{STAGE_WORDS[current.stage] ?? "working"}</span></span>
+            <span>
+              Analysing pick set v{current.version}: <span className="font-medium">{STAGE_WORDS[current.stage] ?? "working"}</span>
+            </span>
             <span className="num text-slate-500">{Math.round(current.progress * 100)}%</span>
           </div>
           <div className="h-2 overflow-hidden rounded bg-slate-200 dark:bg-slate-800">
             <div className="h-full bg-slip-500 transition-all" style={{ width: `${Math.max(3, current.progress * 100)}%` }} />
           </div>
           <ol className="mt-2 flex flex-wrap gap-2 text-xs text-slate-500">
-            {ANALYSIS_STAGES.map((stage) => <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>{STAGE_WORDS[stage]}</li>)}
+            {ANALYSIS_STAGES.map((stage) => (
+              <li key={stage} className={stage === current.stage ? "font-semibold text-slip-700 dark:text-slip-300" : ""}>
+                {STAGE_WORDS[stage]}
+              </li>
+            ))}
           </ol>
         </div>
       )}
@@ -143,7 +174,9 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
           <h2 className="font-semibold">No picks yet</h2>
           {canEdit ? (
             <>
-              <p className="mb-4 mt-1 text-sm text-slate-500">Upload the throw picks of {props.faultName} to build its displacement surface, tip line and fault sheet.</p>
+              <p className="mb-4 mt-1 text-sm text-slate-500">
+                Upload the throw picks of {props.faultName} to build its displacement surface, tip line and fault sheet.
+              </p>
               <UploadPanel faultId={faultId} onSaved={onSaved} withExamples />
             </>
           ) : (
@@ -167,14 +200,29 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
                   toolbarExtra={<ViewpointsBar faultId={faultId} role={props.role} />}
                 />
               ) : (
-                <div className="flex h-[600px] items-center justify-center text-sm text-slate-500">{display.isError ? display.error.message : "Loading surface…"}</div>
+                <div className="flex h-[600px] items-center justify-center text-sm text-slate-500">
+                  {display.isError ? display.error.message : "Loading surface…"}
+                </div>
               )}
             </div>
             <aside className="card max-h-[calc(100vh-7rem)] overflow-auto xl:sticky xl:top-4" data-testid="side-panel">
               <div className="sticky top-0 z-10 flex border-b border-slate-200 bg-white dark:border-slate-800 dark:bg-slate-900" role="tablist">
-                {([["sheet", "Fault sheet"], ["runs", "Runs"], ["pins", "Pinned notes"], ["stress", "Stress screen"]] as const).map(([tab, label]) => (
-                  <button key={tab} role="tab" aria-selected={sideTab === tab} onClick={() => setSideTab(tab)} data-testid={`side-tab-${tab}`}
-                    className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}>
+                {(
+                  [
+                    ["sheet", "Fault sheet"],
+                    ["runs", "Runs"],
+                    ["pins", "Pinned notes"],
+                    ["stress", "Stress screen"],
+                  ] as const
+                ).map(([tab, label]) => (
+                  <button
+                    key={tab}
+                    role="tab"
+                    aria-selected={sideTab === tab}
+                    onClick={() => setSideTab(tab)}
+                    data-testid={`side-tab-${tab}`}
+                    className={`flex-1 px-3 py-2 text-sm font-medium ${sideTab === tab ? "border-b-2 border-slip-600 text-slip-800 dark:text-slip-200" : "text-slate-500 hover:text-slate-800 dark:hover:text-slate-200"}`}
+                  >
                     {label}
                   </button>
                 ))}
@@ -200,12 +248,28 @@ export function FaultWorkspace(props: { studyId: string; studyName: string; faul
                 <StressPanel studyId={props.studyId} faultId={faultId} role={props.role} display={display.data ?? null} analysisId={current!.id} />
               </div>
               <div className="p-4" hidden={sideTab !== "pins"}>
-                <PinsPanel studyId={props.studyId} faultId={faultId} role={props.role} currentPickSetVersion={current?.version ?? null} display={display.data ?? null} linkedPinId={linkedPin} />
+                <PinsPanel
+                  studyId={props.studyId}
+                  faultId={faultId}
+                  role={props.role}
+                  currentPickSetVersion={current?.version ?? null}
+                  display={display.data ?? null}
+                  linkedPinId={linkedPin}
+                />
               </div>
             </aside>
           </div>
           <section className="mt-4" data-testid="analysis-views">
-            <AnalysisViews studyId={props.studyId} faultId={faultId} faultName={props.faultName} report={report} display={display.data ?? null} analysisId={current!.id} pickSetId={current!.pickSetId} canEdit={canEdit} />
+            <AnalysisViews
+              studyId={props.studyId}
+              faultId={faultId}
+              faultName={props.faultName}
+              report={report}
+              display={display.data ?? null}
+              analysisId={current!.id}
+              pickSetId={current!.pickSetId}
+              canEdit={canEdit}
+            />
           </section>
         </>
       )}

@@ -22,8 +22,19 @@ function OverlayMap({ segmentId, runs }: { segmentId: string; runs: SegmentResul
   return (
     <figure className="rounded border border-slate-200 p-2 dark:border-slate-800" data-testid="compare-map">
       <figcaption className="mb-1 text-xs font-medium">Segment {segmentId}: tip lines on the fault plane (s along strike, t down dip, m)</figcaption>
-      <svg viewBox={`${sMin - pad} ${tMin - pad} ${sMax - sMin + 2 * pad} ${tMax - tMin + 2 * pad}`} className="h-64 w-full" preserveAspectRatio="xMidYMid meet">
-        <path d={path(runs[0].mappedLimit.polygon)} fill="none" stroke="currentColor" strokeDasharray="6 4" strokeWidth={1.2} vectorEffect="non-scaling-stroke" />
+      <svg
+        viewBox={`${sMin - pad} ${tMin - pad} ${sMax - sMin + 2 * pad} ${tMax - tMin + 2 * pad}`}
+        className="h-64 w-full"
+        preserveAspectRatio="xMidYMid meet"
+      >
+        <path
+          d={path(runs[0].mappedLimit.polygon)}
+          fill="none"
+          stroke="currentColor"
+          strokeDasharray="6 4"
+          strokeWidth={1.2}
+          vectorEffect="non-scaling-stroke"
+        />
         {runs.map((segment, k) => (
           <g key={k} fill="none" stroke={RUN_COLOURS[k]} data-testid={`compare-run-${k + 1}`}>
             <path d={path(segment.tipLine.innerPolygon)} strokeWidth={1} vectorEffect="non-scaling-stroke" strokeOpacity={0.7} />
@@ -46,7 +57,11 @@ function OverlayMap({ segmentId, runs }: { segmentId: string; runs: SegmentResul
 
 export function RunComparison({ faultId, ids, onClose }: { faultId: string; ids: [string, string]; onClose: () => void }) {
   const queries = useQueries({
-    queries: ids.map((id) => ({ queryKey: ["analysis-run", faultId, id], staleTime: Infinity, queryFn: () => apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0&analysis=${id}`) })),
+    queries: ids.map((id) => ({
+      queryKey: ["analysis-run", faultId, id],
+      staleTime: Infinity,
+      queryFn: () => apiFetch<AnalysisResponse>(`/api/faults/${faultId}/analysis?contours=0&analysis=${id}`),
+    })),
   });
   const reports = queries.map((query) => query.data?.analysis?.result ?? null);
   const ready = reports.every((report): report is AnalysisReport => report !== null && report.segments.every((segment) => segment.tipLine.innerPolygon));
@@ -54,7 +69,9 @@ export function RunComparison({ faultId, ids, onClose }: { faultId: string; ids:
     <section className="card mb-4 p-4" data-testid="run-comparison">
       <div className="mb-3 flex items-center justify-between">
         <h2 className="font-semibold">Two runs compared</h2>
-        <button className="btn-quiet" onClick={onClose}>Close</button>
+        <button className="btn-quiet" onClick={onClose}>
+          Close
+        </button>
       </div>
       {!ready ? (
         <p className="text-sm text-slate-500">{queries.some((query) => query.isError) ? "One of the runs could not be read." : "Loading both runs…"}</p>

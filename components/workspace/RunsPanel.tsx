@@ -11,7 +11,6 @@ import type { AnalysisSettings } from "@/lib/contracts/analysis-settings";
 import type { AnalysisReport, TipEndSide } from "@/lib/contracts/report";
 import { metres, metresWithRange, MODEL_NAMES } from "@/lib/format";
 
-
 export function useRuns(faultId: string, pickSetId: string | undefined) {
   return useQuery({
     queryKey: ["runs", faultId, pickSetId ?? "latest"],
@@ -53,7 +52,12 @@ function formFrom(settings: AnalysisSettings | null | undefined): FormState {
   return {
     cutoff: settings?.throwCutoffM?.toString() ?? "",
     profile: settings?.profiles?.length === 1 ? settings.profiles[0] : "auto",
-    ends: { "strike-start": settings?.ends?.["strike-start"] ?? "detect", "strike-end": settings?.ends?.["strike-end"] ?? "detect", "up-dip": settings?.ends?.["up-dip"] ?? "detect", "down-dip": settings?.ends?.["down-dip"] ?? "detect" },
+    ends: {
+      "strike-start": settings?.ends?.["strike-start"] ?? "detect",
+      "strike-end": settings?.ends?.["strike-end"] ?? "detect",
+      "up-dip": settings?.ends?.["up-dip"] ?? "detect",
+      "down-dip": settings?.ends?.["down-dip"] ?? "detect",
+    },
     interval: settings?.intervalM?.toString() ?? "",
     smoothing: settings?.smoothingM?.toString() ?? "",
   };
@@ -76,14 +80,20 @@ export function RunsPanel(props: {
   const [problem, setProblem] = useState<string | null>(null);
   const rerun = useMutation({
     mutationFn: (settings: AnalysisSettings) =>
-      apiFetch<{ analysisId: string }>(`/api/faults/${faultId}/analysis/rerun`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ pickSetId, settings }) }),
+      apiFetch<{ analysisId: string }>(`/api/faults/${faultId}/analysis/rerun`, {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ pickSetId, settings }),
+      }),
     onSuccess: ({ analysisId }) => {
       void queryClient.invalidateQueries({ queryKey: ["runs", faultId] });
       props.onShow(analysisId);
     },
     onError: (error: Error) => setProblem(error.message),
   });
-  const estimatedCutoff = report.segments.map((segment) => (segment.tipLine.cutoff ? segment.tipLine.cutoff.displacementM * Math.sin((segment.plane.dipDeg * Math.PI) / 180) : NaN)).filter(Number.isFinite);
+  const estimatedCutoff = report.segments
+    .map((segment) => (segment.tipLine.cutoff ? segment.tipLine.cutoff.displacementM * Math.sin((segment.plane.dipDeg * Math.PI) / 180) : NaN))
+    .filter(Number.isFinite);
 
   function submit(event: React.FormEvent) {
     event.preventDefault();
@@ -105,17 +115,32 @@ export function RunsPanel(props: {
         <p className="mb-2 text-xs text-slate-500">Every run is kept. Show one, or tick two to compare their tip lines and fault sheets side by side.</p>
         <ol className="space-y-2">
           {list.map((run, index) => (
-            <li key={run.id} className={`rounded border p-2 ${run.id === shownId ? "border-slip-500" : "border-slate-200 dark:border-slate-800"}`} data-testid="run-row">
+            <li
+              key={run.id}
+              className={`rounded border p-2 ${run.id === shownId ? "border-slip-500" : "border-slate-200 dark:border-slate-800"}`}
+              data-testid="run-row"
+            >
               <div className="flex items-center justify-between gap-2">
                 <label className="flex items-center gap-2">
-                  <input type="checkbox" checked={picked.includes(run.id)} onChange={() => togglePick(run.id)} disabled={run.status !== "done"} data-testid="run-pick" />
+                  <input
+                    type="checkbox"
+                    checked={picked.includes(run.id)}
+                    onChange={() => togglePick(run.id)}
+                    disabled={run.status !== "done"}
+                    data-testid="run-pick"
+                  />
                   <span className="font-medium">Run {list.length - index}</span>
                   <span className="text-xs text-slate-500">{new Date(run.createdAt).toLocaleString()}</span>
                 </label>
                 {run.id === shownId ? (
                   <span className="text-xs text-slip-700 dark:text-slip-300">shown</span>
                 ) : (
-                  <button className="text-xs text-slip-700 underline dark:text-slip-300" onClick={() => props.onShow(run.id)} disabled={run.status !== "done"} data-testid="run-show">
+                  <button
+                    className="text-xs text-slip-700 underline dark:text-slip-300"
+                    onClick={() => props.onShow(run.id)}
+                    disabled={run.status !== "done"}
+                    data-testid="run-show"
+                  >
                     {run.status === "done" ? "Show" : run.status}
                   </button>
                 )}
@@ -123,13 +148,19 @@ export function RunsPanel(props: {
               <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">{describeSettings(run.settings)}</p>
               {run.segments.map((segment) => (
                 <p key={segment.id} className="num text-xs text-slate-500">
-                  {segment.id}: L {segment.lengthRangeM ? metresWithRange(segment.lengthM, segment.lengthRangeM, 0) : metres(segment.lengthM, 0)}, fitted Dmax {metres(segment.fittedDmaxM)}, {MODEL_NAMES[segment.model] ?? segment.model}
+                  {segment.id}: L {segment.lengthRangeM ? metresWithRange(segment.lengthM, segment.lengthRangeM, 0) : metres(segment.lengthM, 0)}, fitted Dmax{" "}
+                  {metres(segment.fittedDmaxM)}, {MODEL_NAMES[segment.model] ?? segment.model}
                 </p>
               ))}
             </li>
           ))}
         </ol>
-        <button className="btn-quiet mt-2" disabled={picked.length !== 2} onClick={() => props.onCompare(picked as [string, string])} data-testid="runs-compare">
+        <button
+          className="btn-quiet mt-2"
+          disabled={picked.length !== 2}
+          onClick={() => props.onCompare(picked as [string, string])}
+          data-testid="runs-compare"
+        >
           Compare the two ticked runs
         </button>
       </section>
@@ -138,22 +169,42 @@ export function RunsPanel(props: {
         <form onSubmit={submit} className="space-y-2 border-t border-slate-200 pt-3 dark:border-slate-800" data-testid="run-settings">
           <h3 className="font-semibold">Run again with these settings</h3>
           <label className="block">
-            <span className="text-xs text-slate-500">Resolution cut-off, as a throw (m). Blank: estimated from the picks{estimatedCutoff.length ? ` (this run: ${estimatedCutoff.map((v) => v.toFixed(1)).join(", ")} m)` : ""}.</span>
-            <input className="field mt-0.5" inputMode="decimal" value={form.cutoff} onChange={(e) => setForm({ ...form, cutoff: e.target.value })} data-testid="setting-cutoff" />
+            <span className="text-xs text-slate-500">
+              Resolution cut-off, as a throw (m). Blank: estimated from the picks
+              {estimatedCutoff.length ? ` (this run: ${estimatedCutoff.map((v) => v.toFixed(1)).join(", ")} m)` : ""}.
+            </span>
+            <input
+              className="field mt-0.5"
+              inputMode="decimal"
+              value={form.cutoff}
+              onChange={(e) => setForm({ ...form, cutoff: e.target.value })}
+              data-testid="setting-cutoff"
+            />
           </label>
           <label className="block">
             <span className="text-xs text-slate-500">Tip-line profile</span>
             <select className="field mt-0.5" value={form.profile} onChange={(e) => setForm({ ...form, profile: e.target.value })} data-testid="setting-profile">
               <option value="auto">Automatic: compare every candidate</option>
-              {AUTOMATIC_CANDIDATES.map((model) => <option key={model} value={model}>Only the {MODEL_NAMES[model]}</option>)}
+              {AUTOMATIC_CANDIDATES.map((model) => (
+                <option key={model} value={model}>
+                  Only the {MODEL_NAMES[model]}
+                </option>
+              ))}
             </select>
           </label>
           <fieldset className="grid grid-cols-2 gap-2">
-            <legend className="text-xs text-slate-500">Ends: detected from the picks, or your word (open where the survey or a crossing fault stops the data)</legend>
+            <legend className="text-xs text-slate-500">
+              Ends: detected from the picks, or your word (open where the survey or a crossing fault stops the data)
+            </legend>
             {SIDES.map(([side, label]) => (
               <label key={side} className="block text-xs">
                 {label}
-                <select className="field mt-0.5 py-1 text-xs" value={form.ends[side]} onChange={(e) => setForm({ ...form, ends: { ...form.ends, [side]: e.target.value } })} data-testid={`setting-end-${side}`}>
+                <select
+                  className="field mt-0.5 py-1 text-xs"
+                  value={form.ends[side]}
+                  onChange={(e) => setForm({ ...form, ends: { ...form.ends, [side]: e.target.value } })}
+                  data-testid={`setting-end-${side}`}
+                >
                   <option value="detect">Detect</option>
                   <option value="open">Open</option>
                   <option value="inferred">Inferred tip</option>
@@ -164,14 +215,30 @@ export function RunsPanel(props: {
           <div className="grid grid-cols-2 gap-2">
             <label className="block">
               <span className="text-xs text-slate-500">Contour interval (m), blank: automatic</span>
-              <input className="field mt-0.5" inputMode="decimal" value={form.interval} onChange={(e) => setForm({ ...form, interval: e.target.value })} data-testid="setting-interval" />
+              <input
+                className="field mt-0.5"
+                inputMode="decimal"
+                value={form.interval}
+                onChange={(e) => setForm({ ...form, interval: e.target.value })}
+                data-testid="setting-interval"
+              />
             </label>
             <label className="block">
               <span className="text-xs text-slate-500">Grid smoothing (m), blank: none</span>
-              <input className="field mt-0.5" inputMode="decimal" value={form.smoothing} onChange={(e) => setForm({ ...form, smoothing: e.target.value })} data-testid="setting-smoothing" />
+              <input
+                className="field mt-0.5"
+                inputMode="decimal"
+                value={form.smoothing}
+                onChange={(e) => setForm({ ...form, smoothing: e.target.value })}
+                data-testid="setting-smoothing"
+              />
             </label>
           </div>
-          {problem && <p className="text-xs text-red-700 dark:text-red-300" data-testid="run-settings-problem">{problem}</p>}
+          {problem && (
+            <p className="text-xs text-red-700 dark:text-red-300" data-testid="run-settings-problem">
+              {problem}
+            </p>
+          )}
           <button className="btn-primary" type="submit" disabled={rerun.isPending} data-testid="run-again">
             {rerun.isPending ? "Starting…" : "Run again"}
           </button>

@@ -18,7 +18,8 @@ interface VelocityForm {
 /** The form's model, or a message naming what is missing. */
 function velocityModelOf(form: VelocityForm): VelocityModel | string {
   if (form.kind === "linear") {
-    const v0 = Number(form.v0), k = Number(form.k);
+    const v0 = Number(form.v0),
+      k = Number(form.k);
     if (form.v0.trim() === "" || !Number.isFinite(v0)) return "Give v0, the velocity at the datum (m/s).";
     if (form.k.trim() === "" || !Number.isFinite(k)) return "Give k, the velocity gradient (1/s); 0 for a constant velocity.";
     return { kind: "linear", v0MPerS: v0, kPerS: k };
@@ -53,7 +54,11 @@ function postForm<T>(url: string, form: FormData, onProgress: (fraction: number)
 const EXAMPLE_FILES: { file: string; about: string; velocity?: VelocityForm }[] = [
   { file: "qg-1-throw-picks.csv", about: "two overlapping segments with a relay, 3,338 picks" },
   { file: "qg-4-throw-picks.csv", about: "one blind fault with an elliptical tip line, 2,205 picks" },
-  { file: "qg-1-cutoff-lines.csv", about: "cut-off lines of four horizons on both walls, in two-way time (v0 = 1800 m/s, k = 0.6 1/s)", velocity: { kind: "linear", v0: "1800", k: "0.6", intervals: [] } },
+  {
+    file: "qg-1-cutoff-lines.csv",
+    about: "cut-off lines of four horizons on both walls, in two-way time (v0 = 1800 m/s, k = 0.6 1/s)",
+    velocity: { kind: "linear", v0: "1800", k: "0.6", intervals: [] },
+  },
 ];
 
 /** The pick CSV format in brief, with the example files to download or to try at once. */
@@ -74,27 +79,45 @@ function ExampleFiles({ onUse, busy }: { onUse: (file: File, velocity?: Velocity
       <div>
         <h3 className="font-semibold">The pick file</h3>
         <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">
-          A CSV with a header row; names in any order and case. Required: <code className="font-mono">x</code>, <code className="font-mono">y</code> (map coordinates, m),{" "}
-          <code className="font-mono">z</code> (elevation, m, positive up; or <code className="font-mono">depth</code>, positive down), <code className="font-mono">throw</code> (m, ≥ 0).
-          Optional: <code className="font-mono">segment</code>, <code className="font-mono">horizon</code>, <code className="font-mono">heave</code>, <code className="font-mono">quality</code> (0–1),{" "}
-          <code className="font-mono">hw_thickness</code>, <code className="font-mono">fw_thickness</code>. Feet are converted when you choose them.
+          A CSV with a header row; names in any order and case. Required: <code className="font-mono">x</code>, <code className="font-mono">y</code> (map
+          coordinates, m), <code className="font-mono">z</code> (elevation, m, positive up; or <code className="font-mono">depth</code>, positive down),{" "}
+          <code className="font-mono">throw</code> (m, ≥ 0). Optional: <code className="font-mono">segment</code>, <code className="font-mono">horizon</code>,{" "}
+          <code className="font-mono">heave</code>, <code className="font-mono">quality</code> (0–1), <code className="font-mono">hw_thickness</code>,{" "}
+          <code className="font-mono">fw_thickness</code>. Feet are converted when you choose them.
         </p>
-        <pre className="mt-2 overflow-x-auto rounded bg-slate-50 p-2 font-mono text-[11px] leading-snug text-slate-700 dark:bg-slate-950 dark:text-slate-300">{"x,y,z,throw,segment\n461880.3,6733605.6,-1527.8,11.6,north\n461910.0,6733550.7,-1527.1,11.0,north"}</pre>
+        <pre className="mt-2 overflow-x-auto rounded bg-slate-50 p-2 font-mono text-[11px] leading-snug text-slate-700 dark:bg-slate-950 dark:text-slate-300">
+          {"x,y,z,throw,segment\n461880.3,6733605.6,-1527.8,11.6,north\n461910.0,6733550.7,-1527.1,11.0,north"}
+        </pre>
         <h3 className="mt-3 font-semibold">Or cut-off lines</h3>
         <p className="mt-1 text-xs text-slate-600 dark:text-slate-300" data-testid="cutoff-help">
-          For each horizon, the line where it meets the fault on each wall: <code className="font-mono">x</code>, <code className="font-mono">y</code>, <code className="font-mono">z</code> (or <code className="font-mono">depth</code>, or <code className="font-mono">twt</code> in ms),{" "}
-          <code className="font-mono">horizon</code>, <code className="font-mono">wall</code> (<code className="font-mono">hw</code> or <code className="font-mono">fw</code>), optional <code className="font-mono">line</code> (pieces of one cut-off) and <code className="font-mono">segment</code>; vertices in order along each line.
-          Slipfield pairs the walls at stations along strike and derives the throw picks. Picks or cut-offs in two-way time need a velocity model.
+          For each horizon, the line where it meets the fault on each wall: <code className="font-mono">x</code>, <code className="font-mono">y</code>,{" "}
+          <code className="font-mono">z</code> (or <code className="font-mono">depth</code>, or <code className="font-mono">twt</code> in ms),{" "}
+          <code className="font-mono">horizon</code>, <code className="font-mono">wall</code> (<code className="font-mono">hw</code> or{" "}
+          <code className="font-mono">fw</code>), optional <code className="font-mono">line</code> (pieces of one cut-off) and{" "}
+          <code className="font-mono">segment</code>; vertices in order along each line. Slipfield pairs the walls at stations along strike and derives the
+          throw picks. Picks or cut-offs in two-way time need a velocity model.
         </p>
       </div>
       <div>
         <h3 className="font-semibold">No file at hand? Try an example</h3>
-        <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">The invented Quillon Graben demo picks: use one here to see the whole analysis, or download it to look inside.</p>
+        <p className="mt-1 text-xs text-slate-600 dark:text-slate-300">
+          The invented Quillon Graben demo picks: use one here to see the whole analysis, or download it to look inside.
+        </p>
         <ul className="mt-2 space-y-2" data-testid="example-files">
           {EXAMPLE_FILES.map((example) => (
             <li key={example.file} className="flex flex-wrap items-center gap-2">
-              <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={busy} onClick={() => void use(example.file)} data-testid={`use-example-${example.file}`}>Use {example.file}</button>
-              <a className="text-xs text-slip-700 underline dark:text-slip-300" href={`/demo/${example.file}`} download>download</a>
+              <button
+                type="button"
+                className="btn-quiet px-2 py-1 text-xs"
+                disabled={busy}
+                onClick={() => void use(example.file)}
+                data-testid={`use-example-${example.file}`}
+              >
+                Use {example.file}
+              </button>
+              <a className="text-xs text-slip-700 underline dark:text-slip-300" href={`/demo/${example.file}`} download>
+                download
+              </a>
               <span className="basis-full text-xs text-slate-500">{example.about}</span>
             </li>
           ))}
@@ -146,7 +169,13 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
     setErrorRows([]);
     setUploadFraction(0);
     try {
-      setPreview(await postForm<UploadPreview>(`/api/faults/${faultId}/pick-sets?step=preview`, formFor(selected, page, dropBadRows, unit, velocityForm), setUploadFraction));
+      setPreview(
+        await postForm<UploadPreview>(
+          `/api/faults/${faultId}/pick-sets?step=preview`,
+          formFor(selected, page, dropBadRows, unit, velocityForm),
+          setUploadFraction,
+        ),
+      );
     } catch (caught) {
       setPreview(null);
       setError(caught instanceof Error ? caught.message : String(caught));
@@ -193,24 +222,54 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
     <div className="space-y-4" data-testid="upload-panel">
       <div
         className={`flex flex-col items-center justify-center gap-2 rounded-xl border-2 border-dashed px-4 py-6 text-center text-sm transition ${dragging ? "border-slip-500 bg-slip-50 dark:bg-slip-950" : "border-slate-300 dark:border-slate-700"}`}
-        onDragOver={(event) => { event.preventDefault(); setDragging(true); }}
+        onDragOver={(event) => {
+          event.preventDefault();
+          setDragging(true);
+        }}
         onDragLeave={() => setDragging(false)}
-        onDrop={(event) => { event.preventDefault(); setDragging(false); choose(event.dataTransfer.files[0]); }}
+        onDrop={(event) => {
+          event.preventDefault();
+          setDragging(false);
+          choose(event.dataTransfer.files[0]);
+        }}
       >
         <p className="font-medium">Drop a pick CSV or a cut-off line file here</p>
-        <p className="text-xs text-slate-500">Picks: x, y, z (or depth, or twt), throw; optional segment, horizon, heave, quality. Cut-off lines: x, y, z (or depth, or twt), horizon, wall. Up to 2,000,000 rows, 100 MB.</p>
-        <p className="max-w-md text-xs text-slate-500" data-testid="quality-use">{QUALITY_USE}</p>
+        <p className="text-xs text-slate-500">
+          Picks: x, y, z (or depth, or twt), throw; optional segment, horizon, heave, quality. Cut-off lines: x, y, z (or depth, or twt), horizon, wall. Up to
+          2,000,000 rows, 100 MB.
+        </p>
+        <p className="max-w-md text-xs text-slate-500" data-testid="quality-use">
+          {QUALITY_USE}
+        </p>
         <div className="mt-1 flex items-center gap-2">
-          <button type="button" className="btn-quiet py-1.5" onClick={() => inputRef.current?.click()}>Choose file</button>
+          <button type="button" className="btn-quiet py-1.5" onClick={() => inputRef.current?.click()}>
+            Choose file
+          </button>
           <label className="flex items-center gap-1.5 text-xs">
             Units
-            <select className="field w-auto py-1 text-xs" value={units} aria-label="Units of the file" onChange={(event) => { const unit = event.target.value as "m" | "ft"; setUnits(unit); if (file) void runPreview(file, 0, unit); }}>
+            <select
+              className="field w-auto py-1 text-xs"
+              value={units}
+              aria-label="Units of the file"
+              onChange={(event) => {
+                const unit = event.target.value as "m" | "ft";
+                setUnits(unit);
+                if (file) void runPreview(file, 0, unit);
+              }}
+            >
               <option value="m">metres</option>
               <option value="ft">feet</option>
             </select>
           </label>
         </div>
-        <input ref={inputRef} type="file" accept=".csv,text/csv" className="sr-only" data-testid="pick-file" onChange={(event) => choose(event.target.files?.[0])} />
+        <input
+          ref={inputRef}
+          type="file"
+          accept=".csv,text/csv"
+          className="sr-only"
+          data-testid="pick-file"
+          onChange={(event) => choose(event.target.files?.[0])}
+        />
       </div>
 
       {withExamples && !preview && <ExampleFiles onUse={choose} busy={busy !== null} />}
@@ -239,11 +298,18 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
       )}
 
       {error && (
-        <div className="rounded-lg border border-red-200 bg-red-50 p-3 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200" data-testid="upload-error">
+        <div
+          className="rounded-lg border border-red-200 bg-red-50 p-3 text-sm text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200"
+          data-testid="upload-error"
+        >
           <p>{error}</p>
           {errorRows.length > 0 && (
             <ul className="mt-2 max-h-40 list-disc overflow-auto pl-5 text-xs">
-              {errorRows.map((problem) => <li key={`${problem.row}-${problem.column}`}>Row {problem.row}, {problem.column}: {problem.reason}</li>)}
+              {errorRows.map((problem) => (
+                <li key={`${problem.row}-${problem.column}`}>
+                  Row {problem.row}, {problem.column}: {problem.reason}
+                </li>
+              ))}
             </ul>
           )}
         </div>
@@ -259,8 +325,14 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
             <span className="text-slate-500">segments: {preview.segments.join(", ") || "—"}</span>
           </div>
           {preview.domain === "time" && preview.velocityModel && (
-            <div className="space-y-1 rounded-lg bg-slate-50 px-3 py-2 text-xs text-slate-700 dark:bg-slate-950 dark:text-slate-300" data-testid="upload-depth-conversion">
-              <p>Two-way time converted to depth with {describeVelocityModel(preview.velocityModel)}; the original times are kept with the {preview.kind === "cutoffs" ? "cut-offs" : "picks"}.</p>
+            <div
+              className="space-y-1 rounded-lg bg-slate-50 px-3 py-2 text-xs text-slate-700 dark:bg-slate-950 dark:text-slate-300"
+              data-testid="upload-depth-conversion"
+            >
+              <p>
+                Two-way time converted to depth with {describeVelocityModel(preview.velocityModel)}; the original times are kept with the{" "}
+                {preview.kind === "cutoffs" ? "cut-offs" : "picks"}.
+              </p>
               <p className="text-amber-800 dark:text-amber-200">{DEPTH_CONVERSION_CAUTION}</p>
             </div>
           )}
@@ -283,11 +355,21 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
               This exact file was already uploaded as version {preview.duplicateOfVersion}. Saving it again makes a new version with the same picks.
             </p>
           )}
-          {preview.warnings.map((warning) => <p key={warning} className="text-xs text-amber-700 dark:text-amber-300">{warning}</p>)}
+          {preview.warnings.map((warning) => (
+            <p key={warning} className="text-xs text-amber-700 dark:text-amber-300">
+              {warning}
+            </p>
+          ))}
           <div className="max-h-48 overflow-auto rounded-lg border border-slate-200 dark:border-slate-800">
             <table className="w-full text-xs">
               <thead className="sticky top-0 bg-slate-50 text-left text-slate-500 dark:bg-slate-950">
-                <tr>{["Row", "x", "y", "z", "Throw", "Segment", ...(preview.horizons.length ? ["Horizon"] : [])].map((heading) => <th key={heading} className="px-2 py-1 font-medium">{heading}</th>)}</tr>
+                <tr>
+                  {["Row", "x", "y", "z", "Throw", "Segment", ...(preview.horizons.length ? ["Horizon"] : [])].map((heading) => (
+                    <th key={heading} className="px-2 py-1 font-medium">
+                      {heading}
+                    </th>
+                  ))}
+                </tr>
               </thead>
               <tbody className="num">
                 {preview.sample.map((pick, index) => (
@@ -307,7 +389,8 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
           {preview.problemCount > 0 && (
             <div className="rounded-lg border border-red-200 dark:border-red-900" data-testid="problem-rows">
               <p className="border-b border-red-200 bg-red-50 px-3 py-1.5 text-xs font-medium text-red-800 dark:border-red-900 dark:bg-red-950 dark:text-red-200">
-                {preview.problemCount.toLocaleString("en")}{preview.problemsTruncated ? "+" : ""} rows with problems
+                {preview.problemCount.toLocaleString("en")}
+                {preview.problemsTruncated ? "+" : ""} rows with problems
               </p>
               <ul className="max-h-40 divide-y divide-slate-100 overflow-auto text-xs dark:divide-slate-800">
                 {preview.problems.map((problem) => (
@@ -318,9 +401,19 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
               </ul>
               {problemPages > 1 && file && (
                 <div className="flex items-center justify-end gap-2 border-t border-slate-100 px-3 py-1 text-xs dark:border-slate-800">
-                  <button className="btn-quiet px-2 py-0.5" disabled={preview.problemPage === 0} onClick={() => runPreview(file, preview.problemPage - 1)}>Previous</button>
-                  <span className="num">{preview.problemPage + 1} / {problemPages}</span>
-                  <button className="btn-quiet px-2 py-0.5" disabled={preview.problemPage + 1 >= problemPages} onClick={() => runPreview(file, preview.problemPage + 1)}>Next</button>
+                  <button className="btn-quiet px-2 py-0.5" disabled={preview.problemPage === 0} onClick={() => runPreview(file, preview.problemPage - 1)}>
+                    Previous
+                  </button>
+                  <span className="num">
+                    {preview.problemPage + 1} / {problemPages}
+                  </span>
+                  <button
+                    className="btn-quiet px-2 py-0.5"
+                    disabled={preview.problemPage + 1 >= problemPages}
+                    onClick={() => runPreview(file, preview.problemPage + 1)}
+                  >
+                    Next
+                  </button>
                 </div>
               )}
               <label className="flex items-center gap-2 border-t border-slate-100 px-3 py-2 text-xs dark:border-slate-800">
@@ -330,8 +423,19 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
             </div>
           )}
           <div className="flex gap-2">
-            <button className="btn-primary" disabled={!canConfirm || busy !== null} onClick={confirm} data-testid="confirm-upload">{cutoffs ? "Save the derived pick set and analyse" : "Save pick set and analyse"}</button>
-            <button className="btn-quiet" onClick={() => { setPreview(null); setFile(null); setVelocity(null); }}>Discard</button>
+            <button className="btn-primary" disabled={!canConfirm || busy !== null} onClick={confirm} data-testid="confirm-upload">
+              {cutoffs ? "Save the derived pick set and analyse" : "Save pick set and analyse"}
+            </button>
+            <button
+              className="btn-quiet"
+              onClick={() => {
+                setPreview(null);
+                setFile(null);
+                setVelocity(null);
+              }}
+            >
+              Discard
+            </button>
           </div>
         </div>
       )}
@@ -340,37 +444,107 @@ export function UploadPanel({ faultId, onSaved, withExamples = false }: { faultI
 }
 
 /** The velocity model of a file in two-way time: v(z) = v0 + k·z, or interval velocities by horizon. */
-function VelocityFields(props: { value: VelocityForm; horizons: string[]; problem: string | null; busy: boolean; onChange: (value: VelocityForm) => void; onApply: () => void }) {
+function VelocityFields(props: {
+  value: VelocityForm;
+  horizons: string[];
+  problem: string | null;
+  busy: boolean;
+  onChange: (value: VelocityForm) => void;
+  onApply: () => void;
+}) {
   const { value, onChange } = props;
   const rows = value.intervals.length ? value.intervals : [{ horizon: "", velocity: "" }];
   return (
     <fieldset className="space-y-2 rounded-lg border border-slate-200 p-3 text-xs dark:border-slate-800" data-testid="velocity-fields">
       <legend className="px-1 font-semibold">Velocity model (the file is in two-way time)</legend>
-      <p className="text-slate-600 dark:text-slate-300">Each wall is converted to depth on its own; throws, heaves and every metric are then in depth. The model is stored with the pick set and shown on the fault sheet.</p>
+      <p className="text-slate-600 dark:text-slate-300">
+        Each wall is converted to depth on its own; throws, heaves and every metric are then in depth. The model is stored with the pick set and shown on the
+        fault sheet.
+      </p>
       <div className="flex gap-4">
-        <label className="flex items-center gap-1"><input type="radio" checked={value.kind === "linear"} onChange={() => onChange({ ...value, kind: "linear" })} data-testid="velocity-kind-linear" /> linear, v(z) = v0 + k·z</label>
-        <label className="flex items-center gap-1"><input type="radio" checked={value.kind === "intervals"} onChange={() => onChange({ ...value, kind: "intervals" })} data-testid="velocity-kind-intervals" /> interval velocities by horizon</label>
+        <label className="flex items-center gap-1">
+          <input type="radio" checked={value.kind === "linear"} onChange={() => onChange({ ...value, kind: "linear" })} data-testid="velocity-kind-linear" />{" "}
+          linear, v(z) = v0 + k·z
+        </label>
+        <label className="flex items-center gap-1">
+          <input
+            type="radio"
+            checked={value.kind === "intervals"}
+            onChange={() => onChange({ ...value, kind: "intervals" })}
+            data-testid="velocity-kind-intervals"
+          />{" "}
+          interval velocities by horizon
+        </label>
       </div>
       {value.kind === "linear" ? (
         <div className="flex flex-wrap gap-3">
-          <label className="flex items-center gap-1.5">v0 (m/s) <input className="field w-24 py-0.5 text-xs" inputMode="decimal" value={value.v0} onChange={(event) => onChange({ ...value, v0: event.target.value })} data-testid="velocity-v0" /></label>
-          <label className="flex items-center gap-1.5">k (1/s) <input className="field w-20 py-0.5 text-xs" inputMode="decimal" value={value.k} onChange={(event) => onChange({ ...value, k: event.target.value })} data-testid="velocity-k" /></label>
+          <label className="flex items-center gap-1.5">
+            v0 (m/s){" "}
+            <input
+              className="field w-24 py-0.5 text-xs"
+              inputMode="decimal"
+              value={value.v0}
+              onChange={(event) => onChange({ ...value, v0: event.target.value })}
+              data-testid="velocity-v0"
+            />
+          </label>
+          <label className="flex items-center gap-1.5">
+            k (1/s){" "}
+            <input
+              className="field w-20 py-0.5 text-xs"
+              inputMode="decimal"
+              value={value.k}
+              onChange={(event) => onChange({ ...value, k: event.target.value })}
+              data-testid="velocity-k"
+            />
+          </label>
         </div>
       ) : (
         <div className="space-y-1">
           <p className="text-slate-500">Shallow to deep: the velocity of the interval above each horizon (from the horizon before it, or from time zero).</p>
           {rows.map((row, index) => (
             <div key={index} className="flex gap-2">
-              <input className="field w-40 py-0.5 text-xs" aria-label={`Horizon ${index + 1}`} list="velocity-horizons" value={row.horizon} onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, horizon: event.target.value } : r)) })} />
-              <input className="field w-24 py-0.5 text-xs" aria-label={`Velocity above horizon ${index + 1} (m/s)`} inputMode="decimal" placeholder="m/s" value={row.velocity} onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, velocity: event.target.value } : r)) })} />
+              <input
+                className="field w-40 py-0.5 text-xs"
+                aria-label={`Horizon ${index + 1}`}
+                list="velocity-horizons"
+                value={row.horizon}
+                onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, horizon: event.target.value } : r)) })}
+              />
+              <input
+                className="field w-24 py-0.5 text-xs"
+                aria-label={`Velocity above horizon ${index + 1} (m/s)`}
+                inputMode="decimal"
+                placeholder="m/s"
+                value={row.velocity}
+                onChange={(event) => onChange({ ...value, intervals: rows.map((r, i) => (i === index ? { ...r, velocity: event.target.value } : r)) })}
+              />
             </div>
           ))}
-          <datalist id="velocity-horizons">{props.horizons.map((horizon) => <option key={horizon} value={horizon} />)}</datalist>
-          <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={() => onChange({ ...value, intervals: [...rows, { horizon: "", velocity: "" }] })}>Add a horizon</button>
+          <datalist id="velocity-horizons">
+            {props.horizons.map((horizon) => (
+              <option key={horizon} value={horizon} />
+            ))}
+          </datalist>
+          <button
+            type="button"
+            className="btn-quiet px-2 py-0.5 text-xs"
+            onClick={() => onChange({ ...value, intervals: [...rows, { horizon: "", velocity: "" }] })}
+          >
+            Add a horizon
+          </button>
         </div>
       )}
       {props.problem && <p className="text-amber-700 dark:text-amber-300">{props.problem}</p>}
-      <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={props.busy || props.problem !== null} onClick={props.onApply} data-testid="velocity-apply">Convert and check</button>
+      <button
+        type="button"
+        className="btn-quiet px-2 py-1 text-xs"
+        disabled={props.busy || props.problem !== null}
+        onClick={props.onApply}
+        data-testid="velocity-apply"
+      >
+        Convert and check
+      </button>
     </fieldset>
   );
 }
@@ -392,12 +566,22 @@ function CutoffSummaryBox(props: {
   return (
     <div className="space-y-2 rounded-lg border border-slate-200 p-3 text-xs dark:border-slate-800" data-testid="cutoff-preview">
       <p>
-        <span className="font-medium">Cut-off lines:</span> {cutoffs.vertexCount.toLocaleString("en")} vertices; the walls paired every {metres(cutoffs.stationSpacingM, 0)} along strike
-        ({cutoffs.stationSpacingSource === "set" ? "as set" : "from the vertex spacing"}) give <span className="font-medium" data-testid="cutoff-derived-count">{props.picks.toLocaleString("en")} throw picks</span>.
+        <span className="font-medium">Cut-off lines:</span> {cutoffs.vertexCount.toLocaleString("en")} vertices; the walls paired every{" "}
+        {metres(cutoffs.stationSpacingM, 0)} along strike ({cutoffs.stationSpacingSource === "set" ? "as set" : "from the vertex spacing"}) give{" "}
+        <span className="font-medium" data-testid="cutoff-derived-count">
+          {props.picks.toLocaleString("en")} throw picks
+        </span>
+        .
       </p>
       <table className="w-full" data-testid="cutoff-horizons">
         <thead className="text-left text-slate-500">
-          <tr><th className="py-0.5 font-medium">Horizon</th><th className="py-0.5 text-right font-medium">Stations</th><th className="py-0.5 text-right font-medium">Max throw</th><th className="py-0.5 text-right font-medium">Mean throw</th><th className="py-0.5 text-right font-medium">One wall only</th></tr>
+          <tr>
+            <th className="py-0.5 font-medium">Horizon</th>
+            <th className="py-0.5 text-right font-medium">Stations</th>
+            <th className="py-0.5 text-right font-medium">Max throw</th>
+            <th className="py-0.5 text-right font-medium">Mean throw</th>
+            <th className="py-0.5 text-right font-medium">One wall only</th>
+          </tr>
         </thead>
         <tbody className="num">
           {cutoffs.horizons.map((horizon) => (
@@ -414,23 +598,43 @@ function CutoffSummaryBox(props: {
       {cutoffs.missingStations > 0 && (
         <p className="text-amber-700 dark:text-amber-300" data-testid="cutoff-missing">
           {cutoffs.missingStations} station{cutoffs.missingStations === 1 ? "" : "s"} with a cut-off on one wall only (reported, not filled in), e.g.{" "}
-          {cutoffs.missing.slice(0, 3).map((m) => `${m.horizon} at s = ${metres(m.s, 0)} (${m.present === "hw" ? "hanging wall" : "footwall"} only)`).join("; ")}.
+          {cutoffs.missing
+            .slice(0, 3)
+            .map((m) => `${m.horizon} at s = ${metres(m.s, 0)} (${m.present === "hw" ? "hanging wall" : "footwall"} only)`)
+            .join("; ")}
+          .
         </p>
       )}
       <div className="flex flex-wrap items-end gap-3">
         <label className="flex flex-col gap-0.5">
           <span className="text-slate-500">Station spacing (m)</span>
-          <input className="field w-24 py-0.5 text-xs" inputMode="decimal" placeholder={String(cutoffs.stationSpacingM)} value={props.spacing} onChange={(event) => props.onSpacing(event.target.value)} data-testid="cutoff-spacing" />
+          <input
+            className="field w-24 py-0.5 text-xs"
+            inputMode="decimal"
+            placeholder={String(cutoffs.stationSpacingM)}
+            value={props.spacing}
+            onChange={(event) => props.onSpacing(event.target.value)}
+            data-testid="cutoff-spacing"
+          />
         </label>
         <label className="flex flex-col gap-0.5" title="Angle in the fault plane from the strike direction to the slip; 90° is pure dip slip">
           <span className="text-slate-500">Rake (°)</span>
-          <input className="field w-20 py-0.5 text-xs" inputMode="decimal" placeholder="90" value={props.rake} onChange={(event) => props.onRake(event.target.value)} data-testid="cutoff-rake" />
+          <input
+            className="field w-20 py-0.5 text-xs"
+            inputMode="decimal"
+            placeholder="90"
+            value={props.rake}
+            onChange={(event) => props.onRake(event.target.value)}
+            data-testid="cutoff-rake"
+          />
         </label>
         <label className="flex items-center gap-1.5">
           <input type="checkbox" checked={props.orderAlongStrike} onChange={(event) => props.onOrder(event.target.checked)} data-testid="cutoff-order" />
           order each line&apos;s vertices along strike
         </label>
-        <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={props.busy} onClick={props.onApply} data-testid="cutoff-apply">Pair again</button>
+        <button type="button" className="btn-quiet px-2 py-1 text-xs" disabled={props.busy} onClick={props.onApply} data-testid="cutoff-apply">
+          Pair again
+        </button>
       </div>
     </div>
   );

@@ -13,8 +13,32 @@ const FOOTER_PX = 64;
 
 /** The picture's colours follow the theme it was taken in (the lines in the view do too). */
 const PALETTES = {
-  light: { page: "#ffffff", groundTop: "#f1f5f9", groundBottom: "#e2e8f0", ink: "#0f172a", muted: "#475569", rule: "#e2e8f0", limit: "#334155", disc: "rgba(255,255,255,0.85)", discRing: "#cbd5e1", chip: "rgba(255,255,255,0.9)", chipRing: "#cbd5e1" },
-  dark: { page: "#0f172a", groundTop: "#0f172a", groundBottom: "#020617", ink: "#f1f5f9", muted: "#94a3b8", rule: "#1e293b", limit: "#cbd5e1", disc: "rgba(15,23,42,0.85)", discRing: "#334155", chip: "rgba(15,23,42,0.9)", chipRing: "#475569" },
+  light: {
+    page: "#ffffff",
+    groundTop: "#f1f5f9",
+    groundBottom: "#e2e8f0",
+    ink: "#0f172a",
+    muted: "#475569",
+    rule: "#e2e8f0",
+    limit: "#334155",
+    disc: "rgba(255,255,255,0.85)",
+    discRing: "#cbd5e1",
+    chip: "rgba(255,255,255,0.9)",
+    chipRing: "#cbd5e1",
+  },
+  dark: {
+    page: "#0f172a",
+    groundTop: "#0f172a",
+    groundBottom: "#020617",
+    ink: "#f1f5f9",
+    muted: "#94a3b8",
+    rule: "#1e293b",
+    limit: "#cbd5e1",
+    disc: "rgba(15,23,42,0.85)",
+    discRing: "#334155",
+    chip: "rgba(15,23,42,0.9)",
+    chipRing: "#475569",
+  },
 };
 // the app's own fonts (next/font gives them generated family names)
 const fontFamily = (element: Element, fallback: string) => getComputedStyle(element).fontFamily || fallback;
@@ -141,7 +165,11 @@ export async function composeScenePicture(frame: HTMLElement, title: string): Pr
   context.fillText(title, 12, 21);
   context.fillStyle = MUTED;
   context.font = `12px ${FONT}`;
-  context.fillText(`3D view in perspective${exaggeration > 0 ? `, displacement drawn as relief ×${exaggeration.toFixed(1)}` : ", flat on the fault plane"}; depths below datum; view as saved from the workspace.`, 12, 38);
+  context.fillText(
+    `3D view in perspective${exaggeration > 0 ? `, displacement drawn as relief ×${exaggeration.toFixed(1)}` : ", flat on the fault plane"}; depths below datum; view as saved from the workspace.`,
+    12,
+    38,
+  );
 
   // footer: colour bar with its ticks and units, line keys, scale bar
   const legend = frame.querySelector<HTMLElement>('[data-testid="legend"]');

@@ -25,7 +25,8 @@ export async function studyActivity(studyId: string, limit = 20): Promise<Activi
     .limit(limit);
 
   const detail = (entry: (typeof entries)[number], key: string) => (typeof entry.details[key] === "string" ? (entry.details[key] as string) : undefined);
-  const targetsOf = (...actions: string[]) => idsOf(entries.filter((entry) => actions.some((action) => entry.action.startsWith(action))).map((entry) => entry.target));
+  const targetsOf = (...actions: string[]) =>
+    idsOf(entries.filter((entry) => actions.some((action) => entry.action.startsWith(action))).map((entry) => entry.target));
   const replyIds = targetsOf("pin.reply.");
   const linkIds = targetsOf("viewpoint-link.");
   const memberIds = targetsOf("member.role", "member.remove");
@@ -33,18 +34,34 @@ export async function studyActivity(studyId: string, limit = 20): Promise<Activi
   const [studyFaults, replyRows, linkRows, memberRows] = await Promise.all([
     db.select({ id: faults.id, name: faults.name }).from(faults).where(eq(faults.studyId, studyId)),
     replyIds.length ? db.select({ id: pinReplies.id, pinId: pinReplies.pinId }).from(pinReplies).where(inArray(pinReplies.id, replyIds)) : [],
-    linkIds.length ? db.select({ id: viewpointLinks.id, viewpointId: viewpointLinks.viewpointId }).from(viewpointLinks).where(inArray(viewpointLinks.id, linkIds)) : [],
+    linkIds.length
+      ? db.select({ id: viewpointLinks.id, viewpointId: viewpointLinks.viewpointId }).from(viewpointLinks).where(inArray(viewpointLinks.id, linkIds))
+      : [],
     memberIds.length ? db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, memberIds)) : [],
   ]);
   const faultIds = studyFaults.map((fault) => fault.id);
-  const pinIds = idsOf([...targetsOf("pin.create", "pin.resolve", "pin.reopen"), ...entries.map((entry) => detail(entry, "pinId")), ...replyRows.map((reply) => reply.pinId)]);
-  const viewpointIds = idsOf([...targetsOf("viewpoint.create", "viewpoint.update"), ...entries.map((entry) => detail(entry, "viewpointId")), ...linkRows.map((link) => link.viewpointId)]);
+  const pinIds = idsOf([
+    ...targetsOf("pin.create", "pin.resolve", "pin.reopen"),
+    ...entries.map((entry) => detail(entry, "pinId")),
+    ...replyRows.map((reply) => reply.pinId),
+  ]);
+  const viewpointIds = idsOf([
+    ...targetsOf("viewpoint.create", "viewpoint.update"),
+    ...entries.map((entry) => detail(entry, "viewpointId")),
+    ...linkRows.map((link) => link.viewpointId),
+  ]);
   const [pinRows, viewpointRows] = await Promise.all([
     pinIds.length && faultIds.length
-      ? db.select({ id: pins.id, faultId: pins.faultId, body: pins.body, deletedAt: pins.deletedAt }).from(pins).where(and(inArray(pins.id, pinIds), inArray(pins.faultId, faultIds)))
+      ? db
+          .select({ id: pins.id, faultId: pins.faultId, body: pins.body, deletedAt: pins.deletedAt })
+          .from(pins)
+          .where(and(inArray(pins.id, pinIds), inArray(pins.faultId, faultIds)))
       : [],
     viewpointIds.length && faultIds.length
-      ? db.select({ id: viewpoints.id, faultId: viewpoints.faultId, title: viewpoints.title }).from(viewpoints).where(and(inArray(viewpoints.id, viewpointIds), inArray(viewpoints.faultId, faultIds)))
+      ? db
+          .select({ id: viewpoints.id, faultId: viewpoints.faultId, title: viewpoints.title })
+          .from(viewpoints)
+          .where(and(inArray(viewpoints.id, viewpointIds), inArray(viewpoints.faultId, faultIds)))
       : [],
   ]);
 

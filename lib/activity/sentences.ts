@@ -29,14 +29,24 @@ const QUOTE_LIMIT = 60;
 
 /** The first words of a note, for a sentence: markup stripped, one line, cut at a word. */
 export function quoteOf(body: string): string {
-  const flat = body.replace(/`([^`]*)`/g, "$1").replace(/\*\*([^*]+)\*\*/g, "$1").replace(/\[([^\]]+)\]\([^)]*\)/g, "$1").replace(/\s+/g, " ").trim();
+  const flat = body
+    .replace(/`([^`]*)`/g, "$1")
+    .replace(/\*\*([^*]+)\*\*/g, "$1")
+    .replace(/\[([^\]]+)\]\([^)]*\)/g, "$1")
+    .replace(/\s+/g, " ")
+    .trim();
   if (flat.length <= QUOTE_LIMIT) return `“${flat}”`;
   const cut = flat.slice(0, QUOTE_LIMIT);
   const space = cut.lastIndexOf(" ");
   return `“${(space > QUOTE_LIMIT / 2 ? cut.slice(0, space) : cut).trimEnd()}…”`;
 }
 
-const REGIME_WORDS: Record<string, string> = { normal: "normal faulting", "strike-slip": "strike-slip faulting", reverse: "reverse faulting", custom: "custom" };
+const REGIME_WORDS: Record<string, string> = {
+  normal: "normal faulting",
+  "strike-slip": "strike-slip faulting",
+  reverse: "reverse faulting",
+  custom: "custom",
+};
 
 const text = (words: string): ActivityPart => ({ text: words });
 const str = (value: unknown): string | undefined => (typeof value === "string" && value.length > 0 ? value : undefined);
@@ -105,7 +115,11 @@ export function activitySentence(entry: ActivityEntry, lookups: ActivityLookups)
     case "member.accept-invitation":
       return end([text(`joined the study${str(details.role) ? ` as ${details.role}` : ""}`)]);
     case "member.role":
-      return end([text("made "), person(entry.target), text(str(details.role) ? ` ${details.role === "owner" || details.role === "interpreter" ? "an" : "a"} ${details.role}` : " a member with another role")]);
+      return end([
+        text("made "),
+        person(entry.target),
+        text(str(details.role) ? ` ${details.role === "owner" || details.role === "interpreter" ? "an" : "a"} ${details.role}` : " a member with another role"),
+      ]);
     case "member.remove":
       return end([text("removed "), person(entry.target), text(" from the study")]);
     case "pin.create":
@@ -129,14 +143,18 @@ export function activitySentence(entry: ActivityEntry, lookups: ActivityLookups)
     case "viewpoint-link.create": {
       const days = num(details.expiresInDays);
       const terms = [details.includePins ? "with pinned notes" : "without pinned notes", days ? `for ${days} day${days === 1 ? "" : "s"}` : "with no expiry"];
-      return end([text("shared "), ...viewpointWords(str(details.viewpointId) ?? lookups.links.get(entry.target)?.viewpointId), text(` as a read-only link (${terms.join(", ")})`)]);
+      return end([
+        text("shared "),
+        ...viewpointWords(str(details.viewpointId) ?? lookups.links.get(entry.target)?.viewpointId),
+        text(` as a read-only link (${terms.join(", ")})`),
+      ]);
     }
     case "viewpoint-link.revoke":
       return end([text("turned off a shared link to "), ...viewpointWords(str(details.viewpointId) ?? lookups.links.get(entry.target)?.viewpointId)]);
     case "stress.set": {
       const version = num(details.version);
       const regime = str(details.regime);
-      const about = [version !== undefined ? `version ${version}` : "", regime ? REGIME_WORDS[regime] ?? regime : ""].filter(Boolean).join(", ");
+      const about = [version !== undefined ? `version ${version}` : "", regime ? (REGIME_WORDS[regime] ?? regime) : ""].filter(Boolean).join(", ");
       const studyWide = entry.target.startsWith("study:");
       const subject: ActivityPart[] = studyWide ? [text("the study’s default stress state")] : [text("the stress state of "), fault(entry.target)];
       return end([text("set "), ...subject, ...(about ? [text(` (${about})`)] : [])]);

@@ -24,11 +24,26 @@ export interface AnalysisOutput {
 }
 
 /** The whole compute of one analysis, with no I/O: runs in the worker thread, or in-process in tests. */
-export function computeAnalysis(job: AnalysisJob, onStage: (stage: string, fraction: number) => void = () => {}, threads: { tipLineFitter?: TipLineFitter } = {}): AnalysisOutput {
+export function computeAnalysis(
+  job: AnalysisJob,
+  onStage: (stage: string, fraction: number) => void = () => {},
+  threads: { tipLineFitter?: TipLineFitter } = {},
+): AnalysisOutput {
   const { picks, planes } = decodePickSet(job.picks);
-  const { report, grids, triangulations, surfaces, pickDisplacementM } = analyzePicks(picks, { ...job.settings, kinematics: job.kinematics, units: job.units, planes, onStage, ...threads });
+  const { report, grids, triangulations, surfaces, pickDisplacementM } = analyzePicks(picks, {
+    ...job.settings,
+    kinematics: job.kinematics,
+    units: job.units,
+    planes,
+    onStage,
+    ...threads,
+  });
   onStage("display", 0.98);
-  return { report, display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks, surfaces, pickDisplacementM })), outputs: packAnalysisOutputs({ grids, triangulations, pickDisplacementM }) };
+  return {
+    report,
+    display: encodeFaultDisplay(buildFaultDisplay({ report, grids, picks, surfaces, pickDisplacementM })),
+    outputs: packAnalysisOutputs({ grids, triangulations, pickDisplacementM }),
+  };
 }
 
 /** The engine's full-resolution grids for a stored pick set, e.g. for exports; no I/O. */

@@ -22,7 +22,11 @@ export interface AnalysisOutputs {
   pickDisplacementM?: Float64Array;
 }
 
-export function packAnalysisOutputs({ grids, triangulations, pickDisplacementM }: Pick<PipelineResult, "grids" | "triangulations" | "pickDisplacementM">): Uint8Array {
+export function packAnalysisOutputs({
+  grids,
+  triangulations,
+  pickDisplacementM,
+}: Pick<PipelineResult, "grids" | "triangulations" | "pickDisplacementM">): Uint8Array {
   return zlibSync(encodeRecord({ grids, triangulations, pickDisplacementM }, OUTPUTS_MAGIC), { level: 1 });
 }
 

@@ -45,13 +45,7 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
     })
     .from(analyses)
     .innerJoin(pickSets, eq(pickSets.id, analyses.pickSetId))
-    .where(
-      and(
-        eq(pickSets.faultId, faultId),
-        pickSetId ? eq(pickSets.id, pickSetId) : undefined,
-        analysisId ? eq(analyses.id, analysisId) : undefined,
-      ),
-    )
+    .where(and(eq(pickSets.faultId, faultId), pickSetId ? eq(pickSets.id, pickSetId) : undefined, analysisId ? eq(analyses.id, analysisId) : undefined))
     .orderBy(desc(pickSets.version), desc(analyses.createdAt))
     .limit(1);
   const row = rows[0];
@@ -73,10 +67,14 @@ export async function latestAnalysisForFault(faultId: string, pickSetId?: string
  * handlers drop a Content-Encoding set by the handler, so the body cannot be kept compressed as well: next compresses
  * each response.
  */
-export async function latestAnalysisResponseBody(faultId: string, options: { pickSetId?: string; analysisId?: string; contourRings?: boolean } = {}): Promise<string> {
+export async function latestAnalysisResponseBody(
+  faultId: string,
+  options: { pickSetId?: string; analysisId?: string; contourRings?: boolean } = {},
+): Promise<string> {
   const latest = await latestAnalysisForFault(faultId, options.pickSetId, options.analysisId);
   const rings = options.contourRings ?? true;
-  if (!latest || latest.status !== "done" || latest.result === null) return JSON.stringify({ analysis: latest && { ...latest, result: latest.result && withoutContourRings(latest.result) } });
+  if (!latest || latest.status !== "done" || latest.result === null)
+    return JSON.stringify({ analysis: latest && { ...latest, result: latest.result && withoutContourRings(latest.result) } });
   const key = `${faultId}:${latest.id}:${rings ? "whole" : "no-rings"}`;
   let body = finishedReportBodies.get(key);
   if (body === undefined) {
@@ -101,7 +99,6 @@ export async function analysisDisplay(faultId: string, analysisId: string) {
   if (row?.display && row.status === "done") finishedDisplays.set(key, row.display);
   return row?.display ?? null;
 }
-
 
 /**
  * Every run of the analysis of one pick set (the fault's newest when none is named), newest first: each run is kept

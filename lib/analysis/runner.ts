@@ -61,14 +61,24 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
   let lastWrite = 0;
   const stageWrites: Promise<unknown>[] = [];
   try {
-    const input: AnalysisJob = { picks: pickSet.picks, units: pickSet.units, settings: parseAnalysisSettings(analysis.parameters), kinematics: faultKinematics(pickSet) };
+    const input: AnalysisJob = {
+      picks: pickSet.picks,
+      units: pickSet.units,
+      settings: parseAnalysisSettings(analysis.parameters),
+      kinematics: faultKinematics(pickSet),
+    };
     const { report, display, outputs } = await computeAnalysisOffThread(
       input,
       (stage, fraction) => {
         const now = Date.now();
         if (now - lastWrite < 150) return;
         lastWrite = now;
-        stageWrites.push(db.update(analyses).set({ stage, progress: fraction }).where(and(eq(analyses.id, analysisId), eq(analyses.status, "running"), heldBy(job.id, owner))));
+        stageWrites.push(
+          db
+            .update(analyses)
+            .set({ stage, progress: fraction })
+            .where(and(eq(analyses.id, analysisId), eq(analyses.status, "running"), heldBy(job.id, owner))),
+        );
       },
       signal,
     );
@@ -78,9 +88,20 @@ async function runAnalysisJob({ job, owner, signal }: JobContext) {
       await tx
         .update(analyses)
         // the report without contour rings: the display payload holds them (once)
-        .set({ status: "done", stage: "done", progress: 1, result: withoutContourRings(report), display, engineVersion: ENGINE_VERSION, finishedAt: new Date() })
+        .set({
+          status: "done",
+          stage: "done",
+          progress: 1,
+          result: withoutContourRings(report),
+          display,
+          engineVersion: ENGINE_VERSION,
+          finishedAt: new Date(),
+        })
         .where(eq(analyses.id, analysisId));
-      await tx.insert(analysisOutputs).values({ analysisId, body: outputs }).onConflictDoUpdate({ target: analysisOutputs.analysisId, set: { body: outputs } });
+      await tx
+        .insert(analysisOutputs)
+        .values({ analysisId, body: outputs })
+        .onConflictDoUpdate({ target: analysisOutputs.analysisId, set: { body: outputs } });
     });
   } catch (error) {
     await Promise.allSettled(stageWrites);

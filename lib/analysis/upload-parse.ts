@@ -108,7 +108,8 @@ export function checkUploadSize(name: string, bytes: Uint8Array) {
 export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
   checkUploadSize(job.name, job.bytes);
   const text = decodeText(job.name, job.bytes);
-  if (countRows(text) > MAX_ROWS + 1) throw new UploadProblem(413, `${job.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
+  if (countRows(text) > MAX_ROWS + 1)
+    throw new UploadProblem(413, `${job.name} has more than ${MAX_ROWS.toLocaleString("en")} rows, the limit for one pick set.`);
   const domain = verticalColumnOf(text) === "twt" ? "time" : "depth";
   if (isCutoffCsv(text)) return parseCutoffUpload(job, text, domain);
   let parsed: ParseResult;
@@ -124,18 +125,23 @@ export function parseUploadedFile(job: UploadParseJob): UploadParseOutput {
 function asUploadProblem(error: unknown, fallback: string): unknown {
   if (error instanceof UploadProblem) return error;
   const rejected = (error as { rejected?: RejectedRow[] }).rejected;
-  if (Array.isArray(rejected) || error instanceof Error) return new UploadProblem(422, error instanceof Error ? error.message : fallback, { rejected: rejected ?? [] });
+  if (Array.isArray(rejected) || error instanceof Error)
+    return new UploadProblem(422, error instanceof Error ? error.message : fallback, { rejected: rejected ?? [] });
   return error;
 }
 
 function needsVelocityModel(name: string, kind: "picks" | "cutoffs", horizons: string[]) {
   const what = kind === "cutoffs" ? "its cut-offs" : "its picks";
-  return new UploadProblem(422, `${name} is in two-way time (twt, ms). Give a velocity model to convert ${what} to depth: throws, heaves and every metric are computed in depth only.`, {
-    rejected: [],
-    needsVelocityModel: true,
-    kind,
-    horizons,
-  });
+  return new UploadProblem(
+    422,
+    `${name} is in two-way time (twt, ms). Give a velocity model to convert ${what} to depth: throws, heaves and every metric are computed in depth only.`,
+    {
+      rejected: [],
+      needsVelocityModel: true,
+      kind,
+      horizons,
+    },
+  );
 }
 
 /** The horizons named in a pick file in time (for the interval-velocity table), read with the bad rows set aside. */

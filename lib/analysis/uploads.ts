@@ -20,7 +20,6 @@ export { MAX_ROWS, MAX_UPLOAD_BYTES } from "./upload-parse";
 const PREVIEW_ROWS = 20;
 export const PROBLEM_PAGE_SIZE = 50;
 
-
 export interface UploadedFile {
   name: string;
   bytes: Uint8Array;
@@ -133,7 +132,14 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
   const checksum = checksumOf(file.bytes);
   const velocityModel = domain === "time" ? (options.velocityModel ?? null) : null;
   const derivedFrom: PickSetProvenance | null = cutoffs
-    ? { kind: "cutoffs", fileName: file.name.slice(0, 255), checksum, stationSpacingM: cutoffs.summary.stationSpacingM, stationSpacingSource: cutoffs.summary.stationSpacingSource, rakeDeg: cutoffs.summary.rakeDeg }
+    ? {
+        kind: "cutoffs",
+        fileName: file.name.slice(0, 255),
+        checksum,
+        stationSpacingM: cutoffs.summary.stationSpacingM,
+        stationSpacingSource: cutoffs.summary.stationSpacingSource,
+        rakeDeg: cutoffs.summary.rakeDeg,
+      }
     : null;
   const db = await getDb();
   // the pick set, its cut-off set (for a cut-off file), the analysis and its job land together or not at all
@@ -141,7 +147,10 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
     // uploads to one fault take their version numbers one at a time (on a PostgreSQL server they arrive concurrently,
     // through several web processes)
     await tx.select({ id: faults.id }).from(faults).where(eq(faults.id, access.faultId)).for("update");
-    const [{ latest }] = await tx.select({ latest: max(pickSets.version) }).from(pickSets).where(eq(pickSets.faultId, access.faultId));
+    const [{ latest }] = await tx
+      .select({ latest: max(pickSets.version) })
+      .from(pickSets)
+      .where(eq(pickSets.faultId, access.faultId));
     for (const name of parsed.picks.segmentNames) {
       await tx.insert(segments).values({ faultId: access.faultId, name }).onConflictDoNothing();
     }
@@ -190,7 +199,14 @@ export async function confirmUpload(access: StudyAccess & { faultId: string }, f
     userId: access.user.id,
     action: "pickset.upload",
     target: `${file.name} (v${pickSet.version})`,
-    details: { faultId: access.faultId, rows: parsed.accepted, dropped: parsed.rejected.length, checksum, ...(kind === "cutoffs" ? { derivedFrom: "cutoffs" } : {}), ...(velocityModel ? { depthConverted: true } : {}) },
+    details: {
+      faultId: access.faultId,
+      rows: parsed.accepted,
+      dropped: parsed.rejected.length,
+      checksum,
+      ...(kind === "cutoffs" ? { derivedFrom: "cutoffs" } : {}),
+      ...(velocityModel ? { depthConverted: true } : {}),
+    },
   });
   scheduleAnalysis(analysis.id);
   return { pickSetId: pickSet.id, version: pickSet.version, analysisId: analysis.id };

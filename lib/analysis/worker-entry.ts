@@ -28,7 +28,9 @@ if (!serveTipLineFits(workerData)) serveAnalysisJobs();
 
 function serveAnalysisJobs() {
   const { fitter: tipLineFitter } = threadedTipLineFitter(new URL(import.meta.url));
-  parentPort!.on("message", (job: AnalysisJob | UploadParseJob | MultipartJob | StressScreenJob) => (job.output === "multipart" ? void takeFormApart(job) : runJob(job, tipLineFitter)));
+  parentPort!.on("message", (job: AnalysisJob | UploadParseJob | MultipartJob | StressScreenJob) =>
+    job.output === "multipart" ? void takeFormApart(job) : runJob(job, tipLineFitter),
+  );
 }
 
 function failed(error: unknown) {

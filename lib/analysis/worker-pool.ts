@@ -4,7 +4,15 @@ import path from "node:path";
 import { Worker } from "node:worker_threads";
 import type { PipelineResult } from "@/lib/engine/pipeline";
 import { computeAnalysis, computeFullResolution, type AnalysisJob, type AnalysisOutput } from "./compute";
-import { parseUploadedFile, readMultipart, UploadProblem, type MultipartJob, type MultipartOutput, type UploadParseJob, type UploadParseOutput } from "./upload-parse";
+import {
+  parseUploadedFile,
+  readMultipart,
+  UploadProblem,
+  type MultipartJob,
+  type MultipartOutput,
+  type UploadParseJob,
+  type UploadParseOutput,
+} from "./upload-parse";
 import { config } from "@/lib/config";
 import { computeFaultScreen, type FaultScreenResult, type StressScreenJob } from "@/lib/stress/screen-compute";
 
@@ -36,22 +44,45 @@ export function computeAnalysisOffThread(job: AnalysisJob, onStage: (stage: stri
 
 /** An uploaded file read and checked (and encoded for storage) off the web server's thread, like an analysis. */
 export function parseUploadOffThread(job: UploadParseJob): Promise<UploadParseOutput> {
-  return runJob(job, () => {}, () => parseUploadedFile(job), PARSE_TIME_LIMIT_MS);
+  return runJob(
+    job,
+    () => {},
+    () => parseUploadedFile(job),
+    PARSE_TIME_LIMIT_MS,
+  );
 }
 
 /** A multipart upload body taken apart off the web server's thread; the body's buffer moves to the worker (not copied). */
 export function readMultipartOffThread(job: MultipartJob): Promise<MultipartOutput> {
-  return runJob(job, () => {}, () => readMultipart(job), PARSE_TIME_LIMIT_MS, [job.body.buffer as ArrayBuffer]);
+  return runJob(
+    job,
+    () => {},
+    () => readMultipart(job),
+    PARSE_TIME_LIMIT_MS,
+    [job.body.buffer as ArrayBuffer],
+  );
 }
 
 /** Full-resolution engine grids of a stored pick set (exports), computed off the event loop like an analysis. */
 export function computeGridsOffThread(job: AnalysisJob, signal?: AbortSignal): Promise<PipelineResult> {
-  return runJob({ ...job, output: "grids" }, () => {}, () => computeFullResolution(job), analysisTimeLimitMs(), [], signal);
+  return runJob(
+    { ...job, output: "grids" },
+    () => {},
+    () => computeFullResolution(job),
+    analysisTimeLimitMs(),
+    [],
+    signal,
+  );
 }
 
 /** A fault's reactivation screen from its analysis' stored results, off the event loop like an analysis. */
 export function screenFaultOffThread(job: StressScreenJob): Promise<FaultScreenResult> {
-  return runJob(job, () => {}, () => computeFaultScreen(job), analysisTimeLimitMs());
+  return runJob(
+    job,
+    () => {},
+    () => computeFaultScreen(job),
+    analysisTimeLimitMs(),
+  );
 }
 
 /**
@@ -86,7 +117,9 @@ function takeWorker(): Worker {
     return warm;
   }
   workerStarts++;
-  const worker = new Worker(/*turbopackIgnore: true*/ WORKER_FILE, { resourceLimits: { maxOldGenerationSizeMb: 3072, maxYoungGenerationSizeMb: YOUNG_GENERATION_MB } });
+  const worker = new Worker(/*turbopackIgnore: true*/ WORKER_FILE, {
+    resourceLimits: { maxOldGenerationSizeMb: 3072, maxYoungGenerationSizeMb: YOUNG_GENERATION_MB },
+  });
   // a thread that dies while waiting idle is simply forgotten (a running job's own handlers report its failure)
   worker.on("error", () => discardIdle(worker));
   worker.on("exit", () => discardIdle(worker));
@@ -129,24 +162,37 @@ function runJob<T>(
 ): Promise<T> {
   if (signal?.aborted) return Promise.reject(new ComputeAborted("The job was given up before it started."));
   if (config().SLIPFIELD_INLINE_ANALYSIS === "1" || !existsSync(WORKER_FILE)) {
-    return new Promise((resolve, reject) => setImmediate(() => {
-      try {
-        resolve(inline());
-      } catch (error) {
-        reject(error);
-      }
-    }));
+    return new Promise((resolve, reject) =>
+      setImmediate(() => {
+        try {
+          resolve(inline());
+        } catch (error) {
+          reject(error);
+        }
+      }),
+    );
   }
   return new Promise((resolve, reject) => {
     const worker = takeWorker();
     let settled = false;
-    const onMessage = (message: { kind: string; stage?: string; fraction?: number; output?: T; message?: string; problem?: Pick<UploadProblem, "status" | "details"> }) => {
+    const onMessage = (message: {
+      kind: string;
+      stage?: string;
+      fraction?: number;
+      output?: T;
+      message?: string;
+      problem?: Pick<UploadProblem, "status" | "details">;
+    }) => {
       if (message.kind === "stage") onStage(message.stage!, message.fraction!);
       else if (message.kind === "done") finish(true, () => resolve(message.output!));
-      else if (message.kind === "failed") finish(true, () => reject(message.problem ? new UploadProblem(message.problem.status, message.message!, message.problem.details) : new Error(message.message)));
+      else if (message.kind === "failed")
+        finish(true, () =>
+          reject(message.problem ? new UploadProblem(message.problem.status, message.message!, message.problem.details) : new Error(message.message)),
+        );
     };
     const onError = (error: Error) => finish(false, () => reject(error));
-    const onExit = (code: number) => finish(false, () => reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`)));
+    const onExit = (code: number) =>
+      finish(false, () => reject(new Error(`The analysis worker stopped unexpectedly (exit code ${code}); it may have run out of memory.`)));
     const onAbort = () => finish(false, () => reject(new ComputeAborted("The job was given up while it computed.")));
     const finish = (reuse: boolean, outcome: () => void) => {
       if (settled) return;
@@ -159,7 +205,13 @@ function runJob<T>(
       outcome();
     };
     const timer = setTimeout(() => {
-      finish(false, () => reject(new AnalysisTimeout(`The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`)));
+      finish(false, () =>
+        reject(
+          new AnalysisTimeout(
+            `The analysis ran past the ${limitMs < 1000 ? `${limitMs} ms` : `${Math.round(limitMs / 1000)} s`} time limit and was stopped. Try a coarser grid (larger cell size) or fewer picks.`,
+          ),
+        ),
+      );
     }, limitMs);
     signal?.addEventListener("abort", onAbort, { once: true });
     worker.on("message", onMessage).on("error", onError).on("exit", onExit);

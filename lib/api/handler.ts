@@ -22,9 +22,7 @@ function isCrossSiteMutation(request: Request): boolean {
 }
 
 /** Wraps a route handler: JSON problems for known failures, a bare 500 (never a stack trace) for the rest. */
-export function route<P = Record<string, string>>(
-  handler: (request: Request, params: P) => Promise<Response>,
-) {
+export function route<P = Record<string, string>>(handler: (request: Request, params: P) => Promise<Response>) {
   return async (request: Request, context: RouteContext<P>): Promise<Response> => {
     try {
       if (isCrossSiteMutation(request)) return problem(403, "Cross-site request refused.");

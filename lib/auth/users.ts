@@ -8,7 +8,6 @@ import { emailSchema } from "@/lib/contracts/people";
 import { signInLimiter } from "@/lib/rate-limit";
 import { recordAudit } from "@/lib/audit";
 
-
 export const signUpSchema = z.object({
   name: z.string().trim().min(1, "Enter your name.").max(100, "Use at most 100 characters."),
   email: emailSchema,

@@ -150,7 +150,9 @@ export const uploadPreviewSchema = z.strictObject({
       stationSpacingM: finite,
       stationSpacingSource: z.enum(["data", "set"]),
       rakeDeg: finite,
-      horizons: z.array(z.strictObject({ name: z.string(), stations: z.number().int(), maxThrowM: finite, meanThrowM: finite, missingStations: z.number().int() })),
+      horizons: z.array(
+        z.strictObject({ name: z.string(), stations: z.number().int(), maxThrowM: finite, meanThrowM: finite, missingStations: z.number().int() }),
+      ),
       missingStations: z.number().int(),
       missing: z.array(z.object({ segment: z.string(), horizon: z.string(), s: finite, present: z.enum(["hw", "fw"]) })),
     })

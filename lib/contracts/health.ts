@@ -14,7 +14,17 @@ export const healthStatusSchema = z.strictObject({
   workers: z
     .strictObject({
       live: z.number().int(),
-      list: z.array(z.strictObject({ id: z.string(), role: z.string(), kinds: z.array(z.string()), slots: z.number().int(), running: z.number().int(), state: z.string(), secondsAgo: z.number() })),
+      list: z.array(
+        z.strictObject({
+          id: z.string(),
+          role: z.string(),
+          kinds: z.array(z.string()),
+          slots: z.number().int(),
+          running: z.number().int(),
+          state: z.string(),
+          secondsAgo: z.number(),
+        }),
+      ),
     })
     .optional(),
 });

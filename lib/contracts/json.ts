@@ -8,7 +8,9 @@ export const finite = z.number();
  * A measure that may be missing: NaN in memory, null in JSON (JSON.stringify writes NaN and ±Infinity as null). Read back
  * as NaN, so code can test it with Number.isFinite whichever side of the wire it is on.
  */
-export const maybeNumber = z.union([z.number(), z.nan(), z.null(), z.literal(Infinity), z.literal(-Infinity)]).transform((value) => (value === null ? NaN : value));
+export const maybeNumber = z
+  .union([z.number(), z.nan(), z.null(), z.literal(Infinity), z.literal(-Infinity)])
+  .transform((value) => (value === null ? NaN : value));
 
 /** A point or direction in world metres (x East, y North, z Up), or any fixed triple. */
 export const vec3 = z.tuple([finite, finite, finite]);

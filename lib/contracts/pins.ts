@@ -88,7 +88,10 @@ export const pinListSchema = z.strictObject({
 export type PinList = z.infer<typeof pinListSchema>;
 
 /** POST /api/faults/:id/pins */
-export const pinCreatedSchema = z.strictObject({ pin: z.strictObject({ id: z.string(), pickSetVersion: z.number().int().nullable() }), mentioned: z.number().int() });
+export const pinCreatedSchema = z.strictObject({
+  pin: z.strictObject({ id: z.string(), pickSetVersion: z.number().int().nullable() }),
+  mentioned: z.number().int(),
+});
 /** PATCH /api/pins/:id */
 export const pinUpdatedSchema = z.strictObject({ pin: z.strictObject({ id: z.string(), state: z.enum(["open", "resolved"]), body: z.string() }) });
 /** POST /api/pins/:id/replies */

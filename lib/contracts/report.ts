@@ -72,7 +72,15 @@ export const tipLineSchema = z.strictObject({
   profile: tipProfileModelSchema,
   /** every profile tried, most weight first */
   candidates: z.array(
-    z.strictObject({ model: profileModelSchema, weight: maybeNumber, aicc: maybeNumber, rmsM: maybeNumber, lengthM: maybeNumber, heightM: maybeNumber, dmaxM: maybeNumber }),
+    z.strictObject({
+      model: profileModelSchema,
+      weight: maybeNumber,
+      aicc: maybeNumber,
+      rmsM: maybeNumber,
+      lengthM: maybeNumber,
+      heightM: maybeNumber,
+      dmaxM: maybeNumber,
+    }),
   ),
   /** how well each candidate model fitted, rms misfit in m */
   modelMisfits: z.partialRecord(profileModelSchema, maybeNumber),

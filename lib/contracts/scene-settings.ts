@@ -14,9 +14,7 @@ export type ColourMode = string;
 
 export const sceneSettingsSchema = z.object({
   /** layers by name; a name the scene does not know is kept but ignored when applied */
-  layers: z
-    .record(z.string().trim().min(1).max(40), z.boolean())
-    .refine((layers) => Object.keys(layers).length <= 30, "At most 30 layers."),
+  layers: z.record(z.string().trim().min(1).max(40), z.boolean()).refine((layers) => Object.keys(layers).length <= 30, "At most 30 layers."),
   colourMode: z.string().trim().min(1).max(80),
   exaggeration: z.number().finite().min(0).max(MAX_EXAGGERATION),
 });

@@ -24,7 +24,12 @@ export const velocityModelSchema = z.discriminatedUnion("kind", [
   z.object({
     kind: z.literal("intervals"),
     intervals: z
-      .array(z.object({ horizon: z.string().trim().min(1, { error: "Name the horizon at the base of each interval" }).max(200), velocityMPerS: velocity("Each interval velocity") }))
+      .array(
+        z.object({
+          horizon: z.string().trim().min(1, { error: "Name the horizon at the base of each interval" }).max(200),
+          velocityMPerS: velocity("Each interval velocity"),
+        }),
+      )
       .min(1, { error: "Give at least one horizon with its interval velocity" })
       .max(50)
       .refine((list) => new Set(list.map((i) => i.horizon.toLowerCase())).size === list.length, { error: "Each horizon may be listed once" }),

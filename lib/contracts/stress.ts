@@ -15,7 +15,12 @@ export const REGIME_LABELS: Record<StressRegime, string> = {
 };
 
 /** True when the gradients follow the ordering the named regime requires (custom accepts any). */
-export function regimeOrderingHolds(p: { regime: StressRegime; verticalGradient: number; maxHorizontalGradient: number; minHorizontalGradient: number }): boolean {
+export function regimeOrderingHolds(p: {
+  regime: StressRegime;
+  verticalGradient: number;
+  maxHorizontalGradient: number;
+  minHorizontalGradient: number;
+}): boolean {
   const { verticalGradient: v, maxHorizontalGradient: H, minHorizontalGradient: h } = p;
   if (p.regime === "normal") return v >= H && H >= h;
   if (p.regime === "strike-slip") return H >= v && v >= h;
@@ -56,10 +61,18 @@ export const stressParametersSchema = z
       });
     }
     if (p.frictionLow > p.frictionHigh) {
-      ctx.addIssue({ code: "custom", path: ["frictionHigh"], message: `Upper friction coefficient (${p.frictionHigh}) must be at least the lower one (${p.frictionLow})` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["frictionHigh"],
+        message: `Upper friction coefficient (${p.frictionHigh}) must be at least the lower one (${p.frictionLow})`,
+      });
     }
     if (p.minHorizontalGradient <= p.maxHorizontalGradient && !regimeOrderingHolds(p)) {
-      ctx.addIssue({ code: "custom", path: ["regime"], message: `The gradients do not follow the ${REGIME_LABELS[p.regime]} ordering; fix them or choose "custom"` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["regime"],
+        message: `The gradients do not follow the ${REGIME_LABELS[p.regime]} ordering; fix them or choose "custom"`,
+      });
     }
   });
 export type StressParameters = z.infer<typeof stressParametersSchema>;
@@ -163,7 +176,9 @@ export const stressResultSchema = z.object({
   summary: screenSummarySchema,
   skipped: z.object({ degenerate: z.number().int(), aboveDatum: z.number().int() }),
   /** per segment, one value per display-grid node (NaN: no triangle there) */
-  segments: z.array(z.object({ segmentId: z.string(), columns: z.number().int(), rows: z.number().int(), slip: float32Values, dilation: float32Values, dp: float32Values })),
+  segments: z.array(
+    z.object({ segmentId: z.string(), columns: z.number().int(), rows: z.number().int(), slip: float32Values, dilation: float32Values, dp: float32Values }),
+  ),
   ranges: z.object({ slip: z.tuple([finite, finite]), dilation: z.tuple([finite, finite]), dp: z.tuple([finite, finite]) }),
   /** deterministic subsample of the triangles for the Mohr plot */
   mohr: z.object({ total: z.number().int(), effectiveNormalMPa: z.array(finite), shearMPa: z.array(finite), depthM: z.array(finite) }),

@@ -11,8 +11,17 @@ export const studyInputSchema = z.object({
   description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
 });
 const coordinateReferenceInputSchema = z.object({
-  epsg: z.number({ error: "The EPSG code must be a whole number, e.g. 32631." }).int("The EPSG code must be a whole number, e.g. 32631.").min(1024, "EPSG codes of coordinate systems start at 1024.").max(999_999, "That is not an EPSG code."),
-  verticalEpsg: z.number({ error: "The vertical EPSG code must be a whole number, e.g. 5714." }).int("The vertical EPSG code must be a whole number, e.g. 5714.").min(1024, "That is not an EPSG code of a vertical system.").max(999_999, "That is not an EPSG code of a vertical system.").optional(),
+  epsg: z
+    .number({ error: "The EPSG code must be a whole number, e.g. 32631." })
+    .int("The EPSG code must be a whole number, e.g. 32631.")
+    .min(1024, "EPSG codes of coordinate systems start at 1024.")
+    .max(999_999, "That is not an EPSG code."),
+  verticalEpsg: z
+    .number({ error: "The vertical EPSG code must be a whole number, e.g. 5714." })
+    .int("The vertical EPSG code must be a whole number, e.g. 5714.")
+    .min(1024, "That is not an EPSG code of a vertical system.")
+    .max(999_999, "That is not an EPSG code of a vertical system.")
+    .optional(),
   verticalDatum: z.string().trim().max(120, "Name the vertical datum in at most 120 characters.").optional(),
 });
 export const studyPatchSchema = studyInputSchema.partial().extend({
@@ -31,17 +40,28 @@ const faultFields = z.object({
     .regex(/^[\w .\-/()]+$/, "Use letters, digits, spaces and . - / ( ) only."),
   description: z.string().trim().max(2000, "Use at most 2000 characters."),
   sense: faultSenseSchema,
-  rakeDeg: z.number({ error: "The rake must be a number of degrees." }).finite().min(-180, "The rake lies between −180° and 180°.").max(180, "The rake lies between −180° and 180°.").nullable().optional(),
+  rakeDeg: z
+    .number({ error: "The rake must be a number of degrees." })
+    .finite()
+    .min(-180, "The rake lies between −180° and 180°.")
+    .max(180, "The rake lies between −180° and 180°.")
+    .nullable()
+    .optional(),
   inversion: z.boolean({ error: "Inversion is true or false." }),
 });
 
 /** The fault type's own rules (an oblique fault needs its rake, not near strike-slip), as field errors. */
 function checkFaultType(value: { sense?: FaultSense; rakeDeg?: number | null }, context: z.RefinementCtx) {
-  for (const { field, message } of faultTypeFieldErrors({ sense: value.sense ?? "normal", rakeDeg: value.rakeDeg })) context.addIssue({ code: "custom", path: [field], message });
+  for (const { field, message } of faultTypeFieldErrors({ sense: value.sense ?? "normal", rakeDeg: value.rakeDeg }))
+    context.addIssue({ code: "custom", path: [field], message });
 }
 
 export const faultInputSchema = faultFields
-  .extend({ description: faultFields.shape.description.default(""), sense: faultFields.shape.sense.default("normal"), inversion: faultFields.shape.inversion.default(false) })
+  .extend({
+    description: faultFields.shape.description.default(""),
+    sense: faultFields.shape.sense.default("normal"),
+    inversion: faultFields.shape.inversion.default(false),
+  })
   .superRefine(checkFaultType);
 // no defaults: a patch changes only the fields it names
 export const faultPatchSchema = faultFields.partial();
@@ -76,7 +96,9 @@ export type FaultRecord = z.infer<typeof faultRecord>;
 
 /** GET /api/studies */
 export const studiesResponseSchema = z.strictObject({
-  studies: z.array(z.strictObject({ id: z.string(), name: z.string(), description: z.string(), createdAt: isoTime, role: studyRoleSchema, faultCount: z.number().int() })),
+  studies: z.array(
+    z.strictObject({ id: z.string(), name: z.string(), description: z.string(), createdAt: isoTime, role: studyRoleSchema, faultCount: z.number().int() }),
+  ),
 });
 export type StudiesResponse = z.infer<typeof studiesResponseSchema>;
 
@@ -92,7 +114,9 @@ export const faultSummarySchema = z.strictObject({
   createdAt: isoTime,
   latestVersion: z.number().int().nullable(),
   pickSetCount: z.number().int(),
-  analysis: z.strictObject({ status: z.string(), dMaxM: z.number().nullable(), lengthM: z.number().nullable(), segmentCount: z.number().int().nullable() }).nullable(),
+  analysis: z
+    .strictObject({ status: z.string(), dMaxM: z.number().nullable(), lengthM: z.number().nullable(), segmentCount: z.number().int().nullable() })
+    .nullable(),
 });
 
 export const memberSchema = z.strictObject({ userId: z.string(), name: z.string(), email: z.string(), role: studyRoleSchema, since: isoTime });

@@ -28,7 +28,14 @@ export const DEFAULT_DISPLAY_PICKS = 20_000;
 /** share of the pick budget reserved for the largest residuals, so outliers always show */
 const OUTLIER_SHARE = 0.05;
 
-export function buildFaultDisplay({ report, grids, picks, pickDisplacementM, maxCells = DEFAULT_DISPLAY_CELLS, maxPicks = DEFAULT_DISPLAY_PICKS }: BuildFaultDisplayInput): FaultDisplay {
+export function buildFaultDisplay({
+  report,
+  grids,
+  picks,
+  pickDisplacementM,
+  maxCells = DEFAULT_DISPLAY_CELLS,
+  maxPicks = DEFAULT_DISPLAY_PICKS,
+}: BuildFaultDisplayInput): FaultDisplay {
   if (report.segments.length === 0) throw new Error("The analysis has no segments to display.");
   const origin: Vec3 = [...report.segments[0].plane.centroid];
   const segments = report.segments.map((segment) => {
@@ -101,7 +108,16 @@ export function decimateGrid(grid: RegularGrid, maxCells: number): DisplayGrid {
       if (offPlaneM) offPlaneM[row * columns + column] = grid.offPlaneM![source];
     }
   }
-  return { s0: grid.s0 + firstColumn * grid.cellM, t0: grid.t0 + firstRow * grid.cellM, cellM: grid.cellM * stride, columns, rows, displacementM, throwM, ...(offPlaneM ? { offPlaneM } : {}) };
+  return {
+    s0: grid.s0 + firstColumn * grid.cellM,
+    t0: grid.t0 + firstRow * grid.cellM,
+    cellM: grid.cellM * stride,
+    columns,
+    rows,
+    displacementM,
+    throwM,
+    ...(offPlaneM ? { offPlaneM } : {}),
+  };
 }
 
 function argMaxIgnoringNaN(values: ArrayLike<number>): number {

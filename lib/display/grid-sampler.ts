@@ -57,7 +57,12 @@ function bilinear(grid: GridSpec, field: ArrayLike<number>, s: number, t: number
   const fx = gx - i,
     fy = gy - j;
   const c = grid.columns;
-  return field[j * c + i] * (1 - fx) * (1 - fy) + field[j * c + i + 1] * fx * (1 - fy) + field[(j + 1) * c + i] * (1 - fx) * fy + field[(j + 1) * c + i + 1] * fx * fy;
+  return (
+    field[j * c + i] * (1 - fx) * (1 - fy) +
+    field[j * c + i + 1] * fx * (1 - fy) +
+    field[(j + 1) * c + i] * (1 - fx) * fy +
+    field[(j + 1) * c + i + 1] * fx * fy
+  );
 }
 
 /** Bilinear over the corners that have data (weights renormalised); NaN outside the grid or when none do. */

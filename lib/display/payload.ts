@@ -36,7 +36,8 @@ export function reportWithContourRings(report: AnalysisReport, display: FaultDis
       const rings: Ring[][] = segment.contours.map(() => []);
       for (let ring = 0; ring + 1 < contours.ringStarts.length; ring++) {
         const points: Ring = [];
-        for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1]; point++) points.push([contours.points[2 * point], contours.points[2 * point + 1]]);
+        for (let point = contours.ringStarts[ring]; point < contours.ringStarts[ring + 1]; point++)
+          points.push([contours.points[2 * point], contours.points[2 * point + 1]]);
         rings[contours.ringLevelIndex[ring]]?.push(points);
       }
       return { ...segment, contours: segment.contours.map((level, index) => ({ levelM: level.levelM, rings: rings[index] })) };

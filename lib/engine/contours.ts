@@ -36,9 +36,11 @@ export function contourGrid(grid: GridSpec, field: Float64Array, levels: number[
   // the windows are nested, so the lowest level's is the largest: one buffer serves every level
   const buffer = windows.width[0] > 0 ? new Float64Array(windows.width[0] * windows.height[0]) : new Float64Array(0);
   return sorted.map((level, k) => {
-    const width = windows.width[k], height = windows.height[k];
+    const width = windows.width[k],
+      height = windows.height[k];
     if (width === 0) return { levelM: level, rings: [] };
-    const i0 = windows.i0[k], j0 = windows.j0[k];
+    const i0 = windows.i0[k],
+      j0 = windows.j0[k];
     const window = fillWindow(field, grid.columns, i0, j0, width, height, below, buffer);
     const mp = gen.size([width, height]).contour(window as unknown as number[], level);
     return { levelM: mp.value, rings: ringsOnGrid(mp.coordinates, grid, i0, j0) };
@@ -57,8 +59,10 @@ interface LevelWindows {
 function levelWindows(grid: GridSpec, field: Float64Array, sorted: number[]): LevelWindows {
   const { columns, rows } = grid;
   const count = sorted.length;
-  const minI = new Int32Array(count).fill(columns), maxI = new Int32Array(count).fill(-1);
-  const minJ = new Int32Array(count).fill(rows), maxJ = new Int32Array(count).fill(-1);
+  const minI = new Int32Array(count).fill(columns),
+    maxI = new Int32Array(count).fill(-1);
+  const minJ = new Int32Array(count).fill(rows),
+    maxJ = new Int32Array(count).fill(-1);
   const lowest = sorted[0];
   for (let j = 0; j < rows; j++) {
     const rowStart = j * columns;
@@ -82,8 +86,10 @@ function levelWindows(grid: GridSpec, field: Float64Array, sorted: number[]): Le
   const out: LevelWindows = { i0: new Int32Array(count), j0: new Int32Array(count), width: new Int32Array(count), height: new Int32Array(count) };
   for (let k = 0; k < count; k++) {
     if (maxI[k] < 0) continue;
-    const i0 = Math.max(0, minI[k] - 1), i1 = Math.min(columns - 1, maxI[k] + 1);
-    const j0 = Math.max(0, minJ[k] - 1), j1 = Math.min(rows - 1, maxJ[k] + 1);
+    const i0 = Math.max(0, minI[k] - 1),
+      i1 = Math.min(columns - 1, maxI[k] + 1);
+    const j0 = Math.max(0, minJ[k] - 1),
+      j1 = Math.min(rows - 1, maxJ[k] + 1);
     out.i0[k] = i0;
     out.j0[k] = j0;
     out.width[k] = i1 - i0 + 1;
@@ -94,7 +100,8 @@ function levelWindows(grid: GridSpec, field: Float64Array, sorted: number[]): Le
 
 /** highest k with sorted[k] <= v, for v >= sorted[0] */
 function highestLevelAtOrBelow(sorted: number[], v: number): number {
-  let lo = 0, hi = sorted.length - 1;
+  let lo = 0,
+    hi = sorted.length - 1;
   while (lo < hi) {
     const mid = (lo + hi + 1) >> 1;
     if (sorted[mid] <= v) lo = mid;
@@ -104,7 +111,16 @@ function highestLevelAtOrBelow(sorted: number[], v: number): number {
 }
 
 /** The window's nodes, row by row, at the start of `buffer`; NaN nodes become `below`. */
-function fillWindow(field: Float64Array, columns: number, i0: number, j0: number, width: number, height: number, below: number, buffer: Float64Array): Float64Array {
+function fillWindow(
+  field: Float64Array,
+  columns: number,
+  i0: number,
+  j0: number,
+  width: number,
+  height: number,
+  below: number,
+  buffer: Float64Array,
+): Float64Array {
   for (let j = 0, w = 0; j < height; j++) {
     const rowStart = (j0 + j) * columns + i0;
     for (let i = 0; i < width; i++, w++) {

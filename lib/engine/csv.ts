@@ -72,8 +72,17 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   const cut = <T extends Float64Array | Uint32Array | Int32Array>(a: T): T => (a.length === count ? a : (a.slice(0, count) as T));
 
   let picks: PickColumns = {
-    x: cut(xs), y: cut(ys), z: cut(zs), throwM: cut(ts), heaveM: cut(hs), quality: cut(qs), segment: cut(seg), horizon: cut(hor),
-    segmentNames, horizonNames, sourceRow: cut(src),
+    x: cut(xs),
+    y: cut(ys),
+    z: cut(zs),
+    throwM: cut(ts),
+    heaveM: cut(hs),
+    quality: cut(qs),
+    segment: cut(seg),
+    horizon: cut(hor),
+    segmentNames,
+    horizonNames,
+    sourceRow: cut(src),
   };
   if (table.hw && table.fw) picks = { ...picks, hwThicknessM: cut(table.hw), fwThicknessM: cut(table.fw) };
   if (table.rake) picks = { ...picks, rakeDeg: cut(table.rake) };
@@ -120,7 +129,11 @@ export function parsePickCsv(text: string, options: ParseOptions = {}): ParseRes
   perSegment.forEach((ids, si) => {
     const name = picks.segmentNames[si];
     if (ids.length < 3) {
-      segmentProblems.push({ row: ids.length ? picks.sourceRow[ids[0]] : 1, column: "segment", reason: `segment "${name}" has ${ids.length} usable picks; at least 3 are needed` });
+      segmentProblems.push({
+        row: ids.length ? picks.sourceRow[ids[0]] : 1,
+        column: "segment",
+        reason: `segment "${name}" has ${ids.length} usable picks; at least 3 are needed`,
+      });
       return;
     }
     try {
@@ -175,21 +188,30 @@ function readRowsGeneral(text: string, scale: number, reject: (r: RejectedRow) =
     if (KNOWN.has(h) && !col.has(h)) col.set(h, i);
   });
   const missing: RejectedRow[] = [];
-  for (const need of ["x", "y", "throw"]) if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
+  for (const need of ["x", "y", "throw"])
+    if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
   // a file in two-way time has a twt column (ms) and no z or depth; beside z or depth a twt column is not read
   const timeFile = !col.has("z") && !col.has("depth") && col.has("twt");
   if (!timeFile) col.delete("twt");
-  if (!col.has("z") && !col.has("depth") && !timeFile) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth", or "twt" in ms) is missing from the header' });
+  if (!col.has("z") && !col.has("depth") && !timeFile)
+    missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth", or "twt" in ms) is missing from the header' });
   if (missing.length) throw new PickInputError(`header row 1: ${missing.map((m) => m.reason).join("; ")}`, missing);
 
   const rows = table.length - 1;
   const n = rows;
-  const xs = new Float64Array(n), ys = new Float64Array(n), zs = new Float64Array(n), ts = new Float64Array(n);
-  const hs = new Float64Array(n), qs = new Float64Array(n);
+  const xs = new Float64Array(n),
+    ys = new Float64Array(n),
+    zs = new Float64Array(n),
+    ts = new Float64Array(n);
+  const hs = new Float64Array(n),
+    qs = new Float64Array(n);
   const thick = col.has("hw_thickness") || col.has("fw_thickness");
-  const hw = thick ? new Float64Array(n) : undefined, fw = thick ? new Float64Array(n) : undefined;
+  const hw = thick ? new Float64Array(n) : undefined,
+    fw = thick ? new Float64Array(n) : undefined;
   const rake = col.has("rake") ? new Float64Array(n) : undefined;
-  const seg = new Uint32Array(n), hor = new Int32Array(n), src = new Uint32Array(n);
+  const seg = new Uint32Array(n),
+    hor = new Int32Array(n),
+    src = new Uint32Array(n);
   const twt = timeFile ? new Float64Array(n) : undefined;
   const segmentNames: string[] = [];
   const segmentIndex = new Map<string, number>();
@@ -369,7 +391,15 @@ function cellNumber(text: string, from: number): number | undefined {
 function readRowsFast(text: string, scale: number): RowTable | null {
   const len = text.length;
   // characters that make papaparse quote-aware or pick another delimiter
-  if (text.indexOf('"') >= 0 || text.indexOf("\t") >= 0 || text.indexOf("|") >= 0 || text.indexOf(";") >= 0 || text.indexOf("\x1e") >= 0 || text.indexOf("\x1f") >= 0) return null;
+  if (
+    text.indexOf('"') >= 0 ||
+    text.indexOf("\t") >= 0 ||
+    text.indexOf("|") >= 0 ||
+    text.indexOf(";") >= 0 ||
+    text.indexOf("\x1e") >= 0 ||
+    text.indexOf("\x1f") >= 0
+  )
+    return null;
   const newlines = countOf(text, "\n");
   const returns = countOf(text, "\r");
   // papaparse splits on "\r\n" when every "\r" is followed by "\n"; mixed endings go to the general reader
@@ -394,7 +424,10 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     if (pos < 0) return null;
   }
   if (headerEnd <= pos) return null;
-  const header = text.slice(pos, headerEnd).split(",").map((h) => h.trim().toLowerCase());
+  const header = text
+    .slice(pos, headerEnd)
+    .split(",")
+    .map((h) => h.trim().toLowerCase());
   const roles = new Int32Array(header.length).fill(ROLE_IGNORED);
   const seen = new Set<string>();
   header.forEach((h, i) => {
@@ -409,9 +442,15 @@ function readRowsFast(text: string, scale: number): RowTable | null {
   const roleCount = roles.length;
 
   const capacity = newlines + 1;
-  const xs = new Float64Array(capacity), ys = new Float64Array(capacity), zs = new Float64Array(capacity), ts = new Float64Array(capacity);
-  const hs = new Float64Array(capacity), qs = new Float64Array(capacity);
-  const seg = new Uint32Array(capacity), hor = new Int32Array(capacity), src = new Uint32Array(capacity);
+  const xs = new Float64Array(capacity),
+    ys = new Float64Array(capacity),
+    zs = new Float64Array(capacity),
+    ts = new Float64Array(capacity);
+  const hs = new Float64Array(capacity),
+    qs = new Float64Array(capacity);
+  const seg = new Uint32Array(capacity),
+    hor = new Int32Array(capacity),
+    src = new Uint32Array(capacity);
   const segments = new NameTable();
   const horizons = new NameTable();
   const values = new Float64Array(NUMERIC.length);
@@ -431,7 +470,10 @@ function readRowsFast(text: string, scale: number): RowTable | null {
     }
     rowCounter++;
     for (let k = 0; k < present.length; k++) present[k] = 0;
-    let segmentFrom = -1, segmentTo = -1, horizonFrom = -1, horizonTo = -1;
+    let segmentFrom = -1,
+      segmentTo = -1,
+      horizonFrom = -1,
+      horizonTo = -1;
     let p = start;
     for (let c = 0; ; c++) {
       const role = c < roleCount ? roles[c] : ROLE_IGNORED;
@@ -536,7 +578,18 @@ export function selectPicks(picks: PickColumns, ids: number[]): PickColumns {
     ids.forEach((id, k) => (out[k] = a[id]));
     return out;
   };
-  const out: PickColumns = { ...picks, x: take(picks.x), y: take(picks.y), z: take(picks.z), throwM: take(picks.throwM), heaveM: take(picks.heaveM), quality: take(picks.quality), segment: take(picks.segment), horizon: take(picks.horizon), sourceRow: take(picks.sourceRow) };
+  const out: PickColumns = {
+    ...picks,
+    x: take(picks.x),
+    y: take(picks.y),
+    z: take(picks.z),
+    throwM: take(picks.throwM),
+    heaveM: take(picks.heaveM),
+    quality: take(picks.quality),
+    segment: take(picks.segment),
+    horizon: take(picks.horizon),
+    sourceRow: take(picks.sourceRow),
+  };
   if (picks.hwThicknessM && picks.fwThicknessM) Object.assign(out, { hwThicknessM: take(picks.hwThicknessM), fwThicknessM: take(picks.fwThicknessM) });
   if (picks.rakeDeg) out.rakeDeg = take(picks.rakeDeg);
   if (picks.twtMs && picks.throwMs) Object.assign(out, { twtMs: take(picks.twtMs), throwMs: take(picks.throwMs) });
@@ -592,7 +645,12 @@ function handleDuplicates(
     else {
       groupOf[i] = first;
       duplicates++;
-      if (mode === "reject") reject({ row: picks.sourceRow[i], column: "x,y,z", reason: `duplicate position of row ${picks.sourceRow[first]} in segment "${picks.segmentNames[picks.segment[i]]}"${dropBadRows ? " (dropped)" : '; choose "average" to merge duplicates'}` });
+      if (mode === "reject")
+        reject({
+          row: picks.sourceRow[i],
+          column: "x,y,z",
+          reason: `duplicate position of row ${picks.sourceRow[first]} in segment "${picks.segmentNames[picks.segment[i]]}"${dropBadRows ? " (dropped)" : '; choose "average" to merge duplicates'}`,
+        });
     }
   }
   if (duplicates === 0) return { picks, merged: 0 };
@@ -601,7 +659,11 @@ function handleDuplicates(
   const sumH = new Float64Array(n);
   const cntH = new Float64Array(n);
   const cnt = new Float64Array(n).fill(1);
-  for (let i = 0; i < n; i++) if (Number.isFinite(picks.heaveM[i])) { sumH[i] = picks.heaveM[i]; cntH[i] = 1; }
+  for (let i = 0; i < n; i++)
+    if (Number.isFinite(picks.heaveM[i])) {
+      sumH[i] = picks.heaveM[i];
+      cntH[i] = 1;
+    }
   for (let i = 0; i < n; i++) {
     const g = groupOf[i];
     if (g < 0) continue;
@@ -609,7 +671,10 @@ function handleDuplicates(
     if (mode === "average") {
       sumT[g] += picks.throwM[i];
       cnt[g]++;
-      if (Number.isFinite(picks.heaveM[i])) { sumH[g] += picks.heaveM[i]; cntH[g]++; }
+      if (Number.isFinite(picks.heaveM[i])) {
+        sumH[g] += picks.heaveM[i];
+        cntH[g]++;
+      }
     }
   }
   const ids: number[] = [];

@@ -43,7 +43,10 @@ export function depthConversionReport(model: VelocityModel) {
 }
 
 /** Reads, derives and analyses a cut-off file. */
-export function analyzeCutoffCsv(text: string, options: PipelineOptions & CutoffOptions = {}): PipelineResult & { cutoffs: CutoffSummary; parsed: CutoffParseResult; picks: PickColumns } {
+export function analyzeCutoffCsv(
+  text: string,
+  options: PipelineOptions & CutoffOptions = {},
+): PipelineResult & { cutoffs: CutoffSummary; parsed: CutoffParseResult; picks: PickColumns } {
   options.onStage?.("parse", 0);
   const { parsed, derivation } = deriveCutoffCsv(text, options);
   const result = analyzePicks(derivation.picks, {

@@ -104,7 +104,10 @@ export function spacingFromData(spacingsM: number[]): number {
 }
 
 /** Elevation (m) of every vertex: as read (depth files) or converted from two-way time with the model. */
-export function verticesInDepth(parsed: Pick<CutoffParseResult, "columns" | "lines">, model: VelocityModel | null | undefined): { z: Float64Array; warnings: string[] } {
+export function verticesInDepth(
+  parsed: Pick<CutoffParseResult, "columns" | "lines">,
+  model: VelocityModel | null | undefined,
+): { z: Float64Array; warnings: string[] } {
   const { columns } = parsed;
   const n = columns.x.length;
   const z = new Float64Array(n);
@@ -112,9 +115,17 @@ export function verticesInDepth(parsed: Pick<CutoffParseResult, "columns" | "lin
     z.set(columns.vertical);
     return { z, warnings: [] };
   }
-  if (!model) throw new CutoffInputError("the cut-offs are in two-way time (twt, ms): give a velocity model to convert them to depth; metrics are computed in depth only", [{ row: 1, column: "twt", reason: "a velocity model is needed for two-way time" }]);
+  if (!model)
+    throw new CutoffInputError(
+      "the cut-offs are in two-way time (twt, ms): give a velocity model to convert them to depth; metrics are computed in depth only",
+      [{ row: 1, column: "twt", reason: "a velocity model is needed for two-way time" }],
+    );
   const problems = velocityModelProblems(model);
-  if (problems.length) throw new CutoffInputError(`the velocity model cannot be used: ${problems.join("; ")}`, problems.map((reason) => ({ row: 1, column: "velocity model", reason })));
+  if (problems.length)
+    throw new CutoffInputError(
+      `the velocity model cannot be used: ${problems.join("; ")}`,
+      problems.map((reason) => ({ row: 1, column: "velocity model", reason })),
+    );
   if (model.kind === "linear") {
     for (let i = 0; i < n; i++) z[i] = -depthFromTwtLinear(columns.vertical[i], model.v0MPerS, model.kPerS);
     return { z, warnings: [] };
@@ -139,7 +150,12 @@ export function verticesInDepth(parsed: Pick<CutoffParseResult, "columns" | "lin
     const level = order.indexOf(line.horizon);
     if (level < 0) {
       const key = `h${line.horizon}`;
-      if (!problemsByKey.has(key)) problemsByKey.set(key, { row: line.firstRow, column: "horizon", reason: `horizon "${columns.horizonNames[line.horizon]}" has no interval velocity in the model` });
+      if (!problemsByKey.has(key))
+        problemsByKey.set(key, {
+          row: line.firstRow,
+          column: "horizon",
+          reason: `horizon "${columns.horizonNames[line.horizon]}" has no interval velocity in the model`,
+        });
       continue;
     }
     for (const i of line.vertices) {
@@ -149,7 +165,12 @@ export function verticesInDepth(parsed: Pick<CutoffParseResult, "columns" | "lin
         if (order[above] < 0 || !pieces) {
           const name = model.intervals[above].horizon;
           const key = `a${above}:${line.wall}:${line.segment}`;
-          if (!problemsByKey.has(key)) problemsByKey.set(key, { row: line.firstRow, column: "horizon", reason: `interval velocities need the time of "${name}" above ${lineWords(columns, line)}, but "${name}" has no ${WALL_WORDS[line.wall]} cut-off in the file` });
+          if (!problemsByKey.has(key))
+            problemsByKey.set(key, {
+              row: line.firstRow,
+              column: "horizon",
+              reason: `interval velocities need the time of "${name}" above ${lineWords(columns, line)}, but "${name}" has no ${WALL_WORDS[line.wall]} cut-off in the file`,
+            });
           times.push(NaN);
           continue;
         }
@@ -168,8 +189,12 @@ export function verticesInDepth(parsed: Pick<CutoffParseResult, "columns" | "lin
     throw new CutoffInputError(`the interval velocities cannot convert every cut-off: ${list.map((p) => p.reason).join("; ")}`, list);
   }
   const warnings: string[] = [];
-  if (held > 0) warnings.push(`${held} vertex conversion${held === 1 ? "" : "s"} needed the time of a shallower horizon beyond the end of its cut-off line; its end value was used`);
-  if (pinched > 0) warnings.push(`${pinched} interval${pinched === 1 ? "" : "s"} had a base above its top in time (horizons crossing); taken as zero thickness`);
+  if (held > 0)
+    warnings.push(
+      `${held} vertex conversion${held === 1 ? "" : "s"} needed the time of a shallower horizon beyond the end of its cut-off line; its end value was used`,
+    );
+  if (pinched > 0)
+    warnings.push(`${pinched} interval${pinched === 1 ? "" : "s"} had a base above its top in time (horizons crossing); taken as zero thickness`);
   return { z, warnings };
 }
 
@@ -209,13 +234,21 @@ interface PlacedLine {
 
 function placeLine(columns: CutoffColumns, line: CutoffLine, z: Float64Array, frame: CutoffFrame): PlacedLine {
   const ids = Array.from(line.vertices);
-  const sOf = (i: number) => (columns.x[i] - frame.centroid[0]) * frame.strikeVector[0] + (columns.y[i] - frame.centroid[1]) * frame.strikeVector[1] + (z[i] - frame.centroid[2]) * frame.strikeVector[2];
+  const sOf = (i: number) =>
+    (columns.x[i] - frame.centroid[0]) * frame.strikeVector[0] +
+    (columns.y[i] - frame.centroid[1]) * frame.strikeVector[1] +
+    (z[i] - frame.centroid[2]) * frame.strikeVector[2];
   ids.sort((a, b) => sOf(a) - sOf(b));
   const pick = (get: (i: number) => number) => Float64Array.from(ids, get);
   return {
     line,
     s: pick(sOf),
-    t: pick((i) => (columns.x[i] - frame.centroid[0]) * frame.dipVector[0] + (columns.y[i] - frame.centroid[1]) * frame.dipVector[1] + (z[i] - frame.centroid[2]) * frame.dipVector[2]),
+    t: pick(
+      (i) =>
+        (columns.x[i] - frame.centroid[0]) * frame.dipVector[0] +
+        (columns.y[i] - frame.centroid[1]) * frame.dipVector[1] +
+        (z[i] - frame.centroid[2]) * frame.dipVector[2],
+    ),
     x: pick((i) => columns.x[i]),
     y: pick((i) => columns.y[i]),
     z: pick((i) => z[i]),
@@ -246,7 +279,13 @@ function pointAt(pieces: PlacedLine[], s: number, toleranceM: number): LinePoint
     const ds = piece.s[k + 1] - piece.s[k];
     const f = ds > 0 ? Math.min(1, Math.max(0, (s - piece.s[k]) / ds)) : 0;
     const lerp = (a: ArrayLike<number>) => a[k] + f * (a[k + 1] - a[k]);
-    return { x: lerp(piece.x), y: lerp(piece.y), z: lerp(piece.z), twt: piece.twt ? lerp(piece.twt) : NaN, slope: ds > 0 ? (piece.t[k + 1] - piece.t[k]) / ds : 0 };
+    return {
+      x: lerp(piece.x),
+      y: lerp(piece.y),
+      z: lerp(piece.z),
+      twt: piece.twt ? lerp(piece.twt) : NaN,
+      slope: ds > 0 ? (piece.t[k + 1] - piece.t[k]) / ds : 0,
+    };
   }
   return null;
 }
@@ -257,7 +296,10 @@ const rounded = (value: number, digits = 3) => (Number.isFinite(value) ? Number(
 export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "lines" | "warnings">, options: CutoffDeriveOptions = {}): CutoffDerivation {
   const { columns } = parsed;
   const rakeDeg = options.rakeDeg ?? 90;
-  if (!(rakeDeg > 0 && rakeDeg < 180)) throw new CutoffInputError(`the rake must be between 0° and 180° (90° is pure dip slip); got ${rakeDeg}`, [{ row: 1, column: "rake", reason: "rake out of range" }]);
+  if (!(rakeDeg > 0 && rakeDeg < 180))
+    throw new CutoffInputError(`the rake must be between 0° and 180° (90° is pure dip slip); got ${rakeDeg}`, [
+      { row: 1, column: "rake", reason: "rake out of range" },
+    ]);
   const converted = verticesInDepth(parsed, options.velocityModel);
   const z = converted.z;
   const warnings = [...parsed.warnings, ...converted.warnings];
@@ -275,11 +317,23 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
     try {
       const plane = fitPlane(columns.x, columns.y, z, ids);
       if (plane.planarityWarning) warnings.push(`segment "${name}" cut-offs: ${plane.planarityWarning}`);
-      frames.push({ centroid: plane.centroid, strikeVector: plane.strikeVector, dipVector: plane.dipVector, normal: plane.normal, strikeDeg: plane.strikeDeg, dipDeg: plane.dipDeg, dipDirectionDeg: plane.dipDirectionDeg });
+      frames.push({
+        centroid: plane.centroid,
+        strikeVector: plane.strikeVector,
+        dipVector: plane.dipVector,
+        normal: plane.normal,
+        strikeDeg: plane.strikeDeg,
+        dipDeg: plane.dipDeg,
+        dipDirectionDeg: plane.dipDirectionDeg,
+      });
     } catch (error) {
       if (!(error instanceof DegeneratePlaneError)) throw error;
       frames.push(null);
-      frameProblems.push({ row: columns.sourceRow[ids[0]], column: "x,y,z", reason: `the cut-offs of segment "${name}" do not span a plane (${error.message}): the fault's reference frame is undetermined` });
+      frameProblems.push({
+        row: columns.sourceRow[ids[0]],
+        column: "x,y,z",
+        reason: `the cut-offs of segment "${name}" do not span a plane (${error.message}): the fault's reference frame is undetermined`,
+      });
     }
   });
   if (frameProblems.length) throw new CutoffInputError(frameProblems.map((p) => p.reason).join("; "), frameProblems);
@@ -287,14 +341,24 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
   const placed = parsed.lines.map((line) => placeLine(columns, line, z, frames[line.segment]!));
   const spacingSource = options.stationSpacingM !== undefined ? "set" : "data";
   const stationSpacingM =
-    options.stationSpacingM ??
-    spacingFromData(placed.flatMap((p) => Array.from({ length: p.s.length - 1 }, (_, k) => p.s[k + 1] - p.s[k])));
-  if (!(stationSpacingM > 0) || !Number.isFinite(stationSpacingM)) throw new CutoffInputError(`the station spacing must be a positive number of metres; got ${stationSpacingM}`, [{ row: 1, column: "station spacing", reason: "not a positive length" }]);
+    options.stationSpacingM ?? spacingFromData(placed.flatMap((p) => Array.from({ length: p.s.length - 1 }, (_, k) => p.s[k + 1] - p.s[k])));
+  if (!(stationSpacingM > 0) || !Number.isFinite(stationSpacingM))
+    throw new CutoffInputError(`the station spacing must be a positive number of metres; got ${stationSpacingM}`, [
+      { row: 1, column: "station spacing", reason: "not a positive length" },
+    ]);
 
-  const px: number[] = [], py: number[] = [], pz: number[] = [], pt: number[] = [], ph: number[] = [], psg: number[] = [], phz: number[] = [], prow: number[] = [];
+  const px: number[] = [],
+    py: number[] = [],
+    pz: number[] = [],
+    pt: number[] = [],
+    ph: number[] = [],
+    psg: number[] = [],
+    phz: number[] = [],
+    prow: number[] = [];
   const missing: MissingStation[] = [];
   let missingCount = 0;
-  let positive = 0, negative = 0;
+  let positive = 0,
+    negative = 0;
   let slipAlongCutoff = 0;
   const segments: StationSegment[] = [];
   const usedHorizons: string[] = [];
@@ -313,28 +377,42 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
     const frame = frames[segment];
     if (!frame) return;
     const mine = placed.filter((p) => p.line.segment === segment);
-    let sMin = Infinity, sMax = -Infinity;
+    let sMin = Infinity,
+      sMax = -Infinity;
     for (const p of mine) {
       sMin = Math.min(sMin, p.s[0]);
       sMax = Math.max(sMax, p.s[p.s.length - 1]);
     }
     const first = Math.ceil(sMin / stationSpacingM - 1e-9);
     const last = Math.floor(sMax / stationSpacingM + 1e-9);
-    if (last - first + 1 > MAX_STATIONS) throw new CutoffInputError(`a station spacing of ${stationSpacingM} m gives more than ${MAX_STATIONS.toLocaleString("en")} stations along segment "${segmentName}"; choose a larger spacing`, [{ row: 1, column: "station spacing", reason: "too many stations" }]);
+    if (last - first + 1 > MAX_STATIONS)
+      throw new CutoffInputError(
+        `a station spacing of ${stationSpacingM} m gives more than ${MAX_STATIONS.toLocaleString("en")} stations along segment "${segmentName}"; choose a larger spacing`,
+        [{ row: 1, column: "station spacing", reason: "too many stations" }],
+      );
     const endToleranceM = 0.01 * stationSpacingM;
     const stationsS = Array.from({ length: Math.max(0, last - first + 1) }, (_, k) => (first + k) * stationSpacingM);
     const dipDirection: [number, number] = [Math.sin(frame.dipDirectionDeg * RAD), Math.cos(frame.dipDirectionDeg * RAD)];
     const horizonsHere = [...new Set(mine.map((p) => p.line.horizon))];
     const meanFootwallZ = (h: number) => {
-      let sum = 0, n = 0;
-      for (const p of mine) if (p.line.horizon === h && p.line.wall === "fw") for (const value of p.z) { sum += value; n++; }
+      let sum = 0,
+        n = 0;
+      for (const p of mine)
+        if (p.line.horizon === h && p.line.wall === "fw")
+          for (const value of p.z) {
+            sum += value;
+            n++;
+          }
       return n ? sum / n : -Infinity;
     };
     horizonsHere.sort((a, b) => meanFootwallZ(b) - meanFootwallZ(a));
     const horizons: StationHorizon[] = [];
     for (const h of horizonsHere) {
       const name = columns.horizonNames[h];
-      const walls = { hw: mine.filter((p) => p.line.horizon === h && p.line.wall === "hw"), fw: mine.filter((p) => p.line.horizon === h && p.line.wall === "fw") };
+      const walls = {
+        hw: mine.filter((p) => p.line.horizon === h && p.line.wall === "hw"),
+        fw: mine.filter((p) => p.line.horizon === h && p.line.wall === "fw"),
+      };
       const row: StationHorizon = { name, hwZ: [], fwZ: [], throwM: [], heaveM: [], displacementM: [] };
       if (columns.domain === "time") {
         row.hwTwtMs = [];
@@ -357,7 +435,8 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
           if (present) {
             missingCount++;
             stats.missing++;
-            if (missing.length < MAX_MISSING_LISTED) missing.push({ segment: segmentName, horizon: name, s, present: hw ? "hw" : "fw", x: present.x, y: present.y, z: present.z });
+            if (missing.length < MAX_MISSING_LISTED)
+              missing.push({ segment: segmentName, horizon: name, s, present: hw ? "hw" : "fw", x: present.x, y: present.y, z: present.z });
           }
           continue;
         }
@@ -396,12 +475,25 @@ export function deriveFromCutoffs(parsed: Pick<CutoffParseResult, "columns" | "l
     segments.push({ name: segmentName, frame, stationsS, horizons });
   });
 
-  if (px.length === 0) throw new CutoffInputError("no station has a cut-off on both walls, so no throw can be measured; check that the hanging-wall and footwall cut-offs of each horizon overlap along strike", [{ row: 2, column: "wall", reason: "no paired stations" }]);
+  if (px.length === 0)
+    throw new CutoffInputError(
+      "no station has a cut-off on both walls, so no throw can be measured; check that the hanging-wall and footwall cut-offs of each horizon overlap along strike",
+      [{ row: 2, column: "wall", reason: "no paired stations" }],
+    );
   const sense = options.sense ?? (negative > positive ? "reverse" : "normal");
   const against = sense === "normal" ? negative : positive;
-  if (against > 0) warnings.push(`at ${against} station${against === 1 ? "" : "s"} the hanging-wall cut-off lies ${sense === "normal" ? "above" : "below"} the footwall one, against the fault's ${sense} sense; check the wall labels there`);
-  if (missingCount > 0) warnings.push(`${missingCount} station${missingCount === 1 ? "" : "s"} ha${missingCount === 1 ? "s" : "ve"} a cut-off on one wall only: reported, not filled in`);
-  if (slipAlongCutoff > 0) warnings.push(`at ${slipAlongCutoff} station${slipAlongCutoff === 1 ? "" : "s"} the rake of ${rakeDeg}° runs nearly along the cut-off lines, so the displacement along it is undetermined there`);
+  if (against > 0)
+    warnings.push(
+      `at ${against} station${against === 1 ? "" : "s"} the hanging-wall cut-off lies ${sense === "normal" ? "above" : "below"} the footwall one, against the fault's ${sense} sense; check the wall labels there`,
+    );
+  if (missingCount > 0)
+    warnings.push(
+      `${missingCount} station${missingCount === 1 ? "" : "s"} ha${missingCount === 1 ? "s" : "ve"} a cut-off on one wall only: reported, not filled in`,
+    );
+  if (slipAlongCutoff > 0)
+    warnings.push(
+      `at ${slipAlongCutoff} station${slipAlongCutoff === 1 ? "" : "s"} the rake of ${rakeDeg}° runs nearly along the cut-off lines, so the displacement along it is undetermined there`,
+    );
 
   const picks: PickColumns = {
     x: Float64Array.from(px),
@@ -448,7 +540,9 @@ export function derivedPicksCsv(picks: PickColumns): string {
   const quote = (text: string) => (/[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text);
   for (let i = 0; i < picks.x.length; i++) {
     const horizon = picks.horizon[i] >= 0 ? picks.horizonNames[picks.horizon[i]] : "";
-    lines.push(`${picks.x[i].toFixed(3)},${picks.y[i].toFixed(3)},${picks.z[i].toFixed(3)},${picks.throwM[i].toFixed(3)},${picks.heaveM[i].toFixed(3)},${quote(horizon)},${quote(picks.segmentNames[picks.segment[i]])}`);
+    lines.push(
+      `${picks.x[i].toFixed(3)},${picks.y[i].toFixed(3)},${picks.z[i].toFixed(3)},${picks.throwM[i].toFixed(3)},${picks.heaveM[i].toFixed(3)},${quote(horizon)},${quote(picks.segmentNames[picks.segment[i]])}`,
+    );
   }
   return `${lines.join("\n")}\n`;
 }
@@ -469,7 +563,10 @@ export function derivedPickProblems(picks: PickColumns): RejectedRow[] {
       fitPlane(picks.x, picks.y, picks.z, ids);
     } catch (error) {
       if (!(error instanceof DegeneratePlaneError)) throw error;
-      problems.push({ ...where, reason: `segment "${name}": the derived picks ${horizons.size < 2 ? "all lie on one horizon's cut-offs" : "lie on one line"}, so they do not span a fault surface; cut-offs of at least two horizons are needed` });
+      problems.push({
+        ...where,
+        reason: `segment "${name}": the derived picks ${horizons.size < 2 ? "all lie on one horizon's cut-offs" : "lie on one line"}, so they do not span a fault surface; cut-offs of at least two horizons are needed`,
+      });
     }
   });
   return problems;

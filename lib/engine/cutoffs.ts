@@ -101,7 +101,16 @@ const cutoffRowSchema = z.object({
   segment: z.optional(z.string()),
 });
 
-const WALL_SPELLINGS: Record<string, Wall> = { hw: "hw", fw: "fw", "hanging wall": "hw", "hanging-wall": "hw", hangingwall: "hw", footwall: "fw", "foot wall": "fw", "foot-wall": "fw" };
+const WALL_SPELLINGS: Record<string, Wall> = {
+  hw: "hw",
+  fw: "fw",
+  "hanging wall": "hw",
+  "hanging-wall": "hw",
+  hangingwall: "hw",
+  footwall: "fw",
+  "foot wall": "fw",
+  "foot-wall": "fw",
+};
 const KNOWN = new Set(["x", "y", "z", "depth", "twt", "horizon", "wall", "line", "segment"]);
 
 const summarise = (list: RejectedRow[], total: number) => summariseProblems(list, total, "cut-off file");
@@ -122,7 +131,8 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
     if (KNOWN.has(h) && !col.has(h)) col.set(h, i);
   });
   const missing: RejectedRow[] = [];
-  for (const need of ["x", "y", "horizon", "wall"]) if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
+  for (const need of ["x", "y", "horizon", "wall"])
+    if (!col.has(need)) missing.push({ row: 1, column: need, reason: `required column "${need}" is missing from the header` });
   const verticals = (["z", "depth", "twt"] as const).filter((name) => col.has(name));
   if (verticals.length === 0) missing.push({ row: 1, column: "z", reason: 'required column "z" (or "depth" in m, or "twt" in ms) is missing from the header' });
   if (verticals.length > 1) missing.push({ row: 1, column: verticals.join(","), reason: `give one vertical column, not ${verticals.join(" and ")}` });
@@ -131,8 +141,13 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
   const domain = verticalName === "twt" ? "time" : "depth";
 
   const n = table.length - 1;
-  const xs = new Float64Array(n), ys = new Float64Array(n), vs = new Float64Array(n);
-  const hor = new Uint32Array(n), wall = new Uint8Array(n), seg = new Uint32Array(n), src = new Uint32Array(n);
+  const xs = new Float64Array(n),
+    ys = new Float64Array(n),
+    vs = new Float64Array(n);
+  const hor = new Uint32Array(n),
+    wall = new Uint8Array(n),
+    seg = new Uint32Array(n),
+    src = new Uint32Array(n);
   const lineKeys: string[] = new Array(n);
   const horizonNames: string[] = [];
   const segmentNames: string[] = [];
@@ -235,8 +250,7 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
     if ("problem" in checked) {
       lineProblems.push(checked.problem);
       refusedWalls.add(`${line.segment}\u0000${line.horizon}\u0000${line.wall}`);
-    }
-    else {
+    } else {
       if (checked.warning) warnings.push(checked.warning);
       lines.push(checked.line);
     }
@@ -284,7 +298,8 @@ export function parseCutoffCsv(text: string, options: CutoffParseOptions = {}): 
   return { columns, lines: kept, rows: n, accepted, rejected, rejectedTruncated: problems.count > rejected.length, warnings };
 }
 
-const segmentWords = (columns: CutoffColumns, segment: number) => (columns.segmentNames.length > 1 || columns.segmentNames[segment] !== "main" ? ` in segment "${columns.segmentNames[segment]}"` : "");
+const segmentWords = (columns: CutoffColumns, segment: number) =>
+  columns.segmentNames.length > 1 || columns.segmentNames[segment] !== "main" ? ` in segment "${columns.segmentNames[segment]}"` : "";
 
 /** A line in words for messages: 'the footwall cut-off of "H2" (line 3) in segment "north"'. */
 export function lineWords(columns: CutoffColumns, line: Pick<CutoffLine, "segment" | "horizon" | "wall" | "id">): string {
@@ -301,7 +316,8 @@ export function lineWords(columns: CutoffColumns, line: Pick<CutoffLine, "segmen
 export function strikeAxisOf(columns: CutoffColumns, segment: number): { cx: number; cy: number; ux: number; uy: number } {
   const ids: number[] = [];
   for (let i = 0; i < columns.x.length; i++) if (columns.segment[i] === segment) ids.push(i);
-  let cx = 0, cy = 0;
+  let cx = 0,
+    cy = 0;
   for (const i of ids) {
     cx += columns.x[i];
     cy += columns.y[i];
@@ -317,7 +333,9 @@ export function strikeAxisOf(columns: CutoffColumns, segment: number): { cx: num
   } catch (error) {
     if (!(error instanceof DegeneratePlaneError)) throw error;
   }
-  let xx = 0, xy = 0, yy = 0;
+  let xx = 0,
+    xy = 0,
+    yy = 0;
   for (const i of ids) {
     const dx = columns.x[i] - cx;
     const dy = columns.y[i] - cy;
@@ -352,7 +370,8 @@ function checkLine(columns: CutoffColumns, line: CutoffLine, axis: ReturnType<ty
   const where = { row: line.firstRow, column: "x,y" };
   if (line.vertices.length < 2) return { problem: { ...where, reason: `${words} has one vertex; a cut-off line needs at least two` } };
   if (distinct.length < 2) return { problem: { ...where, reason: `${words} has zero length: all its vertices are at the same place` } };
-  let uMin = Infinity, uMax = -Infinity;
+  let uMin = Infinity,
+    uMax = -Infinity;
   for (const i of distinct) {
     uMin = Math.min(uMin, u(i));
     uMax = Math.max(uMax, u(i));
@@ -361,7 +380,8 @@ function checkLine(columns: CutoffColumns, line: CutoffLine, axis: ReturnType<ty
   if (!(extent > 1e-6)) return { problem: { ...where, reason: `${words} has no length along strike: its vertices are all at one place in map view` } };
 
   const tolerance = 1e-9 * Math.max(1, extent);
-  let forward = 0, backward = 0;
+  let forward = 0,
+    backward = 0;
   for (let k = 1; k < distinct.length; k++) {
     const du = u(distinct[k]) - u(distinct[k - 1]);
     if (du > tolerance) forward++;

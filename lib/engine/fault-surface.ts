@@ -55,8 +55,17 @@ export function surfaceLengthScaleM(medianEdgeM: number, cellM: number): number 
  * analysis. The grid spans the data plus three length scales each side; nodes the fit cannot fix take the tangent plane
  * of the nearest node it fixed.
  */
-export function buildSurfaceModel(s: ArrayLike<number>, t: ArrayLike<number>, offPlaneM: ArrayLike<number>, triangles: Uint32Array, medianEdgeM: number): SurfaceModel {
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+export function buildSurfaceModel(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  offPlaneM: ArrayLike<number>,
+  triangles: Uint32Array,
+  medianEdgeM: number,
+): SurfaceModel {
+  let minS = Infinity,
+    maxS = -Infinity,
+    minT = Infinity,
+    maxT = -Infinity;
   for (let i = 0; i < s.length; i++) {
     if (s[i] < minS) minS = s[i];
     if (s[i] > maxS) maxS = s[i];
@@ -82,14 +91,24 @@ export function buildSurfaceModel(s: ArrayLike<number>, t: ArrayLike<number>, of
     columns: Math.min(MAX_SURFACE_NODES, Math.ceil((maxS - minS + 2 * pad) / cellM) + 1),
     rows: Math.min(MAX_SURFACE_NODES, Math.ceil((maxT - minT + 2 * pad) / cellM) + 1),
   };
-  if (![spec.s0, spec.t0, spec.cellM, spec.columns, spec.rows, lengthScaleM].every(Number.isFinite) || spec.columns < 2 || spec.rows < 2) return flatModel(minS, minT);
+  if (![spec.s0, spec.t0, spec.cellM, spec.columns, spec.rows, lengthScaleM].every(Number.isFinite) || spec.columns < 2 || spec.rows < 2)
+    return flatModel(minS, minT);
   const [raw] = rasterizeTriangles(s, t, [offPlaneM], triangles, spec);
   const fit = localPolynomialFit(raw, spec, lengthScaleM, 2);
   const n = spec.columns * spec.rows;
   const fitted = new Uint8Array(n);
   // trusted: nodes with data, and nodes next to it whose window still holds a third of a full window's data
   for (let k = 0; k < n; k++) fitted[k] = Number.isFinite(fit.offPlaneM[k]) && (Number.isFinite(raw[k]) || fit.support[k] >= 0.33) ? 1 : 0;
-  const model: SurfaceModel = { spec, lengthScaleM, offPlaneM: fit.offPlaneM, gradientS: fit.gradientS, gradientT: fit.gradientT, fitted, arcS: new Float64Array(n), arcT: new Float64Array(n) };
+  const model: SurfaceModel = {
+    spec,
+    lengthScaleM,
+    offPlaneM: fit.offPlaneM,
+    gradientS: fit.gradientS,
+    gradientT: fit.gradientT,
+    fitted,
+    arcS: new Float64Array(n),
+    arcT: new Float64Array(n),
+  };
   continueBeyondData(model);
   fillArcLengths(model);
   return model;
@@ -102,14 +121,16 @@ function fillArcLengths(model: SurfaceModel) {
     const row = j * columns;
     arcS[row] = 0;
     for (let i = 1; i < columns; i++) {
-      const a = gradientS[row + i - 1], b = gradientS[row + i];
+      const a = gradientS[row + i - 1],
+        b = gradientS[row + i];
       arcS[row + i] = arcS[row + i - 1] + (cellM * (Math.sqrt(1 + a * a) + Math.sqrt(1 + b * b))) / 2;
     }
   }
   for (let i = 0; i < columns; i++) arcT[i] = 0;
   for (let j = 1; j < rows; j++) {
     for (let i = 0; i < columns; i++) {
-      const a = gradientT[(j - 1) * columns + i], b = gradientT[j * columns + i];
+      const a = gradientT[(j - 1) * columns + i],
+        b = gradientT[j * columns + i];
       arcT[j * columns + i] = arcT[(j - 1) * columns + i] + (cellM * (Math.sqrt(1 + a * a) + Math.sqrt(1 + b * b))) / 2;
     }
   }
@@ -118,7 +139,16 @@ function fillArcLengths(model: SurfaceModel) {
 /** The reference plane itself, for coordinates too extreme to grid (w = 0 everywhere). */
 function flatModel(s0: number, t0: number): SurfaceModel {
   const spec: GridSpec = { s0: Number.isFinite(s0) ? s0 : 0, t0: Number.isFinite(t0) ? t0 : 0, cellM: 1, columns: 2, rows: 2 };
-  return { spec, lengthScaleM: NaN, offPlaneM: new Float64Array(4), gradientS: new Float64Array(4), gradientT: new Float64Array(4), fitted: new Uint8Array(4), arcS: Float64Array.of(0, 1, 0, 1), arcT: Float64Array.of(0, 0, 1, 1) };
+  return {
+    spec,
+    lengthScaleM: NaN,
+    offPlaneM: new Float64Array(4),
+    gradientS: new Float64Array(4),
+    gradientT: new Float64Array(4),
+    fitted: new Uint8Array(4),
+    arcS: Float64Array.of(0, 1, 0, 1),
+    arcT: Float64Array.of(0, 0, 1, 1),
+  };
 }
 
 /**
@@ -131,7 +161,8 @@ function continueBeyondData(model: SurfaceModel) {
   const n = columns * rows;
   const source = new Int32Array(n).fill(-1);
   const queue = new Int32Array(n);
-  let head = 0, tail = 0;
+  let head = 0,
+    tail = 0;
   for (let k = 0; k < n; k++) {
     if (fitted[k]) {
       source[k] = k;
@@ -147,12 +178,15 @@ function continueBeyondData(model: SurfaceModel) {
   }
   while (head < tail) {
     const k = queue[head++];
-    const i = k % columns, j = (k / columns) | 0;
+    const i = k % columns,
+      j = (k / columns) | 0;
     const from = source[k];
-    const fi = from % columns, fj = (from / columns) | 0;
+    const fi = from % columns,
+      fj = (from / columns) | 0;
     for (let dj = -1; dj <= 1; dj++) {
       for (let di = -1; di <= 1; di++) {
-        const ni = i + di, nj = j + dj;
+        const ni = i + di,
+          nj = j + dj;
         if (ni < 0 || nj < 0 || ni >= columns || nj >= rows) continue;
         const m = nj * columns + ni;
         if (source[m] >= 0) continue;
@@ -168,13 +202,16 @@ function continueBeyondData(model: SurfaceModel) {
 
 /** Bilinear sample of a complete (NaN-free) node field of `spec` at fractional node (gx, gy) inside the grid. */
 function bilinear(spec: GridSpec, field: ArrayLike<number>, gx: number, gy: number): number {
-  const columns = spec.columns, rows = spec.rows;
-  let i = Math.floor(gx), j = Math.floor(gy);
+  const columns = spec.columns,
+    rows = spec.rows;
+  let i = Math.floor(gx),
+    j = Math.floor(gy);
   if (i > columns - 2) i = columns - 2;
   if (j > rows - 2) j = rows - 2;
   if (i < 0) i = 0;
   if (j < 0) j = 0;
-  const fx = gx - i, fy = gy - j;
+  const fx = gx - i,
+    fy = gy - j;
   const k = j * columns + i;
   const top = field[k] + fx * (field[k + 1] - field[k]);
   const bottom = field[k + columns] + fx * (field[k + columns + 1] - field[k + columns]);
@@ -188,7 +225,8 @@ export function sampleSurface(model: SurfaceModel, s: number, t: number): Surfac
   const maxT = spec.t0 + (spec.rows - 1) * spec.cellM;
   const cs = Math.min(Math.max(s, spec.s0), maxS);
   const ct = Math.min(Math.max(t, spec.t0), maxT);
-  const gx = (cs - spec.s0) / spec.cellM, gy = (ct - spec.t0) / spec.cellM;
+  const gx = (cs - spec.s0) / spec.cellM,
+    gy = (ct - spec.t0) / spec.cellM;
   const gradientS = bilinear(spec, model.gradientS, gx, gy);
   const gradientT = bilinear(spec, model.gradientT, gx, gy);
   const w = bilinear(spec, model.offPlaneM, gx, gy);
@@ -210,7 +248,8 @@ function dipOfSlopes(gradientS: number, gradientT: number, frame: Frame): number
 export function localDipColumn(model: SurfaceModel, frame: Frame, s: ArrayLike<number>, t: ArrayLike<number>): Float64Array {
   const out = new Float64Array(s.length);
   const { spec } = model;
-  const maxGx = spec.columns - 1, maxGy = spec.rows - 1;
+  const maxGx = spec.columns - 1,
+    maxGy = spec.rows - 1;
   for (let i = 0; i < s.length; i++) {
     const gx = Math.min(Math.max((s[i] - spec.s0) / spec.cellM, 0), maxGx);
     const gy = Math.min(Math.max((t[i] - spec.t0) / spec.cellM, 0), maxGy);
@@ -243,7 +282,8 @@ function cumulativeArc(model: SurfaceModel, s: number, t: number): { alongS: num
   const maxT = spec.t0 + (spec.rows - 1) * spec.cellM;
   const cs = Math.min(Math.max(s, spec.s0), maxS);
   const ct = Math.min(Math.max(t, spec.t0), maxT);
-  const gx = (cs - spec.s0) / spec.cellM, gy = (ct - spec.t0) / spec.cellM;
+  const gx = (cs - spec.s0) / spec.cellM,
+    gy = (ct - spec.t0) / spec.cellM;
   let alongS = bilinear(spec, arcS, gx, gy);
   let alongT = bilinear(spec, arcT, gx, gy);
   if (s !== cs) {
@@ -268,8 +308,16 @@ export function alongSurface(model: SurfaceModel, s0: number, t0: number, s: num
 }
 
 /** Length (along strike) and height (down dip) of a polygon in (s, t), measured along the surface from (s₀, t₀). */
-export function extentAlongSurface(model: SurfaceModel, polygon: [number, number][], s0: number, t0: number): { lengthM: number; heightM: number; minU: number; maxU: number; minV: number; maxV: number } {
-  let minU = Infinity, maxU = -Infinity, minV = Infinity, maxV = -Infinity;
+export function extentAlongSurface(
+  model: SurfaceModel,
+  polygon: [number, number][],
+  s0: number,
+  t0: number,
+): { lengthM: number; heightM: number; minU: number; maxU: number; minV: number; maxV: number } {
+  let minU = Infinity,
+    maxU = -Infinity,
+    minV = Infinity,
+    maxV = -Infinity;
   for (const [s, t] of polygon) {
     const { u, v } = alongSurface(model, s0, t0, s, t);
     if (u < minU) minU = u;
@@ -283,14 +331,16 @@ export function extentAlongSurface(model: SurfaceModel, polygon: [number, number
 /** Mean of the area stretch √(1 + w_s² + w_t²) over the surface nodes inside a polygon (1 when none is inside). */
 export function meanAreaStretch(model: SurfaceModel, polygon: [number, number][]): number {
   const { spec } = model;
-  let sum = 0, count = 0;
+  let sum = 0,
+    count = 0;
   const crossings: number[] = [];
   for (let j = 0; j < spec.rows; j++) {
     const t = spec.t0 + j * spec.cellM;
     // even-odd scanline: where the row crosses the polygon's edges, nodes between pairs of crossings are inside
     crossings.length = 0;
     for (let a = 0, b = polygon.length - 1; a < polygon.length; b = a++) {
-      const [sa, ta] = polygon[a], [sb, tb] = polygon[b];
+      const [sa, ta] = polygon[a],
+        [sb, tb] = polygon[b];
       if (ta > t !== tb > t) crossings.push(((sb - sa) * (t - ta)) / (tb - ta) + sa);
     }
     crossings.sort((p, q) => p - q);
@@ -311,7 +361,8 @@ export function meanAreaStretch(model: SurfaceModel, polygon: [number, number][]
 export function insidePolygon(polygon: [number, number][], s: number, t: number): boolean {
   let inside = false;
   for (let i = 0, j = polygon.length - 1; i < polygon.length; j = i++) {
-    const [si, ti] = polygon[i], [sj, tj] = polygon[j];
+    const [si, ti] = polygon[i],
+      [sj, tj] = polygon[j];
     if (ti > t !== tj > t && s < ((sj - si) * (t - ti)) / (tj - ti) + si) inside = !inside;
   }
   return inside;
@@ -321,7 +372,12 @@ export function insidePolygon(polygon: [number, number][], s: number, t: number)
  * The smoothed surface, its local orientation and its area stretch √(1 + w_s² + w_t²) (surface area per unit of plane
  * area) at the nodes of an analysis grid where `mask` has data (NaN elsewhere).
  */
-export function surfaceOnGrid(model: SurfaceModel, frame: Frame, spec: GridSpec, mask: ArrayLike<number>): { offPlaneM: Float64Array; localDipDeg: Float64Array; localStrikeDeg: Float64Array; areaStretch: Float64Array } {
+export function surfaceOnGrid(
+  model: SurfaceModel,
+  frame: Frame,
+  spec: GridSpec,
+  mask: ArrayLike<number>,
+): { offPlaneM: Float64Array; localDipDeg: Float64Array; localStrikeDeg: Float64Array; areaStretch: Float64Array } {
   const n = spec.columns * spec.rows;
   const offPlaneM = new Float64Array(n).fill(NaN);
   const localDipDeg = new Float64Array(n).fill(NaN);
@@ -340,10 +396,17 @@ export function surfaceOnGrid(model: SurfaceModel, frame: Frame, spec: GridSpec,
       const s = spec.s0 + i * spec.cellM;
       const gx = Math.min(Math.max((s - m.s0) / m.cellM, 0), m.columns - 1);
       offPlaneM[k] = bilinear(m, model.offPlaneM, gx, gy);
-      const gs = bilinear(m, model.gradientS, gx, gy), gt = bilinear(m, model.gradientT, gx, gy);
+      const gs = bilinear(m, model.gradientS, gx, gy),
+        gt = bilinear(m, model.gradientT, gx, gy);
       // the normal n̂ − w_s·ŝ − w_t·d̂, pointed up: dip from its vertical part, dip direction from its horizontal part
-      let x = nx - gs * sx - gt * dx, y = ny - gs * sy - gt * dy, z = nz - gs * sz - gt * dz;
-      if (z < 0) { x = -x; y = -y; z = -z; }
+      let x = nx - gs * sx - gt * dx,
+        y = ny - gs * sy - gt * dy,
+        z = nz - gs * sz - gt * dz;
+      if (z < 0) {
+        x = -x;
+        y = -y;
+        z = -z;
+      }
       const length = Math.sqrt(x * x + y * y + z * z);
       localDipDeg[k] = (Math.acos(Math.min(1, z / length)) * 180) / Math.PI;
       const dipDirection = x * x + y * y > 1e-24 * length * length ? (Math.atan2(x, y) * 180) / Math.PI : 90;

@@ -14,7 +14,10 @@ export function gridSpecFor(
   spacingM: number,
   options: { cellM?: number; gridCells?: number; square?: boolean } = {},
 ): GridSpec {
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+  let minS = Infinity,
+    maxS = -Infinity,
+    minT = Infinity,
+    maxT = -Infinity;
   for (let i = 0; i < s.length; i++) {
     if (s[i] < minS) minS = s[i];
     if (s[i] > maxS) maxS = s[i];
@@ -73,10 +76,15 @@ export function rasterizeTriangles(
     for (let v = 0; v < nv; v++) vertex[o + 2 + v] = values[v][i];
   }
   for (let k = 0; k < triangles.length; k += 3) {
-    const a = triangles[k] * stride, b = triangles[k + 1] * stride, c = triangles[k + 2] * stride;
-    const ax = (vertex[a] - s0) / cellM, ay = (vertex[a + 1] - t0) / cellM;
-    const bx = (vertex[b] - s0) / cellM, by = (vertex[b + 1] - t0) / cellM;
-    const cx = (vertex[c] - s0) / cellM, cy = (vertex[c + 1] - t0) / cellM;
+    const a = triangles[k] * stride,
+      b = triangles[k + 1] * stride,
+      c = triangles[k + 2] * stride;
+    const ax = (vertex[a] - s0) / cellM,
+      ay = (vertex[a + 1] - t0) / cellM;
+    const bx = (vertex[b] - s0) / cellM,
+      by = (vertex[b + 1] - t0) / cellM;
+    const cx = (vertex[c] - s0) / cellM,
+      cy = (vertex[c + 1] - t0) / cellM;
     const det = (by - cy) * (ax - cx) + (cx - bx) * (ay - cy);
     if (det === 0) continue;
     const i0 = Math.max(0, Math.ceil(Math.min(ax, bx, cx) - eps));

@@ -142,7 +142,9 @@ function facingPieces(s0: number, s1: number, a: Band, b: Band, k: number): { s:
   }
   const fractions = [...cuts].sort((x, y) => x - y);
   const at = (line: readonly [number, number], f: number) => line[0] + f * (line[1] - line[0]);
-  const s: number[] = [], upper: number[] = [], lower: number[] = [];
+  const s: number[] = [],
+    upper: number[] = [],
+    lower: number[] = [];
   for (const f of fractions) {
     s.push(s0 + f * (s1 - s0));
     upper.push(Math.min(at(lines[0], f), at(lines[2], f)));
@@ -164,7 +166,8 @@ export function juxtapose(traces: JuxtapositionTraces, units: StratigraphyUnit[]
   const bottomZ: number[] = [];
   for (let k = 0; k < n; k++) {
     const range = ranges[k];
-    let top = -Infinity, bottom = Infinity;
+    let top = -Infinity,
+      bottom = Infinity;
     if (range) {
       for (let i = range[0]; i <= range[1]; i++) {
         for (const z of [placed[i].trace.hwZ[k] as number, placed[i].trace.fwZ[k] as number]) {
@@ -239,21 +242,38 @@ export function juxtapose(traces: JuxtapositionTraces, units: StratigraphyUnit[]
       }
       closeRun();
       if (areaM2 <= 0) continue;
-      areas.push({ hwUnit: a.unit, fwUnit: b.unit, hwKind: a.kind, fwKind: b.kind, pair: pairKind(a.kind, b.kind), areaM2, planeAreaM2: sin > 0 ? areaM2 / sin : NaN, polygons });
+      areas.push({
+        hwUnit: a.unit,
+        fwUnit: b.unit,
+        hwKind: a.kind,
+        fwKind: b.kind,
+        pair: pairKind(a.kind, b.kind),
+        areaM2,
+        planeAreaM2: sin > 0 ? areaM2 / sin : NaN,
+        polygons,
+      });
     }
   }
   return { stationsS: traces.stationsS, topZ, bottomZ, hw, fw, areas, windowAreaM2, coveredLengthM, unplaced, notes };
 }
 
 function meanOf(values: (number | null)[]): number {
-  let sum = 0, count = 0;
-  for (const v of values) if (v !== null && Number.isFinite(v)) { sum += v; count++; }
+  let sum = 0,
+    count = 0;
+  for (const v of values)
+    if (v !== null && Number.isFinite(v)) {
+      sum += v;
+      count++;
+    }
   return count ? sum / count : NaN;
 }
 
 /** Areas summed by what meets what (m², diagram and fault plane). */
 export function areasByPair(areas: JuxtapositionArea[]): Record<PairKind, { areaM2: number; planeAreaM2: number }> {
-  const out = Object.fromEntries((Object.keys(PAIR_WORDS) as PairKind[]).map((kind) => [kind, { areaM2: 0, planeAreaM2: 0 }])) as Record<PairKind, { areaM2: number; planeAreaM2: number }>;
+  const out = Object.fromEntries((Object.keys(PAIR_WORDS) as PairKind[]).map((kind) => [kind, { areaM2: 0, planeAreaM2: 0 }])) as Record<
+    PairKind,
+    { areaM2: number; planeAreaM2: number }
+  >;
   for (const area of areas) {
     out[area.pair].areaM2 += area.areaM2;
     out[area.pair].planeAreaM2 += area.planeAreaM2;
@@ -264,13 +284,23 @@ export function areasByPair(areas: JuxtapositionArea[]): Record<PairKind, { area
 /** The areas as CSV rows (one per facing pair of units), for export. */
 export function juxtapositionCsv(segment: string, result: Juxtaposition): string {
   const quote = (text: string) => (/[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text);
-  const lines = ["segment,hanging_wall_unit,hanging_wall_kind,footwall_unit,footwall_kind,what_meets_what,area_along_strike_by_vertical_m2,area_on_fault_plane_m2,share_of_diagram_percent"];
+  const lines = [
+    "segment,hanging_wall_unit,hanging_wall_kind,footwall_unit,footwall_kind,what_meets_what,area_along_strike_by_vertical_m2,area_on_fault_plane_m2,share_of_diagram_percent",
+  ];
   for (const area of result.areas) {
-    lines.push([
-      quote(segment), quote(area.hwUnit), area.hwKind, quote(area.fwUnit), area.fwKind, quote(PAIR_WORDS[area.pair]),
-      area.areaM2.toFixed(1), Number.isFinite(area.planeAreaM2) ? area.planeAreaM2.toFixed(1) : "",
-      result.windowAreaM2 > 0 ? ((100 * area.areaM2) / result.windowAreaM2).toFixed(2) : "",
-    ].join(","));
+    lines.push(
+      [
+        quote(segment),
+        quote(area.hwUnit),
+        area.hwKind,
+        quote(area.fwUnit),
+        area.fwKind,
+        quote(PAIR_WORDS[area.pair]),
+        area.areaM2.toFixed(1),
+        Number.isFinite(area.planeAreaM2) ? area.planeAreaM2.toFixed(1) : "",
+        result.windowAreaM2 > 0 ? ((100 * area.areaM2) / result.windowAreaM2).toFixed(2) : "",
+      ].join(","),
+    );
   }
   return `${lines.join("\n")}\n`;
 }

@@ -43,9 +43,12 @@ export function kinematicsProblems(kinematics: FaultKinematics): string[] {
     if (kinematics.rakeDeg === undefined) return [];
     const problem = rakeProblem(kinematics.rakeDeg);
     if (problem) return [`rake: ${problem}`];
-    return senseOfRake(kinematics.rakeDeg) === kinematics.sense ? [] : [`rake: ${kinematics.rakeDeg}° is ${senseOfRake(kinematics.rakeDeg)} slip, not ${kinematics.sense}`];
+    return senseOfRake(kinematics.rakeDeg) === kinematics.sense
+      ? []
+      : [`rake: ${kinematics.rakeDeg}° is ${senseOfRake(kinematics.rakeDeg)} slip, not ${kinematics.sense}`];
   }
-  if (kinematics.rakeDeg === undefined || !Number.isFinite(kinematics.rakeDeg)) return ["rake: an oblique fault needs its rake (degrees from the strike, negative for normal-oblique, positive for reverse-oblique slip)"];
+  if (kinematics.rakeDeg === undefined || !Number.isFinite(kinematics.rakeDeg))
+    return ["rake: an oblique fault needs its rake (degrees from the strike, negative for normal-oblique, positive for reverse-oblique slip)"];
   const problem = rakeProblem(kinematics.rakeDeg);
   return problem ? [`rake: ${problem}`] : [];
 }
@@ -55,7 +58,11 @@ export function kinematicsProblems(kinematics: FaultKinematics): string[] {
  * is out of range, too close to strike-slip, or of the other sense than the fault (offset of the opposite sense is
  * given as negative throw, with the rake of the fault's own sense).
  */
-export function kinematicRowProblems(picks: Pick<PickColumns, "throwM" | "rakeDeg" | "sourceRow">, kinematics: FaultKinematics, limit = Infinity): RejectedRow[] {
+export function kinematicRowProblems(
+  picks: Pick<PickColumns, "throwM" | "rakeDeg" | "sourceRow">,
+  kinematics: FaultKinematics,
+  limit = Infinity,
+): RejectedRow[] {
   const problems: RejectedRow[] = [];
   const sense = kinematics.sense === "oblique" ? senseOfRake(faultRakeDeg(kinematics)) : kinematics.sense;
   const fault = kinematics.sense === "oblique" ? `${sense}-oblique` : sense;
@@ -97,7 +104,8 @@ export function rakeColumn(picks: Pick<PickColumns, "rakeDeg">, indices: ArrayLi
 /** What the report says about the fault type and how throw became displacement. */
 export function kinematicsSummary(kinematics: FaultKinematics, picks: Pick<PickColumns, "throwM" | "rakeDeg">): KinematicsSummary {
   const rakeDeg = faultRakeDeg(kinematics);
-  let picksWithRake = 0, oppositeSensePicks = 0;
+  let picksWithRake = 0,
+    oppositeSensePicks = 0;
   for (let i = 0; i < picks.throwM.length; i++) {
     if (picks.rakeDeg && Number.isFinite(picks.rakeDeg[i])) picksWithRake++;
     if (picks.throwM[i] < 0) oppositeSensePicks++;
@@ -107,7 +115,8 @@ export function kinematicsSummary(kinematics: FaultKinematics, picks: Pick<PickC
     kinematics.sense === "oblique"
       ? `Oblique fault, ${senseOfRake(rakeDeg)}-oblique slip at rake ${rakeDeg}° (hanging wall ${hangingWall}; rake from the strike in the fault surface, negative normal, positive reverse: Aki & Richards 1980)`
       : `${kinematics.sense === "normal" ? "Normal" : "Reverse"} fault: the hanging wall moved ${hangingWall} the dip (rake ${rakeDeg > 0 ? "+" : ""}${rakeDeg}°)`;
-  const own = picksWithRake > 0 ? ` ${picksWithRake.toLocaleString("en")} ${picksWithRake === 1 ? "pick gives its own rake" : "picks give their own rake"}.` : "";
+  const own =
+    picksWithRake > 0 ? ` ${picksWithRake.toLocaleString("en")} ${picksWithRake === 1 ? "pick gives its own rake" : "picks give their own rake"}.` : "";
   const conversion =
     kinematics.sense === "oblique" || picksWithRake > 0
       ? " Displacement is the net slip: throw / (sin(local dip) · |sin(rake)|), the dip-slip part from throw and heave where heave is given (Groshong 2006)."

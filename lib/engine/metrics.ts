@@ -13,7 +13,9 @@ export function fitDisplacementLength(lengthM: number[], dmaxM: number[], method
   const k = xs.length;
   const mx = xs.reduce((a, b) => a + b, 0) / k;
   const my = ys.reduce((a, b) => a + b, 0) / k;
-  let sxx = 0, syy = 0, sxy = 0;
+  let sxx = 0,
+    syy = 0,
+    sxy = 0;
   for (let i = 0; i < k; i++) {
     sxx += (xs[i] - mx) ** 2;
     syy += (ys[i] - my) ** 2;
@@ -52,14 +54,17 @@ export function scalingNote(dmaxM: number, lengthM: number): { dOverL: number; n
 
 /** Aspect ratio screen: Nicol et al. (1996) report 1.0–3.4 (mean 2.15) for unrestricted normal faults. */
 export function aspectRatioNote(aspectRatio: number): string | null {
-  if (aspectRatio < 1 || aspectRatio > 3.4) return `aspect ratio ${aspectRatio.toFixed(2)} is outside 1.0–3.4 reported for unrestricted normal faults (Nicol et al. 1996); review the tip line`;
+  if (aspectRatio < 1 || aspectRatio > 3.4)
+    return `aspect ratio ${aspectRatio.toFixed(2)} is outside 1.0–3.4 reported for unrestricted normal faults (Nicol et al. 1996); review the tip line`;
   return null;
 }
 
 /** Mean and max of the displacement gradient magnitude on the grid (central differences, m/m). */
 export function gridGradients(grid: RegularGrid): { meanPerM: number; maxPerM: number } {
   const { columns, rows, cellM, displacementM: d } = grid;
-  let sum = 0, count = 0, max = 0;
+  let sum = 0,
+    count = 0,
+    max = 0;
   for (let j = 1; j < rows - 1; j++) {
     for (let i = 1; i < columns - 1; i++) {
       const k = j * columns + i;
@@ -77,7 +82,9 @@ export function gridGradients(grid: RegularGrid): { meanPerM: number; maxPerM: n
 
 /** Displacement-weighted centroid of the grid (s, t). */
 export function displacementCentroid(grid: RegularGrid): { s: number; t: number } {
-  let w = 0, ws = 0, wt = 0;
+  let w = 0,
+    ws = 0,
+    wt = 0;
   for (let j = 0; j < grid.rows; j++) {
     for (let i = 0; i < grid.columns; i++) {
       const v = grid.displacementM[j * grid.columns + i];

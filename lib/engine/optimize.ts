@@ -2,7 +2,13 @@
 // random source, so every analysis of the same picks gives the same numbers.
 
 /** Minimise f by the Nelder–Mead simplex (Nelder & Mead 1965, standard coefficients). */
-export function nelderMead(f: (p: number[]) => number, start: number[], steps: number[], maxIterations = 600, tolerance = 1e-10): { point: number[]; value: number; iterations: number } {
+export function nelderMead(
+  f: (p: number[]) => number,
+  start: number[],
+  steps: number[],
+  maxIterations = 600,
+  tolerance = 1e-10,
+): { point: number[]; value: number; iterations: number } {
   const dim = start.length;
   let simplex = [start.slice()];
   for (let i = 0; i < dim; i++) {
@@ -61,7 +67,13 @@ export function erfc(x: number): number {
   const r =
     t *
     Math.exp(
-      -z * z - 1.26551223 + t * (1.00002368 + t * (0.37409196 + t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
+      -z * z -
+        1.26551223 +
+        t *
+          (1.00002368 +
+            t *
+              (0.37409196 +
+                t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
     );
   return x >= 0 ? r : 2 - r;
 }

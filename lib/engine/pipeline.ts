@@ -87,7 +87,11 @@ export function analyzePicks(
   const rowProblems = kinematicRowProblems(picks, kinematics, 200);
   if (rowProblems.length) {
     const shown = rowProblems.slice(0, 10).map((r) => `row ${r.row}, column ${r.column}: ${r.reason}`);
-    throw new PickInputError(`${rowProblems.length}${rowProblems.length >= 200 ? "+" : ""} picks do not fit the fault's type: ${shown.join("; ")}`, rowProblems, rowProblems.length >= 200);
+    throw new PickInputError(
+      `${rowProblems.length}${rowProblems.length >= 200 ? "+" : ""} picks do not fit the fault's type: ${shown.join("; ")}`,
+      rowProblems,
+      rowProblems.length >= 200,
+    );
   }
   const segments: SegmentResult[] = [];
   const grids: Record<string, RegularGrid> = {};
@@ -139,11 +143,20 @@ export function analyzePicks(
           `segment "${id}": ${((100 * below) / throwM.length).toFixed(1)} % of the picks have less throw than the ${options.throwCutoffM} m cut-off that was set; a resolution cut-off is the smallest throw that could be picked, so check the value`,
         );
     }
-    const fitInputs = tipLineInputs(s, t, displacementM, tri.outline, tri.triangles, tri.medianEdgeM, {
-      cutoffM: options.throwCutoffM !== undefined ? options.throwCutoffM * displacementPerThrow(throwM, displacementM) : undefined,
-      models: options.profiles,
-      ends: options.ends,
-    }, weighted ? weights : undefined);
+    const fitInputs = tipLineInputs(
+      s,
+      t,
+      displacementM,
+      tri.outline,
+      tri.triangles,
+      tri.medianEdgeM,
+      {
+        cutoffM: options.throwCutoffM !== undefined ? options.throwCutoffM * displacementPerThrow(throwM, displacementM) : undefined,
+        models: options.profiles,
+        ends: options.ends,
+      },
+      weighted ? weights : undefined,
+    );
     const waitForFits = (options.tipLineFitter ?? inlineTipLineFitter)(fitInputs);
     stage("grid", k, 0.35);
     const spec = gridSpecFor(s, t, tri.medianEdgeM, options);
@@ -179,20 +192,44 @@ export function analyzePicks(
     stage("metrics", k, 0.9);
     const gradients = gridGradients(grid);
     const mapped = extentAlongSurface(surface, outline, 0, 0);
-    const summary = surfaceSummary(surface, { ...spec, displacementM: grid.displacementM, offPlaneM: onGrid.offPlaneM, localDipDeg: onGrid.localDipDeg }, plane.dipDeg, tipLine, projected);
+    const summary = surfaceSummary(
+      surface,
+      { ...spec, displacementM: grid.displacementM, offPlaneM: onGrid.offPlaneM, localDipDeg: onGrid.localDipDeg },
+      plane.dipDeg,
+      tipLine,
+      projected,
+    );
     segments.push({
       id,
       pickCount: ids.length,
       plane: {
-        strikeDeg: plane.strikeDeg, dipDeg: plane.dipDeg, dipDirectionDeg: plane.dipDirectionDeg, rmsM: plane.rmsM,
-        planarityWarning: plane.planarityWarning, centroid: plane.centroid, strikeVector: plane.strikeVector,
-        dipVector: plane.dipVector, normal: plane.normal,
+        strikeDeg: plane.strikeDeg,
+        dipDeg: plane.dipDeg,
+        dipDirectionDeg: plane.dipDirectionDeg,
+        rmsM: plane.rmsM,
+        planarityWarning: plane.planarityWarning,
+        centroid: plane.centroid,
+        strikeVector: plane.strikeVector,
+        dipVector: plane.dipVector,
+        normal: plane.normal,
       },
       max: {
-        displacementM: griddedDisplacementM[maxIndex], throwM: griddedThrowM[maxIndex], s: s[maxIndex], t: t[maxIndex], x: maxWorld[0], y: maxWorld[1], z: maxWorld[2],
-        fittedDisplacementM: fittedDmax.displacementM, fittedDisplacementRangeM: fittedDmax.rangeM,
+        displacementM: griddedDisplacementM[maxIndex],
+        throwM: griddedThrowM[maxIndex],
+        s: s[maxIndex],
+        t: t[maxIndex],
+        x: maxWorld[0],
+        y: maxWorld[1],
+        z: maxWorld[2],
+        fittedDisplacementM: fittedDmax.displacementM,
+        fittedDisplacementRangeM: fittedDmax.rangeM,
       },
-      mappedLimit: { lengthM: mapped.lengthM, heightM: mapped.heightM, polygon: outline, worldPolygon: outline.map(([ps, pt]) => surfacePoint(surface, plane, ps, pt)) },
+      mappedLimit: {
+        lengthM: mapped.lengthM,
+        heightM: mapped.heightM,
+        polygon: outline,
+        worldPolygon: outline.map(([ps, pt]) => surfacePoint(surface, plane, ps, pt)),
+      },
       tipLine,
       gradients: {
         meanPerM: gradients.meanPerM,
@@ -252,7 +289,13 @@ function settingsOf(options: AnalysisOptions): AnalysisSettings {
 /** Parse a pick CSV and analyse it (the parsed picks come back too); throws PickInputError when the input cannot be used. */
 export function analyzeCsv(text: string, options: PipelineOptions & Omit<ParseOptions, "units"> = {}): PipelineResult & { picks: PickColumns } {
   options.onStage?.("parse", 0);
-  const parsed = parsePickCsv(text, { units: options.units, dropBadRows: options.dropBadRows, dedupe: options.dedupe, kinematics: options.kinematics, velocityModel: options.velocityModel });
+  const parsed = parsePickCsv(text, {
+    units: options.units,
+    dropBadRows: options.dropBadRows,
+    dedupe: options.dedupe,
+    kinematics: options.kinematics,
+    velocityModel: options.velocityModel,
+  });
   const result = analyzePicks(parsed.picks, {
     ...options,
     planes: parsed.planes,

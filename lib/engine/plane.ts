@@ -57,13 +57,7 @@ export class DegeneratePlaneError extends Error {}
  * With `weights` (aligned with `indices`, e.g. pick quality) it is the weighted least-squares plane: weighted
  * centroid and weighted scatter matrix, so a pick of weight w counts as w of a pick; the RMS misfit is weighted too.
  */
-export function fitPlane(
-  x: ArrayLike<number>,
-  y: ArrayLike<number>,
-  z: ArrayLike<number>,
-  indices?: ArrayLike<number>,
-  weights?: ArrayLike<number>,
-): PlaneFit {
+export function fitPlane(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, indices?: ArrayLike<number>, weights?: ArrayLike<number>): PlaneFit {
   const n = indices ? indices.length : x.length;
   if (n < 3) throw new DegeneratePlaneError("at least 3 points are needed to fit a plane");
   const totalWeight = weights ? sumOf(weights) : n;
@@ -93,7 +87,8 @@ export function fitPlane(
   const rmsM = s3 / Math.sqrt(totalWeight);
   let planarityWarning: string | null = null;
   if (s2 / s1 < 0.05) planarityWarning = `points are nearly collinear (s2/s1 = ${(s2 / s1).toFixed(3)}); the dip about that line is poorly constrained`;
-  else if (s3 / s2 > 0.2) planarityWarning = `points are not planar enough for a single plane (s3/s2 = ${(s3 / s2).toFixed(3)}); treat the plane as a reference frame only`;
+  else if (s3 / s2 > 0.2)
+    planarityWarning = `points are not planar enough for a single plane (s3/s2 = ${(s3 / s2).toFixed(3)}); treat the plane as a reference frame only`;
   else if (dipDeg < 20) planarityWarning = `low dip (${dipDeg.toFixed(1)}°): small throw errors become large displacement errors`;
   return {
     strikeDeg: normaliseAzimuth(strikeDeg),
@@ -129,7 +124,15 @@ function sumOf(values: ArrayLike<number>): number {
   return total;
 }
 
-function weightedCentroidOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, weights: ArrayLike<number>, totalWeight: number, indices?: ArrayLike<number>): [number, number, number] {
+function weightedCentroidOf(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  z: ArrayLike<number>,
+  n: number,
+  weights: ArrayLike<number>,
+  totalWeight: number,
+  indices?: ArrayLike<number>,
+): [number, number, number] {
   let cx = 0;
   let cy = 0;
   let cz = 0;
@@ -142,8 +145,23 @@ function weightedCentroidOf(x: ArrayLike<number>, y: ArrayLike<number>, z: Array
   return [cx / totalWeight, cy / totalWeight, cz / totalWeight];
 }
 
-function weightedScatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, cx: number, cy: number, cz: number, weights: ArrayLike<number>, indices?: ArrayLike<number>): [number, number, number, number, number, number] {
-  let xx = 0, xy = 0, xz = 0, yy = 0, yz = 0, zz = 0;
+function weightedScatterOf(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  z: ArrayLike<number>,
+  n: number,
+  cx: number,
+  cy: number,
+  cz: number,
+  weights: ArrayLike<number>,
+  indices?: ArrayLike<number>,
+): [number, number, number, number, number, number] {
+  let xx = 0,
+    xy = 0,
+    xz = 0,
+    yy = 0,
+    yz = 0,
+    zz = 0;
   for (let k = 0; k < n; k++) {
     const i = indices ? indices[k] : k;
     const w = weights[k];
@@ -160,8 +178,22 @@ function weightedScatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayL
   return [xx, xy, xz, yy, yz, zz];
 }
 
-function scatterOf(x: ArrayLike<number>, y: ArrayLike<number>, z: ArrayLike<number>, n: number, cx: number, cy: number, cz: number, indices?: ArrayLike<number>): [number, number, number, number, number, number] {
-  let xx = 0, xy = 0, xz = 0, yy = 0, yz = 0, zz = 0;
+function scatterOf(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  z: ArrayLike<number>,
+  n: number,
+  cx: number,
+  cy: number,
+  cz: number,
+  indices?: ArrayLike<number>,
+): [number, number, number, number, number, number] {
+  let xx = 0,
+    xy = 0,
+    xz = 0,
+    yy = 0,
+    yz = 0,
+    zz = 0;
   for (let k = 0; k < n; k++) {
     const i = indices ? indices[k] : k;
     const dx = x[i] - cx;

@@ -185,7 +185,10 @@ export function visibleRadius(model: ProfileModel, fractionOfDmax: number, shape
 }
 
 /** Least-squares line through (distance, displacement) picks near a tip, extrapolated to zero displacement. */
-export function extrapolateTipLinear(distanceM: ArrayLike<number>, displacementM: ArrayLike<number>): {
+export function extrapolateTipLinear(
+  distanceM: ArrayLike<number>,
+  displacementM: ArrayLike<number>,
+): {
   slopePerM: number;
   interceptM: number;
   tipM: number;

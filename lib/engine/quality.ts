@@ -52,10 +52,15 @@ export function pullTowardNeighbours(values: ArrayLike<number>[], weights: Array
     }
   };
   for (let k = 0; k < triangles.length; k += 3) {
-    const a = triangles[k], b = triangles[k + 1], c = triangles[k + 2];
-    addEdge(a, b); addEdge(b, a);
-    addEdge(b, c); addEdge(c, b);
-    addEdge(c, a); addEdge(a, c);
+    const a = triangles[k],
+      b = triangles[k + 1],
+      c = triangles[k + 2];
+    addEdge(a, b);
+    addEdge(b, a);
+    addEdge(b, c);
+    addEdge(c, b);
+    addEdge(c, a);
+    addEdge(a, c);
   }
   return values.map((column, v) => {
     const out = Float64Array.from(column);

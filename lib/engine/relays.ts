@@ -19,7 +19,10 @@ export function overlapToSeparationNote(ratio: number): string {
   return `O/S = ${ratio.toFixed(2)} (${band}); published means: ${LONG_IMBER_MEAN_OS} globally (Long & Imber 2011), ${ACOCELLA_MEAN_OS} for Icelandic rift relays (Acocella et al. 2000).`;
 }
 
-interface Horizontal { ux: number; uy: number }
+interface Horizontal {
+  ux: number;
+  uy: number;
+}
 
 /** The basis of the linkage labels, as the fault sheet and the relay view state it. */
 export const LINKAGE_BASIS =
@@ -74,7 +77,9 @@ export function analyzeRelays(segments: SegmentResult[], grids: Record<string, R
 /** Signed distance of a world point from a segment's mapped surface (its plane plus the gridded w where known), m. */
 function offSurfaceM(seg: SegmentResult, grid: RegularGrid | undefined, x: number, y: number, z: number): { distanceM: number; s: number; t: number } {
   const [cx, cy, cz] = seg.plane.centroid;
-  const px = x - cx, py = y - cy, pz = z - cz;
+  const px = x - cx,
+    py = y - cy,
+    pz = z - cz;
   const [sx, sy, sz] = seg.plane.strikeVector;
   const [dx, dy, dz] = seg.plane.dipVector;
   const [nx, ny, nz] = seg.plane.normal;
@@ -87,9 +92,15 @@ function offSurfaceM(seg: SegmentResult, grid: RegularGrid | undefined, x: numbe
 
 /** A point-in-polygon test (even-odd rule) for one polygon, with its bounding box checked first. */
 function insideTest(polygon: [number, number][]): (s: number, t: number) => boolean {
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+  let minS = Infinity,
+    maxS = -Infinity,
+    minT = Infinity,
+    maxT = -Infinity;
   for (const [ps, pt] of polygon) {
-    minS = Math.min(minS, ps); maxS = Math.max(maxS, ps); minT = Math.min(minT, pt); maxT = Math.max(maxT, pt);
+    minS = Math.min(minS, ps);
+    maxS = Math.max(maxS, ps);
+    minT = Math.min(minT, pt);
+    maxT = Math.max(maxT, pt);
   }
   return (s, t) => {
     if (s < minS || s > maxS || t < minT || t > maxT) return false;
@@ -124,7 +135,10 @@ function relayBetween(
 ): RelayResult | null {
   let [bx, by] = b.plane.strikeVector;
   const [ax, ay] = a.plane.strikeVector;
-  if (ax * bx + ay * by < 0) { bx = -bx; by = -by; }
+  if (ax * bx + ay * by < 0) {
+    bx = -bx;
+    by = -by;
+  }
   const strikeDifferenceDeg = Math.acos(Math.min(1, Math.abs(ax * bx + ay * by) / (Math.hypot(ax, ay) * Math.hypot(bx, by) || 1))) * DEG;
   if (strikeDifferenceDeg > MAX_RELAY_STRIKE_DIFFERENCE_DEG) return null;
   const len = Math.hypot(ax + bx, ay + by) || 1;
@@ -133,7 +147,8 @@ function relayBetween(
   const along = (x: number, y: number) => x * strike.ux + y * strike.uy;
   const across = (x: number, y: number) => x * perp.ux + y * perp.uy;
   const extent = (seg: SegmentResult) => {
-    let lo = Infinity, hi = -Infinity;
+    let lo = Infinity,
+      hi = -Infinity;
     for (const [x, y] of seg.tipLine.worldPolygon) {
       const u = along(x, y);
       lo = Math.min(lo, u);
@@ -145,7 +160,8 @@ function relayBetween(
   const [b0, b1] = extent(b);
   const overlapM = Math.min(a1, b1) - Math.max(a0, b0);
   if (!(overlapM > 0)) return null;
-  const ga = grids[a.id], gb = grids[b.id];
+  const ga = grids[a.id],
+    gb = grids[b.id];
   const zRef = (a.plane.centroid[2] + b.plane.centroid[2]) / 2;
   const pa = tracePoint(a, zRef);
   const pb = tracePoint(b, zRef);
@@ -153,7 +169,10 @@ function relayBetween(
   // trace lines: p + u·strike_seg; evaluate across-strike position where along-strike = mid
   const acrossAt = (p: [number, number], seg: SegmentResult) => {
     let [sx, sy] = seg.plane.strikeVector;
-    if (sx * strike.ux + sy * strike.uy < 0) { sx = -sx; sy = -sy; }
+    if (sx * strike.ux + sy * strike.uy < 0) {
+      sx = -sx;
+      sy = -sy;
+    }
     const rate = along(sx, sy) || 1;
     const u = (mid - along(p[0], p[1])) / rate;
     return across(p[0] + u * sx, p[1] + u * sy);
@@ -162,7 +181,8 @@ function relayBetween(
   const ratio = separationM > 0 ? overlapM / separationM : Infinity;
 
   // summed strike profile at zRef from the displacement grids
-  const lo = Math.min(a0, b0), hi = Math.max(a1, b1);
+  const lo = Math.min(a0, b0),
+    hi = Math.max(a1, b1);
   const samples = 64;
   const profile: number[] = [];
   const onSeg = (seg: SegmentResult, grid: RegularGrid | undefined, u: number) => {
@@ -173,7 +193,9 @@ function relayBetween(
     const rate = along(sx, sy);
     if (Math.abs(rate) < 1e-9) return 0;
     const du = (u - along(p[0], p[1])) / rate;
-    const wx = p[0] + du * sx - cx, wy = p[1] + du * sy - cy, wz = zRef - cz;
+    const wx = p[0] + du * sx - cx,
+      wy = p[1] + du * sy - cy,
+      wz = zRef - cz;
     const [dx, dy, dz] = seg.plane.dipVector;
     const s = wx * sx + wy * sy;
     const t = wx * dx + wy * dy + wz * dz;
@@ -222,7 +244,13 @@ function relayBetween(
     linkage,
     evidence: transfer ? `${evidence} ${transfer}` : evidence,
     basis: LINKAGE_BASIS,
-    connection: { kind: connection.kind, via: connection.via, pickCount: connection.pickCount, throwRangeM: connection.throwRangeM, closestApproachM: connection.closestApproachM },
+    connection: {
+      kind: connection.kind,
+      via: connection.via,
+      pickCount: connection.pickCount,
+      throwRangeM: connection.throwRangeM,
+      closestApproachM: connection.closestApproachM,
+    },
     summedMinimumFraction,
     comparison: overlapToSeparationNote(ratio),
     summedProfile: { alongStrikeM: profile.map((_, k) => lo + ((k + 0.5) / samples) * (hi - lo)), displacementM: profile },
@@ -230,7 +258,14 @@ function relayBetween(
 }
 
 function noMappedPicks(separationM: number): Connection {
-  return { kind: "none", via: null, pickCount: 0, throwRangeM: null, closestApproachM: separationM, note: "No picks were available to look for a connecting structure, so the relay is taken as intact." };
+  return {
+    kind: "none",
+    via: null,
+    pickCount: 0,
+    throwRangeM: null,
+    closestApproachM: separationM,
+    note: "No picks were available to look for a connecting structure, so the relay is taken as intact.",
+  };
 }
 
 /**
@@ -256,7 +291,10 @@ function findConnection(
   const { picks, bySegment } = mapped;
   // merged: the closest pick of one segment to the other's surface, among picks inside that segment's mapped limit
   let closest = Infinity;
-  for (const [self, other, grid] of [[a, b, gb], [b, a, ga]] as const) {
+  for (const [self, other, grid] of [
+    [a, b, gb],
+    [b, a, ga],
+  ] as const) {
     const ids = bySegment.get(self.id) ?? [];
     const placed = ids.map((i) => offSurfaceM(other, grid, picks.x[i], picks.y[i], picks.z[i]));
     // nearest first, so the (costly) outline test runs only until the first pick inside the other's mapped limit
@@ -275,7 +313,11 @@ function findConnection(
   if (!Number.isFinite(closest)) closest = nearestPickDistanceM(bySegment.get(a.id) ?? [], bySegment.get(b.id) ?? [], picks, Math.max(separationM, touchM, 1));
   if (closest <= touchM) {
     return {
-      kind: "merged", via: null, pickCount: 0, throwRangeM: null, closestApproachM: closest,
+      kind: "merged",
+      via: null,
+      pickCount: 0,
+      throwRangeM: null,
+      closestApproachM: closest,
       note: `The segments merge: picks of one lie on the other's mapped surface (closest ${closest.toFixed(0)} m, within ${touchM.toFixed(0)} m, about one pick spacing), so they form one surface with a bend.`,
     };
   }
@@ -284,14 +326,22 @@ function findConnection(
   const groups: { label: string; kind: "segment" | "picks"; ids: number[] }[] = segments
     .filter((seg) => seg.id !== a.id && seg.id !== b.id)
     .map((seg) => ({ label: `segment "${seg.id}"`, kind: "segment" as const, ids: bySegment.get(seg.id) ?? [] }));
-  for (const [self, grid] of [[a, ga], [b, gb]] as const) {
+  for (const [self, grid] of [
+    [a, ga],
+    [b, gb],
+  ] as const) {
     const off = (bySegment.get(self.id) ?? []).filter((i) => Math.abs(offSurfaceM(self, grid, picks.x[i], picks.y[i], picks.z[i]).distanceM) > margin);
     if (off.length) groups.push({ label: `picks of segment "${self.id}" off its own surface`, kind: "picks", ids: off });
   }
   let best: { label: string; reach: number; gap: boolean } | null = null;
   for (const group of groups) {
     const filled = new Uint8Array(ACROSS_BINS);
-    let near = Infinity, far = -Infinity, count = 0, minThrow = Infinity, maxThrow = -Infinity, zeroThrow = false;
+    let near = Infinity,
+      far = -Infinity,
+      count = 0,
+      minThrow = Infinity,
+      maxThrow = -Infinity,
+      zeroThrow = false;
     for (const i of group.ids) {
       const u = along(picks.x[i], picks.y[i]);
       if (u < overlap[0] - margin || u > overlap[1] + margin) continue;
@@ -312,10 +362,15 @@ function findConnection(
     const reaches = near <= 0.15 && far >= 0.85;
     // an empty tenth between the nearest and the farthest pick is a gap in the connection
     let gap = false;
-    for (let bin = Math.max(0, Math.floor(near * ACROSS_BINS)); bin <= Math.min(ACROSS_BINS - 1, Math.floor(far * ACROSS_BINS)); bin++) if (!filled[bin]) gap = true;
+    for (let bin = Math.max(0, Math.floor(near * ACROSS_BINS)); bin <= Math.min(ACROSS_BINS - 1, Math.floor(far * ACROSS_BINS)); bin++)
+      if (!filled[bin]) gap = true;
     if (reaches && !gap && !zeroThrow) {
       return {
-        kind: group.kind, via: group.label, pickCount: count, throwRangeM: [minThrow, maxThrow], closestApproachM: closest,
+        kind: group.kind,
+        via: group.label,
+        pickCount: count,
+        throwRangeM: [minThrow, maxThrow],
+        closestApproachM: closest,
         note: `${capitalise(group.label)} crosses the relay ramp inside the overlap, from one segment to the other (${count} picks, throw ${minThrow.toFixed(1)}–${maxThrow.toFixed(1)} m, continuous across the ramp).`,
       };
     }
@@ -326,7 +381,11 @@ function findConnection(
     ? ` ${capitalise(best.label)} reaches into the ramp but does not connect the segments (${(best.reach * 100).toFixed(0)} % of the way across${best.gap ? ", with gaps or zero throw" : ""}).`
     : "";
   return {
-    kind: "none", via: null, pickCount: 0, throwRangeM: null, closestApproachM: closest,
+    kind: "none",
+    via: null,
+    pickCount: 0,
+    throwRangeM: null,
+    closestApproachM: closest,
     note: `No picks or segment connect the relay ramp; the segments stay ${Number.isFinite(closest) ? `at least ${closest.toFixed(0)} m` : `more than ${(3 * Math.max(separationM, touchM, 1)).toFixed(0)} m`} apart.${partial}`,
   };
 }
@@ -347,7 +406,8 @@ function nearestPickDistanceM(a: number[], b: number[], picks: RelayPicks, reach
   }
   let best = Infinity;
   for (const i of a) {
-    const cx = Math.floor(picks.x[i] / reachM), cy = Math.floor(picks.y[i] / reachM);
+    const cx = Math.floor(picks.x[i] / reachM),
+      cy = Math.floor(picks.y[i] / reachM);
     for (let dx = -1; dx <= 1; dx++) {
       for (let dy = -1; dy <= 1; dy++) {
         for (const j of cells.get(`${cx + dx},${cy + dy}`) ?? []) {

@@ -55,5 +55,7 @@ export function sgrAtPoint(column: ColumnUnit[], zM: number, throwM: number): nu
 /** Which side of the published guide an SGR falls on, in words (never a verdict). */
 export function sgrGuideWords(sgr: number): string {
   if (!Number.isFinite(sgr)) return "not computed";
-  return sgr < SGR_THRESHOLD ? "below the ~20 % guide: little capacity to hold an across-fault pressure difference is expected" : "at or above the ~20 % guide: some sealing capacity is possible";
+  return sgr < SGR_THRESHOLD
+    ? "below the ~20 % guide: little capacity to hold an across-fault pressure difference is expected"
+    : "at or above the ~20 % guide: some sealing capacity is possible";
 }

@@ -11,7 +11,6 @@ type Frame = Pick<PlaneFit, "centroid" | "strikeVector" | "dipVector" | "normal"
 /** Above this change of displacement or size, the surface's departure from its plane is said to matter (common practice, no source). */
 export const SURFACE_MATTERS_FRACTION = 0.05;
 
-
 /**
  * The tip line with its size measured along the surface: length and height are the arc-length extents of the central
  * line (from its centre), the 5–95 % ranges are the plane ranges scaled by the central line's arc-to-plane ratio and
@@ -53,7 +52,13 @@ export function tipLineOnSurface(tip: TipLine, model: SurfaceModel, frame: Frame
 }
 
 /** Where (s, t) sits between a polygon's ends along the surface, from its middle: 0 in the middle, ±1 at an end. */
-export function asymmetryAlongSurface(model: SurfaceModel, polygon: [number, number][], centre: { s: number; t: number }, s: number, t: number): { alongStrike: number; downDip: number } {
+export function asymmetryAlongSurface(
+  model: SurfaceModel,
+  polygon: [number, number][],
+  centre: { s: number; t: number },
+  s: number,
+  t: number,
+): { alongStrike: number; downDip: number } {
   const extents = extentAlongSurface(model, polygon, centre.s, centre.t);
   const { u, v } = alongSurface(model, centre.s, centre.t, s, t);
   return {
@@ -64,7 +69,9 @@ export function asymmetryAlongSurface(model: SurfaceModel, polygon: [number, num
 
 /** Displacement-weighted centroid (s, t) of a grid, each node weighted by its displacement times its surface area. */
 export function surfaceCentroid(spec: GridSpec, displacementM: ArrayLike<number>, areaStretch: ArrayLike<number>): { s: number; t: number } {
-  let w = 0, ws = 0, wt = 0;
+  let w = 0,
+    ws = 0,
+    wt = 0;
   for (let j = 0; j < spec.rows; j++) {
     for (let i = 0; i < spec.columns; i++) {
       const k = j * spec.columns + i;
@@ -84,7 +91,8 @@ function quantile(values: number[], q: number): number {
   if (!values.length) return NaN;
   const sorted = values.slice().sort((a, b) => a - b);
   const position = q * (sorted.length - 1);
-  const lo = Math.floor(position), hi = Math.ceil(position);
+  const lo = Math.floor(position),
+    hi = Math.ceil(position);
   return sorted[lo] + (sorted[hi] - sorted[lo]) * (position - lo);
 }
 
@@ -100,7 +108,9 @@ export function surfaceSummary(
   tip: { lengthM: number; heightM: number; outerPolygon: [number, number][] },
   projected: { lengthM: number; heightM: number },
 ): SurfaceSummary {
-  let maxOffsetM = 0, sumSquares = 0, count = 0;
+  let maxOffsetM = 0,
+    sumSquares = 0,
+    count = 0;
   const dips: number[] = [];
   const ratios: number[] = [];
   const sinPlane = Math.sin((planeDipDeg * Math.PI) / 180);
@@ -124,7 +134,10 @@ export function surfaceSummary(
   const displacementChange = Math.max(Math.abs(displacementRatioRange[0] - 1), Math.abs(displacementRatioRange[1] - 1));
   const lengthChange = projected.lengthM > 0 ? tip.lengthM / projected.lengthM - 1 : 0;
   const heightChange = projected.heightM > 0 ? tip.heightM / projected.heightM - 1 : 0;
-  const matters = displacementChange > SURFACE_MATTERS_FRACTION || Math.abs(lengthChange) > SURFACE_MATTERS_FRACTION / 2 || Math.abs(heightChange) > SURFACE_MATTERS_FRACTION / 2;
+  const matters =
+    displacementChange > SURFACE_MATTERS_FRACTION ||
+    Math.abs(lengthChange) > SURFACE_MATTERS_FRACTION / 2 ||
+    Math.abs(heightChange) > SURFACE_MATTERS_FRACTION / 2;
   const m = (v: number) => `${v.toFixed(v < 10 ? 1 : 0)} m`;
   const deg = (v: number) => `${v.toFixed(0)}°`;
   const percent = (v: number) => `${Math.round(100 * Math.abs(v))} %`;
@@ -132,10 +145,15 @@ export function surfaceSummary(
     ? `The fault surface departs from its reference plane by up to ${m(maxOffsetM)} (RMS ${m(rmsOffsetM)}): its local dip runs from ${deg(localDipRangeDeg[0])} to ${deg(localDipRangeDeg[1])} (5–95 % of the mapped area) against the plane's ${deg(planeDipDeg)}, so throw divided by the plane's dip would misstate displacement by up to ${percent(displacementChange)}. Displacement here uses the local dip, and L and H are measured along the surface (on the plane they would read ${m(projected.lengthM)} and ${m(projected.heightM)}).`
     : `The fault surface stays within ${m(maxOffsetM)} of its reference plane (RMS ${m(rmsOffsetM)}; local dip ${deg(localDipRangeDeg[0])}–${deg(localDipRangeDeg[1])}): the plane describes it well, and displacement from the local dip is within ${percent(displacementChange)} of that from the plane's dip.`;
   // the coarse copy covers the data and the outer tip line, a cell beyond
-  let minS = grid.s0, maxS = grid.s0 + (grid.columns - 1) * grid.cellM, minT = grid.t0, maxT = grid.t0 + (grid.rows - 1) * grid.cellM;
+  let minS = grid.s0,
+    maxS = grid.s0 + (grid.columns - 1) * grid.cellM,
+    minT = grid.t0,
+    maxT = grid.t0 + (grid.rows - 1) * grid.cellM;
   for (const [s, t] of tip.outerPolygon) {
-    minS = Math.min(minS, s); maxS = Math.max(maxS, s);
-    minT = Math.min(minT, t); maxT = Math.max(maxT, t);
+    minS = Math.min(minS, s);
+    maxS = Math.max(maxS, s);
+    minT = Math.min(minT, t);
+    maxT = Math.max(maxT, t);
   }
   const margin = model.spec.cellM;
   return {

@@ -5,7 +5,6 @@ import type { PlaneFrame } from "@/lib/display/frame";
 import type { GridSpec } from "@/lib/display/grid-sampler";
 import { rasterizeTriangles } from "./grid";
 
-
 /** w on the grid nodes: linear on the triangles, NaN outside them (the same rasterisation as displacement). */
 export function offPlaneGrid(s: ArrayLike<number>, t: ArrayLike<number>, offPlaneM: ArrayLike<number>, triangles: Uint32Array, spec: GridSpec): Float64Array {
   return rasterizeTriangles(s, t, [offPlaneM], triangles, spec)[0];
@@ -110,8 +109,14 @@ function solveInPlace(a: Float64Array, b: Float64Array, n: number): boolean {
     for (let r = col + 1; r < n; r++) if (Math.abs(a[r * n + col]) > Math.abs(a[pivot * n + col])) pivot = r;
     if (!(Math.abs(a[pivot * n + col]) > 1e-12)) return false;
     if (pivot !== col) {
-      for (let c = 0; c < n; c++) { const tmp = a[col * n + c]; a[col * n + c] = a[pivot * n + c]; a[pivot * n + c] = tmp; }
-      const tmp = b[col]; b[col] = b[pivot]; b[pivot] = tmp;
+      for (let c = 0; c < n; c++) {
+        const tmp = a[col * n + c];
+        a[col * n + c] = a[pivot * n + c];
+        a[pivot * n + c] = tmp;
+      }
+      const tmp = b[col];
+      b[col] = b[pivot];
+      b[pivot] = tmp;
     }
     for (let r = col + 1; r < n; r++) {
       const f = a[r * n + col] / a[col * n + col];
@@ -141,7 +146,21 @@ function solveInPlace(a: Float64Array, b: Float64Array, n: number): boolean {
 export function localPolynomialFit(field: ArrayLike<number>, spec: GridSpec, lengthM: number, degree: 1 | 2 = 1): LocalSurfaceFit {
   const { values, mask } = maskOf(field);
   // monomials Δs^a·Δt^b (in units of L) of the fitted polynomial
-  const terms: [number, number][] = degree === 1 ? [[0, 0], [1, 0], [0, 1]] : [[0, 0], [1, 0], [0, 1], [2, 0], [1, 1], [0, 2]];
+  const terms: [number, number][] =
+    degree === 1
+      ? [
+          [0, 0],
+          [1, 0],
+          [0, 1],
+        ]
+      : [
+          [0, 0],
+          [1, 0],
+          [0, 1],
+          [2, 0],
+          [1, 1],
+          [0, 2],
+        ];
   const maxPower = 2 * degree;
   const kernels = Array.from({ length: maxPower + 1 }, (_, p) => scaledKernel(spec.cellM, lengthM, p));
   // moments Σ K·m·Δs^a·Δt^b for a + b ≤ 2·degree, and Σ K·w·Δs^a·Δt^b for a + b ≤ degree: separable, s first
@@ -174,8 +193,11 @@ export function localPolynomialFit(field: ArrayLike<number>, spec: GridSpec, len
     const w = M00[k];
     support[k] = w / fullKernel;
     if (!(w > 1e-9 * fullKernel)) continue;
-    const ms = moments.get("1,0")![k] / w, mt = moments.get("0,1")![k] / w;
-    const css = moments.get("2,0")![k] / w - ms * ms, ctt = moments.get("0,2")![k] / w - mt * mt, cst = moments.get("1,1")![k] / w - ms * mt;
+    const ms = moments.get("1,0")![k] / w,
+      mt = moments.get("0,1")![k] / w;
+    const css = moments.get("2,0")![k] / w - ms * ms,
+      ctt = moments.get("0,2")![k] / w - mt * mt,
+      cst = moments.get("1,1")![k] / w - ms * mt;
     const lambdaMin = (css + ctt) / 2 - Math.sqrt(((css - ctt) / 2) ** 2 + cst * cst);
     if (!(lambdaMin > minSpread)) continue;
     for (let e = 0; e < size * size; e++) matrix[e] = normal[e][k] / w;
@@ -203,9 +225,12 @@ export function slopeScatterDeg(field: ArrayLike<number>, fit: LocalSurfaceFit, 
       const k = j * columns + i;
       if (!Number.isFinite(field[k])) continue;
       // central difference where both neighbours have data, else one-sided
-      const left = i > 0 ? field[k - 1] : NaN, right = i < columns - 1 ? field[k + 1] : NaN;
-      const up = j > 0 ? field[k - columns] : NaN, down = j < rows - 1 ? field[k + columns] : NaN;
-      rawS[k] = Number.isFinite(left) && Number.isFinite(right) ? slope(left, right, 2) : Number.isFinite(right) ? slope(field[k], right, 1) : slope(left, field[k], 1);
+      const left = i > 0 ? field[k - 1] : NaN,
+        right = i < columns - 1 ? field[k + 1] : NaN;
+      const up = j > 0 ? field[k - columns] : NaN,
+        down = j < rows - 1 ? field[k + columns] : NaN;
+      rawS[k] =
+        Number.isFinite(left) && Number.isFinite(right) ? slope(left, right, 2) : Number.isFinite(right) ? slope(field[k], right, 1) : slope(left, field[k], 1);
       rawT[k] = Number.isFinite(up) && Number.isFinite(down) ? slope(up, down, 2) : Number.isFinite(down) ? slope(field[k], down, 1) : slope(up, field[k], 1);
     }
   }
@@ -230,7 +255,8 @@ export function slopeScatterDeg(field: ArrayLike<number>, fit: LocalSurfaceFit, 
   const out = new Float64Array(n).fill(NaN);
   for (let k = 0; k < n; k++) {
     const w = weight[k];
-    const bs = fit.gradientS[k], bt = fit.gradientT[k];
+    const bs = fit.gradientS[k],
+      bt = fit.gradientT[k];
     if (!(w > 0) || !Number.isFinite(bs)) continue;
     // E|g − b|² = E|g|² − 2 b·E[g] + |b|²
     const variance = Math.max(0, meanSquare[k] / w - (2 * (bs * meanS[k] + bt * meanT[k])) / w + bs * bs + bt * bt);
@@ -280,6 +306,6 @@ export function orientationOfNormal(normal: readonly number[]): { strikeDeg: num
   const sign = normal[2] < 0 ? -1 : 1;
   const [x, y, z] = [sign * normal[0], sign * normal[1], sign * normal[2]];
   const dipDeg = (Math.acos(Math.min(1, z / Math.hypot(x, y, z))) * 180) / Math.PI;
-  const dipDirectionDeg = Math.hypot(x, y) > 1e-12 ? (((Math.atan2(x, y) * 180) / Math.PI) % 360 + 360) % 360 : 90;
+  const dipDirectionDeg = Math.hypot(x, y) > 1e-12 ? ((((Math.atan2(x, y) * 180) / Math.PI) % 360) + 360) % 360 : 90;
   return { strikeDeg: (dipDirectionDeg + 270) % 360, dipDeg, dipDirectionDeg };
 }

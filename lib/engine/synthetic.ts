@@ -50,7 +50,12 @@ export interface SyntheticTruth {
 }
 
 /** growing plain columns shared by all faults (no per-pick objects, so a million picks stay cheap) */
-interface RawColumns { x: number[]; y: number[]; z: number[]; throwM: number[] }
+interface RawColumns {
+  x: number[];
+  y: number[];
+  z: number[];
+  throwM: number[];
+}
 
 function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumns): { count: number; truth: SyntheticTruth } {
   const strikeDeg = o.strikeDeg ?? 30;
@@ -107,7 +112,18 @@ function faultPicks(o: SyntheticFaultOptions, rand: () => number, out: RawColumn
   }
   return {
     count,
-    truth: { segment, lengthM: 2 * a, heightM: 2 * b, halfLengthM: a, halfHeightM: b, dmaxM, strikeDeg, dipDeg: o.listric ? dip0 / rad : dipDeg, profile, centre },
+    truth: {
+      segment,
+      lengthM: 2 * a,
+      heightM: 2 * b,
+      halfLengthM: a,
+      halfHeightM: b,
+      dmaxM,
+      strikeDeg,
+      dipDeg: o.listric ? dip0 / rad : dipDeg,
+      profile,
+      centre,
+    },
   };
 }
 
@@ -152,11 +168,7 @@ export function syntheticRelayOptions(overrides: Partial<SyntheticFaultOptions> 
   const sv = strikeVectorOf(strikeDeg);
   const perp = strikeVectorOf(strikeDeg + 90);
   const shift = 2 * a - overlapM;
-  const second: [number, number, number] = [
-    centre[0] + shift * sv[0] + separationM * perp[0],
-    centre[1] + shift * sv[1] + separationM * perp[1],
-    centre[2],
-  ];
+  const second: [number, number, number] = [centre[0] + shift * sv[0] + separationM * perp[0], centre[1] + shift * sv[1] + separationM * perp[1], centre[2]];
   return [
     { ...overrides, segment: "F1", centre },
     { ...overrides, segment: "F2", centre: second },
@@ -166,7 +178,9 @@ export function syntheticRelayOptions(overrides: Partial<SyntheticFaultOptions> 
 export function toCsv(picks: PickColumns): string {
   const lines = ["x,y,z,throw,segment"];
   for (let i = 0; i < picks.x.length; i++) {
-    lines.push(`${picks.x[i].toFixed(3)},${picks.y[i].toFixed(3)},${picks.z[i].toFixed(3)},${picks.throwM[i].toFixed(3)},${picks.segmentNames[picks.segment[i]]}`);
+    lines.push(
+      `${picks.x[i].toFixed(3)},${picks.y[i].toFixed(3)},${picks.z[i].toFixed(3)},${picks.throwM[i].toFixed(3)},${picks.segmentNames[picks.segment[i]]}`,
+    );
   }
   return lines.join("\n") + "\n";
 }

@@ -91,7 +91,8 @@ export function velocityModelProblems(model: VelocityModel): string[] {
   };
   if (model.kind === "linear") {
     velocity("v0", model.v0MPerS);
-    if (!Number.isFinite(model.kPerS) || Math.abs(model.kPerS) > VELOCITY_LIMITS.maxGradientPerS) problems.push(`k must be between −${VELOCITY_LIMITS.maxGradientPerS} and ${VELOCITY_LIMITS.maxGradientPerS} 1/s (got ${model.kPerS})`);
+    if (!Number.isFinite(model.kPerS) || Math.abs(model.kPerS) > VELOCITY_LIMITS.maxGradientPerS)
+      problems.push(`k must be between −${VELOCITY_LIMITS.maxGradientPerS} and ${VELOCITY_LIMITS.maxGradientPerS} 1/s (got ${model.kPerS})`);
     return problems;
   }
   if (model.intervals.length === 0) problems.push("give at least one horizon with its interval velocity");
@@ -110,13 +111,17 @@ export function velocityModelProblems(model: VelocityModel): string[] {
  * shallow to deep, each the velocity above that horizon). Throws an Error naming what is wrong.
  */
 export function parseVelocityText(text: string): VelocityModel {
-  const pairs = text.split(",").map((part) => part.trim()).filter(Boolean).map((part) => {
-    const at = part.lastIndexOf("=");
-    if (at <= 0) throw new Error(`"${part}" is not NAME=VALUE`);
-    const value = Number(part.slice(at + 1).trim());
-    if (!Number.isFinite(value)) throw new Error(`"${part}" does not end in a number`);
-    return [part.slice(0, at).trim(), value] as const;
-  });
+  const pairs = text
+    .split(",")
+    .map((part) => part.trim())
+    .filter(Boolean)
+    .map((part) => {
+      const at = part.lastIndexOf("=");
+      if (at <= 0) throw new Error(`"${part}" is not NAME=VALUE`);
+      const value = Number(part.slice(at + 1).trim());
+      if (!Number.isFinite(value)) throw new Error(`"${part}" does not end in a number`);
+      return [part.slice(0, at).trim(), value] as const;
+    });
   if (pairs.length === 0) throw new Error('give "v0=…,k=…" or interval velocities "HORIZON=…,…"');
   const keys = pairs.map(([key]) => key.toLowerCase());
   let model: VelocityModel;

@@ -22,7 +22,9 @@ export function picksToDepth(picks: PickColumns, twtMs: Float64Array, model: Vel
   if (model.kind === "intervals") {
     const missing = Array.from(picks.horizon.keys()).find((i) => picks.horizon[i] < 0);
     if (missing !== undefined) {
-      throw new PickInputError("interval velocities by horizon need the horizon of every pick", [{ row: picks.sourceRow[missing], column: "horizon", reason: "horizon is missing; interval velocities are given by horizon" }]);
+      throw new PickInputError("interval velocities by horizon need the horizon of every pick", [
+        { row: picks.sourceRow[missing], column: "horizon", reason: "horizon is missing; interval velocities are given by horizon" },
+      ]);
     }
   }
   const throwMs = picks.throwM;
@@ -40,7 +42,10 @@ export function picksToDepth(picks: PickColumns, twtMs: Float64Array, model: Vel
     sourceRow: new Uint32Array(2 * n),
   };
   for (let k = 0; k < n; k++) {
-    for (const [at, wall, sign] of [[k, 0, 1], [n + k, 1, -1]] as const) {
+    for (const [at, wall, sign] of [
+      [k, 0, 1],
+      [n + k, 1, -1],
+    ] as const) {
       columns.x[at] = picks.x[k];
       columns.y[at] = picks.y[k];
       columns.vertical[at] = twtMs[k] + (sign * throwMs[k]) / 2;
@@ -65,10 +70,23 @@ export function picksToDepth(picks: PickColumns, twtMs: Float64Array, model: Vel
     const u = (i: number) => (columns.x[i] - axis.cx) * axis.ux + (columns.y[i] - axis.cy) * axis.uy;
     indices.sort((a, b) => u(a) - u(b));
     const first = indices[0];
-    lines.push({ segment: columns.segment[first], horizon: columns.horizon[first], wall: columns.wall[first] === 0 ? "hw" : "fw", id: "", vertices: Uint32Array.from(indices), firstRow: columns.sourceRow[first] });
+    lines.push({
+      segment: columns.segment[first],
+      horizon: columns.horizon[first],
+      wall: columns.wall[first] === 0 ? "hw" : "fw",
+      id: "",
+      vertices: Uint32Array.from(indices),
+      firstRow: columns.sourceRow[first],
+    });
   }
   const { z, warnings } = verticesInDepth({ columns, lines }, model);
-  const out: PickColumns = { ...picks, z: new Float64Array(n), throwM: new Float64Array(n), twtMs: Float64Array.from(twtMs), throwMs: Float64Array.from(throwMs) };
+  const out: PickColumns = {
+    ...picks,
+    z: new Float64Array(n),
+    throwM: new Float64Array(n),
+    twtMs: Float64Array.from(twtMs),
+    throwMs: Float64Array.from(throwMs),
+  };
   for (let k = 0; k < n; k++) {
     out.z[k] = (z[k] + z[n + k]) / 2;
     // a negative time throw (offset of the opposite sense, on an inverted fault) stays negative in depth

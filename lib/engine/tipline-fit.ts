@@ -44,7 +44,10 @@ export interface CandidateFit {
 export interface TipLineFits {
   candidates: CandidateFit[];
   /** data outline and inputs the assembly needs */
-  inputs: Pick<TipLineInputs, "outlineS" | "outlineT" | "outlineD" | "outlineOpen" | "cutoffM" | "cutoffSource" | "noiseM" | "steepGradientPerM" | "ends" | "spacing">;
+  inputs: Pick<
+    TipLineInputs,
+    "outlineS" | "outlineT" | "outlineD" | "outlineOpen" | "cutoffM" | "cutoffSource" | "noiseM" | "steepGradientPerM" | "ends" | "spacing"
+  >;
   /** observations in the fits (picks, places beyond the edges) */
   observations: { picks: number; absent: number };
 }
@@ -85,7 +88,10 @@ function problemOf(inputs: TipLineInputs): Problem {
   scale ||= 1;
   const m = ss.length;
   const na = absentS.length;
-  const u = new Float64Array(m + na), v = new Float64Array(m + na), d = new Float64Array(m + na), w = new Float64Array(m + na);
+  const u = new Float64Array(m + na),
+    v = new Float64Array(m + na),
+    d = new Float64Array(m + na),
+    w = new Float64Array(m + na);
   for (let k = 0; k < m; k++) {
     u[k] = (ss[k] - centreGuess.s) / scale;
     v[k] = (tt[k] - centreGuess.t) / scale;
@@ -133,7 +139,11 @@ function normalTail(x: number): void {
   }
   const z = Math.abs(x) / Math.SQRT2;
   const t = 1 / (1 + 0.5 * z);
-  const poly = -1.26551223 + t * (1.00002368 + t * (0.37409196 + t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277))))))));
+  const poly =
+    -1.26551223 +
+    t *
+      (1.00002368 +
+        t * (0.37409196 + t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277))))))));
   if (x < 0) {
     // Φ(x) = ½·erfc(z) = ½·t·exp(−z² + poly); φ(x) = exp(−z²)/√(2π)
     NORMAL_TAIL.logCdf = Math.log(0.5 * t) - z * z + poly;
@@ -157,10 +167,22 @@ const PROFILE_OUT = new Float64Array(4);
  * could be picked); places beyond the closed edges count as "below the cut-off" (censored). Observations and
  * parameters are in the problem's scaled units; the hull penalty is added when `withHull`.
  */
-function evaluate(problem: Problem, kind: number, shapeCount: number, p: ArrayLike<number>, gradient: Float64Array | null, scores: Float64Array[] | null = null, withHull = true): number {
+function evaluate(
+  problem: Problem,
+  kind: number,
+  shapeCount: number,
+  p: ArrayLike<number>,
+  gradient: Float64Array | null,
+  scores: Float64Array[] | null = null,
+  withHull = true,
+): number {
   const { u, v, d, w, picks, cutoff } = problem;
-  const uc = p[0], vc = p[1];
-  const perS0 = Math.exp(-p[2]), perS1 = Math.exp(-p[3]), perT0 = Math.exp(-p[4]), perT1 = Math.exp(-p[5]);
+  const uc = p[0],
+    vc = p[1];
+  const perS0 = Math.exp(-p[2]),
+    perS1 = Math.exp(-p[3]),
+    perT0 = Math.exp(-p[4]),
+    perT1 = Math.exp(-p[5]);
   const dmax = Math.exp(p[6]);
   const logSigma = p[7];
   const perSigma = Math.exp(-logSigma);
@@ -170,7 +192,17 @@ function evaluate(problem: Problem, kind: number, shapeCount: number, p: ArrayLi
   const x1 = shapeCount > 1 ? p[GEOMETRY + 1] : 0;
   const fo = PROFILE_OUT;
   const wantGradient = gradient !== null || scores !== null;
-  let g0 = 0, g1 = 0, g2 = 0, g3 = 0, g4 = 0, g5 = 0, g6 = 0, g7 = 0, g8 = 0, g9 = 0, g10 = 0;
+  let g0 = 0,
+    g1 = 0,
+    g2 = 0,
+    g3 = 0,
+    g4 = 0,
+    g5 = 0,
+    g6 = 0,
+    g7 = 0,
+    g8 = 0,
+    g9 = 0,
+    g10 = 0;
   let total = 0;
   const n = u.length;
   const hullCount = withHull ? problem.hullU.length : 0;
@@ -223,7 +255,11 @@ function evaluate(problem: Problem, kind: number, shapeCount: number, p: ArrayLi
       byR = byMu * dmax * fo[1];
     }
     // chain rule through r: ∂r/∂A = A^(e−1)·r^(1−e), A = |du|/reach; ∂ln r/∂e = −ln S/e² + (A^e ln A + B^e ln B)/(e·S)
-    let c0 = 0, c1 = 0, cS = 0, cT = 0, cE = 0;
+    let c0 = 0,
+      c1 = 0,
+      cS = 0,
+      cT = 0,
+      cE = 0;
     if (r > 0) {
       const rPow = Math.exp((lnS * (1 - e)) / e);
       const dA = A > 0 ? (Ae / A) * rPow : 0;
@@ -268,8 +304,15 @@ function evaluate(problem: Problem, kind: number, shapeCount: number, p: ArrayLi
     }
   }
   if (gradient) {
-    gradient[0] = g0; gradient[1] = g1; gradient[2] = g2; gradient[3] = g3; gradient[4] = g4;
-    gradient[5] = g5; gradient[6] = g6; gradient[7] = g7; gradient[8] = g8;
+    gradient[0] = g0;
+    gradient[1] = g1;
+    gradient[2] = g2;
+    gradient[3] = g3;
+    gradient[4] = g4;
+    gradient[5] = g5;
+    gradient[6] = g6;
+    gradient[7] = g7;
+    gradient[8] = g8;
     if (shapeCount > 0) gradient[9] = g9;
     if (shapeCount > 1) gradient[10] = g10;
   }
@@ -330,7 +373,8 @@ export function bfgs(
     if (!accepted) break;
     const sVec = new Float64Array(k);
     const yVec = new Float64Array(k);
-    let sy = 0, yy = 0;
+    let sy = 0,
+      yy = 0;
     for (let i = 0; i < k; i++) {
       sVec[i] = trial[i] - x[i];
       yVec[i] = gTrial[i] - g[i];
@@ -390,7 +434,10 @@ function toModel(problem: Problem, model: ProfileModel, p: ArrayLike<number>): T
 /** A starting point: centre at the weighted centroid, each reach the data extent stretched by the profile's visible fraction. */
 function startOf(problem: Problem, model: ProfileModel, noiseGuess: number): number[] {
   const { u, v, d, picks, cutoff } = problem;
-  let wsum = 0, cu = 0, cv = 0, dTop = 0;
+  let wsum = 0,
+    cu = 0,
+    cv = 0,
+    dTop = 0;
   for (let k = 0; k < picks; k++) {
     const w = d[k] * d[k];
     wsum += w;
@@ -400,9 +447,13 @@ function startOf(problem: Problem, model: ProfileModel, noiseGuess: number): num
   }
   cu = wsum > 0 ? cu / wsum : 0;
   cv = wsum > 0 ? cv / wsum : 0;
-  let s0 = 1e-6, s1 = 1e-6, t0 = 1e-6, t1 = 1e-6;
+  let s0 = 1e-6,
+    s1 = 1e-6,
+    t0 = 1e-6,
+    t1 = 1e-6;
   for (let k = 0; k < problem.hullU.length; k++) {
-    const du = problem.hullU[k] - cu, dv = problem.hullV[k] - cv;
+    const du = problem.hullU[k] - cu,
+      dv = problem.hullV[k] - cv;
     if (Math.abs(dv) <= Math.abs(du)) {
       if (du < 0) s0 = Math.max(s0, -du);
       else s1 = Math.max(s1, du);
@@ -412,7 +463,18 @@ function startOf(problem: Problem, model: ProfileModel, noiseGuess: number): num
   const candidate = PROFILE_CANDIDATES[model];
   const visible = Math.min(0.98, Math.max(0.3, visibleRadius(model, Math.min(0.9, cutoff / Math.max(dTop, 1e-9)), candidate.start)));
   const stretch = 1.02 / visible;
-  return [cu, cv, Math.log(s0 * stretch), Math.log(s1 * stretch), Math.log(t0 * stretch), Math.log(t1 * stretch), Math.log(Math.max(dTop, 1e-6)), Math.log(Math.max(noiseGuess, 1e-3 * dTop, 1e-6)), ELLIPSE, ...candidate.start];
+  return [
+    cu,
+    cv,
+    Math.log(s0 * stretch),
+    Math.log(s1 * stretch),
+    Math.log(t0 * stretch),
+    Math.log(t1 * stretch),
+    Math.log(Math.max(dTop, 1e-6)),
+    Math.log(Math.max(noiseGuess, 1e-3 * dTop, 1e-6)),
+    ELLIPSE,
+    ...candidate.start,
+  ];
 }
 
 /** Every k-th pick and place of a problem, weighted k-fold, for a quick first fit (k ≥ 1). */
@@ -436,7 +498,8 @@ const QUICK_OBSERVATIONS = 200;
 
 function fitCandidate(problem: Problem, model: ProfileModel, noiseGuess: number): { point: number[]; value: number } {
   const candidate = PROFILE_CANDIDATES[model];
-  const objectiveOf = (target: Problem) => (x: Float64Array, gradient: Float64Array) => evaluate(target, candidate.kind, candidate.shapeParameters, x, gradient);
+  const objectiveOf = (target: Problem) => (x: Float64Array, gradient: Float64Array) =>
+    evaluate(target, candidate.kind, candidate.shapeParameters, x, gradient);
   const quickProblem = thinned(problem, Math.floor(problem.u.length / QUICK_OBSERVATIONS));
   const quickObjective = objectiveOf(quickProblem);
   const start = startOf(problem, model, noiseGuess);
@@ -481,7 +544,8 @@ function sandwichCovariance(problem: Problem, model: ProfileModel, point: number
   for (let i = 0; i < k; i++) {
     for (let j = 0; j <= i; j++) {
       let sum = 0;
-      const gi = scores[i], gj = scores[j];
+      const gi = scores[i],
+        gj = scores[j];
       for (let q = 0; q < n; q++) sum += problem.w[q] * problem.w[q] * gi[q] * gj[q];
       J.set(i, j, sum);
       J.set(j, i, sum);
@@ -547,7 +611,8 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     const best = toModel(problem, f.model, f.point);
     let sse = 0;
     for (let k = 0; k < picks; k++) {
-      const s = problem.origin.s + problem.u[k] * problem.scale, t = problem.origin.t + problem.v[k] * problem.scale;
+      const s = problem.origin.s + problem.u[k] * problem.scale,
+        t = problem.origin.t + problem.v[k] * problem.scale;
       sse += (problem.d[k] - modelDisplacement(best, s, t)) ** 2;
     }
     const weight = raw[index] / total;
@@ -579,4 +644,3 @@ export function fitTipLine(inputs: TipLineInputs): TipLineFits {
     observations: { picks, absent: inputs.absentS.length },
   };
 }
-

@@ -65,12 +65,18 @@ export function estimateCutoffM(d: ArrayLike<number>): number {
  * Typical pick spacing along strike and down dip from the triangulation's edges: line-style picks (dense along
  * seismic lines, sparse between them) have very different spacings in the two directions.
  */
-export function directionalSpacing(s: ArrayLike<number>, t: ArrayLike<number>, triangles: ArrayLike<number>, fallbackM: number): { alongStrikeM: number; downDipM: number } {
+export function directionalSpacing(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  triangles: ArrayLike<number>,
+  fallbackM: number,
+): { alongStrikeM: number; downDipM: number } {
   const stride = Math.max(1, Math.floor(triangles.length / 60_000));
   const capacity = Math.ceil(triangles.length / stride);
   const along = new Float64Array(capacity);
   const down = new Float64Array(capacity);
-  let na = 0, nd = 0;
+  let na = 0,
+    nd = 0;
   for (let e = 0; e < triangles.length; e += stride) {
     const a = triangles[e];
     const b = triangles[e % 3 === 2 ? e - 2 : e + 1];
@@ -114,7 +120,15 @@ class Buckets {
   private readonly columns: number;
   private readonly rows: number;
   private readonly cell: number;
-  constructor(private readonly s: ArrayLike<number>, private readonly t: ArrayLike<number>, cell: number, private readonly s0: number, private readonly t0: number, sMax: number, tMax: number) {
+  constructor(
+    private readonly s: ArrayLike<number>,
+    private readonly t: ArrayLike<number>,
+    cell: number,
+    private readonly s0: number,
+    private readonly t0: number,
+    sMax: number,
+    tMax: number,
+  ) {
     // at most 1024 buckets a side, whatever the spacing (degenerate or enormous extents included)
     const span = Math.max(sMax - s0, tMax - t0);
     const size = Math.max(cell, span / 1024);
@@ -166,17 +180,31 @@ class Buckets {
 function localPlane(ids: number[], s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>): { gs: number; gt: number; rms: number } | null {
   const n = ids.length;
   if (n < 6) return null;
-  let ms = 0, mt = 0, md = 0;
+  let ms = 0,
+    mt = 0,
+    md = 0;
   for (const i of ids) {
     ms += s[i];
     mt += t[i];
     md += d[i];
   }
-  ms /= n; mt /= n; md /= n;
-  let sss = 0, stt = 0, sst = 0, ssd = 0, std = 0;
+  ms /= n;
+  mt /= n;
+  md /= n;
+  let sss = 0,
+    stt = 0,
+    sst = 0,
+    ssd = 0,
+    std = 0;
   for (const i of ids) {
-    const a = s[i] - ms, b = t[i] - mt, c = d[i] - md;
-    sss += a * a; stt += b * b; sst += a * b; ssd += a * c; std += b * c;
+    const a = s[i] - ms,
+      b = t[i] - mt,
+      c = d[i] - md;
+    sss += a * a;
+    stt += b * b;
+    sst += a * b;
+    ssd += a * c;
+    std += b * c;
   }
   const det = sss * stt - sst * sst;
   if (!(Math.abs(det) > 1e-12 * (sss * stt + 1e-300))) return null;
@@ -199,9 +227,14 @@ function outwardNormals(ps: Float64Array, pt: Float64Array): { ns: Float64Array;
     const prev = (k + n - 1) % n;
     const next = (k + 1) % n;
     // for a counter-clockwise polygon the outward normal of edge (a → b) is (tb − ta, −(sb − sa)) normalised
-    let xs = 0, xt = 0;
-    for (const [a, b] of [[prev, k], [k, next]]) {
-      const es = ps[b] - ps[a], et = pt[b] - pt[a];
+    let xs = 0,
+      xt = 0;
+    for (const [a, b] of [
+      [prev, k],
+      [k, next],
+    ]) {
+      const es = ps[b] - ps[a],
+        et = pt[b] - pt[a];
       const len = Math.hypot(es, et);
       if (len > 0) {
         xs += et / len;
@@ -267,7 +300,10 @@ export function tipLineInputs(
 
   const ids = fitSampleIndices(s, t);
   const m = ids.length;
-  const ss = new Float64Array(m), tt = new Float64Array(m), dd = new Float64Array(m), ww = new Float64Array(m);
+  const ss = new Float64Array(m),
+    tt = new Float64Array(m),
+    dd = new Float64Array(m),
+    ww = new Float64Array(m);
   for (let k = 0; k < m; k++) {
     const i = ids[k];
     ss[k] = s[i];
@@ -288,10 +324,19 @@ export function tipLineInputs(
   const outlineD = Float64Array.from(ol, (i) => d[i]);
 
   // centre guess: displacement²-weighted centroid (the maximum pulls it)
-  let wsum = 0, cs = 0, ct = 0, minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity, dTop = 0;
+  let wsum = 0,
+    cs = 0,
+    ct = 0,
+    minS = Infinity,
+    maxS = -Infinity,
+    minT = Infinity,
+    maxT = -Infinity,
+    dTop = 0;
   for (let i = 0; i < n; i++) {
     const w = d[i] * d[i];
-    wsum += w; cs += w * s[i]; ct += w * t[i];
+    wsum += w;
+    cs += w * s[i];
+    ct += w * t[i];
     if (s[i] < minS) minS = s[i];
     if (s[i] > maxS) maxS = s[i];
     if (t[i] < minT) minT = t[i];
@@ -326,7 +371,10 @@ export function tipLineInputs(
   const outlineOpen = new Uint8Array(no);
   if (no >= 3) {
     const edgeD = circularMedian(outlineD, Math.min(3, (no - 1) >> 1));
-    const edgeGradient = circularMedian(outwardGradient.map((g) => (Number.isFinite(g) ? g : 0)), Math.min(3, (no - 1) >> 1));
+    const edgeGradient = circularMedian(
+      outwardGradient.map((g) => (Number.isFinite(g) ? g : 0)),
+      Math.min(3, (no - 1) >> 1),
+    );
     const raised = Math.max(3 * noiseM, 0.15 * (dTop - cutoffM));
     for (let k = 0; k < no; k++) {
       const above = edgeD[k] - cutoffM;
@@ -355,7 +403,8 @@ export function tipLineInputs(
     for (let k = 0; k < no; k++) {
       const u = (outlineS[k] - centreGuess.s) / halfS;
       const w = (outlineT[k] - centreGuess.t) / halfT;
-      const facing = side === "strike-start" ? -u > Math.abs(w) : side === "strike-end" ? u > Math.abs(w) : side === "up-dip" ? -w > Math.abs(u) : w > Math.abs(u);
+      const facing =
+        side === "strike-start" ? -u > Math.abs(w) : side === "strike-end" ? u > Math.abs(w) : side === "up-dip" ? -w > Math.abs(u) : w > Math.abs(u);
       if (facing) outlineOpen[k] = status === "open" ? 1 : 0;
     }
   }
@@ -378,12 +427,18 @@ export function tipLineInputs(
   }
 
   return {
-    ss, tt, dd, ww,
+    ss,
+    tt,
+    dd,
+    ww,
     cutoffM,
     cutoffSource: cutoffSet ? "set" : "estimated",
     noiseM,
     steepGradientPerM,
-    outlineS, outlineT, outlineD, outlineOpen,
+    outlineS,
+    outlineT,
+    outlineD,
+    outlineOpen,
     absentS: Float64Array.from(ps),
     absentT: Float64Array.from(pt),
     centreGuess,

@@ -35,10 +35,13 @@ export function modelReachAlongRays(m: Pick<TipProfileModel, "centre" | "reach" 
   if (modelRadius(m, cs, ct) >= 1) return out;
   // the tip line as TIP_VERTICES points (straight in typed arrays: this runs for every drawn model)
   const n = TIP_VERTICES;
-  const ps = new Float64Array(n), pt = new Float64Array(n), pa = new Float64Array(n);
+  const ps = new Float64Array(n),
+    pt = new Float64Array(n),
+    pa = new Float64Array(n);
   const power = 2 / m.exponent;
   for (let k = 0; k < n; k++) {
-    const c = UNIT_COS[k], s = UNIT_SIN[k];
+    const c = UNIT_COS[k],
+      s = UNIT_SIN[k];
     const a = c < 0 ? m.reach.strikeStartM : m.reach.strikeEndM;
     const b = s < 0 ? m.reach.upDipM : m.reach.downDipM;
     ps[k] = m.centre.s + a * Math.sign(c) * Math.pow(Math.abs(c), power) - cs;
@@ -57,7 +60,8 @@ export function modelReachAlongRays(m: Pick<TipProfileModel, "centre" | "reach" 
   }
   for (let q = 0; q < angles.length; q++) {
     const ray = angles[q] < ua[0] ? angles[q] + 2 * Math.PI : angles[q];
-    let lo = 0, hi = n;
+    let lo = 0,
+      hi = n;
     while (hi - lo > 1) {
       const mid = (lo + hi) >> 1;
       if (ua[mid] <= ray) lo = mid;
@@ -65,8 +69,10 @@ export function modelReachAlongRays(m: Pick<TipProfileModel, "centre" | "reach" 
     }
     const i0 = order[lo];
     const i1 = order[hi];
-    const ex = Math.cos(ray), ey = Math.sin(ray);
-    const fx = ps[i1] - ps[i0], fy = pt[i1] - pt[i0];
+    const ex = Math.cos(ray),
+      ey = Math.sin(ray);
+    const fx = ps[i1] - ps[i0],
+      fy = pt[i1] - pt[i0];
     const det = ex * fy - ey * fx;
     out[q] = det !== 0 ? (ps[i0] * fy - pt[i0] * fx) / det : Math.hypot(ps[i0], pt[i0]);
     if (!(out[q] > 0)) out[q] = Math.hypot(ps[i0], pt[i0]);
@@ -94,10 +100,13 @@ export function outlineExits(
     const ey = Math.sin(angles[q]);
     for (let i = 0; i < n; i++) {
       const j = (i + 1) % n;
-      const ax = outlineS[i] - cs, ay = outlineT[i] - ct;
-      const bx = outlineS[j] - cs, by = outlineT[j] - ct;
+      const ax = outlineS[i] - cs,
+        ay = outlineT[i] - ct;
+      const bx = outlineS[j] - cs,
+        by = outlineT[j] - ct;
       // solve c + ρ·e = a + λ·(b − a) with ρ ≥ 0 and 0 ≤ λ ≤ 1
-      const fx = bx - ax, fy = by - ay;
+      const fx = bx - ax,
+        fy = by - ay;
       const det = fx * ey - fy * ex;
       if (det === 0) continue;
       const lambda = (ax * ey - ay * ex) / -det;
@@ -129,10 +138,15 @@ function polygonOf(cs: number, ct: number, angles: Float64Array, radii: Float64A
 
 /** Extent of a polygon in (s, t): its length along strike, height down dip and bounds (m). */
 export function extents(polygon: [number, number][]): { lengthM: number; heightM: number; minS: number; maxS: number; minT: number; maxT: number } {
-  let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+  let minS = Infinity,
+    maxS = -Infinity,
+    minT = Infinity,
+    maxT = -Infinity;
   for (const [s, t] of polygon) {
-    minS = Math.min(minS, s); maxS = Math.max(maxS, s);
-    minT = Math.min(minT, t); maxT = Math.max(maxT, t);
+    minS = Math.min(minS, s);
+    maxS = Math.max(maxS, s);
+    minT = Math.min(minT, t);
+    maxT = Math.max(maxT, t);
   }
   return { lengthM: maxS - minS, heightM: maxT - minT, minS, maxS, minT, maxT };
 }
@@ -156,7 +170,13 @@ export interface GradientTips {
  * Near-tip displacement gradients (common practice; Barnett et al. 1987 use gradients near tips): along a band
  * through the centre, a least-squares line through the outermost quarter of picks on each side.
  */
-export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: ArrayLike<number>, centre: { s: number; t: number }, halfSize: { sM: number; tM: number }): GradientTips {
+export function gradientTips(
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  d: ArrayLike<number>,
+  centre: { s: number; t: number },
+  halfSize: { sM: number; tM: number },
+): GradientTips {
   const bandT = 0.2 * halfSize.tM;
   const bandS = 0.2 * halfSize.sM;
   const sides = [0, 1, 2, 3].map(() => ({ xs: [] as number[], ds: [] as number[], far: 0 }));
@@ -180,7 +200,11 @@ export function gradientTips(s: ArrayLike<number>, t: ArrayLike<number>, d: Arra
   const gradient = ({ xs, ds, far }: (typeof sides)[number]) => {
     const nx: number[] = [];
     const nd: number[] = [];
-    for (let k = 0; k < xs.length; k++) if (xs[k] >= 0.75 * far) { nx.push(xs[k]); nd.push(ds[k]); }
+    for (let k = 0; k < xs.length; k++)
+      if (xs[k] >= 0.75 * far) {
+        nx.push(xs[k]);
+        nd.push(ds[k]);
+      }
     return nx.length < 3 ? NaN : Math.abs(extrapolateTipLinear(nx, nd).slopePerM);
   };
   return { strikeStartPerM: gradient(sStart), strikeEndPerM: gradient(sEnd), upDipPerM: gradient(tUp), downDipPerM: gradient(tDown) };
@@ -203,7 +227,15 @@ function describeShape(model: ProfileModel, shape: number[]): string {
  * Push a polygon's vertices out (scaling each one's distance from the centre) until every pick lies strictly inside:
  * the tip line is where displacement reaches zero, and every pick has displacement above the cut-off.
  */
-export function enclosePicks(radii: Float64Array, angles: Float64Array, cs: number, ct: number, s: ArrayLike<number>, t: ArrayLike<number>, marginM: (i: number) => number): Float64Array {
+export function enclosePicks(
+  radii: Float64Array,
+  angles: Float64Array,
+  cs: number,
+  ct: number,
+  s: ArrayLike<number>,
+  t: ArrayLike<number>,
+  marginM: (i: number) => number,
+): Float64Array {
   const k = angles.length;
   const out = Float64Array.from(radii);
   let minRadius = Infinity;
@@ -211,21 +243,27 @@ export function enclosePicks(radii: Float64Array, angles: Float64Array, cs: numb
   const step = (2 * Math.PI) / k;
   const start = angles[0];
   for (let i = 0; i < s.length; i++) {
-    const ds = s[i] - cs, dt = t[i] - ct;
+    const ds = s[i] - cs,
+      dt = t[i] - ct;
     const rho = Math.sqrt(ds * ds + dt * dt) + marginM(i);
     // the chord between neighbouring vertices is at least cos(step/2)·min(radius) from the centre
     if (rho < minRadius * Math.cos(step / 2) * 0.999) continue;
     const phi = Math.atan2(dt, ds);
-    let f = (((phi - start) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI) / step;
+    let f = ((((phi - start) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI)) / step;
     const q0 = Math.floor(f) % k;
     const q1 = (q0 + 1) % k;
     f -= Math.floor(f);
     // distance from the centre to the chord q0–q1 along the pick's direction
-    const a0 = angles[q0], a1 = angles[q1];
-    const x0 = out[q0] * Math.cos(a0), y0 = out[q0] * Math.sin(a0);
-    const x1 = out[q1] * Math.cos(a1), y1 = out[q1] * Math.sin(a1);
-    const ex = Math.cos(phi), ey = Math.sin(phi);
-    const fx = x1 - x0, fy = y1 - y0;
+    const a0 = angles[q0],
+      a1 = angles[q1];
+    const x0 = out[q0] * Math.cos(a0),
+      y0 = out[q0] * Math.sin(a0);
+    const x1 = out[q1] * Math.cos(a1),
+      y1 = out[q1] * Math.sin(a1);
+    const ex = Math.cos(phi),
+      ey = Math.sin(phi);
+    const fx = x1 - x0,
+      fy = y1 - y0;
     const det = fx * ey - fy * ex;
     const chord = det !== 0 ? (x0 * fy - y0 * fx) / (ex * fy - ey * fx) : Math.min(out[q0], out[q1]);
     if (chord < rho * 1.0005) {
@@ -274,7 +312,8 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const { outlineS, outlineT, outlineD, outlineOpen, steepGradientPerM, spacing } = inputs;
   // the centre and central line come from the published profiles (the flexible family only widens the range)
   const centralWeights = candidates.map((c) => c.centralWeight);
-  let cs = 0, ct = 0;
+  let cs = 0,
+    ct = 0;
   candidates.forEach((c, k) => {
     cs += centralWeights[k] * c.best.centre.s;
     ct += centralWeights[k] * c.best.centre.t;
@@ -286,9 +325,13 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const sines = Float64Array.from(angles, Math.sin);
   const radiiOf = (m: TipModel) => modelReachAlongRays(m, cs, ct, angles);
   const sizeOf = (radii: Float64Array) => {
-    let minS = Infinity, maxS = -Infinity, minT = Infinity, maxT = -Infinity;
+    let minS = Infinity,
+      maxS = -Infinity,
+      minT = Infinity,
+      maxT = -Infinity;
     for (let q = 0; q < RAY_COUNT; q++) {
-      const ps = radii[q] * cosines[q], pt = radii[q] * sines[q];
+      const ps = radii[q] * cosines[q],
+        pt = radii[q] * sines[q];
       if (ps < minS) minS = ps;
       if (ps > maxS) maxS = ps;
       if (pt < minT) minT = pt;
@@ -350,7 +393,8 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
 
   const ends: TipEnd[] = END_SIDES.map((side) => {
     const forced = inputs.ends[side];
-    let open = 0, count = 0;
+    let open = 0,
+      count = 0;
     for (let q = 0; q < RAY_COUNT; q++) {
       if (angleGap(angles[q], END_ANGLE[side]) > END_HALF_ANGLE) continue;
       count++;
@@ -367,7 +411,9 @@ export function summariseTipLine(fits: TipLineFits): TipLineSummary {
   const modelMisfits: Partial<Record<ProfileModel, number>> = {};
   for (const c of candidates) modelMisfits[c.best.model] = c.rmsM;
   const percent = (w: number) => (w >= 0.995 ? "all" : w < 0.01 ? "under 1 %" : `${Math.round(100 * w)} %`);
-  const ranking = ranked.filter((c) => c.weight >= 0.01).map((c) => `${PROFILE_LABELS[c.best.model]}${describeShape(c.best.model, c.best.shape)} ${percent(c.weight)}`);
+  const ranking = ranked
+    .filter((c) => c.weight >= 0.01)
+    .map((c) => `${PROFILE_LABELS[c.best.model]}${describeShape(c.best.model, c.best.shape)} ${percent(c.weight)}`);
   const selection =
     `Candidate profiles compared by the small-sample Akaike information criterion (Burnham & Anderson 2002), weights: ${ranking.join("; ")}. ` +
     `The central tip line averages the published profiles by weight (${PROFILE_LABELS[best.model]} leads); the inner and outer lines are the 5th and 95th percentiles of ${drawRadii.length} fault models drawn from the fits' uncertainty. ` +
@@ -450,7 +496,13 @@ export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: A
   const isOpen = (side: TipEndSide) => ends.find((e) => e.side === side)?.status === "open";
   const lengthOpen = isOpen("strike-start") || isOpen("strike-end");
   const heightOpen = isOpen("up-dip") || isOpen("down-dip");
-  const range = ([lowDrawn, highDrawn]: [number, number], centralValue: number, innerValue: number, outerValue: number, open: boolean): [number, number | null] => {
+  const range = (
+    [lowDrawn, highDrawn]: [number, number],
+    centralValue: number,
+    innerValue: number,
+    outerValue: number,
+    open: boolean,
+  ): [number, number | null] => {
     const low = Math.min(centralValue, innerValue, Number.isFinite(lowDrawn) ? lowDrawn : innerValue);
     const high = Math.max(centralValue, outerValue, Number.isFinite(highDrawn) ? highDrawn : outerValue);
     return [low, open ? null : high];
@@ -464,7 +516,12 @@ export function tipLineFromFits(s: ArrayLike<number>, t: ArrayLike<number>, d: A
 
   const halfSize = { sM: centralSize.lengthM / 2, tM: centralSize.heightM / 2 };
   const world = (p: [number, number][]) => p.map(([ps, pt]) => planeToWorld(frame, ps, pt));
-  const endNames: Record<TipEndSide, string> = { "strike-start": "strike start", "strike-end": "strike end", "up-dip": "up-dip end", "down-dip": "down-dip end" };
+  const endNames: Record<TipEndSide, string> = {
+    "strike-start": "strike start",
+    "strike-end": "strike end",
+    "up-dip": "up-dip end",
+    "down-dip": "down-dip end",
+  };
   const openEnds = ends.filter((e) => e.status === "open").map((e) => `the ${endNames[e.side]}`);
   const minimums = [lengthOpen ? "length" : "", heightOpen ? "height" : ""].filter(Boolean);
   const tipLine: TipLine = {

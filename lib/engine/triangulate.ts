@@ -138,7 +138,12 @@ function longestBoundaryLoop(tri: Uint32Array, half: Int32Array, removed: Uint8A
  * The directed boundary edges a → b of the kept triangles grouped by a (compressed rows: targets[first[a] …
  * first[a] + count[a]) in the order found), and the vertices with any, in the order their first edge was found.
  */
-function boundaryEdges(tri: Uint32Array, half: Int32Array, removed: Uint8Array, n: number): { first: Int32Array; count: Int32Array; targets: Int32Array; starts: Int32Array } {
+function boundaryEdges(
+  tri: Uint32Array,
+  half: Int32Array,
+  removed: Uint8Array,
+  n: number,
+): { first: Int32Array; count: Int32Array; targets: Int32Array; starts: Int32Array } {
   const isBoundary = (e: number) => !removed[(e / 3) | 0] && (half[e] === -1 || removed[(half[e] / 3) | 0] === 1);
   const count = new Int32Array(n);
   let total = 0;

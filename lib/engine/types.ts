@@ -139,4 +139,3 @@ export interface AnalysisOptions {
   /** Gaussian smoothing of the displacement and throw grids before contouring, as a length (m); none when absent */
   smoothingM?: number;
 }
-

@@ -74,7 +74,10 @@ export async function computedExport(source: ExportSource, kind: ComputedExportK
   const { jobsAdded } = await import("@/lib/jobs/local");
   await jobsAdded();
   if (!(await exportWorkerAlive())) {
-    throw new ApiError(503, "No worker is running to make this export. Start one (`npm run worker`), or let the web server run jobs (SLIPFIELD_ANALYSIS_WORKERS ≥ 1).");
+    throw new ApiError(
+      503,
+      "No worker is running to make this export. Start one (`npm run worker`), or let the web server run jobs (SLIPFIELD_ANALYSIS_WORKERS ≥ 1).",
+    );
   }
   const outcome = await finishedJob(jobId, key, analysisTimeLimitMs() + 60_000);
   if (outcome.state === "failed") throw new ApiError(500, `The export could not be made: ${outcome.error ?? "unknown error"}`);
@@ -118,7 +121,12 @@ async function makeExport({ job, owner, signal }: JobContext) {
     const source = await loadExportSource(payload.faultId, payload.analysisId);
     const { picks, result } = await fullResolution(source, signal);
     const comments = coordinateComments(source.coordinateReference ? describeCoordinateReference(source.coordinateReference) : null);
-    text = payload.kind === "grid.csv" ? gridCsv(result, comments) : payload.kind === "picks.csv" ? picksCsv(picks, result, comments) : profilesCsv(result, payload.mode, comments);
+    text =
+      payload.kind === "grid.csv"
+        ? gridCsv(result, comments)
+        : payload.kind === "picks.csv"
+          ? picksCsv(picks, result, comments)
+          : profilesCsv(result, payload.mode, comments);
   } catch (error) {
     if (signal.aborted || !(error instanceof ApiError)) throw error;
     // the analysis is gone or unfinished: a lasting answer, not worth retrying
@@ -130,8 +138,18 @@ async function makeExport({ job, owner, signal }: JobContext) {
   const body = new Uint8Array(await gzipAsync(text, { level: 1 }));
   await db.transaction(async (tx) => {
     if (!(await finishJob(tx, job.id, owner, { state: "done" }))) throw new LeaseLost();
-    const values = { key: job.subjectId, analysisId: payload.analysisId, contentType: "text/csv", fileName: payload.fileName, body, expiresAt: sql`now() + interval '${sql.raw(KEEP_FILES)}'` };
-    await tx.insert(exportFiles).values(values).onConflictDoUpdate({ target: exportFiles.key, set: { body, expiresAt: values.expiresAt, createdAt: sql`now()` } });
+    const values = {
+      key: job.subjectId,
+      analysisId: payload.analysisId,
+      contentType: "text/csv",
+      fileName: payload.fileName,
+      body,
+      expiresAt: sql`now() + interval '${sql.raw(KEEP_FILES)}'`,
+    };
+    await tx
+      .insert(exportFiles)
+      .values(values)
+      .onConflictDoUpdate({ target: exportFiles.key, set: { body, expiresAt: values.expiresAt, createdAt: sql`now()` } });
   });
   await publish("slipfield_jobs", `done:${job.subjectId}`).catch(() => undefined);
   // finished export jobs are only a means to the file; the file row is what stays (for an hour)

@@ -20,7 +20,16 @@ export interface ExportSource {
   /** the study's coordinate reference (null: not recorded) */
   coordinateReference: CoordinateReference | null;
   analysis: { id: string; engineVersion: string | null; finishedAt: Date | null; parameters: Record<string, unknown> };
-  pickSet: { id: string; version: number; fileName: string; checksum: string; units: "m" | "ft"; rowCount: number; uploadedAt: Date; uploadedBy: string | null };
+  pickSet: {
+    id: string;
+    version: number;
+    fileName: string;
+    checksum: string;
+    units: "m" | "ft";
+    rowCount: number;
+    uploadedAt: Date;
+    uploadedBy: string | null;
+  };
   report: AnalysisReport;
 }
 
@@ -58,7 +67,11 @@ export async function loadExportSource(faultId: string, analysisId?: string): Pr
     .orderBy(desc(pickSets.version), desc(analyses.createdAt))
     .limit(1);
   const row = rows[0];
-  if (!row || !row.result) throw new ApiError(404, analysisId ? "That analysis of this fault is not finished or does not exist." : "This fault has no finished analysis to export yet.");
+  if (!row || !row.result)
+    throw new ApiError(
+      404,
+      analysisId ? "That analysis of this fault is not finished or does not exist." : "This fault has no finished analysis to export yet.",
+    );
   return {
     fault: { id: faultId, name: row.faultName, studyId: row.studyId, studyName: row.studyName },
     coordinateReference: row.coordinateReference ?? null,
@@ -87,7 +100,10 @@ export async function loadPicks(source: ExportSource): Promise<PickColumns> {
 
 async function storedPickBytes(source: ExportSource): Promise<Uint8Array> {
   const db = await getDb();
-  const [pickSet] = await db.select({ picks: base64Bytes(pickSets.picks) }).from(pickSets).where(eq(pickSets.id, source.pickSet.id));
+  const [pickSet] = await db
+    .select({ picks: base64Bytes(pickSets.picks) })
+    .from(pickSets)
+    .where(eq(pickSets.id, source.pickSet.id));
   if (!pickSet) throw new ApiError(404, "The pick set of this analysis no longer exists.");
   return pickSet.picks;
 }
@@ -105,17 +121,22 @@ export async function fullResolution(source: ExportSource, signal?: AbortSignal)
   const db = await getDb();
   const [bytes, [stored]] = await Promise.all([
     storedPickBytes(source),
-    db.select({ body: base64Bytes(analysisOutputs.body) }).from(analysisOutputs).where(eq(analysisOutputs.analysisId, source.analysis.id)),
+    db
+      .select({ body: base64Bytes(analysisOutputs.body) })
+      .from(analysisOutputs)
+      .where(eq(analysisOutputs.analysisId, source.analysis.id)),
   ]);
   const outputs = stored ? unpackAnalysisOutputs(stored.body) : null;
   // the fault type the analysis ran with, so recomputed grids are the analysis' own
   const used = source.report.kinematics;
   const kinematics = used ? { sense: used.sense, rakeDeg: used.rakeDeg, inversion: used.inversion } : undefined;
-  const result: ReportWithGrids =
-    outputs?.pickDisplacementM
-      ? { report: source.report, grids: outputs.grids, pickDisplacementM: outputs.pickDisplacementM }
-      : // an analysis stored before its outputs were: seconds of work on a large pick set, off the web server's thread
-        await computeGridsOffThread({ picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters), kinematics }, signal);
+  const result: ReportWithGrids = outputs?.pickDisplacementM
+    ? { report: source.report, grids: outputs.grids, pickDisplacementM: outputs.pickDisplacementM }
+    : // an analysis stored before its outputs were: seconds of work on a large pick set, off the web server's thread
+      await computeGridsOffThread(
+        { picks: bytes, units: source.pickSet.units, settings: parseAnalysisSettings(source.analysis.parameters), kinematics },
+        signal,
+      );
   const loaded = { picks: decodePicks(bytes), result };
   fullResolutionCache.set(source.analysis.id, loaded);
   return loaded;

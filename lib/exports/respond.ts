@@ -38,14 +38,22 @@ export async function exportResponse(faultId: string, kindParam: string, url: UR
   const stem = `${fileStem(source.fault.name)}-v${source.pickSet.version}`;
   switch (kind) {
     case "contours.geojson":
-      return attachment(JSON.stringify(faultGeoJson(source.fault.name, source.report, source.coordinateReference)), "application/geo+json", `${stem}-contours.geojson`);
+      return attachment(
+        JSON.stringify(faultGeoJson(source.fault.name, source.report, source.coordinateReference)),
+        "application/geo+json",
+        `${stem}-contours.geojson`,
+      );
     case "surface.glb": {
       // the stored display payload (decimated grid, surface, tip lines) is what the 3D view draws: the same model
       const payload = await analysisDisplay(faultId, source.analysis.id);
       if (!payload) throw new ApiError(404, "This analysis has no 3D surface to export; run it again.");
       const display = decodeFaultDisplay(payload);
       const reference = source.coordinateReference;
-      const bytes = faultGltf(display, { faultName: source.fault.name, coordinateReference: reference, originLongitudeLatitude: reference ? toLongitudeLatitude(reference, display.origin[0], display.origin[1]) : null });
+      const bytes = faultGltf(display, {
+        faultName: source.fault.name,
+        coordinateReference: reference,
+        originLongitudeLatitude: reference ? toLongitudeLatitude(reference, display.origin[0], display.origin[1]) : null,
+      });
       return attachment(bytes, "model/gltf-binary", `${stem}-surface.glb`);
     }
     case "scaling.json":

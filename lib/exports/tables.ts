@@ -28,7 +28,21 @@ export function picksCsv(picks: PickColumns, { report, grids, pickDisplacementM 
       const displacement = pickDisplacementM[i];
       const grid = grids[segment.id];
       const surface = grid ? sampleGrid(grid, grid.displacementM, s, t, EDGE_TOLERANT_BILINEAR) : NaN;
-      yield [picks.sourceRow[i], name, horizon, picks.x[i], picks.y[i], picks.z[i], picks.throwM[i], heave, s, t, displacement, surface, displacement - surface];
+      yield [
+        picks.sourceRow[i],
+        name,
+        horizon,
+        picks.x[i],
+        picks.y[i],
+        picks.z[i],
+        picks.throwM[i],
+        heave,
+        s,
+        t,
+        displacement,
+        surface,
+        displacement - surface,
+      ];
     }
   }
   return toCsv(PICKS_CSV_HEADER, rows(), comments);

@@ -83,22 +83,25 @@ export async function holdWhileRunning<T>(job: ClaimedJob, owner: string, work: 
   outer?.addEventListener("abort", onOuter, { once: true });
   let renewedAt = Date.now();
   let renewing = false;
-  const heartbeat = setInterval(() => {
-    // unrenewed for most of a lease (the database is unreachable or stalled): stop before another worker may claim it
-    if (Date.now() - renewedAt > leaseMs * (5 / 6)) giveUp(ABORT_LOST);
-    if (renewing) return;
-    renewing = true;
-    const sentAt = Date.now();
-    renewLease(job.id, owner)
-      .then((held) => {
-        if (held) renewedAt = sentAt;
-        else giveUp(ABORT_LOST);
-      })
-      .catch(() => {
-        // the database is unreachable: the next beat tries again (and gives up once the lease may have run out)
-      })
-      .finally(() => (renewing = false));
-  }, Math.max(500, leaseMs / 3));
+  const heartbeat = setInterval(
+    () => {
+      // unrenewed for most of a lease (the database is unreachable or stalled): stop before another worker may claim it
+      if (Date.now() - renewedAt > leaseMs * (5 / 6)) giveUp(ABORT_LOST);
+      if (renewing) return;
+      renewing = true;
+      const sentAt = Date.now();
+      renewLease(job.id, owner)
+        .then((held) => {
+          if (held) renewedAt = sentAt;
+          else giveUp(ABORT_LOST);
+        })
+        .catch(() => {
+          // the database is unreachable: the next beat tries again (and gives up once the lease may have run out)
+        })
+        .finally(() => (renewing = false));
+    },
+    Math.max(500, leaseMs / 3),
+  );
   heartbeat.unref();
   try {
     return await work(abort.signal);
@@ -230,7 +233,8 @@ export class JobProcessor {
     try {
       if (drain.aborted) {
         await db.transaction(async (tx) => {
-          if (await releaseJob(tx, job.id, this.id)) await this.interrupted(tx, [{ id: job.id, kind: job.kind, subjectId: job.subjectId, state: "queued", attempts: job.attempts - 1 }]);
+          if (await releaseJob(tx, job.id, this.id))
+            await this.interrupted(tx, [{ id: job.id, kind: job.kind, subjectId: job.subjectId, state: "queued", attempts: job.attempts - 1 }]);
         });
         this.log(`${job.kind} ${job.subjectId}: given back to the queue (this process is stopping)`);
       } else if (error instanceof LeaseLost || (error as { name?: string }).name === "ComputeAborted" || (error as { name?: string }).name === "AbortError") {
@@ -251,14 +255,18 @@ export class JobProcessor {
 
   private async interrupted(tx: Executor, jobs: InterruptedJob[]) {
     for (const kind of new Set(jobs.map((job) => job.kind))) {
-      await this.options.handlers[kind]?.interrupted?.(tx, jobs.filter((job) => job.kind === kind));
+      await this.options.handlers[kind]?.interrupted?.(
+        tx,
+        jobs.filter((job) => job.kind === kind),
+      );
     }
   }
 
   private async sweep() {
     await forgetSilentWorkers();
     const interrupted = await sweepExpiredLeases((tx, jobs) => this.interrupted(tx, jobs));
-    for (const job of interrupted) this.log(`${job.kind} ${job.subjectId}: its worker stopped; ${job.state === "queued" ? "queued again" : "failed after " + job.attempts + " attempts"}`);
+    for (const job of interrupted)
+      this.log(`${job.kind} ${job.subjectId}: its worker stopped; ${job.state === "queued" ? "queued again" : "failed after " + job.attempts + " attempts"}`);
     if (interrupted.some((job) => job.state === "queued")) {
       // others may be waiting for it too once its back-off ends; the poll finds it then
       await publish("slipfield_jobs").catch(() => undefined);

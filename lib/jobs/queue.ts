@@ -52,7 +52,10 @@ function claimed(row: Job): ClaimedJob {
  * Adds a job (inside the caller's transaction when `db` is one, so that the job exists exactly when what it works on
  * does). A live job for the same subject is joined instead: its id is returned.
  */
-export async function enqueueJob(db: Executor, job: { kind: JobKind; subjectId: string; payload?: Record<string, unknown>; maxAttempts?: number }): Promise<string> {
+export async function enqueueJob(
+  db: Executor,
+  job: { kind: JobKind; subjectId: string; payload?: Record<string, unknown>; maxAttempts?: number },
+): Promise<string> {
   const [added] = await db
     .insert(jobs)
     .values({ kind: job.kind, subjectId: job.subjectId, payload: job.payload ?? {}, maxAttempts: job.maxAttempts ?? defaultMaxAttempts() })
@@ -80,14 +83,22 @@ export async function claimNextJob(owner: string, kinds: JobKind[]): Promise<Cla
     .for("update", { skipLocked: true });
   // `id = (scalar subquery)` runs the subquery once; with `id in (…)` PostgreSQL may re-run it for each row it scans
   // and claim several jobs at once
-  const [row] = await db.update(jobs).set(claimColumns(owner)).where(and(eq(jobs.id, sql`(${due})`), eq(jobs.state, "queued"))).returning();
+  const [row] = await db
+    .update(jobs)
+    .set(claimColumns(owner))
+    .where(and(eq(jobs.id, sql`(${due})`), eq(jobs.state, "queued")))
+    .returning();
   return row ? claimed(row) : null;
 }
 
 /** Claims the queued job of one subject (the demo seed and tests run an analysis at once this way). */
 export async function claimJobOf(owner: string, kind: JobKind, subjectId: string): Promise<ClaimedJob | null> {
   const db = await getDb();
-  const [row] = await db.update(jobs).set(claimColumns(owner)).where(and(eq(jobs.kind, kind), eq(jobs.subjectId, subjectId), eq(jobs.state, "queued"))).returning();
+  const [row] = await db
+    .update(jobs)
+    .set(claimColumns(owner))
+    .where(and(eq(jobs.kind, kind), eq(jobs.subjectId, subjectId), eq(jobs.state, "queued")))
+    .returning();
   return row ? claimed(row) : null;
 }
 
@@ -195,7 +206,10 @@ export async function sweepExpiredLeases(onInterrupted: (tx: Executor, jobs: Int
  * so jobs left running by a killed server are queued again at once instead of waiting for their leases to run out.
  * Jobs this process already holds (their worker ids contain `ownMark`, e.g. the demo seed's) are left alone.
  */
-export async function takeBackJobsOfPreviousRun(ownMark: string, onInterrupted: (tx: Executor, jobs: InterruptedJob[]) => Promise<void>): Promise<InterruptedJob[]> {
+export async function takeBackJobsOfPreviousRun(
+  ownMark: string,
+  onInterrupted: (tx: Executor, jobs: InterruptedJob[]) => Promise<void>,
+): Promise<InterruptedJob[]> {
   const db = await getDb();
   return db.transaction(async (tx) => {
     const rows = await tx
@@ -217,7 +231,10 @@ export async function queueDepth(): Promise<Record<JobKind, { queued: number; de
     .from(jobs)
     .where(inArray(jobs.state, ["queued", "running"]))
     .groupBy(jobs.kind, jobs.state, sql`${jobs.runAfter} <= now()`);
-  const depth: Record<JobKind, { queued: number; delayed: number; running: number }> = { analysis: { queued: 0, delayed: 0, running: 0 }, export: { queued: 0, delayed: 0, running: 0 } };
+  const depth: Record<JobKind, { queued: number; delayed: number; running: number }> = {
+    analysis: { queued: 0, delayed: 0, running: 0 },
+    export: { queued: 0, delayed: 0, running: 0 },
+  };
   for (const row of rows) {
     const entry = depth[row.kind as JobKind];
     if (!entry) continue;

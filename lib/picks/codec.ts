@@ -24,12 +24,33 @@ export interface StoredPickSet {
 /** A plane's numbers in one Float64Array (exact, -0 and all) and its words apart. */
 const PLANE_NUMBERS = 19;
 function planeNumbers(plane: PlaneFit): number[] {
-  return [plane.strikeDeg, plane.dipDeg, plane.dipDirectionDeg, plane.rmsM, ...plane.centroid, ...plane.strikeVector, ...plane.dipVector, ...plane.normal, ...plane.singularValues];
+  return [
+    plane.strikeDeg,
+    plane.dipDeg,
+    plane.dipDirectionDeg,
+    plane.rmsM,
+    ...plane.centroid,
+    ...plane.strikeVector,
+    ...plane.dipVector,
+    ...plane.normal,
+    ...plane.singularValues,
+  ];
 }
 function planeFrom(numbers: Float64Array, offset: number, planarityWarning: string | null): PlaneFit {
   const n = (k: number) => numbers[offset + k];
   const triple = (k: number): [number, number, number] => [n(k), n(k + 1), n(k + 2)];
-  return { strikeDeg: n(0), dipDeg: n(1), dipDirectionDeg: n(2), rmsM: n(3), centroid: triple(4), strikeVector: triple(7), dipVector: triple(10), normal: triple(13), singularValues: triple(16), planarityWarning };
+  return {
+    strikeDeg: n(0),
+    dipDeg: n(1),
+    dipDirectionDeg: n(2),
+    rmsM: n(3),
+    centroid: triple(4),
+    strikeVector: triple(7),
+    dipVector: triple(10),
+    normal: triple(13),
+    singularValues: triple(16),
+    planarityWarning,
+  };
 }
 
 /** The pick set in the one codec (not deflated: `packPicks` is what is stored). */
@@ -79,8 +100,14 @@ export function decodeColumns<T>(stored: Uint8Array): T {
 export function decodePickSet(stored: Uint8Array): StoredPickSet {
   const plain = unpack(stored);
   if (recordMagic(plain) === PICK_SET_MAGIC) {
-    const record = decodeRecord(plain, PICK_SET_MAGIC, "pick set") as { picks: PickColumns; planeValues: Float64Array | null; planeWords: ({ warning: string | null } | null)[] | null };
-    const planes = record.planeWords ? record.planeWords.map((words, k) => (words ? planeFrom(record.planeValues!, k * PLANE_NUMBERS, words.warning) : null)) : null;
+    const record = decodeRecord(plain, PICK_SET_MAGIC, "pick set") as {
+      picks: PickColumns;
+      planeValues: Float64Array | null;
+      planeWords: ({ warning: string | null } | null)[] | null;
+    };
+    const planes = record.planeWords
+      ? record.planeWords.map((words, k) => (words ? planeFrom(record.planeValues!, k * PLANE_NUMBERS, words.warning) : null))
+      : null;
     return { picks: record.picks, planes };
   }
   return { picks: decodeLegacyColumns(plain) as unknown as PickColumns, planes: null };

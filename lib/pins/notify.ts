@@ -33,7 +33,6 @@ export async function notifyUser(input: NotificationInput): Promise<"sent" | "qu
   return "sent";
 }
 
-
 /**
  * Sends every pending notification: one e-mail per person listing all of theirs, oldest first. People whose
  * setting is now "off" get nothing and their queue is cleared.
@@ -73,11 +72,18 @@ export async function runDigest(now = new Date()): Promise<DigestSummary> {
       ``,
       `${count === 1 ? "One thing" : `${count} things`} happened on Slipfield since your last digest:`,
       ``,
-      ...rows.flatMap((row, index) => [`${index + 1}. ${row.subject} (${row.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC)`, indent(row.text), ``]),
+      ...rows.flatMap((row, index) => [
+        `${index + 1}. ${row.subject} (${row.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC)`,
+        indent(row.text),
+        ``,
+      ]),
       `You get these as a daily digest. Change that here: ${appUrl("/settings")}`,
     ].join("\n");
     await sendMail({ to: rows[0].email, kind: "digest", subject: `Slipfield digest: ${count} notification${count === 1 ? "" : "s"}`, text: body });
-    await db.update(notifications).set({ sentAt: now }).where(and(inArray(notifications.id, ids), isNull(notifications.sentAt)));
+    await db
+      .update(notifications)
+      .set({ sentAt: now })
+      .where(and(inArray(notifications.id, ids), isNull(notifications.sentAt)));
     await db.update(users).set({ lastDigestAt: now }).where(eq(users.id, userId));
     summary.emails += 1;
     summary.notifications += count;

@@ -23,7 +23,6 @@ const writeLimiter = createRateLimiter({ scope: "pin-write", limit: 40, windowMs
 
 type FaultAccess = StudyAccess & { faultId: string };
 
-
 // ---- access ------------------------------------------------------------------------------------------
 
 /** Session, then the pin (not deleted), then the role in its study; other studies' pins are 404. */
@@ -47,7 +46,8 @@ async function requireReply(pinId: string, replyId: string): Promise<PinReply> {
 }
 
 async function spendWrite(userId: string) {
-  if (!(await writeLimiter.attempt(userId))) throw new ApiError(429, "You have written many pins and replies in the last few minutes; wait a little and try again.");
+  if (!(await writeLimiter.attempt(userId)))
+    throw new ApiError(429, "You have written many pins and replies in the last few minutes; wait a little and try again.");
 }
 
 function requireOwnWithinWindow(authorId: string | null, userId: string, createdAt: Date, what: "pin" | "reply") {
@@ -57,8 +57,6 @@ function requireOwnWithinWindow(authorId: string | null, userId: string, created
 }
 
 // ---- reading -----------------------------------------------------------------------------------------
-
-
 
 /** The study's members (names and e-mail addresses never change; who is a member changes only through changingRoles). */
 function studyMembers(studyId: string): Promise<readonly { id: string; email: string; name: string }[]> {
@@ -82,7 +80,11 @@ export async function listPins(access: FaultAccess, filter: PinFilter = "all"): 
   // independent reads sent together: one wait for the database instead of four in a row
   const [visit, pinRows, repliesOfFault, members] = await Promise.all([
     db.query.pinVisits.findFirst({ where: and(eq(pinVisits.userId, me), eq(pinVisits.faultId, access.faultId)) }),
-    db.select().from(pins).where(and(...conditions)).orderBy(desc(pins.createdAt)),
+    db
+      .select()
+      .from(pins)
+      .where(and(...conditions))
+      .orderBy(desc(pins.createdAt)),
     // the replies of every live pin of the fault (those of pins the filter leaves out are not used)
     db
       .select({ reply: pinReplies })
@@ -212,11 +214,12 @@ async function notifyMentions(access: FaultAccess, pinId: string, text: string, 
 export async function createPin(access: FaultAccess, input: PinInput) {
   await spendWrite(access.user.id);
   const analysis = await latestAnalysisForFault(access.faultId);
-  if (!analysis || analysis.status !== "done")
-    throw new ApiError(409, "This fault has no finished analysis yet; pins go on the analysed surface.");
+  if (!analysis || analysis.status !== "done") throw new ApiError(409, "This fault has no finished analysis yet; pins go on the analysed surface.");
   const report = analysis.result as AnalysisReport | null;
   if (!report?.segments.some((segment) => segment.id === input.segmentId))
-    throw new ApiError(400, `The fault has no segment "${input.segmentId}".`, { fieldErrors: { segmentId: ["Not a segment of this fault's current analysis."] } });
+    throw new ApiError(400, `The fault has no segment "${input.segmentId}".`, {
+      fieldErrors: { segmentId: ["Not a segment of this fault's current analysis."] },
+    });
   const db = await getDb();
   const [pin] = await db
     .insert(pins)
@@ -263,7 +266,9 @@ export async function replyToPin(access: FaultAccess & { pin: Pin }, input: { bo
 
 async function isMember(studyId: string, userId: string) {
   const db = await getDb();
-  return Boolean(await db.query.memberships.findFirst({ where: and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)), columns: { role: true } }));
+  return Boolean(
+    await db.query.memberships.findFirst({ where: and(eq(memberships.studyId, studyId), eq(memberships.userId, userId)), columns: { role: true } }),
+  );
 }
 
 const excerpt = (text: string) => (text.length > 160 ? `${text.slice(0, 157)}…` : text);
@@ -308,7 +313,13 @@ export async function deletePin(access: FaultAccess & { pin: Pin }) {
   if (access.pin.authorId !== access.user.id) throw new ApiError(403, "Only the author can delete this pin.");
   const db = await getDb();
   await db.update(pins).set({ deletedAt: new Date() }).where(eq(pins.id, access.pin.id));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "pin.delete", target: access.pin.id, details: { faultId: access.faultId, body: access.pin.body } });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "pin.delete",
+    target: access.pin.id,
+    details: { faultId: access.faultId, body: access.pin.body },
+  });
 }
 
 export async function editReply(access: FaultAccess & { pin: Pin }, replyId: string, input: { body: string }) {
@@ -324,5 +335,11 @@ export async function deleteReply(access: FaultAccess & { pin: Pin }, replyId: s
   if (reply.authorId !== access.user.id) throw new ApiError(403, "Only the author can delete this reply.");
   const db = await getDb();
   await db.update(pinReplies).set({ deletedAt: new Date() }).where(eq(pinReplies.id, reply.id));
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "pin.reply.delete", target: reply.id, details: { pinId: access.pin.id, body: reply.body } });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "pin.reply.delete",
+    target: reply.id,
+    details: { pinId: access.pin.id, body: reply.body },
+  });
 }

@@ -79,7 +79,8 @@ export function safeHref(raw: string): string | null {
 }
 
 // code | bold | [label](address) | bare URL | mention
-const INLINE = /`([^`\n]+)`|\*\*(?=\S)([^\n]*?\S)\*\*|\[([^\]\n]{1,200})\]\(([^()\s]{1,2000})\)|(https?:\/\/[^\s<>"'`]+)|(?<![\w.@])@([A-Za-z0-9](?:[A-Za-z0-9._-]{0,62}[A-Za-z0-9])?)/g;
+const INLINE =
+  /`([^`\n]+)`|\*\*(?=\S)([^\n]*?\S)\*\*|\[([^\]\n]{1,200})\]\(([^()\s]{1,2000})\)|(https?:\/\/[^\s<>"'`]+)|(?<![\w.@])@([A-Za-z0-9](?:[A-Za-z0-9._-]{0,62}[A-Za-z0-9])?)/g;
 
 function parseInline(line: string, allowBold: boolean): Inline[] {
   const out: Inline[] = [];
@@ -119,7 +120,10 @@ function parseInline(line: string, allowBold: boolean): Inline[] {
 
 /** Markdown-lite to a token tree, one entry per line. */
 export function renderPinText(text: string): RichLine[] {
-  return text.replace(/\r\n?/g, "\n").split("\n").map((line) => parseInline(line, true));
+  return text
+    .replace(/\r\n?/g, "\n")
+    .split("\n")
+    .map((line) => parseInline(line, true));
 }
 
 const HTML_ESCAPES: Record<string, string> = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
@@ -162,6 +166,13 @@ export function mentionBeforeCaret(text: string, caret: number): { start: number
 /** People whose handle, or a word of whose name, starts with the query: handles first, at most six. */
 export function mentionSuggestions(people: Mentionable[], query: string): Mentionable[] {
   const byHandle = people.filter((person) => person.handle.toLowerCase().startsWith(query));
-  const byName = people.filter((person) => !byHandle.includes(person) && person.name.toLowerCase().split(/\s+/).some((word) => word.startsWith(query)));
+  const byName = people.filter(
+    (person) =>
+      !byHandle.includes(person) &&
+      person.name
+        .toLowerCase()
+        .split(/\s+/)
+        .some((word) => word.startsWith(query)),
+  );
   return [...byHandle, ...byName].slice(0, 6);
 }

@@ -39,7 +39,13 @@ export async function saveStratigraphy(access: StudyAccess, input: z.infer<typeo
       set: { units: input.units, version: sqlIncrement(), updatedBy: access.user.id, updatedAt: new Date() },
     })
     .returning();
-  await recordAudit({ studyId: access.studyId, userId: access.user.id, action: "stratigraphy.set", target: `version ${saved.version}`, details: { version: saved.version, units: input.units.length } });
+  await recordAudit({
+    studyId: access.studyId,
+    userId: access.user.id,
+    action: "stratigraphy.set",
+    target: `version ${saved.version}`,
+    details: { version: saved.version, units: input.units.length },
+  });
   return { units: saved.units, version: saved.version, updatedAt: saved.updatedAt.toISOString(), updatedBy: { name: access.user.name } };
 }
 

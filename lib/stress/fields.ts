@@ -17,10 +17,18 @@ export function decodeFloat32(base64: string): Float32Array {
 }
 
 export function stressFields(payload: StressFieldPayload, friction: { low: number; high: number }): ScalarField[] {
-  const bySegment = (key: "slip" | "dilation" | "dp") => Object.fromEntries(payload.segments.map((segment) => [segment.segmentId, decodeFloat32(segment[key])]));
+  const bySegment = (key: "slip" | "dilation" | "dp") =>
+    Object.fromEntries(payload.segments.map((segment) => [segment.segmentId, decodeFloat32(segment[key])]));
   return [
     { key: STRESS_FIELD_KEYS.slip, label: "Slip tendency τ/σn′", unit: "ratio", bySegment: bySegment("slip"), range: payload.ranges.slip },
     { key: STRESS_FIELD_KEYS.dilation, label: "Dilation tendency", unit: "0–1", bySegment: bySegment("dilation"), range: payload.ranges.dilation },
-    { key: STRESS_FIELD_KEYS.dp, label: `ΔP to failure, more critical of μ ${friction.low}–${friction.high}`, unit: "MPa", bySegment: bySegment("dp"), range: payload.ranges.dp, reversed: true },
+    {
+      key: STRESS_FIELD_KEYS.dp,
+      label: `ΔP to failure, more critical of μ ${friction.low}–${friction.high}`,
+      unit: "MPa",
+      bySegment: bySegment("dp"),
+      range: payload.ranges.dp,
+      reversed: true,
+    },
   ];
 }

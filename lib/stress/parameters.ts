@@ -8,7 +8,10 @@ import type { StressParameters, StressRegime } from "@/lib/contracts/stress";
  * generic (common practice, no source); the normal preset at 2.5 km gives the worked state of docs/check-values.md
  * (Sv 60, SHmax 45, Shmin 35, Pp 25 MPa). They are starting points to be replaced by site data.
  */
-export const REGIME_PRESETS: Record<Exclude<StressRegime, "custom">, Pick<StressParameters, "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient" | "porePressureGradient">> = {
+export const REGIME_PRESETS: Record<
+  Exclude<StressRegime, "custom">,
+  Pick<StressParameters, "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient" | "porePressureGradient">
+> = {
   normal: { verticalGradient: 24, maxHorizontalGradient: 18, minHorizontalGradient: 14, porePressureGradient: 10 },
   "strike-slip": { verticalGradient: 24, maxHorizontalGradient: 32, minHorizontalGradient: 16, porePressureGradient: 10 },
   reverse: { verticalGradient: 24, maxHorizontalGradient: 38, minHorizontalGradient: 30, porePressureGradient: 10 },
@@ -33,7 +36,10 @@ export const DEFAULT_THRESHOLDS_MPA = [1, 2, 5];
 /** "1, 2, 5" → [1, 2, 5]; null when any entry is not a number in 0–1000 MPa. */
 export function parseThresholds(text: string | null | undefined): number[] | null {
   if (text === null || text === undefined || text.trim() === "") return [...DEFAULT_THRESHOLDS_MPA];
-  const parts = text.split(",").map((part) => part.trim()).filter(Boolean);
+  const parts = text
+    .split(",")
+    .map((part) => part.trim())
+    .filter(Boolean);
   if (parts.length === 0 || parts.length > 10) return null;
   const values = parts.map(Number);
   if (values.some((v) => !Number.isFinite(v) || v < -1000 || v > 1000)) return null;

@@ -41,7 +41,6 @@ export interface SegmentScreen {
   nodes: { slip: Float32Array; dilation: Float32Array; dp: Float32Array; columns: number; rows: number };
 }
 
-
 export interface FaultScreenResult {
   orientation: OrientationBasis;
   segments: SegmentScreen[];
@@ -74,7 +73,14 @@ export function computeFaultScreen(job: StressScreenJob): FaultScreenResult {
       local.set(surface.localTriangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
       kept.set(surface.triangles.subarray(3 * screen.source[i], 3 * screen.source[i] + 3), 3 * i);
     }
-    const [slip, dilation, dp] = rasterizeTriangles(surface.s, surface.t, [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa], local, grid, true).map((values) => Float32Array.from(values));
+    const [slip, dilation, dp] = rasterizeTriangles(
+      surface.s,
+      surface.t,
+      [screen.slipTendency, screen.dilationTendency, screen.pressureToFailureCriticalMPa],
+      local,
+      grid,
+      true,
+    ).map((values) => Float32Array.from(values));
     return { segmentId: segment.id, screen, triangleVertices: kept, nodes: { slip, dilation, dp, columns: grid.columns, rows: grid.rows } };
   });
   return {
@@ -86,10 +92,31 @@ export function computeFaultScreen(job: StressScreenJob): FaultScreenResult {
 }
 
 const SCREEN_COLUMNS = [
-  "centroidX", "centroidY", "centroidZ", "normalX", "normalY", "normalZ", "areaM2", "orientationUncertaintyDeg", "slopeScatterDeg",
-  "depthM", "normalMPa", "shearMPa", "porePressureMPa", "effectiveNormalMPa", "slipTendency", "dilationTendency",
-  "pressureToFailureLowMPa", "pressureToFailureHighMPa", "pressureToFailureCriticalMPa", "pressureToFailureMinMPa", "pressureToFailureMaxMPa",
-  "slipTendencyMin", "slipTendencyMax", "dilationTendencyMin", "dilationTendencyMax",
+  "centroidX",
+  "centroidY",
+  "centroidZ",
+  "normalX",
+  "normalY",
+  "normalZ",
+  "areaM2",
+  "orientationUncertaintyDeg",
+  "slopeScatterDeg",
+  "depthM",
+  "normalMPa",
+  "shearMPa",
+  "porePressureMPa",
+  "effectiveNormalMPa",
+  "slipTendency",
+  "dilationTendency",
+  "pressureToFailureLowMPa",
+  "pressureToFailureHighMPa",
+  "pressureToFailureCriticalMPa",
+  "pressureToFailureMinMPa",
+  "pressureToFailureMaxMPa",
+  "slipTendencyMin",
+  "slipTendencyMax",
+  "dilationTendencyMin",
+  "dilationTendencyMax",
 ] as const satisfies readonly (keyof TriangleScreen)[];
 
 function concatScreens(screens: TriangleScreen[]): TriangleScreen {
@@ -118,4 +145,3 @@ function concatScreens(screens: TriangleScreen[]): TriangleScreen {
     skippedAboveDatum: screens.reduce((n, s) => n + s.skippedAboveDatum, 0),
   };
 }
-

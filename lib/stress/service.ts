@@ -126,7 +126,12 @@ export interface StressResultPayload {
   mohr: { total: number; effectiveNormalMPa: number[]; shearMPa: number[]; depthM: number[] };
 }
 
-export async function stressResult(studyId: string, faultId: string, thresholdsMPa: number[], lengthScaleM: number | null = null): Promise<StressResultPayload> {
+export async function stressResult(
+  studyId: string,
+  faultId: string,
+  thresholdsMPa: number[],
+  lengthScaleM: number | null = null,
+): Promise<StressResultPayload> {
   const result = await screenFault(studyId, faultId, lengthScaleM);
   const { combined } = result;
   const summary = summarizeScreen(combined, result.state.parameters, thresholdsMPa);
@@ -139,7 +144,14 @@ export async function stressResult(studyId: string, faultId: string, thresholdsM
     orientation: result.orientation,
     summary,
     skipped: { degenerate: combined.skippedDegenerate, aboveDatum: combined.skippedAboveDatum },
-    segments: result.segments.map(({ segmentId, nodes }) => ({ segmentId, columns: nodes.columns, rows: nodes.rows, slip: base64(nodes.slip), dilation: base64(nodes.dilation), dp: base64(nodes.dp) })),
+    segments: result.segments.map(({ segmentId, nodes }) => ({
+      segmentId,
+      columns: nodes.columns,
+      rows: nodes.rows,
+      slip: base64(nodes.slip),
+      dilation: base64(nodes.dilation),
+      dp: base64(nodes.dp),
+    })),
     ranges: {
       slip: [0, Math.max(result.state.parameters.frictionHigh, finiteMax(combined.slipTendency))],
       dilation: [0, 1],
@@ -166,19 +178,51 @@ function finiteMin(values: ArrayLike<number>) {
 }
 
 export const EXPORT_COLUMNS = [
-  "segment", "centroid_x_m", "centroid_y_m", "centroid_z_m", "normal_x", "normal_y", "normal_z", "area_m2", "depth_m",
-  "sigma_n_mpa", "tau_mpa", "pore_pressure_mpa", "sigma_n_eff_mpa", "slip_tendency", "dilation_tendency",
-  "dp_failure_mu_low_mpa", "dp_failure_mu_high_mpa", "dp_failure_critical_mpa", "dp_failure_critical_min_mpa", "dp_failure_critical_max_mpa",
+  "segment",
+  "centroid_x_m",
+  "centroid_y_m",
+  "centroid_z_m",
+  "normal_x",
+  "normal_y",
+  "normal_z",
+  "area_m2",
+  "depth_m",
+  "sigma_n_mpa",
+  "tau_mpa",
+  "pore_pressure_mpa",
+  "sigma_n_eff_mpa",
+  "slip_tendency",
+  "dilation_tendency",
+  "dp_failure_mu_low_mpa",
+  "dp_failure_mu_high_mpa",
+  "dp_failure_critical_mpa",
+  "dp_failure_critical_min_mpa",
+  "dp_failure_critical_max_mpa",
   "orientation_uncertainty_deg",
 ] as const;
 
 function rowValues(screen: TriangleScreen, i: number): number[] {
   return [
-    screen.centroidX[i], screen.centroidY[i], screen.centroidZ[i], screen.normalX[i], screen.normalY[i], screen.normalZ[i],
-    screen.areaM2[i], screen.depthM[i], screen.normalMPa[i], screen.shearMPa[i], screen.porePressureMPa[i],
-    screen.effectiveNormalMPa[i], screen.slipTendency[i], screen.dilationTendency[i],
-    screen.pressureToFailureLowMPa[i], screen.pressureToFailureHighMPa[i], screen.pressureToFailureCriticalMPa[i],
-    screen.pressureToFailureMinMPa[i], screen.pressureToFailureMaxMPa[i], screen.orientationUncertaintyDeg[i],
+    screen.centroidX[i],
+    screen.centroidY[i],
+    screen.centroidZ[i],
+    screen.normalX[i],
+    screen.normalY[i],
+    screen.normalZ[i],
+    screen.areaM2[i],
+    screen.depthM[i],
+    screen.normalMPa[i],
+    screen.shearMPa[i],
+    screen.porePressureMPa[i],
+    screen.effectiveNormalMPa[i],
+    screen.slipTendency[i],
+    screen.dilationTendency[i],
+    screen.pressureToFailureLowMPa[i],
+    screen.pressureToFailureHighMPa[i],
+    screen.pressureToFailureCriticalMPa[i],
+    screen.pressureToFailureMinMPa[i],
+    screen.pressureToFailureMaxMPa[i],
+    screen.orientationUncertaintyDeg[i],
   ];
 }
 
@@ -186,7 +230,12 @@ const cell = (x: number, digits: number) => (Number.isFinite(x) ? x.toFixed(digi
 const DIGITS = [3, 3, 3, 6, 6, 6, 1, 1, 4, 4, 4, 4, 5, 5, 4, 4, 4, 4, 4, 3];
 const csvText = (text: string) => (/[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text);
 
-export async function stressExport(studyId: string, faultId: string, format: "csv" | "geojson", lengthScaleM: number | null = null): Promise<{ body: string; contentType: string; fileName: string }> {
+export async function stressExport(
+  studyId: string,
+  faultId: string,
+  format: "csv" | "geojson",
+  lengthScaleM: number | null = null,
+): Promise<{ body: string; contentType: string; fileName: string }> {
   const result = await screenFault(studyId, faultId, lengthScaleM);
   const p = result.state.parameters;
   const stem = `reactivation-screen-v${result.state.version}`;
@@ -216,7 +265,12 @@ export async function stressExport(studyId: string, faultId: string, format: "cs
   return {
     body: JSON.stringify({
       type: "FeatureCollection",
-      screening: { caution: "Screening only: not a site-specific engineering, safety or regulatory assessment.", stressStateVersion: result.state.version, parameters: p, orientation: result.orientation },
+      screening: {
+        caution: "Screening only: not a site-specific engineering, safety or regulatory assessment.",
+        stressStateVersion: result.state.version,
+        parameters: p,
+        orientation: result.orientation,
+      },
       features,
     }),
     contentType: "application/geo+json",

@@ -5,9 +5,6 @@ import type { Histogram, ScreenSummary, StressParameters } from "@/lib/contracts
 import type { TriangleScreen } from "./surface";
 import { maxSlipTendency, orderedPrincipal, stressesAtDepth } from "./tensor";
 
-
-
-
 /** A round step (1, 2 or 5 × 10^k) giving about `target` bins over the span (common practice, no source). */
 export function niceStep(span: number, target = 20): number {
   if (!(span > 0)) return 1;
@@ -18,7 +15,9 @@ export function niceStep(span: number, target = 20): number {
 }
 
 export function areaHistogram(valuesLow: ArrayLike<number>, valuesHigh: ArrayLike<number>, areas: ArrayLike<number>, targetBins = 20): Histogram {
-  let lo = Infinity, hi = -Infinity, total = 0;
+  let lo = Infinity,
+    hi = -Infinity,
+    total = 0;
   for (let i = 0; i < areas.length; i++) {
     for (const v of [valuesLow[i], valuesHigh[i]]) {
       if (Number.isFinite(v)) {
@@ -48,7 +47,9 @@ const pct = (fraction: number) => `${(fraction * 100).toFixed(fraction > 0 && fr
 
 /** Area-weighted median of the finite values (NaN when there are none). */
 function areaMedian(values: ArrayLike<number>, areas: ArrayLike<number>): number {
-  const order = Array.from({ length: values.length }, (_, i) => i).filter((i) => Number.isFinite(values[i])).sort((i, j) => values[i] - values[j]);
+  const order = Array.from({ length: values.length }, (_, i) => i)
+    .filter((i) => Number.isFinite(values[i]))
+    .sort((i, j) => values[i] - values[j]);
   const total = order.reduce((sum, i) => sum + areas[i], 0);
   let running = 0;
   for (const i of order) {
@@ -59,10 +60,25 @@ function areaMedian(values: ArrayLike<number>, areas: ArrayLike<number>): number
 }
 
 export function summarizeScreen(screen: TriangleScreen, parameters: StressParameters, thresholdsMPa: number[], targetBins = 20): ScreenSummary {
-  let area = 0, minLow = Infinity, minHigh = Infinity, minCritical = Infinity, minRangeLow = Infinity, minRangeHigh = Infinity;
-  let failCritical = 0, failBoth = 0, failRange = 0;
-  let tsMax = -Infinity, tsRangeMax = -Infinity, tsSum = 0, tsArea = 0, tdMax = -Infinity, tdSum = 0, tdArea = 0, tensile = 0;
-  let depthMin = Infinity, depthMax = -Infinity;
+  let area = 0,
+    minLow = Infinity,
+    minHigh = Infinity,
+    minCritical = Infinity,
+    minRangeLow = Infinity,
+    minRangeHigh = Infinity;
+  let failCritical = 0,
+    failBoth = 0,
+    failRange = 0;
+  let tsMax = -Infinity,
+    tsRangeMax = -Infinity,
+    tsSum = 0,
+    tsArea = 0,
+    tdMax = -Infinity,
+    tdSum = 0,
+    tdArea = 0,
+    tensile = 0;
+  let depthMin = Infinity,
+    depthMax = -Infinity;
   const below = thresholdsMPa.map(() => ({ critical: 0, both: 0 }));
   for (let i = 0; i < screen.count; i++) {
     const a = screen.areaM2[i];
@@ -116,9 +132,16 @@ export function summarizeScreen(screen: TriangleScreen, parameters: StressParame
     },
     failingFraction: { critical: frac(failCritical), bothEnds: frac(failBoth), withinOrientationRange: frac(failRange) },
     thresholds: thresholdsMPa.map((thresholdMPa, k) => ({ thresholdMPa, fractionCritical: frac(below[k].critical), fractionBothEnds: frac(below[k].both) })),
-    slipTendency: { max: tsArea > 0 ? tsMax : NaN, areaMean: tsArea > 0 ? tsSum / tsArea : NaN, maxWithinOrientationRange: Number.isFinite(tsRangeMax) ? tsRangeMax : NaN },
+    slipTendency: {
+      max: tsArea > 0 ? tsMax : NaN,
+      areaMean: tsArea > 0 ? tsSum / tsArea : NaN,
+      maxWithinOrientationRange: Number.isFinite(tsRangeMax) ? tsRangeMax : NaN,
+    },
     dilationTendency: { max: tdArea > 0 ? tdMax : NaN, areaMean: tdArea > 0 ? tdSum / tdArea : NaN },
-    orientation: { medianUncertaintyDeg: areaMedian(screen.orientationUncertaintyDeg, screen.areaM2), medianSlopeScatterDeg: areaMedian(screen.slopeScatterDeg, screen.areaM2) },
+    orientation: {
+      medianUncertaintyDeg: areaMedian(screen.orientationUncertaintyDeg, screen.areaM2),
+      medianSlopeScatterDeg: areaMedian(screen.slopeScatterDeg, screen.areaM2),
+    },
     tensileCount: tensile,
     histogram: areaHistogram(screen.pressureToFailureLowMPa, screen.pressureToFailureHighMPa, screen.areaM2, targetBins),
     reference: {
@@ -142,14 +165,22 @@ function summarySentence(s: Omit<ScreenSummary, "sentence">, p: StressParameters
     `Over ${fmt(areaKm2, 2)} km² of fault surface between ${fmt(s.depthRangeM[0], 0)} and ${fmt(s.depthRangeM[1], 0)} m depth, the smallest pore-pressure increase to failure is ${fmt(s.minPressureToFailureMPa.low)} MPa at μ = ${p.frictionLow} and ${fmt(s.minPressureToFailureMPa.high)} MPa at μ = ${p.frictionHigh}; taking the more critical end for each part of the surface, ${fmt(s.minPressureToFailureMPa.critical)} MPa (${fmt(rangeLow)} to ${fmt(rangeHigh)} MPa within the orientation uncertainty).`,
   ];
   if (firstThreshold) {
-    parts.push(`Between ${pct(firstThreshold.fractionBothEnds)} (both ends of the friction band) and ${pct(firstThreshold.fractionCritical)} (the more critical end) of the area would reach failure with less than ${firstThreshold.thresholdMPa} MPa of added pore pressure.`);
+    parts.push(
+      `Between ${pct(firstThreshold.fractionBothEnds)} (both ends of the friction band) and ${pct(firstThreshold.fractionCritical)} (the more critical end) of the area would reach failure with less than ${firstThreshold.thresholdMPa} MPa of added pore pressure.`,
+    );
   }
   if (s.failingFraction.critical > 0) {
-    parts.push(`${pct(s.failingFraction.critical)} of the area is already at or past failure at the more critical end of μ ${p.frictionLow}–${p.frictionHigh} under these inputs.`);
+    parts.push(
+      `${pct(s.failingFraction.critical)} of the area is already at or past failure at the more critical end of μ ${p.frictionLow}–${p.frictionHigh} under these inputs.`,
+    );
   } else if (s.failingFraction.withinOrientationRange > 0) {
-    parts.push(`No part is at failure with its fitted orientation, but ${pct(s.failingFraction.withinOrientationRange)} of the area could be within its orientation uncertainty.`);
+    parts.push(
+      `No part is at failure with its fitted orientation, but ${pct(s.failingFraction.withinOrientationRange)} of the area could be within its orientation uncertainty.`,
+    );
   }
-  parts.push(`Slip tendency reaches ${fmt(s.slipTendency.max, 2)} (area mean ${fmt(s.slipTendency.areaMean, 2)}); dilation tendency reaches ${fmt(s.dilationTendency.max, 2)}.`);
+  parts.push(
+    `Slip tendency reaches ${fmt(s.slipTendency.max, 2)} (area mean ${fmt(s.slipTendency.areaMean, 2)}); dilation tendency reaches ${fmt(s.dilationTendency.max, 2)}.`,
+  );
   return parts.join(" ");
 }
 

@@ -8,15 +8,7 @@ import { triangulate } from "@/lib/engine/triangulate";
 import { sampleGrid, type GridSpec, type SampleRule } from "@/lib/display/grid-sampler";
 import { pickWeights, pullTowardNeighbours, weightsMatter } from "@/lib/engine/quality";
 import { effectivePickCount, localPolynomialFit, offPlaneGrid, slopeScatterDeg, surfaceNormal } from "@/lib/engine/surface";
-import {
-  dilationTendency,
-  pressureToFailure,
-  slipTendency,
-  stressesAtDepth,
-  stressOnPlane,
-  stressTensorENU,
-  orderedPrincipal,
-} from "./tensor";
+import { dilationTendency, pressureToFailure, slipTendency, stressesAtDepth, stressOnPlane, stressTensorENU, orderedPrincipal } from "./tensor";
 
 /** Triangles less regular than this (4√3·area / Σ edge², 1 = equilateral) are slivers and skipped (common practice, no source). */
 export const MIN_TRIANGLE_QUALITY = 0.05;
@@ -84,9 +76,15 @@ function elementColumns(total: number) {
   const column = () => new Float64Array(total);
   return {
     source: new Uint32Array(total),
-    centroidX: column(), centroidY: column(), centroidZ: column(),
-    normalX: column(), normalY: column(), normalZ: column(),
-    areaM2: column(), orientationUncertaintyDeg: column(), slopeScatterDeg: column(),
+    centroidX: column(),
+    centroidY: column(),
+    centroidZ: column(),
+    normalX: column(),
+    normalY: column(),
+    normalZ: column(),
+    areaM2: column(),
+    orientationUncertaintyDeg: column(),
+    slopeScatterDeg: column(),
   };
 }
 
@@ -95,9 +93,15 @@ function cutElements(columns: ReturnType<typeof elementColumns>, count: number, 
   return {
     count,
     source: cut(columns.source),
-    centroidX: cut(columns.centroidX), centroidY: cut(columns.centroidY), centroidZ: cut(columns.centroidZ),
-    normalX: cut(columns.normalX), normalY: cut(columns.normalY), normalZ: cut(columns.normalZ),
-    areaM2: cut(columns.areaM2), orientationUncertaintyDeg: cut(columns.orientationUncertaintyDeg), slopeScatterDeg: cut(columns.slopeScatterDeg),
+    centroidX: cut(columns.centroidX),
+    centroidY: cut(columns.centroidY),
+    centroidZ: cut(columns.centroidZ),
+    normalX: cut(columns.normalX),
+    normalY: cut(columns.normalY),
+    normalZ: cut(columns.normalZ),
+    areaM2: cut(columns.areaM2),
+    orientationUncertaintyDeg: cut(columns.orientationUncertaintyDeg),
+    slopeScatterDeg: cut(columns.slopeScatterDeg),
     skippedDegenerate,
     skippedAboveDatum,
   };
@@ -115,12 +119,22 @@ export function rawTriangleElements(surface: SurfaceTriangles, minQuality = MIN_
   const { x, y, z, triangles } = surface;
   const total = triangles.length / 3;
   const out = elementColumns(total);
-  let kept = 0, skippedDegenerate = 0, skippedAboveDatum = 0;
+  let kept = 0,
+    skippedDegenerate = 0,
+    skippedAboveDatum = 0;
   for (let k = 0; k < total; k++) {
-    const a = triangles[3 * k], b = triangles[3 * k + 1], c = triangles[3 * k + 2];
-    const abx = x[b] - x[a], aby = y[b] - y[a], abz = z[b] - z[a];
-    const acx = x[c] - x[a], acy = y[c] - y[a], acz = z[c] - z[a];
-    const bcx = x[c] - x[b], bcy = y[c] - y[b], bcz = z[c] - z[b];
+    const a = triangles[3 * k],
+      b = triangles[3 * k + 1],
+      c = triangles[3 * k + 2];
+    const abx = x[b] - x[a],
+      aby = y[b] - y[a],
+      abz = z[b] - z[a];
+    const acx = x[c] - x[a],
+      acy = y[c] - y[a],
+      acz = z[c] - z[a];
+    const bcx = x[c] - x[b],
+      bcy = y[c] - y[b],
+      bcz = z[c] - z[b];
     let nx = aby * acz - abz * acy;
     let ny = abz * acx - abx * acz;
     let nz = abx * acy - aby * acx;
@@ -220,7 +234,13 @@ const AT_CENTROID: SampleRule = { interpolation: "bilinear", missing: "renormali
  * local tilt). The orientation range is ±2 standard errors of the window's mean normal: the RMS scatter of the
  * unsmoothed slopes in the window over √(effective number of picks in it).
  */
-export function surfaceElements(surface: SegmentSurface, frame: PlaneFrame, spec: GridSpec, lengthM: number, minQuality = MIN_TRIANGLE_QUALITY): ScreenElements {
+export function surfaceElements(
+  surface: SegmentSurface,
+  frame: PlaneFrame,
+  spec: GridSpec,
+  lengthM: number,
+  minQuality = MIN_TRIANGLE_QUALITY,
+): ScreenElements {
   const { s, t, offPlaneM, localTriangles } = surface;
   const wGrid = offPlaneGrid(s, t, offPlaneM, localTriangles, spec);
   // degree 2: no slope bias from curvature on the edges of the data, where the shallowest (least stressed) and deepest
@@ -230,10 +250,19 @@ export function surfaceElements(surface: SegmentSurface, frame: PlaneFrame, spec
   const picksInWindow = effectivePickCount(s, t, spec, lengthM);
   const total = localTriangles.length / 3;
   const out = elementColumns(total);
-  let kept = 0, skippedDegenerate = 0, skippedAboveDatum = 0;
+  let kept = 0,
+    skippedDegenerate = 0,
+    skippedAboveDatum = 0;
   for (let k = 0; k < total; k++) {
-    const a = localTriangles[3 * k], b = localTriangles[3 * k + 1], c = localTriangles[3 * k + 2];
-    const abs = s[b] - s[a], abt = t[b] - t[a], acs = s[c] - s[a], act = t[c] - t[a], bcs = s[c] - s[b], bct = t[c] - t[b];
+    const a = localTriangles[3 * k],
+      b = localTriangles[3 * k + 1],
+      c = localTriangles[3 * k + 2];
+    const abs = s[b] - s[a],
+      abt = t[b] - t[a],
+      acs = s[c] - s[a],
+      act = t[c] - t[a],
+      bcs = s[c] - s[b],
+      bct = t[c] - t[b];
     const areaST = Math.abs(abs * act - abt * acs) / 2;
     if (!(triangleRegularity(areaST, abs * abs + abt * abt + acs * acs + act * act + bcs * bcs + bct * bct) >= minQuality)) {
       skippedDegenerate++;
@@ -282,10 +311,22 @@ export function screenElements(elements: ScreenElements, parameters: StressParam
   const total = elements.count;
   const column = () => new Float64Array(total);
   const out = {
-    depthM: column(), normalMPa: column(), shearMPa: column(), porePressureMPa: column(), effectiveNormalMPa: column(),
-    slipTendency: column(), dilationTendency: column(), pressureToFailureLowMPa: column(), pressureToFailureHighMPa: column(),
-    pressureToFailureCriticalMPa: column(), pressureToFailureMinMPa: column(), pressureToFailureMaxMPa: column(),
-    slipTendencyMin: column(), slipTendencyMax: column(), dilationTendencyMin: column(), dilationTendencyMax: column(),
+    depthM: column(),
+    normalMPa: column(),
+    shearMPa: column(),
+    porePressureMPa: column(),
+    effectiveNormalMPa: column(),
+    slipTendency: column(),
+    dilationTendency: column(),
+    pressureToFailureLowMPa: column(),
+    pressureToFailureHighMPa: column(),
+    pressureToFailureCriticalMPa: column(),
+    pressureToFailureMinMPa: column(),
+    pressureToFailureMaxMPa: column(),
+    slipTendencyMin: column(),
+    slipTendencyMax: column(),
+    dilationTendencyMin: column(),
+    dilationTendencyMax: column(),
   };
   const n: [number, number, number] = [0, 0, 0];
   const tilted: [number, number, number] = [0, 0, 0];
@@ -300,9 +341,20 @@ export function screenElements(elements: ScreenElements, parameters: StressParam
       const effective = normalMPa - pp;
       const low = pressureToFailure(shearMPa, effective, parameters.frictionLow, parameters.cohesionMPa);
       const high = pressureToFailure(shearMPa, effective, parameters.frictionHigh, parameters.cohesionMPa);
-      return { normalMPa, shearMPa, effective, low, high, critical: Math.min(low, high), ts: slipTendency(shearMPa, effective), td: dilationTendency(normalMPa, sigma1, sigma3) };
+      return {
+        normalMPa,
+        shearMPa,
+        effective,
+        low,
+        high,
+        critical: Math.min(low, high),
+        ts: slipTendency(shearMPa, effective),
+        td: dilationTendency(normalMPa, sigma1, sigma3),
+      };
     };
-    n[0] = elements.normalX[i]; n[1] = elements.normalY[i]; n[2] = elements.normalZ[i];
+    n[0] = elements.normalX[i];
+    n[1] = elements.normalY[i];
+    n[2] = elements.normalZ[i];
     const centre = evaluate(n);
     out.depthM[i] = depthM;
     out.normalMPa[i] = centre.normalMPa;
@@ -314,26 +366,44 @@ export function screenElements(elements: ScreenElements, parameters: StressParam
     out.pressureToFailureLowMPa[i] = centre.low;
     out.pressureToFailureHighMPa[i] = centre.high;
     out.pressureToFailureCriticalMPa[i] = centre.critical;
-    let dpMin = centre.critical, dpMax = centre.critical, tsMin = centre.ts, tsMax = centre.ts, tdMin = centre.td, tdMax = centre.td;
+    let dpMin = centre.critical,
+      dpMax = centre.critical,
+      tsMin = centre.ts,
+      tsMax = centre.ts,
+      tdMin = centre.td,
+      tdMax = centre.td;
     const angle = (elements.orientationUncertaintyDeg[i] * Math.PI) / 180;
     if (angle > 0) {
       // two unit vectors perpendicular to n
       const helper = Math.abs(n[2]) < 0.9 ? [0, 0, 1] : [1, 0, 0];
-      let e1x = helper[1] * n[2] - helper[2] * n[1], e1y = helper[2] * n[0] - helper[0] * n[2], e1z = helper[0] * n[1] - helper[1] * n[0];
+      let e1x = helper[1] * n[2] - helper[2] * n[1],
+        e1y = helper[2] * n[0] - helper[0] * n[2],
+        e1z = helper[0] * n[1] - helper[1] * n[0];
       const e1 = Math.hypot(e1x, e1y, e1z);
-      e1x /= e1; e1y /= e1; e1z /= e1;
-      const e2x = n[1] * e1z - n[2] * e1y, e2y = n[2] * e1x - n[0] * e1z, e2z = n[0] * e1y - n[1] * e1x;
-      const cos = Math.cos(angle), sin = Math.sin(angle);
+      e1x /= e1;
+      e1y /= e1;
+      e1z /= e1;
+      const e2x = n[1] * e1z - n[2] * e1y,
+        e2y = n[2] * e1x - n[0] * e1z,
+        e2z = n[0] * e1y - n[1] * e1x;
+      const cos = Math.cos(angle),
+        sin = Math.sin(angle);
       for (let d = 0; d < RANGE_DIRECTIONS; d++) {
         const phi = (2 * Math.PI * d) / RANGE_DIRECTIONS;
-        const a = sin * Math.cos(phi), b = sin * Math.sin(phi);
+        const a = sin * Math.cos(phi),
+          b = sin * Math.sin(phi);
         tilted[0] = cos * n[0] + a * e1x + b * e2x;
         tilted[1] = cos * n[1] + a * e1y + b * e2y;
         tilted[2] = cos * n[2] + a * e1z + b * e2z;
         const v = evaluate(tilted);
-        dpMin = Math.min(dpMin, v.critical); dpMax = Math.max(dpMax, v.critical);
-        if (Number.isFinite(v.ts)) { tsMin = Math.min(tsMin, v.ts); tsMax = Math.max(tsMax, v.ts); }
-        tdMin = Math.min(tdMin, v.td); tdMax = Math.max(tdMax, v.td);
+        dpMin = Math.min(dpMin, v.critical);
+        dpMax = Math.max(dpMax, v.critical);
+        if (Number.isFinite(v.ts)) {
+          tsMin = Math.min(tsMin, v.ts);
+          tsMax = Math.max(tsMax, v.ts);
+        }
+        tdMin = Math.min(tdMin, v.td);
+        tdMax = Math.max(tdMax, v.td);
       }
     }
     out.pressureToFailureMinMPa[i] = dpMin;

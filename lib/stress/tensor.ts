@@ -17,7 +17,10 @@ export interface PrincipalStresses {
 }
 
 /** Stresses at a depth (m below datum, positive down) from gradients in MPa/km, zero at the datum (common practice). */
-export function stressesAtDepth(p: Pick<StressParameters, "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient" | "porePressureGradient">, depthM: number): PrincipalStresses {
+export function stressesAtDepth(
+  p: Pick<StressParameters, "verticalGradient" | "maxHorizontalGradient" | "minHorizontalGradient" | "porePressureGradient">,
+  depthM: number,
+): PrincipalStresses {
   const km = depthM / 1000;
   return {
     verticalMPa: p.verticalGradient * km,
@@ -50,10 +53,7 @@ export function tensorFromPrincipal(values: readonly number[], directions: reado
 /** The stress tensor (ENU) at a depth with SHmax at the given azimuth. */
 export function stressTensorENU(stresses: PrincipalStresses, maxHorizontalAzimuthDeg: number): Tensor {
   const d = principalDirections(maxHorizontalAzimuthDeg);
-  return tensorFromPrincipal(
-    [stresses.maxHorizontalMPa, stresses.minHorizontalMPa, stresses.verticalMPa],
-    [d.maxHorizontal, d.minHorizontal, d.vertical],
-  );
+  return tensorFromPrincipal([stresses.maxHorizontalMPa, stresses.minHorizontalMPa, stresses.verticalMPa], [d.maxHorizontal, d.minHorizontal, d.vertical]);
 }
 
 /** σ1 ≥ σ2 ≥ σ3 of Sv, SHmax, Shmin (the tensor's eigenvalues, since the three are its principal values). */

@@ -63,5 +63,10 @@ export function numericColumn(table: { header: string[]; rows: string[][] }, nam
 
 /** File-name-safe form of a fault name. */
 export function fileStem(name: string): string {
-  return name.trim().replace(/[^\w.-]+/g, "-").replace(/^-+|-+$/g, "") || "fault";
+  return (
+    name
+      .trim()
+      .replace(/[^\w.-]+/g, "-")
+      .replace(/^-+|-+$/g, "") || "fault"
+  );
 }

@@ -53,7 +53,8 @@ function surfacePrimitive(segment: DisplaySegment, colourRangeM: [number, number
       const node = row * columns + column;
       const d = grid.displacementM[node];
       if (Number.isNaN(d)) continue;
-      const s = grid.s0 + column * grid.cellM, t = grid.t0 + row * grid.cellM;
+      const s = grid.s0 + column * grid.cellM,
+        t = grid.t0 + row * grid.cellM;
       const w = grid.offPlaneM && !Number.isNaN(grid.offPlaneM[node]) ? grid.offPlaneM[node] : 0;
       const p = [0, 1, 2].map((axis) => frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis] + w * frame.normal[axis]);
       vertexOf[node] = positions.length / 3;
@@ -64,7 +65,10 @@ function surfacePrimitive(segment: DisplaySegment, colourRangeM: [number, number
   const indices: number[] = [];
   for (let row = 0; row + 1 < rows; row++) {
     for (let column = 0; column + 1 < columns; column++) {
-      const a = row * columns + column, b = a + 1, c = a + columns, d = c + 1;
+      const a = row * columns + column,
+        b = a + 1,
+        c = a + columns,
+        d = c + 1;
       const corners = [a, b, d, c].filter((node) => vertexOf[node] >= 0).map((node) => vertexOf[node]);
       if (corners.length === 4) indices.push(corners[0], corners[1], corners[2], corners[0], corners[2], corners[3]);
       else if (corners.length === 3) indices.push(corners[0], corners[1], corners[2]);
@@ -105,13 +109,21 @@ export function faultGltf(display: FaultDisplay, options: GltfOptions): Uint8Arr
   const materials = [
     { name: "displacement", pbrMetallicRoughness: { baseColorFactor: [1, 1, 1, 1], metallicFactor: 0, roughnessFactor: 1 }, doubleSided: true },
     { name: "tip line", pbrMetallicRoughness: { baseColorFactor: [linear(0xf0), linear(0x8c), linear(0x00), 1], metallicFactor: 0, roughnessFactor: 1 } },
-    { name: "tip line 5 % and 95 %", pbrMetallicRoughness: { baseColorFactor: [linear(0xf7), linear(0xb9), linear(0x55), 1], metallicFactor: 0, roughnessFactor: 1 } },
-    { name: "open edge (no tip inferred)", pbrMetallicRoughness: { baseColorFactor: [linear(0x0e), linear(0x74), linear(0x90), 1], metallicFactor: 0, roughnessFactor: 1 } },
+    {
+      name: "tip line 5 % and 95 %",
+      pbrMetallicRoughness: { baseColorFactor: [linear(0xf7), linear(0xb9), linear(0x55), 1], metallicFactor: 0, roughnessFactor: 1 },
+    },
+    {
+      name: "open edge (no tip inferred)",
+      pbrMetallicRoughness: { baseColorFactor: [linear(0x0e), linear(0x74), linear(0x90), 1], metallicFactor: 0, roughnessFactor: 1 },
+    },
   ];
   const meshes: { name: string; primitives: Primitive[] }[] = [];
   for (const segment of display.segments) {
     const surface = surfacePrimitive(segment, display.displacementRangeM);
-    const central: number[] = [], band: number[] = [], open: number[] = [];
+    const central: number[] = [],
+      band: number[] = [],
+      open: number[] = [];
     linePairs(segment, segment.tipLine, segment.tipOpen, 0, central);
     linePairs(segment, segment.tipLine, segment.tipOpen, 1, open);
     if (segment.tipBand) {
@@ -138,9 +150,15 @@ export function faultGltf(display: FaultDisplay, options: GltfOptions): Uint8Arr
       byteLength += padding;
     }
     const components = type === "VEC3" ? 3 : 1;
-    const accessor: Record<string, unknown> = { bufferView: bufferViews.length - 1, componentType: data instanceof Float32Array ? FLOAT : UNSIGNED_INT, count: data.length / components, type };
+    const accessor: Record<string, unknown> = {
+      bufferView: bufferViews.length - 1,
+      componentType: data instanceof Float32Array ? FLOAT : UNSIGNED_INT,
+      count: data.length / components,
+      type,
+    };
     if (bounds) {
-      const min = new Array(components).fill(Infinity), max = new Array(components).fill(-Infinity);
+      const min = new Array(components).fill(Infinity),
+        max = new Array(components).fill(-Infinity);
       for (let i = 0; i < data.length; i++) {
         min[i % components] = Math.min(min[i % components], data[i]);
         max[i % components] = Math.max(max[i % components], data[i]);

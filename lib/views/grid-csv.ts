@@ -33,5 +33,10 @@ export function gridCsv({ report, grids }: Pick<PipelineResult, "report" | "grid
 
 /** The comment lines that state a coordinate reference (lib/crs.ts describeCoordinateReference) and the columns' meaning. */
 export function coordinateComments(description: string | null): string[] {
-  return description ? [`coordinate reference: ${description}`, "x, y, z lie on the fault surface; offset is its distance from the segment's reference plane (m, along the plane's upward normal)"] : [];
+  return description
+    ? [
+        `coordinate reference: ${description}`,
+        "x, y, z lie on the fault surface; offset is its distance from the segment's reference plane (m, along the plane's upward normal)",
+      ]
+    : [];
 }

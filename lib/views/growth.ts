@@ -3,7 +3,6 @@
 import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 import type { HorizonBin } from "@/lib/contracts/analysis";
 
-
 /** Optional per-pick interval thicknesses (m) beside the pick columns; NaN where absent. */
 export type PicksWithThickness = PickColumns & { hwThicknessM?: Float64Array; fwThicknessM?: Float64Array };
 
@@ -93,7 +92,11 @@ export function backstripThrows(pointsShallowFirst: { horizon: string; throwM: n
   if (pointsShallowFirst.length === 0) return out;
   out.push({ from: pointsShallowFirst[0].horizon, to: null, accruedM: pointsShallowFirst[0].throwM });
   for (let k = 1; k < pointsShallowFirst.length; k++) {
-    out.push({ from: pointsShallowFirst[k].horizon, to: pointsShallowFirst[k - 1].horizon, accruedM: pointsShallowFirst[k].throwM - pointsShallowFirst[k - 1].throwM });
+    out.push({
+      from: pointsShallowFirst[k].horizon,
+      to: pointsShallowFirst[k - 1].horizon,
+      accruedM: pointsShallowFirst[k].throwM - pointsShallowFirst[k - 1].throwM,
+    });
   }
   return out;
 }
@@ -125,12 +128,37 @@ export function readThrowDepth(pointsShallowFirst: { throwM: number }[], toleran
   const down = steps.map((d) => d < -tol);
   const peak = t.indexOf(max);
   if (flat.every(Boolean))
-    return { pattern: "constant", hint: "Throw is about constant with depth: the horizons were likely deposited before faulting (pre-kinematic), with no sign of growth here.", basis: BASIS };
+    return {
+      pattern: "constant",
+      hint: "Throw is about constant with depth: the horizons were likely deposited before faulting (pre-kinematic), with no sign of growth here.",
+      basis: BASIS,
+    };
   if (steps.every((d, k) => up[k] || flat[k]) && flat.some(Boolean) && up.some(Boolean))
-    return { pattern: "stepped", hint: "Throw decreases upward above a constant-throw interval: a hint of syn-sedimentary growth (growth faulting) above pre-kinematic horizons, or of renewed slip after a pause. Check for hanging-wall thickening (expansion index).", basis: BASIS };
+    return {
+      pattern: "stepped",
+      hint: "Throw decreases upward above a constant-throw interval: a hint of syn-sedimentary growth (growth faulting) above pre-kinematic horizons, or of renewed slip after a pause. Check for hanging-wall thickening (expansion index).",
+      basis: BASIS,
+    };
   if (steps.every((d, k) => up[k] || flat[k]))
-    return { pattern: "upward-decrease", hint: "Throw decreases steadily upward: consistent with syn-sedimentary growth, or with an upper tip propagating upward (blind fault). Hanging-wall thickening (expansion index > 1) would favour growth faulting.", basis: BASIS };
-  if (peak > 0 && peak < t.length - 1 && steps.slice(0, peak).every((d, k) => up[k] || flat[k]) && steps.slice(peak).every((d, k) => down[peak + k] || flat[peak + k]))
-    return { pattern: "c-shaped", hint: "Throw is largest at mid-depth and decreases both up and down (C-shaped): the signature of a blind, propagating fault that did not reach the surface of deposition.", basis: BASIS };
-  return { pattern: "irregular", hint: "Throw changes irregularly with depth: minima or inflections may mark reactivation or dip linkage of segments; check the picks first.", basis: BASIS };
+    return {
+      pattern: "upward-decrease",
+      hint: "Throw decreases steadily upward: consistent with syn-sedimentary growth, or with an upper tip propagating upward (blind fault). Hanging-wall thickening (expansion index > 1) would favour growth faulting.",
+      basis: BASIS,
+    };
+  if (
+    peak > 0 &&
+    peak < t.length - 1 &&
+    steps.slice(0, peak).every((d, k) => up[k] || flat[k]) &&
+    steps.slice(peak).every((d, k) => down[peak + k] || flat[peak + k])
+  )
+    return {
+      pattern: "c-shaped",
+      hint: "Throw is largest at mid-depth and decreases both up and down (C-shaped): the signature of a blind, propagating fault that did not reach the surface of deposition.",
+      basis: BASIS,
+    };
+  return {
+    pattern: "irregular",
+    hint: "Throw changes irregularly with depth: minima or inflections may mark reactivation or dip linkage of segments; check the picks first.",
+    basis: BASIS,
+  };
 }

@@ -37,7 +37,16 @@ export interface LabelPlacement {
 
 type Side = [dx: -1 | 0 | 1, dy: -1 | 0 | 1];
 // above, right, below, left, then the four diagonals
-const SIDES: Side[] = [[0, -1], [1, 0], [0, 1], [-1, 0], [1, -1], [-1, -1], [1, 1], [-1, 1]];
+const SIDES: Side[] = [
+  [0, -1],
+  [1, 0],
+  [0, 1],
+  [-1, 0],
+  [1, -1],
+  [-1, -1],
+  [1, 1],
+  [-1, 1],
+];
 const PREFERRED: Record<NonNullable<LabelRequest["prefer"]>, Side> = { above: [0, -1], right: [1, 0], below: [0, 1], left: [-1, 0] };
 
 function sidesFor(request: LabelRequest): Side[] {
@@ -81,7 +90,10 @@ export function placeLabels(requests: LabelRequest[], bounds: Rect, options: { r
     ...(options.obstacles ?? []),
   ];
   const placed: Rect[] = [];
-  const cost = (box: Rect) => placed.reduce((sum, other) => sum + overlapArea(box, other), 0) + markers.reduce((sum, marker) => sum + overlapArea(box, marker), 0) + 4 * outside(box, bounds);
+  const cost = (box: Rect) =>
+    placed.reduce((sum, other) => sum + overlapArea(box, other), 0) +
+    markers.reduce((sum, marker) => sum + overlapArea(box, marker), 0) +
+    4 * outside(box, bounds);
   return requests.map((request) => {
     let best: LabelPlacement | null = null;
     let bestCost = Infinity;

@@ -124,8 +124,10 @@ export function polygonSpan(polygon: [number, number][], axis: "s" | "t", value:
   let lo = Infinity;
   let hi = -Infinity;
   for (let k = 0; k + 1 < polygon.length; k++) {
-    const a0 = polygon[k][across], a1 = polygon[k + 1][across];
-    const b0 = polygon[k][along], b1 = polygon[k + 1][along];
+    const a0 = polygon[k][across],
+      a1 = polygon[k + 1][across];
+    const b0 = polygon[k][along],
+      b1 = polygon[k + 1][along];
     if ((a0 <= value && value <= a1) || (a1 <= value && value <= a0)) {
       const b = a1 === a0 ? Math.min(b0, b1) : b0 + ((value - a0) / (a1 - a0)) * (b1 - b0);
       lo = Math.min(lo, b, a1 === a0 ? b1 : b);
@@ -170,7 +172,10 @@ export function tipBandOnLine(segment: SegmentResult, axis: "s" | "t", value: nu
   const outer = polygonSpan(tipLine.outerPolygon, axis, value);
   if (!tips || !inner || !outer) return null;
   // along strike the line runs toward ±s (angles π and 0); down dip toward −t (up, −π/2) and +t (down, π/2)
-  const open = axis === "t" ? { start: openToward(tipLine, Math.PI), end: openToward(tipLine, 0) } : { start: openToward(tipLine, -Math.PI / 2), end: openToward(tipLine, Math.PI / 2) };
+  const open =
+    axis === "t"
+      ? { start: openToward(tipLine, Math.PI), end: openToward(tipLine, 0) }
+      : { start: openToward(tipLine, -Math.PI / 2), end: openToward(tipLine, Math.PI / 2) };
   return { tips, start: [outer[0], inner[0]], end: [inner[1], outer[1]], open };
 }
 

@@ -30,11 +30,19 @@ export function strikeProjection(report: Pick<AnalysisReport, "segments">): Stri
     const [x, y, z] = planeToWorld(plane, s, t);
     return { u: alongStrike(frame, x, y), depthM: -z };
   };
-  const out: StrikeProjection = { frame, strikeAzimuthDeg: (((Math.atan2(frame.strike[0], frame.strike[1]) * 180) / Math.PI) + 360) % 360, contours: [], tipLines: [], mappedLimits: [], peaks: [] };
+  const out: StrikeProjection = {
+    frame,
+    strikeAzimuthDeg: ((Math.atan2(frame.strike[0], frame.strike[1]) * 180) / Math.PI + 360) % 360,
+    contours: [],
+    tipLines: [],
+    mappedLimits: [],
+    peaks: [],
+  };
   for (const segment of report.segments) {
     segment.contours.forEach((level, levelIndex) =>
       level.rings.forEach((ring, ringIndex) => {
-        for (const [s, t] of ring) out.contours.push({ ...project(segment.plane, s, t), line: `${segment.id}-${levelIndex}-${ringIndex}`, levelM: level.levelM, segment: segment.id });
+        for (const [s, t] of ring)
+          out.contours.push({ ...project(segment.plane, s, t), line: `${segment.id}-${levelIndex}-${ringIndex}`, levelM: level.levelM, segment: segment.id });
       }),
     );
     for (const [s, t] of closed(segment.tipLine.polygon)) out.tipLines.push({ ...project(segment.plane, s, t), segment: segment.id });

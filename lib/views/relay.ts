@@ -69,7 +69,18 @@ export function relaySketch(a: SegmentResult, b: SegmentResult, gridA?: GridLike
   const throwTransferM: [number, number] = [NaN, NaN];
   if (overlap) {
     const middle = (overlap[0] + overlap[1]) / 2;
-    separationAtMiddleM = Math.abs(valueAt(sa.trace, sa.trace.map((p) => p.v), middle) - valueAt(sb.trace, sb.trace.map((p) => p.v), middle));
+    separationAtMiddleM = Math.abs(
+      valueAt(
+        sa.trace,
+        sa.trace.map((p) => p.v),
+        middle,
+      ) -
+        valueAt(
+          sb.trace,
+          sb.trace.map((p) => p.v),
+          middle,
+        ),
+    );
     [sa, sb].forEach((segment, i) => {
       const throws = segment.trace.map((p) => p.throwM);
       // an overlap end that is this segment's own inferred tip has zero throw by definition; elsewhere read the grid
@@ -103,7 +114,9 @@ export function horizonRampDips(
   const extents = [tipExtent(a, frame), tipExtent(b, frame)];
   const overlap = overlapZone(extents[0], extents[1]);
   if (!overlap) return [];
-  const horizons = [...new Set(bins.filter((bin) => bin.segment === a.id).map((bin) => bin.horizon))].filter((h) => bins.some((bin) => bin.segment === b.id && bin.horizon === h));
+  const horizons = [...new Set(bins.filter((bin) => bin.segment === a.id).map((bin) => bin.horizon))].filter((h) =>
+    bins.some((bin) => bin.segment === b.id && bin.horizon === h),
+  );
   const out: HorizonRampDip[] = [];
   for (const horizon of horizons) {
     let transfer = NaN;

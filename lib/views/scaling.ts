@@ -4,7 +4,6 @@ import type { AnalysisReport } from "@/lib/engine/types";
 import { alongStrike, commonStrikeFrame } from "./profiles";
 import type { FaultScalingPoint } from "@/lib/contracts/analysis";
 
-
 /** Along-strike extent of the union of the segments' polygons (world coordinates) on the mean strike. */
 function unionLength(report: AnalysisReport, polygonOf: (segment: AnalysisReport["segments"][number]) => [number, number, number][]): number {
   const frame = commonStrikeFrame(report.segments);
@@ -42,7 +41,18 @@ export function faultScalingPoint(faultId: string, name: string, report: Analysi
     lengthM = unionLength(report, (s) => s.tipLine.worldPolygon);
     const hasBand = report.segments.every((s) => s.tipLine.innerWorldPolygon?.length);
     lengthRangeM = hasBand
-      ? [Math.min(lengthM, unionLength(report, (s) => s.tipLine.innerWorldPolygon)), lengthIsMinimum ? null : Math.max(lengthM, unionLength(report, (s) => s.tipLine.outerWorldPolygon))]
+      ? [
+          Math.min(
+            lengthM,
+            unionLength(report, (s) => s.tipLine.innerWorldPolygon),
+          ),
+          lengthIsMinimum
+            ? null
+            : Math.max(
+                lengthM,
+                unionLength(report, (s) => s.tipLine.outerWorldPolygon),
+              ),
+        ]
       : [lengthM, lengthM];
   }
   return { faultId, name, dMaxM, dMaxRangeM, lengthM, lengthRangeM, lengthIsMinimum, segmentCount: report.segments.length };

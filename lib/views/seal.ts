@@ -90,7 +90,8 @@ export function sgrField(display: FaultDisplay, summary: CutoffSummary, units: S
         const t = grid.t0 + row * grid.cellM;
         const world = [0, 1, 2].map((axis) => display.origin[axis] + frame.centroid[axis] + s * frame.strikeVector[axis] + t * frame.dipVector[axis]);
         const c = cutoff.frame;
-        const along = (world[0] - c.centroid[0]) * c.strikeVector[0] + (world[1] - c.centroid[1]) * c.strikeVector[1] + (world[2] - c.centroid[2]) * c.strikeVector[2];
+        const along =
+          (world[0] - c.centroid[0]) * c.strikeVector[0] + (world[1] - c.centroid[1]) * c.strikeVector[1] + (world[2] - c.centroid[2]) * c.strikeVector[2];
         const strata = footwallColumnAt(cutoff, units, along);
         if (!strata) continue;
         const sgr = sgrAtPoint(strata, world[2], throwM);
@@ -112,7 +113,11 @@ export function bandPolygons(stationsS: number[], topZ: number[], baseZ: number[
   const polygons: [number, number][][] = [];
   let run: number[] = [];
   const close = () => {
-    if (run.length >= 2) polygons.push([...run.map((k) => [stationsS[k], topZ[k]] as [number, number]), ...run.reverse().map((k) => [stationsS[k], baseZ[k]] as [number, number])]);
+    if (run.length >= 2)
+      polygons.push([
+        ...run.map((k) => [stationsS[k], topZ[k]] as [number, number]),
+        ...run.reverse().map((k) => [stationsS[k], baseZ[k]] as [number, number]),
+      ]);
     run = [];
   };
   for (let k = 0; k < stationsS.length; k++) {

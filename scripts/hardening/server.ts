@@ -17,7 +17,10 @@ export const DEMO_ACCOUNTS = ["owner", "interpreter", "reviewer", "viewer"].map(
 export const DIST_DIR = process.env.SLIPFIELD_DIST_DIR || ".next";
 
 export function hasBuild() {
-  return existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) && ["analysis-worker.mjs", "database-worker.mjs", "job-worker.mjs"].every((file) => existsSync(path.join(ROOT, "dist", file)));
+  return (
+    existsSync(path.join(ROOT, DIST_DIR, "BUILD_ID")) &&
+    ["analysis-worker.mjs", "database-worker.mjs", "job-worker.mjs"].every((file) => existsSync(path.join(ROOT, "dist", file)))
+  );
 }
 
 /** Builds the app (worker + next build) when no build exists, like scripts/start.mjs does on first start. */
@@ -83,11 +86,15 @@ export function launchServer(options: { dataDir: string; port: number; env?: Rec
   let output = "";
   child.stdout!.on("data", (chunk) => (output += chunk));
   child.stderr!.on("data", (chunk) => (output += chunk));
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on("exit", (code, signal) => resolve({ code, signal })));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) =>
+    child.on("exit", (code, signal) => resolve({ code, signal })),
+  );
   return { child, exited, output: () => output };
 }
 
-export async function startServer(options: { dataDir?: string; port?: number; env?: Record<string, string>; readyTimeoutMs?: number } = {}): Promise<RunningServer> {
+export async function startServer(
+  options: { dataDir?: string; port?: number; env?: Record<string, string>; readyTimeoutMs?: number } = {},
+): Promise<RunningServer> {
   const dataDir = options.dataDir ?? tempDataDir();
   const port = options.port ?? (await freePort());
   const { child, exited, output } = launchServer({ dataDir, port, env: options.env });
@@ -149,7 +156,9 @@ export async function startWorker(env: Record<string, string>): Promise<RunningW
   let output = "";
   child.stdout!.on("data", (chunk) => (output += chunk));
   child.stderr!.on("data", (chunk) => (output += chunk));
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on("exit", (code, signal) => resolve({ code, signal })));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) =>
+    child.on("exit", (code, signal) => resolve({ code, signal })),
+  );
   let ended = false;
   void exited.then(() => (ended = true));
   const deadline = Date.now() + 60_000;
@@ -307,7 +316,8 @@ export class Client {
     }
     const response = await this.request("/studies", { method: "POST", body: form });
     await response.arrayBuffer();
-    if ([...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token"))) throw new Error(`sign-out did not clear the session (status ${response.status})`);
+    if ([...this.cookies.keys()].some((name) => name.endsWith("authjs.session-token")))
+      throw new Error(`sign-out did not clear the session (status ${response.status})`);
   }
 
   /** next-auth's credentials flow: CSRF token, then the callback; success sets the session cookie. */
@@ -365,7 +375,15 @@ export async function syntheticPickCsv(count: number, seed: number) {
 }
 
 export function pinBody(segmentId: string, index: number) {
-  return { x: 1000 + index, y: 2000 + index, z: -1500, s: index % 500, t: 100 + (index % 300), segmentId, body: `Load check note ${index}: throw looks high here.` };
+  return {
+    x: 1000 + index,
+    y: 2000 + index,
+    z: -1500,
+    s: index % 500,
+    t: 100 + (index % 300),
+    segmentId,
+    body: `Load check note ${index}: throw looks high here.`,
+  };
 }
 
 export function viewpointBody(index: number) {

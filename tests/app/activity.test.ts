@@ -46,10 +46,23 @@ describe("recent activity in sentences", () => {
     const db = await getDb();
     const [pin] = await db
       .insert(pins)
-      .values({ faultId: newFaultId, authorId: people.interpreter.id, x: 0, y: 0, z: -1000, s: 0, t: 0, body: "Throw **jumps** here — a mis-pick near the relay, or a real step in the throw profile?" })
+      .values({
+        faultId: newFaultId,
+        authorId: people.interpreter.id,
+        x: 0,
+        y: 0,
+        z: -1000,
+        s: 0,
+        t: 0,
+        body: "Throw **jumps** here — a mis-pick near the relay, or a real step in the throw profile?",
+      })
       .returning();
     await recordAudit({ studyId: study.id, userId: people.interpreter.id, action: "pin.create", target: pin.id, details: { faultId: newFaultId } });
-    const viewpoint = await callRoute(viewpointsRoute.POST, { method: "POST", params: { faultId: newFaultId }, body: { title: "Relay from the east", note: "", camera, settings } });
+    const viewpoint = await callRoute(viewpointsRoute.POST, {
+      method: "POST",
+      params: { faultId: newFaultId },
+      body: { title: "Relay from the east", note: "", camera, settings },
+    });
     expect(viewpoint.status).toBe(201);
     const viewpointId = viewpoint.json.viewpoint?.id ?? viewpoint.json.id;
     const link = await callRoute(linksRoute.POST, { method: "POST", params: { viewpointId }, body: { expiresInDays: 7, includePins: true } });
@@ -60,13 +73,26 @@ describe("recent activity in sentences", () => {
       method: "POST",
       params: { faultId: newFaultId },
       body: {
-        parameters: { regime: "normal", verticalGradient: 24, maxHorizontalGradient: 18, minHorizontalGradient: 14, maxHorizontalAzimuthDeg: 0, porePressureGradient: 10, frictionLow: 0.6, frictionHigh: 0.8, cohesionMPa: 0, referenceDepthM: 2500 },
+        parameters: {
+          regime: "normal",
+          verticalGradient: 24,
+          maxHorizontalGradient: 18,
+          minHorizontalGradient: 14,
+          maxHorizontalAzimuthDeg: 0,
+          porePressureGradient: 10,
+          frictionLow: 0.6,
+          frictionHigh: 0.8,
+          cohesionMPa: 0,
+          referenceDepthM: 2500,
+        },
         source: "test",
       },
     });
     expect(stress.status, JSON.stringify(stress.json)).toBe(201);
     signInAs(people.owner);
-    expect((await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: study.id, userId: people.viewer.id }, body: { role: "reviewer" } })).status).toBe(200);
+    expect(
+      (await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: study.id, userId: people.viewer.id }, body: { role: "reviewer" } })).status,
+    ).toBe(200);
     // an event written by a later version of the product, which this page has no words for
     await recordAudit({ studyId: study.id, userId: people.owner.id, action: "horizon.rename", target: "01hzzzzzzzzzzzzzzzzzzzzzzz" });
     const overview = await callRoute(studyRoute.GET, { params: { studyId: study.id } });
@@ -114,7 +140,10 @@ describe("activity sentences for what has gone since", () => {
     viewpoints: new Map(),
     links: new Map(),
   };
-  const say = (action: string, target: string, details: Record<string, unknown> = {}) => activitySentence({ action, target, details }, lookups).map((part) => part.text).join("");
+  const say = (action: string, target: string, details: Record<string, unknown> = {}) =>
+    activitySentence({ action, target, details }, lookups)
+      .map((part) => part.text)
+      .join("");
 
   it("names removed faults, people and viewpoints by what was recorded, without links", () => {
     expect(say("fault.delete", "QG-9", { faultId: "gone" })).toBe("removed the fault QG-9.");

@@ -31,7 +31,8 @@ function form(csv: string, fields: Record<string, string> = {}, name = "qg-cutof
   for (const [key, value] of Object.entries({ units: "m", ...fields })) data.set(key, value);
   return data;
 }
-const upload = (faultId: string, step: "preview" | "confirm", formData: FormData) => callRoute(pickSetsRoute.POST, { method: "POST", path: `/x?step=${step}`, params: { faultId }, formData });
+const upload = (faultId: string, step: "preview" | "confirm", formData: FormData) =>
+  callRoute(pickSetsRoute.POST, { method: "POST", path: `/x?step=${step}`, params: { faultId }, formData });
 
 async function rowsOf(faultId: string) {
   const db = await getDb();
@@ -54,7 +55,11 @@ describe("cut-off line upload: a second kind of file beside pick CSVs", () => {
     expect(preview.status).toBe(422);
     expect(preview.json.error).toMatch(/is in two-way time \(twt, ms\)\. Give a velocity model to convert its cut-offs to depth/);
     expect(preview.json.details).toMatchObject({ needsVelocityModel: true, kind: "cutoffs", horizons: ["H1", "H2", "H3"] });
-    const bad = await upload(fixture.fault.id, "preview", form(timeCutoffCsv(), { velocityModel: JSON.stringify({ kind: "linear", v0MPerS: 20, kPerS: 0.6 }) }));
+    const bad = await upload(
+      fixture.fault.id,
+      "preview",
+      form(timeCutoffCsv(), { velocityModel: JSON.stringify({ kind: "linear", v0MPerS: 20, kPerS: 0.6 }) }),
+    );
     expect(bad.status).toBe(400);
     expect(JSON.stringify(bad.json.details.fieldErrors.velocityModel)).toMatch(/v0 must be at least 100 m\/s/);
     expect((await rowsOf(fixture.fault.id)).pickSets).toHaveLength(0);
@@ -66,7 +71,11 @@ describe("cut-off line upload: a second kind of file beside pick CSVs", () => {
     expect(preview.status).toBe(200);
     expect(uploadPreviewSchema.safeParse(preview.json).error).toBeUndefined();
     expect(preview.json).toMatchObject({ kind: "cutoffs", domain: "time", accepted: 55, velocityModel: { kind: "linear", v0MPerS: 1800, kPerS: 0.6 } });
-    expect(preview.json.cutoffs.horizons.map((h: { name: string; stations: number }) => [h.name, h.stations])).toEqual([["H1", 20], ["H2", 20], ["H3", 15]]);
+    expect(preview.json.cutoffs.horizons.map((h: { name: string; stations: number }) => [h.name, h.stations])).toEqual([
+      ["H1", 20],
+      ["H2", 20],
+      ["H3", 15],
+    ]);
     expect(preview.json.cutoffs.horizons[2].maxThrowM).toBeCloseTo(80, 2);
     expect(preview.json.cutoffs.missingStations).toBe(5);
     expect(preview.json.cutoffs.missing[0]).toMatchObject({ horizon: "H3", present: "fw" });
@@ -127,13 +136,21 @@ describe("cut-off line upload: a second kind of file beside pick CSVs", () => {
     // deeper, then up through the first piece to y = 200 m 30 ms shallower (rows 2–6)
     const lines = timeCutoffCsv().trimEnd().split("\n");
     const [x, , t] = lines[1].split(",").map(Number);
-    const crossing = [[0, t], [400, t], [300, t + 30], [200, t - 30], [2000, t]].map(([y, ms]) => `${x},${y},${ms},H1,fw`);
+    const crossing = [
+      [0, t],
+      [400, t],
+      [300, t + 30],
+      [200, t - 30],
+      [2000, t],
+    ].map(([y, ms]) => `${x},${y},${ms},H1,fw`);
     lines.splice(1, 21, ...crossing);
     const before = await rowsOf(fixture.fault.id);
     const refused = await upload(fixture.fault.id, "confirm", form(lines.join("\n"), { velocityModel: LINEAR }));
     expect(refused.status).toBe(422);
     expect(refused.json.details.rejected[0]).toMatchObject({ row: 4, column: "x,y" });
-    expect(refused.json.details.rejected[0].reason).toMatch(/the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/);
+    expect(refused.json.details.rejected[0].reason).toMatch(
+      /the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/,
+    );
     expect((await rowsOf(fixture.fault.id)).pickSets).toHaveLength(before.pickSets.length);
   });
 
@@ -199,7 +216,12 @@ describe("stratigraphy table and cut-off routes: session, role and input checks"
     const bad = await callRoute(stratigraphyRoute.PUT, {
       method: "PUT",
       params: { studyId: fixture.study.id },
-      body: { units: [{ name: "A", topHorizon: "H1", kind: "reservoir", clayFraction: 12 }, { name: "a", topHorizon: "H2", kind: "sand", clayFraction: null }] },
+      body: {
+        units: [
+          { name: "A", topHorizon: "H1", kind: "reservoir", clayFraction: 12 },
+          { name: "a", topHorizon: "H2", kind: "sand", clayFraction: null },
+        ],
+      },
     });
     expect(bad.status).toBe(400);
     const messages = JSON.stringify(bad.json.details);

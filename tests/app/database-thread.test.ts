@@ -23,7 +23,10 @@ describe("PGlite on its own thread", () => {
     expect(inProcess.threaded).toBe(false);
     const results = [];
     for (const { db } of [threaded, inProcess]) {
-      const [user] = await db.insert(users).values({ id: "11111111-1111-4111-8111-111111111111", email: "t@example.test", name: "T", passwordHash: "h" }).returning();
+      const [user] = await db
+        .insert(users)
+        .values({ id: "11111111-1111-4111-8111-111111111111", email: "t@example.test", name: "T", passwordHash: "h" })
+        .returning();
       const createdAt = new Date("2026-01-02T03:04:05.678Z");
       await db.insert(studies).values({ id: "22222222-2222-4222-8222-222222222222", name: "S", createdBy: user.id, createdAt });
       await db.insert(auditLog).values({ userId: user.id, action: "test", details: { nested: { list: [1, 2.5, "x"] }, flag: true }, createdAt });
@@ -95,7 +98,10 @@ describe("PGlite on its own thread", () => {
     const failure = await db
       .insert(users)
       .values({ email: "dup@example.test", name: "D", passwordHash: "h" })
-      .then(() => null, (error: unknown) => error as { cause?: { code?: string; constraint?: string; message?: string } });
+      .then(
+        () => null,
+        (error: unknown) => error as { cause?: { code?: string; constraint?: string; message?: string } },
+      );
     expect(failure?.cause?.code).toBe("23505"); // unique_violation
     expect(failure?.cause?.message).toMatch(/duplicate key/);
   });
@@ -110,7 +116,10 @@ describe("PGlite on its own thread", () => {
   it("fails the requests in flight, and every later one, when the thread dies", async () => {
     const folder = mkdtempSync(path.join(os.tmpdir(), "slipfield-thread-"));
     const dyingWorker = path.join(folder, "dies.mjs");
-    writeFileSync(dyingWorker, `import { parentPort } from "node:worker_threads"; parentPort.postMessage({ ready: true }); parentPort.once("message", () => process.exit(3));`);
+    writeFileSync(
+      dyingWorker,
+      `import { parentPort } from "node:worker_threads"; parentPort.postMessage({ ready: true }); parentPort.once("message", () => process.exit(3));`,
+    );
     const errors: unknown[] = [];
     const original = console.error;
     console.error = (...args: unknown[]) => errors.push(args.join(" "));

@@ -19,7 +19,11 @@ import { callRoute } from "../support/requests";
 /** A plane dipping 50° east, 6 × 6 picks, the first one with the given throw. */
 function csv(firstThrow: number) {
   const rows = ["x,y,z,throw"];
-  for (let j = 0; j < 6; j++) for (let i = 0; i < 6; i++) rows.push(`${500_000 + 40 * i},${6_000_000 + 40 * j},${(-1000 - 40 * i * Math.tan((50 * Math.PI) / 180)).toFixed(3)},${i + j === 0 ? firstThrow : 10 + 3 * Math.min(i, 5 - i) + 3 * Math.min(j, 5 - j)}`);
+  for (let j = 0; j < 6; j++)
+    for (let i = 0; i < 6; i++)
+      rows.push(
+        `${500_000 + 40 * i},${6_000_000 + 40 * j},${(-1000 - 40 * i * Math.tan((50 * Math.PI) / 180)).toFixed(3)},${i + j === 0 ? firstThrow : 10 + 3 * Math.min(i, 5 - i) + 3 * Math.min(j, 5 - j)}`,
+      );
   return rows.join("\n") + "\n";
 }
 
@@ -42,13 +46,21 @@ describe("a fault's type: normal, reverse or oblique with a rake, and inversion"
     const missing = await callRoute(faultsRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { name: "QG-9", sense: "oblique" } });
     expect(missing.status).toBe(400);
     expect(JSON.stringify(missing.json)).toMatch(/rakeDeg.*an oblique fault needs its rake/i);
-    const strikeSlip = await callRoute(faultsRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { name: "QG-9", sense: "oblique", rakeDeg: 170 } });
+    const strikeSlip = await callRoute(faultsRoute.POST, {
+      method: "POST",
+      params: { studyId: fixture.study.id },
+      body: { name: "QG-9", sense: "oblique", rakeDeg: 170 },
+    });
     expect(strikeSlip.status).toBe(400);
     expect(JSON.stringify(strikeSlip.json)).toMatch(/within 20° of pure strike-slip/);
   });
 
   it("keeps the rake of an oblique fault, and an upload of negative throw is refused until the type expects inversion", async () => {
-    const created = await callRoute(faultsRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { name: "QG-9", sense: "oblique", rakeDeg: -45 } });
+    const created = await callRoute(faultsRoute.POST, {
+      method: "POST",
+      params: { studyId: fixture.study.id },
+      body: { name: "QG-9", sense: "oblique", rakeDeg: -45 },
+    });
     expect(created.status).toBe(201);
     expect(created.json.fault).toMatchObject({ sense: "oblique", rakeDeg: -45, inversion: false });
     const faultId = created.json.fault.id;

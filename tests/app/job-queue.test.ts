@@ -26,19 +26,30 @@ async function jobOf(analysisId: string) {
 
 /** A dead worker: its lease ran out (set in the past instead of waiting for it). */
 async function expireLease(jobId: string) {
-  await (await getDb()).update(jobs).set({ leaseUntil: sql`now() - interval '1 second'` }).where(eq(jobs.id, jobId));
+  await (
+    await getDb()
+  )
+    .update(jobs)
+    .set({ leaseUntil: sql`now() - interval '1 second'` })
+    .where(eq(jobs.id, jobId));
 }
 
 /** Skip the back-off instead of waiting it out. */
 async function dueNow(jobId: string) {
-  await (await getDb()).update(jobs).set({ runAfter: sql`now()` }).where(eq(jobs.id, jobId));
+  await (
+    await getDb()
+  )
+    .update(jobs)
+    .set({ runAfter: sql`now()` })
+    .where(eq(jobs.id, jobId));
 }
 
 const sweep = () => sweepExpiredLeases((tx, interrupted) => analysisJobHandler.interrupted!(tx, interrupted));
 
 describe("the durable job queue", () => {
   let access: Access;
-  const upload = () => confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
+  const upload = () =>
+    confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
 
   beforeAll(async () => {
     process.env.SLIPFIELD_JOB_LEASE_SECONDS = "2";
@@ -146,7 +157,11 @@ describe("the durable job queue", () => {
     const { analysisId } = await upload();
     const claim = await claimNextJob("slow-worker", ["analysis"]);
     expect(claim?.subjectId).toBe(analysisId);
-    const stopped = holdWhileRunning(claim!, "slow-worker", (signal) => new Promise<string>((resolve) => signal.addEventListener("abort", () => resolve(String(signal.reason)))));
+    const stopped = holdWhileRunning(
+      claim!,
+      "slow-worker",
+      (signal) => new Promise<string>((resolve) => signal.addEventListener("abort", () => resolve(String(signal.reason)))),
+    );
     // someone else took it (as after a lease that ran out)
     await (await getDb()).update(jobs).set({ leaseOwner: "other-worker" }).where(eq(jobs.id, claim!.id));
     expect(await stopped).toBe("lease-lost");
@@ -171,7 +186,12 @@ describe("the durable job queue", () => {
     const { analysisId } = await upload();
     const stuck = new JobProcessor({
       role: "worker",
-      handlers: { analysis: { ...analysisJobHandler, run: ({ signal }) => new Promise((_, reject) => signal.addEventListener("abort", () => reject(new Error("stopped")))) } },
+      handlers: {
+        analysis: {
+          ...analysisJobHandler,
+          run: ({ signal }) => new Promise((_, reject) => signal.addEventListener("abort", () => reject(new Error("stopped")))),
+        },
+      },
       slots: { analysis: 1 },
     });
     await stuck.start();

@@ -48,16 +48,86 @@ const pickForm = () => {
 };
 
 const CASES: MutatingCase[] = [
-  { name: "PATCH study", action: "admin", call: (f, s) => callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id }, body: { name: "Renamed study" } }) },
-  { name: "DELETE study", action: "admin", call: (f, s) => callRoute(studyRoute.DELETE, { method: "DELETE", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id } }) },
-  { name: "POST member (invite)", action: "admin", call: (f, s) => callRoute(membersRoute.POST, { method: "POST", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id }, body: { email: `new-${Math.random().toString(36).slice(2)}@example.test`, role: "viewer" } }) },
-  { name: "PATCH member role", action: "admin", call: (f, s) => callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id, userId: f.people.viewer.id }, body: { role: "reviewer" } }) },
-  { name: "DELETE member", action: "admin", call: (f, s) => callRoute(memberRoute.DELETE, { method: "DELETE", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id, userId: f.people.viewer.id } }) },
-  { name: "POST fault", action: "edit", call: (f, s) => callRoute(faultsRoute.POST, { method: "POST", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id }, body: { name: `New ${Math.random().toString(36).slice(2, 6)}` } }) },
-  { name: "PATCH fault", action: "edit", call: (f, s) => callRoute(faultRoute.PATCH, { method: "PATCH", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id }, body: { description: "edited" } }) },
-  { name: "DELETE fault", action: "edit", call: (f, s) => callRoute(faultRoute.DELETE, { method: "DELETE", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id } }) },
-  { name: "POST pick set (preview)", action: "edit", call: (f, s) => callRoute(pickSetsRoute.POST, { method: "POST", path: "/api/x?step=preview", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id }, formData: pickForm() }) },
-  { name: "POST pick set (confirm)", action: "edit", call: (f, s) => callRoute(pickSetsRoute.POST, { method: "POST", path: "/api/x?step=confirm", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id }, formData: pickForm() }) },
+  {
+    name: "PATCH study",
+    action: "admin",
+    call: (f, s) =>
+      callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id }, body: { name: "Renamed study" } }),
+  },
+  {
+    name: "DELETE study",
+    action: "admin",
+    call: (f, s) => callRoute(studyRoute.DELETE, { method: "DELETE", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id } }),
+  },
+  {
+    name: "POST member (invite)",
+    action: "admin",
+    call: (f, s) =>
+      callRoute(membersRoute.POST, {
+        method: "POST",
+        params: { studyId: s === "own" ? f.study.id : f.otherStudy.id },
+        body: { email: `new-${Math.random().toString(36).slice(2)}@example.test`, role: "viewer" },
+      }),
+  },
+  {
+    name: "PATCH member role",
+    action: "admin",
+    call: (f, s) =>
+      callRoute(memberRoute.PATCH, {
+        method: "PATCH",
+        params: { studyId: s === "own" ? f.study.id : f.otherStudy.id, userId: f.people.viewer.id },
+        body: { role: "reviewer" },
+      }),
+  },
+  {
+    name: "DELETE member",
+    action: "admin",
+    call: (f, s) =>
+      callRoute(memberRoute.DELETE, { method: "DELETE", params: { studyId: s === "own" ? f.study.id : f.otherStudy.id, userId: f.people.viewer.id } }),
+  },
+  {
+    name: "POST fault",
+    action: "edit",
+    call: (f, s) =>
+      callRoute(faultsRoute.POST, {
+        method: "POST",
+        params: { studyId: s === "own" ? f.study.id : f.otherStudy.id },
+        body: { name: `New ${Math.random().toString(36).slice(2, 6)}` },
+      }),
+  },
+  {
+    name: "PATCH fault",
+    action: "edit",
+    call: (f, s) =>
+      callRoute(faultRoute.PATCH, { method: "PATCH", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id }, body: { description: "edited" } }),
+  },
+  {
+    name: "DELETE fault",
+    action: "edit",
+    call: (f, s) => callRoute(faultRoute.DELETE, { method: "DELETE", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id } }),
+  },
+  {
+    name: "POST pick set (preview)",
+    action: "edit",
+    call: (f, s) =>
+      callRoute(pickSetsRoute.POST, {
+        method: "POST",
+        path: "/api/x?step=preview",
+        params: { faultId: s === "own" ? f.fault.id : f.otherFault.id },
+        formData: pickForm(),
+      }),
+  },
+  {
+    name: "POST pick set (confirm)",
+    action: "edit",
+    call: (f, s) =>
+      callRoute(pickSetsRoute.POST, {
+        method: "POST",
+        path: "/api/x?step=confirm",
+        params: { faultId: s === "own" ? f.fault.id : f.otherFault.id },
+        formData: pickForm(),
+      }),
+  },
 ];
 
 const ROLES: StudyRole[] = ["owner", "interpreter", "reviewer", "viewer"];
@@ -119,7 +189,11 @@ describe("bad bodies → 400 with field errors", () => {
     expect(study.status).toBe(400);
     expect(study.json.details.fieldErrors.name[0]).toMatch(/at least 2/);
     expect(study.json.details.fieldErrors.description).toBeDefined();
-    const invite = await callRoute(membersRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { email: "not-an-address", role: "boss" } });
+    const invite = await callRoute(membersRoute.POST, {
+      method: "POST",
+      params: { studyId: fixture.study.id },
+      body: { email: "not-an-address", role: "boss" },
+    });
     expect(invite.status).toBe(400);
     expect(Object.keys(invite.json.details.fieldErrors).sort()).toEqual(["email", "role"]);
     const fault = await callRoute(faultsRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { name: "<script>" } });
@@ -139,7 +213,11 @@ describe("bad bodies → 400 with field errors", () => {
   it("refuses to demote the last owner", async () => {
     const fixture = await studyWithEveryRole();
     signInAs(fixture.people.owner);
-    const demote = await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id, userId: fixture.people.owner.id }, body: { role: "viewer" } });
+    const demote = await callRoute(memberRoute.PATCH, {
+      method: "PATCH",
+      params: { studyId: fixture.study.id, userId: fixture.people.owner.id },
+      body: { role: "viewer" },
+    });
     expect(demote.status).toBe(409);
     expect(demote.json.error).toMatch(/at least one owner/);
   });

@@ -49,7 +49,10 @@ describe("remembered roles", () => {
     signInAs(f.people.interpreter);
     expect((await editFault(f.fault.id)).status).toBe(200);
     signInAs(f.people.owner);
-    expect((await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: f.study.id, userId: f.people.interpreter.id }, body: { role: "viewer" } })).status).toBe(200);
+    expect(
+      (await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: f.study.id, userId: f.people.interpreter.id }, body: { role: "viewer" } }))
+        .status,
+    ).toBe(200);
     signInAs(f.people.interpreter);
     expect((await editFault(f.fault.id)).status).toBe(403);
     expect((await getFault(f.fault.id)).status).toBe(200);
@@ -97,7 +100,12 @@ describe("remembered roles", () => {
     const f = await fixture();
     signInAs(f.people.viewer);
     expect((await requireFaultRole(f.fault.id, "view")).role).toBe("viewer");
-    await (await getDb()).update(memberships).set({ role: "interpreter" }).where(and(eq(memberships.studyId, f.study.id), eq(memberships.userId, f.people.viewer.id)));
+    await (
+      await getDb()
+    )
+      .update(memberships)
+      .set({ role: "interpreter" })
+      .where(and(eq(memberships.studyId, f.study.id), eq(memberships.userId, f.people.viewer.id)));
     await expect(changingRoles(async () => Promise.reject(new Error("half-way")))).rejects.toThrow("half-way");
     expect((await requireFaultRole(f.fault.id, "edit")).role).toBe("interpreter");
   });

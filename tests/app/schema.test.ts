@@ -40,14 +40,36 @@ describe("schema round trip", () => {
     const picks = tinyPicks();
     const [pickSet] = await db
       .insert(pickSets)
-      .values({ faultId: fault.id, version: 1, fileName: "p.csv", checksum: "abc", sizeBytes: 10, rowCount: 3, units: "m", segmentNames: picks.segmentNames, horizonNames: picks.horizonNames, picks: encodePicks(picks) })
+      .values({
+        faultId: fault.id,
+        version: 1,
+        fileName: "p.csv",
+        checksum: "abc",
+        sizeBytes: 10,
+        rowCount: 3,
+        units: "m",
+        segmentNames: picks.segmentNames,
+        horizonNames: picks.horizonNames,
+        picks: encodePicks(picks),
+      })
       .returning();
-    const [analysis] = await db.insert(analyses).values({ pickSetId: pickSet.id, result: { segments: [] } as unknown as AnalysisReport }).returning();
-    const [pin] = await db.insert(pins).values({ faultId: fault.id, pickSetId: pickSet.id, authorId: user.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "Here" }).returning();
+    const [analysis] = await db
+      .insert(analyses)
+      .values({ pickSetId: pickSet.id, result: { segments: [] } as unknown as AnalysisReport })
+      .returning();
+    const [pin] = await db
+      .insert(pins)
+      .values({ faultId: fault.id, pickSetId: pickSet.id, authorId: user.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "Here" })
+      .returning();
     await db.insert(pinReplies).values({ pinId: pin.id, authorId: user.id, body: "Reply" });
     const [viewpoint] = await db
       .insert(viewpoints)
-      .values({ faultId: fault.id, title: "V", camera: { position: [1, 2, 3], target: [0, 0, 0], up: [0, 0, 1], fov: 40 }, settings: { layers: { picks: true }, colourMode: "displacement", exaggeration: 1 } })
+      .values({
+        faultId: fault.id,
+        title: "V",
+        camera: { position: [1, 2, 3], target: [0, 0, 0], up: [0, 0, 1], fov: 40 },
+        settings: { layers: { picks: true }, colourMode: "displacement", exaggeration: 1 },
+      })
       .returning();
     await db.insert(viewpointLinks).values({ viewpointId: viewpoint.id, token: "t".repeat(43) });
     await db.insert(outbox).values({ to: "a@example.test", subject: "S", text: "T", kind: "invitation" });
@@ -68,13 +90,34 @@ describe("schema round trip", () => {
 
   it("stores picks packed (deflated) and reads both packed and earlier plain pick sets back exactly", async () => {
     const db = await getDb();
-    const [fault] = await db.insert(faults).values({ studyId: (await db.insert(studies).values({ name: "Packed" }).returning())[0].id, name: "F" }).returning();
+    const [fault] = await db
+      .insert(faults)
+      .values({ studyId: (await db.insert(studies).values({ name: "Packed" }).returning())[0].id, name: "F" })
+      .returning();
     const picks = tinyPicks();
-    const common = { faultId: fault.id, fileName: "p.csv", checksum: "abc", sizeBytes: 10, rowCount: 3, units: "m" as const, segmentNames: picks.segmentNames, horizonNames: picks.horizonNames };
-    const [packed] = await db.insert(pickSets).values({ ...common, version: 1, picks: packPicks(picks) }).returning({ id: pickSets.id });
-    const [plain] = await db.insert(pickSets).values({ ...common, version: 2, picks: encodePicks(picks) }).returning({ id: pickSets.id });
+    const common = {
+      faultId: fault.id,
+      fileName: "p.csv",
+      checksum: "abc",
+      sizeBytes: 10,
+      rowCount: 3,
+      units: "m" as const,
+      segmentNames: picks.segmentNames,
+      horizonNames: picks.horizonNames,
+    };
+    const [packed] = await db
+      .insert(pickSets)
+      .values({ ...common, version: 1, picks: packPicks(picks) })
+      .returning({ id: pickSets.id });
+    const [plain] = await db
+      .insert(pickSets)
+      .values({ ...common, version: 2, picks: encodePicks(picks) })
+      .returning({ id: pickSets.id });
     for (const id of [packed.id, plain.id]) {
-      const [row] = await db.select({ picks: base64Bytes(pickSets.picks) }).from(pickSets).where(eq(pickSets.id, id));
+      const [row] = await db
+        .select({ picks: base64Bytes(pickSets.picks) })
+        .from(pickSets)
+        .where(eq(pickSets.id, id));
       const decoded = decodePicks(row.picks);
       expect(Array.from(decoded.x)).toEqual(Array.from(picks.x));
       expect(Array.from(decoded.sourceRow)).toEqual([2, 3, 4]);

@@ -56,7 +56,10 @@ describe("state that several processes must agree on", () => {
       await other.query("select pg_notify('slipfield_roles', '')");
       await other.end();
       for (let waits = 0; waits < 100; waits++) {
-        const outcome = await requireFaultRole(f.fault.id, "view").then(() => "remembered", () => "refused");
+        const outcome = await requireFaultRole(f.fault.id, "view").then(
+          () => "remembered",
+          () => "refused",
+        );
         if (outcome === "refused") break;
         await new Promise((resolve) => setTimeout(resolve, 20));
       }

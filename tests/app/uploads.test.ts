@@ -37,7 +37,12 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     const lines = csv.trimEnd().split("\n");
     lines[3] = lines[3].replace(/,[^,]*,main$/, ",-4,main");
     lines[7] = "oops,1,2,3,main";
-    const preview = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=preview", params: { faultId: fixture.fault.id }, formData: form(lines.join("\n")) });
+    const preview = await callRoute(pickSetsRoute.POST, {
+      method: "POST",
+      path: "/x?step=preview",
+      params: { faultId: fixture.fault.id },
+      formData: form(lines.join("\n")),
+    });
     expect(preview.status).toBe(200);
     // the answer is what the contract says the workspace gets (lib/contracts/analysis.ts)
     expect(uploadPreviewSchema.safeParse(preview.json).error).toBeUndefined();
@@ -49,7 +54,12 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     const db = await getDb();
     expect(await db.select().from(pickSets).where(eq(pickSets.faultId, fixture.fault.id))).toHaveLength(0);
 
-    const refused = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=confirm", params: { faultId: fixture.fault.id }, formData: form(lines.join("\n")) });
+    const refused = await callRoute(pickSetsRoute.POST, {
+      method: "POST",
+      path: "/x?step=confirm",
+      params: { faultId: fixture.fault.id },
+      formData: form(lines.join("\n")),
+    });
     expect(refused.status).toBe(422);
     expect(refused.json.error).toMatch(/2 problems/);
     expect(refused.json.details.rejected).toHaveLength(2);
@@ -78,14 +88,21 @@ describe("pick-set upload: preview, confirm, analyse", () => {
     expect(analysisResponseSchema.safeParse(sheet.json).error).toBeUndefined();
     const lean = sheet.json.analysis.result;
     expect(report.segments[0].contours.some((level: { rings: unknown[] }) => level.rings.length > 0)).toBe(true);
-    expect(lean.segments[0].contours.map((level: { levelM: number }) => level.levelM)).toEqual(report.segments[0].contours.map((level: { levelM: number }) => level.levelM));
+    expect(lean.segments[0].contours.map((level: { levelM: number }) => level.levelM)).toEqual(
+      report.segments[0].contours.map((level: { levelM: number }) => level.levelM),
+    );
     expect(lean.segments[0].contours.every((level: { rings: unknown[] }) => level.rings.length === 0)).toBe(true);
     expect({ ...lean.segments[0], contours: null }).toEqual({ ...report.segments[0], contours: null });
     expect(sheet.json.analysis.id).toBe(latest.json.analysis.id);
   });
 
   it("detects a re-upload of the same file by checksum and versions the pick sets", async () => {
-    const preview = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=preview", params: { faultId: fixture.fault.id }, formData: form(csv) });
+    const preview = await callRoute(pickSetsRoute.POST, {
+      method: "POST",
+      path: "/x?step=preview",
+      params: { faultId: fixture.fault.id },
+      formData: form(csv),
+    });
     expect(preview.json.duplicateOfVersion).toBe(1);
     const second = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=confirm", params: { faultId: fixture.fault.id }, formData: form(csv) });
     expect(second.json.version).toBe(2);
@@ -95,8 +112,26 @@ describe("pick-set upload: preview, confirm, analyse", () => {
   });
 
   it("converts feet to metres on upload", async () => {
-    const feet = "x,y,z,throw\n" + csv.trimEnd().split("\n").slice(1, 40).map((line) => line.split(",").slice(0, 4).map((value) => String(Number(value) / 0.3048)).join(",")).join("\n");
-    const preview = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=preview", params: { faultId: fixture.fault.id }, formData: form(feet, { units: "ft" }) });
+    const feet =
+      "x,y,z,throw\n" +
+      csv
+        .trimEnd()
+        .split("\n")
+        .slice(1, 40)
+        .map((line) =>
+          line
+            .split(",")
+            .slice(0, 4)
+            .map((value) => String(Number(value) / 0.3048))
+            .join(","),
+        )
+        .join("\n");
+    const preview = await callRoute(pickSetsRoute.POST, {
+      method: "POST",
+      path: "/x?step=preview",
+      params: { faultId: fixture.fault.id },
+      formData: form(feet, { units: "ft" }),
+    });
     expect(preview.status).toBe(200);
     const firstMetres = csv.split("\n")[1].split(",").map(Number);
     expect(preview.json.sample[0].throwM).toBeCloseTo(firstMetres[3], 6);

@@ -28,7 +28,8 @@ describe("analyses in the worker thread", () => {
     delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
   });
 
-  const upload = () => confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
+  const upload = () =>
+    confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
 
   it("computes the same report off the main thread", async () => {
     const { analysisId } = await upload();
@@ -84,10 +85,25 @@ describe("analyses in the worker thread", () => {
     expect(Buffer.from(file!.bytes).equals(Buffer.from(csv))).toBe(true);
     expect(fields).toEqual({ units: "ft", dropBadRows: "true" });
 
-    const withoutFile = new Request("http://localhost/", { method: "POST", body: (() => { const f = new FormData(); f.set("units", "m"); return f; })() });
-    const none = await readMultipartOffThread({ output: "multipart", body: new Uint8Array(await withoutFile.arrayBuffer()), contentType: withoutFile.headers.get("content-type")! });
+    const withoutFile = new Request("http://localhost/", {
+      method: "POST",
+      body: (() => {
+        const f = new FormData();
+        f.set("units", "m");
+        return f;
+      })(),
+    });
+    const none = await readMultipartOffThread({
+      output: "multipart",
+      body: new Uint8Array(await withoutFile.arrayBuffer()),
+      contentType: withoutFile.headers.get("content-type")!,
+    });
     expect(none.file).toBeNull();
-    const broken = await readMultipartOffThread({ output: "multipart", body: new TextEncoder().encode("not a form"), contentType: "multipart/form-data; boundary=xyz" }).catch((error: unknown) => error);
+    const broken = await readMultipartOffThread({
+      output: "multipart",
+      body: new TextEncoder().encode("not a form"),
+      contentType: "multipart/form-data; boundary=xyz",
+    }).catch((error: unknown) => error);
     expect(broken).toBeInstanceOf(UploadProblem);
     expect((broken as UploadProblem).status).toBe(400);
   });

@@ -34,7 +34,10 @@ async function invite(fixture: Fixture, email: string, role: StudyRole = "review
 
 async function newUser(email: string) {
   const db = await getDb();
-  const [user] = await db.insert(users).values({ email, name: email.split("@")[0], passwordHash: "not-used" }).returning({ id: users.id, email: users.email, name: users.name });
+  const [user] = await db
+    .insert(users)
+    .values({ email, name: email.split("@")[0], passwordHash: "not-used" })
+    .returning({ id: users.id, email: users.email, name: users.name });
   return user;
 }
 
@@ -102,7 +105,10 @@ describe("invitation acceptance", () => {
     const email = `late-${tag()}@example.test`;
     const token = await invite(fixture, email);
     const db = await getDb();
-    await db.update(invitations).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(invitations.email, email));
+    await db
+      .update(invitations)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(invitations.email, email));
     expect((await lookupInvitation(token)).state).toBe("expired");
     const person = await newUser(email);
     expect(await acceptInvitation(person, token)).toMatchObject({ ok: false, reason: "expired" });
@@ -123,7 +129,10 @@ describe("invitation acceptance", () => {
     const token = await invite(fixture, `x-${tag()}@example.test`);
     const db = await getDb();
     // re-point the invitation at the existing viewer's address (inviteMember refuses existing members up front)
-    await db.update(invitations).set({ email: fixture.people.viewer.email, role: "owner" }).where(eq(invitations.tokenHash, hashToken(token)));
+    await db
+      .update(invitations)
+      .set({ email: fixture.people.viewer.email, role: "owner" })
+      .where(eq(invitations.tokenHash, hashToken(token)));
     expect(await acceptInvitation(fixture.people.viewer, token)).toMatchObject({ ok: true, role: "viewer", alreadyMember: true });
     expect(await roleOf(fixture.study.id, fixture.people.viewer.id)).toBe("viewer");
   });
@@ -178,7 +187,11 @@ describe("owners and the last-owner guard", () => {
     expect(remove.status).toBe(409);
     expect(await roleOf(fixture.study.id, fixture.people.owner.id)).toBe("owner");
 
-    const promote = await callRoute(memberRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id, userId: fixture.people.interpreter.id }, body: { role: "owner" } });
+    const promote = await callRoute(memberRoute.PATCH, {
+      method: "PATCH",
+      params: { studyId: fixture.study.id, userId: fixture.people.interpreter.id },
+      body: { role: "owner" },
+    });
     expect(promote.status).toBe(200);
     expect((await callRoute(memberRoute.PATCH, { method: "PATCH", params: owner, body: { role: "reviewer" } })).status).toBe(200);
     expect(await roleOf(fixture.study.id, fixture.people.owner.id)).toBe("reviewer");
@@ -187,7 +200,9 @@ describe("owners and the last-owner guard", () => {
     signInAs(fixture.people.interpreter);
     const last = await callRoute(memberRoute.DELETE, { method: "DELETE", params: { studyId: fixture.study.id, userId: fixture.people.interpreter.id } });
     expect(last.status).toBe(409);
-    expect((await callRoute(memberRoute.DELETE, { method: "DELETE", params: { studyId: fixture.study.id, userId: fixture.people.owner.id } })).status).toBe(204);
+    expect((await callRoute(memberRoute.DELETE, { method: "DELETE", params: { studyId: fixture.study.id, userId: fixture.people.owner.id } })).status).toBe(
+      204,
+    );
     expect(await roleOf(fixture.study.id, fixture.people.owner.id)).toBeNull();
   });
 });

@@ -21,8 +21,13 @@ export async function giveFaultDoneAnalysis(faultId: string, { version = 1, segm
       picks: new Uint8Array([0]),
     })
     .returning();
-  await db.insert(analyses).values({ pickSetId: pickSet.id, status: "done", stage: "done", progress: 1, // a stub report: pins need only the segment names
-    result: { segments: segments.map((id) => ({ id })) } as unknown as AnalysisReport });
+  await db.insert(analyses).values({
+    pickSetId: pickSet.id,
+    status: "done",
+    stage: "done",
+    progress: 1, // a stub report: pins need only the segment names
+    result: { segments: segments.map((id) => ({ id })) } as unknown as AnalysisReport,
+  });
   return pickSet;
 }
 

@@ -51,7 +51,11 @@ describe("pin e-mails land in the outbox for the right people", () => {
 
   it("a mention e-mails the mentioned member (viewers too), not the writer nor outsiders", async () => {
     const { interpreter, viewer, reviewer, outsider } = fixture.people;
-    await newPin(fixture, "reviewer", `@${handle(interpreter.email)} and @${handle(viewer.email)}: throw jumps here. @${handle(outsider.email)} @${handle(reviewer.email)}`);
+    await newPin(
+      fixture,
+      "reviewer",
+      `@${handle(interpreter.email)} and @${handle(viewer.email)}: throw jumps here. @${handle(outsider.email)} @${handle(reviewer.email)}`,
+    );
     const [toInterpreter] = await mailTo(interpreter.email);
     expect(toInterpreter).toMatchObject({ kind: "mention", studyId: fixture.study.id });
     expect(toInterpreter.subject).toBe(`${reviewer.name} mentioned you on ${fixture.fault.name}`);
@@ -106,7 +110,11 @@ describe("pin e-mails land in the outbox for the right people", () => {
   it("an edit tells only people newly mentioned", async () => {
     const { interpreter, owner } = fixture.people;
     const pinId = await newPin(fixture, "reviewer", `@${handle(interpreter.email)} look`);
-    await callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId }, body: { action: "edit", body: `@${handle(interpreter.email)} @${handle(owner.email)} look` } });
+    await callRoute(pinRoute.PATCH, {
+      method: "PATCH",
+      params: { pinId },
+      body: { action: "edit", body: `@${handle(interpreter.email)} @${handle(owner.email)} look` },
+    });
     expect(await mailTo(interpreter.email)).toHaveLength(1);
     expect(await mailTo(owner.email)).toHaveLength(1);
   });
@@ -173,7 +181,10 @@ describe("digest route and settings", () => {
     try {
       signInAs(null);
       const call = (secret: string) =>
-        digestRoute.POST(new Request("http://localhost:3000/api/digest", { method: "POST", headers: { host: "localhost:3000", "x-slipfield-digest-secret": secret } }), { params: Promise.resolve({}) });
+        digestRoute.POST(
+          new Request("http://localhost:3000/api/digest", { method: "POST", headers: { host: "localhost:3000", "x-slipfield-digest-secret": secret } }),
+          { params: Promise.resolve({}) },
+        );
       expect((await call("s3cret-for-tests")).status).toBe(200);
       expect((await call("wrong")).status).toBe(403);
     } finally {
@@ -216,7 +227,9 @@ describe("digest route and settings", () => {
     const { default: OutboxPage } = await import("@/app/outbox/page");
     const { renderToStaticMarkup } = await import("react-dom/server");
     const db = await getDb();
-    await db.insert(outbox).values({ to: "someone@example.test", subject: "Hello <b>there</b>", text: "Body text", kind: "mention", studyId: fixture.study.id });
+    await db
+      .insert(outbox)
+      .values({ to: "someone@example.test", subject: "Hello <b>there</b>", text: "Body text", kind: "mention", studyId: fixture.study.id });
     signInAs(fixture.people.reviewer);
     await expect(OutboxPage()).rejects.toMatchObject({ digest: expect.stringContaining("404") });
     signInAs(fixture.people.owner);

@@ -29,7 +29,10 @@ describe("parseMentions", () => {
 });
 
 describe("resolveMentions", () => {
-  const ids = (text: string) => resolveMentions(text, members).map((member) => member.id).sort();
+  const ids = (text: string) =>
+    resolveMentions(text, members)
+      .map((member) => member.id)
+      .sort();
   it.each([
     ["@interpreter", ["u1"]],
     ["@tomas", ["u1"]],
@@ -95,7 +98,7 @@ const HOSTILE = [
   "javascript:alert(1)",
   "[x](data:text/html;base64,PHNjcmlwdD5hbGVydCgxKTwvc2NyaXB0Pg==)",
   '**<b onmouseover="alert(1)">bold</b>**',
-  '`<script>alert(1)</script>`',
+  "`<script>alert(1)</script>`",
   'https://example.org/"><script>alert(1)</script>',
   '[x](https://example.org/" onclick="alert(1))',
 ];

@@ -41,18 +41,26 @@ async function pinFor(fixture: Fixture, actor: Role, scope: "own" | "other") {
 async function replyFor(fixture: Fixture, actor: Role, scope: "own" | "other") {
   const pin = await pinFor(fixture, actor, scope);
   const db = await getDb();
-  const [reply] = await db.insert(pinReplies).values({ pinId: pin.id, authorId: scope === "own" ? writer(fixture, actor).id : fixture.people.outsider.id, body: "a reply" }).returning();
+  const [reply] = await db
+    .insert(pinReplies)
+    .values({ pinId: pin.id, authorId: scope === "own" ? writer(fixture, actor).id : fixture.people.outsider.id, body: "a reply" })
+    .returning();
   return { pin, reply };
 }
 
 const CASES: Case[] = [
   { name: "GET fault pins", action: "view", call: (f, _a, s) => callRoute(faultPinsRoute.GET, { params: { faultId: faultOf(f, s).id } }) },
   { name: "POST visit", action: "view", call: (f, _a, s) => callRoute(visitRoute.POST, { method: "POST", params: { faultId: faultOf(f, s).id } }) },
-  { name: "POST pin", action: "comment", call: (f, _a, s) => callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: faultOf(f, s).id }, body: pinBody() }) },
+  {
+    name: "POST pin",
+    action: "comment",
+    call: (f, _a, s) => callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: faultOf(f, s).id }, body: pinBody() }),
+  },
   {
     name: "PATCH pin (edit own)",
     action: "comment",
-    call: async (f, a, s) => callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId: (await pinFor(f, a, s)).id }, body: { action: "edit", body: "edited" } }),
+    call: async (f, a, s) =>
+      callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId: (await pinFor(f, a, s)).id }, body: { action: "edit", body: "edited" } }),
   },
   {
     name: "PATCH pin (resolve own)",
@@ -64,7 +72,11 @@ const CASES: Case[] = [
     action: "comment",
     call: async (f, a, s) => callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId: (await pinFor(f, a, s)).id }, body: { action: "reopen" } }),
   },
-  { name: "DELETE pin (own)", action: "comment", call: async (f, a, s) => callRoute(pinRoute.DELETE, { method: "DELETE", params: { pinId: (await pinFor(f, a, s)).id } }) },
+  {
+    name: "DELETE pin (own)",
+    action: "comment",
+    call: async (f, a, s) => callRoute(pinRoute.DELETE, { method: "DELETE", params: { pinId: (await pinFor(f, a, s)).id } }),
+  },
   {
     name: "POST reply",
     action: "comment",
@@ -144,7 +156,13 @@ describe("pins: rules beyond the role", () => {
     const list = await callRoute(faultPinsRoute.GET, { params: { faultId: fixture.fault.id } });
     const versions = Object.fromEntries(list.json.pins.map((pin: LooseJson) => [pin.body, pin.pickSetVersion]));
     expect(versions).toMatchObject({ "on v1": 1, "on v2": 2 });
-    expect(list.json.pins.find((pin: LooseJson) => pin.body === "on v1")).toMatchObject({ x: 462_400, s: 120, t: 340, segmentName: "north", author: { name: fixture.people.reviewer.name } });
+    expect(list.json.pins.find((pin: LooseJson) => pin.body === "on v1")).toMatchObject({
+      x: 462_400,
+      s: 120,
+      t: 340,
+      segmentName: "north",
+      author: { name: fixture.people.reviewer.name },
+    });
   });
 
   it("refuses a pin on a fault without a finished analysis, and on an unknown segment", async () => {
@@ -161,7 +179,11 @@ describe("pins: rules beyond the role", () => {
 
   it("names each invalid field of a pin", async () => {
     signInAs(fixture.people.owner);
-    const bad = await callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { ...pinBody("   "), x: "east", t: null } });
+    const bad = await callRoute(faultPinsRoute.POST, {
+      method: "POST",
+      params: { faultId: fixture.fault.id },
+      body: { ...pinBody("   "), x: "east", t: null },
+    });
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.json.details.fieldErrors).sort()).toEqual(["body", "t", "x"]);
   });
@@ -189,7 +211,10 @@ describe("pins: rules beyond the role", () => {
     const ok = await callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId: pin.id }, body: { action: "edit", body: "second words" } });
     expect(ok.json.pin.body).toBe("second words");
     const db = await getDb();
-    await db.update(pins).set({ createdAt: new Date(Date.now() - 16 * 60_000) }).where(eq(pins.id, pin.id));
+    await db
+      .update(pins)
+      .set({ createdAt: new Date(Date.now() - 16 * 60_000) })
+      .where(eq(pins.id, pin.id));
     const late = await callRoute(pinRoute.PATCH, { method: "PATCH", params: { pinId: pin.id }, body: { action: "edit", body: "third words" } });
     expect(late.status).toBe(403);
     expect(late.json.error).toMatch(/within 15 minutes/);
@@ -250,7 +275,8 @@ describe("pins: rules beyond the role", () => {
     const first = await insertPin(fresh.fault.id, fresh.people.reviewer.id, "first pin");
     const second = await insertPin(fresh.fault.id, fresh.people.interpreter.id, "second pin");
     const gone = await insertPin(fresh.fault.id, fresh.people.reviewer.id, "pin deleted later");
-    const reply = async (pinId: string, body: string) => (await callRoute(repliesRoute.POST, { method: "POST", params: { pinId }, body: { body } })).json.reply.id as string;
+    const reply = async (pinId: string, body: string) =>
+      (await callRoute(repliesRoute.POST, { method: "POST", params: { pinId }, body: { body } })).json.reply.id as string;
     signInAs(fresh.people.reviewer);
     await reply(first.id, "a on first");
     const deletedReply = await reply(second.id, "deleted on second");
@@ -281,7 +307,9 @@ describe("pins: rules beyond the role", () => {
     expect((await callRoute(replyRoute.PATCH, { method: "PATCH", params: { pinId: pin.id, replyId }, body: { body: "x" } })).status).toBe(403);
     expect((await callRoute(replyRoute.DELETE, { method: "DELETE", params: { pinId: pin.id, replyId } })).status).toBe(403);
     signInAs(fixture.people.interpreter);
-    expect((await callRoute(replyRoute.PATCH, { method: "PATCH", params: { pinId: pin.id, replyId }, body: { body: "second" } })).json.reply.body).toBe("second");
+    expect((await callRoute(replyRoute.PATCH, { method: "PATCH", params: { pinId: pin.id, replyId }, body: { body: "second" } })).json.reply.body).toBe(
+      "second",
+    );
     expect((await callRoute(replyRoute.DELETE, { method: "DELETE", params: { pinId: pin.id, replyId } })).status).toBe(204);
     const other = await insertPin(fixture.fault.id, fixture.people.reviewer.id);
     expect((await callRoute(replyRoute.DELETE, { method: "DELETE", params: { pinId: other.id, replyId } })).status).toBe(404);
@@ -292,7 +320,8 @@ describe("pins: rules beyond the role", () => {
     await giveFaultDoneAnalysis(burst.fault.id);
     signInAs(burst.people.reviewer);
     const statuses: number[] = [];
-    for (let i = 0; i < 45; i++) statuses.push((await callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: burst.fault.id }, body: pinBody(`pin ${i}`) })).status);
+    for (let i = 0; i < 45; i++)
+      statuses.push((await callRoute(faultPinsRoute.POST, { method: "POST", params: { faultId: burst.fault.id }, body: pinBody(`pin ${i}`) })).status);
     expect(statuses.filter((status) => status === 201)).toHaveLength(40);
     expect(statuses.at(-1)).toBe(429);
   });

@@ -38,11 +38,23 @@ const settings = { layers: { surface: true, contours: false, tipLine: true, pick
 async function withViewpoints() {
   const fixture = await studyWithEveryRole();
   const db = await getDb();
-  const [own] = await db.insert(viewpoints).values({ faultId: fixture.fault.id, createdBy: fixture.people.interpreter.id, title: "Relay from the east", camera, settings }).returning();
-  const [other] = await db.insert(viewpoints).values({ faultId: fixture.otherFault.id, createdBy: fixture.people.outsider.id, title: "Elsewhere", camera, settings }).returning();
+  const [own] = await db
+    .insert(viewpoints)
+    .values({ faultId: fixture.fault.id, createdBy: fixture.people.interpreter.id, title: "Relay from the east", camera, settings })
+    .returning();
+  const [other] = await db
+    .insert(viewpoints)
+    .values({ faultId: fixture.otherFault.id, createdBy: fixture.people.outsider.id, title: "Elsewhere", camera, settings })
+    .returning();
   const token = newLinkToken();
-  const [ownLink] = await db.insert(viewpointLinks).values({ viewpointId: own.id, token: hashLinkToken(token), createdBy: fixture.people.interpreter.id }).returning();
-  const [otherLink] = await db.insert(viewpointLinks).values({ viewpointId: other.id, token: hashLinkToken(newLinkToken()), createdBy: fixture.people.outsider.id }).returning();
+  const [ownLink] = await db
+    .insert(viewpointLinks)
+    .values({ viewpointId: own.id, token: hashLinkToken(token), createdBy: fixture.people.interpreter.id })
+    .returning();
+  const [otherLink] = await db
+    .insert(viewpointLinks)
+    .values({ viewpointId: other.id, token: hashLinkToken(newLinkToken()), createdBy: fixture.people.outsider.id })
+    .returning();
   return { ...fixture, viewpoint: { own, other }, link: { own: ownLink, other: otherLink }, token };
 }
 type WithViewpoints = Awaited<ReturnType<typeof withViewpoints>>;
@@ -55,11 +67,20 @@ interface Case {
 }
 
 const CASES: Case[] = [
-  { name: "GET viewpoints of a fault", allowed: [...ROLE_PERMISSIONS.view], call: (f, s) => callRoute(listRoute.GET, { params: { faultId: s === "own" ? f.fault.id : f.otherFault.id } }) },
+  {
+    name: "GET viewpoints of a fault",
+    allowed: [...ROLE_PERMISSIONS.view],
+    call: (f, s) => callRoute(listRoute.GET, { params: { faultId: s === "own" ? f.fault.id : f.otherFault.id } }),
+  },
   {
     name: "POST viewpoint",
     allowed: [...ROLE_PERMISSIONS.share],
-    call: (f, s) => callRoute(listRoute.POST, { method: "POST", params: { faultId: s === "own" ? f.fault.id : f.otherFault.id }, body: { title: "Saved", note: "", camera, settings } }),
+    call: (f, s) =>
+      callRoute(listRoute.POST, {
+        method: "POST",
+        params: { faultId: s === "own" ? f.fault.id : f.otherFault.id },
+        body: { title: "Saved", note: "", camera, settings },
+      }),
   },
   {
     name: "PATCH viewpoint (made by the interpreter)",
@@ -71,7 +92,11 @@ const CASES: Case[] = [
     allowed: ["owner", "interpreter"],
     call: (f, s) => callRoute(viewpointRoute.DELETE, { method: "DELETE", params: { viewpointId: f.viewpoint[s].id } }),
   },
-  { name: "GET links of a viewpoint", allowed: [...ROLE_PERMISSIONS.share], call: (f, s) => callRoute(linksRoute.GET, { params: { viewpointId: f.viewpoint[s].id } }) },
+  {
+    name: "GET links of a viewpoint",
+    allowed: [...ROLE_PERMISSIONS.share],
+    call: (f, s) => callRoute(linksRoute.GET, { params: { viewpointId: f.viewpoint[s].id } }),
+  },
   {
     name: "POST link",
     allowed: [...ROLE_PERMISSIONS.share],
@@ -121,7 +146,11 @@ describe("viewpoint routes: role matrix (docs/design.md, Roles), 401 signed out,
     const saved = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { title: "Mine", camera, settings } });
     expect(saved.status).toBe(201);
     const id = saved.json.viewpoint.id;
-    const renamed = await callRoute(viewpointRoute.PATCH, { method: "PATCH", params: { viewpointId: id }, body: { title: "Mine, renamed", note: "tip region" } });
+    const renamed = await callRoute(viewpointRoute.PATCH, {
+      method: "PATCH",
+      params: { viewpointId: id },
+      body: { title: "Mine, renamed", note: "tip region" },
+    });
     expect(renamed.json.viewpoint).toMatchObject({ title: "Mine, renamed", note: "tip region" });
     const link = await callRoute(linksRoute.POST, { method: "POST", params: { viewpointId: id }, body: {} });
     const revoked = await callRoute(linkRoute.DELETE, { method: "DELETE", params: { linkId: link.json.link.id } });
@@ -182,8 +211,17 @@ describe("viewpoint input is validated", () => {
 
   it("stores the camera exactly as sent (full double precision round trip)", async () => {
     signInAs(fixture.people.interpreter);
-    const precise = { position: [0.1 + 0.2, 1 / 3, -123456.78901234567], target: [Math.PI, Math.E, -Math.SQRT2], up: [0.0000012345678901, 0.7071067811865476, 0.7071067811865475], fov: 37.123456789012344 };
-    const saved = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { title: "precise", camera: precise, settings } });
+    const precise = {
+      position: [0.1 + 0.2, 1 / 3, -123456.78901234567],
+      target: [Math.PI, Math.E, -Math.SQRT2],
+      up: [0.0000012345678901, 0.7071067811865476, 0.7071067811865475],
+      fov: 37.123456789012344,
+    };
+    const saved = await callRoute(listRoute.POST, {
+      method: "POST",
+      params: { faultId: fixture.fault.id },
+      body: { title: "precise", camera: precise, settings },
+    });
     expect(saved.status).toBe(201);
     const list = await callRoute(listRoute.GET, { params: { faultId: fixture.fault.id } });
     const row = list.json.viewpoints.find((candidate: { id: string }) => candidate.id === saved.json.viewpoint.id);
@@ -247,10 +285,17 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     const saved = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/x?step=confirm", params: { faultId: fixture.fault.id }, formData: demoForm() });
     expect(saved.status).toBe(201);
     await runAnalysis(saved.json.analysisId);
-    const viewpoint = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { title: "Tip region", note: "look at the NE tip", camera, settings } });
+    const viewpoint = await callRoute(listRoute.POST, {
+      method: "POST",
+      params: { faultId: fixture.fault.id },
+      body: { title: "Tip region", note: "look at the NE tip", camera, settings },
+    });
     viewpointId = viewpoint.json.viewpoint.id;
     const db = await getDb();
-    const [pin] = await db.insert(pins).values({ faultId: fixture.fault.id, authorId: fixture.people.reviewer.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "throw **jumps** here" }).returning();
+    const [pin] = await db
+      .insert(pins)
+      .values({ faultId: fixture.fault.id, authorId: fixture.people.reviewer.id, x: 1, y: 2, z: 3, s: 4, t: 5, body: "throw **jumps** here" })
+      .returning();
     await db.insert(pinReplies).values([
       { pinId: pin.id, authorId: fixture.people.interpreter.id, body: "a mis-pick on inline 1204, fixed in v2" },
       { pinId: pin.id, authorId: fixture.people.owner.id, body: "withdrawn", deletedAt: new Date() },
@@ -297,10 +342,19 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     expect(response.json.analysis.report.segments).toHaveLength(1);
     expect(response.json.analysis.report.input.rejected).toEqual([]);
     const text = JSON.stringify(response.json);
-    for (const secret of [fixture.study.id, fixture.study.name, fixture.fault.id, fixture.otherFault.name, viewpointId, ...Object.values(fixture.people).flatMap((person) => [person.id, person.email, person.name])]) {
+    for (const secret of [
+      fixture.study.id,
+      fixture.study.name,
+      fixture.fault.id,
+      fixture.otherFault.name,
+      viewpointId,
+      ...Object.values(fixture.people).flatMap((person) => [person.id, person.email, person.name]),
+    ]) {
       expect(text).not.toContain(secret);
     }
-    const display = await publicDisplayRoute.GET(new Request(`http://localhost:3000/api/v/${link.token}/display`), { params: Promise.resolve({ token: link.token }) });
+    const display = await publicDisplayRoute.GET(new Request(`http://localhost:3000/api/v/${link.token}/display`), {
+      params: Promise.resolve({ token: link.token }),
+    });
     expect(display.status).toBe(200);
     const decoded = decodeFaultDisplay(new Uint8Array(await display.arrayBuffer()));
     expect(decoded.segments).toHaveLength(1);
@@ -349,7 +403,10 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     expect(lifetimeMs).toBeLessThan(24 * 3600_000 + 60_000);
     expect((await callRoute(publicRoute.GET, { params: { token: link.token } })).status).toBe(200);
     expect(await callRoute(publicStateRoute.GET, { params: { token: link.token } })).toEqual({ status: 200, json: { state: "active" } });
-    await db.update(viewpointLinks).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(viewpointLinks.id, link.id));
+    await db
+      .update(viewpointLinks)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(viewpointLinks.id, link.id));
     const response = await callRoute(publicRoute.GET, { params: { token: link.token } });
     expect(response.status).toBe(410);
     expect(response.json.error).toBe("This link has expired.");
@@ -376,7 +433,11 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
 
   it("deleting the viewpoint ends its links", async () => {
     signInAs(fixture.people.interpreter);
-    const viewpoint = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { title: "Short-lived", camera, settings } });
+    const viewpoint = await callRoute(listRoute.POST, {
+      method: "POST",
+      params: { faultId: fixture.fault.id },
+      body: { title: "Short-lived", camera, settings },
+    });
     const made = await callRoute(linksRoute.POST, { method: "POST", params: { viewpointId: viewpoint.json.viewpoint.id }, body: {} });
     await callRoute(viewpointRoute.DELETE, { method: "DELETE", params: { viewpointId: viewpoint.json.viewpoint.id } });
     signInAs(null);
@@ -388,7 +449,8 @@ describe("viewpoint links: the token alone opens one fault, read-only", () => {
     signInAs(fresh.people.reviewer);
     const viewpoint = await callRoute(listRoute.POST, { method: "POST", params: { faultId: fresh.fault.id }, body: { title: "Busy", camera, settings } });
     const statuses: number[] = [];
-    for (let i = 0; i < 31; i++) statuses.push((await callRoute(linksRoute.POST, { method: "POST", params: { viewpointId: viewpoint.json.viewpoint.id }, body: {} })).status);
+    for (let i = 0; i < 31; i++)
+      statuses.push((await callRoute(linksRoute.POST, { method: "POST", params: { viewpointId: viewpoint.json.viewpoint.id }, body: {} })).status);
     expect(statuses.slice(0, 30).every((status) => status === 201)).toBe(true);
     expect(statuses[30]).toBe(429);
   });

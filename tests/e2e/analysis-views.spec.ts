@@ -126,12 +126,21 @@ test("QG-4: single-segment views, down-dip profile, no relay tab, and every expo
   expect(maxDisplacement).toBeLessThan(120);
 
   const picks = await download(page, page.getByTestId("export-picks.csv"));
-  const pickLines = picks.bytes.toString("utf8").trim().split("\n").filter((line) => !line.startsWith("#"));
+  const pickLines = picks.bytes
+    .toString("utf8")
+    .trim()
+    .split("\n")
+    .filter((line) => !line.startsWith("#"));
   expect(pickLines[0]).toBe("row,segment,horizon,x,y,z,throw,heave,s,t,displacement,surface_displacement,residual");
   expect(pickLines.length).toBeGreaterThan(2000);
 
   const profiles = await download(page, page.getByTestId("export-profiles.csv-mode-centre-line"));
-  expect(profiles.bytes.toString("utf8").split("\n").find((line) => !line.startsWith("#"))).toBe("segment,mode,s,t,x,y,z,displacement,throw");
+  expect(
+    profiles.bytes
+      .toString("utf8")
+      .split("\n")
+      .find((line) => !line.startsWith("#")),
+  ).toBe("segment,mode,s,t,x,y,z,displacement,throw");
 
   const geo = await download(page, page.getByTestId("export-contours.geojson"));
   const collection = JSON.parse(geo.bytes.toString("utf8"));
@@ -166,7 +175,12 @@ test("QG-4: single-segment views, down-dip profile, no relay tab, and every expo
 /** An invented growth fault: plane striking north, dipping 60° E; four horizons whose throw decreases upward (10, 30, 60, 60 m at the centre). */
 function growthCsv() {
   const lines = ["x,y,z,throw,horizon,hw_thickness,fw_thickness"];
-  const horizons: [string, number, number, number, number][] = [["H1", -1000, 10, 120, 110], ["H2", -1200, 30, 150, 120], ["H3", -1400, 60, 100, 100], ["H4", -1600, 60, 100, 100]];
+  const horizons: [string, number, number, number, number][] = [
+    ["H1", -1000, 10, 120, 110],
+    ["H2", -1200, 30, 150, 120],
+    ["H3", -1400, 60, 100, 100],
+    ["H4", -1600, 60, 100, 100],
+  ];
   for (let y = 0; y <= 2000; y += 40) {
     const taper = Math.sin((Math.PI * y) / 2000);
     for (const [name, z, throwM, hw, fw] of horizons) {
@@ -205,7 +219,13 @@ test("horizon picks: throw per horizon, throw–depth reading with its basis, ex
   // every horizon name beside the throw–depth points is inside the picture, none cut at its edge
   const tzSvg = (await tz.locator("svg").last().boundingBox())!;
   for (const horizon of ["H1", "H2", "H3", "H4"]) {
-    const label = (await tz.locator("svg").last().locator("text").filter({ hasText: new RegExp(`^${horizon}$`) }).first().boundingBox())!;
+    const label = (await tz
+      .locator("svg")
+      .last()
+      .locator("text")
+      .filter({ hasText: new RegExp(`^${horizon}$`) })
+      .first()
+      .boundingBox())!;
     expect(label.x + label.width, horizon).toBeLessThanOrEqual(tzSvg.x + tzSvg.width);
     expect(label.x, horizon).toBeGreaterThanOrEqual(tzSvg.x);
   }

@@ -24,7 +24,17 @@ async function openQg1Pins(page: Page) {
 async function clickSurfaceNearCentre(page: Page) {
   const canvas = page.getByTestId("viewer-card").locator("canvas").first();
   const box = (await canvas.boundingBox())!;
-  const offsets = [[0, 0], [0, 0.08], [0, -0.08], [0.08, 0], [-0.08, 0], [0.15, 0.1], [-0.15, -0.1], [0.15, -0.1], [-0.15, 0.1]];
+  const offsets = [
+    [0, 0],
+    [0, 0.08],
+    [0, -0.08],
+    [0.08, 0],
+    [-0.08, 0],
+    [0.15, 0.1],
+    [-0.15, -0.1],
+    [0.15, -0.1],
+    [-0.15, 0.1],
+  ];
   for (const [dx, dy] of offsets) {
     await page.mouse.click(box.x + box.width * (0.5 + dx), box.y + box.height * (0.5 + dy));
     if (await page.getByTestId("pin-form").isVisible()) return;

@@ -16,7 +16,10 @@ function expectSameCamera(actual: Camera | null, expected: Camera) {
   expect(Math.abs(actual!.fov - expected.fov)).toBeLessThan(1e-6);
 }
 
-test("a presenter saves a viewpoint and shares a link; a signed-out browser sees exactly that view and nothing else; revoking ends it", async ({ page, browser }) => {
+test("a presenter saves a viewpoint and shares a link; a signed-out browser sees exactly that view and nothing else; revoking ends it", async ({
+  page,
+  browser,
+}) => {
   const title = `Face-on for the meeting ${Date.now()}`;
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
@@ -39,7 +42,9 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   const item = page.getByTestId("viewpoint-item").filter({ hasText: title });
   await expect(item).toBeVisible();
 
-  const stored = (await (await page.request.get(`/api/faults/${faultId}/viewpoints`)).json()) as { viewpoints: { title: string; camera: Camera; settings: { colourMode: string } }[] };
+  const stored = (await (await page.request.get(`/api/faults/${faultId}/viewpoints`)).json()) as {
+    viewpoints: { title: string; camera: Camera; settings: { colourMode: string } }[];
+  };
   const saved = stored.viewpoints.find((viewpoint) => viewpoint.title === title)!;
   expect(saved.settings.colourMode).toBe("throw");
   expectSameCamera(await cameraOf(page), saved.camera);
@@ -84,7 +89,13 @@ test("a presenter saves a viewpoint and shares a link; a signed-out browser sees
   expect(html).not.toContain("Quillon Graben");
 
   // every other API still wants a session
-  for (const path of ["/api/studies", `/api/studies/${studyId}`, `/api/faults/${faultId}`, `/api/faults/${faultId}/analysis`, `/api/faults/${faultId}/viewpoints`]) {
+  for (const path of [
+    "/api/studies",
+    `/api/studies/${studyId}`,
+    `/api/faults/${faultId}`,
+    `/api/faults/${faultId}/analysis`,
+    `/api/faults/${faultId}/viewpoints`,
+  ]) {
     expect((await guest.request.get(path)).status(), path).toBe(401);
   }
   expect((await guest.request.get(`/api/v/${token}`)).status()).toBe(200);

@@ -49,7 +49,8 @@ test("upload a cut-off file in two-way time, see the derived pick set analysed, 
   await expect(page.getByTestId("sheet-velocity")).toContainText("v0 = 1800 m/s and k = 0.6 1/s");
   await expect(page.getByTestId("sheet-depth-caution")).toContainText("major uncertainty in throw");
   // both segments of the file analysed, their picks adding up to the derived ones
-  const pickCount = async (segment: string) => Number((await page.getByTestId(`sheet-${segment}`).locator("h3 span").last().textContent())!.replace(/[^\d]/g, ""));
+  const pickCount = async (segment: string) =>
+    Number((await page.getByTestId(`sheet-${segment}`).locator("h3 span").last().textContent())!.replace(/[^\d]/g, ""));
   expect((await pickCount("north")) + (await pickCount("south"))).toBe(derived);
   // the derived picks carry their horizons: the growth views fill in
   await page.getByTestId("view-tab-dip").click();
@@ -66,7 +67,9 @@ test("upload a cut-off file in two-way time, see the derived pick set analysed, 
   await expect(diagram.getByTestId("juxtaposition-hw-trace").first()).toBeVisible();
   // reservoir on reservoir is drawn (outlined) and named as a possible pathway, with its area
   await expect(diagram.getByTestId("juxtaposition-area-reservoir-reservoir").first()).toBeVisible();
-  await expect(view.getByTestId("juxtaposition-total-reservoir-reservoir")).toContainText(/reservoir against reservoir: possible cross-fault pathway: [\d,]+ m²/);
+  await expect(view.getByTestId("juxtaposition-total-reservoir-reservoir")).toContainText(
+    /reservoir against reservoir: possible cross-fault pathway: [\d,]+ m²/,
+  );
   await expect(view.getByTestId("juxtaposition-areas")).toContainText("Quillon Sandstone");
   await expect(view.getByTestId("seal-caution")).toContainText("licensed, professionals");
   await view.getByTestId("juxtaposition-fill-fw").click();

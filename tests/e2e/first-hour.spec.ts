@@ -29,7 +29,8 @@ async function boxes(locator: Locator): Promise<Box[]> {
 }
 
 function expectNoOverlap(found: Box[], what: string) {
-  for (let i = 0; i < found.length; i++) for (let j = i + 1; j < found.length; j++) expect(overlaps(found[i], found[j]), `${what} ${i} and ${j} overlap`).toBe(false);
+  for (let i = 0; i < found.length; i++)
+    for (let j = i + 1; j < found.length; j++) expect(overlaps(found[i], found[j]), `${what} ${i} and ${j} overlap`).toBe(false);
 }
 
 // a database id (26 lower-case letters and digits) or the start of a UUID
@@ -47,7 +48,9 @@ test("the favicon is served on every page", async ({ page }) => {
   }
 });
 
-test("adding a fault asks for its type, opens it ready to upload with the demo files offered; its name keeps clear of QG-4's in the scaling chart; the activity says so in words", async ({ page }) => {
+test("adding a fault asks for its type, opens it ready to upload with the demo files offered; its name keeps clear of QG-4's in the scaling chart; the activity says so in words", async ({
+  page,
+}) => {
   const name = `QG-9 ${Date.now() % 100000}`;
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
@@ -91,7 +94,10 @@ test("adding a fault asks for its type, opens it ready to upload with the demo f
     expect(text, text).not.toMatch(RAW_ID);
     expect(text, text).not.toMatch(/\b(fault|pickset|pin|viewpoint-link|stress)\.[a-z-]+\b/);
   }
-  await entries.filter({ hasText: `added the fault ${name}.` }).getByRole("link", { name }).click();
+  await entries
+    .filter({ hasText: `added the fault ${name}.` })
+    .getByRole("link", { name })
+    .click();
   await expect(page.getByTestId("fault-title")).toHaveText(name);
 });
 
@@ -110,11 +116,19 @@ test("the shared view renders a note's bold and shows the replies when the link 
   });
   expect(pin.status()).toBe(201);
   const pinId = (await pin.json()).pin.id;
-  expect((await page.request.post(`/api/pins/${pinId}/replies`, { headers, data: { body: `A mis-pick on inline 1204, **fixed** ${tag}` } })).status()).toBe(201);
+  expect((await page.request.post(`/api/pins/${pinId}/replies`, { headers, data: { body: `A mis-pick on inline 1204, **fixed** ${tag}` } })).status()).toBe(
+    201,
+  );
   const camera = { position: [467400, 6734600, 3000], target: [467400, 6734600, -2400], up: [0, 0, 1], fov: 40 };
-  const viewpoint = await page.request.post(`/api/faults/${faultId}/viewpoints`, { headers, data: { title: `Tip ${tag}`, note: "", camera, settings: { layers: {}, colourMode: "displacement", exaggeration: 0 } } });
+  const viewpoint = await page.request.post(`/api/faults/${faultId}/viewpoints`, {
+    headers,
+    data: { title: `Tip ${tag}`, note: "", camera, settings: { layers: {}, colourMode: "displacement", exaggeration: 0 } },
+  });
   expect(viewpoint.status()).toBe(201);
-  const link = await page.request.post(`/api/viewpoints/${(await viewpoint.json()).viewpoint.id}/links`, { headers, data: { expiresInDays: 7, includePins: true } });
+  const link = await page.request.post(`/api/viewpoints/${(await viewpoint.json()).viewpoint.id}/links`, {
+    headers,
+    data: { expiresInDays: 7, includePins: true },
+  });
   expect(link.status()).toBe(201);
   const { path } = (await link.json()).link as { path: string };
 
@@ -131,7 +145,9 @@ test("the shared view renders a note's bold and shows the replies when the link 
   await guest.close();
 });
 
-test("the printable report's figures stand alone: the contour map puts both segments side by side, the 3D picture carries its legend, labels and scale", async ({ page }) => {
+test("the printable report's figures stand alone: the contour map puts both segments side by side, the 3D picture carries its legend, labels and scale", async ({
+  page,
+}) => {
   await openFaultScene(page, "viewer@quillon.test", "QG-1");
   await page.getByTestId("view-tab-export").click();
   const [report] = await Promise.all([page.waitForEvent("popup"), page.getByTestId("open-report").click()]);

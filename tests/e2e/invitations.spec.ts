@@ -1,7 +1,10 @@
 import { expect, test } from "@playwright/test";
 import { openDemoStudy, signIn } from "./helpers";
 
-test("an owner invites a colleague by e-mail; they create an account from the link, join as reviewer, and the link then reads as used", async ({ page, browser }) => {
+test("an owner invites a colleague by e-mail; they create an account from the link, join as reviewer, and the link then reads as used", async ({
+  page,
+  browser,
+}) => {
   const email = `newcomer-${Date.now()}@example.test`;
   await signIn(page, "owner@quillon.test");
   await openDemoStudy(page);

@@ -2,7 +2,9 @@ import { readFileSync } from "node:fs";
 import { expect, test } from "@playwright/test";
 import { openDemoStudy, signIn } from "./helpers";
 
-test("an interpreter enters a stress state on QG-1, reads the screen with its caution, colours the surface by slip tendency and exports the triangles", async ({ page }) => {
+test("an interpreter enters a stress state on QG-1, reads the screen with its caution, colours the surface by slip tendency and exports the triangles", async ({
+  page,
+}) => {
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   await page.getByTestId("fault-table").getByRole("link", { name: "QG-1", exact: true }).click();
@@ -19,7 +21,9 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await panel.getByTestId("stress-regime").selectOption("normal");
   await panel.getByTestId("stress-verticalGradient").fill("15");
   await panel.getByTestId("stress-save").click();
-  await expect(panel.getByTestId("stress-form")).toContainText('The gradients do not follow the Normal faulting (Sv ≥ SHmax ≥ Shmin) ordering; fix them or choose "custom"');
+  await expect(panel.getByTestId("stress-form")).toContainText(
+    'The gradients do not follow the Normal faulting (Sv ≥ SHmax ≥ Shmin) ordering; fix them or choose "custom"',
+  );
   await expect(panel.getByTestId("stress-form")).not.toContainText("must be between");
   // a value out of range is a different error, naming the field and its unit
   await panel.getByTestId("stress-verticalGradient").fill("-2");
@@ -34,7 +38,9 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await panel.getByTestId("stress-save").click();
 
   await expect(panel.getByTestId("stress-state")).toContainText("illustrative normal-fault preset (e2e)");
-  await expect(panel.getByTestId("stress-summary")).toContainText(/smallest pore-pressure increase to failure is -?\d+\.\d MPa at μ = 0\.6/, { timeout: 60_000 });
+  await expect(panel.getByTestId("stress-summary")).toContainText(/smallest pore-pressure increase to failure is -?\d+\.\d MPa at μ = 0\.6/, {
+    timeout: 60_000,
+  });
   const atDefault = await (await page.request.get(`/api/faults/${faultId}/stress/result`)).json();
   // the panel states the smoothing length the server used, and the minimum ΔP it found, to the hundredth
   await expect(panel.getByTestId("stress-length-value")).toHaveText(`${atDefault.orientation.lengthScaleM} m`);
@@ -79,7 +85,9 @@ test("an interpreter enters a stress state on QG-1, reads the screen with its ca
   await panel.getByTestId("stress-export-csv").click();
   const download = await downloading;
   expect(download.suggestedFilename()).toMatch(/^reactivation-screen-v\d+\.csv$/);
-  const lines = readFileSync((await download.path())!, "utf8").trim().split("\n");
+  const lines = readFileSync((await download.path())!, "utf8")
+    .trim()
+    .split("\n");
   expect(lines[0]).toMatch(/^# Screening only/);
   expect(lines[1]).toBe(
     "segment,centroid_x_m,centroid_y_m,centroid_z_m,normal_x,normal_y,normal_z,area_m2,depth_m,sigma_n_mpa,tau_mpa,pore_pressure_mpa,sigma_n_eff_mpa,slip_tendency,dilation_tendency,dp_failure_mu_low_mpa,dp_failure_mu_high_mpa,dp_failure_critical_mpa,dp_failure_critical_min_mpa,dp_failure_critical_max_mpa,orientation_uncertainty_deg",

@@ -23,7 +23,9 @@ async function openFault(page: Page, name: string) {
   return { faultId, analysis, probes };
 }
 
-test("the listric demo fault is drawn on its true surface, not its plane; hover gives local strike and dip; the sheet says how far it departs", async ({ page }) => {
+test("the listric demo fault is drawn on its true surface, not its plane; hover gives local strike and dip; the sheet says how far it departs", async ({
+  page,
+}) => {
   await signIn(page, "interpreter@quillon.test");
   await openDemoStudy(page);
   await expect(page.getByTestId("study-crs-text")).toHaveText("EPSG:32631 WGS 84 / UTM zone 31N; z above EPSG:5714 MSL height, metres");

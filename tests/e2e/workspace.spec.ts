@@ -6,17 +6,24 @@ import { distinctColours, openDemoStudy, signIn } from "./helpers";
 function demoCsvWithPlantedBadRow() {
   const lines = readFileSync(path.join(process.cwd(), "public/demo/qg-4-throw-picks.csv"), "utf8").trimEnd().split("\n");
   // Spreadsheet row 6 (header is row 1) gets a throw that is not a number.
-  const throwColumn = lines[0].split(",").map((name) => name.trim().toLowerCase()).indexOf("throw");
+  const throwColumn = lines[0]
+    .split(",")
+    .map((name) => name.trim().toLowerCase())
+    .indexOf("throw");
   const cells = lines[5].split(",");
   cells[throwColumn] = "twelve";
   lines[5] = cells.join(",");
   // the throws that remain once that row is dropped: the fault sheet's numbers must come from these
-  const throws = lines.slice(1).filter((_, k) => k !== 4).map((line) => Number(line.split(",")[throwColumn]));
+  const throws = lines
+    .slice(1)
+    .filter((_, k) => k !== 4)
+    .map((line) => Number(line.split(",")[throwColumn]));
   return { file: Buffer.from(lines.join("\n") + "\n"), maxThrowM: Math.max(...throws), rows: throws.length };
 }
 
 /** The fault sheet's way of writing metres (lib/format.ts): 0 decimals from 100 m, 1 from 10 m. */
-const sheetMetres = (value: number) => `${value.toLocaleString("en", { minimumFractionDigits: value >= 100 ? 0 : 1, maximumFractionDigits: value >= 100 ? 0 : 1 })} m`;
+const sheetMetres = (value: number) =>
+  `${value.toLocaleString("en", { minimumFractionDigits: value >= 100 ? 0 : 1, maximumFractionDigits: value >= 100 ? 0 : 1 })} m`;
 
 test("an interpreter uploads picks, sees the planted bad row, confirms, and gets the surface and fault sheet", async ({ page }) => {
   await signIn(page, "interpreter@quillon.test");

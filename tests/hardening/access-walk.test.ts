@@ -71,7 +71,12 @@ async function populatedStudy(): Promise<Fixture> {
   signInAs(fixture.people.owner);
   const form = new FormData();
   form.set("file", new File([smallPickCsv()], "picks.csv", { type: "text/csv" }));
-  const upload = await callRoute((await routeModule("/api/faults/[faultId]/pick-sets")).POST, { method: "POST", path: "/api/x?step=confirm", params: { faultId: fixture.fault.id }, formData: form });
+  const upload = await callRoute((await routeModule("/api/faults/[faultId]/pick-sets")).POST, {
+    method: "POST",
+    path: "/api/x?step=confirm",
+    params: { faultId: fixture.fault.id },
+    formData: form,
+  });
   expect(upload.status, JSON.stringify(upload.json)).toBe(201);
   await runAnalysis(upload.json.analysisId);
   ids.pickSetId = upload.json.pickSetId;
@@ -86,7 +91,11 @@ async function populatedStudy(): Promise<Fixture> {
     });
     expect(pin.status, JSON.stringify(pin.json)).toBe(201);
     ids.pinId = pin.json.pin.id;
-    const reply = await callRoute((await routeModule("/api/pins/[pinId]/replies")).POST, { method: "POST", params: { pinId: ids.pinId }, body: { body: "Walk reply" } });
+    const reply = await callRoute((await routeModule("/api/pins/[pinId]/replies")).POST, {
+      method: "POST",
+      params: { pinId: ids.pinId },
+      body: { body: "Walk reply" },
+    });
     expect(reply.status, JSON.stringify(reply.json)).toBe(201);
     ids.replyId = reply.json.reply.id;
   }
@@ -94,11 +103,19 @@ async function populatedStudy(): Promise<Fixture> {
     const viewpoint = await callRoute((await routeModule("/api/faults/[faultId]/viewpoints")).POST, {
       method: "POST",
       params: { faultId: fixture.fault.id },
-      body: { title: "Walk view", camera: { position: [1, 2, 3], target: [0, 0, 0], up: [0, 0, 1], fov: 45 }, settings: { layers: { surface: true }, colourMode: "throw", exaggeration: 1 } },
+      body: {
+        title: "Walk view",
+        camera: { position: [1, 2, 3], target: [0, 0, 0], up: [0, 0, 1], fov: 45 },
+        settings: { layers: { surface: true }, colourMode: "throw", exaggeration: 1 },
+      },
     });
     expect(viewpoint.status, JSON.stringify(viewpoint.json)).toBe(201);
     ids.viewpointId = viewpoint.json.viewpoint.id;
-    const link = await callRoute((await routeModule("/api/viewpoints/[viewpointId]/links")).POST, { method: "POST", params: { viewpointId: ids.viewpointId }, body: { expiresInDays: 7 } });
+    const link = await callRoute((await routeModule("/api/viewpoints/[viewpointId]/links")).POST, {
+      method: "POST",
+      params: { viewpointId: ids.viewpointId },
+      body: { expiresInDays: 7 },
+    });
     expect(link.status, JSON.stringify(link.json)).toBe(201);
     ids.linkId = link.json.link.id;
   }
@@ -120,7 +137,12 @@ function paramsFor(route: (typeof routes)[number], fixture: Fixture) {
 const call = async (route: (typeof routes)[number], method: string, fixture: Fixture) => {
   const routeExports = await routeModule(route.url);
   const body = method === "GET" || method === "DELETE" ? undefined : {};
-  return callRoute(routeExports[method], { method, path: `${route.url}?analysis=${fixture.ids.analysisId}&pickSet=${fixture.ids.pickSetId}`, params: paramsFor(route, fixture), body });
+  return callRoute(routeExports[method], {
+    method,
+    path: `${route.url}?analysis=${fixture.ids.analysisId}&pickSet=${fixture.ids.pickSetId}`,
+    params: paramsFor(route, fixture),
+    body,
+  });
 };
 
 describe("access walk over every route handler on disk", () => {
@@ -180,7 +202,9 @@ describe("access walk over every route handler on disk", () => {
           if (!NOT_STUDY_SCOPED.has(route.url)) {
             signInAs(fixture.people.outsider);
             const outsider = await call(route, method, fixture);
-            expect([403, 404], `${method} ${route.url} by a member of another study: ${outsider.status} ${JSON.stringify(outsider.json)}`).toContain(outsider.status);
+            expect([403, 404], `${method} ${route.url} by a member of another study: ${outsider.status} ${JSON.stringify(outsider.json)}`).toContain(
+              outsider.status,
+            );
           }
 
           for (const role of method === "DELETE" ? [...ROLES].reverse() : ROLES) {
@@ -226,7 +250,10 @@ describe("access walk over every server action on disk", () => {
     if (PUBLIC_ACTION_FILES.has(file)) continue;
     it(`${file}: every exported action refuses a signed-out caller`, async () => {
       const actionExports = (await import(path.join(ROOT, file))) as Record<string, unknown>;
-      const actions = Object.entries(actionExports).filter(([, value]) => typeof value === "function") as [string, (state: unknown, form: FormData) => Promise<unknown>][];
+      const actions = Object.entries(actionExports).filter(([, value]) => typeof value === "function") as [
+        string,
+        (state: unknown, form: FormData) => Promise<unknown>,
+      ][];
       expect(actions.length).toBeGreaterThan(0);
       for (const [name, action] of actions) {
         signInAs(null);

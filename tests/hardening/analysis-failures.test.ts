@@ -47,7 +47,8 @@ describe.each([
     delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
   });
 
-  const upload = () => confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
+  const upload = () =>
+    confirmUpload(access, { name: "qg-4.csv", bytes: new TextEncoder().encode(demoCsv("QG-4")) }, { units: "m", dropBadRows: false, problemPage: 0 });
 
   it("a compute that throws is marked failed with a readable message; a retry after the cause is fixed completes", async () => {
     const db = await getDb();
@@ -55,7 +56,10 @@ describe.each([
     expect((await settled(analysisId)).status).toBe("done");
     // Damage the stored picks so the compute throws, then re-run through the API as the interpreter would.
     const [stored] = await db.select({ picks: pickSets.picks }).from(pickSets).where(eq(pickSets.id, pickSetId));
-    await db.update(pickSets).set({ picks: new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8]) }).where(eq(pickSets.id, pickSetId));
+    await db
+      .update(pickSets)
+      .set({ picks: new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8]) })
+      .where(eq(pickSets.id, pickSetId));
     signInAs(fixture.people.interpreter);
     const rerun = await callRoute(rerunRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { pickSetId } });
     expect(rerun.status).toBe(202);
@@ -79,21 +83,21 @@ describe.each([
   // The time limit stops the worker thread; in-process compute (tests, development) cannot be interrupted, so only the
   // worker path, the one production uses, has this case.
   if (inline === "0")
-  it("a compute past the time limit is stopped and marked failed; the retry with a normal limit completes", async () => {
-    process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS = "5";
-    const { analysisId, pickSetId } = await upload();
-    const timedOut = await settled(analysisId);
-    expect(timedOut.status).toBe("failed");
-    expect(timedOut.errorMessage).toMatch(/time limit/);
-    delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
+    it("a compute past the time limit is stopped and marked failed; the retry with a normal limit completes", async () => {
+      process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS = "5";
+      const { analysisId, pickSetId } = await upload();
+      const timedOut = await settled(analysisId);
+      expect(timedOut.status).toBe("failed");
+      expect(timedOut.errorMessage).toMatch(/time limit/);
+      delete process.env.SLIPFIELD_ANALYSIS_TIMEOUT_MS;
 
-    signInAs(fixture.people.interpreter);
-    const retry = await callRoute(rerunRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { pickSetId } });
-    expect(retry.status).toBe(202);
-    expect((await settled(retry.json.analysisId)).status).toBe("done");
-    const page = await callRoute(faultRoute.GET, { params: { faultId: fixture.fault.id } });
-    expect(page.status).toBe(200);
-  });
+      signInAs(fixture.people.interpreter);
+      const retry = await callRoute(rerunRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { pickSetId } });
+      expect(retry.status).toBe(202);
+      expect((await settled(retry.json.analysisId)).status).toBe("done");
+      const page = await callRoute(faultRoute.GET, { params: { faultId: fixture.fault.id } });
+      expect(page.status).toBe(200);
+    });
 
   it("a viewer cannot trigger a re-run, and a pick set of another fault is not found", async () => {
     const { pickSetId } = await upload();

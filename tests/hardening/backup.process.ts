@@ -2,7 +2,18 @@ import { spawnSync } from "node:child_process";
 import { existsSync, readdirSync, rmSync, statSync } from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { Client, DEMO_PASSWORD, ensureBuild, pinBody, ROOT, startServer, tempDataDir, viewpointBody, waitForAnalysis, type RunningServer } from "../../scripts/hardening/server";
+import {
+  Client,
+  DEMO_PASSWORD,
+  ensureBuild,
+  pinBody,
+  ROOT,
+  startServer,
+  tempDataDir,
+  viewpointBody,
+  waitForAnalysis,
+  type RunningServer,
+} from "../../scripts/hardening/server";
 import { openStopped, tableFingerprints } from "./inspect-db";
 
 /** `npm run backup` / `npm run restore` round trip of a populated database, compared table by table (row count + md5). */
@@ -67,7 +78,9 @@ describe("backup and restore", () => {
     }
     expect(afterPrints).toEqual(beforePrints);
     const total = Object.values(afterPrints).reduce((sum, table) => sum + table.rows, 0);
-    console.log(`backup: ${(statSync(file).size / 1048576).toFixed(1)} MB file, ${Object.keys(afterPrints).length} tables, ${total} rows, every table's count and md5 equal after restore`);
+    console.log(
+      `backup: ${(statSync(file).size / 1048576).toFixed(1)} MB file, ${Object.keys(afterPrints).length} tables, ${total} rows, every table's count and md5 equal after restore`,
+    );
 
     // the restored folder serves: sign in and find the pin
     server = await startServer({ dataDir: restored });

@@ -88,7 +88,9 @@ describe("killing the server (SIGKILL) and starting it again on the same data fo
     await checkStoredIntegrity();
     server = await startServer({ dataDir });
     const again = await signedIn(server.url);
-    const { pickSets } = (await (await again.request(`/api/faults/${fault.id}/pick-sets`)).json()) as { pickSets: { id: string; fileName: string; rowCount: number }[] };
+    const { pickSets } = (await (await again.request(`/api/faults/${fault.id}/pick-sets`)).json()) as {
+      pickSets: { id: string; fileName: string; rowCount: number }[];
+    };
     const big = pickSets.filter((set) => set.fileName.startsWith("big-"));
     expect(big.map((set) => set.fileName)).toContain("big-1.csv");
     const expectedRows: Record<string, number> = { "big-1.csv": first.rows, "big-2.csv": second.rows };
@@ -98,7 +100,9 @@ describe("killing the server (SIGKILL) and starting it again on the same data fo
     // the analysis interrupted by the kill is queued again at start-up and completes
     const resumed = await waitForAnalysis(again, fault.id);
     expect(resumed.status).toBe("done");
-    const first1 = (await (await again.request(`/api/faults/${fault.id}/analysis?pickSet=${pickSetId}`)).json()) as { analysis: { id: string; status: string } };
+    const first1 = (await (await again.request(`/api/faults/${fault.id}/analysis?pickSet=${pickSetId}`)).json()) as {
+      analysis: { id: string; status: string };
+    };
     expect(first1.analysis.id).toBe(analysisId);
     expect(first1.analysis.status).toBe("done");
     // and the user can re-run it explicitly
@@ -106,7 +110,9 @@ describe("killing the server (SIGKILL) and starting it again on the same data fo
     expect(rerun.status).toBe(202);
     const rerunResult = await waitForAnalysis(again, fault.id);
     expect(rerunResult.status).toBe("done");
-    console.log(`crash: SIGKILL during a running analysis of ${first.rows} picks with a second upload in flight (${inFlightLanded ? "landed whole" : "not stored"}); after restart every pick set has its analysis row and all its picks, the analysis resumed to done and a re-run completed`);
+    console.log(
+      `crash: SIGKILL during a running analysis of ${first.rows} picks with a second upload in flight (${inFlightLanded ? "landed whole" : "not stored"}); after restart every pick set has its analysis row and all its picks, the analysis resumed to done and a re-run completed`,
+    );
   });
 
   it("in the middle of a burst of writes: every acknowledged pin, viewpoint and fault is there after the restart", async () => {
@@ -114,7 +120,9 @@ describe("killing the server (SIGKILL) and starting it again on the same data fo
     const faults = await demoFaults(writers[0]);
     const { studies } = (await (await writers[0].request("/api/studies")).json()) as { studies: { id: string }[] };
     const target = faults[0];
-    const { analysis } = (await (await writers[0].request(`/api/faults/${target.id}/analysis`)).json()) as { analysis: { result: { segments: { id: string }[] } } };
+    const { analysis } = (await (await writers[0].request(`/api/faults/${target.id}/analysis`)).json()) as {
+      analysis: { result: { segments: { id: string }[] } };
+    };
     const segmentId = analysis.result.segments[0].id;
 
     let sequence = 0;

@@ -35,11 +35,23 @@ parentPort!.on("message", (request: FuzzRequest) => {
       };
     } else {
       const { report } = analyzeCsv(request.text, { ...request.options, intervalM: 5 });
-      reply = { id: request.id, outcome: "result", accepted: report.input.accepted, allFinite: true, throwsNonNegative: true, segments: report.segments.length };
+      reply = {
+        id: request.id,
+        outcome: "result",
+        accepted: report.input.accepted,
+        allFinite: true,
+        throwsNonNegative: true,
+        segments: report.segments.length,
+      };
     }
   } catch (error) {
     if (error instanceof PickInputError) {
-      reply = { id: request.id, outcome: "input-error", message: error.message, rejected: error.rejected.map((r) => ({ row: r.row, column: r.column, reason: r.reason })) };
+      reply = {
+        id: request.id,
+        outcome: "input-error",
+        message: error.message,
+        rejected: error.rejected.map((r) => ({ row: r.row, column: r.column, reason: r.reason })),
+      };
     } else {
       const e = error as Error;
       reply = { id: request.id, outcome: "crash", name: e?.name ?? typeof error, message: String(e?.message ?? error), stack: e?.stack };

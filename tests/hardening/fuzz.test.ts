@@ -100,7 +100,7 @@ const numberText = fc.oneof(
   fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e6, max: 1e6 }).map(String),
   fc.integer({ min: -5000, max: 5000 }).map(String),
   fc.constantFrom("1e308", "-1e308", "1e999", "-1e999", "9007199254740993", "1e-320", "0", "-0", "00012", "+5"),
-  fc.constantFrom("NaN", "nan", "Infinity", "-Infinity", "inf", "", " ", "abc", "1,5", "1.2.3", "0x10", "١٢", "null", "\"12\"", "12 m"),
+  fc.constantFrom("NaN", "nan", "Infinity", "-Infinity", "inf", "", " ", "abc", "1,5", "1.2.3", "0x10", "١٢", "null", '"12"', "12 m"),
 );
 
 const cellText = fc.oneof({ weight: 4, arbitrary: numberText }, { weight: 1, arbitrary: fc.string({ maxLength: 8 }) });
@@ -150,13 +150,15 @@ const geometricCsv = fc
   })
   .map(({ kind, count, scale, newline, bom, seed }) => {
     let state = seed;
-    const random = () => ((state = (state * 1103515245 + 12345) % 2147483648) / 2147483648);
+    const random = () => (state = (state * 1103515245 + 12345) % 2147483648) / 2147483648;
     const n = kind === "few" ? count % 3 : count + 3;
     const rows: string[] = [];
     for (let index = 0; index < n; index++) {
       const u = random() * scale;
       const v = random() * scale;
-      let x = u, y = v, z = -random() * scale;
+      let x = u,
+        y = v,
+        z = -random() * scale;
       if (kind === "collinear") [x, y, z] = [u, 2 * u, -3 * u];
       if (kind === "coincident") [x, y, z] = [scale, scale, -scale];
       if (kind === "duplicated" && index % 2 === 1) [x, y, z] = rows[index - 1].split(",").slice(0, 3).map(Number) as [number, number, number];
@@ -168,7 +170,11 @@ const geometricCsv = fc
 
 const randomBytesText = fc.uint8Array({ maxLength: 400 }).map((bytes) => new TextDecoder("utf-8").decode(bytes));
 
-const options = fc.record({ dropBadRows: fc.boolean(), dedupe: fc.constantFrom<"reject" | "average">("reject", "average"), units: fc.constantFrom<"m" | "ft">("m", "ft") });
+const options = fc.record({
+  dropBadRows: fc.boolean(),
+  dedupe: fc.constantFrom<"reject" | "average">("reject", "average"),
+  units: fc.constantFrom<"m" | "ft">("m", "ft"),
+});
 
 // ---- tests ------------------------------------------------------------------------------------------------------
 const engine = new EngineThread();
@@ -215,7 +221,7 @@ describe("fuzzing the pick CSV parser and the analysis pipeline", { timeout: 600
   });
 
   it("named cases: BOM + CRLF + semicolons + quoted fields are read, NaN text and huge numbers are refused by row", async () => {
-    const good = "\uFEFF\"x\";\"y\";\"z\";\"throw\"\r\n0;0;0;1\r\n100;0;-10;2\r\n0;100;-20;3\r\n100;100;-35;4\r\n";
+    const good = '\uFEFF"x";"y";"z";"throw"\r\n0;0;0;1\r\n100;0;-10;2\r\n0;100;-20;3\r\n100;100;-35;4\r\n';
     const parsed = await engine.run("parse", good);
     expectClearOutcome(parsed, good);
     const bad = "x,y,z,throw\n0,0,0,1\nNaN,0,-10,2\n0,1e999,-20,3\n100,100,-35,abc\n";

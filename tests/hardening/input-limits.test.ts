@@ -48,7 +48,9 @@ async function rejection(promise: Promise<unknown>) {
 describe("oversized bodies are refused before being read whole", () => {
   it("an upload whose Content-Length is over the limit is refused without reading a byte", async () => {
     const body = lazyBody(50 * 1048576);
-    const error = await rejection(readUploadedFile(streamingRequest(body.stream, { "content-length": String(50 * 1048576), "content-type": "multipart/form-data; boundary=x" }), 1048576));
+    const error = await rejection(
+      readUploadedFile(streamingRequest(body.stream, { "content-length": String(50 * 1048576), "content-type": "multipart/form-data; boundary=x" }), 1048576),
+    );
     expect(error).toBeInstanceOf(ApiError);
     expect((error as ApiError).status).toBe(413);
     expect((error as ApiError).message).toMatch(/50\.0 MB; the limit is 1 MB/);
@@ -66,7 +68,9 @@ describe("oversized bodies are refused before being read whole", () => {
 
   it("a JSON body over the limit is refused by Content-Length, and when streamed without one", async () => {
     const declared = lazyBody(5 * 1048576);
-    const byHeader = await rejection(readJson(streamingRequest(declared.stream, { "content-length": String(5 * 1048576), "content-type": "application/json" })));
+    const byHeader = await rejection(
+      readJson(streamingRequest(declared.stream, { "content-length": String(5 * 1048576), "content-type": "application/json" })),
+    );
     expect((byHeader as ApiError).status).toBe(413);
     expect(declared.pulled()).toBe(0);
     const chunked = lazyBody(5 * 1048576, '{"name":"');
@@ -104,7 +108,11 @@ describe("unknown JSON fields: ignored (zod drops them), never stored or acted o
 
   it("PATCH /api/faults/[id]: a studyId in the body does not move the fault to another study", async () => {
     signInAs(fixture.people.owner);
-    const patched = await callRoute(faultRoute.PATCH, { method: "PATCH", params: { faultId: fixture.fault.id }, body: { description: "moved?", studyId: fixture.otherStudy.id } });
+    const patched = await callRoute(faultRoute.PATCH, {
+      method: "PATCH",
+      params: { faultId: fixture.fault.id },
+      body: { description: "moved?", studyId: fixture.otherStudy.id },
+    });
     expect(patched.status).toBe(200);
     const stored = await (await getDb()).query.faults.findFirst({ where: eq(faults.id, fixture.fault.id) });
     expect(stored?.studyId).toBe(fixture.study.id);
@@ -113,7 +121,11 @@ describe("unknown JSON fields: ignored (zod drops them), never stored or acted o
 
   it("POST members: an extra userId does not pick who is added; the role must still be valid", async () => {
     signInAs(fixture.people.owner);
-    const bad = await callRoute(membersRoute.POST, { method: "POST", params: { studyId: fixture.study.id }, body: { email: "new-person@example.test", role: "superuser", userId: fixture.people.outsider.id } });
+    const bad = await callRoute(membersRoute.POST, {
+      method: "POST",
+      params: { studyId: fixture.study.id },
+      body: { email: "new-person@example.test", role: "superuser", userId: fixture.people.outsider.id },
+    });
     expect(bad.status).toBe(400);
     expect(bad.json.details.fieldErrors.role).toBeDefined();
   });
@@ -124,7 +136,12 @@ describe("unknown JSON fields: ignored (zod drops them), never stored or acted o
     form.set("file", new File(["x,y,z,throw\n0,0,0,1\n100,0,-10,2\n0,100,-20,3\n100,100,-35,4\n"], "p.csv"));
     form.set("units", "furlongs");
     form.set("uploadedBy", fixture.people.owner.id);
-    const response = await callRoute(pickSetsRoute.POST, { method: "POST", path: "/api/x?step=preview", params: { faultId: fixture.fault.id }, formData: form });
+    const response = await callRoute(pickSetsRoute.POST, {
+      method: "POST",
+      path: "/api/x?step=preview",
+      params: { faultId: fixture.fault.id },
+      formData: form,
+    });
     expect(response.status).toBe(400);
     expect(Object.keys(response.json.details.fieldErrors)).toEqual(["units"]);
   });

@@ -45,7 +45,10 @@ interface JobRow {
 }
 
 async function jobOf(analysisId: string): Promise<JobRow> {
-  const { rows } = await db.query<JobRow>("select subject_id, state, attempts, lease_owner, lease_until, started_at from jobs where kind = 'analysis' and subject_id = $1", [analysisId]);
+  const { rows } = await db.query<JobRow>(
+    "select subject_id, state, attempts, lease_owner, lease_until, started_at from jobs where kind = 'analysis' and subject_id = $1",
+    [analysisId],
+  );
   return rows[0];
 }
 
@@ -121,7 +124,9 @@ describe("two web processes and two job workers on one PostgreSQL server", () =>
     );
     for (const [index, analysisId] of analysisIds.entries()) {
       const done = await waitUntil(`analysis ${analysisId}`, async () => {
-        const { analysis } = (await (await clients[index % 2].request(`/api/faults/${faultId}/analysis?pickSet=${await pickSetOf(analysisId)}`)).json()) as { analysis: { status: string } };
+        const { analysis } = (await (await clients[index % 2].request(`/api/faults/${faultId}/analysis?pickSet=${await pickSetOf(analysisId)}`)).json()) as {
+          analysis: { status: string };
+        };
         return analysis.status === "done" || analysis.status === "failed" ? analysis : null;
       });
       expect(done.status).toBe("done");
@@ -158,7 +163,9 @@ describe("two web processes and two job workers on one PostgreSQL server", () =>
       seen.add(row.status);
       if (row.status !== "done") {
         expect(row.has_result || row.has_display).toBe(false);
-        const { analysis } = (await (await client.request(`/api/faults/${faultId}/analysis?pickSet=${await pickSetOf(analysisId)}`)).json()) as { analysis: { status: string; result: unknown } };
+        const { analysis } = (await (await client.request(`/api/faults/${faultId}/analysis?pickSet=${await pickSetOf(analysisId)}`)).json()) as {
+          analysis: { status: string; result: unknown };
+        };
         if (analysis.status !== "done") expect(analysis.result).toBeNull();
         return null;
       }
@@ -171,7 +178,9 @@ describe("two web processes and two job workers on one PostgreSQL server", () =>
     expect(job.started_at!.getTime()).toBeGreaterThanOrEqual(leaseRanOutAt.getTime());
     expect(startedIn(survivor).filter((entry) => entry.id === analysisId)).toEqual([{ id: analysisId, attempt: 2 }]);
     expect(seen.has("queued")).toBe(true); // the sweep put it back in the queue before the survivor took it
-    console.log(`scale-out: worker killed during a ${big.rows}-pick analysis; seen meanwhile: ${[...seen].join(", ")}; completed by the other worker on attempt 2`);
+    console.log(
+      `scale-out: worker killed during a ${big.rows}-pick analysis; seen meanwhile: ${[...seen].join(", ")}; completed by the other worker on attempt 2`,
+    );
     workers.splice(workers.indexOf(victim), 1, await startWorker(workerEnv));
   });
 
@@ -206,7 +215,9 @@ describe("two web processes and two job workers on one PostgreSQL server", () =>
     expect(served).toBeGreaterThan(0);
     await waitUntil("the analysis", async () => (await jobOf(analysisId)).state === "done");
     expect(await jobOf(analysisId)).toMatchObject({ state: "done", attempts: 1 });
-    console.log(`scale-out: web 1 restarted during an analysis held by ${held.lease_owner}; web 2 answered ${served} requests meanwhile; the job kept its worker and its single attempt`);
+    console.log(
+      `scale-out: web 1 restarted during an analysis held by ${held.lease_owner}; web 2 answered ${served} requests meanwhile; the job kept its worker and its single attempt`,
+    );
   });
 
   it("a worker stopped with SIGTERM mid-analysis gives its job back; the other worker takes it at once and the attempt does not count", async () => {
@@ -255,7 +266,9 @@ describe("two web processes and two job workers on one PostgreSQL server", () =>
     expect((await interpreterOn2.request("/api/studies")).status).toBe(200); // remembered on web 2 now
     await interpreterOn1.signOut();
     const sessionDelayMs = await refusedWithin(() => interpreterOn2.request("/api/studies"), 401);
-    console.log(`scale-out: after the change answered on web 1, web 2 refused the removed member after ${roleDelayMs} ms and the signed-out session after ${sessionDelayMs} ms (PostgreSQL's notification on its way)`);
+    console.log(
+      `scale-out: after the change answered on web 1, web 2 refused the removed member after ${roleDelayMs} ms and the signed-out session after ${sessionDelayMs} ms (PostgreSQL's notification on its way)`,
+    );
     expect((await (await signedIn(webs[1])).request("/api/studies")).status).toBe(200); // a fresh sign-in still works
   });
 

@@ -53,7 +53,11 @@ describe("the production server", () => {
   it("refuses a cross-origin mutation carrying a valid session", async () => {
     const client = new Client(server.url);
     await client.signIn("owner@quillon.test", DEMO_PASSWORD);
-    const refused = await client.request("/api/studies", { method: "POST", headers: { origin: "https://attacker.example", "content-type": "application/json" }, body: JSON.stringify({ name: "Planted" }) });
+    const refused = await client.request("/api/studies", {
+      method: "POST",
+      headers: { origin: "https://attacker.example", "content-type": "application/json" },
+      body: JSON.stringify({ name: "Planted" }),
+    });
     expect(refused.status).toBe(403);
     const accepted = await client.json("/api/studies", "POST", { name: "Same origin study" });
     expect(accepted.status).toBe(201);

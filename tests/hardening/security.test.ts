@@ -56,7 +56,13 @@ describe("CSRF: mutations from another origin are refused", () => {
     const post = await send(studiesRoute.POST, "POST", "https://attacker.example", { name: "Planted study" });
     expect(post.status).toBe(403);
     expect(((await post.json()) as { error: string }).error).toMatch(/Cross-site/);
-    const patch = await send(faultRoute.PATCH as typeof studiesRoute.POST, "PATCH", "http://localhost:3001", { description: "x" }, { faultId: fixture.fault.id });
+    const patch = await send(
+      faultRoute.PATCH as typeof studiesRoute.POST,
+      "PATCH",
+      "http://localhost:3001",
+      { description: "x" },
+      { faultId: fixture.fault.id },
+    );
     expect(patch.status).toBe(403);
     expect(await send(studiesRoute.POST, "POST", "null", { name: "Sandboxed frame" }).then((r) => r.status)).toBe(403);
   });

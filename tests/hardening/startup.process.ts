@@ -14,7 +14,10 @@ const isRoot = process.getuid?.() === 0;
 
 function run(command: string[], env: Record<string, string>, timeoutMs = 180_000): Promise<{ code: number | null; output: string }> {
   return new Promise((resolve) => {
-    const child = spawn(command[0], command.slice(1), { cwd: ROOT, env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1", SLIPFIELD_SKIP_BUILD: "1", ...env } });
+    const child = spawn(command[0], command.slice(1), {
+      cwd: ROOT,
+      env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1", SLIPFIELD_SKIP_BUILD: "1", ...env },
+    });
     let output = "";
     child.stdout.on("data", (chunk) => (output += chunk));
     child.stderr.on("data", (chunk) => (output += chunk));

@@ -9,7 +9,14 @@ import { ensureBuild, freePort, ROOT, tempDataDir } from "../../scripts/hardenin
  * so the launcher must notice on its own), and the launcher stopped with Ctrl-C (SIGINT). Afterwards nothing may still
  * serve the port and no process of the run may be left.
  */
-const env = (dataDir: string, port: number): NodeJS.ProcessEnv => ({ ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1", SLIPFIELD_SKIP_BUILD: "1", SLIPFIELD_DATA_DIR: dataDir, PORT: String(port) });
+const env = (dataDir: string, port: number): NodeJS.ProcessEnv => ({
+  ...process.env,
+  NODE_ENV: "production",
+  NEXT_TELEMETRY_DISABLED: "1",
+  SLIPFIELD_SKIP_BUILD: "1",
+  SLIPFIELD_DATA_DIR: dataDir,
+  PORT: String(port),
+});
 
 function exited(child: ChildProcess): Promise<{ code: number | null; signal: NodeJS.Signals | null }> {
   return new Promise((resolve) => child.once("exit", (code, signal) => resolve({ code, signal })));

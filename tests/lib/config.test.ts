@@ -18,7 +18,15 @@ function sourceFiles(folder: string): string[] {
 describe("configuration (lib/config.ts)", () => {
   it("gives every default when nothing is set, and reads set values as their types", () => {
     const defaults = readConfig({});
-    expect(defaults).toMatchObject({ PORT: 3000, SLIPFIELD_DB_THREAD: "on", SLIPFIELD_ANALYSIS_WORKERS: 1, SLIPFIELD_ANALYSIS_TIMEOUT_MS: 600_000, SLIPFIELD_JOB_LEASE_SECONDS: 30, SLIPFIELD_JOB_ATTEMPTS: 3, SLIPFIELD_DRAIN_SECONDS: 8 });
+    expect(defaults).toMatchObject({
+      PORT: 3000,
+      SLIPFIELD_DB_THREAD: "on",
+      SLIPFIELD_ANALYSIS_WORKERS: 1,
+      SLIPFIELD_ANALYSIS_TIMEOUT_MS: 600_000,
+      SLIPFIELD_JOB_LEASE_SECONDS: 30,
+      SLIPFIELD_JOB_ATTEMPTS: 3,
+      SLIPFIELD_DRAIN_SECONDS: 8,
+    });
     expect(defaults.DATABASE_URL).toBeUndefined();
     expect(readConfig({ PORT: "8080", SLIPFIELD_ANALYSIS_WORKERS: "0", DATABASE_URL: "postgres://h/db", SLIPFIELD_JOB_LEASE_SECONDS: "2.5" })).toMatchObject({
       PORT: 8080,
@@ -44,7 +52,9 @@ describe("configuration (lib/config.ts)", () => {
     const files = [...SOURCE_FOLDERS.flatMap((folder) => sourceFiles(path.join(ROOT, folder))), ...ROOT_FILES.map((name) => path.join(ROOT, name))];
     const read = new Map<string, string>();
     for (const file of files) {
-      for (const match of readFileSync(file, "utf8").matchAll(/process\.env\.([A-Za-z_][A-Za-z0-9_]*)|process\.env\[["']([A-Za-z_][A-Za-z0-9_]*)["']\]|vi\.stubEnv\(["']([A-Z_][A-Z0-9_]*)["']/g)) {
+      for (const match of readFileSync(file, "utf8").matchAll(
+        /process\.env\.([A-Za-z_][A-Za-z0-9_]*)|process\.env\[["']([A-Za-z_][A-Za-z0-9_]*)["']\]|vi\.stubEnv\(["']([A-Z_][A-Z0-9_]*)["']/g,
+      )) {
         const name = match[1] ?? match[2] ?? match[3];
         if (!read.has(name)) read.set(name, path.relative(ROOT, file));
       }

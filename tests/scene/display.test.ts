@@ -61,13 +61,7 @@ describe("decimateGrid", () => {
   it("leaves a grid that already fits untouched", () => {
     const grid = domeGrid();
     const display = decimateGrid(grid, 192);
-    expect([display.columns, display.rows, display.cellM, display.s0, display.t0]).toEqual([
-      grid.columns,
-      grid.rows,
-      grid.cellM,
-      grid.s0,
-      grid.t0,
-    ]);
+    expect([display.columns, display.rows, display.cellM, display.s0, display.t0]).toEqual([grid.columns, grid.rows, grid.cellM, grid.s0, grid.t0]);
   });
 });
 
@@ -183,6 +177,6 @@ describe("encodeFaultDisplay / decodeFaultDisplay", () => {
 
   // basis: common practice, no source
   it("refuses bytes that are not a display payload", () => {
-    expect(() => decodeFaultDisplay(new TextEncoder().encode("{\"version\":1}"))).toThrow(/display payload/);
+    expect(() => decodeFaultDisplay(new TextEncoder().encode('{"version":1}'))).toThrow(/display payload/);
   });
 });

@@ -56,9 +56,9 @@ export function contourRings(grid: RegularGrid, levelsM: number[]) {
     .thresholds(levelsM)(values)
     .map((multiPolygon) => ({
       levelM: multiPolygon.value,
-      rings: multiPolygon.coordinates.flat().map((ring) =>
-        ring.map(([x, y]) => [grid.s0 + (x - 0.5) * grid.cellM, grid.t0 + (y - 0.5) * grid.cellM] as [number, number]),
-      ),
+      rings: multiPolygon.coordinates
+        .flat()
+        .map((ring) => ring.map(([x, y]) => [grid.s0 + (x - 0.5) * grid.cellM, grid.t0 + (y - 0.5) * grid.cellM] as [number, number])),
     }));
 }
 
@@ -167,10 +167,7 @@ export function fixtureAnalysis(grids: Record<string, RegularGrid>, centroids: R
 }
 
 /** Picks at given (segment, s, t, throw) placed exactly on the plane. */
-export function picksOnPlane(
-  report: AnalysisReport,
-  rows: { segment: string; s: number; t: number; throwM: number; heaveM?: number }[],
-): PickColumns {
+export function picksOnPlane(report: AnalysisReport, rows: { segment: string; s: number; t: number; throwM: number; heaveM?: number }[]): PickColumns {
   const names = report.segments.map((segment) => segment.id);
   const position = rows.map(({ segment, s, t }) => {
     const { centroid } = report.segments[names.indexOf(segment)].plane;

@@ -30,7 +30,10 @@ function singleSegmentDisplay(holes: number[] = [], picks: { s: number; t: numbe
   return buildFaultDisplay({
     report,
     grids: { main: grid },
-    picks: picksOnPlane(report, picks.map((pick) => ({ segment: "main", ...pick }))),
+    picks: picksOnPlane(
+      report,
+      picks.map((pick) => ({ segment: "main", ...pick })),
+    ),
   });
 }
 
@@ -126,12 +129,7 @@ describe("buildContourLines", () => {
       expect(pointCount).toBeGreaterThan(20);
       const levels = new Set<number>();
       for (let point = 0; point < pointCount; point++) {
-        const [s, t, h] = worldToPlane(
-          segment.frame,
-          lines.positions[point * 3],
-          lines.positions[point * 3 + 1],
-          lines.positions[point * 3 + 2],
-        );
+        const [s, t, h] = worldToPlane(segment.frame, lines.positions[point * 3], lines.positions[point * 3 + 1], lines.positions[point * 3 + 2]);
         const level = (h - lift) / (exaggeration || 1);
         const surface = surfaceValueAt(segment.grid, segment.grid.displacementM, s, t);
         if (exaggeration > 0) {
@@ -182,11 +180,14 @@ describe("tip line, mapped limit, peak", () => {
 describe("buildPickPoints", () => {
   // basis: d3-scale-chromatic interpolateRdBu (diverging) read so that red = pick above the surface
   it("colours picks by residual: white on the surface, red above, blue below", () => {
-    const display = singleSegmentDisplay([], [
-      { s: 20, t: 0, throwM: 37.5 * Math.sin(Math.PI / 3) },
-      { s: 20, t: 0, throwM: 47.5 * Math.sin(Math.PI / 3) },
-      { s: 20, t: 0, throwM: 27.5 * Math.sin(Math.PI / 3) },
-    ]);
+    const display = singleSegmentDisplay(
+      [],
+      [
+        { s: 20, t: 0, throwM: 37.5 * Math.sin(Math.PI / 3) },
+        { s: 20, t: 0, throwM: 47.5 * Math.sin(Math.PI / 3) },
+        { s: 20, t: 0, throwM: 27.5 * Math.sin(Math.PI / 3) },
+      ],
+    );
     expect(display.picks.residualM[0]).toBeCloseTo(0, 3);
     const points = buildPickPoints(display, 0, 10);
     expect(points.positions.length).toBe(9);
@@ -219,7 +220,12 @@ describe("bounds, depth labels and camera presets", () => {
     expect(legendTicks(0, 81.5, 7)).toEqual([0, 20, 40, 60, 80]);
     expect(legendTicks(10.2, 50.1, 7)).toEqual([20, 30, 40, 50]);
     expect(legendTicks(-3.2, 0.4, 7)).toEqual([-3, -2, -1, 0]);
-    for (const [low, high] of [[0, 81.5], [10.2, 50.1], [0, 0.87], [-12, 140]]) {
+    for (const [low, high] of [
+      [0, 81.5],
+      [10.2, 50.1],
+      [0, 0.87],
+      [-12, 140],
+    ]) {
       const ticks = legendTicks(low, high, 7);
       expect(ticks.length).toBeLessThanOrEqual(7);
       expect(ticks.length).toBeGreaterThanOrEqual(2);
@@ -254,7 +260,15 @@ describe("bounds, depth labels and camera presets", () => {
     const leftInset = 0.25;
     const rightInset = 0.1;
     for (const preset of ["overview", "map", "faceOn", "alongStrike"] as const) {
-      const camera = presetCamera(preset, { bounds: displayBounds(display, 0), frame: display.segments[0].frame, origin: display.origin, points, aspect, leftInset, rightInset });
+      const camera = presetCamera(preset, {
+        bounds: displayBounds(display, 0),
+        frame: display.segments[0].frame,
+        origin: display.origin,
+        points,
+        aspect,
+        leftInset,
+        rightInset,
+      });
       const forward = camera.target.map((value, axis) => value - camera.position[axis]);
       const length = Math.hypot(...forward);
       const back = forward.map((value) => -value / length) as [number, number, number];

@@ -13,7 +13,9 @@ describe("the 3D view draws the true fault surface", () => {
   const segment = display.segments[0];
   const { frame } = segment;
   const distanceFromPlane = (positions: Float32Array, vertex: number) =>
-    (positions[vertex * 3] - frame.centroid[0]) * frame.normal[0] + (positions[vertex * 3 + 1] - frame.centroid[1]) * frame.normal[1] + (positions[vertex * 3 + 2] - frame.centroid[2]) * frame.normal[2];
+    (positions[vertex * 3] - frame.centroid[0]) * frame.normal[0] +
+    (positions[vertex * 3 + 1] - frame.centroid[1]) * frame.normal[1] +
+    (positions[vertex * 3 + 2] - frame.centroid[2]) * frame.normal[2];
 
   it("flat (no relief): the mesh's vertices stand off the plane as the surface does, its largest offset within 10 % of the report's", () => {
     const mesh = buildSurfaceMesh(segment, { colourMode: "displacement", exaggeration: 0, colorRangeM: display.displacementRangeM });
@@ -39,7 +41,13 @@ describe("the 3D view draws the true fault surface", () => {
   });
 
   it("hover: local dip within 1.5° of the construction, and a point on the drawn surface maps back to its (s, t)", () => {
-    for (const [fu, fv] of [[0, -0.5], [0, 0], [0, 0.5], [0.4, 0.3], [-0.4, -0.3]]) {
+    for (const [fu, fv] of [
+      [0, -0.5],
+      [0, 0],
+      [0, 0.5],
+      [0.4, 0.3],
+      [-0.4, -0.3],
+    ]) {
       const p = truth.point(fu * LISTRIC.a, fv * LISTRIC.b);
       const local = [p[0] - display.origin[0], p[1] - display.origin[1], p[2] - display.origin[2]];
       const [s, t] = surfaceCoordinates(segment, local[0], local[1], local[2]);

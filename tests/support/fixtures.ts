@@ -16,11 +16,23 @@ export async function studyWithEveryRole(tag = Math.random().toString(36).slice(
       .returning({ id: users.id, email: users.email, name: users.name });
     people[who] = user;
   }
-  const [study] = await db.insert(studies).values({ name: `Study ${tag}` }).returning();
-  const [otherStudy] = await db.insert(studies).values({ name: `Other ${tag}` }).returning();
+  const [study] = await db
+    .insert(studies)
+    .values({ name: `Study ${tag}` })
+    .returning();
+  const [otherStudy] = await db
+    .insert(studies)
+    .values({ name: `Other ${tag}` })
+    .returning();
   for (const role of ROLES) await db.insert(memberships).values({ studyId: study.id, userId: people[role].id, role });
   await db.insert(memberships).values({ studyId: otherStudy.id, userId: people.outsider.id, role: "owner" });
-  const [fault] = await db.insert(faults).values({ studyId: study.id, name: `F-${tag}` }).returning();
-  const [otherFault] = await db.insert(faults).values({ studyId: otherStudy.id, name: `G-${tag}` }).returning();
+  const [fault] = await db
+    .insert(faults)
+    .values({ studyId: study.id, name: `F-${tag}` })
+    .returning();
+  const [otherFault] = await db
+    .insert(faults)
+    .values({ studyId: otherStudy.id, name: `G-${tag}` })
+    .returning();
   return { people, study, otherStudy, fault, otherFault };
 }

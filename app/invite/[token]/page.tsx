@@ -37,7 +37,9 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         <p className="eyebrow">Invitation</p>
         <h1 className="mt-2 text-xl font-semibold">{words[0]}</h1>
         <p className="mt-3 text-sm text-slate-600 dark:text-slate-400">{words[1]}</p>
-        <Link href="/studies" className="btn-quiet mt-6">Your studies</Link>
+        <Link href="/studies" className="btn-quiet mt-6">
+          Your studies
+        </Link>
       </Shell>
     );
   }
@@ -48,24 +50,36 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
   return (
     <Shell testId="invite-open">
       <p className="eyebrow">Invitation</p>
-      <h1 className="mt-2 text-xl font-semibold" data-testid="invite-study">Join “{invitation.studyName}”</h1>
+      <h1 className="mt-2 text-xl font-semibold" data-testid="invite-study">
+        Join “{invitation.studyName}”
+      </h1>
       <p className="mt-3 text-sm text-slate-600 dark:text-slate-400">
         {invitation.invitedByName ?? "A study owner"} invited <span className="font-medium">{invitation.email}</span> as{" "}
-        <span className="font-medium" data-testid="invite-role">{invitation.role}</span>: you will be able to {ROLE_WORDS[invitation.role]}.
+        <span className="font-medium" data-testid="invite-role">
+          {invitation.role}
+        </span>
+        : you will be able to {ROLE_WORDS[invitation.role]}.
       </p>
       <p className="mt-1 text-xs text-slate-500">The link works once and expires on {invitation.expiresAt.toUTCString()}.</p>
       {!user ? (
         <div className="mt-6 space-y-2">
-          <Link href={`/sign-in${query(back)}`} className="btn-primary w-full" data-testid="invite-sign-in">Sign in to accept</Link>
-          <Link href={`/sign-up${query(back)}`} className="btn-quiet w-full" data-testid="invite-sign-up">Create an account with {invitation.email}</Link>
+          <Link href={`/sign-in${query(back)}`} className="btn-primary w-full" data-testid="invite-sign-in">
+            Sign in to accept
+          </Link>
+          <Link href={`/sign-up${query(back)}`} className="btn-quiet w-full" data-testid="invite-sign-up">
+            Create an account with {invitation.email}
+          </Link>
         </div>
       ) : user.email.toLowerCase() !== invitation.email.toLowerCase() ? (
         <div className="mt-6 space-y-3" data-testid="invite-wrong-account">
           <p className="text-sm">
-            You are signed in as <span className="font-medium">{user.email}</span>, but this invitation is for <span className="font-medium">{invitation.email}</span>. Sign out, then open this link again and sign in with the invited address.
+            You are signed in as <span className="font-medium">{user.email}</span>, but this invitation is for{" "}
+            <span className="font-medium">{invitation.email}</span>. Sign out, then open this link again and sign in with the invited address.
           </p>
           <form action={signOutAction}>
-            <button type="submit" className="btn-quiet">Sign out</button>
+            <button type="submit" className="btn-quiet">
+              Sign out
+            </button>
           </form>
         </div>
       ) : (

@@ -7,12 +7,7 @@ export default async function StudyPage({ params }: { params: Promise<{ studyId:
   const access = await pageStudyAccess(studyId, `/studies/${studyId}`);
   return (
     <main className="mx-auto max-w-6xl px-6 py-10">
-      <StudyOverview
-        studyId={studyId}
-        currentUserId={access.user.id}
-        canEdit={roleAllows(access.role, "edit")}
-        canAdmin={roleAllows(access.role, "admin")}
-      />
+      <StudyOverview studyId={studyId} currentUserId={access.user.id} canEdit={roleAllows(access.role, "edit")} canAdmin={roleAllows(access.role, "admin")} />
     </main>
   );
 }

@@ -14,7 +14,7 @@ beforeAll(() => {
   dir = mkdtempSync(path.join(os.tmpdir(), "slipfield-cutoffs-"));
 });
 
-describe("npm run --silent analyze -- cutoffs.csv --json --velocity \"v0=1800,k=0.6\"", () => {
+describe('npm run --silent analyze -- cutoffs.csv --json --velocity "v0=1800,k=0.6"', () => {
   it("recognises the cut-off file by its wall column, converts the times, pairs the walls and analyses the derived picks", () => {
     const file = path.join(dir, "cutoffs.csv");
     writeFileSync(file, timeCutoffCsv());
@@ -23,7 +23,11 @@ describe("npm run --silent analyze -- cutoffs.csv --json --velocity \"v0=1800,k=
     const report = JSON.parse(r.stdout);
     // the centroid's northing is (5 × 21 × 1000 + 16 × 750) / 121 = 966.94 m, so stations every 100 m sit at
     // y = 66.94 … 1966.94 m: 20 per horizon, and the five north of 1500 m lack H3's hanging wall
-    expect(report.cutoffs.horizons.map((h: { name: string; stations: number }) => [h.name, h.stations])).toEqual([["H1", 20], ["H2", 20], ["H3", 15]]);
+    expect(report.cutoffs.horizons.map((h: { name: string; stations: number }) => [h.name, h.stations])).toEqual([
+      ["H1", 20],
+      ["H2", 20],
+      ["H3", 15],
+    ]);
     expect(report.cutoffs.missingStations).toBe(5);
     for (const [index, throwM] of [60, 70, 80].entries()) {
       expect(report.cutoffs.horizons[index].maxThrowM).toBeCloseTo(throwM, 2);
@@ -57,12 +61,20 @@ describe("npm run --silent analyze -- cutoffs.csv --json --velocity \"v0=1800,k=
       const [x] = onFault(y, z);
       rows.push(`${x.toFixed(3)},${y},${z},${horizon},${wall}`);
     };
-    put(0, -1000, "H1", "fw"); put(400, -1000, "H1", "fw"); put(300, -1050, "H1", "fw"); put(200, -950, "H1", "fw");
+    put(0, -1000, "H1", "fw");
+    put(400, -1000, "H1", "fw");
+    put(300, -1050, "H1", "fw");
+    put(200, -950, "H1", "fw");
     for (const y of [0, 400]) put(y, -1050, "H1", "hw");
-    for (const y of [0, 400]) { put(y, -1200, "H2", "fw"); put(y, -1250, "H2", "hw"); }
+    for (const y of [0, 400]) {
+      put(y, -1200, "H2", "fw");
+      put(y, -1250, "H2", "hw");
+    }
     writeFileSync(file, `${rows.join("\n")}\n`);
     const r = analyze(file, "--json");
     expect(r.status).toBe(2);
-    expect(r.stderr).toMatch(/row 4, column x,y: the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/);
+    expect(r.stderr).toMatch(
+      /row 4, column x,y: the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/,
+    );
   });
 });

@@ -15,7 +15,8 @@ const root = path.resolve(__dirname, "../../..");
 // the command as people run it: the bin entry, which runs the bundled dist/slipfield-cli.cjs
 const bin = path.join(root, "bin/slipfield.cjs");
 const run = (...args: string[]) => spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd: root });
-const runIn = (cwd: string, input: string | undefined, ...args: string[]) => spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd, input });
+const runIn = (cwd: string, input: string | undefined, ...args: string[]) =>
+  spawnSync(process.execPath, [bin, "analyze", ...args], { encoding: "utf8", cwd, input });
 
 let dir = "";
 beforeAll(() => {
@@ -41,7 +42,11 @@ describe("analyze command line", () => {
     expect(seg.plane.rmsM).toBeLessThan(0.01);
     // Dmax is the largest pick displacement, throw / sin(dip) (Groshong 2006), computed here from the CSV's throws; the
     // local dip of the surface read from millimetre-rounded positions differs from the plane's by under 1e-4°
-    const csvThrows = toCsv(picks).trim().split("\n").slice(1).map((line) => Number(line.split(",")[3]));
+    const csvThrows = toCsv(picks)
+      .trim()
+      .split("\n")
+      .slice(1)
+      .map((line) => Number(line.split(",")[3]));
     expect(seg.max.displacementM).toBeCloseTo(Math.max(...csvThrows) / Math.sin((seg.plane.dipDeg * Math.PI) / 180), 4);
     // the surface is the plane: it stays within a centimetre of it
     expect(seg.surface.maxOffsetM).toBeLessThan(0.01);
@@ -81,7 +86,8 @@ describe("analyze command line", () => {
     const r = run(file, "--json");
     expect(r.status).toBe(2);
     expect(r.stdout).toBe("");
-    for (const where of ["row 3, column x", "row 4, column throw", "row 5, column throw", "row 6, column z", "row 7, column x,y,z"]) expect(r.stderr).toContain(where);
+    for (const where of ["row 3, column x", "row 4, column throw", "row 5, column throw", "row 6, column z", "row 7, column x,y,z"])
+      expect(r.stderr).toContain(where);
   });
 
   it("too few picks in a segment and collinear picks exit 2 naming the segment", () => {
@@ -106,7 +112,11 @@ describe("analyze command line", () => {
     expect(npm.status, npm.stderr).toBe(0);
     expect(JSON.parse(npm.stdout)).toEqual(expected);
     // with the tip-line fits on the helper thread (the bundle started as a worker), the same report
-    const threaded = spawnSync(process.execPath, [bin, "analyze", file, "--json"], { encoding: "utf8", cwd: root, env: { ...process.env, SLIPFIELD_TIPLINE_THREAD: "on" } });
+    const threaded = spawnSync(process.execPath, [bin, "analyze", file, "--json"], {
+      encoding: "utf8",
+      cwd: root,
+      env: { ...process.env, SLIPFIELD_TIPLINE_THREAD: "on" },
+    });
     expect(threaded.status, threaded.stderr).toBe(0);
     expect(threaded.stderr).toBe(""); // it says so when the helper could not be used
     expect(JSON.parse(threaded.stdout)).toEqual(expected);
@@ -124,7 +134,9 @@ describe("analyze command line", () => {
     const collection = JSON.parse(geojson.stdout);
     expect(collection).toEqual(JSON.parse(JSON.stringify(faultGeoJson("stdin", result.report))));
     expect(() => checkGeoJson(geojson.stdout)).not.toThrow();
-    expect(collection.features.map((feature: { properties: { kind: string } }) => feature.properties.kind)).toEqual(expect.arrayContaining(["contour", "tip-line", "mapped-limit"]));
+    expect(collection.features.map((feature: { properties: { kind: string } }) => feature.properties.kind)).toEqual(
+      expect.arrayContaining(["contour", "tip-line", "mapped-limit"]),
+    );
   });
 
   it("several files or a glob: one JSON object per line, each naming its file; a bad file is reported and the rest still run", () => {
@@ -135,7 +147,10 @@ describe("analyze command line", () => {
     writeFileSync(path.join(folder, "notes.txt"), "not a pick file");
     const globbed = runIn(dir, undefined, "batch/f*.csv", "--json");
     expect(globbed.status, globbed.stderr).toBe(0);
-    const lines = globbed.stdout.trim().split("\n").map((line) => JSON.parse(line));
+    const lines = globbed.stdout
+      .trim()
+      .split("\n")
+      .map((line) => JSON.parse(line));
     expect(lines.map((line) => line.file)).toEqual(["batch/f21.csv", "batch/f22.csv", "batch/f23.csv"]);
     for (const line of lines) {
       const alone = JSON.parse(JSON.stringify(analyzeCsv(readFileSync(path.join(dir, line.file), "utf8")).report));
@@ -145,7 +160,10 @@ describe("analyze command line", () => {
     }
     const mixed = runIn(dir, undefined, "batch/*.csv", "--json");
     expect(mixed.status).toBe(2);
-    const mixedLines = mixed.stdout.trim().split("\n").map((line) => JSON.parse(line));
+    const mixedLines = mixed.stdout
+      .trim()
+      .split("\n")
+      .map((line) => JSON.parse(line));
     expect(mixedLines.map((line) => line.file)).toEqual(["batch/f21.csv", "batch/f22.csv", "batch/f23.csv", "batch/g-bad.csv"]);
     expect(mixedLines[3]).toMatchObject({ error: "the pick file cannot be used", problems: [{ row: 2, column: "throw" }] });
     expect(mixed.stderr).toContain("batch/g-bad.csv cannot be used");
@@ -184,7 +202,10 @@ describe("analyze command line", () => {
     expect(Math.abs(segment.asymmetry.downDip)).toBeLessThan(0.2);
 
     // the full-resolution model is over a megabyte: room for it on the pipe
-    const model = spawnSync(process.execPath, [bin, "analyze", file, "--format", "gltf", "--crs", "EPSG:32631+5714"], { cwd: root, maxBuffer: 64 * 1024 * 1024 });
+    const model = spawnSync(process.execPath, [bin, "analyze", file, "--format", "gltf", "--crs", "EPSG:32631+5714"], {
+      cwd: root,
+      maxBuffer: 64 * 1024 * 1024,
+    });
     expect(model.status, model.stderr.toString()).toBe(0);
     const bytes = new Uint8Array(model.stdout);
     const validator = createRequire(import.meta.url)("gltf-validator") as { validateBytes(data: Uint8Array): Promise<{ issues: { numErrors: number } }> };
@@ -194,7 +215,9 @@ describe("analyze command line", () => {
     expect(gltf.asset.extras.coordinateReference.horizontal).toBe("EPSG:32631");
 
     const csv = run(file, "--format", "csv", "--crs", "EPSG:32631+5714");
-    expect(csv.stdout.split("\n")[0]).toBe("# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up");
+    expect(csv.stdout.split("\n")[0]).toBe(
+      "# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up",
+    );
     const geojson = JSON.parse(run(file, "--format", "geojson", "--crs", "EPSG:32631").stdout);
     expect(geojson.crs.properties.name).toBe("urn:ogc:def:crs:EPSG::32631");
     expect(checkGeoJson(JSON.stringify(geojson)).type).toBe("FeatureCollection");

@@ -5,13 +5,15 @@ describe("contours", () => {
   // hand-checked case: a cone D = 100 − r has circular contours of radius 100 − level
   it("concentric circles: one ring per level, enclosed areas within 1 %", () => {
     const cellM = 1;
-    const columns = 241, rows = 241;
+    const columns = 241,
+      rows = 241;
     const spec = { s0: -120, t0: -120, cellM, columns, rows };
     const field = new Float64Array(columns * rows);
-    for (let j = 0; j < rows; j++) for (let i = 0; i < columns; i++) {
-      const r = Math.hypot(spec.s0 + i * cellM, spec.t0 + j * cellM);
-      field[j * columns + i] = r <= 110 ? 100 - r : NaN;
-    }
+    for (let j = 0; j < rows; j++)
+      for (let i = 0; i < columns; i++) {
+        const r = Math.hypot(spec.s0 + i * cellM, spec.t0 + j * cellM);
+        field[j * columns + i] = r <= 110 ? 100 - r : NaN;
+      }
     const levels = contourLevels(100, 20);
     expect(levels).toEqual([20, 40, 60, 80]);
     const result = contourGrid(spec, field, levels);
@@ -24,7 +26,8 @@ describe("contours", () => {
   });
 
   it("NaN outside the data adds no rings around the gaps (two separate bumps give two rings)", () => {
-    const columns = 50, rows = 20;
+    const columns = 50,
+      rows = 20;
     const field = new Float64Array(columns * rows).fill(NaN);
     for (let j = 2; j < 18; j++) for (let i = 2; i < 48; i++) if (i < 20 || i > 30) field[j * columns + i] = 10;
     const [c] = contourGrid({ s0: 0, t0: 0, cellM: 1, columns, rows }, field, [5]);
@@ -48,14 +51,21 @@ describe("contours traced level by level on windows", () => {
   // the whole grid, on a bumpy field with holes, several peaks and NaN gaps.
   it("matches d3-contour run on the whole grid", async () => {
     const { contours } = await import("d3-contour");
-    const columns = 90, rows = 70;
+    const columns = 90,
+      rows = 70;
     const spec = { s0: 100, t0: -50, cellM: 2.5, columns, rows };
     const field = new Float64Array(columns * rows);
-    for (let j = 0; j < rows; j++) for (let i = 0; i < columns; i++) {
-      const a = Math.hypot(i - 30, j - 35), b = Math.hypot(i - 65, j - 30);
-      const v = 40 * Math.exp(-((a / 14) ** 2)) + 30 * Math.exp(-((b / 9) ** 2)) - 8 * Math.exp(-((Math.hypot(i - 30, j - 35) / 3) ** 2)) + 3 * Math.sin(i / 3) * Math.cos(j / 4);
-      field[j * columns + i] = (i - 80) ** 2 + (j - 60) ** 2 < 30 || v < 1 ? NaN : v;
-    }
+    for (let j = 0; j < rows; j++)
+      for (let i = 0; i < columns; i++) {
+        const a = Math.hypot(i - 30, j - 35),
+          b = Math.hypot(i - 65, j - 30);
+        const v =
+          40 * Math.exp(-((a / 14) ** 2)) +
+          30 * Math.exp(-((b / 9) ** 2)) -
+          8 * Math.exp(-((Math.hypot(i - 30, j - 35) / 3) ** 2)) +
+          3 * Math.sin(i / 3) * Math.cos(j / 4);
+        field[j * columns + i] = (i - 80) ** 2 + (j - 60) ** 2 < 30 || v < 1 ? NaN : v;
+      }
     const levels = [25, 5, 10, 15, 20, 30, 35, 60];
     const got = contourGrid(spec, field, levels);
     const below = Math.min(...levels) - 1;

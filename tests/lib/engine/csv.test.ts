@@ -113,7 +113,7 @@ describe("fast reader for clean numeric files", () => {
     expect(a.rows).toBe(b.rows);
     expect(a.accepted).toBe(b.accepted);
     for (const k of ["x", "y", "z", "throwM", "heaveM", "quality", "segment", "horizon", "sourceRow"] as const) {
-      expect(Array.from(a.picks[k]).map((v) => Object.is(v, -0) ? "-0" : v)).toEqual(Array.from(b.picks[k]).map((v) => Object.is(v, -0) ? "-0" : v));
+      expect(Array.from(a.picks[k]).map((v) => (Object.is(v, -0) ? "-0" : v))).toEqual(Array.from(b.picks[k]).map((v) => (Object.is(v, -0) ? "-0" : v)));
     }
     expect(a.picks.segmentNames).toEqual(b.picks.segmentNames);
     expect(a.picks.horizonNames).toEqual(b.picks.horizonNames);

@@ -39,14 +39,18 @@ export const CENTRE: [number, number, number] = [431_000, 6_652_000, -2_400];
 function random(seed: number) {
   let x = seed >>> 0 || 0x9e3779b9;
   const uniform = () => {
-    x ^= x << 13; x >>>= 0;
+    x ^= x << 13;
+    x >>>= 0;
     x ^= x >>> 17;
-    x ^= x << 5; x >>>= 0;
+    x ^= x << 5;
+    x >>>= 0;
     return x / 4294967296;
   };
   const normal = () => {
     for (;;) {
-      const p = 2 * uniform() - 1, q = 2 * uniform() - 1, r = p * p + q * q;
+      const p = 2 * uniform() - 1,
+        q = 2 * uniform() - 1,
+        r = p * p + q * q;
       if (r > 0 && r < 1) return p * Math.sqrt((-2 * Math.log(r)) / r);
     }
   };
@@ -76,12 +80,14 @@ export function surfaceTruth(f: CurvedFault): SurfaceTruth {
   const dipOfNormal = (n: Vec) => Math.acos(Math.abs(n[2])) / RAD;
   if (f.kind === "listric") {
     // δ(v) = δ0 − κ v: a circular arc; x (horizontal, down the dip direction) and z from integrating cos δ and −sin δ
-    const top = f.dipTopDeg! * RAD, base = f.dipBaseDeg! * RAD;
+    const top = f.dipTopDeg! * RAD,
+      base = f.dipBaseDeg! * RAD;
     const kappa = (top - base) / (2 * f.b);
     const delta0 = (top + base) / 2;
     const dip = (v: number) => delta0 - kappa * v;
     return {
-      point: (u, v) => add([1, CENTRE], [u, strike], [(Math.sin(delta0) - Math.sin(dip(v))) / kappa, across], [(Math.cos(delta0) - Math.cos(dip(v))) / kappa, up]),
+      point: (u, v) =>
+        add([1, CENTRE], [u, strike], [(Math.sin(delta0) - Math.sin(dip(v))) / kappa, across], [(Math.cos(delta0) - Math.cos(dip(v))) / kappa, up]),
       normal: (_u, v) => unit(add([Math.sin(dip(v)), across], [Math.cos(dip(v)), up])),
       dipDeg: (_u, v) => dip(v) / RAD,
     };
@@ -105,7 +111,8 @@ export function surfaceTruth(f: CurvedFault): SurfaceTruth {
   const sigmaOf = (u: number) => {
     const sign = u < 0 ? -1 : 1;
     const target = Math.abs(u);
-    let lo = 0, hi = us.length - 1;
+    let lo = 0,
+      hi = us.length - 1;
     while (hi - lo > 1) {
       const mid = (lo + hi) >> 1;
       if (us[mid] <= target) lo = mid;
@@ -130,7 +137,10 @@ export function surfaceTruth(f: CurvedFault): SurfaceTruth {
 export function curvedFaultPicks(f: CurvedFault): { picks: PickColumns; truth: SurfaceTruth; truePositions: Vec[] } {
   const truth = surfaceTruth(f);
   const rand = random(f.seed);
-  const x: number[] = [], y: number[] = [], z: number[] = [], throws: number[] = [];
+  const x: number[] = [],
+    y: number[] = [],
+    z: number[] = [],
+    throws: number[] = [];
   const truePositions: Vec[] = [];
   const h = f.spacingM;
   for (let v = -f.b + h / 2; v < f.b; v += h) {

@@ -31,7 +31,8 @@ describe.each([
 
   it("recovers the surface's offset from the reference plane within 10 % (largest and RMS)", () => {
     // truth: the distance of the picks' true positions (before scatter) from the plane the analysis fitted
-    let max = 0, squares = 0;
+    let max = 0,
+      squares = 0;
     for (const p of truePositions) {
       const w = (p[0] - plane.centroid[0]) * plane.normal[0] + (p[1] - plane.centroid[1]) * plane.normal[1] + (p[2] - plane.centroid[2]) * plane.normal[2];
       max = Math.max(max, Math.abs(w));
@@ -79,7 +80,8 @@ describe.each([
       const [s, t] = planeCoordinates(plane, [x, y, z]);
       // the surface's own offset there, from the report's coarse copy of the surface
       const g = surface.grid;
-      const gx = Math.min(Math.max((s - g.s0) / g.cellM, 0), g.columns - 1), gy = Math.min(Math.max((t - g.t0) / g.cellM, 0), g.rows - 1);
+      const gx = Math.min(Math.max((s - g.s0) / g.cellM, 0), g.columns - 1),
+        gy = Math.min(Math.max((t - g.t0) / g.cellM, 0), g.rows - 1);
       const nearest = g.offsetM[Math.round(gy) * g.columns + Math.round(gx)];
       expect(Math.abs(w - nearest)).toBeLessThan(Math.max(1, 0.05 * surface.maxOffsetM));
     }
@@ -96,7 +98,8 @@ describe("the listric check can tell", () => {
     // by bisection on the depth of the truth's profile (depth falls monotonically down the fault)
     const depthOf = (v: number) => truth.point(0, v)[2];
     const vOf = (z: number) => {
-      let lo = -LISTRIC.b * 1.2, hi = LISTRIC.b * 1.2;
+      let lo = -LISTRIC.b * 1.2,
+        hi = LISTRIC.b * 1.2;
       for (let k = 0; k < 60; k++) {
         const mid = (lo + hi) / 2;
         if (depthOf(mid) > z) lo = mid;
@@ -104,13 +107,18 @@ describe("the listric check can tell", () => {
       }
       return (lo + hi) / 2;
     };
-    let plainWeight = 0, plainSum = 0, localWeight = 0, localSum = 0;
+    let plainWeight = 0,
+      plainSum = 0,
+      localWeight = 0,
+      localSum = 0;
     truePositions.forEach((p, i) => {
       const v = vOf(p[2]);
       const byPlane = picks.throwM[i] / sinPlane;
       const byLocal = picks.throwM[i] / Math.sin((truth.dipDeg(0, v) * Math.PI) / 180);
-      plainWeight += byPlane; plainSum += byPlane * v;
-      localWeight += byLocal; localSum += byLocal * v;
+      plainWeight += byPlane;
+      plainSum += byPlane * v;
+      localWeight += byLocal;
+      localSum += byLocal * v;
     });
     const height = 2 * LISTRIC.b;
     expect(Math.abs(localSum / localWeight)).toBeLessThan(0.005 * height);

@@ -29,7 +29,16 @@ export function cutoffCsv(lines: LineSpec[], options: { vertical?: "z" | "depth"
   for (const spec of lines) {
     for (const [x, y, z] of spec.points) {
       const v = vertical === "depth" ? -z : z;
-      rows.push([x.toFixed(9), y.toFixed(9), v.toFixed(9), spec.horizon, spec.wall, ...extra.map((name) => (name === "line" ? (spec.line ?? "") : (spec.segment ?? "")))].join(","));
+      rows.push(
+        [
+          x.toFixed(9),
+          y.toFixed(9),
+          v.toFixed(9),
+          spec.horizon,
+          spec.wall,
+          ...extra.map((name) => (name === "line" ? (spec.line ?? "") : (spec.segment ?? ""))),
+        ].join(","),
+      );
     }
   }
   return `${rows.join("\n")}\n`;
@@ -55,9 +64,16 @@ export function translated(points: [number, number, number][], slip: [number, nu
  */
 export function timeCutoffCsv(): string {
   const rows = ["x,y,twt,horizon,wall"];
-  const horizons: [string, number, number][] = [["H1", 1500, 60], ["H2", 1800, 70], ["H3", 2100, 80]];
+  const horizons: [string, number, number][] = [
+    ["H1", 1500, 60],
+    ["H2", 1800, 70],
+    ["H3", 2100, 80],
+  ];
   for (const [name, depth, throwM] of horizons) {
-    for (const [wall, d] of [["fw", depth], ["hw", depth + throwM]] as const) {
+    for (const [wall, d] of [
+      ["fw", depth],
+      ["hw", depth + throwM],
+    ] as const) {
       const lastY = name === "H3" && wall === "hw" ? 1500 : 2000;
       for (let y = 0; y <= lastY; y += 100) {
         const [x] = onFault(y, -d);

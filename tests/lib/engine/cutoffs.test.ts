@@ -79,12 +79,14 @@ describe("throw from cut-off lines on a planar fault (hand-computable; T = D sin
     const slip: [number, number, number] = [slipM * DIP_VECTOR[0], 0, slipM * DIP_VECTOR[2]];
     const fw1 = alongStrike(0, 1000, 21, fwZ);
     const fw2 = alongStrike(0, 1000, 21, (y) => fwZ(y) - 300);
-    const { picks, summary } = derive(cutoffCsv([
-      { horizon: "H1", wall: "fw", points: fw1 },
-      { horizon: "H1", wall: "hw", points: translated(fw1, slip) },
-      { horizon: "H2", wall: "fw", points: fw2 },
-      { horizon: "H2", wall: "hw", points: translated(fw2, slip) },
-    ]));
+    const { picks, summary } = derive(
+      cutoffCsv([
+        { horizon: "H1", wall: "fw", points: fw1 },
+        { horizon: "H1", wall: "hw", points: translated(fw1, slip) },
+        { horizon: "H2", wall: "fw", points: fw2 },
+        { horizon: "H2", wall: "hw", points: translated(fw2, slip) },
+      ]),
+    );
     expect(summary.segments[0].frame.dipDeg).toBeCloseTo(60, 9);
     expect(picks.x.length).toBeGreaterThan(20);
     for (let i = 0; i < picks.x.length; i++) {
@@ -113,7 +115,10 @@ describe("throw from cut-off lines on a planar fault (hand-computable; T = D sin
     const dipSeparation = slipM * (Math.sin(r) - Math.cos(r) * tanPitch); // 125.09 m
     const oblique = derive(text, {}, { rakeDeg, stationSpacingM: 50 });
     const dipSlip = derive(text, {}, { stationSpacingM: 50 });
-    const paired = (result: typeof oblique) => result.summary.segments[0].horizons.flatMap((h) => h.displacementM.map((d, k) => ({ d, throwM: h.throwM[k], heaveM: h.heaveM[k] }))).filter((v) => v.d !== null);
+    const paired = (result: typeof oblique) =>
+      result.summary.segments[0].horizons
+        .flatMap((h) => h.displacementM.map((d, k) => ({ d, throwM: h.throwM[k], heaveM: h.heaveM[k] })))
+        .filter((v) => v.d !== null);
     expect(paired(oblique).length).toBeGreaterThan(20);
     for (const station of paired(oblique)) {
       expect(station.d!).toBeCloseTo(200, 6);
@@ -199,11 +204,15 @@ describe("cut-off file checks: row and column named, the whole file refused unle
     const error = refusal(() => parseCutoffCsv(cutoffCsv(lines)));
     expect(error.rejected).toHaveLength(1);
     expect(error.rejected[0]).toMatchObject({ row: 4, column: "x,y" });
-    expect(error.rejected[0].reason).toMatch(/the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/);
+    expect(error.rejected[0].reason).toMatch(
+      /the footwall cut-off of "H1" crosses itself: the piece from row 2 to row 3 crosses the piece from row 4 to row 5/,
+    );
     expect(error.message).toMatch(/row 4, column x,y/);
     // asked to order the vertices along strike, the same file is read, with the reordering stated
     const ordered = parseCutoffCsv(cutoffCsv(lines), { orderAlongStrike: true });
-    expect(ordered.warnings.join(" ")).toMatch(/the footwall cut-off of "H1" \(from row 2\) was not in order along the line; its vertices were ordered along strike as asked/);
+    expect(ordered.warnings.join(" ")).toMatch(
+      /the footwall cut-off of "H1" \(from row 2\) was not in order along the line; its vertices were ordered along strike as asked/,
+    );
   });
 
   it("the crossing test on its own: an X crosses, a zigzag forward and a line doubling back over itself do not", () => {
@@ -217,7 +226,9 @@ describe("cut-off file checks: row and column named, the whole file refused unle
     [scrambled[2], scrambled[7]] = [scrambled[7], scrambled[2]];
     const lines = [{ horizon: "H1", wall: "fw" as const, points: scrambled }, ...flatHorizons(50).slice(1)];
     const { picks, parsed } = derive(cutoffCsv(lines));
-    expect(parsed.warnings.join(" ")).toMatch(/the footwall cut-off of "H1" \(from row 2\) goes back and forth along strike; its vertices were ordered along strike/);
+    expect(parsed.warnings.join(" ")).toMatch(
+      /the footwall cut-off of "H1" \(from row 2\) goes back and forth along strike; its vertices were ordered along strike/,
+    );
     for (const t of picks.throwM) expect(t).toBeCloseTo(50, 9);
   });
 

@@ -25,9 +25,17 @@ describe("linear interpolation on triangles", () => {
 
   // a 3×3 grid of picks: the grid at pick positions honours the data exactly (docs/check-values.md I1, 1e-9 relative)
   it("honours the picks on a 3×3 layout", () => {
-    const s: number[] = [], t: number[] = [], v: number[] = [];
-    for (let j = 0; j < 3; j++) for (let i = 0; i < 3; i++) { s.push(i * 10); t.push(j * 10); v.push((i - 1) ** 2 + j * 7); }
-    const S = Float64Array.from(s), T = Float64Array.from(t);
+    const s: number[] = [],
+      t: number[] = [],
+      v: number[] = [];
+    for (let j = 0; j < 3; j++)
+      for (let i = 0; i < 3; i++) {
+        s.push(i * 10);
+        t.push(j * 10);
+        v.push((i - 1) ** 2 + j * 7);
+      }
+    const S = Float64Array.from(s),
+      T = Float64Array.from(t);
     const tri = triangulate(S, T, { removeSlivers: false });
     const [out] = rasterizeTriangles(S, T, [v], tri.triangles, { s0: 0, t0: 0, cellM: 10, columns: 3, rows: 3 });
     for (let k = 0; k < 9; k++) expect(out[k]).toBeCloseTo(v[k], 9);
@@ -56,9 +64,17 @@ describe("linear interpolation on triangles", () => {
     const [out] = rasterizeTriangles(s, t, [v], tri.triangles, spec);
     const nodes: [number, number][] = [];
     for (let j = 0; j < spec.rows; j++) for (let i = 0; i < spec.columns; i++) nodes.push([spec.s0 + i * spec.cellM, spec.t0 + j * spec.cellM]);
-    const ref = runPythonOracle<(number | null)[]>(path.join(__dirname, "griddata_oracle.py"), { points: Array.from(s, (x, i) => [x, t[i]]), values: Array.from(v), nodes });
-    let lo = Infinity, hi = -Infinity;
-    for (const x of v) { lo = Math.min(lo, x); hi = Math.max(hi, x); }
+    const ref = runPythonOracle<(number | null)[]>(path.join(__dirname, "griddata_oracle.py"), {
+      points: Array.from(s, (x, i) => [x, t[i]]),
+      values: Array.from(v),
+      nodes,
+    });
+    let lo = Infinity,
+      hi = -Infinity;
+    for (const x of v) {
+      lo = Math.min(lo, x);
+      hi = Math.max(hi, x);
+    }
     // the convex hull of the points (delaunator's hull, counter-clockwise): both sides triangulate exactly this region
     const hull = Array.from(new Delaunator(Array.from(s, (x, i) => [x, t[i]]).flat()).hull, (i) => [s[i], t[i]]);
     const distanceToHull = (px: number, py: number) => {
@@ -70,7 +86,9 @@ describe("linear interpolation on triangles", () => {
       });
       return best;
     };
-    let worst = 0, compared = 0, mismatchFarFromHull = 0;
+    let worst = 0,
+      compared = 0,
+      mismatchFarFromHull = 0;
     ref.forEach((r, k) => {
       const mine = out[k];
       if (r === null || Number.isNaN(mine)) {
@@ -99,16 +117,25 @@ describe("linear interpolation on triangles", () => {
 describe("hull sliver removal", () => {
   // common practice, no source: long thin triangles bridging a concave outline are peeled
   it("removes triangles bridging the notch of an L-shaped pick layout", () => {
-    const s: number[] = [], t: number[] = [];
-    for (let j = 0; j <= 20; j++) for (let i = 0; i <= 20; i++) if (i <= 5 || j <= 5) { s.push(i * 10 + (j % 2) * 0.01); t.push(j * 10); }
-    const S = Float64Array.from(s), T = Float64Array.from(t);
+    const s: number[] = [],
+      t: number[] = [];
+    for (let j = 0; j <= 20; j++)
+      for (let i = 0; i <= 20; i++)
+        if (i <= 5 || j <= 5) {
+          s.push(i * 10 + (j % 2) * 0.01);
+          t.push(j * 10);
+        }
+    const S = Float64Array.from(s),
+      T = Float64Array.from(t);
     const all = triangulate(S, T, { removeSlivers: false });
     const peeled = triangulate(S, T);
     expect(peeled.removedSlivers).toBeGreaterThan(0);
     expect(peeled.triangles.length).toBeLessThan(all.triangles.length);
     // no kept triangle has an edge longer than 3 × the median edge
     for (let k = 0; k < peeled.triangles.length; k += 3) {
-      const a = peeled.triangles[k], b = peeled.triangles[k + 1], c = peeled.triangles[k + 2];
+      const a = peeled.triangles[k],
+        b = peeled.triangles[k + 1],
+        c = peeled.triangles[k + 2];
       const e = Math.max(Math.hypot(S[a] - S[b], T[a] - T[b]), Math.hypot(S[b] - S[c], T[b] - T[c]), Math.hypot(S[c] - S[a], T[c] - T[a]));
       expect(e).toBeLessThanOrEqual(3 * peeled.medianEdgeM);
     }

@@ -14,7 +14,11 @@ describe("displacement–length scaling", () => {
   // docs/check-values.md S2 (derived)
   it("exact D = 0.02 L^1.2 recovers n and c", () => {
     const L = [10, 100, 1000, 10000];
-    const fit = fitDisplacementLength(L, L.map((l) => 0.02 * l ** 1.2), "ols");
+    const fit = fitDisplacementLength(
+      L,
+      L.map((l) => 0.02 * l ** 1.2),
+      "ols",
+    );
     expect(fit.n).toBeCloseTo(1.2, 9);
     expect(fit.c / 0.02).toBeCloseTo(1, 9);
   });

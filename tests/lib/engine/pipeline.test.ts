@@ -6,7 +6,8 @@ import { generateSyntheticPicks, syntheticRelayOptions, toCsv } from "@/lib/engi
 function inside(polygon: [number, number][], s: number, t: number): boolean {
   let result = false;
   for (let i = 0, j = polygon.length - 1; i < polygon.length; j = i++) {
-    const [si, ti] = polygon[i], [sj, tj] = polygon[j];
+    const [si, ti] = polygon[i],
+      [sj, tj] = polygon[j];
     if (ti > t !== tj > t && s < ((sj - si) * (t - ti)) / (tj - ti) + si) result = !result;
   }
   return result;
@@ -14,8 +15,10 @@ function inside(polygon: [number, number][], s: number, t: number): boolean {
 function distanceToEdges(polygon: [number, number][], s: number, t: number): number {
   let best = Infinity;
   for (let i = 0, j = polygon.length - 1; i < polygon.length; j = i++) {
-    const [ax, ay] = polygon[j], [bx, by] = polygon[i];
-    const dx = bx - ax, dy = by - ay;
+    const [ax, ay] = polygon[j],
+      [bx, by] = polygon[i];
+    const dx = bx - ax,
+      dy = by - ay;
     const f = Math.max(0, Math.min(1, ((s - ax) * dx + (t - ay) * dy) / (dx * dx + dy * dy || 1)));
     best = Math.min(best, Math.hypot(s - ax - f * dx, t - ay - f * dy));
   }
@@ -23,7 +26,17 @@ function distanceToEdges(polygon: [number, number][], s: number, t: number): num
 }
 
 describe("analysis pipeline", () => {
-  const { picks, truth } = generateSyntheticPicks({ seed: 7, strikeDeg: 140, dipDeg: 55, halfLengthM: 1000, aspectRatio: 2, dmaxM: 60, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 });
+  const { picks, truth } = generateSyntheticPicks({
+    seed: 7,
+    strikeDeg: 140,
+    dipDeg: 55,
+    halfLengthM: 1000,
+    aspectRatio: 2,
+    dmaxM: 60,
+    throwCutoffM: 8,
+    noiseM: 1.5,
+    pickCount: 1200,
+  });
 
   it("reports plane, maximum, grid and contours for one segment, and stages in order", () => {
     const stages: string[] = [];
@@ -49,10 +62,12 @@ describe("analysis pipeline", () => {
     const grid = grids[seg.id];
     expect(grid.displacementM.length).toBe(grid.columns * grid.rows);
     const outline = seg.mappedLimit.polygon;
-    let checkedInside = 0, checkedOutside = 0;
+    let checkedInside = 0,
+      checkedOutside = 0;
     for (let j = 0; j < grid.rows; j++) {
       for (let i = 0; i < grid.columns; i++) {
-        const s = grid.s0 + i * grid.cellM, t = grid.t0 + j * grid.cellM;
+        const s = grid.s0 + i * grid.cellM,
+          t = grid.t0 + j * grid.cellM;
         if (distanceToEdges(outline, s, t) <= grid.cellM) continue;
         const finite = Number.isFinite(grid.displacementM[j * grid.columns + i]);
         expect(finite).toBe(inside(outline, s, t));
@@ -65,12 +80,14 @@ describe("analysis pipeline", () => {
     // contour levels: every multiple of the nice interval below Dmax (about ten), all traced inside the grid
     const levels = seg.contours.map((c) => c.levelM);
     expect(levels).toEqual(Array.from({ length: Math.ceil(seg.max.displacementM / seg.contourIntervalM) - 1 }, (_, k) => seg.contourIntervalM * (k + 1)));
-    for (const c of seg.contours) for (const ring of c.rings) for (const [s, t] of ring) {
-      expect(s).toBeGreaterThanOrEqual(grid.s0 - 1e-6);
-      expect(s).toBeLessThanOrEqual(grid.s0 + (grid.columns - 1) * grid.cellM + 1e-6);
-      expect(t).toBeGreaterThanOrEqual(grid.t0 - 1e-6);
-      expect(t).toBeLessThanOrEqual(grid.t0 + (grid.rows - 1) * grid.cellM + 1e-6);
-    }
+    for (const c of seg.contours)
+      for (const ring of c.rings)
+        for (const [s, t] of ring) {
+          expect(s).toBeGreaterThanOrEqual(grid.s0 - 1e-6);
+          expect(s).toBeLessThanOrEqual(grid.s0 + (grid.columns - 1) * grid.cellM + 1e-6);
+          expect(t).toBeGreaterThanOrEqual(grid.t0 - 1e-6);
+          expect(t).toBeLessThanOrEqual(grid.t0 + (grid.rows - 1) * grid.cellM + 1e-6);
+        }
     expect(seg.scaling.plausible).toBe(true);
     expect(seg.tipLine.worldPolygon[0][2]).toBeLessThan(0);
     // the off-plane distance grid: these picks lie on the plane, so w is 0 wherever there is data
@@ -93,7 +110,9 @@ describe("analysis pipeline", () => {
 
   // relay geometry as defined by Peacock & Sanderson (1994); O/S compared with Long & Imber (2011)
   it("measures overlap and separation between two overlapping segments, and calls them soft-linked with nothing mapped between", () => {
-    const relay = generateSyntheticPicks(syntheticRelayOptions({ seed: 11, halfLengthM: 1200, dmaxM: 70, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 }, 500, 120));
+    const relay = generateSyntheticPicks(
+      syntheticRelayOptions({ seed: 11, halfLengthM: 1200, dmaxM: 70, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 }, 500, 120),
+    );
     const { report } = analyzePicks(relay.picks);
     expect(report.segments).toHaveLength(2);
     expect(report.relays).toHaveLength(1);

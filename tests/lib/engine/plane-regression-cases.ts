@@ -7,17 +7,43 @@ import type { AnalysisReport, PickColumns } from "@/lib/engine/types";
 export const PLANE_CASES: { name: string; picks: () => PickColumns }[] = [
   {
     name: "single fault, Walsh & Watterson profile, dip 55°",
-    picks: () => generateSyntheticPicks({ seed: 7, strikeDeg: 140, dipDeg: 55, halfLengthM: 1000, aspectRatio: 2, dmaxM: 60, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 }).picks,
+    picks: () =>
+      generateSyntheticPicks({
+        seed: 7,
+        strikeDeg: 140,
+        dipDeg: 55,
+        halfLengthM: 1000,
+        aspectRatio: 2,
+        dmaxM: 60,
+        throwCutoffM: 8,
+        noiseM: 1.5,
+        pickCount: 1200,
+      }).picks,
   },
   {
     name: "two segments with a relay, dip 60°",
-    picks: () => generateSyntheticPicks(syntheticRelayOptions({ seed: 11, halfLengthM: 1200, dmaxM: 70, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 }, 500, 120)).picks,
+    picks: () =>
+      generateSyntheticPicks(syntheticRelayOptions({ seed: 11, halfLengthM: 1200, dmaxM: 70, throwCutoffM: 8, noiseM: 1.5, pickCount: 1200 }, 500, 120)).picks,
   },
   {
     name: "blind fault, elliptical-crack profile, dip 52° (the first demo QG-4)",
     picks: () =>
       generateSyntheticPicks(
-        [{ segment: "main", strikeDeg: 318, dipDeg: 52, halfLengthM: 1250, aspectRatio: 2.3, dmaxM: 46, noiseM: 1.5, throwCutoffM: 10, pickCount: 2400, profile: "elliptical-crack", centre: [467_600, 6_734_900, -2_600] }] satisfies SyntheticFaultOptions[],
+        [
+          {
+            segment: "main",
+            strikeDeg: 318,
+            dipDeg: 52,
+            halfLengthM: 1250,
+            aspectRatio: 2.3,
+            dmaxM: 46,
+            noiseM: 1.5,
+            throwCutoffM: 10,
+            pickCount: 2400,
+            profile: "elliptical-crack",
+            centre: [467_600, 6_734_900, -2_600],
+          },
+        ] satisfies SyntheticFaultOptions[],
         4402,
       ).picks,
   },

@@ -13,7 +13,8 @@ const saved = JSON.parse(readFileSync(path.join(__dirname, "fixtures", "plane-re
   cases: Record<string, ReturnType<typeof regressionSummary>>;
 };
 
-const close = (actual: number, expected: number, relative: number) => expect(Math.abs(actual - expected)).toBeLessThanOrEqual(relative * Math.max(1, Math.abs(expected)));
+const close = (actual: number, expected: number, relative: number) =>
+  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(relative * Math.max(1, Math.abs(expected)));
 
 describe("plane faults give the results saved before the true surface was read", () => {
   for (const testCase of PLANE_CASES) {
@@ -23,7 +24,8 @@ describe("plane faults give the results saved before the true surface was read",
       expect(now.segments.map((s) => s.id)).toEqual(before.segments.map((s) => s.id));
       now.segments.forEach((segment, k) => {
         const old = before.segments[k];
-        for (const key of ["dipDeg", "maxDisplacementM", "fittedDmaxM", "lengthM", "heightM", "areaM2", "mappedLengthM", "mappedHeightM"] as const) close(segment[key], old[key], 1e-6);
+        for (const key of ["dipDeg", "maxDisplacementM", "fittedDmaxM", "lengthM", "heightM", "areaM2", "mappedLengthM", "mappedHeightM"] as const)
+          close(segment[key], old[key], 1e-6);
         for (const key of ["lengthRangeM", "heightRangeM"] as const) {
           close(segment[key][0], old[key][0], 1e-6);
           if (old[key][1] === null) expect(segment[key][1]).toBeNull();

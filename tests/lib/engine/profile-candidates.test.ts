@@ -1,5 +1,13 @@
 import { describe, expect, it } from "vitest";
-import { AUTOMATIC_CANDIDATES, PROFILE_CANDIDATES, PUBLISHED_PROFILES, modelRadius, modelTipPolygon, profileFunction, writeProfile } from "@/lib/engine/profiles";
+import {
+  AUTOMATIC_CANDIDATES,
+  PROFILE_CANDIDATES,
+  PUBLISHED_PROFILES,
+  modelRadius,
+  modelTipPolygon,
+  profileFunction,
+  writeProfile,
+} from "@/lib/engine/profiles";
 import type { ProfileModel } from "@/lib/engine/types";
 
 const logit = (y: number, lo: number, hi: number) => Math.log((y - lo) / (hi - y));

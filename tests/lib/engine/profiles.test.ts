@@ -35,7 +35,10 @@ describe("published displacement profiles", () => {
     for (let i = 1; i < 10000; i++) {
       const r = i / 10000;
       const g = Math.abs(walshWattersonProfile(r + h) - walshWattersonProfile(r - h)) / (2 * h);
-      if (g > best) { best = g; at = r; }
+      if (g > best) {
+        best = g;
+        at = r;
+      }
     }
     expect(best).toBeCloseTo(1.3625, 3);
     expect(at).toBeCloseTo(0.5774, 3);

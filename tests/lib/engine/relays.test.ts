@@ -11,7 +11,14 @@ import type { PickColumns } from "@/lib/engine/types";
 const DIP = (60 * Math.PI) / 180;
 const DEPTHS = Array.from({ length: 16 }, (_, k) => 2000 + k * 40);
 
-interface Builder { x: number[]; y: number[]; z: number[]; throwM: number[]; segment: number[]; names: string[] }
+interface Builder {
+  x: number[];
+  y: number[];
+  z: number[];
+  throwM: number[];
+  segment: number[];
+  names: string[];
+}
 
 function builder(): Builder {
   return { x: [], y: [], z: [], throwM: [], segment: [], names: [] };
@@ -20,7 +27,11 @@ function builder(): Builder {
 function add(b: Builder, name: string, x: number, y: number, z: number, throwM: number) {
   let k = b.names.indexOf(name);
   if (k < 0) k = b.names.push(name) - 1;
-  b.x.push(x); b.y.push(y); b.z.push(z); b.throwM.push(throwM); b.segment.push(k);
+  b.x.push(x);
+  b.y.push(y);
+  b.z.push(z);
+  b.throwM.push(throwM);
+  b.segment.push(k);
 }
 
 /** East position of a plane dipping 60° east that crops out (at 2000 m depth) at east = offset. */
@@ -62,9 +73,17 @@ function connector(b: Builder, from = 0, to = 1, gap: [number, number] | null = 
 function columns(b: Builder): PickColumns {
   const n = b.x.length;
   return {
-    x: Float64Array.from(b.x), y: Float64Array.from(b.y), z: Float64Array.from(b.z), throwM: Float64Array.from(b.throwM),
-    heaveM: new Float64Array(n).fill(NaN), quality: new Float64Array(n).fill(NaN), segment: Uint32Array.from(b.segment),
-    horizon: new Int32Array(n).fill(-1), segmentNames: b.names, horizonNames: [], sourceRow: Uint32Array.from({ length: n }, (_, i) => i + 2),
+    x: Float64Array.from(b.x),
+    y: Float64Array.from(b.y),
+    z: Float64Array.from(b.z),
+    throwM: Float64Array.from(b.throwM),
+    heaveM: new Float64Array(n).fill(NaN),
+    quality: new Float64Array(n).fill(NaN),
+    segment: Uint32Array.from(b.segment),
+    horizon: new Int32Array(n).fill(-1),
+    segmentNames: b.names,
+    horizonNames: [],
+    sourceRow: Uint32Array.from({ length: n }, (_, i) => i + 2),
   };
 }
 
@@ -109,7 +128,10 @@ describe("relay linkage from mapped evidence (docs/check-values.md R4: stages af
   });
 
   it("a segment that reaches only halfway, or leaves a gap, does not breach the relay", () => {
-    for (const [from, to, gap, words] of [[0, 0.5, null, "50 % of the way across)"], [0, 1, [0.35, 0.65], "100 % of the way across, with gaps or zero throw)"]] as const) {
+    for (const [from, to, gap, words] of [
+      [0, 0.5, null, "50 % of the way across)"],
+      [0, 1, [0.35, 0.65], "100 % of the way across, with gaps or zero throw)"],
+    ] as const) {
       const b = builder();
       segmentA(b);
       segmentB(b);

@@ -24,7 +24,10 @@ const areaOf = (result: ReturnType<typeof juxtapose>, hw: string, fw: string) =>
 
 describe("juxtaposition areas on a two-unit fault, against areas computed by hand (diagram after Allan 1989; docs/check-values.md J1, J2)", () => {
   it("constant throw 50 m over 1000 m: three strips of 50 m × 1000 m", () => {
-    const result = juxtapose(twoUnitFault([0, 500, 1000], () => 50), units);
+    const result = juxtapose(
+      twoUnitFault([0, 500, 1000], () => 50),
+      units,
+    );
     // diagram from the footwall's H1 (−1000 m) to the hanging wall's H2 (−1150 m)
     expect(result.windowAreaM2).toBeCloseTo(150_000, 6);
     expect(areaOf(result, "undescribed", "Sand A")).toBeCloseTo(50_000, 6);
@@ -35,11 +38,21 @@ describe("juxtaposition areas on a two-unit fault, against areas computed by han
     expect(sandOnSand.pair).toBe("reservoir-reservoir");
     expect(sandOnSand.planeAreaM2).toBeCloseTo(50_000 / SIN60, 6);
     expect(sandOnSand.polygons).toHaveLength(1);
-    expect(sandOnSand.polygons[0]).toEqual([[0, -1050], [500, -1050], [1000, -1050], [1000, -1100], [500, -1100], [0, -1100]]);
+    expect(sandOnSand.polygons[0]).toEqual([
+      [0, -1050],
+      [500, -1050],
+      [1000, -1050],
+      [1000, -1100],
+      [500, -1100],
+      [0, -1100],
+    ]);
   });
 
   it("throw growing from 20 m to 120 m along strike, stations only at the ends: sand on sand closes at s = 800 m (T = 100 m)", () => {
-    const result = juxtapose(twoUnitFault([0, 1000], (s) => 20 + 0.1 * s), units);
+    const result = juxtapose(
+      twoUnitFault([0, 1000], (s) => 20 + 0.1 * s),
+      units,
+    );
     // sand on sand: 100 − T for T < 100 m, ∫0^800 (80 − 0.1 s) ds = 64,000 − 32,000
     expect(areaOf(result, "Sand A", "Sand A")).toBeCloseTo(32_000, 6);
     // hanging-wall sand on footwall shale: T up to s = 800 m, then the whole 100 m: 48,000 + 20,000
@@ -57,7 +70,11 @@ describe("juxtaposition areas on a two-unit fault, against areas computed by han
     expect(byPair["no-reservoir"].areaM2).toBeCloseTo(2_000, 6);
     // the sand-on-sand polygon is the triangle-topped strip ending at the breakpoint s = 800 m
     const polygon = result.areas.find((a) => a.hwUnit === "Sand A" && a.fwUnit === "Sand A")!.polygons[0];
-    expect(polygon.map(([s, z]) => [Number(s.toFixed(6)), Number(z.toFixed(6))])).toEqual([[0, -1020], [800, -1100], [0, -1100]]);
+    expect(polygon.map(([s, z]) => [Number(s.toFixed(6)), Number(z.toFixed(6))])).toEqual([
+      [0, -1020],
+      [800, -1100],
+      [0, -1100],
+    ]);
   });
 
   it("stations with a missing cut-off are left out of the diagram, and units whose top horizon is absent are named", () => {
@@ -89,15 +106,31 @@ describe("juxtaposition areas on a two-unit fault, against areas computed by han
     expect(pairKind("seal", "reservoir")).toBe("reservoir-seal");
     expect(pairKind("undescribed", "reservoir")).toBe("reservoir-other");
     expect(pairKind("seal", "other")).toBe("no-reservoir");
-    const csv = juxtapositionCsv("main", juxtapose(twoUnitFault([0, 1000], () => 50), units)).trim().split("\n");
-    expect(csv[0]).toBe("segment,hanging_wall_unit,hanging_wall_kind,footwall_unit,footwall_kind,what_meets_what,area_along_strike_by_vertical_m2,area_on_fault_plane_m2,share_of_diagram_percent");
+    const csv = juxtapositionCsv(
+      "main",
+      juxtapose(
+        twoUnitFault([0, 1000], () => 50),
+        units,
+      ),
+    )
+      .trim()
+      .split("\n");
+    expect(csv[0]).toBe(
+      "segment,hanging_wall_unit,hanging_wall_kind,footwall_unit,footwall_kind,what_meets_what,area_along_strike_by_vertical_m2,area_on_fault_plane_m2,share_of_diagram_percent",
+    );
     expect(csv).toContain("main,Sand A,reservoir,Sand A,reservoir,reservoir against reservoir: possible cross-fault pathway,50000.0,57735.0,33.33");
   });
 });
 
 describe("shale gouge ratio SGR = Σ Vsh·Δz / T (Yielding, Freeman & Needham 1997), checked by hand", () => {
   it("the worked example docs/check-values.md F1: layers 20 m at 0.1, 10 m at 0.8, 20 m at 0.3, T = 50 m → 32.0 %", () => {
-    expect(shaleGougeRatio([{ thicknessM: 20, clayFraction: 0.1 }, { thicknessM: 10, clayFraction: 0.8 }, { thicknessM: 20, clayFraction: 0.3 }])).toBeCloseTo(0.32, 12);
+    expect(
+      shaleGougeRatio([
+        { thicknessM: 20, clayFraction: 0.1 },
+        { thicknessM: 10, clayFraction: 0.8 },
+        { thicknessM: 20, clayFraction: 0.3 },
+      ]),
+    ).toBeCloseTo(0.32, 12);
   });
 
   // the same three layers as a footwall column: A 0 to −20 m, B −20 to −30 m, C −30 to −50 m

@@ -27,16 +27,25 @@ function holedField(f: (s: number, t: number) => number) {
 
 describe("the off-plane distance grid", () => {
   it("interpolates w linearly on the picks' triangles: a tilted plane of picks gives w = 0.1 s − 0.05 t + 3 exactly (by hand)", () => {
-    const s: number[] = [], t: number[] = [], w: number[] = [];
-    for (let j = 0; j <= 6; j++) for (let i = 0; i <= 8; i++) { s.push(i * 25 + (j % 2) * 3); t.push(j * 20); w.push(0.1 * s.at(-1)! - 0.05 * t.at(-1)! + 3); }
-    const S = Float64Array.from(s), T = Float64Array.from(t);
+    const s: number[] = [],
+      t: number[] = [],
+      w: number[] = [];
+    for (let j = 0; j <= 6; j++)
+      for (let i = 0; i <= 8; i++) {
+        s.push(i * 25 + (j % 2) * 3);
+        t.push(j * 20);
+        w.push(0.1 * s.at(-1)! - 0.05 * t.at(-1)! + 3);
+      }
+    const S = Float64Array.from(s),
+      T = Float64Array.from(t);
     const spec = gridSpecFor(S, T, 20, { cellM: 7 });
     const grid = offPlaneGrid(S, T, w, triangulate(S, T, { removeSlivers: false }).triangles, spec);
     let finite = 0;
     grid.forEach((value, k) => {
       if (!Number.isFinite(value)) return;
       finite++;
-      const ss = spec.s0 + (k % spec.columns) * spec.cellM, tt = spec.t0 + Math.floor(k / spec.columns) * spec.cellM;
+      const ss = spec.s0 + (k % spec.columns) * spec.cellM,
+        tt = spec.t0 + Math.floor(k / spec.columns) * spec.cellM;
       expect(value).toBeCloseTo(0.1 * ss - 0.05 * tt + 3, 9);
     });
     expect(finite).toBeGreaterThan(500);
@@ -50,14 +59,22 @@ describe("smoothing and local plane fits of a grid with holes", () => {
     const lengthM = 30; // 3 cells, so scipy's truncate = 3 gives the same 9-cell radius
     const nodes = [0, 31, 215, 6 * 30 + 11, 10 * 30 + 14, 19 * 30 + 24, 5 * 30 + 25, 7 * 30 + 13];
     const ref = runPythonOracle<{ smooth: (number | null)[]; fits: number[][]; fits2: number[][] }>(path.join(__dirname, "surface_oracle.py"), {
-      columns: spec.columns, rows: spec.rows, cellM: spec.cellM, lengthM, field: Array.from(field, (v) => (Number.isFinite(v) ? v : null)), nodes,
+      columns: spec.columns,
+      rows: spec.rows,
+      cellM: spec.cellM,
+      lengthM,
+      field: Array.from(field, (v) => (Number.isFinite(v) ? v : null)),
+      nodes,
     });
     const smooth = smoothGrid(field, spec, lengthM);
     smooth.forEach((value, k) => {
       if (ref.smooth[k] === null) expect(value).toBeNaN();
       else expect(Math.abs(value - ref.smooth[k]!)).toBeLessThan(1e-9);
     });
-    for (const [degree, fits] of [[1, ref.fits], [2, ref.fits2]] as const) {
+    for (const [degree, fits] of [
+      [1, ref.fits],
+      [2, ref.fits2],
+    ] as const) {
       const fit = localPolynomialFit(field, spec, lengthM, degree);
       nodes.forEach((k, n) => {
         const [a, b, c] = fits[n];
@@ -76,7 +93,8 @@ describe("smoothing and local plane fits of a grid with holes", () => {
     let worst = 0;
     for (let k = 0; k < field.length; k++) {
       if (!Number.isFinite(field[k])) continue;
-      const s = (k % spec.columns) * 10, t = Math.floor(k / spec.columns) * 10;
+      const s = (k % spec.columns) * 10,
+        t = Math.floor(k / spec.columns) * 10;
       worst = Math.max(worst, Math.abs(quadratic.gradientS[k] - (0.002 * (s - 100) + 0.0005 * t)), Math.abs(quadratic.gradientT[k] - (0.0005 * s - 0.004 * t)));
     }
     expect(worst).toBeLessThan(1e-9);
@@ -121,8 +139,13 @@ describe("smoothing and local plane fits of a grid with holes", () => {
   });
 
   it("effective pick count of one pick per node is 4πL²/cell² inside a large grid (docs/check-values.md I6; Kish 1965)", () => {
-    const s: number[] = [], t: number[] = [];
-    for (let j = 0; j < 80; j++) for (let i = 0; i < 80; i++) { s.push(i * 5); t.push(j * 5); }
+    const s: number[] = [],
+      t: number[] = [];
+    for (let j = 0; j < 80; j++)
+      for (let i = 0; i < 80; i++) {
+        s.push(i * 5);
+        t.push(j * 5);
+      }
     const spec = { s0: 0, t0: 0, cellM: 5, columns: 80, rows: 80 };
     const count = effectivePickCount(s, t, spec, 20);
     // (Σ K)² / Σ K² with Σ K ≈ 2πL²/cell² and Σ K² ≈ πL²/cell²: 4π·400/25 = 201.1. The kernel is cut at 3 L, which
@@ -136,7 +159,11 @@ describe("smoothing and local plane fits of a grid with holes", () => {
 describe("orientation of the smoothed surface", () => {
   it("a surface tilted by its slopes has the normal of that plane (strike and dip checked against planeNormal)", () => {
     // reference plane: strike 030, dip 50; the surface w = 0.1·s − 0.2·t relative to it
-    const frame = fitPlane([0, 1000 * Math.sin(30 * RAD), 700 * Math.cos(50 * RAD) * Math.sin(120 * RAD)], [0, 1000 * Math.cos(30 * RAD), 700 * Math.cos(50 * RAD) * Math.cos(120 * RAD)], [0, 0, -700 * Math.sin(50 * RAD)]);
+    const frame = fitPlane(
+      [0, 1000 * Math.sin(30 * RAD), 700 * Math.cos(50 * RAD) * Math.sin(120 * RAD)],
+      [0, 1000 * Math.cos(30 * RAD), 700 * Math.cos(50 * RAD) * Math.cos(120 * RAD)],
+      [0, 0, -700 * Math.sin(50 * RAD)],
+    );
     expect(frame.dipDeg).toBeCloseTo(50, 9);
     const normal = surfaceNormal(0.1, -0.2, frame);
     // independently: three points of the surface P = c + s ŝ + t d̂ + w n̂, and their cross product
@@ -145,7 +172,8 @@ describe("orientation of the smoothed surface", () => {
       return [0, 1, 2].map((k) => frame.centroid[k] + s * frame.strikeVector[k] + t * frame.dipVector[k] + w * frame.normal[k]);
     };
     const [a, b, c] = [point(0, 0), point(100, 0), point(0, 100)];
-    const u = [0, 1, 2].map((k) => b[k] - a[k]), v = [0, 1, 2].map((k) => c[k] - a[k]);
+    const u = [0, 1, 2].map((k) => b[k] - a[k]),
+      v = [0, 1, 2].map((k) => c[k] - a[k]);
     const cross = [u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2], u[0] * v[1] - u[1] * v[0]];
     const length = Math.hypot(...cross) * Math.sign(cross[2]);
     cross.forEach((value, k) => expect(normal[k]).toBeCloseTo(value / length, 12));
@@ -158,7 +186,9 @@ describe("orientation of the smoothed surface", () => {
   });
 
   it("picks projected to their own best plane have w of zero mean and a flat fitted surface", () => {
-    const x = [0, 100, 0, 100, 50], y = [0, 0, 100, 100, 50], z = [0, -30, -10, -40, -20];
+    const x = [0, 100, 0, 100, 50],
+      y = [0, 0, 100, 100, 50],
+      z = [0, -30, -10, -40, -20];
     const plane = fitPlane(x, y, z);
     const { w } = projectToPlane(x, y, z, plane);
     expect(w.reduce((a, b) => a + b, 0)).toBeCloseTo(0, 9);

@@ -1,6 +1,13 @@
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { depthFromTwtIntervals, depthFromTwtLinear, intervalVelocityLinear, parseVelocityText, twtFromDepthLinear, velocityModelProblems } from "@/lib/engine/time-depth";
+import {
+  depthFromTwtIntervals,
+  depthFromTwtLinear,
+  intervalVelocityLinear,
+  parseVelocityText,
+  twtFromDepthLinear,
+  velocityModelProblems,
+} from "@/lib/engine/time-depth";
 import { parseCutoffCsv } from "@/lib/engine/cutoffs";
 import { deriveFromCutoffs } from "@/lib/engine/cutoff-stations";
 import { runPythonOracle } from "../../support/python";
@@ -62,10 +69,21 @@ describe("interval velocities by horizon (layer cake), against depths computed b
     const rows = ["x,y,twt,horizon,wall", `${x(800)},0,800,H1,fw`, `${x(820)},1000,820,H1,fw`, `${x(840)},0,840,H1,hw`, `${x(860)},1000,860,H1,hw`];
     for (const y of [0, 250, 1000]) rows.push(`${x(1200)},${y},1200,H2,fw`, `${x(1250)},${y},1250,H2,hw`);
     const parsed = parseCutoffCsv(rows.join("\n"));
-    const { summary, vertexZ } = deriveFromCutoffs(parsed, { velocityModel: { kind: "intervals", intervals: [{ horizon: "H1", velocityMPerS: 2000 }, { horizon: "H2", velocityMPerS: 2500 }] }, stationSpacingM: 250 });
+    const { summary, vertexZ } = deriveFromCutoffs(parsed, {
+      velocityModel: {
+        kind: "intervals",
+        intervals: [
+          { horizon: "H1", velocityMPerS: 2000 },
+          { horizon: "H2", velocityMPerS: 2500 },
+        ],
+      },
+      stationSpacingM: 250,
+    });
     const zAt = (horizon: string, wall: "hw" | "fw", y: number) => {
       const { columns } = parsed;
-      const i = Array.from(columns.x.keys()).find((k) => columns.horizonNames[columns.horizon[k]] === horizon && columns.wall[k] === (wall === "hw" ? 0 : 1) && columns.y[k] === y)!;
+      const i = Array.from(columns.x.keys()).find(
+        (k) => columns.horizonNames[columns.horizon[k]] === horizon && columns.wall[k] === (wall === "hw" ? 0 : 1) && columns.y[k] === y,
+      )!;
       return vertexZ[i];
     };
     expect(zAt("H1", "fw", 0)).toBeCloseTo(-800, 9); // 2000 × 0.400 s
@@ -96,15 +114,33 @@ describe("interval velocities by horizon (layer cake), against depths computed b
   it("a horizon missing from the interval table, or an interval without the horizon above on that wall, is named", () => {
     const rows = ["x,y,twt,horizon,wall", "0,0,800,H1,fw", "0,100,800,H1,fw", "30,0,840,H1,hw", "30,100,840,H1,hw"];
     const parsed = parseCutoffCsv(rows.join("\n"));
-    expect(() => deriveFromCutoffs(parsed, { velocityModel: { kind: "intervals", intervals: [{ horizon: "H0", velocityMPerS: 1900 }] } })).toThrow(/horizon "H1" has no interval velocity in the model/);
-    expect(() => deriveFromCutoffs(parsed, { velocityModel: { kind: "intervals", intervals: [{ horizon: "H0", velocityMPerS: 1900 }, { horizon: "H1", velocityMPerS: 2000 }] } })).toThrow(/need the time of "H0" above the (hanging wall|footwall) cut-off of "H1", but "H0" has no/);
+    expect(() => deriveFromCutoffs(parsed, { velocityModel: { kind: "intervals", intervals: [{ horizon: "H0", velocityMPerS: 1900 }] } })).toThrow(
+      /horizon "H1" has no interval velocity in the model/,
+    );
+    expect(() =>
+      deriveFromCutoffs(parsed, {
+        velocityModel: {
+          kind: "intervals",
+          intervals: [
+            { horizon: "H0", velocityMPerS: 1900 },
+            { horizon: "H1", velocityMPerS: 2000 },
+          ],
+        },
+      }),
+    ).toThrow(/need the time of "H0" above the (hanging wall|footwall) cut-off of "H1", but "H0" has no/);
   });
 });
 
 describe("velocity models as given on the command line and in forms", () => {
   it("reads v0=…,k=… and interval lists; names what is wrong", () => {
     expect(parseVelocityText("v0=1800,k=0.6")).toEqual({ kind: "linear", v0MPerS: 1800, kPerS: 0.6 });
-    expect(parseVelocityText("Top Sand=2100, Base Sand=2600")).toEqual({ kind: "intervals", intervals: [{ horizon: "Top Sand", velocityMPerS: 2100 }, { horizon: "Base Sand", velocityMPerS: 2600 }] });
+    expect(parseVelocityText("Top Sand=2100, Base Sand=2600")).toEqual({
+      kind: "intervals",
+      intervals: [
+        { horizon: "Top Sand", velocityMPerS: 2100 },
+        { horizon: "Base Sand", velocityMPerS: 2600 },
+      ],
+    });
     expect(() => parseVelocityText("v0=1800")).toThrow(/both and nothing else/);
     expect(() => parseVelocityText("v0=50,k=0.6")).toThrow(/v0 must be between 100 and 10,000 m\/s \(got 50\)/);
     expect(() => parseVelocityText("v0=1800,k=x")).toThrow(/does not end in a number/);
@@ -138,7 +174,15 @@ describe("throw picks in two-way time: each wall converted on its own, never a t
     // H1 at 800 ms with a 40 ms throw (walls 820 / 780 ms), H2 at 1200 ms with a 50 ms throw (1225 / 1175 ms)
     const rows = ["x,y,twt,throw,horizon"];
     for (const y of [0, 500, 1000]) rows.push(`0,${y},800,40,H1`, `200,${y},1200,50,H2`);
-    const { picks } = parsePickCsv(rows.join("\n"), { velocityModel: { kind: "intervals", intervals: [{ horizon: "H1", velocityMPerS: 2000 }, { horizon: "H2", velocityMPerS: 2500 }] } });
+    const { picks } = parsePickCsv(rows.join("\n"), {
+      velocityModel: {
+        kind: "intervals",
+        intervals: [
+          { horizon: "H1", velocityMPerS: 2000 },
+          { horizon: "H2", velocityMPerS: 2500 },
+        ],
+      },
+    });
     // H1: 2000 × 0.41 − 2000 × 0.39 = 40 m. H2 hanging wall 820 + 2500 × 0.2025 = 1326.25 m; footwall 780 + 2500 × 0.1975 = 1273.75 m
     expect(picks.throwM[0]).toBeCloseTo(40, 9);
     expect(picks.throwM[1]).toBeCloseTo(52.5, 9);

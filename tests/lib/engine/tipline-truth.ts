@@ -97,7 +97,8 @@ export function truthPicks(f: TruthFault): { picks: PickColumns; s: Float64Array
   const down = [Math.sin(dipDirection) * Math.cos(dip), Math.cos(dipDirection) * Math.cos(dip), -Math.sin(dip)];
   const normalVector = [along[1] * down[2] - along[2] * down[1], along[2] * down[0] - along[0] * down[2], along[0] * down[1] - along[1] * down[0]];
   const origin = [512_000, 6_810_000, -2400];
-  const L = truthLength(f), H = truthHeight(f);
+  const L = truthLength(f),
+    H = truthHeight(f);
   const places: [number, number][] = [];
   if (f.layout === "scattered") {
     const spacing = Math.sqrt((L * H * Math.PI) / 4 / f.pickCount);
@@ -111,7 +112,12 @@ export function truthPicks(f: TruthFault): { picks: PickColumns; s: Float64Array
     for (let s = -f.reach.strikeStartM + offset; s <= f.reach.strikeEndM; s += across)
       for (let t = -f.reach.upDipM; t <= f.reach.downDipM; t += step) places.push([s, t + (rand() - 0.5) * step * 0.3]);
   }
-  const xs: number[] = [], ys: number[] = [], zs: number[] = [], throws: number[] = [], ss: number[] = [], ts: number[] = [];
+  const xs: number[] = [],
+    ys: number[] = [],
+    zs: number[] = [],
+    throws: number[] = [],
+    ss: number[] = [],
+    ts: number[] = [];
   const sinDip = Math.sin(dip);
   for (const [s, t] of places) {
     const r = truthRadius(f, s, t);
@@ -157,7 +163,11 @@ export function truthPicks(f: TruthFault): { picks: PickColumns; s: Float64Array
  * The battery: at least 50 faults drawn over shapes, aspect ratios 1–3, dips 35–85°, cut-offs 10–40 % of Dmax,
  * noise 1–3 m, scattered and line-style picks, some with the maximum off centre.
  */
-export function truthBattery(count = 60, seed = 20261205, shapes: TruthProfile[] = ["walsh-watterson", "elliptical-crack", "linear", "parabolic", "flat-topped"]): TruthFault[] {
+export function truthBattery(
+  count = 60,
+  seed = 20261205,
+  shapes: TruthProfile[] = ["walsh-watterson", "elliptical-crack", "linear", "parabolic", "flat-topped"],
+): TruthFault[] {
   const rand = xorshift(seed);
   const out: TruthFault[] = [];
   for (let k = 0; k < count; k++) {

@@ -32,7 +32,13 @@ const within = (value: number, [low, high]: [number, number | null]) => low <= v
 function enclosesEveryPick(segment: SegmentResult, picks: PickColumns, polygon: [number, number][]): boolean {
   const ids = Uint32Array.from({ length: picks.x.length }, (_, i) => i);
   const plane = fitPlane(picks.x, picks.y, picks.z, ids);
-  const { s, t } = projectToPlane(picks.x, picks.y, picks.z, { ...plane, centroid: segment.plane.centroid, strikeVector: segment.plane.strikeVector, dipVector: segment.plane.dipVector, normal: segment.plane.normal }, ids);
+  const { s, t } = projectToPlane(
+    picks.x,
+    picks.y,
+    picks.z,
+    { ...plane, centroid: segment.plane.centroid, strikeVector: segment.plane.strikeVector, dipVector: segment.plane.dipVector, normal: segment.plane.normal },
+    ids,
+  );
   const ps = polygon.map((p) => p[0]);
   const pt = polygon.map((p) => p[1]);
   for (let i = 0; i < s.length; i++) if (!insidePolygon(ps, pt, s[i], t[i])) return false;
@@ -53,7 +59,9 @@ describe("inferred tip line on 60 synthetic faults: five profile shapes, aspect 
   });
 
   it("puts the true length and height inside the reported 5–95 % ranges on at least 90 % of the faults", () => {
-    const inside = outcomes.filter(({ fault, segment }) => within(truthLength(fault), segment.tipLine.lengthRangeM) && within(truthHeight(fault), segment.tipLine.heightRangeM));
+    const inside = outcomes.filter(
+      ({ fault, segment }) => within(truthLength(fault), segment.tipLine.lengthRangeM) && within(truthHeight(fault), segment.tipLine.heightRangeM),
+    );
     expect(inside.length / outcomes.length).toBeGreaterThanOrEqual(0.9);
   });
 
@@ -76,7 +84,8 @@ describe("inferred tip line on 60 synthetic faults: five profile shapes, aspect 
 
   it("never puts a tip line inside the data: every pick lies inside the central, inner and outer lines", () => {
     for (const { segment, picks } of outcomes) {
-      for (const polygon of [segment.tipLine.polygon, segment.tipLine.innerPolygon, segment.tipLine.outerPolygon]) expect(enclosesEveryPick(segment, picks, polygon)).toBe(true);
+      for (const polygon of [segment.tipLine.polygon, segment.tipLine.innerPolygon, segment.tipLine.outerPolygon])
+        expect(enclosesEveryPick(segment, picks, polygon)).toBe(true);
     }
   });
 
@@ -145,9 +154,11 @@ describe("tip lines that are not ellipses (boxy superellipses, as on layer-bound
       // the corner direction toward strike end / down dip, from the fitted centre
       const angle = Math.atan2(fault.reach.downDipM, fault.reach.strikeEndM);
       let inferred = 0;
-      for (const [s, t] of tip.polygon) if (Math.abs(Math.atan2(t - tip.centre.t, s - tip.centre.s) - angle) < 0.03) inferred = Math.hypot(s - tip.centre.s, t - tip.centre.t);
+      for (const [s, t] of tip.polygon)
+        if (Math.abs(Math.atan2(t - tip.centre.t, s - tip.centre.s) - angle) < 0.03) inferred = Math.hypot(s - tip.centre.s, t - tip.centre.t);
       // truth radius along that direction: where truthRadius reaches 1 (bisection)
-      let lo = 0, hi = 10 * Math.max(fault.reach.strikeEndM, fault.reach.downDipM);
+      let lo = 0,
+        hi = 10 * Math.max(fault.reach.strikeEndM, fault.reach.downDipM);
       for (let k = 0; k < 60; k++) {
         const mid = (lo + hi) / 2;
         if (truthRadius(fault, mid * Math.cos(angle), mid * Math.sin(angle)) < 1) lo = mid;
@@ -167,7 +178,7 @@ describe("the interpreter's settings", () => {
     expect(estimated.source).toBe("estimated");
     const sinDip = Math.sin((fault.dipDeg * Math.PI) / 180);
     // the estimate sits at the lowest displacement picked (within noise of the truth's cut-off)
-    expect(Math.abs(estimated.displacementM - fault.throwCutoffM / sinDip)).toBeLessThan(3 * fault.noiseM / sinDip);
+    expect(Math.abs(estimated.displacementM - fault.throwCutoffM / sinDip)).toBeLessThan((3 * fault.noiseM) / sinDip);
     const set = analyzePicks(picks, { throwCutoffM: 2 }).report.segments[0];
     expect(set.tipLine.cutoff.source).toBe("set");
     // the throw cut-off becomes displacement by the picks' median displacement per metre of throw, 1 / sin(local dip):
@@ -214,7 +225,12 @@ describe("property: whatever the fault, the tip lines enclose every pick (common
           const dmaxM = 100;
           const fault: TruthFault = {
             profile: c.profile,
-            reach: { strikeStartM: c.halfLength * (1 - c.skew), strikeEndM: c.halfLength * (1 + c.skew), upDipM: c.halfLength / c.aspect, downDipM: c.halfLength / c.aspect },
+            reach: {
+              strikeStartM: c.halfLength * (1 - c.skew),
+              strikeEndM: c.halfLength * (1 + c.skew),
+              upDipM: c.halfLength / c.aspect,
+              downDipM: c.halfLength / c.aspect,
+            },
             dmaxM,
             strikeDeg: 40,
             dipDeg: 60,

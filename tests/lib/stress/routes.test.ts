@@ -101,7 +101,11 @@ describe("stress state: validation, versions, study default", () => {
 
   it("falls back to the study default, then saves fault versions with who, when and source", async () => {
     signInAs(fixture.people.owner);
-    const studyWide = await callRoute(stressRoute.POST, { method: "POST", params: { faultId: fixture.fault.id }, body: { ...normalState, studyWide: true, source: "regional compilation" } });
+    const studyWide = await callRoute(stressRoute.POST, {
+      method: "POST",
+      params: { faultId: fixture.fault.id },
+      body: { ...normalState, studyWide: true, source: "regional compilation" },
+    });
     expect(studyWide.json).toMatchObject({ version: 1, scope: "study" });
     let view = await callRoute(stressRoute.GET, { params: { faultId: fixture.fault.id } });
     expect(view.json.current).toMatchObject({ scope: "study", version: 1, source: "regional compilation" });
@@ -196,7 +200,9 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
   it("exports one CSV row per screened triangle with the documented header", async () => {
     signInAs(fixture.people.reviewer);
     const result = await callRoute(resultRoute.GET, { params: { faultId: fixture.fault.id } });
-    const response = await exportRoute.GET(new Request("http://localhost:3000/x?format=csv", { headers: { host: "localhost:3000" } }), { params: Promise.resolve({ faultId: fixture.fault.id }) });
+    const response = await exportRoute.GET(new Request("http://localhost:3000/x?format=csv", { headers: { host: "localhost:3000" } }), {
+      params: Promise.resolve({ faultId: fixture.fault.id }),
+    });
     expect(response.headers.get("content-disposition")).toMatch(/attachment; filename="reactivation-screen-v1\.csv"/);
     const lines = (await response.text()).trim().split("\n");
     expect(lines[0]).toMatch(/^# Screening only/);
@@ -216,7 +222,9 @@ describe("stress result and exports on the demo fault QG-1 (two segments)", () =
 
   it("exports valid RFC 7946 GeoJSON triangles with [x, y, z] and the values as properties (checked with @placemarkio/check-geojson)", async () => {
     signInAs(fixture.people.viewer);
-    const response = await exportRoute.GET(new Request("http://localhost:3000/x?format=geojson", { headers: { host: "localhost:3000" } }), { params: Promise.resolve({ faultId: fixture.fault.id }) });
+    const response = await exportRoute.GET(new Request("http://localhost:3000/x?format=geojson", { headers: { host: "localhost:3000" } }), {
+      params: Promise.resolve({ faultId: fixture.fault.id }),
+    });
     const text = await response.text();
     const parsed = check(text);
     expect(parsed.type).toBe("FeatureCollection");

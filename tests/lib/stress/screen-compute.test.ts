@@ -10,9 +10,18 @@ import { computeFaultScreen, type StressScreenJob } from "@/lib/stress/screen-co
 
 describe("the screen from stored results", () => {
   it("gives the same triangles and values with the analysis' stored triangulation as with a fresh one", () => {
-    const parsed = parseUploadedFile({ output: "parse", name: "qg-1.csv", bytes: new TextEncoder().encode(demoCsv("QG-1")), units: "m", dropBadRows: false, encode: true });
+    const parsed = parseUploadedFile({
+      output: "parse",
+      name: "qg-1.csv",
+      bytes: new TextEncoder().encode(demoCsv("QG-1")),
+      units: "m",
+      dropBadRows: false,
+      encode: true,
+    });
     const { report, display, outputs } = computeAnalysis({ picks: parsed.encoded!, units: "m", settings: {} });
-    const grids = Object.fromEntries(decodeFaultDisplay(display).segments.map(({ id, grid }) => [id, { s0: grid.s0, t0: grid.t0, cellM: grid.cellM, columns: grid.columns, rows: grid.rows }]));
+    const grids = Object.fromEntries(
+      decodeFaultDisplay(display).segments.map(({ id, grid }) => [id, { s0: grid.s0, t0: grid.t0, cellM: grid.cellM, columns: grid.columns, rows: grid.rows }]),
+    );
     const job: StressScreenJob = {
       output: "stress",
       picks: parsed.encoded!,

@@ -41,9 +41,19 @@ function singleElement(strikeDeg: number, dipDeg: number, depthM: number, uncert
   const n = planeNormal(strikeDeg, dipDeg);
   const one = (v: number) => Float64Array.of(v);
   return {
-    count: 1, source: new Uint32Array(1), centroidX: one(0), centroidY: one(0), centroidZ: one(-depthM),
-    normalX: one(n[0]), normalY: one(n[1]), normalZ: one(n[2]), areaM2: one(1),
-    orientationUncertaintyDeg: one(uncertaintyDeg), slopeScatterDeg: one(NaN), skippedDegenerate: 0, skippedAboveDatum: 0,
+    count: 1,
+    source: new Uint32Array(1),
+    centroidX: one(0),
+    centroidY: one(0),
+    centroidZ: one(-depthM),
+    normalX: one(n[0]),
+    normalY: one(n[1]),
+    normalZ: one(n[2]),
+    areaM2: one(1),
+    orientationUncertaintyDeg: one(uncertaintyDeg),
+    slopeScatterDeg: one(NaN),
+    skippedDegenerate: 0,
+    skippedAboveDatum: 0,
   };
 }
 
@@ -71,7 +81,13 @@ describe("screen of a triangulated surface", () => {
   it("both friction ends are computed and the smaller ΔP taken: with 2 MPa cohesion, plane 220/89 at 2.5 km gives 12.61 MPa at μ 0.6 and 11.96 MPa at μ 0.8, so μ 0.8 is critical (docs/check-values.md M9, derived from the Coulomb criterion)", () => {
     // normal preset (Sv 24, SHmax 18, Shmin 14, Pp 10 MPa/km), SHmax at 040: τ = 0.44 MPa < C, so (τ − C)/μ is negative
     // and grows in size as μ falls: the lower μ is the less critical end here
-    const parameters: StressParameters = { ...applyPreset(DEFAULT_STRESS_PARAMETERS, "normal"), maxHorizontalAzimuthDeg: 40, cohesionMPa: 2, frictionLow: 0.6, frictionHigh: 0.8 };
+    const parameters: StressParameters = {
+      ...applyPreset(DEFAULT_STRESS_PARAMETERS, "normal"),
+      maxHorizontalAzimuthDeg: 40,
+      cohesionMPa: 2,
+      frictionLow: 0.6,
+      frictionHigh: 0.8,
+    };
     const screen = screenElements(singleElement(220, 89, 2500), parameters);
     expect(screen.pressureToFailureLowMPa[0]).toBeCloseTo(12.614, 3);
     expect(screen.pressureToFailureHighMPa[0]).toBeCloseTo(11.962, 3);
@@ -196,7 +212,12 @@ describe("screen of a triangulated surface", () => {
 
 const STRIKE_DEG = 30;
 const TOP_DEPTH_M = 2200;
-const screenParameters: StressParameters = { ...applyPreset(DEFAULT_STRESS_PARAMETERS, "normal"), maxHorizontalAzimuthDeg: STRIKE_DEG, frictionLow: 0.6, frictionHigh: 0.8 };
+const screenParameters: StressParameters = {
+  ...applyPreset(DEFAULT_STRESS_PARAMETERS, "normal"),
+  maxHorizontalAzimuthDeg: STRIKE_DEG,
+  frictionLow: 0.6,
+  frictionHigh: 0.8,
+};
 const along = [Math.sin(STRIKE_DEG * RAD), Math.cos(STRIKE_DEG * RAD)];
 const downDip = [Math.sin((STRIKE_DEG + 90) * RAD), Math.cos((STRIKE_DEG + 90) * RAD)];
 
@@ -205,7 +226,9 @@ type DipProfile = (alongM: number, downDipM: number) => number;
 /** World position of the surface point at along-strike distance s and down-dip distance d (1 m integration steps). */
 function columnPoints(dipDeg: DipProfile, s: number, downDipStepsM: number[]): [number, number, number][] {
   const out: [number, number, number][] = [];
-  let h = 0, v = 0, d = 0;
+  let h = 0,
+    v = 0,
+    d = 0;
   for (const target of downDipStepsM) {
     while (d < target - 1e-9) {
       const step = Math.min(1, target - d);
@@ -223,7 +246,9 @@ function syntheticFault(dipDeg: DipProfile, jitterM: number, seed: number) {
   const rand = mulberry32(seed);
   const gaussian = () => Math.sqrt(-2 * Math.log(Math.max(rand(), 1e-12))) * Math.cos(2 * Math.PI * rand());
   const rows = Array.from({ length: 81 }, (_, j) => j * 12.5);
-  const x: number[] = [], y: number[] = [], z: number[] = [];
+  const x: number[] = [],
+    y: number[] = [],
+    z: number[] = [];
   const columns = Array.from({ length: 81 }, (_, i) => columnPoints(dipDeg, i * 25, rows));
   for (let j = 0; j < rows.length; j++) {
     for (let i = 0; i < columns.length; i++) {
@@ -265,7 +290,10 @@ const planar: DipProfile = () => 40;
 const listric: DipProfile = (_s, d) => 45 - (10 * d) / 1000;
 
 describe("pick noise does not make failure (planar and gently curved faults, 1–5 m of jitter)", () => {
-  for (const [name, shape] of [["planar, dip 40°", planar], ["listric, dip 45° → 35°", listric]] as const) {
+  for (const [name, shape] of [
+    ["planar, dip 40°", planar],
+    ["listric, dip 45° → 35°", listric],
+  ] as const) {
     const truth = trueMinimumDeltaP(shape);
     for (const jitterM of [1, 5]) {
       it(`${name}, ${jitterM} m jitter: no false failing area, minimum ΔP within 0.3 MPa of the noise-free ${truth.toFixed(2)} MPa`, () => {
@@ -296,20 +324,39 @@ describe("pick noise does not make failure (planar and gently curved faults, 1�
 
   it("a truly critically oriented patch is still found: dip 60° over 600 m × 300 m of a 40° fault, with 5 m jitter", () => {
     const bump = (value: number, from: number, to: number, taper: number) =>
-      value < from - taper || value > to + taper ? 0 : value < from ? 0.5 * (1 - Math.cos((Math.PI * (value - from + taper)) / taper)) : value > to ? 0.5 * (1 + Math.cos((Math.PI * (value - to)) / taper)) : 1;
+      value < from - taper || value > to + taper
+        ? 0
+        : value < from
+          ? 0.5 * (1 - Math.cos((Math.PI * (value - from + taper)) / taper))
+          : value > to
+            ? 0.5 * (1 + Math.cos((Math.PI * (value - to)) / taper))
+            : 1;
     const patch: DipProfile = (s, d) => 40 + 20 * bump(s, 700, 1300, 200) * bump(d, 350, 650, 150);
     // truth on 10 m × 10 m cells of the parametric surface, normals by cross product of 1 m differences
-    let trueArea = 0, trueFailing = 0;
+    let trueArea = 0,
+      trueFailing = 0;
     const steps = Array.from({ length: 100 }, (_, k) => k * 10 + 5);
     for (let s = 5; s < 2000; s += 10) {
-      const here = columnPoints(patch, s, steps.flatMap((d) => [d, d + 1]));
+      const here = columnPoints(
+        patch,
+        s,
+        steps.flatMap((d) => [d, d + 1]),
+      );
       const beside = columnPoints(patch, s + 1, steps);
       steps.forEach((_, k) => {
-        const p = here[2 * k], q = here[2 * k + 1], r = beside[k];
-        const u = [r[0] - p[0], r[1] - p[1], r[2] - p[2]], v = [q[0] - p[0], q[1] - p[1], q[2] - p[2]];
+        const p = here[2 * k],
+          q = here[2 * k + 1],
+          r = beside[k];
+        const u = [r[0] - p[0], r[1] - p[1], r[2] - p[2]],
+          v = [q[0] - p[0], q[1] - p[1], q[2] - p[2]];
         const n = [u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2], u[0] * v[1] - u[1] * v[0]];
         const length = Math.hypot(n[0], n[1], n[2]) * Math.sign(n[2]);
-        const element: ScreenElements = { ...singleElement(0, 0, -p[2]), normalX: Float64Array.of(n[0] / length), normalY: Float64Array.of(n[1] / length), normalZ: Float64Array.of(n[2] / length) };
+        const element: ScreenElements = {
+          ...singleElement(0, 0, -p[2]),
+          normalX: Float64Array.of(n[0] / length),
+          normalY: Float64Array.of(n[1] / length),
+          normalZ: Float64Array.of(n[2] / length),
+        };
         const area = Math.abs(length) * 100;
         trueArea += area;
         if (screenElements(element, screenParameters).pressureToFailureCriticalMPa[0] < 0) trueFailing += area;

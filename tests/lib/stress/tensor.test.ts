@@ -89,11 +89,15 @@ describe("Cauchy traction on a plane (docs/check-values.md M1–M8, derived)", (
 
   it("Ts_max′ = 0.66815 analytically and on a grid of planes near dip 62° (M8)", () => {
     expect(Math.abs(maxSlipTendency(35, 10) - 0.66815)).toBeLessThan(1e-3);
-    let best = 0, bestDip = 0;
+    let best = 0,
+      bestDip = 0;
     for (let dip = 0; dip <= 90; dip += 0.1) {
       const { normalMPa, shearMPa } = stressOnPlane(exampleTensor, planeNormal(0, dip));
       const ts = slipTendency(shearMPa, normalMPa - 25);
-      if (ts > best) { best = ts; bestDip = dip; }
+      if (ts > best) {
+        best = ts;
+        bestDip = dip;
+      }
     }
     expect(Math.abs(best - 0.66814)).toBeLessThan(1e-3);
     expect(Math.abs(bestDip - 62)).toBeLessThan(1);
@@ -110,9 +114,24 @@ describe("Cauchy traction on a plane (docs/check-values.md M1–M8, derived)", (
 
 describe("regime presets follow Andersonian ordering (Anderson 1951, from memory)", () => {
   it.each([
-    ["normal", (s: ReturnType<typeof stressesAtDepth>) => s.verticalMPa >= s.maxHorizontalMPa && s.maxHorizontalMPa >= s.minHorizontalMPa, "verticalMPa", "minHorizontalMPa"],
-    ["strike-slip", (s: ReturnType<typeof stressesAtDepth>) => s.maxHorizontalMPa >= s.verticalMPa && s.verticalMPa >= s.minHorizontalMPa, "maxHorizontalMPa", "minHorizontalMPa"],
-    ["reverse", (s: ReturnType<typeof stressesAtDepth>) => s.maxHorizontalMPa >= s.minHorizontalMPa && s.minHorizontalMPa >= s.verticalMPa, "maxHorizontalMPa", "verticalMPa"],
+    [
+      "normal",
+      (s: ReturnType<typeof stressesAtDepth>) => s.verticalMPa >= s.maxHorizontalMPa && s.maxHorizontalMPa >= s.minHorizontalMPa,
+      "verticalMPa",
+      "minHorizontalMPa",
+    ],
+    [
+      "strike-slip",
+      (s: ReturnType<typeof stressesAtDepth>) => s.maxHorizontalMPa >= s.verticalMPa && s.verticalMPa >= s.minHorizontalMPa,
+      "maxHorizontalMPa",
+      "minHorizontalMPa",
+    ],
+    [
+      "reverse",
+      (s: ReturnType<typeof stressesAtDepth>) => s.maxHorizontalMPa >= s.minHorizontalMPa && s.minHorizontalMPa >= s.verticalMPa,
+      "maxHorizontalMPa",
+      "verticalMPa",
+    ],
   ] as const)("%s: σ1 and σ3 are the expected axes at every depth, and the preset validates", (regime, ordered, sigma1Axis, sigma3Axis) => {
     const parameters = applyPreset(DEFAULT_STRESS_PARAMETERS, regime);
     expect(stressParametersSchema.safeParse(parameters).success).toBe(true);
@@ -191,13 +210,20 @@ describe("invariants (common practice, no source)", () => {
 
   it("raising pore pressure by δ lowers ΔP to failure by exactly δ, for any μ and C", () => {
     fc.assert(
-      fc.property(state, unit, fc.double({ min: 0, max: 20, noNaN: true }), fc.double({ min: 0.1, max: 1.2, noNaN: true }), fc.double({ min: 0, max: 10, noNaN: true }), (s, n, delta, mu, cohesion) => {
-        const { normalMPa, shearMPa } = stressOnPlane(stressTensorENU(s, s.azimuthDeg), n);
-        const pp = s.porePressureMPa * Math.min(s.verticalMPa, s.maxHorizontalMPa, s.minHorizontalMPa);
-        const before = pressureToFailure(shearMPa, normalMPa - pp, mu, cohesion);
-        const after = pressureToFailure(shearMPa, normalMPa - (pp + delta), mu, cohesion);
-        expect(before - after).toBeCloseTo(delta, 9);
-      }),
+      fc.property(
+        state,
+        unit,
+        fc.double({ min: 0, max: 20, noNaN: true }),
+        fc.double({ min: 0.1, max: 1.2, noNaN: true }),
+        fc.double({ min: 0, max: 10, noNaN: true }),
+        (s, n, delta, mu, cohesion) => {
+          const { normalMPa, shearMPa } = stressOnPlane(stressTensorENU(s, s.azimuthDeg), n);
+          const pp = s.porePressureMPa * Math.min(s.verticalMPa, s.maxHorizontalMPa, s.minHorizontalMPa);
+          const before = pressureToFailure(shearMPa, normalMPa - pp, mu, cohesion);
+          const after = pressureToFailure(shearMPa, normalMPa - (pp + delta), mu, cohesion);
+          expect(before - after).toBeCloseTo(delta, 9);
+        },
+      ),
     );
   });
 
@@ -205,7 +231,12 @@ describe("invariants (common practice, no source)", () => {
     fc.assert(
       fc.property(state, unit, fc.double({ min: 0.01, max: 100, noNaN: true }), (s, n, k) => {
         const pp = s.porePressureMPa * Math.min(s.verticalMPa, s.maxHorizontalMPa, s.minHorizontalMPa);
-        const scaled = { verticalMPa: k * s.verticalMPa, maxHorizontalMPa: k * s.maxHorizontalMPa, minHorizontalMPa: k * s.minHorizontalMPa, porePressureMPa: k * pp };
+        const scaled = {
+          verticalMPa: k * s.verticalMPa,
+          maxHorizontalMPa: k * s.maxHorizontalMPa,
+          minHorizontalMPa: k * s.minHorizontalMPa,
+          porePressureMPa: k * pp,
+        };
         const a = stressOnPlane(stressTensorENU(s, s.azimuthDeg), n);
         const b = stressOnPlane(stressTensorENU(scaled, s.azimuthDeg), n);
         const [s1, , s3] = orderedPrincipal(s);
@@ -231,7 +262,18 @@ describe("invariants (common practice, no source)", () => {
   });
 
   it("tensorFromPrincipal with the identity frame gives the diagonal", () => {
-    expect(Array.from(tensorFromPrincipal([3, 2, 1], [[1, 0, 0], [0, 1, 0], [0, 0, 1]]))).toEqual([3, 0, 0, 0, 2, 0, 0, 0, 1]);
+    expect(
+      Array.from(
+        tensorFromPrincipal(
+          [3, 2, 1],
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+        ),
+      ),
+    ).toEqual([3, 0, 0, 0, 2, 0, 0, 0, 1]);
   });
 });
 
@@ -243,17 +285,31 @@ describe("per-triangle screen against an independent numpy implementation", () =
     const y = Float64Array.from({ length: n }, () => rand() * 2000);
     const z = Float64Array.from({ length: n }, () => -500 - rand() * 3000);
     const triangles = Uint32Array.from({ length: n }, (_, i) => i);
-    const parameters: StressParameters = { ...applyPreset(DEFAULT_STRESS_PARAMETERS, "strike-slip"), maxHorizontalAzimuthDeg: 37, cohesionMPa: 1.5, frictionLow: 0.55, frictionHigh: 0.85 };
+    const parameters: StressParameters = {
+      ...applyPreset(DEFAULT_STRESS_PARAMETERS, "strike-slip"),
+      maxHorizontalAzimuthDeg: 37,
+      cohesionMPa: 1.5,
+      frictionLow: 0.55,
+      frictionHigh: 0.85,
+    };
     const screen = screenElements(rawTriangleElements({ x, y, z, triangles }, 0), parameters);
     expect(screen.count).toBe(500);
     const ref = runPythonOracle<{ sigmaN: number; tau: number; ts: number; td: number; dpLow: number; dpHigh: number }[]>(
       path.join(__dirname, "stress_oracle.py"),
       { parameters, points: Array.from(x, (v, i) => [v, y[i], z[i]]), triangles: Array.from(triangles) },
     );
-    let worstStress = 0, worstRatio = 0, higherFrictionCritical = 0;
+    let worstStress = 0,
+      worstRatio = 0,
+      higherFrictionCritical = 0;
     for (let i = 0; i < screen.count; i++) {
       const r = ref[screen.source[i]];
-      worstStress = Math.max(worstStress, Math.abs(screen.normalMPa[i] - r.sigmaN), Math.abs(screen.shearMPa[i] - r.tau), Math.abs(screen.pressureToFailureLowMPa[i] - r.dpLow), Math.abs(screen.pressureToFailureHighMPa[i] - r.dpHigh));
+      worstStress = Math.max(
+        worstStress,
+        Math.abs(screen.normalMPa[i] - r.sigmaN),
+        Math.abs(screen.shearMPa[i] - r.tau),
+        Math.abs(screen.pressureToFailureLowMPa[i] - r.dpLow),
+        Math.abs(screen.pressureToFailureHighMPa[i] - r.dpHigh),
+      );
       // the more critical end of the band is whichever ΔP is smaller, per triangle
       worstStress = Math.max(worstStress, Math.abs(screen.pressureToFailureCriticalMPa[i] - Math.min(r.dpLow, r.dpHigh)));
       if (r.dpHigh < r.dpLow) higherFrictionCritical++;

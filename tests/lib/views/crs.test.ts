@@ -8,7 +8,9 @@ describe("a study's coordinate reference", () => {
     const reference = checkCoordinateReference({ epsg: 32631, verticalEpsg: 5714 });
     expect(reference.horizontal).toMatchObject({ epsg: 32631, name: "WGS 84 / UTM zone 31N", unit: "metre" });
     expect(reference.vertical).toEqual({ epsg: 5714, name: "MSL height", unit: "metre" });
-    expect(describeCoordinateReference(reference)).toBe("EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up");
+    expect(describeCoordinateReference(reference)).toBe(
+      "EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up",
+    );
     // UTM zone 31N by definition: false easting 500 km on the central meridian 3° E, false northing 0 on the equator
     // (the UTM system's own definition, e.g. Snyder 1987, Map Projections: A Working Manual)
     const [lon, lat] = toLongitudeLatitude(reference, 500_000, 0);

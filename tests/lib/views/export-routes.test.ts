@@ -75,7 +75,19 @@ describe("export routes: session, view role, content", () => {
     signInAs(fixture.people.viewer);
     const grid = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "grid.csv" } });
     expect(grid.status).toBe(200);
-    expect(readCsv(grid.json as unknown as string).header).toEqual(["segment", "s", "t", "x", "y", "z", "displacement", "throw", "offset", "local_dip", "local_strike"]);
+    expect(readCsv(grid.json as unknown as string).header).toEqual([
+      "segment",
+      "s",
+      "t",
+      "x",
+      "y",
+      "z",
+      "displacement",
+      "throw",
+      "offset",
+      "local_dip",
+      "local_strike",
+    ]);
     const picks = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "picks.csv" } });
     expect(readCsv(picks.json as unknown as string).rows.length).toBe(parsePickCsv(demoCsv("QG-4")).accepted);
     const scaling = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "scaling.json" } });
@@ -89,13 +101,23 @@ describe("export routes: session, view role, content", () => {
     expect(wrong.status).toBe(400);
     expect(wrong.json.error).toContain("EPSG:4326 (WGS 84) is a geographic (longitude/latitude) system");
     expect(wrong.json.details.fieldErrors["coordinateReference.epsg"]).toHaveLength(1);
-    const depth = await callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id }, body: { coordinateReference: { epsg: 32631, verticalEpsg: 5715 } } });
+    const depth = await callRoute(studyRoute.PATCH, {
+      method: "PATCH",
+      params: { studyId: fixture.study.id },
+      body: { coordinateReference: { epsg: 32631, verticalEpsg: 5715 } },
+    });
     expect(depth.status).toBe(400);
     expect(depth.json.error).toContain("measures depth (positive down)");
     signInAs(fixture.people.interpreter);
-    expect((await callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id }, body: { coordinateReference: { epsg: 32631 } } })).status).toBe(403);
+    expect(
+      (await callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id }, body: { coordinateReference: { epsg: 32631 } } })).status,
+    ).toBe(403);
     signInAs(fixture.people.owner);
-    const set = await callRoute(studyRoute.PATCH, { method: "PATCH", params: { studyId: fixture.study.id }, body: { coordinateReference: { epsg: 32631, verticalEpsg: 5714 } } });
+    const set = await callRoute(studyRoute.PATCH, {
+      method: "PATCH",
+      params: { studyId: fixture.study.id },
+      body: { coordinateReference: { epsg: 32631, verticalEpsg: 5714 } },
+    });
     expect(set.status).toBe(200);
     expect(set.json.study.coordinateReference.horizontal).toMatchObject({ epsg: 32631, name: "WGS 84 / UTM zone 31N" });
 
@@ -103,11 +125,16 @@ describe("export routes: session, view role, content", () => {
     const geo = await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "contours.geojson" } });
     expect(geo.json.crs).toEqual({ type: "name", properties: { name: "urn:ogc:def:crs:EPSG::32631" } });
     const grid = (await callRoute(exportRoute.GET, { params: { faultId: fixture.fault.id, kind: "grid.csv" } })).json as unknown as string;
-    expect(grid.split("\n")[0]).toBe("# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up");
+    expect(grid.split("\n")[0]).toBe(
+      "# coordinate reference: EPSG:32631 (WGS 84 / UTM zone 31N), metres; z elevation above EPSG:5714 (MSL height), metres, positive up",
+    );
     // the 3D model as bytes: a valid glTF 2.0 binary whose extras state the reference
-    const response = await exportRoute.GET(new Request(`http://localhost:3000/api/faults/${fixture.fault.id}/export/surface.glb`, { headers: { host: "localhost:3000" } }), {
-      params: Promise.resolve({ faultId: fixture.fault.id, kind: "surface.glb" }),
-    });
+    const response = await exportRoute.GET(
+      new Request(`http://localhost:3000/api/faults/${fixture.fault.id}/export/surface.glb`, { headers: { host: "localhost:3000" } }),
+      {
+        params: Promise.resolve({ faultId: fixture.fault.id, kind: "surface.glb" }),
+      },
+    );
     expect(response.status).toBe(200);
     expect(response.headers.get("content-type")).toBe("model/gltf-binary");
     const bytes = new Uint8Array(await response.arrayBuffer());

@@ -43,7 +43,10 @@ describe("GeoJSON export (validated with @placemarkio/check-geojson, an RFC 7946
 describe("CSV exports round trip", () => {
   it("writes and reads back numbers exactly, NaN as empty, text quoted", () => {
     const values = [Math.PI, -1e-9, 123456789.123, NaN, 0.1 + 0.2];
-    const text = toCsv(["name", "value"], values.map((v, i) => [i === 2 ? 'a "quoted", name' : `n${i}`, v]));
+    const text = toCsv(
+      ["name", "value"],
+      values.map((v, i) => [i === 2 ? 'a "quoted", name' : `n${i}`, v]),
+    );
     const table = readCsv(text);
     expect(table.header).toEqual(["name", "value"]);
     expect(table.rows[2][0]).toBe('a "quoted", name');

@@ -8,7 +8,10 @@ import { LISTRIC, curvedFaultPicks } from "../engine/curved-faults";
 
 // The Khronos glTF-Validator (the `gltf-validator` package, compiled from the reference validator) checks the file
 const validator = createRequire(import.meta.url)("gltf-validator") as {
-  validateBytes(data: Uint8Array, options?: { maxIssues?: number }): Promise<{ issues: { numErrors: number; numWarnings: number; messages: { code: string; message: string; severity: number; pointer?: string }[] } }>;
+  validateBytes(
+    data: Uint8Array,
+    options?: { maxIssues?: number },
+  ): Promise<{ issues: { numErrors: number; numWarnings: number; messages: { code: string; message: string; severity: number; pointer?: string }[] } }>;
 };
 
 function readGlb(bytes: Uint8Array) {
@@ -24,7 +27,11 @@ describe("glTF 2.0 export of the displacement surface", () => {
   const result = analyzePicks(picks);
   const display = buildFaultDisplay({ ...result, picks, maxCells: 192 });
   const reference = checkCoordinateReference({ epsg: 32631, verticalEpsg: 5714 });
-  const bytes = faultGltf(display, { faultName: "listric test", coordinateReference: reference, originLongitudeLatitude: toLongitudeLatitude(reference, display.origin[0], display.origin[1]) });
+  const bytes = faultGltf(display, {
+    faultName: "listric test",
+    coordinateReference: reference,
+    originLongitudeLatitude: toLongitudeLatitude(reference, display.origin[0], display.origin[1]),
+  });
 
   it("passes the Khronos glTF validator with no errors and no warnings", async () => {
     const report = await validator.validateBytes(bytes, { maxIssues: 50 });
@@ -53,7 +60,9 @@ describe("glTF 2.0 export of the displacement surface", () => {
     const positions = new Float32Array(bin.buffer.slice(view.byteOffset, view.byteOffset + view.byteLength));
     let largest = 0;
     for (let i = 0; i < accessor.count; i++) {
-      const x = positions[3 * i] + east, y = -positions[3 * i + 2] + north, z = positions[3 * i + 1] + up;
+      const x = positions[3 * i] + east,
+        y = -positions[3 * i + 2] + north,
+        z = positions[3 * i + 1] + up;
       const { centroid, normal } = segment.plane;
       largest = Math.max(largest, Math.abs((x - centroid[0]) * normal[0] + (y - centroid[1]) * normal[1] + (z - centroid[2]) * normal[2]));
     }

@@ -63,7 +63,10 @@ describe("hw_thickness / fw_thickness columns reach the growth view", () => {
     const lines = ["x,y,z,throw,horizon,hw_thickness,fw_thickness"];
     // a plane striking north, dipping east at 45°: two horizons, the upper interval thickened in the hanging wall
     for (let i = 0; i < 6; i++)
-      for (const [h, z, th, hw, fw] of [["H1", -100, 20, 150, 100], ["H2", -300, 60, 80, 80]] as const) {
+      for (const [h, z, th, hw, fw] of [
+        ["H1", -100, 20, 150, 100],
+        ["H2", -300, 60, 80, 80],
+      ] as const) {
         lines.push(`${-z + i * 0.01},${i * 100},${z},${th},${h},${hw},${fw}`);
       }
     const parsed = parsePickCsv(lines.join("\n"));

@@ -22,7 +22,10 @@ describe("label placement", () => {
       bounds,
     );
     expect(overlap(placed[0].box, placed[1].box)).toBe(false);
-    const markers = [[200, 150], [204, 152]].map(([x, y]) => ({ x0: x - 5, y0: y - 5, x1: x + 5, y1: y + 5 }));
+    const markers = [
+      [200, 150],
+      [204, 152],
+    ].map(([x, y]) => ({ x0: x - 5, y0: y - 5, x1: x + 5, y1: y + 5 }));
     for (const label of placed) for (const marker of markers) expect(overlap(label.box, marker)).toBe(false);
     expect(placed.every((label) => !label.overlaps)).toBe(true);
   });

@@ -18,7 +18,8 @@ import { demoCsv } from "@/lib/demo";
 
 /** A plane field D = 2 + 0.5·s + 0.25·t on a 5×4 grid (s0 = 0, t0 = 100, cell 10 m), one hole (NaN); throw = D·sin 60°. */
 function planeGrid(): GridLike {
-  const columns = 5, rows = 4;
+  const columns = 5,
+    rows = 4;
   const d = new Float64Array(columns * rows);
   const th = new Float64Array(columns * rows);
   for (let r = 0; r < rows; r++)
@@ -115,7 +116,10 @@ describe("summing segment profiles across a relay (displacement transfer; Dawers
     const sum = sumProfiles(profiles, 300);
     const peak = Math.max(...sum.displacementM.filter(Number.isFinite));
     // the sum never falls below either segment's own profile
-    for (const p of profiles) for (let k = 0; k < sum.u.length; k += 10) if (Number.isFinite(sum.displacementM[k])) expect(sum.displacementM[k] + 1e-9).toBeGreaterThanOrEqual(interpolateOrZero(p.u, p.displacementM, sum.u[k]));
+    for (const p of profiles)
+      for (let k = 0; k < sum.u.length; k += 10)
+        if (Number.isFinite(sum.displacementM[k]))
+          expect(sum.displacementM[k] + 1e-9).toBeGreaterThanOrEqual(interpolateOrZero(p.u, p.displacementM, sum.u[k]));
     // the sum of non-negative profiles peaks at least at the larger segment's own peak (the column maxima of its grid,
     // whose top is the segment's Dmax up to the 300-sample resampling) and at most at the two peaks added
     const [dA, dB] = report.segments.map((seg) => seg.max.displacementM);

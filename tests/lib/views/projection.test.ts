@@ -8,9 +8,35 @@ function segment(id: string, centroid: [number, number, number]) {
   return {
     id,
     plane: { strikeDeg: 0, dipDeg: 90, dipDirectionDeg: 90, rmsM: 0, centroid, strikeVector: [0, 1, 0], dipVector: [0, 0, -1], normal: [1, 0, 0] },
-    contours: [{ levelM: 10, rings: [[[0, 0], [100, 0], [100, 50], [0, 0]]] }],
-    tipLine: { polygon: [[-200, -100], [200, -100], [200, 100], [-200, 100]] },
-    mappedLimit: { polygon: [[-150, -80], [150, -80], [150, 80], [-150, -80]] },
+    contours: [
+      {
+        levelM: 10,
+        rings: [
+          [
+            [0, 0],
+            [100, 0],
+            [100, 50],
+            [0, 0],
+          ],
+        ],
+      },
+    ],
+    tipLine: {
+      polygon: [
+        [-200, -100],
+        [200, -100],
+        [200, 100],
+        [-200, 100],
+      ],
+    },
+    mappedLimit: {
+      polygon: [
+        [-150, -80],
+        [150, -80],
+        [150, 80],
+        [-150, -80],
+      ],
+    },
     max: { s: 10, t: 20, displacementM: 42 },
   };
 }
@@ -22,9 +48,19 @@ describe("strike projection of a fault's segments", () => {
   it("puts every segment on one along-strike axis and depth", () => {
     expect(projection.strikeAzimuthDeg).toBeCloseTo(0, 9);
     const north = projection.contours.filter((row) => row.segment === "north").map(({ u, depthM }) => [u, depthM]);
-    expect(north).toEqual([[0, 2000], [100, 2000], [100, 2050], [0, 2000]]);
+    expect(north).toEqual([
+      [0, 2000],
+      [100, 2000],
+      [100, 2050],
+      [0, 2000],
+    ]);
     const south = projection.contours.filter((row) => row.segment === "south").map(({ u, depthM }) => [u, depthM]);
-    expect(south).toEqual([[-500, 2100], [-400, 2100], [-400, 2150], [-500, 2100]]);
+    expect(south).toEqual([
+      [-500, 2100],
+      [-400, 2100],
+      [-400, 2150],
+      [-500, 2100],
+    ]);
     expect(projection.peaks).toEqual([
       { u: 10, depthM: 2020, segment: "north", displacementM: 42 },
       { u: -490, depthM: 2120, segment: "south", displacementM: 42 },

@@ -19,7 +19,10 @@ function mulberry32(seed: number) {
 describe("D–L power-law fits", () => {
   it("recovers an exact power law D = 0.02 L^1.2 (docs/check-values.md S2, derived)", () => {
     const L = [10, 100, 1000, 10000];
-    const fit = fitPowerLaw(L, L.map((l) => 0.02 * l ** 1.2))!;
+    const fit = fitPowerLaw(
+      L,
+      L.map((l) => 0.02 * l ** 1.2),
+    )!;
     expect(fit.ols.n).toBeCloseTo(1.2, 9);
     expect(fit.ols.c / 0.02).toBeCloseTo(1, 9);
     expect(fit.rma.n).toBeCloseTo(1.2, 9);
@@ -120,7 +123,10 @@ describe("D–L power-law fits", () => {
     for (let k = 0; k < trials; k++) {
       const x = Array.from({ length: 5 }, normal);
       const y = x.map((v) => 0.8 * (rho * v + Math.sqrt(1 - rho * rho) * normal()));
-      const fit = fitPowerLaw(x.map((v) => 10 ** v), y.map((v) => 10 ** v))!;
+      const fit = fitPowerLaw(
+        x.map((v) => 10 ** v),
+        y.map((v) => 10 ** v),
+      )!;
       // the published interval takes the sign of the relation from r; the test it inverts cannot tell β from −β, so
       // its exact statement is about the slope with the sign of r (a D–L slope is positive by nature)
       const truth = Math.sign(fit.r) * 0.8;

@@ -12,7 +12,13 @@ const SIN60 = Math.sin(Math.PI / 3);
 const summary = deriveFromCutoffs(
   parseCutoffCsv(
     cutoffCsv(
-      ([["H1", -1000], ["H2", -1020], ["H3", -1050]] as const).flatMap(([horizon, z]) => [
+      (
+        [
+          ["H1", -1000],
+          ["H2", -1020],
+          ["H3", -1050],
+        ] as const
+      ).flatMap(([horizon, z]) => [
         { horizon, wall: "fw" as const, points: alongStrike(0, 1000, 11, () => z) },
         { horizon, wall: "hw" as const, points: alongStrike(0, 1000, 11, () => z - 50) },
       ]),
@@ -35,8 +41,32 @@ function surface(): FaultDisplay {
   return {
     version: 1,
     origin: [...frame.centroid],
-    segments: [{ id: "main", frame: { centroid: [0, 0, 0], strikeVector: frame.strikeVector, dipVector: frame.dipVector, normal: frame.normal, strikeDeg: frame.strikeDeg, dipDeg: frame.dipDeg }, grid, contours: { intervalM: 10, levelsM: [], points: new Float32Array(0), ringStarts: new Uint32Array(1), ringLevelIndex: new Uint16Array(0) }, tipLine: [], mappedLimit: [], max: { displacementM: 0, throwM: 0, s: 0, t: 0 } }],
-    picks: { count: 0, totalCount: 0, position: new Float32Array(0), displacementM: new Float32Array(0), residualM: new Float32Array(0), segmentIndex: new Uint16Array(0) },
+    segments: [
+      {
+        id: "main",
+        frame: {
+          centroid: [0, 0, 0],
+          strikeVector: frame.strikeVector,
+          dipVector: frame.dipVector,
+          normal: frame.normal,
+          strikeDeg: frame.strikeDeg,
+          dipDeg: frame.dipDeg,
+        },
+        grid,
+        contours: { intervalM: 10, levelsM: [], points: new Float32Array(0), ringStarts: new Uint32Array(1), ringLevelIndex: new Uint16Array(0) },
+        tipLine: [],
+        mappedLimit: [],
+        max: { displacementM: 0, throwM: 0, s: 0, t: 0 },
+      },
+    ],
+    picks: {
+      count: 0,
+      totalCount: 0,
+      position: new Float32Array(0),
+      displacementM: new Float32Array(0),
+      residualM: new Float32Array(0),
+      segmentIndex: new Uint16Array(0),
+    },
     displacementRangeM: [0, 60],
     throwRangeM: [0, 50],
   };
@@ -47,7 +77,11 @@ describe("SGR on the shown surface, node by node (Yielding, Freeman & Needham 19
     const segment = summary.segments[0];
     expect(traceAt(segment.stationsS, segment.horizons[1].fwZ, 12.5)).toBeCloseTo(-1020, 9);
     const column = footwallColumnAt(segment, units, 0)!;
-    expect(column.map((u) => [Number(u.topZ.toFixed(6)), Number(u.baseZ.toFixed(6))])).toEqual([[-1000, -1020], [-1020, -1050], [-1050, -Infinity]]);
+    expect(column.map((u) => [Number(u.topZ.toFixed(6)), Number(u.baseZ.toFixed(6))])).toEqual([
+      [-1000, -1020],
+      [-1020, -1050],
+      [-1050, -Infinity],
+    ]);
   });
 
   it("at −1050 m the 50 m window holds 20 m of A and 30 m of B: (2 + 24) / 50 = 52 %; at −1070 m (24 + 6) / 50 = 60 %; at −1030 m the window leaves the table's column: no value", () => {
@@ -78,7 +112,11 @@ describe("SGR on the shown surface, node by node (Yielding, Freeman & Needham 19
   });
 
   it("a unit of unknown shale fraction in the window leaves the node without a value", () => {
-    const field = sgrField(surface(), summary, units.map((unit) => (unit.name === "B" ? { ...unit, clayFraction: null } : unit)));
+    const field = sgrField(
+      surface(),
+      summary,
+      units.map((unit) => (unit.name === "B" ? { ...unit, clayFraction: null } : unit)),
+    );
     expect(field.computed).toBe(0);
   });
 });

@@ -9,6 +9,10 @@ export const GET = route<Params>(async (request, { faultId }) => {
   const query = new URL(request.url).searchParams;
   // ?contours=0: the report without contour rings, as the workspace reads it (it draws contours from the display payload)
   // ?analysis=<id>: one run exactly (runs of the same pick set are kept side by side)
-  const body = await latestAnalysisResponseBody(faultId, { pickSetId: query.get("pickSet") ?? undefined, analysisId: query.get("analysis") ?? undefined, contourRings: query.get("contours") !== "0" });
+  const body = await latestAnalysisResponseBody(faultId, {
+    pickSetId: query.get("pickSet") ?? undefined,
+    analysisId: query.get("analysis") ?? undefined,
+    contourRings: query.get("contours") !== "0",
+  });
   return new Response(body, { headers: { "content-type": "application/json" } });
 });

@@ -14,6 +14,13 @@ export default async function FaultPage({ params }: { params: Promise<{ studyId:
   const fault = await getFault(faultId);
   const study = await (await getDb()).query.studies.findFirst({ where: eq(studies.id, studyId), columns: { name: true } });
   return (
-    <FaultWorkspace studyId={studyId} studyName={study?.name ?? "Study"} faultId={faultId} faultName={fault.name} canEdit={roleAllows(access.role, "edit")} role={access.role} />
+    <FaultWorkspace
+      studyId={studyId}
+      studyName={study?.name ?? "Study"}
+      faultId={faultId}
+      faultName={fault.name}
+      canEdit={roleAllows(access.role, "edit")}
+      role={access.role}
+    />
   );
 }

@@ -13,7 +13,10 @@ export const GET = route<Params>(async (request, { faultId }) => {
   const format = query.get("format") ?? "csv";
   if (format !== "csv" && format !== "geojson") throw new ApiError(400, `format must be csv or geojson, not "${format}".`);
   const lengthScaleM = parseLengthScale(query.get("lengthScaleM"));
-  if (Number.isNaN(lengthScaleM)) throw new ApiError(400, `lengthScaleM must be a length in metres between ${LENGTH_SCALE_LIMITS_M[0]} and ${LENGTH_SCALE_LIMITS_M[1]}, e.g. 200.`);
+  if (Number.isNaN(lengthScaleM))
+    throw new ApiError(400, `lengthScaleM must be a length in metres between ${LENGTH_SCALE_LIMITS_M[0]} and ${LENGTH_SCALE_LIMITS_M[1]}, e.g. 200.`);
   const { body, contentType, fileName } = await stressExport(access.studyId, faultId, format, lengthScaleM);
-  return new Response(body, { headers: { "content-type": contentType, "content-disposition": `attachment; filename="${fileName}"`, "cache-control": "private, no-store" } });
+  return new Response(body, {
+    headers: { "content-type": contentType, "content-disposition": `attachment; filename="${fileName}"`, "cache-control": "private, no-store" },
+  });
 });

@@ -14,6 +14,7 @@ export const GET = route<Params>(async (request, { faultId }) => {
   const thresholds = parseThresholds(query.get("thresholds"));
   if (!thresholds) throw new ApiError(400, "thresholds must be up to 10 comma-separated numbers in MPa between −1000 and 1000, e.g. 1,2,5.");
   const lengthScaleM = parseLengthScale(query.get("lengthScaleM"));
-  if (Number.isNaN(lengthScaleM)) throw new ApiError(400, `lengthScaleM must be a length in metres between ${LENGTH_SCALE_LIMITS_M[0]} and ${LENGTH_SCALE_LIMITS_M[1]}, e.g. 200.`);
+  if (Number.isNaN(lengthScaleM))
+    throw new ApiError(400, `lengthScaleM must be a length in metres between ${LENGTH_SCALE_LIMITS_M[0]} and ${LENGTH_SCALE_LIMITS_M[1]}, e.g. 200.`);
   return NextResponse.json(await stressResult(access.studyId, faultId, thresholds, lengthScaleM), { headers: { "cache-control": "private, no-store" } });
 });

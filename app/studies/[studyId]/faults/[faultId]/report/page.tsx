@@ -6,7 +6,13 @@ import { pageFaultAccess } from "@/lib/pages";
 
 export const metadata = { title: "Fault report — Slipfield" };
 
-export default async function FaultReportPage({ params, searchParams }: { params: Promise<{ studyId: string; faultId: string }>; searchParams: Promise<{ analysis?: string }> }) {
+export default async function FaultReportPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ studyId: string; faultId: string }>;
+  searchParams: Promise<{ analysis?: string }>;
+}) {
   const { studyId, faultId } = await params;
   const { analysis } = await searchParams;
   const access = await pageFaultAccess(faultId, `/studies/${studyId}/faults/${faultId}/report`);
@@ -16,7 +22,11 @@ export default async function FaultReportPage({ params, searchParams }: { params
     throw error;
   });
   if (!data) {
-    return <main className="mx-auto max-w-3xl p-8 text-sm" data-testid="report-missing">This fault has no finished analysis yet, so there is no report to print.</main>;
+    return (
+      <main className="mx-auto max-w-3xl p-8 text-sm" data-testid="report-missing">
+        This fault has no finished analysis yet, so there is no report to print.
+      </main>
+    );
   }
   return <FaultReport data={data} />;
 }

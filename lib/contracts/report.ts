@@ -5,18 +5,18 @@
 // null in JSON (see maybeNumber).
 import { z } from "zod";
 import { finite, maybeNumber, planePoint, vec3 } from "./json";
+import { LENGTH_UNITS, PROFILE_MODELS, TIP_END_SIDES } from "./names";
 
-export const LENGTH_UNITS = ["m", "ft"] as const;
+export { LENGTH_UNITS, PROFILE_MODELS, TIP_END_SIDES };
+
 export const lengthUnitSchema = z.enum(LENGTH_UNITS, { error: "Units are m or ft." });
 export type LengthUnit = z.infer<typeof lengthUnitSchema>;
 
 /** The displacement profiles a tip line can be fitted with (lib/engine/profile-models.ts), in the order they are offered. */
-export const PROFILE_MODELS = ["walsh-watterson-1987", "elliptical-crack", "linear", "parabolic", "flat-topped", "flexible"] as const;
 export const profileModelSchema = z.enum(PROFILE_MODELS, { error: `The profile must be one of ${PROFILE_MODELS.join(", ")}` });
 export type ProfileModel = z.infer<typeof profileModelSchema>;
 
 /** The four ends of a fault: along strike towards lower / higher s, and up dip (shallower) / down dip. */
-export const TIP_END_SIDES = ["strike-start", "strike-end", "up-dip", "down-dip"] as const;
 export const tipEndSideSchema = z.enum(TIP_END_SIDES);
 export type TipEndSide = z.infer<typeof tipEndSideSchema>;
 

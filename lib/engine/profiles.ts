@@ -1,6 +1,6 @@
 // Normalised displacement profiles of an isolated fault, r = distance from the maximum / distance to the tip
 // (0 ≤ r ≤ 1). Every profile is 1 at r = 0, falls monotonically and is exactly 0 from r = 1 on.
-import { PROFILE_MODELS } from "@/lib/contracts/report";
+import { PROFILE_MODELS } from "@/lib/contracts/names";
 import type { ProfileModel, TipProfileModel } from "./types";
 
 /** Walsh & Watterson (1987): D = 2·Dmax·(1 − r)·sqrt(((1 + r)/2)² − r²); zero gradient at the tip. */
